@@ -1,0 +1,99 @@
+import Fastify, { type FastifyInstance, type FastifyError } from "fastify";
+import { readFileSync } from "node:fs";
+import { ClientError } from "./errors.js";
+import { buildOpenApi } from "./openapi.js";
+import { renderDocsPage } from "./docs-page.js";
+import type { RouteSpec } from "./route-spec.js";
+import { parseOrThrow } from "./validation.js";
+import { serviceRoutes } from "./routes/service.js";
+import { loadConfig, type Config } from "./config.js";
+
+/** The version from package.json, found from both server/ (tests) and dist/server/ (built). */
+function readPackageVersion(): string {
+  for (const relative of ["../package.json", "../../package.json"]) {
+    try {
+      const pkg = JSON.parse(readFileSync(new URL(relative, import.meta.url), "utf8")) as { name?: string; version: string };
+      if (pkg.name === "antisolar") return pkg.version;
+    } catch {
+      // not at this depth
+    }
+  }
+  return "unknown";
+}
+const packageVersion = readPackageVersion();
+
+export interface AppOptions {
+  config?: Partial<Config>;
+  logger?: boolean;
+}
+
+/** Builds the application; server/main.ts only listens. Tests call buildApp() and inject requests. */
+export async function buildApp(options: AppOptions = {}): Promise<FastifyInstance> {
+  const config = { ...loadConfig(process.env), ...options.config };
+  const app = Fastify({
+    logger: options.logger ? { level: config.logLevel } : false,
+    bodyLimit: config.bodyLimitBytes,
+    genReqId: () => crypto.randomUUID(),
+  });
+
+  const routes: RouteSpec[] = [...serviceRoutes()];
+  const openapi = buildOpenApi(routes, packageVersion);
+  const docsHtml = renderDocsPage(openapi);
+
+  for (const route of routes) {
+    app.route({
+      method: route.method,
+      url: route.url,
+      handler: async (request, reply) => {
+        const body = route.body ? parseOrThrow(route.body, request.body ?? {}, "body") : undefined;
+        const query = route.query ? parseOrThrow(route.query, request.query ?? {}, "query") : undefined;
+        return route.handle({ body, query, request, reply });
+      },
+    });
+  }
+  app.get("/openapi.json", async () => openapi);
+  app.get("/docs", async (_request, reply) => reply.type("text/html; charset=utf-8").send(docsHtml));
+
+  app.setNotFoundHandler((request, reply) => {
+    const err = new ClientError("not-found", `no route ${request.method} ${request.url.split("?")[0]}; see /docs`);
+    reply.status(err.status).send(err.toBody(request.id));
+  });
+
+  app.setErrorHandler((error: FastifyError | ClientError, request, reply) => {
+    if (error instanceof ClientError) {
+      reply.status(error.status).send(error.toBody(request.id));
+      return;
+    }
+    const mapped = mapFastifyError(error as FastifyError);
+    if (mapped) {
+      reply.status(mapped.status).send(mapped.toBody(request.id));
+      return;
+    }
+    request.log.error({ err: error }, "unhandled error");
+    reply.status(500).send({ error: "internal", message: "internal error; report the requestId", requestId: request.id });
+  });
+
+  return app;
+}
+
+function mapFastifyError(error: FastifyError): ClientError | undefined {
+  switch (error.code) {
+    case "FST_ERR_CTP_INVALID_MEDIA_TYPE":
+      return new ClientError("unsupported-media-type", "send the body as application/json", {
+        allowed: "application/json",
+      });
+    case "FST_ERR_CTP_BODY_TOO_LARGE":
+      return new ClientError("body-too-large", "the request body is larger than the limit");
+    case "FST_ERR_CTP_EMPTY_JSON_BODY":
+      return new ClientError("invalid-json", "the body is empty but says it is JSON; send {} for all defaults");
+    case "FST_ERR_CTP_INVALID_JSON_BODY":
+      return new ClientError("invalid-json", `the body is not valid JSON: ${error.message}`);
+  }
+  if (error.statusCode === 400 && /JSON/i.test(error.message)) {
+    return new ClientError("invalid-json", `the body is not valid JSON: ${error.message}`);
+  }
+  if (error.statusCode && error.statusCode >= 400 && error.statusCode < 500) {
+    return new ClientError("invalid-request", error.message);
+  }
+  return undefined;
+}

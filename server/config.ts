@@ -1,0 +1,27 @@
+/** Configuration comes from environment variables only (shared/guide/api.md); defaults are documented in README.md. */
+export interface Config {
+  port: number;
+  host: string;
+  logLevel: string;
+  bodyLimitBytes: number;
+  /** Largest synchronous single-drop request, in Mie terms × angles. */
+  maxTermAngles: number;
+}
+
+function intFrom(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
+  const raw = env[name];
+  if (raw === undefined || raw === "") return fallback;
+  const value = Number(raw);
+  if (!Number.isFinite(value) || value <= 0) throw new Error(`${name} must be a positive number, got '${raw}'`);
+  return value;
+}
+
+export function loadConfig(env: NodeJS.ProcessEnv): Config {
+  return {
+    port: intFrom(env, "PORT", 8080),
+    host: env.HOST || "0.0.0.0",
+    logLevel: env.LOG_LEVEL || "info",
+    bodyLimitBytes: intFrom(env, "BODY_LIMIT_BYTES", 1_048_576),
+    maxTermAngles: intFrom(env, "MAX_TERM_ANGLES", 200_000_000),
+  };
+}

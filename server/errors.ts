@@ -1,0 +1,48 @@
+// The catalogue of errors a client can see: a stable code, a status and the JSON shape of shared/guide/api.md.
+
+export type ErrorCode =
+  | "invalid-request"
+  | "invalid-json"
+  | "unsupported-media-type"
+  | "body-too-large"
+  | "not-found"
+  | "too-costly"
+  | "not-acceptable"
+  | "internal";
+
+const statusByCode: Record<ErrorCode, number> = {
+  "invalid-request": 400,
+  "invalid-json": 400,
+  "unsupported-media-type": 415,
+  "body-too-large": 413,
+  "not-found": 404,
+  "too-costly": 422,
+  "not-acceptable": 406,
+  internal: 500,
+};
+
+export interface ErrorBody {
+  error: ErrorCode;
+  message: string;
+  field?: string;
+  allowed?: string;
+  requestId?: string;
+  [extra: string]: unknown;
+}
+
+/** An error whose message is meant for the client. */
+export class ClientError extends Error {
+  readonly status: number;
+  constructor(
+    readonly code: ErrorCode,
+    message: string,
+    readonly details: { field?: string; allowed?: string; [extra: string]: unknown } = {},
+  ) {
+    super(message);
+    this.status = statusByCode[code];
+  }
+
+  toBody(requestId: string): ErrorBody {
+    return { error: this.code, message: this.message, ...this.details, requestId };
+  }
+}
