@@ -1,8 +1,8 @@
 import { neckelLabs1994 } from "../data/neckel-labs-1994-limb-darkening.js";
 
 // IAU 2015 Resolution B3 nominal solar radius and IAU 2012 Resolution B2 astronomical unit (from memory, CHECKS §2.2).
-const NOMINAL_SOLAR_RADIUS_KM = 695700;
-const ASTRONOMICAL_UNIT_KM = 149597870.7;
+export const NOMINAL_SOLAR_RADIUS_KM = 695700;
+export const ASTRONOMICAL_UNIT_KM = 149597870.7;
 
 /** Mean apparent diameter of the solar disc, 2·asin(R☉/au) ≈ 0.5329°. */
 export const SUN_MEAN_ANGULAR_DIAMETER_DEG = (2 * Math.asin(NOMINAL_SOLAR_RADIUS_KM / ASTRONOMICAL_UNIT_KM) * 180) / Math.PI;

@@ -1,0 +1,103 @@
+// From spectral radiance to colour: CIE XYZ per sample, degree of linear polarisation, an optional polariser,
+// normalisation, and the output space.
+
+import type { WavelengthGrid } from "../spectra/grid.js";
+import { spectraToXyz, chromaticities, type Xyz } from "../colour/tristimulus.js";
+import type { Observer } from "../colour/observers.js";
+import { renderXyz, type WhiteHandling } from "../colour/render.js";
+import type { OutputSpaceId } from "../colour/output-spaces.js";
+import type { GamutMethod } from "../colour/gamut.js";
+import type { SpectralProfile } from "./spectral-profile.js";
+
+/** Maximum luminous efficacy K_m = 683 lm/W (CIE 015:2018 §7.1; the SI definition of the candela). */
+export const LUMINOUS_EFFICACY_LM_PER_W = 683;
+
+export type Normalisation = "peak" | "physical";
+
+export interface ColourOptions {
+  observer: Observer;
+  space: OutputSpaceId;
+  gamut: GamutMethod;
+  white: WhiteHandling;
+  normalise: Normalisation;
+  /** Angle of a linear polariser's transmission axis to the bow's tangent, degrees; undefined for none. */
+  polariserDeg?: number;
+  /** XYZ of the direct sunlight (any scale), the white under white = "sun". */
+  sunWhite: Xyz;
+}
+
+export interface ColourProfile {
+  /** Interleaved XYZ: relative (peak Y = 1) or absolute (Y in cd/m²). */
+  xyz: Float64Array;
+  chromaticity: Float64Array;
+  /** Y of each sample in the normalisation's unit. */
+  luminance: Float64Array;
+  /** Absolute luminance, cd/m², whatever the normalisation. */
+  luminanceCdPerM2: Float64Array;
+  rgb: Float64Array;
+  outOfGamut: Uint8Array;
+  /** (I⊥ − I∥)/(I⊥ + I∥) of the luminance, before any polariser; > 0 means polarised along the bow. */
+  polarisation: Float64Array;
+  /** Factor from absolute XYZ (Y in cd/m²) to the xyz returned. */
+  scale: number;
+  whiteAdaptation: string;
+  spaceAdaptation: string;
+}
+
+/**
+ * Through an ideal linear polariser at angle α to the bow's tangent the field along the tangent (perpendicular
+ * to the scattering plane, S1) passes with cos²α and the radial one (S2) with sin²α (Malus's law).
+ */
+export function colourProfile(spectral: SpectralProfile, grid: WavelengthGrid, options: ColourOptions): ColourProfile {
+  const count = spectral.anglesDeg.length;
+  const nl = grid.count;
+  const radiance = new Float64Array(count * nl);
+  const cos2 = options.polariserDeg === undefined ? 1 : Math.cos((options.polariserDeg * Math.PI) / 180) ** 2;
+  const sin2 = options.polariserDeg === undefined ? 1 : 1 - cos2;
+  for (let k = 0; k < radiance.length; k++) {
+    radiance[k] = cos2 * spectral.perpendicular[k] + sin2 * spectral.parallel[k];
+  }
+  const xyzPerp = spectraToXyz(grid, spectral.perpendicular, options.observer);
+  const xyzPar = spectraToXyz(grid, spectral.parallel, options.observer);
+  const polarisation = new Float64Array(count);
+  for (let i = 0; i < count; i++) {
+    const a = xyzPerp[3 * i + 1];
+    const b = xyzPar[3 * i + 1];
+    polarisation[i] = a + b > 0 ? (a - b) / (a + b) : 0;
+  }
+
+  const xyzAbsolute = spectraToXyz(grid, radiance, options.observer);
+  for (let k = 0; k < xyzAbsolute.length; k++) xyzAbsolute[k] *= LUMINOUS_EFFICACY_LM_PER_W;
+  const luminanceCdPerM2 = new Float64Array(count);
+  let peak = 0;
+  for (let i = 0; i < count; i++) {
+    luminanceCdPerM2[i] = xyzAbsolute[3 * i + 1];
+    peak = Math.max(peak, luminanceCdPerM2[i]);
+  }
+  const scale = options.normalise === "peak" ? (peak > 0 ? 1 / peak : 1) : 1;
+  const xyz = xyzAbsolute.map((v) => v * scale);
+  const luminance = new Float64Array(count);
+  for (let i = 0; i < count; i++) luminance[i] = xyz[3 * i + 1];
+
+  // Encoded spaces need values in [0, 1]: in physical mode they are computed relative to the peak.
+  const encoded = options.space === "srgb" || options.space === "display-p3" || options.space === "rec2020";
+  const rgbInput = encoded && options.normalise === "physical" && peak > 0 ? xyzAbsolute.map((v) => v / peak) : xyz;
+  const rendered = renderXyz(rgbInput, {
+    space: options.space,
+    gamut: options.gamut,
+    white: options.white,
+    sunWhite: options.sunWhite,
+  });
+  return {
+    xyz,
+    chromaticity: chromaticities(xyz),
+    luminance,
+    luminanceCdPerM2,
+    rgb: rendered.values,
+    outOfGamut: rendered.outOfGamut,
+    polarisation,
+    scale,
+    whiteAdaptation: rendered.whiteAdaptation,
+    spaceAdaptation: rendered.spaceAdaptation,
+  };
+}

@@ -1,0 +1,125 @@
+// Light scattered by a volume of drops per unit solid angle, for unpolarised incident light:
+// β_j(Θ, λ) = Σ_i w_i |S_j(r_i, λ, Θ)|² / (2 k²), j = perpendicular (S1) or parallel (S2), k = 2π n_air/λ
+// (Bohren & Huffman 1983 Eq. 3.12 and §3.4 for one drop, summed incoherently over a radius quadrature).
+
+import { mieCoefficients } from "../mie/coefficients.js";
+import { mieAmplitudes } from "../mie/amplitudes.js";
+import { allocateAmplitudes } from "../mie/types.js";
+import { airyBowScale } from "../rays/airy-bow.js";
+import { rayOpticsBins, type RayBins } from "./ray-bins.js";
+import { addAiryBowBins } from "./airy-bins.js";
+
+export type DropEngine = "mie" | "airy" | "geometric";
+
+/** Debye orders (chords) carried by the approximate engines: reflection, transmission and the first five bows. */
+export const RAY_ORDERS = [0, 1, 2, 3, 4, 5, 6] as const;
+/** Bows treated by Airy theory in the "airy" engine; the others stay ray optics. */
+export const AIRY_BOW_ORDERS = [2, 3] as const;
+/**
+ * Airy theory overshoots ray optics by ~10 % at ξ = 20 for x = 10⁴ (measured, test/rays.test.ts), so past the
+ * bow it hands over to ray optics: all Airy up to ξ = 8 (the third supernumerary), all rays from ξ = 16.
+ */
+export const AIRY_HANDOVER_XI = [8, 16] as const;
+
+export interface VolumeScatteringInput {
+  /** Quadrature nodes (µm) and weights (drops per m³ each node stands for). */
+  radiiUm: Float64Array;
+  weightsPerM3: Float64Array;
+  /** Vacuum wavelengths, nm. */
+  wavelengthsNm: Float64Array;
+  /** Drop index relative to air, and air's index (for the wavelength in air), per wavelength. */
+  mRe: Float64Array;
+  mIm: Float64Array;
+  nAir: Float64Array;
+  /** Scattering angles Θ (degrees), ascending and evenly spaced by stepDeg; values are bin means for the ray engines. */
+  thetaDeg: Float64Array;
+  stepDeg: number;
+  engineForRadius: (radiusUm: number) => DropEngine;
+}
+
+export interface VolumeScattering {
+  /** β per wavelength row: index λ·nθ + j, in m⁻¹ sr⁻¹. */
+  perpendicular: Float64Array;
+  parallel: Float64Array;
+  /** Mie terms × angles spent, a measure of cost. */
+  mieTermAngles: number;
+}
+
+export function volumeScattering(input: VolumeScatteringInput): VolumeScattering {
+  const { radiiUm, weightsPerM3, wavelengthsNm, mRe, mIm, nAir, thetaDeg, stepDeg } = input;
+  const nTheta = thetaDeg.length;
+  const perpendicular = new Float64Array(wavelengthsNm.length * nTheta);
+  const parallel = new Float64Array(wavelengthsNm.length * nTheta);
+  const cosTheta = thetaDeg.map((t) => Math.cos((t * Math.PI) / 180));
+  const amplitudes = allocateAmplitudes(nTheta);
+  const engines = Array.from(radiiUm, (r) => input.engineForRadius(r));
+  const needsRays = engines.some((e) => e !== "mie");
+  let mieTermAngles = 0;
+
+  const rowPerp = new Float64Array(nTheta);
+  const rowPar = new Float64Array(nTheta);
+  for (let l = 0; l < wavelengthsNm.length; l++) {
+    const n = mRe[l];
+    const waveNumberPerM = (2 * Math.PI * nAir[l]) / (wavelengthsNm[l] * 1e-9);
+    const perDrop = 1 / (2 * waveNumberPerM * waveNumberPerM);
+    const raysAll = needsRays ? rayOpticsBins(n, RAY_ORDERS, thetaDeg, stepDeg) : null;
+    const raysNonAiry = needsRays ? rayOpticsBins(n, RAY_ORDERS.filter((p) => p !== 2 && p !== 3), thetaDeg, stepDeg) : null;
+    const raysAiryOrders = AIRY_BOW_ORDERS.map((p) => (needsRays ? rayOpticsBins(n, [p], thetaDeg, stepDeg) : null));
+    const blend = new Float64Array(nTheta);
+    for (let i = 0; i < radiiUm.length; i++) {
+      const w = weightsPerM3[i] * perDrop;
+      if (w === 0) continue;
+      const x = (waveNumberPerM * radiiUm[i]) * 1e-6;
+      rowPerp.fill(0);
+      rowPar.fill(0);
+      if (engines[i] === "mie") {
+        const c = mieCoefficients(n, mIm[l], x);
+        mieAmplitudes(c, cosTheta, amplitudes);
+        mieTermAngles += c.nTerms * nTheta;
+        for (let j = 0; j < nTheta; j++) {
+          rowPerp[j] = amplitudes.s1Re[j] ** 2 + amplitudes.s1Im[j] ** 2;
+          rowPar[j] = amplitudes.s2Re[j] ** 2 + amplitudes.s2Im[j] ** 2;
+        }
+      } else if (engines[i] === "geometric") {
+        addScaled(rowPerp, rowPar, raysAll!, x * x);
+      } else {
+        addScaled(rowPerp, rowPar, raysNonAiry!, x * x);
+        AIRY_BOW_ORDERS.forEach((p, o) => {
+          const scale = airyBowScale(n, x, p - 1);
+          for (let j = 0; j < nTheta; j++) {
+            blend[j] = airyShare(scale.xiPerRad * (thetaDeg[j] - scale.rainbowAngleDeg) * (Math.PI / 180));
+          }
+          addAiryBowBins(n, x, p, thetaDeg, stepDeg, 1, blend, rowPerp, rowPar);
+          const rays = raysAiryOrders[o]!;
+          for (let j = 0; j < nTheta; j++) {
+            const rayShare = (1 - blend[j]) * x * x;
+            rowPerp[j] += rayShare * rays.perpendicular[j];
+            rowPar[j] += rayShare * rays.parallel[j];
+          }
+        });
+      }
+      const base = l * nTheta;
+      for (let j = 0; j < nTheta; j++) {
+        perpendicular[base + j] += w * rowPerp[j];
+        parallel[base + j] += w * rowPar[j];
+      }
+    }
+  }
+  return { perpendicular, parallel, mieTermAngles };
+}
+
+function addScaled(perp: Float64Array, par: Float64Array, rays: RayBins, factor: number): void {
+  for (let j = 0; j < perp.length; j++) {
+    perp[j] += factor * rays.perpendicular[j];
+    par[j] += factor * rays.parallel[j];
+  }
+}
+
+/** Share of Airy theory at ξ: 1 on the dark side and up to the handover, a smooth step to 0 across it. */
+export function airyShare(xi: number): number {
+  const [lo, hi] = AIRY_HANDOVER_XI;
+  if (xi <= lo) return 1;
+  if (xi >= hi) return 0;
+  const t = (xi - lo) / (hi - lo);
+  return 1 - t * t * (3 - 2 * t);
+}
