@@ -1,26 +1,15 @@
 import Fastify, { type FastifyInstance, type FastifyError } from "fastify";
-import { readFileSync } from "node:fs";
+import { packageVersion } from "./resources.js";
 import { ClientError } from "./errors.js";
 import { buildOpenApi } from "./openapi.js";
 import { renderDocsPage } from "./docs-page.js";
 import type { RouteSpec } from "./route-spec.js";
 import { parseOrThrow } from "./validation.js";
 import { serviceRoutes } from "./routes/service.js";
+import { opticsRoutes } from "./routes/optics.js";
+import { profileRoutes } from "./routes/profile.js";
+import { loadPresets } from "./presets.js";
 import { loadConfig, type Config } from "./config.js";
-
-/** The version from package.json, found from both server/ (tests) and dist/server/ (built). */
-function readPackageVersion(): string {
-  for (const relative of ["../package.json", "../../package.json"]) {
-    try {
-      const pkg = JSON.parse(readFileSync(new URL(relative, import.meta.url), "utf8")) as { name?: string; version: string };
-      if (pkg.name === "antisolar") return pkg.version;
-    } catch {
-      // not at this depth
-    }
-  }
-  return "unknown";
-}
-const packageVersion = readPackageVersion();
 
 export interface AppOptions {
   config?: Partial<Config>;
@@ -36,8 +25,11 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     genReqId: () => crypto.randomUUID(),
   });
 
-  const routes: RouteSpec[] = [...serviceRoutes()];
-  const openapi = buildOpenApi(routes, packageVersion);
+  // JSON only: a text/plain body must be a 415, not parsed as a string.
+  app.removeContentTypeParser("text/plain");
+
+  const routes: RouteSpec[] = [...serviceRoutes(), ...opticsRoutes(config), ...profileRoutes(config, loadPresets())];
+  const openapi = buildOpenApi(routes, packageVersion());
   const docsHtml = renderDocsPage(openapi);
 
   for (const route of routes) {

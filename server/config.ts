@@ -6,6 +6,8 @@ export interface Config {
   bodyLimitBytes: number;
   /** Largest synchronous single-drop request, in Mie terms × angles. */
   maxTermAngles: number;
+  /** Largest synchronous profile, in Mie terms × angles summed over radii and wavelengths. */
+  maxProfileTermAngles: number;
 }
 
 function intFrom(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
@@ -23,5 +25,6 @@ export function loadConfig(env: NodeJS.ProcessEnv): Config {
     logLevel: env.LOG_LEVEL || "info",
     bodyLimitBytes: intFrom(env, "BODY_LIMIT_BYTES", 1_048_576),
     maxTermAngles: intFrom(env, "MAX_TERM_ANGLES", 200_000_000),
+    maxProfileTermAngles: intFrom(env, "MAX_PROFILE_TERM_ANGLES", 3_000_000_000),
   };
 }

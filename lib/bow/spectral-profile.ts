@@ -31,6 +31,8 @@ export interface SpectralProfileInput {
   discDiameterDeg: number;
   limbDarkening: LimbDarkening;
   pathLengthM: number;
+  /** Finest internal angle step, degrees; MAX_INTERNAL_STEP_DEG unless a convergence study asks for finer. */
+  maxInternalStepDeg?: number;
 }
 
 export interface SpectralProfile {
@@ -49,8 +51,13 @@ export interface InternalGrid {
   internalCount: number;
 }
 
-export function internalGrid(stepDeg: number, count: number, discDiameterDeg: number): InternalGrid {
-  const refine = Math.max(1, Math.ceil(stepDeg / MAX_INTERNAL_STEP_DEG - 1e-9));
+export function internalGrid(
+  stepDeg: number,
+  count: number,
+  discDiameterDeg: number,
+  maxInternalStepDeg = MAX_INTERNAL_STEP_DEG,
+): InternalGrid {
+  const refine = Math.max(1, Math.ceil(stepDeg / maxInternalStepDeg - 1e-9));
   const h = stepDeg / refine;
   const pad = Math.ceil(discDiameterDeg / 2 / h) + 1;
   return { refine, h, pad, internalCount: (count - 1) * refine + 1 + 2 * pad };
@@ -58,7 +65,7 @@ export function internalGrid(stepDeg: number, count: number, discDiameterDeg: nu
 
 export function spectralProfile(input: SpectralProfileInput): SpectralProfile {
   const { fromDeg, stepDeg, count, grid } = input;
-  const { refine, h, pad, internalCount } = internalGrid(stepDeg, count, input.discDiameterDeg);
+  const { refine, h, pad, internalCount } = internalGrid(stepDeg, count, input.discDiameterDeg, input.maxInternalStepDeg);
   const psiLo = fromDeg - pad * h;
   const psiHi = psiLo + (internalCount - 1) * h;
 

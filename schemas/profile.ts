@@ -1,0 +1,169 @@
+import { z } from "zod";
+import { angleRangeSchema } from "./angles.js";
+import { waterSchema } from "./water.js";
+
+const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
+
+export const dropsSchema = z
+  .discriminatedUnion("kind", [
+    z
+      .object({
+        kind: z.literal("monodisperse"),
+        radiusUm: number(0.5, 3000, "Radius of every drop, µm").default(250),
+        numberPerM3: number(0, 1e12, "Drops per m³").default(1000),
+      })
+      .strict(),
+    z
+      .object({
+        kind: z.literal("marshall-palmer"),
+        rainRateMmPerH: number(0.1, 150, "Rain rate, mm/h (Marshall & Palmer 1948)").default(2),
+      })
+      .strict(),
+    z
+      .object({
+        kind: z.literal("gamma"),
+        medianVolumeDiameterMm: number(0.01, 6, "Median volume diameter D0, mm (Ulbrich 1983)").default(1),
+        mu: number(-0.99, 20, "Shape μ of N(D) = N0 D^μ exp(−ΛD), Λ = (3.67 + μ)/D0").default(2),
+        totalNumberPerM3: number(0, 1e12, "Total drops per m³").default(1000),
+      })
+      .strict(),
+    z
+      .object({
+        kind: z.literal("lognormal"),
+        medianRadiusUm: number(0.5, 3000, "Median radius, µm").default(10),
+        geometricSd: number(1.01, 4, "Geometric standard deviation σg").default(1.4),
+        totalNumberPerM3: number(0, 1e12, "Total drops per m³ (fog: about 1e8)").default(1e8),
+      })
+      .strict(),
+    z
+      .object({
+        kind: z.literal("histogram"),
+        bins: z
+          .array(
+            z
+              .object({
+                radiusUm: number(0.5, 3000, "Bin centre radius, µm"),
+                numberPerM3: number(0, 1e12, "Drops per m³ in the bin"),
+              })
+              .strict(),
+          )
+          .min(1)
+          .max(200)
+          .describe("Bins in ascending radius; each spans half-way (geometrically) to its neighbours"),
+      })
+      .strict(),
+  ])
+  .describe("Drop-size distribution");
+
+export const sunSpectrumSchema = z.discriminatedUnion("kind", [
+  z
+    .object({
+      kind: z.literal("astm-g173"),
+      column: z.enum(["extraterrestrial", "global-tilt", "direct-circumsolar"]).default("extraterrestrial"),
+    })
+    .strict(),
+  z.object({ kind: z.literal("blackbody"), temperatureK: number(1000, 50000, "Temperature, K").default(5772) }).strict(),
+  z.object({ kind: z.literal("cie-d65") }).strict(),
+  z.object({ kind: z.literal("cie-daylight"), cctK: number(4000, 25000, "Correlated colour temperature, K").default(5500) }).strict(),
+  z
+    .object({
+      kind: z.literal("table"),
+      wavelengthsNm: z.array(number(200, 2000, "Vacuum wavelength, nm")).min(2).max(5000),
+      values: z.array(number(0, 1e6, "Spectral irradiance, W m⁻² nm⁻¹")).min(2).max(5000),
+    })
+    .strict(),
+]);
+
+export const sunSchema = z
+  .object({
+    spectrum: sunSpectrumSchema
+      .default({ kind: "astm-g173", column: "extraterrestrial" })
+      .describe("Sunlight above the atmosphere (astm-g173 extraterrestrial, blackbody) or at the ground (the others)"),
+    elevationDeg: number(-1, 90, "Sun's elevation above the horizon, degrees").default(10),
+    atmosphere: z
+      .object({
+        attenuate: z
+          .enum(["auto", "always", "never"])
+          .default("auto")
+          .describe("Slant-path extinction: auto applies it to top-of-atmosphere spectra only"),
+        pressureHpa: number(300, 1100, "Surface pressure, hPa (scales Rayleigh depth)").default(1013.25),
+        angstromBeta: number(0, 2, "Ångström turbidity β (aerosol depth at 1 µm)").default(0.05),
+        angstromAlpha: number(0, 4, "Ångström exponent α").default(1.3),
+      })
+      .strict()
+      .default({ attenuate: "auto", pressureHpa: 1013.25, angstromBeta: 0.05, angstromAlpha: 1.3 }),
+    discDeg: number(0, 5, "Angular diameter of the source, degrees (0 = point source)").default(0.5329),
+    limbDarkening: z.enum(["neckel-labs-1994", "uniform"]).default("neckel-labs-1994"),
+  })
+  .strict();
+
+export const outputSchema = z
+  .object({
+    space: z.enum(["xyz-d65", "srgb-linear", "srgb", "display-p3", "rec2020", "acescg"]).default("srgb"),
+    gamut: z.enum(["clip", "css4", "desaturate"]).default("desaturate"),
+    normalise: z.enum(["peak", "physical"]).default("peak"),
+    white: z.enum(["sun", "absolute"]).default("sun"),
+  })
+  .strict();
+
+export const profileMethods = ["auto", "mie", "airy", "geometric"] as const;
+
+export const profileRequestSchema = z
+  .object({
+    drops: dropsSchema.default({ kind: "marshall-palmer", rainRateMmPerH: 2 }),
+    water: waterSchema.default({ temperatureC: 15, salinityPsu: 0 }),
+    sun: sunSchema.default({
+      spectrum: { kind: "astm-g173", column: "extraterrestrial" },
+      elevationDeg: 10,
+      atmosphere: { attenuate: "auto", pressureHpa: 1013.25, angstromBeta: 0.05, angstromAlpha: 1.3 },
+      discDeg: 0.5329,
+      limbDarkening: "neckel-labs-1994",
+    }),
+    observer: z.enum(["cie1931-2", "cie1964-10"]).default("cie1931-2"),
+    angles: angleRangeSchema({
+      what: "angle ψ from the antisolar point",
+      fromDeg: 30,
+      toDeg: 60,
+      stepDeg: 0.1,
+      maxCount: 4001,
+    }).default({ fromDeg: 30, toDeg: 60, stepDeg: 0.1 }),
+    spectral: z
+      .object({
+        fromNm: number(360, 830, "First wavelength (vacuum), nm").default(380),
+        toNm: number(360, 830, "Last wavelength (vacuum), nm").default(780),
+        stepNm: number(1, 20, "Wavelength step, nm").default(10),
+      })
+      .strict()
+      .default({ fromNm: 380, toNm: 780, stepNm: 10 })
+      .superRefine((s, ctx) => {
+        if (s.toNm <= s.fromNm) ctx.addIssue({ code: "custom", path: ["toNm"], message: "toNm must exceed fromNm" });
+        else if (Math.abs((s.toNm - s.fromNm) / s.stepNm - Math.round((s.toNm - s.fromNm) / s.stepNm)) > 1e-9) {
+          ctx.addIssue({ code: "custom", path: ["stepNm"], message: "toNm − fromNm must be a whole number of steps" });
+        }
+      }),
+    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
+    polariserDeg: number(-180, 180, "Linear polariser's axis to the bow's tangent, degrees (0 strengthens the bow)").optional(),
+    pathLengthM: number(1, 100000, "Path length through the rain along the line of sight, m").default(1000),
+    output: outputSchema.default({ space: "srgb", gamut: "desaturate", normalise: "peak", white: "sun" }),
+  })
+  .strict()
+  .superRefine((b, ctx) => {
+    if (b.water.salinityPsu > 0 && (b.spectral.fromNm < 400 || b.spectral.toNm > 700)) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["spectral", "fromNm"],
+        message: "salt water (Quan & Fry 1995) is defined from 400 to 700 nm: set spectral to 400–700 nm",
+      });
+    }
+    if (b.sun.spectrum.kind === "table" && b.sun.spectrum.wavelengthsNm.length !== b.sun.spectrum.values.length) {
+      ctx.addIssue({ code: "custom", path: ["sun", "spectrum", "values"], message: "values must have one entry per wavelength" });
+    }
+    if (b.drops.kind === "histogram") {
+      const r = b.drops.bins.map((bin) => bin.radiusUm);
+      if (r.some((v, i) => i > 0 && v <= r[i - 1])) {
+        ctx.addIssue({ code: "custom", path: ["drops", "bins"], message: "bins must be in strictly ascending radiusUm" });
+      }
+    }
+  });
+
+export type ProfileRequest = z.infer<typeof profileRequestSchema>;

@@ -1,0 +1,75 @@
+import sharp from "sharp";
+import type { OutputSpaceId } from "../../lib/colour/output-spaces.js";
+import { colourMetadataFor } from "./colour-signalling.js";
+import { cicpChunk, iccpChunk, withColourChunks, type CicpCode, type PngChunk } from "./png-chunks.js";
+
+export interface PngStripRequest {
+  /** Interleaved RGB triples in `space`, one per angle sample (encoded for srgb/display-p3/rec2020, else linear). */
+  readonly values: Float64Array;
+  readonly height: number;
+  readonly bitDepth: 8 | 16;
+  readonly space: OutputSpaceId;
+}
+
+export interface PngStrip {
+  readonly png: Buffer;
+  readonly width: number;
+  readonly height: number;
+  /** Name of the embedded ICC profile (also the iCCP profile name). */
+  readonly iccDescription: string;
+  /** Code points written as cICP, or null when only the ICC profile describes the colours. */
+  readonly cicp: CicpCode | null;
+  /** Components outside [0, 1] that were clamped before quantising. */
+  readonly clampedComponents: number;
+  readonly notes: readonly string[];
+}
+
+/** sharp's default limitInputPixels (0x3FFF × 0x3FFF, per its documentation); larger raw inputs are refused. */
+const MAX_PIXELS = 0x3fff * 0x3fff;
+
+/**
+ * One pixel column per sample and `height` identical rows. Codes are round(v·(2^bits − 1)) of v clamped to [0, 1]
+ * (full-range coding, common practice).
+ */
+export async function encodePngStrip(req: PngStripRequest): Promise<PngStrip> {
+  const { values, height, bitDepth, space } = req;
+  if (values.length === 0 || values.length % 3 !== 0) throw new RangeError("values must hold a positive number of RGB triples");
+  const width = values.length / 3;
+  if (!Number.isInteger(height) || height < 1 || width * height > MAX_PIXELS) {
+    throw new RangeError(`height must be a positive integer and the image at most ${MAX_PIXELS} pixels`);
+  }
+  if (bitDepth !== 8 && bitDepth !== 16) throw new RangeError("bitDepth must be 8 or 16");
+
+  const maxCode = 2 ** bitDepth - 1;
+  const row = bitDepth === 8 ? new Uint8Array(values.length) : new Uint16Array(values.length);
+  let clampedComponents = 0;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (Number.isNaN(v)) throw new RangeError(`value ${i} is NaN`);
+    if (v < 0 || v > 1) clampedComponents++;
+    row[i] = Math.round(Math.min(1, Math.max(0, v)) * maxCode);
+  }
+  const pixels = bitDepth === 8 ? new Uint8Array(row.length * height) : new Uint16Array(row.length * height);
+  for (let y = 0; y < height; y++) pixels.set(row, y * row.length);
+
+  let image = sharp(pixels, { raw: { width, height, channels: 3 } });
+  // A Uint16Array is read as 'ushort'; 'rgb16' keeps the PNG writer at 16 bits per sample.
+  if (bitDepth === 16) image = image.toColourspace("rgb16");
+  const plain = await image.png({ compressionLevel: 9, palette: false }).toBuffer();
+
+  const meta = colourMetadataFor(space);
+  const added: PngChunk[] = [];
+  if (meta.cicp) added.push(cicpChunk(meta.cicp));
+  added.push(iccpChunk(meta.iccDescription, meta.profile));
+  const notes = meta.note ? [meta.note] : [];
+  if (clampedComponents > 0) notes.push(`${clampedComponents} components outside 0..1 were clamped for PNG.`);
+  return {
+    png: withColourChunks(plain, added),
+    width,
+    height,
+    iccDescription: meta.iccDescription,
+    cicp: meta.cicp,
+    clampedComponents,
+    notes,
+  };
+}

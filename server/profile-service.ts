@@ -1,0 +1,250 @@
+// Turns a validated profile request into the core's inputs, runs it, and shapes the JSON answer.
+
+import { createHash } from "node:crypto";
+import type { ProfileRequest } from "../schemas/profile.js";
+import { angleCount } from "../schemas/angles.js";
+import { makeWavelengthGrid, wavelengthsNm } from "../lib/spectra/grid.js";
+import { waterIndex } from "../lib/water/water-index.js";
+import type { DropSizeDistribution } from "../lib/drops/distributions.js";
+import { radiusQuadrature, fractionOfCrossSectionAbove } from "../lib/drops/quadrature.js";
+import { spectrumToXyz } from "../lib/colour/tristimulus.js";
+import { directSunlight } from "../lib/bow/sunlight.js";
+import { spectralProfile, internalGrid, type SpectralProfile } from "../lib/bow/spectral-profile.js";
+import { colourProfile, type ColourProfile } from "../lib/bow/colour-profile.js";
+import { findBows } from "../lib/bow/bow-peaks.js";
+import { engineChooser, estimateMieTermAngles, AUTO_AIRY_FROM_RADIUS_UM } from "../lib/bow/engine-choice.js";
+import type { WavelengthGrid } from "../lib/spectra/grid.js";
+import { ClientError } from "./errors.js";
+
+/** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
+const FLATTENED_FROM_RADIUS_UM = 1000;
+
+export interface ProfileResult {
+  request: ProfileRequest;
+  grid: WavelengthGrid;
+  spectral: SpectralProfile;
+  colour: ColourProfile;
+  bows: { primaryDeg: number | null; secondaryDeg: number | null };
+  meta: Record<string, unknown>;
+}
+
+export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribution {
+  switch (drops.kind) {
+    case "monodisperse":
+      return { kind: "monodisperse", radiusUm: drops.radiusUm, totalNumberPerM3: drops.numberPerM3 };
+    case "marshall-palmer":
+      return drops;
+    case "gamma":
+      return {
+        kind: "gamma-d0",
+        medianVolumeDiameterMm: drops.medianVolumeDiameterMm,
+        mu: drops.mu,
+        totalNumberPerM3: drops.totalNumberPerM3,
+      };
+    case "lognormal":
+      return drops;
+    case "histogram": {
+      // Bin edges half-way (geometrically) between centres; the outer edges mirror the inner ones.
+      const r = drops.bins.map((b) => b.radiusUm);
+      const edgesUm: number[] = [];
+      const ratio = r.length > 1 ? Math.sqrt(r[1] / r[0]) : 1.05;
+      edgesUm.push(r[0] / ratio);
+      for (let i = 1; i < r.length; i++) edgesUm.push(Math.sqrt(r[i - 1] * r[i]));
+      const lastRatio = r.length > 1 ? Math.sqrt(r[r.length - 1] / r[r.length - 2]) : 1.05;
+      edgesUm.push(r[r.length - 1] * lastRatio);
+      return { kind: "histogram", edgesUm, numberPerM3: drops.bins.map((b) => b.numberPerM3) };
+    }
+  }
+}
+
+export function requestHash(request: ProfileRequest): string {
+  return createHash("sha256").update(canonicalJson(request)).digest("hex").slice(0, 32);
+}
+
+function canonicalJson(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(",")}]`;
+  if (value && typeof value === "object") {
+    const entries = Object.entries(value as Record<string, unknown>)
+      .filter(([, v]) => v !== undefined)
+      .sort(([a], [b]) => (a < b ? -1 : 1));
+    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
+  }
+  return JSON.stringify(value);
+}
+
+export interface ProfileLimits {
+  maxTermAngles: number;
+}
+
+/** Numerical resolution beyond the request, for convergence studies; the defaults are what the service uses. */
+export interface ProfileResolution {
+  nodesPerDecade?: number;
+  maxInternalStepDeg?: number;
+}
+
+export function computeProfile(request: ProfileRequest, limits: ProfileLimits, resolution: ProfileResolution = {}): ProfileResult {
+  const started = performance.now();
+  const warnings: string[] = [];
+  const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
+  const wl = wavelengthsNm(grid);
+  const mRe = new Float64Array(grid.count);
+  const mIm = new Float64Array(grid.count);
+  const nAir = new Float64Array(grid.count);
+  let waterSource = "";
+  for (let l = 0; l < grid.count; l++) {
+    const idx = waterIndex({ wavelengthNm: wl[l], ...request.water });
+    mRe[l] = idx.nRelativeToAir;
+    mIm[l] = idx.k;
+    nAir[l] = idx.n / idx.nRelativeToAir;
+    waterSource = idx.source;
+  }
+  if (/extrapolated/i.test(waterSource)) warnings.push(`water index extrapolated: ${waterSource}`);
+
+  const distribution = toDistribution(request.drops);
+  const quadrature = radiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade });
+  if (quadrature.cappedAtMaxRadius && quadrature.crossSectionFractionAboveCap > 1e-3) {
+    warnings.push(
+      `drops above ${quadrature.maxRadiusUm} µm radius (${(100 * quadrature.crossSectionFractionAboveCap).toFixed(1)} % of the cross-section) are left out: such drops break up in nature`,
+    );
+  }
+  if (request.drops.kind !== "monodisperse") {
+    const flattened = fractionOfCrossSectionAbove(distribution, FLATTENED_FROM_RADIUS_UM);
+    if (flattened > 0.5) {
+      warnings.push(
+        `${(100 * flattened).toFixed(0)} % of the drops' cross-section is in drops above 1 mm radius, which flatten as they fall (Beard & Chuang 1987); the sphere model overstates their bow`,
+      );
+    }
+  } else if (request.drops.radiusUm > FLATTENED_FROM_RADIUS_UM) {
+    warnings.push("drops above 1 mm radius flatten as they fall (Beard & Chuang 1987); the sphere model overstates their bow");
+  }
+
+  const engine = engineChooser(request.method);
+  const count = angleCount(request.angles);
+  const { internalCount } = internalGrid(request.angles.stepDeg, count, request.sun.discDeg, resolution.maxInternalStepDeg);
+  const cost = estimateMieTermAngles(quadrature.radiiUm, wl, internalCount, engine);
+  if (cost > limits.maxTermAngles) {
+    throw new ClientError(
+      "too-costly",
+      `this profile needs about ${cost.toExponential(2)} Mie term-angles; the synchronous limit is ${limits.maxTermAngles.toExponential(2)}. ` +
+        `Use method "auto", fewer angles or wavelengths, or smaller drops`,
+      { cost, limit: limits.maxTermAngles },
+    );
+  }
+
+  const sun = directSunlight(
+    request.sun.spectrum,
+    grid,
+    {
+      elevationDeg: Math.max(request.sun.elevationDeg, 0),
+      pressureHpa: request.sun.atmosphere.pressureHpa,
+      angstromBeta: request.sun.atmosphere.angstromBeta,
+      angstromAlpha: request.sun.atmosphere.angstromAlpha,
+    },
+    request.sun.atmosphere.attenuate,
+  );
+
+  const spectral = spectralProfile({
+    fromDeg: request.angles.fromDeg,
+    stepDeg: request.angles.stepDeg,
+    count,
+    grid,
+    mRe,
+    mIm,
+    nAir,
+    radiiUm: quadrature.radiiUm,
+    weightsPerM3: quadrature.weights,
+    engineForRadius: engine,
+    sunIrradiance: sun.irradiance.values,
+    discDiameterDeg: request.sun.discDeg,
+    limbDarkening: request.sun.limbDarkening,
+    pathLengthM: request.pathLengthM,
+    maxInternalStepDeg: resolution.maxInternalStepDeg,
+  });
+  const colour = colourProfile(spectral, grid, {
+    observer: request.observer,
+    space: request.output.space,
+    gamut: request.output.gamut,
+    white: request.output.white,
+    normalise: request.output.normalise,
+    polariserDeg: request.polariserDeg,
+    sunWhite: spectrumToXyz(sun.irradiance, request.observer),
+  });
+  const bows = findBows(spectral.anglesDeg, colour.luminance);
+
+  const engines = summariseEngines(quadrature.radiiUm, engine);
+  if (request.method === "airy" && quadrature.radiiUm[0] < AUTO_AIRY_FROM_RADIUS_UM) {
+    warnings.push(`Airy theory used for drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm, outside its measured validity; use "auto" or "mie"`);
+  }
+  if (request.method === "geometric") {
+    warnings.push("ray optics has no supernumeraries and no diffraction; bows are sharper than in nature");
+  }
+  if (request.sun.elevationDeg > 42) {
+    warnings.push("with the sun above about 42° the primary bow lies below the horizon for an observer on flat ground");
+  }
+
+  const meta = {
+    method: { requested: request.method, engines },
+    units: {
+      anglesDeg: "degrees from the antisolar point",
+      luminance: request.output.normalise === "peak" ? "relative: the brightest sample is 1" : "cd/m²",
+      xyz: request.output.normalise === "peak" ? "relative: the brightest sample has Y = 1" : "cd/m² (Y is luminance)",
+      spectralRadiance: "W m⁻² sr⁻¹ nm⁻¹",
+      rgb: rgbUnits(request),
+    },
+    normalisation: request.output.normalise,
+    peakLuminanceCdPerM2: Math.max(...colour.luminanceCdPerM2),
+    wavelengths: { fromNm: grid.fromNm, toNm: grid.toNm, stepNm: grid.stepNm, count: grid.count, medium: "vacuum" },
+    radii: {
+      nodes: quadrature.radiiUm.length,
+      fromUm: quadrature.lowerUm,
+      toUm: quadrature.upperUm,
+      nodesPerDecade: quadrature.nodesPerDecade,
+    },
+    sun: { scale: sun.scaleNote, attenuated: sun.attenuated },
+    water: waterSource,
+    colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
+    mieTermAngles: spectral.mieTermAngles,
+    computeMs: Math.round((performance.now() - started) * 10) / 10,
+    cache: "miss",
+    hash: requestHash(request),
+    sources: profileSources(request),
+    warnings,
+  };
+  return { request, grid, spectral, colour, bows, meta };
+}
+
+function rgbUnits(request: ProfileRequest): string {
+  const encoded = ["srgb", "display-p3", "rec2020"].includes(request.output.space);
+  if (encoded) return `${request.output.space}, encoded (transfer function applied), 1 = the peak's luminance`;
+  return request.output.normalise === "peak" ? `${request.output.space}, linear, relative to the peak` : `${request.output.space}, linear, cd/m²`;
+}
+
+function summariseEngines(radiiUm: Float64Array, engine: (r: number) => string): { engine: string; fromUm: number; toUm: number; nodes: number }[] {
+  const out: { engine: string; fromUm: number; toUm: number; nodes: number }[] = [];
+  for (const r of radiiUm) {
+    const e = engine(r);
+    const last = out[out.length - 1];
+    if (last && last.engine === e) {
+      last.toUm = r;
+      last.nodes++;
+    } else out.push({ engine: e, fromUm: r, toUm: r, nodes: 1 });
+  }
+  return out;
+}
+
+function profileSources(request: ProfileRequest): string[] {
+  const s = [
+    "IAPWS R9-97 (Harvey, Gallagher & Levelt Sengers 1998) with Kell 1975 density; Ciddor 1996 air index",
+    "Lorenz–Mie theory (Bohren & Huffman 1983; Wiscombe 1980)",
+    "Airy 1838 / van de Hulst 1957 §13.2 rainbow theory; ray optics with Fresnel coefficients (van de Hulst 1957 ch. 12)",
+    `CIE 015:2018 colorimetry with the ${request.observer === "cie1931-2" ? "CIE 1931 2°" : "CIE 1964 10°"} observer (ISO/CIE 11664-1:2019)`,
+    "Neckel & Labs 1994 limb darkening",
+  ];
+  if (request.water.salinityPsu > 0) s.push("Quan & Fry 1995 sea-water index");
+  if (request.drops.kind === "marshall-palmer") s.push("Marshall & Palmer 1948 drop sizes");
+  if (request.drops.kind === "gamma") s.push("Ulbrich 1983 gamma drop sizes");
+  if (request.sun.spectrum.kind === "astm-g173") s.push("ASTM G173-03 reference spectra");
+  if (request.sun.spectrum.kind === "cie-d65" || request.sun.spectrum.kind === "cie-daylight") s.push("CIE daylight (CIE 015:2018)");
+  s.push("Kasten & Young 1989 air mass; Bucholtz 1995 Rayleigh depth; Ångström 1929 aerosol");
+  return s;
+}
