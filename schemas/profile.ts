@@ -100,7 +100,7 @@ export const sunSchema = z
 export const outputSchema = z
   .object({
     space: z.enum(["xyz-d65", "srgb-linear", "srgb", "display-p3", "rec2020", "acescg"]).default("srgb"),
-    gamut: z.enum(["clip", "css4", "desaturate"]).default("desaturate"),
+    gamut: z.enum(["clip", "css4", "desaturate"]).default("css4"),
     normalise: z.enum(["peak", "physical"]).default("peak"),
     white: z.enum(["sun", "absolute"]).default("sun"),
   })
@@ -144,7 +144,7 @@ export const profileRequestSchema = z
     method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
     polariserDeg: number(-180, 180, "Linear polariser's axis to the bow's tangent, degrees (0 strengthens the bow)").optional(),
     pathLengthM: number(1, 100000, "Path length through the rain along the line of sight, m").default(1000),
-    output: outputSchema.default({ space: "srgb", gamut: "desaturate", normalise: "peak", white: "sun" }),
+    output: outputSchema.default({ space: "srgb", gamut: "css4", normalise: "peak", white: "sun" }),
   })
   .strict()
   .superRefine((b, ctx) => {

@@ -1,0 +1,52 @@
+// Convergence of the default profile: doubling each numerical resolution changes no colour by ΔE2000 ≥ 1
+// (CIEDE2000, Luo, Cui & Rigg 2001; ΔE ≈ 1 is about a just-noticeable difference, common practice).
+import { describe, it, expect } from "vitest";
+import { profileOf } from "./helpers/profile.js";
+import { deltaE2000 } from "../lib/colour/delta-e.js";
+import { DEFAULT_NODES_PER_DECADE } from "../lib/drops/quadrature.js";
+import { MAX_INTERNAL_STEP_DEG } from "../lib/bow/spectral-profile.js";
+import type { ProfileResult } from "../server/profile-service.js";
+
+/** Peak-normalised XYZ at the ψ samples the two profiles share. */
+function sharedXyz(a: ProfileResult, b: ProfileResult): [Float64Array, Float64Array] {
+  const xa: number[] = [];
+  const xb: number[] = [];
+  const index = new Map(Array.from(b.spectral.anglesDeg, (v, i) => [v.toFixed(6), i]));
+  a.spectral.anglesDeg.forEach((v, i) => {
+    const j = index.get(v.toFixed(6));
+    if (j === undefined) return;
+    xa.push(...a.colour.xyz.slice(3 * i, 3 * i + 3));
+    xb.push(...b.colour.xyz.slice(3 * j, 3 * j + 3));
+  });
+  return [Float64Array.from(xa), Float64Array.from(xb)];
+}
+
+function worstDeltaE(a: ProfileResult, b: ProfileResult): number {
+  const [xa, xb] = sharedXyz(a, b);
+  return Math.max(...deltaE2000(xa, xb));
+}
+
+describe("the default profile (Marshall–Palmer 2 mm/h) has converged", () => {
+  const base = profileOf({});
+
+  it("in radius nodes", () => {
+    const fine = profileOf({}, { nodesPerDecade: 2 * DEFAULT_NODES_PER_DECADE });
+    const dE = worstDeltaE(base, fine);
+    console.log(`radius nodes ×2: worst ΔE2000 = ${dE.toFixed(3)}`);
+    expect(dE).toBeLessThan(1);
+  });
+
+  it("in wavelength samples", () => {
+    const fine = profileOf({ spectral: { fromNm: 380, toNm: 780, stepNm: 5 } });
+    const dE = worstDeltaE(base, fine);
+    console.log(`wavelength samples ×2: worst ΔE2000 = ${dE.toFixed(3)}`);
+    expect(dE).toBeLessThan(1);
+  });
+
+  it("in angle samples", () => {
+    const fine = profileOf({ angles: { fromDeg: 30, toDeg: 60, stepDeg: 0.05 } }, { maxInternalStepDeg: MAX_INTERNAL_STEP_DEG / 2 });
+    const dE = worstDeltaE(base, fine);
+    console.log(`angle samples ×2: worst ΔE2000 = ${dE.toFixed(3)}`);
+    expect(dE).toBeLessThan(1);
+  });
+});
