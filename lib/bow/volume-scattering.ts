@@ -5,21 +5,15 @@
 import { mieCoefficients } from "../mie/coefficients.js";
 import { mieAmplitudes } from "../mie/amplitudes.js";
 import { allocateAmplitudes } from "../mie/types.js";
-import { airyBowScale } from "../rays/airy-bow.js";
 import { rayOpticsBins, type RayBins } from "./ray-bins.js";
-import { addAiryBowBins } from "./airy-bins.js";
+import { addUniformBowBins, uniformBowTable } from "./airy-bins.js";
 
 export type DropEngine = "mie" | "airy" | "geometric";
 
 /** Debye orders (chords) carried by the approximate engines: reflection, transmission and the first five bows. */
 export const RAY_ORDERS = [0, 1, 2, 3, 4, 5, 6] as const;
-/** Bows treated by Airy theory in the "airy" engine; the others stay ray optics. */
+/** Bows treated by Airy theory (in its uniform form, lib/bow/airy-bins.ts) in the "airy" engine; the others stay ray optics. */
 export const AIRY_BOW_ORDERS = [2, 3] as const;
-/**
- * Airy theory overshoots ray optics by ~10 % at ξ = 20 for x = 10⁴ (measured, test/rays.test.ts), so past the
- * bow it hands over to ray optics: all Airy up to ξ = 8 (the third supernumerary), all rays from ξ = 16.
- */
-export const AIRY_HANDOVER_XI = [8, 16] as const;
 
 export interface VolumeScatteringInput {
   /** Quadrature nodes (µm) and weights (drops per m³ each node stands for). */
@@ -54,6 +48,7 @@ export function volumeScattering(input: VolumeScatteringInput): VolumeScattering
   const amplitudes = allocateAmplitudes(nTheta);
   const engines = Array.from(radiiUm, (r) => input.engineForRadius(r));
   const needsRays = engines.some((e) => e !== "mie");
+  const needsAiry = engines.some((e) => e === "airy");
   let mieTermAngles = 0;
 
   const rowPerp = new Float64Array(nTheta);
@@ -64,8 +59,8 @@ export function volumeScattering(input: VolumeScatteringInput): VolumeScattering
     const perDrop = 1 / (2 * waveNumberPerM * waveNumberPerM);
     const raysAll = needsRays ? rayOpticsBins(n, RAY_ORDERS, thetaDeg, stepDeg) : null;
     const raysNonAiry = needsRays ? rayOpticsBins(n, RAY_ORDERS.filter((p) => p !== 2 && p !== 3), thetaDeg, stepDeg) : null;
-    const raysAiryOrders = AIRY_BOW_ORDERS.map((p) => (needsRays ? rayOpticsBins(n, [p], thetaDeg, stepDeg) : null));
-    const blend = new Float64Array(nTheta);
+    const raysAiryOrders = AIRY_BOW_ORDERS.map((p) => (needsAiry ? rayOpticsBins(n, [p], thetaDeg, stepDeg) : null));
+    const bowTables = AIRY_BOW_ORDERS.map((p) => (needsAiry ? uniformBowTable(n, p, thetaDeg, stepDeg) : null));
     for (let i = 0; i < radiiUm.length; i++) {
       const w = weightsPerM3[i] * perDrop;
       if (w === 0) continue;
@@ -84,17 +79,15 @@ export function volumeScattering(input: VolumeScatteringInput): VolumeScattering
         addScaled(rowPerp, rowPar, raysAll!, x * x);
       } else {
         addScaled(rowPerp, rowPar, raysNonAiry!, x * x);
-        AIRY_BOW_ORDERS.forEach((p, o) => {
-          const scale = airyBowScale(n, x, p - 1);
-          for (let j = 0; j < nTheta; j++) {
-            blend[j] = airyShare(scale.xiPerRad * (thetaDeg[j] - scale.rainbowAngleDeg) * (Math.PI / 180));
-          }
-          addAiryBowBins(n, x, p, thetaDeg, stepDeg, 1, blend, rowPerp, rowPar);
+        AIRY_BOW_ORDERS.forEach((_, o) => {
+          const table = bowTables[o]!;
+          addUniformBowBins(table, x, 1, rowPerp, rowPar);
+          // Where only one ray of the order arrives there is nothing to interfere: ray optics.
           const rays = raysAiryOrders[o]!;
           for (let j = 0; j < nTheta; j++) {
-            const rayShare = (1 - blend[j]) * x * x;
-            rowPerp[j] += rayShare * rays.perpendicular[j];
-            rowPar[j] += rayShare * rays.parallel[j];
+            if (table.uniform[j]) continue;
+            rowPerp[j] += x * x * rays.perpendicular[j];
+            rowPar[j] += x * x * rays.parallel[j];
           }
         });
       }
@@ -115,11 +108,3 @@ function addScaled(perp: Float64Array, par: Float64Array, rays: RayBins, factor:
   }
 }
 
-/** Share of Airy theory at ξ: 1 on the dark side and up to the handover, a smooth step to 0 across it. */
-export function airyShare(xi: number): number {
-  const [lo, hi] = AIRY_HANDOVER_XI;
-  if (xi <= lo) return 1;
-  if (xi >= hi) return 0;
-  const t = (xi - lo) / (hi - lo);
-  return 1 - t * t * (3 - 2 * t);
-}
