@@ -99,6 +99,7 @@ function packLines(image: ExrImage, sourceIndexOfFileChannel: readonly number[],
   return out;
 }
 
+/** Single-part scan-line file (OpenEXR File Layout): magic, version, header, line offset table, then the chunks in order. */
 export function encodeExr(image: ExrImage): Buffer {
   checkImage(image);
   const sortedChannels = [...image.channels].sort();

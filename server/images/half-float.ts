@@ -18,6 +18,21 @@ const INFINITY_BITS = 0x7c00;
 const QUIET_NAN_BITS = 0x7e00;
 const MAX_FINITE_BITS = 0x7bff;
 
+/** 2^k for the k that scale a normal half to its significand: k = 10 − e with −14 ≤ e ≤ 15. */
+const MIN_SCALE_EXPONENT = FRACTION_BITS - 15;
+const POWERS_OF_TWO = Array.from({ length: 30 }, (_, i) => 2 ** (MIN_SCALE_EXPONENT + i));
+
+/** IEEE 754 binary64 fields (sign, 11-bit exponent biased by 1023, 52-bit fraction), read through a typed-array view. */
+const float64 = new Float64Array(1);
+const words = new Uint32Array(float64.buffer);
+const HIGH_WORD = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0;
+
+/** ⌊log2 x⌋ for a positive normal double: its unbiased exponent field. */
+function binaryExponent(x: number): number {
+  float64[0] = x;
+  return ((words[HIGH_WORD] >>> 20) & 0x7ff) - 1023;
+}
+
 /** Nearest integer, ties to even; exact for 0 ≤ q < 2^52. */
 function roundHalfEven(q: number): number {
   const floor = Math.floor(q);
@@ -35,22 +50,12 @@ export function halfBitsFromNumber(value: number): number {
   if (magnitude === 0) return sign;
   if (magnitude >= HALF_MAX) return sign | MAX_FINITE_BITS;
 
-  let exponent = Math.floor(Math.log2(magnitude));
-  // log2 can be off by one next to powers of two; pin the exponent exactly.
-  if (2 ** exponent > magnitude) exponent -= 1;
-  else if (2 ** (exponent + 1) <= magnitude) exponent += 1;
-
+  const exponent = binaryExponent(magnitude);
   if (exponent < HALF_MIN_NORMAL_EXP) {
     // Subnormal: units of 2^−24; a result of 1024 is the smallest normal, whose bits are also 0x0400.
-    return sign | roundHalfEven(magnitude / 2 ** (HALF_MIN_NORMAL_EXP - FRACTION_BITS));
+    return sign | roundHalfEven(magnitude * 2 ** (FRACTION_BITS - HALF_MIN_NORMAL_EXP));
   }
   // Significand in units of the half ULP, in [1024, 2048]; a carry to 2048 rolls into the exponent field.
-  const significand = roundHalfEven(magnitude / 2 ** (exponent - FRACTION_BITS));
+  const significand = roundHalfEven(magnitude * POWERS_OF_TWO[FRACTION_BITS - exponent - MIN_SCALE_EXPONENT]);
   return sign | (((exponent + EXPONENT_BIAS) << FRACTION_BITS) + (significand - (1 << FRACTION_BITS)));
-}
-
-export function halfBitsFromArray(values: ArrayLike<number>): Uint16Array {
-  const out = new Uint16Array(values.length);
-  for (let i = 0; i < values.length; i++) out[i] = halfBitsFromNumber(values[i]);
-  return out;
 }
