@@ -1,36 +1,47 @@
+import { performance } from "node:perf_hooks";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { computeProfile } from "../server/profile-service.js";
-import { timeIt } from "./timing.js";
+import { KernelService } from "../server/kernel/kernel-service.js";
+import { createInlinePool, createWorkerPool, type KernelPool } from "../server/kernel/worker-pool.js";
 
 export interface ProfileBenchRow {
   name: string;
-  medianMs: number;
-  runs: number;
+  workers: number;
+  coldMs: number;
+  warmMs: number;
   mieTermAngles: number;
 }
 
-const workloads: { name: string; body: unknown }[] = [
-  { name: "default profile `{}` (Marshall–Palmer 2 mm/h, auto)", body: {} },
+export const profileWorkloads: { name: string; body: unknown }[] = [
+  { name: "P1 default profile `{}` (Marshall–Palmer 2 mm/h, auto)", body: {} },
   {
-    name: "fog, lognormal 10 µm, full Mie, ψ 20–60° step 0.2°",
+    name: "P2 fog, lognormal 10 µm, full Mie, ψ 20–60° step 0.2°",
     body: { drops: { kind: "lognormal", medianRadiusUm: 10, geometricSd: 1.4, totalNumberPerM3: 1e8 }, method: "mie", angles: { fromDeg: 20, toDeg: 60, stepDeg: 0.2 } },
   },
-  { name: "heavy rain 25 mm/h, airy engine", body: { drops: { kind: "marshall-palmer", rainRateMmPerH: 25 }, method: "airy" } },
+  { name: "heavy rain 25 mm/h, auto", body: { drops: { kind: "marshall-palmer", rainRateMmPerH: 25 } } },
 ];
 
-/** Whole profiles as the service computes them (no cache yet: every run is cold). */
-export function benchProfiles(): ProfileBenchRow[] {
-  return workloads.map(({ name, body }) => {
-    const request = profileRequestSchema.parse(body);
-    let mieTermAngles = 0;
-    const t = timeIt(
-      () => {
-        const r = computeProfile(request, { maxTermAngles: Infinity });
-        mieTermAngles = r.spectral.mieTermAngles;
-        return r.colour.luminance[0];
-      },
-      { warmup: 1, runs: 3 },
-    );
-    return { name, medianMs: t.medianMs, runs: t.runs, mieTermAngles };
-  });
+async function once(body: unknown, kernels: KernelService): Promise<{ ms: number; mieTermAngles: number }> {
+  const request = profileRequestSchema.parse(body);
+  const t0 = performance.now();
+  const r = await computeProfile(request, { kernels, limits: { maxTermAngles: Infinity } });
+  return { ms: performance.now() - t0, mieTermAngles: r.spectral.mieTermAngles };
+}
+
+/** Cold: a fresh in-memory kernel cache; warm: the same request again on the filled cache (median of 5). */
+export async function benchProfiles(workers: number[] = [0, 2]): Promise<ProfileBenchRow[]> {
+  const rows: ProfileBenchRow[] = [];
+  for (const threads of workers) {
+    const pool: KernelPool = threads > 0 ? createWorkerPool(threads) : createInlinePool();
+    for (const { name, body } of profileWorkloads) {
+      const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: pool.compute });
+      const cold = await once(body, kernels);
+      const warm: number[] = [];
+      for (let i = 0; i < 5; i++) warm.push((await once(body, kernels)).ms);
+      warm.sort((a, b) => a - b);
+      rows.push({ name, workers: threads, coldMs: cold.ms, warmMs: warm[2], mieTermAngles: cold.mieTermAngles });
+    }
+    await pool.close();
+  }
+  return rows;
 }

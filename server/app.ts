@@ -9,6 +9,7 @@ import { serviceRoutes } from "./routes/service.js";
 import { opticsRoutes } from "./routes/optics.js";
 import { profileRoutes } from "./routes/profile.js";
 import { loadPresets } from "./presets.js";
+import { createKernelRuntime } from "./kernel/runtime.js";
 import { loadConfig, type Config } from "./config.js";
 
 export interface AppOptions {
@@ -28,7 +29,13 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   // JSON only: a text/plain body must be a 415, not parsed as a string.
   app.removeContentTypeParser("text/plain");
 
-  const routes: RouteSpec[] = [...serviceRoutes(), ...opticsRoutes(config), ...profileRoutes(config, loadPresets())];
+  const runtime = createKernelRuntime(config);
+  app.addHook("onClose", async () => runtime.close());
+  const routes: RouteSpec[] = [
+    ...serviceRoutes(),
+    ...opticsRoutes(config),
+    ...profileRoutes(config, loadPresets(), runtime.kernels),
+  ];
   const openapi = buildOpenApi(routes, packageVersion());
   const docsHtml = renderDocsPage(openapi);
 

@@ -1,3 +1,5 @@
+import { availableParallelism } from "node:os";
+
 /** Configuration comes from environment variables only (shared/guide/api.md); defaults are documented in README.md. */
 export interface Config {
   port: number;
@@ -8,6 +10,12 @@ export interface Config {
   maxTermAngles: number;
   /** Largest synchronous profile, in Mie terms × angles summed over radii and wavelengths. */
   maxProfileTermAngles: number;
+  /** Worker threads for kernels; 0 computes on the main thread (tests). */
+  workers: number;
+  /** Kernel cache folder; empty for memory only. */
+  cacheDir: string;
+  /** Memory for cached kernels and results, MiB. */
+  cacheBudgetMb: number;
 }
 
 function intFrom(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
@@ -26,5 +34,8 @@ export function loadConfig(env: NodeJS.ProcessEnv): Config {
     bodyLimitBytes: intFrom(env, "BODY_LIMIT_BYTES", 1_048_576),
     maxTermAngles: intFrom(env, "MAX_TERM_ANGLES", 200_000_000),
     maxProfileTermAngles: intFrom(env, "MAX_PROFILE_TERM_ANGLES", 3_000_000_000),
+    workers: env.WORKERS === "0" ? 0 : intFrom(env, "WORKERS", Math.max(1, availableParallelism())),
+    cacheDir: env.CACHE_DIR ?? ".cache/antisolar",
+    cacheBudgetMb: intFrom(env, "CACHE_BUDGET_MB", 512),
   };
 }

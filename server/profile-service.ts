@@ -6,10 +6,15 @@ import { angleCount } from "../schemas/angles.js";
 import { makeWavelengthGrid, wavelengthsNm } from "../lib/spectra/grid.js";
 import { waterIndex } from "../lib/water/water-index.js";
 import type { DropSizeDistribution } from "../lib/drops/distributions.js";
-import { radiusQuadrature, fractionOfCrossSectionAbove } from "../lib/drops/quadrature.js";
+import { fractionOfCrossSectionAbove } from "../lib/drops/quadrature.js";
+import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
 import { spectrumToXyz } from "../lib/colour/tristimulus.js";
 import { directSunlight } from "../lib/bow/sunlight.js";
-import { spectralProfile, internalGrid, type SpectralProfile } from "../lib/bow/spectral-profile.js";
+import type { SpectralProfile } from "../lib/bow/lattice-profile.js";
+import { latticeProfile, profileSpan, accumulateBlocks } from "../lib/bow/lattice-profile.js";
+import { blocksOf, kernelStepFor, BLOCK_SAMPLES } from "../lib/bow/kernel-grid.js";
+import type { KernelService } from "./kernel/kernel-service.js";
+import type { Medium } from "./kernel/kernel-types.js";
 import { colourProfile, type ColourProfile } from "../lib/bow/colour-profile.js";
 import { findBows } from "../lib/bow/bow-peaks.js";
 import { engineChooser, estimateMieTermAngles, AUTO_AIRY_FROM_RADIUS_UM } from "../lib/bow/engine-choice.js";
@@ -76,32 +81,35 @@ export interface ProfileLimits {
   maxTermAngles: number;
 }
 
+export interface ProfileDeps {
+  kernels: KernelService;
+  limits: ProfileLimits;
+  signal?: AbortSignal;
+}
+
 /** Numerical resolution beyond the request, for convergence studies; the defaults are what the service uses. */
 export interface ProfileResolution {
   nodesPerDecade?: number;
   maxInternalStepDeg?: number;
 }
 
-export function computeProfile(request: ProfileRequest, limits: ProfileLimits, resolution: ProfileResolution = {}): ProfileResult {
+export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
+  const { limits } = deps;
   const started = performance.now();
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
   const wl = wavelengthsNm(grid);
-  const mRe = new Float64Array(grid.count);
-  const mIm = new Float64Array(grid.count);
-  const nAir = new Float64Array(grid.count);
+  const media: Medium[] = [];
   let waterSource = "";
   for (let l = 0; l < grid.count; l++) {
     const idx = waterIndex({ wavelengthNm: wl[l], ...request.water });
-    mRe[l] = idx.nRelativeToAir;
-    mIm[l] = idx.k;
-    nAir[l] = idx.n / idx.nRelativeToAir;
+    media.push({ wavelengthNm: wl[l], mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir });
     waterSource = idx.source;
   }
   if (/extrapolated/i.test(waterSource)) warnings.push(`water index extrapolated: ${waterSource}`);
 
   const distribution = toDistribution(request.drops);
-  const quadrature = radiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade });
+  const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade });
   if (quadrature.cappedAtMaxRadius && quadrature.crossSectionFractionAboveCap > 1e-3) {
     warnings.push(
       `drops above ${quadrature.maxRadiusUm} µm radius (${(100 * quadrature.crossSectionFractionAboveCap).toFixed(1)} % of the cross-section) are left out: such drops break up in nature`,
@@ -120,8 +128,11 @@ export function computeProfile(request: ProfileRequest, limits: ProfileLimits, r
 
   const engine = engineChooser(request.method);
   const count = angleCount(request.angles);
-  const { internalCount } = internalGrid(request.angles.stepDeg, count, request.sun.discDeg, resolution.maxInternalStepDeg);
-  const cost = estimateMieTermAngles(quadrature.radiiUm, wl, internalCount, engine);
+  const angles = { fromDeg: request.angles.fromDeg, stepDeg: request.angles.stepDeg, count };
+  const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
+  const span = profileSpan(angles, request.sun.discDeg, h);
+  const blocks = blocksOf(span);
+  const cost = estimateMieTermAngles(quadrature.radiiUm, wl, blocks.length * BLOCK_SAMPLES, engine);
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",
@@ -143,23 +154,23 @@ export function computeProfile(request: ProfileRequest, limits: ProfileLimits, r
     request.sun.atmosphere.attenuate,
   );
 
-  const spectral = spectralProfile({
-    fromDeg: request.angles.fromDeg,
-    stepDeg: request.angles.stepDeg,
-    count,
-    grid,
-    mRe,
-    mIm,
-    nAir,
-    radiiUm: quadrature.radiiUm,
-    weightsPerM3: quadrature.weights,
-    engineForRadius: engine,
-    sunIrradiance: sun.irradiance.values,
-    discDiameterDeg: request.sun.discDeg,
-    limbDarkening: request.sun.limbDarkening,
-    pathLengthM: request.pathLengthM,
-    maxInternalStepDeg: resolution.maxInternalStepDeg,
-  });
+  const engines = Array.from(quadrature.radiiUm, engine);
+  const kernelStarted = performance.now();
+  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, blocks }, deps.signal);
+  const kernelMs = performance.now() - kernelStarted;
+  const spectral: SpectralProfile = {
+    ...latticeProfile({
+      angles,
+      grid,
+      span,
+      beta: (l, out) => accumulateBlocks(span, blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
+      sunIrradiance: sun.irradiance.values,
+      discDiameterDeg: request.sun.discDeg,
+      limbDarkening: request.sun.limbDarkening,
+      pathLengthM: request.pathLengthM,
+    }),
+    mieTermAngles: rows.stats.mieTermAngles,
+  };
   const colour = colourProfile(spectral, grid, {
     observer: request.observer,
     space: request.output.space,
@@ -171,7 +182,7 @@ export function computeProfile(request: ProfileRequest, limits: ProfileLimits, r
   });
   const bows = findBows(spectral.anglesDeg, colour.luminance);
 
-  const engines = summariseEngines(quadrature.radiiUm, engine);
+  const engineRanges = summariseEngines(quadrature.radiiUm, engine);
   if (request.method === "airy" && quadrature.radiiUm[0] < AUTO_AIRY_FROM_RADIUS_UM) {
     warnings.push(`Airy theory used for drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm, outside its measured validity; use "auto" or "mie"`);
   }
@@ -183,7 +194,7 @@ export function computeProfile(request: ProfileRequest, limits: ProfileLimits, r
   }
 
   const meta = {
-    method: { requested: request.method, engines },
+    method: { requested: request.method, engines: engineRanges },
     units: {
       anglesDeg: "degrees from the antisolar point",
       luminance: request.output.normalise === "peak" ? "relative: the brightest sample is 1" : "cd/m²",
@@ -205,7 +216,15 @@ export function computeProfile(request: ProfileRequest, limits: ProfileLimits, r
     colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
     mieTermAngles: spectral.mieTermAngles,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
-    cache: "miss",
+    kernel: {
+      angleStepDeg: h,
+      rows: rows.stats.memoryHits + rows.stats.diskHits + rows.stats.computed,
+      memoryHits: rows.stats.memoryHits,
+      diskHits: rows.stats.diskHits,
+      computed: rows.stats.computed,
+      ms: Math.round(kernelMs * 10) / 10,
+    },
+    cache: rows.stats.computed === 0 ? "hit" : "miss",
     hash: requestHash(request),
     sources: profileSources(request),
     warnings,

@@ -3,8 +3,14 @@
 import { describe, it, expect } from "vitest";
 import { profileOf, meanOver, spectralPeakDeg } from "./helpers/profile.js";
 
+const rain = await profileOf({});
+const fog = await profileOf({
+  drops: { kind: "lognormal", medianRadiusUm: 10, geometricSd: 1.4, totalNumberPerM3: 1e8 },
+  angles: { fromDeg: 20, toDeg: 60, stepDeg: 0.2 },
+  spectral: { fromNm: 380, toNm: 780, stepNm: 20 },
+});
+
 describe("a rain bow: Marshall–Palmer 2 mm/h, sun 10° high (the default request)", () => {
-  const rain = profileOf({});
   const a = rain.spectral.anglesDeg;
   const lum = rain.colour.luminance;
 
@@ -46,16 +52,16 @@ describe("a rain bow: Marshall–Palmer 2 mm/h, sun 10° high (the default reque
     expect(rain.colour.polarisation[a.indexOf(rain.bows.primaryDeg!)]).toBeGreaterThan(0.8);
   });
 
-  it("a polariser across the bow's tangent dims the primary, one along it does not", () => {
-    const along = profileOf({ polariserDeg: 0, spectral: { fromNm: 380, toNm: 780, stepNm: 20 } });
-    const across = profileOf({ polariserDeg: 90, spectral: { fromNm: 380, toNm: 780, stepNm: 20 } });
+  it("a polariser across the bow's tangent dims the primary, one along it does not", async () => {
+    const along = await profileOf({ polariserDeg: 0, spectral: { fromNm: 380, toNm: 780, stepNm: 20 } });
+    const across = await profileOf({ polariserDeg: 90, spectral: { fromNm: 380, toNm: 780, stepNm: 20 } });
     const i = along.spectral.anglesDeg.indexOf(41.5);
     // Malus's law on a ≥ 80 % tangentially polarised bow: the crossed polariser passes ≤ 10 % of the parallel one.
     expect(across.colour.luminanceCdPerM2[i]).toBeLessThan(0.1 * along.colour.luminanceCdPerM2[i]);
   });
 
-  it("reports physical luminance in cd/m² when asked", () => {
-    const physical = profileOf({ output: { normalise: "physical" }, spectral: { fromNm: 380, toNm: 780, stepNm: 20 } });
+  it("reports physical luminance in cd/m² when asked", async () => {
+    const physical = await profileOf({ output: { normalise: "physical" }, spectral: { fromNm: 380, toNm: 780, stepNm: 20 } });
     const peak = Math.max(...physical.colour.luminance);
     // A 1 km curtain of 2 mm/h rain in direct sunlight: bows of order 10²–10³ cd/m² against a sky of ~10³–10⁴
     // (common practice). A broad window catches a unit error (×683, ×1e6) without fitting the value.
@@ -66,11 +72,6 @@ describe("a rain bow: Marshall–Palmer 2 mm/h, sun 10° high (the default reque
 });
 
 describe("a fog bow: lognormal drops, median radius 10 µm", () => {
-  const fog = profileOf({
-    drops: { kind: "lognormal", medianRadiusUm: 10, geometricSd: 1.4, totalNumberPerM3: 1e8 },
-    angles: { fromDeg: 20, toDeg: 60, stepDeg: 0.2 },
-    spectral: { fromNm: 380, toNm: 780, stepNm: 20 },
-  });
   const a = fog.spectral.anglesDeg;
   const lum = fog.colour.luminance;
 
@@ -84,9 +85,9 @@ describe("a fog bow: lognormal drops, median radius 10 µm", () => {
     expect(width).toBeGreaterThan(4);
   });
 
-  it("is nearly colourless at its peak compared with a rain bow", () => {
-    const rain = profileOf({ spectral: { fromNm: 380, toNm: 780, stepNm: 20 } });
-    const chromaOf = (r: ReturnType<typeof profileOf>, psi: number) => {
+  it("is nearly colourless at its peak compared with a rain bow", async () => {
+    const rain = await profileOf({ spectral: { fromNm: 380, toNm: 780, stepNm: 20 } });
+    const chromaOf = (r: Awaited<ReturnType<typeof profileOf>>, psi: number) => {
       const i = r.spectral.anglesDeg.findIndex((v) => Math.abs(v - psi) < 1e-9);
       const [R, G, B] = Array.from(r.colour.rgb.slice(3 * i, 3 * i + 3));
       return Math.max(R, G, B) - Math.min(R, G, B);

@@ -4,7 +4,7 @@ import { describe, it, expect } from "vitest";
 import { profileOf } from "./helpers/profile.js";
 import { deltaE2000 } from "../lib/colour/delta-e.js";
 import { DEFAULT_NODES_PER_DECADE } from "../lib/drops/quadrature.js";
-import { MAX_INTERNAL_STEP_DEG } from "../lib/bow/spectral-profile.js";
+import { KERNEL_STEPS_DEG } from "../lib/bow/kernel-grid.js";
 import type { ProfileResult } from "../server/profile-service.js";
 
 /** Peak-normalised XYZ at the ψ samples the two profiles share. */
@@ -26,25 +26,25 @@ function worstDeltaE(a: ProfileResult, b: ProfileResult): number {
   return Math.max(...deltaE2000(xa, xb));
 }
 
-describe("the default profile (Marshall–Palmer 2 mm/h) has converged", () => {
-  const base = profileOf({});
+const base = await profileOf({});
 
-  it("in radius nodes", () => {
-    const fine = profileOf({}, { nodesPerDecade: 2 * DEFAULT_NODES_PER_DECADE });
+describe("the default profile (Marshall–Palmer 2 mm/h) has converged", () => {
+  it("in radius nodes", async () => {
+    const fine = await profileOf({}, { nodesPerDecade: 2 * DEFAULT_NODES_PER_DECADE });
     const dE = worstDeltaE(base, fine);
     console.log(`radius nodes ×2: worst ΔE2000 = ${dE.toFixed(3)}`);
     expect(dE).toBeLessThan(1);
   });
 
-  it("in wavelength samples", () => {
-    const fine = profileOf({ spectral: { fromNm: 380, toNm: 780, stepNm: 5 } });
+  it("in wavelength samples", async () => {
+    const fine = await profileOf({ spectral: { fromNm: 380, toNm: 780, stepNm: 5 } });
     const dE = worstDeltaE(base, fine);
     console.log(`wavelength samples ×2: worst ΔE2000 = ${dE.toFixed(3)}`);
     expect(dE).toBeLessThan(1);
   });
 
-  it("in angle samples", () => {
-    const fine = profileOf({ angles: { fromDeg: 30, toDeg: 60, stepDeg: 0.05 } }, { maxInternalStepDeg: MAX_INTERNAL_STEP_DEG / 2 });
+  it("in angle samples", async () => {
+    const fine = await profileOf({ angles: { fromDeg: 30, toDeg: 60, stepDeg: 0.05 } }, { maxInternalStepDeg: KERNEL_STEPS_DEG[1] });
     const dE = worstDeltaE(base, fine);
     console.log(`angle samples ×2: worst ΔE2000 = ${dE.toFixed(3)}`);
     expect(dE).toBeLessThan(1);

@@ -6,7 +6,7 @@ import { buildApp } from "../server/app.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
-  app = await buildApp();
+  app = await buildApp({ config: { cacheDir: "" } });
   await app.ready();
 });
 afterAll(async () => app.close());

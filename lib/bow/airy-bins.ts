@@ -1,4 +1,4 @@
-// The bows of order p = 2, 3 by the uniform approximation for a fold caustic (Chester, Friedman & Ursell 1957,
+// The bows of order p = 2–6 by the uniform approximation for a fold caustic (Chester, Friedman & Ursell 1957,
 // Proc. Camb. Phil. Soc. 53, 599; for the rainbow Berry & Mount 1972, Rep. Prog. Phys. 35, 315, §5 (section from
 // memory)). With the two rays of one order at Θ, signed amplitudes a₁, a₂ and phase difference Δφ = (4/3)z^{3/2}:
 //   |S_j|² = π[(a₁ + a₂)² z^{1/2} Ai²(−z) + (a₁ − a₂)² z^{−1/2} Ai′²(−z)].
@@ -11,8 +11,7 @@
 
 import { airyPair } from "../special/airy.js";
 import { airyBowScale } from "../rays/airy-bow.js";
-import { deviationCurvature, deviationSlope, rainbowImpactParameter } from "../rays/descartes.js";
-import { raysAtScatteringAngle } from "../rays/geometric-intensity.js";
+import { deviationCurvature, deviationRad, deviationSlope, rainbowImpactParameter, scatteringAngleOfDeviation } from "../rays/descartes.js";
 
 const DEG = Math.PI / 180;
 /** Relative step of the central difference for dA/db at the rainbow ray (common practice: ~ε^{1/3} of the scale). */
@@ -26,7 +25,10 @@ export interface UniformBowTable {
   uPar: Float64Array;
   vPerp: Float64Array;
   vPar: Float64Array;
-  /** 1 where a bin is served by the uniform formula; 0 where only one ray of the order reaches it (ray optics). */
+  /** |S_j|²/x² of the order's rays that take no part in the bow (ray optics), on uniform bins. */
+  otherPerp: Float64Array;
+  otherPar: Float64Array;
+  /** 1 where a bin is served by the uniform formula; 0 where other than the bow's own pair of rays reach it (ray optics). */
   uniform: Uint8Array;
 }
 
@@ -58,15 +60,72 @@ interface RayPair {
   outer: number;
 }
 
-/** The two rays of order k at Θ on either side of the rainbow ray; null where fewer than two reach Θ. */
-function rayPair(n: number, k: number, bRainbow: number, thetaRad: number): RayPair | null {
-  let inner = NaN;
-  let outer = NaN;
-  for (const b of raysAtScatteringAngle(n, k, thetaRad)) {
-    if (b < bRainbow) inner = b;
-    else outer = b;
+interface RaysAtAngle {
+  /** The two rays that merge at the rainbow ray, or null where they do not both reach Θ. */
+  pair: RayPair | null;
+  /** Further rays of the same order (high orders wrap round), added incoherently. */
+  others: number[];
+}
+
+/**
+ * Segments of the tabulated Θ(b); roots are then polished by Newton steps kept inside their segment (quadratic
+ * convergence from a linear guess in a segment of ≤ π/2000 in b: 6 steps reach rounding error, common practice;
+ * checked against 64-step bisection, which gave ΔE identical to 1e-8 in test/auto-engine.test.ts's case).
+ */
+const RAY_TABLE_SEGMENTS = 1000;
+const NEWTON_STEPS = 6;
+
+/**
+ * All rays of order k reaching each angle of the evenly spaced grid firstDeg + m·spacingDeg (m < queries):
+ * Θ(b) is tabulated on b = sin(uπ/2) (nodes crowd towards grazing, where Θ turns fastest) with b_R as a node,
+ * so each segment is monotone; every grid angle a segment spans gives one root.
+ */
+function raysOnGrid(n: number, k: number, bRainbow: number, firstDeg: number, spacingDeg: number, queries: number): number[][] {
+  const found: number[][] = Array.from({ length: queries }, () => []);
+  const nodes: number[] = [];
+  for (let s = 0; s <= RAY_TABLE_SEGMENTS; s++) nodes.push(Math.sin(((s / RAY_TABLE_SEGMENTS) * Math.PI) / 2));
+  nodes.push(bRainbow);
+  nodes.sort((x, y) => x - y);
+  const dev = nodes.map((b) => deviationRad(n, k, Math.min(b, 1 - 1e-15)));
+  for (let s = 0; s + 1 < nodes.length; s++) {
+    const [b0, b1, d0, d1] = [nodes[s], nodes[s + 1], dev[s], dev[s + 1]];
+    if (b1 <= b0) continue;
+    // A segment whose deviation crosses a multiple of π folds through Θ = 0 or 180°: left out (axis and glory only).
+    if (Math.floor(d0 / Math.PI) !== Math.floor(d1 / Math.PI)) continue;
+    const t0 = scatteringAngleOfDeviation(d0);
+    const t1 = scatteringAngleOfDeviation(d1);
+    const lo = Math.min(t0.angle, t1.angle) / DEG;
+    const hi = Math.max(t0.angle, t1.angle) / DEG;
+    const mFirst = Math.max(0, Math.ceil((lo - firstDeg) / spacingDeg));
+    const mLast = Math.min(queries - 1, Math.ceil((hi - firstDeg) / spacingDeg) - 1);
+    for (let m = mFirst; m <= mLast; m++) {
+      const theta = (firstDeg + m * spacingDeg) * DEG;
+      const target = d0 + t0.sign * (theta - t0.angle);
+      let b = b0 + ((target - d0) / (d1 - d0)) * (b1 - b0);
+      for (let step = 0; step < NEWTON_STEPS; step++) {
+        const slope = deviationSlope(n, k, Math.min(b, 1 - 1e-15));
+        if (!Number.isFinite(slope) || slope === 0) break;
+        b = Math.min(b1, Math.max(b0, b - (deviationRad(n, k, Math.min(b, 1 - 1e-15)) - target) / slope));
+      }
+      found[m].push(b);
+    }
   }
-  return Number.isNaN(inner) || Number.isNaN(outer) ? null : { inner, outer };
+  return found;
+}
+
+/** Rays of order k at one angle, split into the bow's own pair (equal deviation, nearest b_R on either side) and the rest. */
+function splitRays(n: number, k: number, bRainbow: number, rays: number[]): RaysAtAngle {
+  const dR = deviationRad(n, k, bRainbow);
+  let inner = -1;
+  let outer = -1;
+  rays.forEach((b, i) => {
+    // The pair shares one deviation, within a half-turn of D_R (whose other rays differ by whole turns).
+    if (Math.abs(deviationRad(n, k, b) - dR) > Math.PI) return;
+    if (b < bRainbow && (inner < 0 || b > rays[inner])) inner = i;
+    if (b > bRainbow && (outer < 0 || b < rays[outer])) outer = i;
+  });
+  if (inner < 0 || outer < 0) return { pair: null, others: rays };
+  return { pair: { inner: rays[inner], outer: rays[outer] }, others: rays.filter((_, i) => i !== inner && i !== outer) };
 }
 
 /** ẑ = (3|ΔG|/4)^{2/3} of a ray pair, so that Δφ = x·|ΔG| = (4/3)z^{3/2}. */
@@ -90,17 +149,21 @@ export function uniformBowTable(n: number, p: number, thetaDeg: Float64Array, st
   const dPerp = slopeFactor * ((up.perpendicular - down.perpendicular) / (2 * bR * SLOPE_STEP)) ** 2;
   const dPar = slopeFactor * ((up.parallel - down.parallel) / (2 * bR * SLOPE_STEP)) ** 2;
 
-  const zHatAt = (thetaAtDeg: number): { zHat: number; pair: RayPair | null; single: boolean } => {
+  // Edges and centres interleave on a half-step grid: edge e at m = 2e, centre j at m = 2j + 1.
+  const halfGridFirstDeg = thetaDeg[0] - stepDeg / 2;
+  const raysByHalfStep = raysOnGrid(n, k, bR, halfGridFirstDeg, stepDeg / 2, 2 * count + 1);
+  const zHatAt = (m: number): { zHat: number; rays: RaysAtAngle; single: boolean } => {
+    const thetaAtDeg = halfGridFirstDeg + (m * stepDeg) / 2;
     const xi = scale.xiPerRad * (thetaAtDeg - scale.rainbowAngleDeg) * DEG;
-    if (xi <= 0) return { zHat: xi, pair: null, single: false };
-    const pair = rayPair(n, k, bR, thetaAtDeg * DEG);
-    return pair ? { zHat: zHatOfPair(n, k, pair), pair, single: false } : { zHat: NaN, pair: null, single: true };
+    const rays = splitRays(n, k, bR, raysByHalfStep[m]);
+    if (xi <= 0) return { zHat: xi, rays: { pair: null, others: rays.others }, single: false };
+    return rays.pair ? { zHat: zHatOfPair(n, k, rays.pair), rays, single: false } : { zHat: NaN, rays, single: true };
   };
 
   const zHatEdges = new Float64Array(count + 1);
   const singleEdge = new Uint8Array(count + 1);
   for (let e = 0; e <= count; e++) {
-    const at = zHatAt((e < count ? thetaDeg[e] : thetaDeg[count - 1] + stepDeg) - stepDeg / 2);
+    const at = zHatAt(2 * e);
     zHatEdges[e] = at.zHat;
     singleEdge[e] = at.single ? 1 : 0;
   }
@@ -108,12 +171,23 @@ export function uniformBowTable(n: number, p: number, thetaDeg: Float64Array, st
   const uPar = new Float64Array(count);
   const vPerp = new Float64Array(count);
   const vPar = new Float64Array(count);
+  const otherPerp = new Float64Array(count);
+  const otherPar = new Float64Array(count);
   const uniform = new Uint8Array(count);
   for (let j = 0; j < count; j++) {
-    const centre = zHatAt(thetaDeg[j]);
+    const centre = zHatAt(2 * j + 1);
     if (centre.single || singleEdge[j] || singleEdge[j + 1]) continue;
     uniform[j] = 1;
-    if (centre.pair === null) {
+    const sinTheta = Math.sin(thetaDeg[j] * DEG);
+    // Rays that take no part in the bow: ray optics at the bin centre, |S_j|²/x² = ε_j²·b/(|dD/db|·sinΘ).
+    for (const b of centre.rays.others) {
+      const amp = signedAmplitude(n, k, b);
+      const spread = 1 / (Math.abs(deviationSlope(n, k, b)) * sinTheta);
+      otherPerp[j] += amp.perpendicular ** 2 * spread;
+      otherPar[j] += amp.parallel ** 2 * spread;
+    }
+    const pair = centre.rays.pair;
+    if (pair === null) {
       uPerp[j] = scale.perpendicularScale;
       uPar[j] = scale.parallelScale;
       vPerp[j] = dPerp;
@@ -121,9 +195,8 @@ export function uniformBowTable(n: number, p: number, thetaDeg: Float64Array, st
       continue;
     }
     // Ray amplitudes over x: a_i/x = A(b_i)/√(|dD/db|·sinΘ) (van de Hulst 1957 §12.22 divergence factor).
-    const sinTheta = Math.sin(thetaDeg[j] * DEG);
     const z = centre.zHat;
-    const [a1, a2] = [centre.pair.inner, centre.pair.outer].map((b) => {
+    const [a1, a2] = [pair.inner, pair.outer].map((b) => {
       const amp = signedAmplitude(n, k, b);
       const spread = 1 / Math.sqrt(Math.abs(deviationSlope(n, k, b)) * sinTheta);
       return { perpendicular: amp.perpendicular * spread, parallel: amp.parallel * spread };
@@ -133,22 +206,27 @@ export function uniformBowTable(n: number, p: number, thetaDeg: Float64Array, st
     vPerp[j] = (Math.PI * (a1.perpendicular - a2.perpendicular) ** 2) / Math.sqrt(z);
     vPar[j] = (Math.PI * (a1.parallel - a2.parallel) ** 2) / Math.sqrt(z);
   }
-  return { zHatEdges, uPerp, uPar, vPerp, vPar, uniform };
+  return { zHatEdges, uPerp, uPar, vPerp, vPar, otherPerp, otherPar, uniform };
 }
 
-function aiSquaredIntegral(w: number): number {
-  const { ai, aiPrime } = airyPair(w);
-  return w * ai * ai - aiPrime * aiPrime;
-}
+/** Ai(w) below e^{−(4/3)·40^{3/2}} ≈ 1e-146 of Ai(0) from w = 40 on (A&S 10.4.59): the integrals are 0 there. */
+const DARK_CUTOFF_W = 40;
+/**
+ * From this many Ai² fringes per bin (the phase (2/3)z^{3/2} advances by π per fringe) the bin means of Ai²(−z)
+ * and Ai′²(−z) are their local averages 1/(2π√z) and √z/(2π) (A&S 10.4.60, 10.4.62), within ~1/(2π·10) ≈ 2 %.
+ */
+const INCOHERENT_FRINGES = 10;
 
-function aiPrimeSquaredIntegral(w: number): number {
+/** Antiderivatives at w of Ai² (w·Ai² − Ai′²) and of Ai′² ((−w²·Ai² + w·Ai′² + 2·Ai·Ai′)/3). */
+function squaredIntegrals(w: number): { ai2: number; aiPrime2: number } {
+  if (w >= DARK_CUTOFF_W) return { ai2: 0, aiPrime2: 0 };
   const { ai, aiPrime } = airyPair(w);
-  return (-w * w * ai * ai + w * aiPrime * aiPrime + 2 * ai * aiPrime) / 3;
+  return { ai2: w * ai * ai - aiPrime * aiPrime, aiPrime2: (-w * w * ai * ai + w * aiPrime * aiPrime + 2 * ai * aiPrime) / 3 };
 }
 
 /**
  * Adds weight × (bin mean of |S1|², |S2|²) of the bow in `table` for size parameter x to perp/par, on the bins
- * the table marks uniform; the others are left to the caller (ray optics of the same order).
+ * the table marks uniform; the others are left to the caller (bin-averaged ray optics of the same order).
  */
 export function addUniformBowBins(
   table: UniformBowTable,
@@ -160,32 +238,35 @@ export function addUniformBowBins(
   const zScale = x ** (2 / 3);
   const uScale = weight * x ** (7 / 3);
   const vScale = weight * x ** (5 / 3);
+  const raysScale = weight * x * x;
   const edges = table.zHatEdges;
-  let wPrev = -zScale * edges[0];
-  let fPrev = Number.isFinite(wPrev) ? aiSquaredIntegral(wPrev) : NaN;
-  let gPrev = Number.isFinite(wPrev) ? aiPrimeSquaredIntegral(wPrev) : NaN;
+  let cachedEdge = -1;
+  let cached = { ai2: 0, aiPrime2: 0 };
   for (let j = 0; j < perpendicular.length; j++) {
-    const w = -zScale * edges[j + 1];
-    const finite = Number.isFinite(w);
-    const f = finite ? aiSquaredIntegral(w) : NaN;
-    const g = finite ? aiPrimeSquaredIntegral(w) : NaN;
-    if (table.uniform[j]) {
-      let meanAi2: number;
-      let meanAiPrime2: number;
-      if (Math.abs(w - wPrev) > 1e-9) {
-        // Mean over the bin of Ai²(w), w = −z from wPrev to w.
-        meanAi2 = (f - fPrev) / (w - wPrev);
-        meanAiPrime2 = (g - gPrev) / (w - wPrev);
-      } else {
-        const { ai, aiPrime } = airyPair(0.5 * (w + wPrev));
-        meanAi2 = ai * ai;
-        meanAiPrime2 = aiPrime * aiPrime;
-      }
-      perpendicular[j] += uScale * table.uPerp[j] * meanAi2 + vScale * table.vPerp[j] * meanAiPrime2;
-      parallel[j] += uScale * table.uPar[j] * meanAi2 + vScale * table.vPar[j] * meanAiPrime2;
+    if (!table.uniform[j]) continue;
+    const zLo = zScale * edges[j];
+    const zHi = zScale * edges[j + 1];
+    let meanAi2: number;
+    let meanAiPrime2: number;
+    const fringes = zLo > 0 && zHi > 0 ? Math.abs(zHi * Math.sqrt(zHi) - zLo * Math.sqrt(zLo)) / (1.5 * Math.PI) : 0;
+    if (fringes >= INCOHERENT_FRINGES) {
+      const root = Math.sqrt(0.5 * (zLo + zHi));
+      meanAi2 = 1 / (2 * Math.PI * root);
+      meanAiPrime2 = root / (2 * Math.PI);
+    } else if (Math.abs(zHi - zLo) > 1e-9) {
+      // Mean over the bin of Ai²(w), w = −z running from −zLo to −zHi.
+      const lo = cachedEdge === j ? cached : squaredIntegrals(-zLo);
+      const hi = squaredIntegrals(-zHi);
+      meanAi2 = (lo.ai2 - hi.ai2) / (zHi - zLo);
+      meanAiPrime2 = (lo.aiPrime2 - hi.aiPrime2) / (zHi - zLo);
+      cachedEdge = j + 1;
+      cached = hi;
+    } else {
+      const { ai, aiPrime } = airyPair(-0.5 * (zLo + zHi));
+      meanAi2 = ai * ai;
+      meanAiPrime2 = aiPrime * aiPrime;
     }
-    wPrev = w;
-    fPrev = f;
-    gPrev = g;
+    perpendicular[j] += uScale * table.uPerp[j] * meanAi2 + vScale * table.vPerp[j] * meanAiPrime2 + raysScale * table.otherPerp[j];
+    parallel[j] += uScale * table.uPar[j] * meanAi2 + vScale * table.vPar[j] * meanAiPrime2 + raysScale * table.otherPar[j];
   }
 }

@@ -7,7 +7,7 @@ import type { Observer } from "../colour/observers.js";
 import { renderXyz, type WhiteHandling } from "../colour/render.js";
 import type { OutputSpaceId } from "../colour/output-spaces.js";
 import type { GamutMethod } from "../colour/gamut.js";
-import type { SpectralProfile } from "./spectral-profile.js";
+import type { SpectralProfile } from "./lattice-profile.js";
 
 /** Maximum luminous efficacy K_m = 683 lm/W (CIE 015:2018 §7.1; the SI definition of the candela). */
 export const LUMINOUS_EFFICACY_LM_PER_W = 683;

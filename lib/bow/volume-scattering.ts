@@ -12,8 +12,12 @@ export type DropEngine = "mie" | "airy" | "geometric";
 
 /** Debye orders (chords) carried by the approximate engines: reflection, transmission and the first five bows. */
 export const RAY_ORDERS = [0, 1, 2, 3, 4, 5, 6] as const;
-/** Bows treated by Airy theory (in its uniform form, lib/bow/airy-bins.ts) in the "airy" engine; the others stay ray optics. */
-export const AIRY_BOW_ORDERS = [2, 3] as const;
+/**
+ * Bows treated by Airy theory, in its uniform form (lib/bow/airy-bins.ts), in the "airy" engine; p = 0, 1 stay
+ * ray optics. p = 4–6 are included because as bare ray caustics they put a spike into every wavelength's profile
+ * (the fifth-order bow, p = 6, crosses Alexander's band: ΔE up to 10 against Mie at 150 µm, bench/auto-engine.ts).
+ */
+export const AIRY_BOW_ORDERS = [2, 3, 4, 5, 6] as const;
 
 export interface VolumeScatteringInput {
   /** Quadrature nodes (µm) and weights (drops per m³ each node stands for). */
@@ -58,7 +62,7 @@ export function volumeScattering(input: VolumeScatteringInput): VolumeScattering
     const waveNumberPerM = (2 * Math.PI * nAir[l]) / (wavelengthsNm[l] * 1e-9);
     const perDrop = 1 / (2 * waveNumberPerM * waveNumberPerM);
     const raysAll = needsRays ? rayOpticsBins(n, RAY_ORDERS, thetaDeg, stepDeg) : null;
-    const raysNonAiry = needsRays ? rayOpticsBins(n, RAY_ORDERS.filter((p) => p !== 2 && p !== 3), thetaDeg, stepDeg) : null;
+    const raysNonAiry = needsRays ? rayOpticsBins(n, RAY_ORDERS.filter((p) => !(AIRY_BOW_ORDERS as readonly number[]).includes(p)), thetaDeg, stepDeg) : null;
     const raysAiryOrders = AIRY_BOW_ORDERS.map((p) => (needsAiry ? rayOpticsBins(n, [p], thetaDeg, stepDeg) : null));
     const bowTables = AIRY_BOW_ORDERS.map((p) => (needsAiry ? uniformBowTable(n, p, thetaDeg, stepDeg) : null));
     for (let i = 0; i < radiiUm.length; i++) {

@@ -7,6 +7,7 @@ import { encodePngStrip } from "../images/png-strip.js";
 import { ClientError } from "../errors.js";
 import type { Config } from "../config.js";
 import type { Preset } from "../presets.js";
+import type { KernelService } from "../kernel/kernel-service.js";
 
 /** Six significant digits: far below any colour difference, and it keeps the JSON small. */
 function round6(v: number): number {
@@ -62,7 +63,7 @@ async function sendStrip(result: ProfileResult, format: Format, query: { height:
   return reply.send(strip.png);
 }
 
-export function profileRoutes(config: Config, presets: Map<string, Preset>): RouteSpec[] {
+export function profileRoutes(config: Config, presets: Map<string, Preset>, kernels: KernelService): RouteSpec[] {
   return [
     defineRoute({
       method: "POST",
@@ -81,7 +82,7 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>): Rou
         422: { description: "valid, but costlier than the synchronous budget" },
       },
       handle: async ({ body, query, request, reply }) => {
-        const result = computeProfile(body, { maxTermAngles: config.maxProfileTermAngles });
+        const result = await computeProfile(body, { kernels, limits: { maxTermAngles: config.maxProfileTermAngles } });
         const format = chooseFormat(query, request);
         if (format === "json") return profileJson(result);
         return sendStrip(result, format, query, reply);

@@ -1,9 +1,14 @@
 import { profileRequestSchema } from "../../schemas/profile.js";
 import { computeProfile, type ProfileResolution, type ProfileResult } from "../../server/profile-service.js";
+import { KernelService } from "../../server/kernel/kernel-service.js";
+import { createInlinePool } from "../../server/kernel/worker-pool.js";
+
+/** One in-memory kernel cache for the test process: later profiles reuse the kernels of earlier ones. */
+const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: createInlinePool().compute });
 
 /** Runs a profile from a partial request body without any cost limit. */
-export function profileOf(body: unknown, resolution: ProfileResolution = {}): ProfileResult {
-  return computeProfile(profileRequestSchema.parse(body), { maxTermAngles: Infinity }, resolution);
+export function profileOf(body: unknown, resolution: ProfileResolution = {}): Promise<ProfileResult> {
+  return computeProfile(profileRequestSchema.parse(body), { kernels, limits: { maxTermAngles: Infinity } }, resolution);
 }
 
 export function meanOver(anglesDeg: Float64Array, values: Float64Array, fromDeg: number, toDeg: number): number {

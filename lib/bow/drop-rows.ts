@@ -1,0 +1,88 @@
+// |S1|², |S2|² of one drop at one wavelength over an angle grid, by the engine chosen for its size. What does
+// not depend on the drop's size (ray-optics bins, the bows' uniform tables) is prepared once per wavelength.
+
+import { mieCoefficients } from "../mie/coefficients.js";
+import { mieAmplitudes } from "../mie/amplitudes.js";
+import { allocateAmplitudes, type MieAmplitudes } from "../mie/types.js";
+import { rayOpticsBins, type RayBins } from "./ray-bins.js";
+import { addUniformBowBins, uniformBowTable, type UniformBowTable } from "./airy-bins.js";
+import { AIRY_BOW_ORDERS, RAY_ORDERS, type DropEngine } from "./volume-scattering.js";
+
+export interface DropRowContext {
+  mRe: number;
+  mIm: number;
+  /** k = 2π n_air / λ, per metre. */
+  waveNumberPerM: number;
+  thetaDeg: Float64Array;
+  cosTheta: Float64Array;
+  amplitudes: MieAmplitudes;
+  raysAll: RayBins | null;
+  raysNonAiry: RayBins | null;
+  raysAiryOrders: (RayBins | null)[];
+  bowTables: (UniformBowTable | null)[];
+}
+
+/** Θ ascending and evenly spaced by stepDeg (ray and Airy engines give bin means over each step). */
+export function dropRowContext(
+  medium: { wavelengthNm: number; mRe: number; mIm: number; nAir: number },
+  thetaDeg: Float64Array,
+  stepDeg: number,
+  engines: ReadonlySet<DropEngine>,
+): DropRowContext {
+  const n = medium.mRe;
+  const needsRays = engines.has("airy") || engines.has("geometric");
+  const needsAiry = engines.has("airy");
+  const airyOrders = AIRY_BOW_ORDERS as readonly number[];
+  return {
+    mRe: n,
+    mIm: medium.mIm,
+    waveNumberPerM: (2 * Math.PI * medium.nAir) / (medium.wavelengthNm * 1e-9),
+    thetaDeg,
+    cosTheta: thetaDeg.map((t) => Math.cos((t * Math.PI) / 180)),
+    amplitudes: allocateAmplitudes(thetaDeg.length),
+    raysAll: engines.has("geometric") ? rayOpticsBins(n, RAY_ORDERS, thetaDeg, stepDeg) : null,
+    raysNonAiry: needsRays ? rayOpticsBins(n, RAY_ORDERS.filter((p) => !airyOrders.includes(p)), thetaDeg, stepDeg) : null,
+    raysAiryOrders: AIRY_BOW_ORDERS.map((p) => (needsAiry ? rayOpticsBins(n, [p], thetaDeg, stepDeg) : null)),
+    bowTables: AIRY_BOW_ORDERS.map((p) => (needsAiry ? uniformBowTable(n, p, thetaDeg, stepDeg) : null)),
+  };
+}
+
+/** Writes |S1|², |S2|² (Bohren–Huffman convention) into perp, par; returns the Mie term-angles spent. */
+export function dropRow(ctx: DropRowContext, engine: DropEngine, radiusUm: number, perp: Float64Array, par: Float64Array): number {
+  const nTheta = ctx.thetaDeg.length;
+  const x = ctx.waveNumberPerM * radiusUm * 1e-6;
+  perp.fill(0);
+  par.fill(0);
+  if (engine === "mie") {
+    const c = mieCoefficients(ctx.mRe, ctx.mIm, x);
+    const a = mieAmplitudes(c, ctx.cosTheta, ctx.amplitudes);
+    for (let j = 0; j < nTheta; j++) {
+      perp[j] = a.s1Re[j] * a.s1Re[j] + a.s1Im[j] * a.s1Im[j];
+      par[j] = a.s2Re[j] * a.s2Re[j] + a.s2Im[j] * a.s2Im[j];
+    }
+    return c.nTerms * nTheta;
+  }
+  if (engine === "geometric") {
+    addScaled(perp, par, ctx.raysAll!, x * x);
+    return 0;
+  }
+  addScaled(perp, par, ctx.raysNonAiry!, x * x);
+  ctx.bowTables.forEach((table, o) => {
+    addUniformBowBins(table!, x, 1, perp, par);
+    // Where only one ray of the order arrives there is nothing to interfere: ray optics.
+    const rays = ctx.raysAiryOrders[o]!;
+    for (let j = 0; j < nTheta; j++) {
+      if (table!.uniform[j]) continue;
+      perp[j] += x * x * rays.perpendicular[j];
+      par[j] += x * x * rays.parallel[j];
+    }
+  });
+  return 0;
+}
+
+function addScaled(perp: Float64Array, par: Float64Array, rays: RayBins, factor: number): void {
+  for (let j = 0; j < perp.length; j++) {
+    perp[j] += factor * rays.perpendicular[j];
+    par[j] += factor * rays.parallel[j];
+  }
+}

@@ -1,0 +1,28 @@
+import type { DropEngine } from "../../lib/bow/volume-scattering.js";
+
+/** Optical constants of the drop material at one wavelength, all a kernel row depends on besides size and angles. */
+export interface Medium {
+  wavelengthNm: number;
+  mRe: number;
+  mIm: number;
+  nAir: number;
+}
+
+export interface KernelTaskItem {
+  radiusUm: number;
+  engine: DropEngine;
+  blocks: number[];
+}
+
+/** One wavelength, several drops, each over some lattice blocks: the unit of work sent to a worker. */
+export interface KernelTask {
+  medium: Medium;
+  h: number;
+  items: KernelTaskItem[];
+}
+
+/** rows[item][block]: β⊥ then β∥ per drop (m² sr⁻¹) over the block's lattice points, ψ ascending. */
+export interface KernelTaskResult {
+  rows: Float64Array[][];
+  mieTermAngles: number;
+}

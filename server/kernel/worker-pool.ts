@@ -1,0 +1,43 @@
+import { existsSync } from "node:fs";
+import { fileURLToPath } from "node:url";
+import { Piscina } from "piscina";
+import { kernelRows } from "../../lib/bow/kernel-rows.js";
+import type { KernelCompute } from "./kernel-service.js";
+import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
+
+/**
+ * The compiled worker script. From dist/ it sits beside this file; from the sources (tests) it is the built copy,
+ * which `npm test` builds first.
+ */
+function workerScript(): string {
+  const beside = fileURLToPath(new URL("./kernel-worker.js", import.meta.url));
+  if (existsSync(beside)) return beside;
+  const built = fileURLToPath(new URL("../../dist/server/kernel/kernel-worker.js", import.meta.url));
+  if (existsSync(built)) return built;
+  throw new Error("the kernel worker is not built: run `npm run build`");
+}
+
+export interface KernelPool {
+  compute: KernelCompute;
+  threads: number;
+  close(): Promise<void>;
+}
+
+/** Kernel tasks on worker threads, so that physics never blocks the event loop. */
+export function createWorkerPool(threads: number): KernelPool {
+  const piscina = new Piscina({ filename: workerScript(), minThreads: 1, maxThreads: threads, idleTimeout: 60_000 });
+  return {
+    threads,
+    compute: (task: KernelTask, signal?: AbortSignal) => piscina.run(task, { signal }) as Promise<KernelTaskResult>,
+    close: () => piscina.destroy(),
+  };
+}
+
+/** The same computation on the calling thread (tests and the CLI, where blocking is fine). */
+export function createInlinePool(): KernelPool {
+  return {
+    threads: 0,
+    compute: async (task: KernelTask) => kernelRows(task),
+    close: async () => undefined,
+  };
+}

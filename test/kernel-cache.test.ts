@@ -1,0 +1,133 @@
+// The kernel cache: memory, disk and worker threads give the same numbers as a plain computation, compute each
+// row once, and survive corrupt files.
+import { describe, it, expect, beforeAll, afterAll } from "vitest";
+import { mkdtemp, readdir, writeFile, readFile, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import request from "supertest";
+import type { FastifyInstance } from "fastify";
+import { KernelService, type KernelCompute } from "../server/kernel/kernel-service.js";
+import { DiskStore } from "../server/kernel/disk-store.js";
+import { createInlinePool, createWorkerPool } from "../server/kernel/worker-pool.js";
+import { computeProfile } from "../server/profile-service.js";
+import { profileRequestSchema } from "../schemas/profile.js";
+import { buildApp } from "../server/app.js";
+
+const body = profileRequestSchema.parse({
+  drops: { kind: "lognormal", medianRadiusUm: 30, geometricSd: 1.2, totalNumberPerM3: 1e6 },
+  angles: { fromDeg: 36, toDeg: 46, stepDeg: 0.2 },
+  spectral: { fromNm: 400, toNm: 700, stepNm: 20 },
+  method: "mie",
+});
+const limits = { maxTermAngles: Infinity };
+
+function counting(compute: KernelCompute) {
+  const counter = { tasks: 0, rows: 0 };
+  const wrapped: KernelCompute = async (task, signal) => {
+    counter.tasks++;
+    counter.rows += task.items.reduce((s, it) => s + it.blocks.length, 0);
+    return compute(task, signal);
+  };
+  return { counter, compute: wrapped };
+}
+
+let folder: string;
+beforeAll(async () => {
+  folder = await mkdtemp(join(tmpdir(), "antisolar-kernels-"));
+});
+afterAll(async () => rm(folder, { recursive: true, force: true }));
+
+describe("kernel cache", () => {
+  it("cached, uncached, on-disk and worker-thread results are identical", async () => {
+    const inline = createInlinePool();
+    const fresh = await computeProfile(body, { kernels: new KernelService({ memoryBudgetBytes: 2 ** 28, compute: inline.compute }), limits });
+    const disk = new DiskStore(join(folder, "identical"));
+    const first = new KernelService({ memoryBudgetBytes: 2 ** 28, disk, compute: inline.compute });
+    await computeProfile(body, { kernels: first, limits });
+    const again = await computeProfile(body, { kernels: first, limits });
+    expect(again.meta.cache).toBe("hit");
+    await first.flush();
+    // A second service with an empty memory reads every row back from disk.
+    const { counter, compute } = counting(inline.compute);
+    const fromDisk = await computeProfile(body, { kernels: new KernelService({ memoryBudgetBytes: 2 ** 28, disk, compute }), limits });
+    expect(counter.tasks).toBe(0);
+    expect((fromDisk.meta.kernel as { diskHits: number }).diskHits).toBeGreaterThan(0);
+    const pool = createWorkerPool(2);
+    try {
+      const threaded = await computeProfile(body, { kernels: new KernelService({ memoryBudgetBytes: 2 ** 28, compute: pool.compute }), limits });
+      for (const r of [again, fromDisk, threaded]) {
+        expect(Array.from(r.colour.xyz)).toEqual(Array.from(fresh.colour.xyz));
+        expect(Array.from(r.spectral.perpendicular)).toEqual(Array.from(fresh.spectral.perpendicular));
+      }
+    } finally {
+      await pool.close();
+    }
+  });
+
+  it("concurrent requests for the same kernel compute each row once", async () => {
+    const { counter, compute } = counting(createInlinePool().compute);
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 28, compute });
+    const results = await Promise.all([1, 2, 3, 4].map(() => computeProfile(body, { kernels, limits })));
+    const once = counter.rows;
+    expect(results.every((r) => r.colour.xyz.length === results[0].colour.xyz.length)).toBe(true);
+    const { counter: single, compute: compute2 } = counting(createInlinePool().compute);
+    await computeProfile(body, { kernels: new KernelService({ memoryBudgetBytes: 2 ** 28, compute: compute2 }), limits });
+    expect(once).toBe(single.rows);
+  });
+
+  it("a corrupt or half-written cache file is detected, dropped and recomputed", async () => {
+    const disk = new DiskStore(join(folder, "corrupt"));
+    const inline = createInlinePool();
+    const writer = new KernelService({ memoryBudgetBytes: 2 ** 28, disk, compute: inline.compute });
+    const reference = await computeProfile(body, { kernels: writer, limits });
+    await writer.flush();
+    const files: string[] = [];
+    for (const sub of await readdir(join(folder, "corrupt"))) {
+      for (const f of await readdir(join(folder, "corrupt", sub))) files.push(join(folder, "corrupt", sub, f));
+    }
+    expect(files.length).toBeGreaterThan(1);
+    const flipped = await readFile(files[0]);
+    flipped[flipped.length - 1] ^= 0xff;
+    await writeFile(files[0], flipped);
+    const truncated = await readFile(files[1]);
+    await writeFile(files[1], truncated.subarray(0, truncated.length >> 1));
+    const { counter, compute } = counting(inline.compute);
+    const again = await computeProfile(body, { kernels: new KernelService({ memoryBudgetBytes: 2 ** 28, disk, compute }), limits });
+    expect(counter.rows).toBeGreaterThanOrEqual(2);
+    expect(Array.from(again.colour.xyz)).toEqual(Array.from(reference.colour.xyz));
+  });
+
+  it("the memory cache stays within its byte budget", async () => {
+    const kernels = new KernelService({ memoryBudgetBytes: 200_000, compute: createInlinePool().compute });
+    await computeProfile(body, { kernels, limits });
+    expect(kernels.memory.sizeBytes).toBeLessThanOrEqual(200_000);
+  });
+});
+
+describe("the event loop stays free while kernels compute on worker threads", () => {
+  let app: FastifyInstance;
+  beforeAll(async () => {
+    app = await buildApp({ config: { cacheDir: "", workers: 1 } });
+    await app.listen({ port: 0, host: "127.0.0.1" });
+  });
+  afterAll(async () => app.close());
+
+  it("GET /healthz answers within 100 ms during a cold full-Mie render", async () => {
+    const render = request(app.server)
+      .post("/v1/profile")
+      .send({ drops: { kind: "lognormal", medianRadiusUm: 20, geometricSd: 1.3, totalNumberPerM3: 1e7 }, method: "mie", spectral: { fromNm: 380, toNm: 780, stepNm: 20 } })
+      .then((r) => r);
+    await new Promise((r) => setTimeout(r, 150));
+    const latencies: number[] = [];
+    for (let i = 0; i < 5; i++) {
+      const t0 = performance.now();
+      const res = await request(app.server).get("/healthz");
+      latencies.push(performance.now() - t0);
+      expect(res.status).toBe(200);
+      await new Promise((r) => setTimeout(r, 50));
+    }
+    const done = await render;
+    expect(done.status).toBe(200);
+    expect(Math.max(...latencies)).toBeLessThan(100);
+  });
+});
