@@ -14,6 +14,16 @@ export class ByteLru<V extends { byteLength: number }> {
     return value;
   }
 
+  /** Removes and returns an entry, so that the caller can change it and set it again with its new size. */
+  take(key: string): V | undefined {
+    const value = this.map.get(key);
+    if (value !== undefined) {
+      this.map.delete(key);
+      this.bytes -= value.byteLength;
+    }
+    return value;
+  }
+
   has(key: string): boolean {
     return this.map.has(key);
   }

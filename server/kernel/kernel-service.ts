@@ -1,6 +1,6 @@
 // Per-drop kernels β(ψ) on the angle lattice, computed once and reused: memory (LRU by bytes), then disk
 // (content-addressed packs), then computation in worker threads. Concurrent requests for the same kernel row
-// share one computation.
+// share one computation. A pack holds the rows of many drop radii for one wavelength, engine, step and block.
 
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { ByteLru } from "./byte-lru.js";
@@ -20,52 +20,69 @@ export interface KernelRequest {
   blocks: number[];
 }
 
+export interface KernelStats {
+  memoryHits: number;
+  diskHits: number;
+  computed: number;
+  mieTermAngles: number;
+}
+
 export interface KernelRows {
   /** β⊥ then β∥ over one block for wavelength l and radius i. */
   get(l: number, i: number, block: number): Float64Array;
-  stats: { memoryHits: number; diskHits: number; computed: number; mieTermAngles: number };
+  stats: KernelStats;
 }
 
-function mediumKey(m: Medium): string {
-  return `${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}`;
+class Pack {
+  readonly rows = new Map<number, Float64Array>();
+  byteLength = 0;
+  add(radiusUm: number, row: Float64Array): void {
+    const old = this.rows.get(radiusUm);
+    if (old) this.byteLength -= old.byteLength;
+    this.rows.set(radiusUm, row);
+    this.byteLength += row.byteLength + 64;
+  }
 }
 
 function packKey(m: Medium, engine: DropEngine, h: number, block: number): string {
-  return `v${KERNEL_VERSION}|${mediumKey(m)}|${engine}|${h}|${block}`;
-}
-
-function rowKey(pack: string, radiusUm: number): string {
-  return `${pack}|${radiusUm}`;
+  return `v${KERNEL_VERSION}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${engine}|${h}|${block}`;
 }
 
 export class KernelService {
-  readonly memory: ByteLru<Float64Array>;
+  readonly memory: ByteLru<Pack>;
   private readonly inflight = new Map<string, Promise<Float64Array>>();
   private readonly packLoads = new Map<string, Promise<void>>();
   private readonly pendingWrites = new Set<Promise<void>>();
 
-  constructor(
-    private readonly options: { memoryBudgetBytes: number; disk?: DiskStore; compute: KernelCompute },
-  ) {
+  constructor(private readonly options: { memoryBudgetBytes: number; disk?: DiskStore; compute: KernelCompute }) {
     this.memory = new ByteLru(options.memoryBudgetBytes);
+  }
+
+  private remember(pack: string, radiusUm: number, row: Float64Array): void {
+    const entry = this.memory.take(pack) ?? new Pack();
+    entry.add(radiusUm, row);
+    this.memory.set(pack, entry);
   }
 
   async rows(request: KernelRequest, signal?: AbortSignal): Promise<KernelRows> {
     const { h, media, radiiUm, engines, blocks } = request;
-    const stats = { memoryHits: 0, diskHits: 0, computed: 0, mieTermAngles: 0 };
-    const found = new Map<string, Float64Array>();
-    const keyOf = (l: number, i: number, b: number) => rowKey(packKey(media[l], engines[i], h, b), radiiUm[i]);
+    const stats: KernelStats = { memoryHits: 0, diskHits: 0, computed: 0, mieTermAngles: 0 };
+    const engineSet = [...new Set(engines)];
+    // found[l][blockIndex]: radius → row, whatever engine served it (each radius has one engine).
+    const found = media.map(() => blocks.map(() => new Map<number, Float64Array>()));
+    const keys = media.map((m) => blocks.map((b) => new Map(engineSet.map((e) => [e, packKey(m, e, h, b)]))));
 
     const lookMemory = () => {
       const missing: [number, number, number][] = [];
       for (let l = 0; l < media.length; l++) {
-        for (let i = 0; i < radiiUm.length; i++) {
-          for (const b of blocks) {
-            const key = keyOf(l, i, b);
-            if (found.has(key)) continue;
-            const row = this.memory.get(key);
-            if (row) found.set(key, row);
-            else missing.push([l, i, b]);
+        for (let bi = 0; bi < blocks.length; bi++) {
+          const have = found[l][bi];
+          const packs = new Map(engineSet.map((e) => [e, this.memory.get(keys[l][bi].get(e)!)]));
+          for (let i = 0; i < radiiUm.length; i++) {
+            if (have.has(radiiUm[i])) continue;
+            const row = packs.get(engines[i])?.rows.get(radiiUm[i]);
+            if (row) have.set(radiiUm[i], row);
+            else missing.push([l, i, bi]);
           }
         }
       }
@@ -75,7 +92,7 @@ export class KernelService {
     let missing = lookMemory();
     stats.memoryHits = media.length * radiiUm.length * blocks.length - missing.length;
     if (missing.length && this.options.disk) {
-      const packs = new Set(missing.map(([l, i, b]) => packKey(media[l], engines[i], h, b)));
+      const packs = new Set(missing.map(([l, i, bi]) => keys[l][bi].get(engines[i])!));
       await Promise.all([...packs].map((p) => this.loadPack(p)));
       const before = missing.length;
       missing = lookMemory();
@@ -85,31 +102,31 @@ export class KernelService {
     // Rows another request is computing already are awaited, not computed twice.
     const waits: Promise<void>[] = [];
     const toCompute = new Map<number, Map<number, number[]>>();
-    for (const [l, i, b] of missing) {
-      const key = keyOf(l, i, b);
-      const pending = this.inflight.get(key);
+    for (const [l, i, bi] of missing) {
+      const rowKey = `${keys[l][bi].get(engines[i])}|${radiiUm[i]}`;
+      const pending = this.inflight.get(rowKey);
       if (pending) {
-        waits.push(pending.then((row) => void found.set(key, row)));
+        waits.push(pending.then((row) => void found[l][bi].set(radiiUm[i], row)));
         continue;
       }
       let byRadius = toCompute.get(l);
       if (!byRadius) toCompute.set(l, (byRadius = new Map()));
       let list = byRadius.get(i);
       if (!list) byRadius.set(i, (list = []));
-      list.push(b);
+      list.push(bi);
     }
 
     const tasks: Promise<void>[] = [];
     for (const [l, byRadius] of toCompute) {
-      const items = [...byRadius].map(([i, bs]) => ({ radiusUm: radiiUm[i], engine: engines[i], blocks: bs }));
       const indices = [...byRadius.keys()];
-      const resolvers = new Map<string, { resolve: (r: Float64Array) => void; reject: (e: unknown) => void }>();
-      for (const [i, bs] of byRadius) {
-        for (const b of bs) {
-          const key = keyOf(l, i, b);
-          const promise = new Promise<Float64Array>((resolve, reject) => resolvers.set(key, { resolve, reject }));
+      const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
+      const settle = new Map<string, { resolve: (r: Float64Array) => void; reject: (e: unknown) => void }>();
+      for (const i of indices) {
+        for (const bi of byRadius.get(i)!) {
+          const rowKey = `${keys[l][bi].get(engines[i])}|${radiiUm[i]}`;
+          const promise = new Promise<Float64Array>((resolve, reject) => settle.set(rowKey, { resolve, reject }));
           promise.catch(() => undefined);
-          this.inflight.set(key, promise);
+          this.inflight.set(rowKey, promise);
         }
       }
       const task = this.options
@@ -118,39 +135,40 @@ export class KernelService {
           stats.mieTermAngles += result.mieTermAngles;
           const written = new Map<string, Map<number, Float64Array>>();
           indices.forEach((i, itemIndex) => {
-            items[itemIndex].blocks.forEach((b, blockIndex) => {
-              const key = keyOf(l, i, b);
-              const row = result.rows[itemIndex][blockIndex];
-              this.memory.set(key, row);
-              found.set(key, row);
+            byRadius.get(i)!.forEach((bi, k) => {
+              const pack = keys[l][bi].get(engines[i])!;
+              const row = result.rows[itemIndex][k];
+              this.remember(pack, radiiUm[i], row);
+              found[l][bi].set(radiiUm[i], row);
               stats.computed++;
-              resolvers.get(key)!.resolve(row);
-              this.inflight.delete(key);
-              const pack = packKey(media[l], engines[i], h, b);
+              const rowKey = `${pack}|${radiiUm[i]}`;
+              settle.get(rowKey)!.resolve(row);
+              this.inflight.delete(rowKey);
               if (!written.has(pack)) written.set(pack, new Map());
               written.get(pack)!.set(radiiUm[i], row);
             });
           });
           if (this.options.disk) {
             for (const [pack, rows] of written) {
-              const write = this.savePack(pack, rows).finally(() => this.pendingWrites.delete(write));
+              const write: Promise<void> = this.savePack(pack, rows).finally(() => this.pendingWrites.delete(write));
               this.pendingWrites.add(write);
             }
           }
         })
         .catch((error: unknown) => {
-          for (const [key, r] of resolvers) {
-            if (this.inflight.get(key)) this.inflight.delete(key);
-            r.reject(error);
+          for (const [rowKey, s] of settle) {
+            this.inflight.delete(rowKey);
+            s.reject(error);
           }
           throw error;
         });
       tasks.push(task);
     }
     await Promise.all([...tasks, ...waits]);
+    const blockIndex = new Map(blocks.map((b, bi) => [b, bi]));
     return {
       get: (l, i, b) => {
-        const row = found.get(keyOf(l, i, b));
+        const row = found[l][blockIndex.get(b)!].get(radiiUm[i]);
         if (!row) throw new Error(`kernel row missing for wavelength ${l}, radius ${i}, block ${b}`);
         return row;
       },
@@ -175,45 +193,42 @@ export class KernelService {
   private async readPack(pack: string): Promise<void> {
     const payload = await this.options.disk!.read(pack);
     if (!payload) return;
-    const { radii, rowLength } = decodePackHeader(payload);
-    const dataStart = payload.readUInt32LE(0) + 4;
-    for (let r = 0; r < radii.length; r++) {
-      const bytes = payload.subarray(dataStart + r * rowLength * 8, dataStart + (r + 1) * rowLength * 8);
-      const row = new Float64Array(rowLength);
-      Buffer.from(row.buffer).set(bytes);
-      this.memory.set(rowKey(pack, radii[r]), row);
-    }
+    for (const [radius, row] of decodePack(payload)) this.remember(pack, radius, row);
   }
 
   private async savePack(pack: string, rows: Map<number, Float64Array>): Promise<void> {
     try {
-      const merged = new Map<number, Float64Array>();
       const existing = await this.options.disk!.read(pack);
-      if (existing) {
-        const { radii, rowLength } = decodePackHeader(existing);
-        const dataStart = existing.readUInt32LE(0) + 4;
-        radii.forEach((radius, r) => {
-          const row = new Float64Array(rowLength);
-          Buffer.from(row.buffer).set(existing.subarray(dataStart + r * rowLength * 8, dataStart + (r + 1) * rowLength * 8));
-          merged.set(radius, row);
-        });
-      }
+      const merged = existing ? decodePack(existing) : new Map<number, Float64Array>();
       for (const [radius, row] of rows) merged.set(radius, row);
-      const rowLength = rows.values().next().value!.length;
-      const radii = [...merged.keys()].sort((a, b) => a - b);
-      const header = Buffer.from(JSON.stringify({ radii, rowLength }));
-      const data = Buffer.alloc(radii.length * rowLength * 8);
-      radii.forEach((radius, r) => Buffer.from(merged.get(radius)!.buffer).copy(data, r * rowLength * 8));
-      const length = Buffer.alloc(4);
-      length.writeUInt32LE(header.length, 0);
-      await this.options.disk!.write(pack, Buffer.concat([length, header, data]));
+      await this.options.disk!.write(pack, encodePack(merged));
     } catch {
       // The disk cache is an optimisation: a failed write only costs a recomputation later.
     }
   }
 }
 
-function decodePackHeader(payload: Buffer): { radii: number[]; rowLength: number } {
+/** Pack payload: u32 header length, JSON {radii, rowLength}, then the rows as little-endian float64. */
+function encodePack(rows: Map<number, Float64Array>): Buffer {
+  const rowLength = rows.values().next().value!.length;
+  const radii = [...rows.keys()].sort((a, b) => a - b);
+  const header = Buffer.from(JSON.stringify({ radii, rowLength }));
+  const data = Buffer.alloc(radii.length * rowLength * 8);
+  radii.forEach((radius, r) => Buffer.from(rows.get(radius)!.buffer, rows.get(radius)!.byteOffset, rowLength * 8).copy(data, r * rowLength * 8));
+  const length = Buffer.alloc(4);
+  length.writeUInt32LE(header.length, 0);
+  return Buffer.concat([length, header, data]);
+}
+
+function decodePack(payload: Buffer): Map<number, Float64Array> {
   const length = payload.readUInt32LE(0);
-  return JSON.parse(payload.subarray(4, 4 + length).toString("utf8")) as { radii: number[]; rowLength: number };
+  const { radii, rowLength } = JSON.parse(payload.subarray(4, 4 + length).toString("utf8")) as { radii: number[]; rowLength: number };
+  const start = 4 + length;
+  const out = new Map<number, Float64Array>();
+  radii.forEach((radius, r) => {
+    const row = new Float64Array(rowLength);
+    Buffer.from(row.buffer).set(payload.subarray(start + r * rowLength * 8, start + (r + 1) * rowLength * 8));
+    out.set(radius, row);
+  });
+  return out;
 }

@@ -8,6 +8,8 @@ import { ClientError } from "../errors.js";
 import type { Config } from "../config.js";
 import type { Preset } from "../presets.js";
 import type { KernelService } from "../kernel/kernel-service.js";
+import { ResultCache } from "../result-cache.js";
+import { requestHash } from "../profile-service.js";
 
 /** Six significant digits: far below any colour difference, and it keeps the JSON small. */
 function round6(v: number): number {
@@ -49,21 +51,46 @@ function chooseFormat(query: { format?: Format }, request: FastifyRequest): Form
   return "json";
 }
 
-async function sendStrip(result: ProfileResult, format: Format, query: { height: number; bitDepth?: number }, reply: FastifyReply) {
+interface StripFile {
+  png: Buffer;
+  iccDescription: string;
+  hash: string;
+  computeMs: unknown;
+  bows: ProfileResult["bows"];
+  warnings: unknown;
+  space: string;
+}
+
+async function makeStrip(result: ProfileResult, format: Format, query: { height: number; bitDepth?: number }): Promise<StripFile> {
   const bitDepth = (query.bitDepth ?? (format === "png16" ? 16 : 8)) as 8 | 16;
   const strip = await encodePngStrip({ values: result.colour.rgb, height: query.height, bitDepth, space: result.request.output.space });
-  reply
+  return {
+    png: strip.png,
+    iccDescription: strip.iccDescription,
+    hash: String(result.meta.hash),
+    computeMs: result.meta.computeMs,
+    bows: result.bows,
+    warnings: result.meta.warnings,
+    space: result.request.output.space,
+  };
+}
+
+function sendStrip(strip: StripFile, cache: "hit" | "miss", reply: FastifyReply) {
+  return reply
     .type("image/png")
-    .header("x-antisolar-hash", String(result.meta.hash))
-    .header("x-antisolar-space", result.request.output.space)
+    .header("x-antisolar-hash", strip.hash)
+    .header("x-antisolar-space", strip.space)
     .header("x-antisolar-icc", strip.iccDescription)
-    .header("x-antisolar-compute-ms", String(result.meta.computeMs))
-    .header("x-antisolar-bows", JSON.stringify(result.bows))
-    .header("x-antisolar-warnings", JSON.stringify(result.meta.warnings).replace(/[^\x20-\x7e]/g, "?"));
-  return reply.send(strip.png);
+    .header("x-antisolar-compute-ms", String(strip.computeMs))
+    .header("x-antisolar-cache", cache)
+    .header("x-antisolar-bows", JSON.stringify(strip.bows))
+    .header("x-antisolar-warnings", JSON.stringify(strip.warnings).replace(/[^\x20-\x7e]/g, "?"))
+    .send(strip.png);
 }
 
 export function profileRoutes(config: Config, presets: Map<string, Preset>, kernels: KernelService): RouteSpec[] {
+  // Finished answers take a sixteenth of the cache budget; kernels the rest.
+  const results = new ResultCache((config.cacheBudgetMb * 2 ** 20) / 16);
   return [
     defineRoute({
       method: "POST",
@@ -82,10 +109,25 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
         422: { description: "valid, but costlier than the synchronous budget" },
       },
       handle: async ({ body, query, request, reply }) => {
-        const result = await computeProfile(body, { kernels, limits: { maxTermAngles: config.maxProfileTermAngles } });
         const format = chooseFormat(query, request);
-        if (format === "json") return profileJson(result);
-        return sendStrip(result, format, query, reply);
+        const key = `${requestHash(body)}|${format}|${query.height}|${query.bitDepth ?? ""}`;
+        const cached = results.get<ReturnType<typeof profileJson> | StripFile>(key);
+        if (cached) {
+          if (format === "json") {
+            const json = cached as ReturnType<typeof profileJson>;
+            return { ...json, meta: { ...json.meta, cache: "hit" } };
+          }
+          return sendStrip(cached as StripFile, "hit", reply);
+        }
+        const result = await computeProfile(body, { kernels, limits: { maxTermAngles: config.maxProfileTermAngles } });
+        if (format === "json") {
+          const json = profileJson(result);
+          results.set(key, json, 200 * json.anglesDeg.length + 4096);
+          return json;
+        }
+        const strip = await makeStrip(result, format, query);
+        results.set(key, strip, strip.png.length + 1024);
+        return sendStrip(strip, "miss", reply);
       },
     }),
     defineRoute({
