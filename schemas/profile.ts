@@ -108,7 +108,7 @@ export const outputSchema = z
 
 export const profileMethods = ["auto", "mie", "airy", "geometric"] as const;
 
-export const profileRequestSchema = z
+export const profileFieldsSchema = z
   .object({
     drops: dropsSchema.default({ kind: "marshall-palmer", rainRateMmPerH: 2 }),
     water: waterSchema.default({ temperatureC: 15, salinityPsu: 0 }),
@@ -146,8 +146,9 @@ export const profileRequestSchema = z
     pathLengthM: number(1, 100000, "Path length through the rain along the line of sight, m").default(1000),
     output: outputSchema.default({ space: "srgb", gamut: "css4", normalise: "peak", white: "sun" }),
   })
-  .strict()
-  .superRefine((b, ctx) => {
+  .strict();
+
+export const profileRequestSchema = profileFieldsSchema.superRefine((b, ctx) => {
     if (b.water.salinityPsu > 0 && (b.spectral.fromNm < 400 || b.spectral.toNm > 700)) {
       ctx.addIssue({
         code: "custom",

@@ -10,6 +10,8 @@ import { opticsRoutes } from "./routes/optics.js";
 import { profileRoutes } from "./routes/profile.js";
 import { loadPresets } from "./presets.js";
 import { createKernelRuntime } from "./kernel/runtime.js";
+import { lutRoutes } from "./routes/lut.js";
+import { registerWeb } from "./routes/web.js";
 import { loadConfig, type Config } from "./config.js";
 
 export interface AppOptions {
@@ -35,6 +37,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     ...serviceRoutes(),
     ...opticsRoutes(config),
     ...profileRoutes(config, loadPresets(), runtime.kernels),
+    ...lutRoutes(config, runtime.kernels),
   ];
   const openapi = buildOpenApi(routes, packageVersion());
   const docsHtml = renderDocsPage(openapi);
@@ -52,6 +55,8 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   }
   app.get("/openapi.json", async () => openapi);
   app.get("/docs", async (_request, reply) => reply.type("text/html; charset=utf-8").send(docsHtml));
+
+  await registerWeb(app);
 
   app.setNotFoundHandler((request, reply) => {
     const err = new ClientError("not-found", `no route ${request.method} ${request.url.split("?")[0]}; see /docs`);

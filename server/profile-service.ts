@@ -62,7 +62,7 @@ export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribu
   }
 }
 
-export function requestHash(request: ProfileRequest): string {
+export function requestHash(request: unknown): string {
   return createHash("sha256").update(canonicalJson(request)).digest("hex").slice(0, 32);
 }
 

@@ -1,0 +1,72 @@
+import { z } from "zod";
+import { profileFieldsSchema } from "./profile.js";
+
+const scenarioSchema = profileFieldsSchema.omit({ angles: true, output: true });
+
+export const lutSpaces = ["acescg", "srgb-linear", "xyz-d65"] as const;
+
+export const lutRequestSchema = z
+  .object({
+    scenario: scenarioSchema
+      .partial()
+      .strict()
+      .default({})
+      .describe("The profile request's physics (drops are used by the 1-D variant only; the size axis replaces them in 2-D)"),
+    angles: z
+      .object({
+        fromDeg: z.number().min(0).max(180).default(30).describe("ψ at the texture's left edge, degrees"),
+        toDeg: z.number().min(0).max(180).default(60).describe("ψ at the right edge, degrees"),
+        texels: z.number().int().min(2).max(4096).default(256),
+        mapping: z.enum(["linear", "bow-weighted"]).default("bow-weighted").describe("bow-weighted: denser texels near the bows"),
+      })
+      .strict()
+      .default({ fromDeg: 30, toDeg: 60, texels: 256, mapping: "bow-weighted" })
+      .superRefine((a, ctx) => {
+        if (a.toDeg <= a.fromDeg) ctx.addIssue({ code: "custom", path: ["toDeg"], message: "toDeg must exceed fromDeg" });
+      }),
+    sizes: z
+      .discriminatedUnion("kind", [
+        z
+          .object({
+            kind: z.literal("radius"),
+            fromUm: z.number().min(1).max(3000).default(10),
+            toUm: z.number().min(1).max(3000).default(2000),
+            texels: z.number().int().min(1).max(256).default(32),
+            liquidWaterGPerM3: z.number().min(1e-6).max(10).default(0.1).describe("Liquid water content; sets each row's number density"),
+          })
+          .strict(),
+        z
+          .object({
+            kind: z.literal("rain-rate"),
+            fromMmPerH: z.number().min(0.1).max(150).default(0.5),
+            toMmPerH: z.number().min(0.1).max(150).default(50),
+            texels: z.number().int().min(1).max(256).default(16),
+          })
+          .strict(),
+        z.object({ kind: z.literal("none") }).strict(),
+      ])
+      .default({ kind: "radius", fromUm: 10, toUm: 2000, texels: 32, liquidWaterGPerM3: 0.1 })
+      .describe("The texture's rows: log-spaced monodisperse radii, log-spaced Marshall–Palmer rain rates, or none (1-D: the scenario's drops)"),
+    space: z.enum(lutSpaces).default("acescg").describe("Linear colour space of the texels"),
+  })
+  .strict()
+  .superRefine((b, ctx) => {
+    if (b.sizes.kind === "radius" && b.sizes.toUm <= b.sizes.fromUm) {
+      ctx.addIssue({ code: "custom", path: ["sizes", "toUm"], message: "toUm must exceed fromUm" });
+    }
+    if (b.sizes.kind === "rain-rate" && b.sizes.toMmPerH <= b.sizes.fromMmPerH) {
+      ctx.addIssue({ code: "custom", path: ["sizes", "toMmPerH"], message: "toMmPerH must exceed fromMmPerH" });
+    }
+  });
+
+export type LutRequest = z.infer<typeof lutRequestSchema>;
+
+export const lutQuerySchema = z
+  .object({
+    format: z.enum(["exr", "hdr", "png16", "json"]).default("exr"),
+    part: z.enum(["image", "manifest"]).default("image").describe("manifest: the JSON that maps texels to angle and size"),
+    pixelType: z.enum(["half", "float"]).default("half").describe("EXR sample type"),
+  })
+  .strict();
+
+export const shaderQuerySchema = z.object({ lang: z.enum(["glsl", "hlsl", "wgsl"]).default("glsl") }).strict();

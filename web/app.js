@@ -1,0 +1,355 @@
+// The explorer: reads the form, asks POST /v1/profile for a quick preview, draws it, and runs full-resolution exports.
+
+import { writeForm, readForm, firstInvalid, curlCommand, costNote, PREVIEW_STEP_NM } from "./request-body.js";
+import { displayColours } from "./display-colour.js";
+import { drawStrip } from "./strip.js";
+import { drawProfilePlot } from "./profile-plot.js";
+import { drawChromaticity } from "./chromaticity.js";
+import { drawSkyView } from "./sky-view.js";
+
+const $ = (id) => document.getElementById(id);
+const form = $("controls");
+const status = $("status");
+const elapsed = $("elapsed");
+const cancelButton = $("cancel");
+
+const state = {
+  preview: null, // AbortController of the running preview
+  downloads: new Set(), // AbortControllers of running exports
+  busy: new Map(), // token → { label, started }
+  last: null, // { body, profile, colours }
+  lastMeta: null,
+  loci: new Map(),
+  debounce: 0,
+  ticker: 0,
+  pitchTouched: false,
+};
+
+// ---------- busy indicator ----------
+
+function announce(text) {
+  status.textContent = text;
+}
+
+function startBusy(label) {
+  const token = Symbol(label);
+  state.busy.set(token, { label, started: performance.now() });
+  announce(`${label}…`);
+  refreshBusy();
+  return token;
+}
+
+function endBusy(token, message, isError = false) {
+  state.busy.delete(token);
+  if (message !== undefined) announce(message);
+  document.body.dataset.state = state.busy.size ? "busy" : isError ? "error" : "ready";
+  refreshBusy();
+}
+
+function refreshBusy() {
+  const running = [...state.busy.values()];
+  cancelButton.disabled = running.length === 0;
+  if (running.length) document.body.dataset.state = "busy";
+  clearInterval(state.ticker);
+  const tick = () => {
+    const oldest = running.reduce((a, b) => (a.started < b.started ? a : b), running[0]);
+    elapsed.textContent = oldest ? `${oldest.label}: ${((performance.now() - oldest.started) / 1000).toFixed(1)} s` : "";
+  };
+  tick();
+  if (running.length) state.ticker = setInterval(tick, 100);
+}
+
+cancelButton.addEventListener("click", () => {
+  state.preview?.abort();
+  for (const c of state.downloads) c.abort();
+});
+
+// ---------- form ----------
+
+function updateVisibility() {
+  const kind = form.elements.namedItem("dropsKind").value;
+  for (const el of form.querySelectorAll("[data-kinds]")) el.hidden = !el.dataset.kinds.split(" ").includes(kind);
+  const spectrum = form.elements.namedItem("spectrum").value;
+  for (const el of form.querySelectorAll("[data-spectra]")) el.hidden = !el.dataset.spectra.split(" ").includes(spectrum);
+  const temperature = $("colour-temperature");
+  // Ranges of the service's schema: CIE daylight 4000–25000 K, blackbody 1000–50000 K.
+  [temperature.min, temperature.max] = spectrum === "cie-daylight" ? ["4000", "25000"] : ["1000", "50000"];
+  $("polariser").disabled = !$("polariser-on").checked;
+  $("elevation-value").textContent = `${$("elevation").value}°`;
+}
+
+function fullBody() {
+  return readForm(form, Number($("full-step").value));
+}
+
+function updateCurl() {
+  $("curl").value = curlCommand(location.origin, fullBody(), $("curl-format").value, stripHeight());
+}
+
+function stripHeight() {
+  const v = $("strip-height").valueAsNumber;
+  return Number.isInteger(v) && v >= 1 && v <= 4096 ? v : 64;
+}
+
+function updateEstimate(body) {
+  const note = costNote(body, state.lastMeta);
+  $("estimate").textContent = note.text;
+  if (note.warning) {
+    const strong = document.createElement("strong");
+    strong.textContent = ` ${note.warning}`;
+    $("estimate").append(strong);
+  }
+}
+
+function settingsChanged() {
+  updateVisibility();
+  state.preview?.abort();
+  // The figures show the previous settings until the next preview arrives.
+  if (state.last) $("results").dataset.stale = "true";
+  clearTimeout(state.debounce);
+  const invalid = firstInvalid(form);
+  if (invalid) {
+    announce(`Not sent: ${invalid.message}`);
+    document.body.dataset.state = "error";
+    return;
+  }
+  updateCurl();
+  const body = readForm(form, PREVIEW_STEP_NM);
+  updateEstimate(body);
+  state.debounce = setTimeout(() => renderPreview(body), 350);
+}
+
+form.addEventListener("input", (event) => {
+  // The preset loads on "change"; the export step does not alter the preview.
+  if (event.target.id !== "preset" && event.target.id !== "full-step") settingsChanged();
+});
+form.addEventListener("change", (event) => {
+  if (event.target.id === "preset") loadPreset(event.target.value);
+});
+form.addEventListener("submit", (event) => event.preventDefault());
+
+async function loadPreset(name) {
+  let body = {};
+  $("preset-note").textContent = "Pick a preset to load all of its settings, then adjust any of them.";
+  if (name) {
+    const res = await fetch(`/v1/presets/${encodeURIComponent(name)}`);
+    if (!res.ok) {
+      announce(`Could not load the preset: ${res.status}`);
+      return;
+    }
+    const preset = await res.json();
+    body = preset.body;
+    $("preset-note").textContent = preset.description;
+  }
+  writeForm(form, body);
+  settingsChanged();
+}
+
+// ---------- preview ----------
+
+async function locusFor(observer) {
+  if (!state.loci.has(observer)) {
+    state.loci.set(
+      observer,
+      fetch(`/web/locus-${observer}.json`).then((r) => r.json()),
+    );
+  }
+  return state.loci.get(observer);
+}
+
+function errorText(err) {
+  if (!err || typeof err !== "object") return "the service did not answer";
+  return [err.message ?? err.error, err.field ? `(field ${err.field})` : "", err.allowed ? `allowed: ${err.allowed}` : ""].filter(Boolean).join(" ");
+}
+
+async function renderPreview(body) {
+  const controller = new AbortController();
+  state.preview = controller;
+  const token = startBusy("Rendering the preview");
+  const started = performance.now();
+  try {
+    const res = await fetch("/v1/profile", {
+      method: "POST",
+      headers: { "content-type": "application/json", accept: "application/json" },
+      body: JSON.stringify(body),
+      signal: controller.signal,
+    });
+    const data = await res.json();
+    if (!res.ok) {
+      endBusy(token, `The service refused this preview: ${errorText(data)}`, true);
+      return;
+    }
+    const locus = await locusFor(body.observer);
+    if (controller.signal.aborted) {
+      endBusy(token);
+      return;
+    }
+    show(body, data, locus);
+    state.lastMeta = data.meta;
+    updateEstimate(body);
+    const roundTrip = (performance.now() - started) / 1000;
+    document.body.dataset.renders = String(Number(document.body.dataset.renders) + 1);
+    endBusy(token, `Preview ready: ${(data.meta.computeMs / 1000).toFixed(2)} s on the server, ${roundTrip.toFixed(2)} s in all.`);
+  } catch (error) {
+    if (error.name === "AbortError") endBusy(token, "Stopped; change a setting to render again.");
+    else endBusy(token, `The preview failed: ${error.message}`, true);
+  } finally {
+    if (state.preview === controller) state.preview = null;
+  }
+}
+
+function show(body, profile, locus) {
+  $("results").dataset.stale = "false";
+  const colours = displayColours(profile);
+  state.last = { body, profile, colours };
+  drawStrip($("strip"), profile, colours);
+  drawProfilePlot($("profile-plot"), profile);
+  drawChromaticity($("chromaticity"), profile, locus, colours);
+  drawSky();
+  showWarnings(profile, colours);
+  $("sources").replaceChildren(
+    ...profile.meta.sources.map((s) => {
+      const li = document.createElement("li");
+      li.textContent = s;
+      return li;
+    }),
+  );
+}
+
+function showWarnings(profile, colours) {
+  const items = [...profile.meta.warnings];
+  const outside = profile.outOfGamut.filter(Boolean).length;
+  const space = $("space").querySelector(`option[value="${profile.space}"]`)?.textContent ?? profile.space;
+  if (outside) items.push(`${outside} of ${profile.outOfGamut.length} samples lie outside the ${space} gamut and were brought inside it.`);
+  if (colours.derived) items.push(`The strip and previews show sRGB converted from XYZ; downloads are in ${space}.`);
+  $("warnings").replaceChildren(
+    ...items.map((text) => {
+      const li = document.createElement("li");
+      li.textContent = text;
+      return li;
+    }),
+  );
+}
+
+/** Until the tilt slider is moved, aim half-way up the highest bow so both arcs and the horizon are in view. */
+function autoPitch(body, profile) {
+  const highestDeg = profile.bows.secondaryDeg ?? profile.bows.primaryDeg ?? 42;
+  const pitch = Math.round(Math.min(Math.max((highestDeg - body.sun.elevationDeg) / 2, 0), 60));
+  $("pitch").value = String(pitch);
+}
+
+function drawSky() {
+  if (state.last && !state.pitchTouched) autoPitch(state.last.body, state.last.profile);
+  $("pitch-value").textContent = `${$("pitch").value}°`;
+  $("fov-value").textContent = `${$("fov").value}°`;
+  if (!state.last) return;
+  const { body, profile, colours } = state.last;
+  drawSkyView($("sky"), profile, colours, {
+    sunElevationDeg: body.sun.elevationDeg,
+    pitchDeg: Number($("pitch").value),
+    hfovDeg: Number($("fov").value),
+  });
+  const { primaryDeg } = profile.bows;
+  $("sky").setAttribute(
+    "aria-label",
+    `Camera view facing away from the sun, tilted ${$("pitch").value}° up with a ${$("fov").value}° field of view; ` +
+      `the sun is ${body.sun.elevationDeg}° high behind the camera` +
+      (primaryDeg !== null ? `, the primary bow is a circle of ${primaryDeg.toFixed(1)}° radius around the antisolar point.` : "."),
+  );
+}
+
+$("pitch").addEventListener("input", () => {
+  state.pitchTouched = true;
+  drawSky();
+});
+$("fov").addEventListener("input", drawSky);
+
+// ---------- exports ----------
+
+function saveBlob(blob, fileName) {
+  const url = URL.createObjectURL(blob);
+  const a = document.createElement("a");
+  a.href = url;
+  a.download = fileName;
+  document.body.append(a);
+  a.click();
+  a.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 10_000);
+}
+
+async function download(format) {
+  const invalid = firstInvalid(form);
+  if (invalid) {
+    announce(`Not sent: ${invalid.message}`);
+    return;
+  }
+  const body = fullBody();
+  const labels = { json: "JSON profile", png: "8-bit PNG strip", png16: "16-bit PNG strip" };
+  const controller = new AbortController();
+  state.downloads.add(controller);
+  const token = startBusy(`Rendering the ${labels[format]} at ${body.spectral.stepNm} nm`);
+  try {
+    const query = format === "json" ? "?format=json" : `?format=${format}&height=${stripHeight()}`;
+    const res = await fetch(`/v1/profile${query}`, {
+      method: "POST",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify(body),
+      signal: controller.signal,
+    });
+    if (!res.ok) {
+      endBusy(token, `The service refused the export: ${errorText(await res.json().catch(() => null))}`, true);
+      return;
+    }
+    const blob = await res.blob();
+    let hash = res.headers.get("x-antisolar-hash");
+    if (format === "json") hash = JSON.parse(await blob.text()).meta.hash;
+    const fileName = `antisolar-${String(hash).slice(0, 10)}${format === "json" ? ".json" : format === "png" ? "-8bit.png" : "-16bit.png"}`;
+    saveBlob(blob, fileName);
+    endBusy(token, `Saved ${fileName} (${(blob.size / 1024).toFixed(1)} kB).`);
+  } catch (error) {
+    endBusy(token, error.name === "AbortError" ? "Export stopped." : `The export failed: ${error.message}`, error.name !== "AbortError");
+  } finally {
+    state.downloads.delete(controller);
+  }
+}
+
+$("download-json").addEventListener("click", () => download("json"));
+$("download-png8").addEventListener("click", () => download("png"));
+$("download-png16").addEventListener("click", () => download("png16"));
+$("strip-height").addEventListener("input", updateCurl);
+$("curl-format").addEventListener("change", updateCurl);
+$("full-step").addEventListener("change", updateCurl);
+
+$("copy-curl").addEventListener("click", async () => {
+  updateCurl();
+  try {
+    await navigator.clipboard.writeText($("curl").value);
+    announce("The curl command is on the clipboard.");
+  } catch {
+    $("curl").select();
+    announce("Copying was not allowed here: the command is selected, press Ctrl+C (⌘C) to copy it.");
+  }
+});
+
+// ---------- start ----------
+
+async function start() {
+  try {
+    const res = await fetch("/v1/presets");
+    const { presets } = await res.json();
+    for (const p of presets) $("preset").append(new Option(p.title, p.name));
+  } catch {
+    announce("Could not list the presets; the defaults are loaded.");
+  }
+  // /?preset=<name> opens on a preset, so a scene can be shared as a link.
+  const wanted = new URLSearchParams(location.search).get("preset");
+  if (wanted && [...$("preset").options].some((o) => o.value === wanted)) {
+    $("preset").value = wanted;
+    await loadPreset(wanted);
+    return;
+  }
+  writeForm(form, {});
+  settingsChanged();
+}
+
+start();
