@@ -56,7 +56,10 @@ function profileStepDeg(request: LutRequest): number {
   return Math.max(0.002, Math.min(0.1, finest / 2));
 }
 
-export async function computeLut(request: LutRequest, deps: ProfileDeps): Promise<Lut> {
+/** Reports progress as a fraction in [0, 1] with a stage name (for progress bars and job status). */
+export type ProgressReporter = (fraction: number, stage: string) => void;
+
+export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressReporter): Promise<Lut> {
   const started = performance.now();
   const texelPsi = texelAngles(request.angles);
   const step = profileStepDeg(request);
@@ -77,6 +80,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps): Promis
       angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
       output: { space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
     });
+    onProgress?.(j / rows.length, `row ${j + 1} of ${rows.length}`);
     const profile = await computeProfile(body, deps);
     first ??= profile;
     for (const w of profile.meta.warnings as string[]) warnings.add(w);
@@ -96,6 +100,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps): Promis
     }
   }
 
+  onProgress?.(1, "done");
   const mapping = request.angles.mapping;
   const manifest = {
     width,

@@ -1,0 +1,147 @@
+#!/usr/bin/env node
+// antisolar's command line: bake lookup textures and render profiles without running a server, or serve.
+//   antisolar bake <lut-request.json> -o <file.exr|.hdr|.png|.json>
+//   antisolar render <profile-request.json> -o <file.json|.png>
+//   antisolar serve
+import { readFile, writeFile } from "node:fs/promises";
+import { extname } from "node:path";
+import { z } from "zod";
+import { lutRequestSchema } from "../schemas/lut.js";
+import { profileRequestSchema } from "../schemas/profile.js";
+import { computeLut } from "../server/lut-service.js";
+import { computeProfile } from "../server/profile-service.js";
+import { profileJson } from "../server/routes/profile.js";
+import { encodeExr } from "../server/images/exr.js";
+import { encodeRadianceHdr } from "../server/images/radiance-hdr.js";
+import { encodePngImage, encodePngStrip } from "../server/images/png-strip.js";
+import { spaceChromaticities } from "../server/images/space-chromaticities.js";
+import { createKernelRuntime } from "../server/kernel/runtime.js";
+import { loadConfig } from "../server/config.js";
+import { parseOrThrow } from "../server/validation.js";
+import { ClientError } from "../server/errors.js";
+
+const usage = `antisolar — physically based rainbows
+
+  antisolar bake <lut-request.json> -o <texture.exr|.hdr|.png|.json>   bake a lookup texture (+ <file>.manifest.json)
+  antisolar render <profile-request.json> -o <profile.json|.png>       render a bow profile
+  antisolar serve                                                       start the HTTP service (PORT, HOST)
+
+Request files use the same JSON as POST /v1/lut and POST /v1/profile; "-" reads standard input; {} gives defaults.
+Environment: WORKERS, CACHE_DIR, CACHE_BUDGET_MB as for the service.`;
+
+function argument(args: string[], flag: string): string | undefined {
+  const i = args.indexOf(flag);
+  return i >= 0 ? args[i + 1] : undefined;
+}
+
+async function readJson(path: string): Promise<unknown> {
+  const text = path === "-" ? await new Promise<string>((resolve) => {
+    let data = "";
+    process.stdin.on("data", (c) => (data += c));
+    process.stdin.on("end", () => resolve(data));
+  }) : await readFile(path, "utf8");
+  return JSON.parse(text);
+}
+
+/** A one-line progress bar on stderr (only when it is a terminal, so logs stay clean). */
+function progressBar(label: string) {
+  const tty = process.stderr.isTTY;
+  return (fraction: number, stage: string) => {
+    if (!tty) return;
+    const width = 30;
+    const filled = Math.round(fraction * width);
+    process.stderr.write(`\r${label} [${"#".repeat(filled)}${".".repeat(width - filled)}] ${(fraction * 100).toFixed(0).padStart(3)}% ${stage.padEnd(20)}`);
+    if (fraction >= 1) process.stderr.write("\n");
+  };
+}
+
+async function bake(args: string[]): Promise<void> {
+  const input = args[0];
+  const output = argument(args, "-o");
+  if (!input || !output) throw new Error(`bake needs a request file and -o <file>\n\n${usage}`);
+  const request = parseOrThrow(lutRequestSchema, await readJson(input), "body");
+  const config = loadConfig(process.env);
+  const runtime = createKernelRuntime(config);
+  try {
+    const lut = await computeLut(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity } }, progressBar("baking"));
+    const ext = extname(output).toLowerCase();
+    let file: Buffer;
+    if (ext === ".exr") {
+      file = encodeExr({ width: lut.width, height: lut.height, channels: ["R", "G", "B", "A"], data: lut.rgba, pixelType: "half", compression: "zip",
+        chromaticities: request.space === "xyz-d65" ? undefined : spaceChromaticities(request.space), attributes: { "antisolar:space": request.space, "antisolar:hash": String(lut.manifest.hash) } });
+    } else if (ext === ".hdr") {
+      const rgb = new Float32Array(lut.width * lut.height * 3);
+      for (let p = 0; p < lut.width * lut.height; p++) rgb.set(lut.rgba.subarray(4 * p, 4 * p + 3), 3 * p);
+      const c = spaceChromaticities(request.space);
+      file = encodeRadianceHdr({ width: lut.width, height: lut.height, data: rgb, primaries: [c.red, c.green, c.blue, c.white] });
+    } else if (ext === ".png") {
+      let peak = 0;
+      lut.rgba.forEach((v, k) => (peak = k % 4 === 3 ? peak : Math.max(peak, v)));
+      const scaled = Float32Array.from(lut.rgba, (v, k) => (k % 4 === 3 ? v : peak > 0 ? v / peak : 0));
+      file = (await encodePngImage({ width: lut.width, height: lut.height, channels: 4, values: scaled, bitDepth: 16, space: request.space })).png;
+      lut.manifest.pngScale = `RGB were divided by ${peak} to fit PNG's 0..1`;
+    } else if (ext === ".json") {
+      file = Buffer.from(JSON.stringify({ manifest: lut.manifest, rgba: Array.from(lut.rgba) }));
+    } else {
+      throw new Error(`unknown output type '${ext}': use .exr, .hdr, .png or .json`);
+    }
+    await writeFile(output, file);
+    await writeFile(`${output}.manifest.json`, JSON.stringify(lut.manifest, null, 2));
+    console.log(`wrote ${output} (${lut.width}×${lut.height}) and ${output}.manifest.json`);
+  } finally {
+    await runtime.close();
+  }
+}
+
+async function render(args: string[]): Promise<void> {
+  const input = args[0];
+  const output = argument(args, "-o");
+  if (!input || !output) throw new Error(`render needs a request file and -o <file>\n\n${usage}`);
+  const request = parseOrThrow(profileRequestSchema, await readJson(input), "body");
+  const runtime = createKernelRuntime(loadConfig(process.env));
+  try {
+    const bar = progressBar("rendering");
+    bar(0, "kernels");
+    const result = await computeProfile(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity } });
+    bar(1, "done");
+    const ext = extname(output).toLowerCase();
+    if (ext === ".png") {
+      await writeFile(output, (await encodePngStrip({ values: result.colour.rgb, height: 32, bitDepth: 16, space: request.output.space })).png);
+    } else if (ext === ".json") {
+      await writeFile(output, JSON.stringify(profileJson(result)));
+    } else {
+      throw new Error(`unknown output type '${ext}': use .json or .png`);
+    }
+    console.log(`wrote ${output}: primary ${result.bows.primaryDeg ?? "none"}°, secondary ${result.bows.secondaryDeg ?? "none"}°`);
+  } finally {
+    await runtime.close();
+  }
+}
+
+async function main(): Promise<void> {
+  const [command, ...args] = process.argv.slice(2);
+  switch (command) {
+    case "bake":
+      return bake(args);
+    case "render":
+      return render(args);
+    case "serve":
+      await import("../server/main.js");
+      return;
+    case undefined:
+    case "help":
+    case "--help":
+    case "-h":
+      console.log(usage);
+      return;
+    default:
+      throw new Error(`unknown command '${command}'\n\n${usage}`);
+  }
+}
+
+main().catch((error: unknown) => {
+  if (error instanceof ClientError) console.error(`antisolar: ${error.message}`);
+  else if (error instanceof z.ZodError || error instanceof SyntaxError) console.error(`antisolar: ${error.message}`);
+  else console.error(`antisolar: ${error instanceof Error ? error.message : String(error)}`);
+  process.exitCode = 1;
+});
