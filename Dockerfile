@@ -8,6 +8,7 @@ COPY server ./server
 COPY lib ./lib
 COPY schemas ./schemas
 COPY bench ./bench
+COPY cli ./cli
 RUN npm run build && npm prune --omit=dev
 
 FROM node:20-bookworm-slim

@@ -10,7 +10,7 @@ import { lutRequestSchema } from "../schemas/lut.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { computeLut } from "../server/lut-service.js";
 import { computeProfile } from "../server/profile-service.js";
-import { profileJson } from "../server/routes/profile.js";
+import { profileJson } from "../server/render/profile-render.js";
 import { encodeExr } from "../server/images/exr.js";
 import { encodeRadianceHdr } from "../server/images/radiance-hdr.js";
 import { encodePngImage, encodePngStrip } from "../server/images/png-strip.js";

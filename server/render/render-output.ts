@@ -1,0 +1,39 @@
+import type { KernelService } from "../kernel/kernel-service.js";
+
+/** A finished render: the bytes a client receives, with their type and the headers that describe them. */
+export interface RenderOutput {
+  contentType: string;
+  body: Buffer;
+  headers: Record<string, string>;
+}
+
+export interface RenderDeps {
+  kernels: KernelService;
+  /** Largest Mie cost allowed (terms × angles); Infinity for background jobs. */
+  maxTermAngles: number;
+  signal?: AbortSignal;
+  /** Progress as a fraction in [0, 1] with a stage name. */
+  onProgress?: (fraction: number, stage: string) => void;
+}
+
+export function jsonOutput(value: unknown, headers: Record<string, string> = {}): RenderOutput {
+  return { contentType: "application/json; charset=utf-8", body: Buffer.from(JSON.stringify(value)), headers };
+}
+
+/** HTTP header values must be printable ASCII. */
+export function headerSafe(text: string): string {
+  return text.replace(/[^\x20-\x7e]/g, "?");
+}
+
+/** Sends a render on a fastify reply. */
+export function sendOutput(reply: { type(t: string): unknown; header(k: string, v: string): unknown; send(b: Buffer): unknown }, output: RenderOutput, cache: "hit" | "miss") {
+  reply.type(output.contentType);
+  for (const [k, v] of Object.entries(output.headers)) reply.header(k, v);
+  reply.header("x-antisolar-cache", cache);
+  if (cache === "hit" && output.contentType.startsWith("application/json")) {
+    const value = JSON.parse(output.body.toString("utf8")) as { meta?: Record<string, unknown> };
+    if (value.meta) value.meta.cache = "hit";
+    return reply.send(Buffer.from(JSON.stringify(value)));
+  }
+  return reply.send(output.body);
+}
