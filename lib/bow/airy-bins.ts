@@ -176,9 +176,10 @@ export function uniformBowTable(n: number, p: number, thetaDeg: Float64Array, st
   const uniform = new Uint8Array(count);
   for (let j = 0; j < count; j++) {
     const centre = zHatAt(2 * j + 1);
-    if (centre.single || singleEdge[j] || singleEdge[j + 1]) continue;
-    uniform[j] = 1;
     const sinTheta = Math.sin(thetaDeg[j] * DEG);
+    // A bin centred on the axis (Θ = 0 or 180°) has no finite point value: the ray bins serve it.
+    if (centre.single || singleEdge[j] || singleEdge[j + 1] || !(sinTheta > 0)) continue;
+    uniform[j] = 1;
     // Rays that take no part in the bow: ray optics at the bin centre, |S_j|²/x² = ε_j²·b/(|dD/db|·sinΘ).
     for (const b of centre.rays.others) {
       const amp = signedAmplitude(n, k, b);

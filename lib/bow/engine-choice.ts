@@ -7,11 +7,13 @@ export type ProfileMethod = "auto" | "mie" | "airy" | "geometric";
 
 /**
  * Drops at or above this radius go to Airy theory (uniform caustic form for the bows p = 2–6, ray optics for
- * p = 0, 1) under "auto"; smaller ones to Lorenz–Mie. Measured (bench/auto-engine.ts; test/auto-engine.test.ts
- * re-checks 110 µm) against Mie for lognormal drops, σg = 1.1 and 1.2, after the sun's disc, ψ 30–60°, D65 sun:
- * from 100 µm the mean CIEDE2000 error over ψ is ≤ 0.81 and ≤ 0.43 at both bows, but the worst sample stays at
- * ΔE ≈ 1.3–1.9 up to 1 mm (Alexander's band is ~10 % too dark at 150 µm), so the ΔE ≤ 1 target holds on average
- * and at the bows, not at every angle. At 60 µm the mean is 1.2–1.3 and 1.4 at the secondary.
+ * p = 0, 1) under "auto"; smaller ones to Lorenz–Mie. Measured with bench/auto-engine.ts (test/auto-engine.test.ts
+ * re-checks 110 µm) against Mie for lognormal drops, σg = 1.1 and 1.2, D65 sun, after the sun's disc, ψ 30–60°:
+ * from 100 µm up to 1 mm the mean CIEDE2000 error over ψ is ≤ 0.82 and ≤ 0.38 at both bows; at 60 µm the mean is
+ * 1.07–1.19. ΔE ≤ 1 at every angle is reached at no radius: the worst sample stays at 1.2–2.0 (inner edge of
+ * Alexander's band, whose light from the near-grazing fifth-order bow ray optics understates, and the primary's
+ * supernumeraries). Monodisperse drops differ more (mean 1.2–2.1, worst 5.5–8.4 from 100 µm), as fringes of one
+ * size survive the disc.
  */
 export const AUTO_AIRY_FROM_RADIUS_UM = 100;
 

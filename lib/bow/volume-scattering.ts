@@ -2,11 +2,7 @@
 // β_j(Θ, λ) = Σ_i w_i |S_j(r_i, λ, Θ)|² / (2 k²), j = perpendicular (S1) or parallel (S2), k = 2π n_air/λ
 // (Bohren & Huffman 1983 Eq. 3.12 and §3.4 for one drop, summed incoherently over a radius quadrature).
 
-import { mieCoefficients } from "../mie/coefficients.js";
-import { mieAmplitudes } from "../mie/amplitudes.js";
-import { allocateAmplitudes } from "../mie/types.js";
-import { rayOpticsBins, type RayBins } from "./ray-bins.js";
-import { addUniformBowBins, uniformBowTable } from "./airy-bins.js";
+import { dropRow, dropRowContext } from "./drop-rows.js";
 
 export type DropEngine = "mie" | "airy" | "geometric";
 
@@ -44,57 +40,22 @@ export interface VolumeScattering {
 }
 
 export function volumeScattering(input: VolumeScatteringInput): VolumeScattering {
-  const { radiiUm, weightsPerM3, wavelengthsNm, mRe, mIm, nAir, thetaDeg, stepDeg } = input;
+  const { radiiUm, weightsPerM3, wavelengthsNm, thetaDeg, stepDeg } = input;
   const nTheta = thetaDeg.length;
   const perpendicular = new Float64Array(wavelengthsNm.length * nTheta);
   const parallel = new Float64Array(wavelengthsNm.length * nTheta);
-  const cosTheta = thetaDeg.map((t) => Math.cos((t * Math.PI) / 180));
-  const amplitudes = allocateAmplitudes(nTheta);
   const engines = Array.from(radiiUm, (r) => input.engineForRadius(r));
-  const needsRays = engines.some((e) => e !== "mie");
-  const needsAiry = engines.some((e) => e === "airy");
   let mieTermAngles = 0;
-
   const rowPerp = new Float64Array(nTheta);
   const rowPar = new Float64Array(nTheta);
   for (let l = 0; l < wavelengthsNm.length; l++) {
-    const n = mRe[l];
-    const waveNumberPerM = (2 * Math.PI * nAir[l]) / (wavelengthsNm[l] * 1e-9);
-    const perDrop = 1 / (2 * waveNumberPerM * waveNumberPerM);
-    const raysAll = needsRays ? rayOpticsBins(n, RAY_ORDERS, thetaDeg, stepDeg) : null;
-    const raysNonAiry = needsRays ? rayOpticsBins(n, RAY_ORDERS.filter((p) => !(AIRY_BOW_ORDERS as readonly number[]).includes(p)), thetaDeg, stepDeg) : null;
-    const raysAiryOrders = AIRY_BOW_ORDERS.map((p) => (needsAiry ? rayOpticsBins(n, [p], thetaDeg, stepDeg) : null));
-    const bowTables = AIRY_BOW_ORDERS.map((p) => (needsAiry ? uniformBowTable(n, p, thetaDeg, stepDeg) : null));
+    const medium = { wavelengthNm: wavelengthsNm[l], mRe: input.mRe[l], mIm: input.mIm[l], nAir: input.nAir[l] };
+    const ctx = dropRowContext(medium, thetaDeg, stepDeg, new Set(engines));
+    const perDrop = 1 / (2 * ctx.waveNumberPerM * ctx.waveNumberPerM);
     for (let i = 0; i < radiiUm.length; i++) {
       const w = weightsPerM3[i] * perDrop;
       if (w === 0) continue;
-      const x = (waveNumberPerM * radiiUm[i]) * 1e-6;
-      rowPerp.fill(0);
-      rowPar.fill(0);
-      if (engines[i] === "mie") {
-        const c = mieCoefficients(n, mIm[l], x);
-        mieAmplitudes(c, cosTheta, amplitudes);
-        mieTermAngles += c.nTerms * nTheta;
-        for (let j = 0; j < nTheta; j++) {
-          rowPerp[j] = amplitudes.s1Re[j] ** 2 + amplitudes.s1Im[j] ** 2;
-          rowPar[j] = amplitudes.s2Re[j] ** 2 + amplitudes.s2Im[j] ** 2;
-        }
-      } else if (engines[i] === "geometric") {
-        addScaled(rowPerp, rowPar, raysAll!, x * x);
-      } else {
-        addScaled(rowPerp, rowPar, raysNonAiry!, x * x);
-        AIRY_BOW_ORDERS.forEach((_, o) => {
-          const table = bowTables[o]!;
-          addUniformBowBins(table, x, 1, rowPerp, rowPar);
-          // Where only one ray of the order arrives there is nothing to interfere: ray optics.
-          const rays = raysAiryOrders[o]!;
-          for (let j = 0; j < nTheta; j++) {
-            if (table.uniform[j]) continue;
-            rowPerp[j] += x * x * rays.perpendicular[j];
-            rowPar[j] += x * x * rays.parallel[j];
-          }
-        });
-      }
+      mieTermAngles += dropRow(ctx, engines[i], radiiUm[i], rowPerp, rowPar);
       const base = l * nTheta;
       for (let j = 0; j < nTheta; j++) {
         perpendicular[base + j] += w * rowPerp[j];
@@ -104,11 +65,3 @@ export function volumeScattering(input: VolumeScatteringInput): VolumeScattering
   }
   return { perpendicular, parallel, mieTermAngles };
 }
-
-function addScaled(perp: Float64Array, par: Float64Array, rays: RayBins, factor: number): void {
-  for (let j = 0; j < perp.length; j++) {
-    perp[j] += factor * rays.perpendicular[j];
-    par[j] += factor * rays.parallel[j];
-  }
-}
-
