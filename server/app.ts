@@ -11,6 +11,7 @@ import { profileRoutes } from "./routes/profile.js";
 import { loadPresets } from "./presets.js";
 import { createKernelRuntime } from "./kernel/runtime.js";
 import { lutRoutes } from "./routes/lut.js";
+import { viewRoutes } from "./routes/view.js";
 import { registerWeb } from "./routes/web.js";
 import { loadConfig, type Config } from "./config.js";
 
@@ -38,6 +39,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     ...opticsRoutes(config),
     ...profileRoutes(config, loadPresets(), runtime.kernels),
     ...lutRoutes(config, runtime.kernels),
+    ...viewRoutes(config, runtime.kernels),
   ];
   const openapi = buildOpenApi(routes, packageVersion());
   const docsHtml = renderDocsPage(openapi);

@@ -1,6 +1,6 @@
 // Turns a validated profile request into the core's inputs, runs it, and shapes the JSON answer.
 
-import { createHash } from "node:crypto";
+import { contentHash } from "./content-hash.js";
 import type { ProfileRequest } from "../schemas/profile.js";
 import { angleCount } from "../schemas/angles.js";
 import { makeWavelengthGrid, wavelengthsNm } from "../lib/spectra/grid.js";
@@ -63,18 +63,22 @@ export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribu
 }
 
 export function requestHash(request: unknown): string {
-  return createHash("sha256").update(canonicalJson(request)).digest("hex").slice(0, 32);
+  return contentHash(request);
 }
 
-function canonicalJson(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(",")}]`;
-  if (value && typeof value === "object") {
-    const entries = Object.entries(value as Record<string, unknown>)
-      .filter(([, v]) => v !== undefined)
-      .sort(([a], [b]) => (a < b ? -1 : 1));
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
-  }
-  return JSON.stringify(value);
+/** The direct sunlight on the rain for a request, on its wavelength grid. */
+export function sunlightFor(request: ProfileRequest, grid: WavelengthGrid) {
+  return directSunlight(
+    request.sun.spectrum,
+    grid,
+    {
+      elevationDeg: Math.max(request.sun.elevationDeg, 0),
+      pressureHpa: request.sun.atmosphere.pressureHpa,
+      angstromBeta: request.sun.atmosphere.angstromBeta,
+      angstromAlpha: request.sun.atmosphere.angstromAlpha,
+    },
+    request.sun.atmosphere.attenuate,
+  );
 }
 
 export interface ProfileLimits {
@@ -142,17 +146,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     );
   }
 
-  const sun = directSunlight(
-    request.sun.spectrum,
-    grid,
-    {
-      elevationDeg: Math.max(request.sun.elevationDeg, 0),
-      pressureHpa: request.sun.atmosphere.pressureHpa,
-      angstromBeta: request.sun.atmosphere.angstromBeta,
-      angstromAlpha: request.sun.atmosphere.angstromAlpha,
-    },
-    request.sun.atmosphere.attenuate,
-  );
+  const sun = sunlightFor(request, grid);
 
   const engines = Array.from(quadrature.radiiUm, engine);
   const kernelStarted = performance.now();

@@ -90,13 +90,10 @@ export async function encodePngImage(req: PngImageRequest): Promise<PngStrip> {
   const plain = await image.png({ compressionLevel: 6, palette: false }).toBuffer();
 
   const meta = colourMetadataFor(space);
-  const added: PngChunk[] = [];
-  if (meta.cicp) added.push(cicpChunk(meta.cicp));
-  added.push(iccpChunk(meta.iccDescription, meta.profile));
   const notes = meta.note ? [meta.note] : [];
   if (clampedComponents > 0) notes.push(`${clampedComponents} components outside 0..1 were clamped for PNG.`);
   return {
-    png: withColourChunks(plain, added),
+    png: withSpaceColourChunks(plain, space),
     width,
     height,
     iccDescription: meta.iccDescription,
@@ -104,4 +101,13 @@ export async function encodePngImage(req: PngImageRequest): Promise<PngStrip> {
     clampedComponents,
     notes,
   };
+}
+
+/** Adds the space's cICP (where it has code points) and ICC profile chunks to a PNG that sharp wrote. */
+export function withSpaceColourChunks(plain: Buffer, space: OutputSpaceId): Buffer {
+  const meta = colourMetadataFor(space);
+  const added: PngChunk[] = [];
+  if (meta.cicp) added.push(cicpChunk(meta.cicp));
+  added.push(iccpChunk(meta.iccDescription, meta.profile));
+  return withColourChunks(plain, added);
 }

@@ -1,0 +1,130 @@
+// Image of a bow layer from a 1-D profile: each pixel's ray → angle ψ from the antisolar point → colour by linear
+// interpolation in ψ. Bows are circles about the antisolar point (physics brief, Coordinates), so ψ is all a
+// pixel needs, apart from the polariser, which also needs the bow's local tangent.
+
+import type { RayField } from "./ray-field.js";
+import { type Vec3, RADIANS_PER_DEGREE } from "./vectors.js";
+
+/** Linear colours (3 per sample) on evenly spaced angles ψ = fromDeg + i·stepDeg. */
+export interface ProfileColours {
+  fromDeg: number;
+  stepDeg: number;
+  count: number;
+  /** Unpolarised total. */
+  total: Float64Array;
+  /** The parts polarised perpendicular (along the bow's tangent) and parallel to the scattering plane. */
+  perpendicular: Float64Array;
+  parallel: Float64Array;
+}
+
+export interface LayerInput {
+  rays: RayField;
+  /** Unit vector to the antisolar point (−sun). */
+  antisolar: Vec3;
+  colours: ProfileColours;
+  /** True: flat ground hides every ray with z < 0. */
+  ground: boolean;
+  /** The rain curtain covers the sky out to this ψ; beyond it a pixel gets neither light nor alpha. */
+  maxAngleDeg: number;
+  /** Alpha of every pixel that sees rain (1 − T of the curtain); undefined for an RGB-only additive layer. */
+  alpha?: number;
+  /** Transmission axis of a linear polariser as a world direction (square to the optical axis), or none. */
+  polariserAxis?: Vec3;
+}
+
+export interface Layer {
+  widthPx: number;
+  heightPx: number;
+  channels: 3 | 4;
+  /** Row-major from the top row, `channels` samples per pixel. */
+  data: Float32Array;
+}
+
+/** ψ of a unit ray d, degrees: the angle between d and the unit antisolar vector a (atan2 form, exact near 0°). */
+export function angleFromAntisolarDeg(d: ArrayLike<number>, a: ArrayLike<number>): number {
+  const cx = a[1] * d[2] - a[2] * d[1];
+  const cy = a[2] * d[0] - a[0] * d[2];
+  const cz = a[0] * d[1] - a[1] * d[0];
+  return Math.atan2(Math.hypot(cx, cy, cz), a[0] * d[0] + a[1] * d[1] + a[2] * d[2]) / RADIANS_PER_DEGREE;
+}
+
+/** Smallest and largest ψ (up to maxAngleDeg) over the pixels that see rain; null when none does. */
+export function angleRangeDeg(rays: RayField, antisolar: Vec3, ground: boolean, maxAngleDeg = 180): { minDeg: number; maxDeg: number } | null {
+  const d = new Float64Array(3);
+  let minDeg = Infinity;
+  let maxDeg = -Infinity;
+  for (let y = 0; y < rays.heightPx; y++) {
+    for (let x = 0; x < rays.widthPx; x++) {
+      if (!rays.ray(x, y, d) || (ground && d[2] < 0)) continue;
+      const psi = angleFromAntisolarDeg(d, antisolar);
+      if (psi > maxAngleDeg) continue;
+      if (psi < minDeg) minDeg = psi;
+      if (psi > maxDeg) maxDeg = psi;
+    }
+  }
+  return minDeg <= maxDeg ? { minDeg, maxDeg } : null;
+}
+
+/**
+ * Share of the bow-tangent (perpendicular) field that an ideal polariser passes for ray d, cos²α (Malus's law):
+ * α is the angle between the bow's tangent t = a × d / |a × d| and the polariser's axis p projected onto the
+ * plane square to the ray. The radial (parallel) field passes sin²α = 1 − cos²α. Returns ½ where either is undefined.
+ */
+export function tangentTransmission(d: ArrayLike<number>, a: ArrayLike<number>, p: ArrayLike<number>): number {
+  let tx = a[1] * d[2] - a[2] * d[1];
+  let ty = a[2] * d[0] - a[0] * d[2];
+  let tz = a[0] * d[1] - a[1] * d[0];
+  const tn = Math.hypot(tx, ty, tz);
+  const pd = p[0] * d[0] + p[1] * d[1] + p[2] * d[2];
+  const px = p[0] - pd * d[0];
+  const py = p[1] - pd * d[1];
+  const pz = p[2] - pd * d[2];
+  const pn = Math.hypot(px, py, pz);
+  if (tn < 1e-12 || pn < 1e-12) return 0.5;
+  tx /= tn;
+  ty /= tn;
+  tz /= tn;
+  const c = (px * tx + py * ty + pz * tz) / pn;
+  return c * c;
+}
+
+export function renderLayer(input: LayerInput): Layer {
+  const { rays, antisolar, colours, ground, alpha, polariserAxis, maxAngleDeg } = input;
+  const { widthPx, heightPx } = rays;
+  const channels = alpha === undefined ? 3 : 4;
+  const data = new Float32Array(widthPx * heightPx * channels);
+  const d = new Float64Array(3);
+  const last = colours.count - 1;
+  // Half a part in a million of a step: ψ at the profile's ends still counts as inside after round-off.
+  const slack = 1e-6;
+  for (let y = 0; y < heightPx; y++) {
+    for (let x = 0; x < widthPx; x++) {
+      if (!rays.ray(x, y, d) || (ground && d[2] < 0)) continue;
+      const psi = angleFromAntisolarDeg(d, antisolar);
+      if (psi > maxAngleDeg) continue;
+      const at = (y * widthPx + x) * channels;
+      if (alpha !== undefined) data[at + 3] = alpha;
+      const t = (psi - colours.fromDeg) / colours.stepDeg;
+      if (t < -slack || t > last + slack) continue;
+      const i0 = Math.min(Math.max(Math.floor(t), 0), Math.max(last - 1, 0));
+      const i1 = Math.min(i0 + 1, last);
+      const w1 = Math.min(Math.max(t - i0, 0), 1);
+      const w0 = 1 - w1;
+      if (polariserAxis) {
+        const c2 = tangentTransmission(d, antisolar, polariserAxis);
+        const s2 = 1 - c2;
+        const a = colours.perpendicular;
+        const b = colours.parallel;
+        for (let k = 0; k < 3; k++) {
+          const perp = w0 * a[3 * i0 + k] + w1 * a[3 * i1 + k];
+          const par = w0 * b[3 * i0 + k] + w1 * b[3 * i1 + k];
+          data[at + k] = c2 * perp + s2 * par;
+        }
+      } else {
+        const c = colours.total;
+        for (let k = 0; k < 3; k++) data[at + k] = w0 * c[3 * i0 + k] + w1 * c[3 * i1 + k];
+      }
+    }
+  }
+  return { widthPx, heightPx, channels, data };
+}
