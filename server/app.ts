@@ -13,6 +13,7 @@ import { createKernelRuntime } from "./kernel/runtime.js";
 import { lutRoutes } from "./routes/lut.js";
 import { viewRoutes } from "./routes/view.js";
 import { registerWeb } from "./routes/web.js";
+import { registerHardening } from "./plugins/hardening.js";
 import { loadConfig, type Config } from "./config.js";
 
 export interface AppOptions {
@@ -26,8 +27,11 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   const app = Fastify({
     logger: options.logger ? { level: config.logLevel } : false,
     bodyLimit: config.bodyLimitBytes,
+    requestTimeout: config.requestTimeoutMs,
     genReqId: () => crypto.randomUUID(),
   });
+
+  await registerHardening(app, config);
 
   // JSON only: a text/plain body must be a 415, not parsed as a string.
   app.removeContentTypeParser("text/plain");
@@ -83,6 +87,9 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
 }
 
 function mapFastifyError(error: FastifyError): ClientError | undefined {
+  if (error.name === "AbortError" || error.cause instanceof ClientError) {
+    return error.cause instanceof ClientError ? error.cause : new ClientError("client-closed", "the request was cancelled");
+  }
   switch (error.code) {
     case "FST_ERR_CTP_INVALID_MEDIA_TYPE":
       return new ClientError("unsupported-media-type", "send the body as application/json", {
@@ -92,6 +99,8 @@ function mapFastifyError(error: FastifyError): ClientError | undefined {
       return new ClientError("body-too-large", "the request body is larger than the limit");
     case "FST_ERR_CTP_EMPTY_JSON_BODY":
       return new ClientError("invalid-json", "the body is empty but says it is JSON; send {} for all defaults");
+    case "FST_ERR_REQUEST_TIMEOUT":
+      return new ClientError("timeout", "the request took longer than the synchronous limit; use POST /v1/jobs");
     case "FST_ERR_CTP_INVALID_JSON_BODY":
       return new ClientError("invalid-json", `the body is not valid JSON: ${error.message}`);
   }

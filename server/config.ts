@@ -1,7 +1,9 @@
 import { availableParallelism } from "node:os";
+// Issue 6 (jobs): the job and Redis settings (REDIS_URL, JOB_*) live in server/jobs/job-config.ts.
+import { loadJobConfig, type JobConfig } from "./jobs/job-config.js";
 
 /** Configuration comes from environment variables only (shared/guide/api.md); defaults are documented in README.md. */
-export interface Config {
+export interface Config extends JobConfig {
   port: number;
   host: string;
   logLevel: string;
@@ -16,6 +18,18 @@ export interface Config {
   cacheDir: string;
   /** Memory for cached kernels and results, MiB. */
   cacheBudgetMb: number;
+  /** Origins allowed by CORS; empty turns CORS off. */
+  corsOrigins: string[];
+  /** Requests per minute per client address; 0 turns the limit off. */
+  rateLimitPerMinute: number;
+  /** Event-loop delay above which requests get 503 with Retry-After. */
+  maxEventLoopDelayMs: number;
+  /** Resident memory above which requests get 503. */
+  maxRssMb: number;
+  /** Longest a synchronous request may take before it is answered with 503. */
+  requestTimeoutMs: number;
+  /** Heap limit of each kernel worker thread; a worker over it fails only its request and is replaced. */
+  workerMemoryMb: number;
 }
 
 function intFrom(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
@@ -37,5 +51,12 @@ export function loadConfig(env: NodeJS.ProcessEnv): Config {
     workers: env.WORKERS === "0" ? 0 : intFrom(env, "WORKERS", Math.max(1, availableParallelism())),
     cacheDir: env.CACHE_DIR ?? ".cache/antisolar",
     cacheBudgetMb: intFrom(env, "CACHE_BUDGET_MB", 512),
+    corsOrigins: (env.CORS_ORIGINS ?? "").split(",").map((o) => o.trim()).filter(Boolean),
+    rateLimitPerMinute: env.RATE_LIMIT_PER_MINUTE === "0" ? 0 : intFrom(env, "RATE_LIMIT_PER_MINUTE", 1200),
+    maxEventLoopDelayMs: intFrom(env, "MAX_EVENT_LOOP_DELAY_MS", 1000),
+    maxRssMb: intFrom(env, "MAX_RSS_MB", 4096),
+    requestTimeoutMs: intFrom(env, "REQUEST_TIMEOUT_MS", 120_000),
+    workerMemoryMb: intFrom(env, "WORKER_MEMORY_MB", 2048),
+    ...loadJobConfig(env), // issue 6 (jobs)
   };
 }

@@ -8,6 +8,10 @@ export type ErrorCode =
   | "not-found"
   | "too-costly"
   | "not-acceptable"
+  | "rate-limited"
+  | "overloaded"
+  | "timeout"
+  | "client-closed"
   | "internal";
 
 const statusByCode: Record<ErrorCode, number> = {
@@ -18,6 +22,11 @@ const statusByCode: Record<ErrorCode, number> = {
   "not-found": 404,
   "too-costly": 422,
   "not-acceptable": 406,
+  "rate-limited": 429,
+  overloaded: 503,
+  timeout: 503,
+  // nginx's "client closed request": nobody reads it, but logs show why the work stopped.
+  "client-closed": 499,
   internal: 500,
 };
 

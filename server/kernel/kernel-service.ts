@@ -164,7 +164,13 @@ export class KernelService {
         });
       tasks.push(task);
     }
-    await Promise.all([...tasks, ...waits]);
+    await Promise.all(tasks);
+    // Rows borrowed from another request fail with it if that client went away: compute them for this one.
+    const borrowed = await Promise.allSettled(waits);
+    if (borrowed.some((r) => r.status === "rejected")) {
+      signal?.throwIfAborted();
+      return this.rows(request, signal);
+    }
     const blockIndex = new Map(blocks.map((b, bi) => [b, bi]));
     return {
       get: (l, i, b) => {

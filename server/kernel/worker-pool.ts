@@ -23,9 +23,18 @@ export interface KernelPool {
   close(): Promise<void>;
 }
 
-/** Kernel tasks on worker threads, so that physics never blocks the event loop. */
-export function createWorkerPool(threads: number): KernelPool {
-  const piscina = new Piscina({ filename: workerScript(), minThreads: 1, maxThreads: threads, idleTimeout: 60_000 });
+/**
+ * Kernel tasks on worker threads, so that physics never blocks the event loop. A worker that crashes or exceeds
+ * its heap limit fails only the task it ran; piscina starts a replacement thread.
+ */
+export function createWorkerPool(threads: number, options: { memoryMb?: number; filename?: string } = {}): KernelPool {
+  const piscina = new Piscina({
+    filename: options.filename ?? workerScript(),
+    minThreads: 1,
+    maxThreads: threads,
+    idleTimeout: 60_000,
+    resourceLimits: { maxOldGenerationSizeMb: options.memoryMb ?? 2048 },
+  });
   return {
     threads,
     compute: (task: KernelTask, signal?: AbortSignal) => piscina.run(task, { signal }) as Promise<KernelTaskResult>,

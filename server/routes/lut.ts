@@ -2,6 +2,7 @@ import { defineRoute, type RouteSpec } from "../route-spec.js";
 import { lutRequestSchema, lutQuerySchema, shaderQuerySchema } from "../../schemas/lut.js";
 import { renderLut } from "../render/lut-render.js";
 import { sendOutput } from "../render/render-output.js";
+import { clientSignal } from "../plugins/hardening.js";
 import { shaderSnippets } from "../shaders/lut-shaders.js";
 import type { KernelService } from "../kernel/kernel-service.js";
 import type { Config } from "../config.js";
@@ -24,8 +25,8 @@ export function lutRoutes(config: Config, kernels: KernelService): RouteSpec[] {
         400: { description: "a field out of range" },
         422: { description: "valid, but costlier than the synchronous budget" },
       },
-      handle: async ({ body, query, reply }) =>
-        sendOutput(reply, await renderLut(body, query, { kernels, maxTermAngles: config.maxProfileTermAngles }), "miss"),
+      handle: async ({ body, query, request, reply }) =>
+        sendOutput(reply, await renderLut(body, query, { kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(request) }), "miss"),
     }),
     defineRoute({
       method: "GET",

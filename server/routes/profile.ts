@@ -7,6 +7,7 @@ import { requestHash } from "../profile-service.js";
 import { renderProfile, type ProfileFormat } from "../render/profile-render.js";
 import { sendOutput, type RenderOutput } from "../render/render-output.js";
 import { ClientError } from "../errors.js";
+import { clientSignal } from "../plugins/hardening.js";
 import type { Config } from "../config.js";
 import type { Preset } from "../presets.js";
 import type { KernelService } from "../kernel/kernel-service.js";
@@ -43,7 +44,7 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
         const key = `${requestHash(body)}|${format}|${query.height}|${query.bitDepth ?? ""}`;
         const cached = results.get<RenderOutput>(key);
         if (cached) return sendOutput(reply, cached, "hit");
-        const output = await renderProfile(body, format, query, { kernels, maxTermAngles: config.maxProfileTermAngles });
+        const output = await renderProfile(body, format, query, { kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(request) });
         results.set(key, output, output.body.length + 1024);
         return sendOutput(reply, output, "miss");
       },

@@ -1,0 +1,70 @@
+// What makes the service safe on a network: security headers, CORS only when configured, per-client rate
+// limits, and back-pressure (503 with Retry-After) when the event loop or memory is saturated.
+
+import type { FastifyInstance, FastifyReply, FastifyRequest } from "fastify";
+import cors from "@fastify/cors";
+import rateLimit from "@fastify/rate-limit";
+import underPressure from "@fastify/under-pressure";
+import { ClientError } from "../errors.js";
+import type { Config } from "../config.js";
+
+const SECURITY_HEADERS: Record<string, string> = {
+  "x-content-type-options": "nosniff",
+  "x-frame-options": "DENY",
+  "referrer-policy": "no-referrer",
+  "cross-origin-opener-policy": "same-origin",
+  "cross-origin-resource-policy": "same-origin",
+};
+
+/** /docs is plain HTML with one inline style sheet and no scripts. */
+const DOCS_CSP = "default-src 'none'; style-src 'unsafe-inline'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'";
+
+export async function registerHardening(app: FastifyInstance, config: Config): Promise<void> {
+  app.addHook("onSend", async (request, reply, payload) => {
+    for (const [k, v] of Object.entries(SECURITY_HEADERS)) if (!reply.hasHeader(k)) reply.header(k, v);
+    if (request.url.startsWith("/docs")) reply.header("content-security-policy", DOCS_CSP);
+    return payload;
+  });
+
+  if (config.corsOrigins.length > 0) {
+    await app.register(cors, { origin: config.corsOrigins, methods: ["GET", "POST", "DELETE"], exposedHeaders: ["x-antisolar-hash", "x-antisolar-cache", "location", "retry-after"] });
+  }
+
+  if (config.rateLimitPerMinute > 0) {
+    await app.register(rateLimit, {
+      max: config.rateLimitPerMinute,
+      timeWindow: 60_000,
+      allowList: (request) => request.url === "/healthz" || request.url === "/readyz",
+      errorResponseBuilder: (request, context) => ({
+        statusCode: 429,
+        error: "rate-limited",
+        message: `more than ${context.max} requests per minute from this client; retry in ${Math.ceil(context.ttl / 1000)} s`,
+        requestId: request.id,
+      }),
+    });
+  }
+
+  await app.register(underPressure, {
+    maxEventLoopDelay: config.maxEventLoopDelayMs,
+    maxRssBytes: config.maxRssMb * 2 ** 20,
+    retryAfter: 5,
+    exposeStatusRoute: false,
+    pressureHandler: (request: FastifyRequest, reply: FastifyReply, type: string) => {
+      if (request.url === "/healthz") return; // liveness must answer even under load
+      reply
+        .status(503)
+        .header("retry-after", "5")
+        .send({ error: "overloaded", message: `the service is overloaded (${type}); retry in 5 s`, requestId: request.id });
+    },
+  });
+}
+
+/** An AbortSignal that fires when the client goes away before the answer is sent, so its work stops. */
+export function clientSignal(request: FastifyRequest): AbortSignal {
+  const controller = new AbortController();
+  request.raw.on("close", () => {
+    if (!request.raw.complete || !request.raw.socket || request.raw.socket.destroyed) controller.abort(new ClientError("client-closed", "the client closed the connection"));
+  });
+  request.raw.socket?.on("close", () => controller.abort(new ClientError("client-closed", "the client closed the connection")));
+  return controller.signal;
+}
