@@ -27,6 +27,11 @@ describe("Descartes rainbow rays (CHECKS.md §6.2, computed from Descartes' cond
     expect(Math.abs(ray.curvature / curvature - 1)).toBeLessThanOrEqual(1e-6);
   });
 
+  it("n = 1.3330: primary ψ = 42.08°, secondary 50.89° (the issue's computed check, to the printed 0.01°)", () => {
+    expect(Math.abs(descartesRay(1.333, 1).antisolarAngleDeg - 42.08)).toBeLessThanOrEqual(0.005);
+    expect(Math.abs(descartesRay(1.333, 2).antisolarAngleDeg - 50.89)).toBeLessThanOrEqual(0.005);
+  });
+
   it("the rainbow ray is stationary: D(b_R ± h) − D(b_R) ≈ D″h²/2 (finite differences)", () => {
     const ray = descartesRay(1.3317, 1);
     const h = 1e-4;
