@@ -17,7 +17,8 @@ import type { KernelService } from "./kernel/kernel-service.js";
 import type { Medium } from "./kernel/kernel-types.js";
 import { colourProfile, type ColourProfile } from "../lib/bow/colour-profile.js";
 import { findBows } from "../lib/bow/bow-peaks.js";
-import { engineChooser, estimateMieTermAngles, AUTO_AIRY_FROM_RADIUS_UM } from "../lib/bow/engine-choice.js";
+import { engineChooser, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../lib/bow/engine-choice.js";
+import type { DropEngine } from "../lib/bow/volume-scattering.js";
 import type { WavelengthGrid } from "../lib/spectra/grid.js";
 import { ClientError } from "./errors.js";
 
@@ -232,8 +233,16 @@ function rgbUnits(request: ProfileRequest): string {
   return request.output.normalise === "peak" ? `${request.output.space}, linear, relative to the peak` : `${request.output.space}, linear, cd/m²`;
 }
 
-function summariseEngines(radiiUm: Float64Array, engine: (r: number) => string): { engine: string; fromUm: number; toUm: number; nodes: number }[] {
-  const out: { engine: string; fromUm: number; toUm: number; nodes: number }[] = [];
+interface EngineRange {
+  engine: DropEngine;
+  fromUm: number;
+  toUm: number;
+  nodes: number;
+  estimatedError?: string;
+}
+
+function summariseEngines(radiiUm: Float64Array, engine: (r: number) => DropEngine): EngineRange[] {
+  const out: EngineRange[] = [];
   for (const r of radiiUm) {
     const e = engine(r);
     const last = out[out.length - 1];
@@ -242,6 +251,7 @@ function summariseEngines(radiiUm: Float64Array, engine: (r: number) => string):
       last.nodes++;
     } else out.push({ engine: e, fromUm: r, toUm: r, nodes: 1 });
   }
+  for (const range of out) range.estimatedError = estimatedEngineError(range.engine, range.fromUm);
   return out;
 }
 

@@ -17,6 +17,17 @@ export type ProfileMethod = "auto" | "mie" | "airy" | "geometric";
  */
 export const AUTO_AIRY_FROM_RADIUS_UM = 100;
 
+/** Each engine's error against Lorenz–Mie as measured (see AUTO_AIRY_FROM_RADIUS_UM), for the response's meta. */
+export function estimatedEngineError(engine: DropEngine, fromUm: number): string {
+  if (engine === "mie") return "exact Lorenz–Mie (reference: Wiscombe 1979 test cases to 5e-6)";
+  if (engine === "airy") {
+    return fromUm >= AUTO_AIRY_FROM_RADIUS_UM
+      ? "measured against Mie from 100 µm (narrow size distributions): mean ΔE2000 ≤ 0.82, ≤ 0.38 at the bows, worst sample ≤ 2.0"
+      : "below 100 µm not within ΔE2000 1 of Mie (mean 1.1–2.5 at 20–60 µm): use auto or mie";
+  }
+  return "ray optics: no supernumeraries or diffraction; not measured against Mie";
+}
+
 export function engineChooser(method: ProfileMethod): (radiusUm: number) => DropEngine {
   switch (method) {
     case "mie":
