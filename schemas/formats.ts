@@ -2,7 +2,7 @@ import { z } from "zod";
 
 export const stripQuerySchema = z
   .object({
-    format: z.enum(["json", "png", "png16"]).optional().describe("Output file; wins over the Accept header (png16 = 16-bit PNG)"),
+    format: z.enum(["json", "png", "png16", "svg"]).optional().describe("Output file; wins over the Accept header (png16 = 16-bit PNG; svg = labelled figure)"),
     height: z.coerce.number().int().min(1).max(4096).default(32).describe("PNG strip height in pixels"),
     bitDepth: z.coerce
       .number()

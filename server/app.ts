@@ -8,6 +8,7 @@ import { parseOrThrow } from "./validation.js";
 import { serviceRoutes } from "./routes/service.js";
 import { opticsRoutes } from "./routes/optics.js";
 import { profileRoutes } from "./routes/profile.js";
+import { figureRoutes } from "./routes/figures.js";
 import { loadPresets } from "./presets.js";
 import { createKernelRuntime } from "./kernel/runtime.js";
 import { lutRoutes } from "./routes/lut.js";
@@ -42,6 +43,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     ...serviceRoutes(),
     ...opticsRoutes(config),
     ...profileRoutes(config, loadPresets(), runtime.kernels),
+    ...figureRoutes(config, runtime.kernels),
     ...lutRoutes(config, runtime.kernels),
     ...viewRoutes(config, runtime.kernels),
   ];

@@ -8,7 +8,7 @@ import { waterIndex } from "../lib/water/water-index.js";
 import type { DropSizeDistribution } from "../lib/drops/distributions.js";
 import { fractionOfCrossSectionAbove } from "../lib/drops/quadrature.js";
 import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
-import { spectrumToXyz } from "../lib/colour/tristimulus.js";
+import { spectrumToXyz, type Xyz } from "../lib/colour/tristimulus.js";
 import { directSunlight } from "../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../lib/bow/lattice-profile.js";
 import { latticeProfile, profileSpan, accumulateBlocks } from "../lib/bow/lattice-profile.js";
@@ -27,6 +27,8 @@ const FLATTENED_FROM_RADIUS_UM = 1000;
 
 export interface ProfileResult {
   request: ProfileRequest;
+  /** XYZ of the direct sunlight on the rain (any scale): the white under white = "sun". */
+  sunWhite: Xyz;
   grid: WavelengthGrid;
   spectral: SpectralProfile;
   colour: ColourProfile;
@@ -166,6 +168,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     }),
     mieTermAngles: rows.stats.mieTermAngles,
   };
+  const sunWhite = spectrumToXyz(sun.irradiance, request.observer);
   const colour = colourProfile(spectral, grid, {
     observer: request.observer,
     space: request.output.space,
@@ -173,7 +176,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     white: request.output.white,
     normalise: request.output.normalise,
     polariserDeg: request.polariserDeg,
-    sunWhite: spectrumToXyz(sun.irradiance, request.observer),
+    sunWhite,
   });
   const bows = findBows(spectral.anglesDeg, colour.luminance);
 
@@ -224,7 +227,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     sources: profileSources(request),
     warnings,
   };
-  return { request, grid, spectral, colour, bows, meta };
+  return { request, sunWhite, grid, spectral, colour, bows, meta };
 }
 
 function rgbUnits(request: ProfileRequest): string {

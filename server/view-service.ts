@@ -4,11 +4,11 @@
 import sharp from "sharp";
 import { profileRequestSchema, type ProfileRequest } from "../schemas/profile.js";
 import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../schemas/view.js";
-import { computeProfile, sunlightFor, toDistribution, type ProfileLimits, type ProfileResult } from "./profile-service.js";
+import { computeProfile, toDistribution, type ProfileLimits, type ProfileResult } from "./profile-service.js";
 import type { KernelService } from "./kernel/kernel-service.js";
 import { parseOrThrow } from "./validation.js";
 import { ClientError } from "./errors.js";
-import { spectraToXyz, spectrumToXyz, type Xyz } from "../lib/colour/tristimulus.js";
+import { spectraToXyz, type Xyz } from "../lib/colour/tristimulus.js";
 import { renderXyz } from "../lib/colour/render.js";
 import { encodeLinear, outputSpace, type OutputSpaceId } from "../lib/colour/output-spaces.js";
 import { LUMINOUS_EFFICACY_LM_PER_W } from "../lib/bow/colour-profile.js";
@@ -220,9 +220,6 @@ function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg:
   return { fromDeg: lo, toDeg: lo + (count - 1) * step, stepDeg: step, seen };
 }
 
-function sunWhiteOf(request: ProfileRequest, result: ProfileResult): Xyz {
-  return spectrumToXyz(sunlightFor(request, result.grid).irradiance, request.observer);
-}
 
 interface Scaling {
   /** Pixel value 1 stands for this luminance, cd/m². */
@@ -251,7 +248,7 @@ function profileColours(result: ProfileResult, request: ProfileRequest, output: 
     output.normalise === "peak"
       ? { referenceCdPerM2: peakBow, peakBowCdPerM2: peakBow, meaning: "pixel luminance 1 = the brightest point of the bows (ψ 30°–60°)" }
       : { referenceCdPerM2: output.referenceCdPerM2, peakBowCdPerM2: peakBow, meaning: `pixel luminance 1 = ${output.referenceCdPerM2} cd/m²` };
-  const sunWhite = sunWhiteOf(request, result);
+  const sunWhite = result.sunWhite;
   // Gamut mapping wants white at Y = 1: map relative to the profile's peak, then scale to the reference.
   const relative = peakAll > 0 ? 1 / peakAll : 0;
   const back = scaling.referenceCdPerM2 > 0 ? peakAll / scaling.referenceCdPerM2 : 0;

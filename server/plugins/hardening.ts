@@ -27,7 +27,7 @@ export async function registerHardening(app: FastifyInstance, config: Config): P
   });
 
   if (config.corsOrigins.length > 0) {
-    await app.register(cors, { origin: config.corsOrigins, methods: ["GET", "POST", "DELETE"], exposedHeaders: ["x-antisolar-hash", "x-antisolar-cache", "location", "retry-after"] });
+    await app.register(cors, { origin: config.corsOrigins, methods: ["GET", "POST", "DELETE"], exposedHeaders: ["x-antisolar-hash", "x-antisolar-cache", "x-antisolar-sources", "x-antisolar-axes", "x-antisolar-scale", "location", "retry-after"] });
   }
 
   if (config.rateLimitPerMinute > 0) {

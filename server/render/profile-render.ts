@@ -4,9 +4,10 @@ import type { stripQuerySchema } from "../../schemas/formats.js";
 import { computeProfile, type ProfileResult } from "../profile-service.js";
 import { encodePngStrip } from "../images/png-strip.js";
 import { jsonOutput, headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
+import { profileSvg } from "../../lib/figures/profile-figure.js";
 
 export type StripQuery = z.output<typeof stripQuerySchema>;
-export type ProfileFormat = "json" | "png" | "png16";
+export type ProfileFormat = "json" | "png" | "png16" | "svg";
 
 /** Six significant digits: far below any colour difference, and it keeps the JSON small. */
 function round6(v: number): number {
@@ -54,6 +55,10 @@ export async function renderProfile(body: ProfileRequest, format: ProfileFormat,
   const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal });
   deps.onProgress?.(1, "done");
   if (format === "json") return jsonOutput(profileJson(result), { "x-antisolar-hash": String(result.meta.hash) });
+  if (format === "svg") {
+    const sources = headerSafe(JSON.stringify(result.meta.sources));
+    return { contentType: "image/svg+xml; charset=utf-8", body: Buffer.from(profileSvg(result), "utf8"), headers: { ...describingHeaders(result), "x-antisolar-sources": sources } };
+  }
   const bitDepth = (query.bitDepth ?? (format === "png16" ? 16 : 8)) as 8 | 16;
   const strip = await encodePngStrip({ values: result.colour.rgb, height: query.height, bitDepth, space: body.output.space });
   return { contentType: "image/png", body: strip.png, headers: { ...describingHeaders(result), "x-antisolar-icc": strip.iccDescription } };

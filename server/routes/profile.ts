@@ -16,6 +16,7 @@ function chooseFormat(query: { format?: ProfileFormat }, request: FastifyRequest
   if (query.format) return query.format;
   const accept = request.headers.accept ?? "";
   if (/image\/png/.test(accept) && !/application\/json/.test(accept)) return "png";
+  if (/image\/svg\+xml/.test(accept) && !/application\/json/.test(accept)) return "svg";
   return "json";
 }
 
@@ -31,11 +32,12 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
       description:
         "Drops × sun × observer: spectral radiance per angle ψ and wavelength, integrated with the CIE colour-matching " +
         "functions. `{}` renders a 2 mm/h shower with the sun 10° high. PNG with `?format=png` or `Accept: image/png`: " +
-        "one pixel column per angle sample, with an ICC profile (and cICP where the space has code points).",
+        "one pixel column per angle sample, with an ICC profile (and cICP where the space has code points). " +
+        "`?format=svg` or `Accept: image/svg+xml`: a labelled figure of luminance and polarisation against ψ over the colour strip.",
       body: profileRequestSchema,
       query: stripQuerySchema,
       responses: {
-        200: { description: "the profile", contentTypes: ["application/json", "image/png"] },
+        200: { description: "the profile", contentTypes: ["application/json", "image/png", "image/svg+xml"] },
         400: { description: "a field out of range" },
         422: { description: "valid, but costlier than the synchronous budget" },
       },

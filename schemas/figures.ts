@@ -1,0 +1,82 @@
+import { z } from "zod";
+import { angleRangeSchema } from "./angles.js";
+import { waterSchema } from "./water.js";
+import { outputSchema, profileMethods, profileRequestSchema, sunSchema } from "./profile.js";
+
+export const svgQuerySchema = z
+  .object({ format: z.enum(["svg"]).optional().describe("Output file: svg (the only one for this figure)") })
+  .strict();
+
+export const sizeMapQuerySchema = z
+  .object({
+    format: z
+      .enum(["svg", "png"])
+      .optional()
+      .describe("svg: the labelled figure; png: the map alone, one pixel per (angle, radius) sample, largest radius on top"),
+  })
+  .strict();
+
+export const SIZE_MAP_MAX_RADII = 64;
+/** Columns of the map; each becomes one rectangle per row of the SVG, so the figure stays a few MB at most. */
+export const SIZE_MAP_MAX_ANGLES = 721;
+
+const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
+
+export const sizeMapRequestSchema = z
+  .object({
+    radiusFromUm: number(0.5, 3000, "Smallest drop radius (bottom row), µm").default(10),
+    radiusToUm: number(0.5, 3000, "Largest drop radius (top row), µm").default(2000),
+    radiusSteps: z.number().int().min(2).max(SIZE_MAP_MAX_RADII).default(24).describe("Rows: radii log-spaced from radiusFromUm to radiusToUm"),
+    water: waterSchema.default({ temperatureC: 15, salinityPsu: 0 }),
+    sun: sunSchema.default({
+      spectrum: { kind: "astm-g173", column: "extraterrestrial" },
+      elevationDeg: 10,
+      atmosphere: { attenuate: "auto", pressureHpa: 1013.25, angstromBeta: 0.05, angstromAlpha: 1.3 },
+      discDeg: 0.5329,
+      limbDarkening: "neckel-labs-1994",
+    }),
+    observer: z.enum(["cie1931-2", "cie1964-10"]).default("cie1931-2"),
+    angles: angleRangeSchema({ what: "angle ψ from the antisolar point", fromDeg: 30, toDeg: 60, stepDeg: 0.25, maxCount: SIZE_MAP_MAX_ANGLES }).default({
+      fromDeg: 30,
+      toDeg: 60,
+      stepDeg: 0.25,
+    }),
+    spectral: z
+      .object({
+        fromNm: number(360, 830, "First wavelength (vacuum), nm").default(380),
+        toNm: number(360, 830, "Last wavelength (vacuum), nm").default(780),
+        stepNm: number(1, 20, "Wavelength step, nm (coarser than a profile's default: a map runs one profile per row)").default(20),
+      })
+      .strict()
+      .default({ fromNm: 380, toNm: 780, stepNm: 20 }),
+    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
+    output: outputSchema
+      .pick({ gamut: true, white: true })
+      .default({ gamut: "css4", white: "sun" })
+      .describe("Gamut mapping and white; the map is always sRGB, each row relative to its own peak"),
+  })
+  .strict()
+  .superRefine((b, ctx) => {
+    if (b.radiusToUm <= b.radiusFromUm) ctx.addIssue({ code: "custom", path: ["radiusToUm"], message: `radiusToUm must exceed radiusFromUm (${b.radiusFromUm})` });
+    // Every row is a profile request: its own cross-field rules (salt water's band, spectral steps, tables) apply.
+    const row = profileRequestSchema.safeParse(sizeMapRowBody(b, b.radiusFromUm));
+    if (!row.success) {
+      for (const issue of row.error.issues) ctx.addIssue({ code: "custom", path: issue.path as (string | number)[], message: issue.message });
+    }
+  });
+
+export type SizeMapRequest = z.infer<typeof sizeMapRequestSchema>;
+
+/** The profile request of one row of a size map. */
+export function sizeMapRowBody(b: Omit<SizeMapRequest, "radiusFromUm" | "radiusToUm" | "radiusSteps">, radiusUm: number) {
+  return {
+    drops: { kind: "monodisperse" as const, radiusUm },
+    water: b.water,
+    sun: b.sun,
+    observer: b.observer,
+    angles: b.angles,
+    spectral: b.spectral,
+    method: b.method,
+    output: { space: "srgb" as const, gamut: b.output.gamut, normalise: "peak" as const, white: b.output.white },
+  };
+}
