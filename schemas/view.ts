@@ -101,6 +101,7 @@ export const skyRequestSchema = z
     widthPx: z.number().int().min(2).max(8192).default(2048).describe("Map width, pixels (360° of azimuth)"),
     heightPx: z.number().int().min(1).max(4096).default(1024).describe("Map height, pixels (180° of elevation); width/height must be 2"),
     sun: sunPositionSchema,
+    polariserToTangentDeg: number(-180, 180, "A linear polariser held at this angle to the bow's tangent everywhere (as polariserDeg of /v1/profile); omit for none").optional(),
     ground: z.boolean().default(true).describe("true: the lower half (elevation < 0) is left empty"),
     layer: layerSchema,
     maxAngleDeg,

@@ -62,6 +62,8 @@ interface Scene {
   /** Angular size of a pixel where it is smallest on the sky, degrees. */
   pixelDeg: number;
   polariserAxis?: Vec3;
+  /** A polariser at a fixed angle to the bow's tangent: its cos² (Malus's law), the same at every pixel. */
+  polariserTangentCos2?: number;
   scenario: ViewScenario;
   output: Output;
   sunPosition: { azimuthDeg: number; elevationDeg: number };
@@ -166,6 +168,7 @@ function skyScene(body: SkyRequest): Scene {
     maxAngleDeg: body.maxAngleDeg,
     // Rows near the poles are narrower in azimuth, but a row is always 180°/height tall.
     pixelDeg: 180 / body.heightPx,
+    polariserTangentCos2: body.polariserToTangentDeg === undefined ? undefined : Math.cos((body.polariserToTangentDeg * Math.PI) / 180) ** 2,
     scenario: body.scenario,
     output: body.output,
     sunPosition: body.sun,
@@ -407,6 +410,7 @@ export function renderPrepared(p: PreparedOverlay): Layer {
     maxAngleDeg: p.scene.maxAngleDeg,
     alpha: p.alpha,
     polariserAxis: p.scene.polariserAxis,
+    polariserTangentCos2: p.scene.polariserTangentCos2,
   });
 }
 

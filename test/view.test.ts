@@ -177,6 +177,20 @@ describe("sky map (equirectangular: azimuth −180°..180° left to right with n
     for (let i = 3 * W * (H / 2); i < layer.data.length; i++) below = Math.max(below, layer.data[i]);
     expect(below).toBe(0);
   });
+
+  it("a polariser across the bow's tangent dims the bow in the sky map by Malus's law", async () => {
+    const body = (extra: object) => skyRequestSchema.parse({ scenario, sun: { azimuthDeg: 240, elevationDeg: 20 }, widthPx: 180, heightPx: 90, layer: "additive", ...extra });
+    const open = renderPrepared(await prepareSky(body({}), "exr", deps));
+    const crossed = renderPrepared(await prepareSky(body({ polariserToTangentDeg: 90 }), "exr", deps));
+    const brightest = (data: Float32Array) => {
+      let best = 0;
+      for (let i = 0; i < data.length; i += 3) best = Math.max(best, luminance(data, i));
+      return best;
+    };
+    // The bow is ≥ 80 % tangentially polarised (test/bow-profile.test.ts): crossed, its brightest point keeps < 30 %.
+    expect(brightest(crossed.data)).toBeLessThan(0.3 * brightest(open.data));
+    expect(brightest(crossed.data)).toBeGreaterThan(0);
+  });
 });
 
 describe("rain curtain", () => {

@@ -30,6 +30,8 @@ export interface LayerInput {
   alpha?: number;
   /** Transmission axis of a linear polariser as a world direction (square to the optical axis), or none. */
   polariserAxis?: Vec3;
+  /** Instead of an axis: a polariser at a fixed angle to the bow's tangent, given as its cos² (Malus's law). */
+  polariserTangentCos2?: number;
 }
 
 export interface Layer {
@@ -90,6 +92,7 @@ export function tangentTransmission(d: ArrayLike<number>, a: ArrayLike<number>, 
 
 export function renderLayer(input: LayerInput): Layer {
   const { rays, antisolar, colours, ground, alpha, polariserAxis, maxAngleDeg } = input;
+  const polarised = polariserAxis !== undefined || input.polariserTangentCos2 !== undefined;
   const { widthPx, heightPx } = rays;
   const channels = alpha === undefined ? 3 : 4;
   const data = new Float32Array(widthPx * heightPx * channels);
@@ -110,8 +113,8 @@ export function renderLayer(input: LayerInput): Layer {
       const i1 = Math.min(i0 + 1, last);
       const w1 = Math.min(Math.max(t - i0, 0), 1);
       const w0 = 1 - w1;
-      if (polariserAxis) {
-        const c2 = tangentTransmission(d, antisolar, polariserAxis);
+      if (polarised) {
+        const c2 = polariserAxis ? tangentTransmission(d, antisolar, polariserAxis) : input.polariserTangentCos2!;
         const s2 = 1 - c2;
         const a = colours.perpendicular;
         const b = colours.parallel;
