@@ -6,7 +6,6 @@ import { chromium, type Browser, type Page } from "playwright-core";
 import sharp from "sharp";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../server/app.js";
-import { registerWeb } from "../server/routes/web.js";
 
 // The explorer page in a real browser (Debian's chromium), served by the real app with the page's routes
 // registered as server/app.ts registers them.
@@ -30,8 +29,7 @@ let base: string;
 let profileDelayMs = 0;
 
 beforeAll(async () => {
-  app = await buildApp();
-  await registerWeb(app);
+  app = await buildApp({ config: { cacheDir: "", rateLimitPerMinute: 0 } });
   app.addHook("onRequest", async (request) => {
     if (profileDelayMs > 0 && request.url.startsWith("/v1/profile")) await new Promise((r) => setTimeout(r, profileDelayMs));
   });
@@ -221,7 +219,7 @@ describe("the explorer page in chromium", () => {
 
     // Exports at full resolution (10 nm): PNG strips decode with the right size and depth.
     for (const [button, depth] of [
-      ["#download-png8", "uchar"],
+      ["#download-png", "uchar"],
       ["#download-png16", "ushort"],
     ] as const) {
       const [download] = await Promise.all([page.waitForEvent("download", { timeout: 30_000 }), page.click(button)]);
@@ -256,6 +254,12 @@ describe("the explorer page in chromium", () => {
     const exported = JSON.parse(readFileSync(jsonPath, "utf8"));
     expect(exported.meta.wavelengths.stepNm).toBe(10);
     expect(exported.anglesDeg).toHaveLength(401);
+
+    // The lookup texture downloads as an OpenEXR file (magic number 20000630, OpenEXR file layout).
+    const [lutDownload] = await Promise.all([page.waitForEvent("download"), page.click("#download-lut-exr")]);
+    const lutPath = fileURLToPath(new URL(lutDownload.suggestedFilename(), ARTIFACTS));
+    await lutDownload.saveAs(lutPath);
+    expect(readFileSync(lutPath).readUInt32LE(0)).toBe(20000630);
 
     // The curl command carries the same request: the service accepts it as it stands.
     const curl = await page.inputValue("#curl");

@@ -277,20 +277,65 @@ function saveBlob(blob, fileName) {
   setTimeout(() => URL.revokeObjectURL(url), 10_000);
 }
 
+/** The scene's physics without what the texture and camera endpoints decide themselves. */
+function scenarioOf(body, { keepSunElevation }) {
+  const { angles, output, polariserDeg, ...scenario } = body;
+  if (!keepSunElevation) {
+    const { elevationDeg, ...sun } = scenario.sun;
+    scenario.sun = sun;
+  }
+  return { scenario, angles, polariserDeg };
+}
+
+/** Every export: which endpoint, with what body, to which file. */
+const exportKinds = {
+  json: { label: "JSON profile", url: () => "/v1/profile?format=json", body: (b) => b, ext: ".json" },
+  png: { label: "8-bit PNG strip", url: () => `/v1/profile?format=png&height=${stripHeight()}`, body: (b) => b, ext: "-8bit.png" },
+  png16: { label: "16-bit PNG strip", url: () => `/v1/profile?format=png16&height=${stripHeight()}`, body: (b) => b, ext: "-16bit.png" },
+  svg: { label: "labelled SVG figure", url: () => "/v1/profile?format=svg", body: (b) => b, ext: "-figure.svg" },
+  chromaticity: { label: "chromaticity diagram (SVG)", url: () => "/v1/figure/chromaticity", body: (b) => b, ext: "-chromaticity.svg" },
+  "lut-exr": {
+    label: "lookup texture (OpenEXR, ACEScg)",
+    url: () => "/v1/lut?format=exr",
+    body: (b) => lutBody(b),
+    ext: "-lut.exr",
+  },
+  "lut-manifest": { label: "lookup texture manifest", url: () => "/v1/lut?part=manifest", body: (b) => lutBody(b), ext: "-lut-manifest.json" },
+  "view-exr": {
+    label: "camera view (OpenEXR, premultiplied RGBA)",
+    url: () => "/v1/view?format=exr",
+    body: (b) => {
+      const { scenario, polariserDeg } = scenarioOf(b, { keepSunElevation: false });
+      return {
+        scenario,
+        camera: { horizontalFovDeg: Number($("fov").value), pitchDeg: Number($("pitch").value), widthPx: 1280, heightPx: 720 },
+        sun: { azimuthDeg: 180, elevationDeg: b.sun.elevationDeg },
+        ...(polariserDeg === undefined ? {} : { polariserDeg }),
+      };
+    },
+    ext: "-view.exr",
+  },
+};
+
+function lutBody(b) {
+  const { scenario, angles } = scenarioOf(b, { keepSunElevation: true });
+  if (b.polariserDeg !== undefined) scenario.polariserDeg = b.polariserDeg;
+  return { scenario, sizes: { kind: "none" }, angles: { fromDeg: angles.fromDeg, toDeg: angles.toDeg, texels: 512, mapping: "bow-weighted" } };
+}
+
 async function download(format) {
   const invalid = firstInvalid(form);
   if (invalid) {
     announce(`Not sent: ${invalid.message}`);
     return;
   }
-  const body = fullBody();
-  const labels = { json: "JSON profile", png: "8-bit PNG strip", png16: "16-bit PNG strip" };
+  const kind = exportKinds[format];
+  const body = kind.body(fullBody());
   const controller = new AbortController();
   state.downloads.add(controller);
-  const token = startBusy(`Rendering the ${labels[format]} at ${body.spectral.stepNm} nm`);
+  const token = startBusy(`Rendering the ${kind.label} at ${fullBody().spectral.stepNm} nm`);
   try {
-    const query = format === "json" ? "?format=json" : `?format=${format}&height=${stripHeight()}`;
-    const res = await fetch(`/v1/profile${query}`, {
+    const res = await fetch(kind.url(), {
       method: "POST",
       headers: { "content-type": "application/json" },
       body: JSON.stringify(body),
@@ -303,7 +348,7 @@ async function download(format) {
     const blob = await res.blob();
     let hash = res.headers.get("x-antisolar-hash");
     if (format === "json") hash = JSON.parse(await blob.text()).meta.hash;
-    const fileName = `antisolar-${String(hash).slice(0, 10)}${format === "json" ? ".json" : format === "png" ? "-8bit.png" : "-16bit.png"}`;
+    const fileName = `antisolar-${String(hash).slice(0, 10)}${kind.ext}`;
     saveBlob(blob, fileName);
     endBusy(token, `Saved ${fileName} (${(blob.size / 1024).toFixed(1)} kB).`);
   } catch (error) {
@@ -313,9 +358,7 @@ async function download(format) {
   }
 }
 
-$("download-json").addEventListener("click", () => download("json"));
-$("download-png8").addEventListener("click", () => download("png"));
-$("download-png16").addEventListener("click", () => download("png16"));
+for (const format of Object.keys(exportKinds)) $(`download-${format}`)?.addEventListener("click", () => download(format));
 $("strip-height").addEventListener("input", updateCurl);
 $("curl-format").addEventListener("change", updateCurl);
 $("full-step").addEventListener("change", updateCurl);
