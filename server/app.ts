@@ -55,7 +55,8 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
       method: route.method,
       url: route.url,
       handler: async (request, reply) => {
-        const body = route.body ? parseOrThrow(route.body, request.body ?? {}, "body") : undefined;
+        // No body at all means "all defaults"; an explicit JSON null is not an object and is refused.
+        const body = route.body ? parseOrThrow(route.body, request.body === undefined ? {} : request.body, "body") : undefined;
         const query = route.query ? parseOrThrow(route.query, request.query ?? {}, "query") : undefined;
         return route.handle({ body, query, request, reply });
       },

@@ -11,7 +11,7 @@ import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
 import { spectrumToXyz, type Xyz } from "../lib/colour/tristimulus.js";
 import { directSunlight } from "../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../lib/bow/lattice-profile.js";
-import { latticeProfile, profileSpan, accumulateBlocks } from "../lib/bow/lattice-profile.js";
+import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../lib/bow/lattice-profile.js";
 import { blocksOf, kernelStepFor, BLOCK_SAMPLES } from "../lib/bow/kernel-grid.js";
 import type { KernelService } from "./kernel/kernel-service.js";
 import type { Medium } from "./kernel/kernel-types.js";
@@ -155,19 +155,22 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const kernelStarted = performance.now();
   const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, blocks }, deps.signal);
   const kernelMs = performance.now() - kernelStarted;
-  const spectral: SpectralProfile = {
-    ...latticeProfile({
-      angles,
-      grid,
-      span,
-      beta: (l, out) => accumulateBlocks(span, blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
-      sunIrradiance: sun.irradiance.values,
-      discDiameterDeg: request.sun.discDeg,
-      limbDarkening: request.sun.limbDarkening,
-      pathLengthM: request.pathLengthM,
-    }),
-    mieTermAngles: rows.stats.mieTermAngles,
-  };
+  const steps = latticeProfileSteps({
+    angles,
+    grid,
+    span,
+    beta: (l, out) => accumulateBlocks(span, blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
+    sunIrradiance: sun.irradiance.values,
+    discDiameterDeg: request.sun.discDeg,
+    limbDarkening: request.sun.limbDarkening,
+    pathLengthM: request.pathLengthM,
+  });
+  let step = steps.next();
+  while (!step.done) {
+    await new Promise<void>((resolve) => setImmediate(resolve));
+    step = steps.next();
+  }
+  const spectral: SpectralProfile = { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
   const sunWhite = spectrumToXyz(sun.irradiance, request.observer);
   const colour = colourProfile(spectral, grid, {
     observer: request.observer,

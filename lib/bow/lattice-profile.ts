@@ -73,6 +73,18 @@ export interface LatticeProfileInput {
 }
 
 export function latticeProfile(input: LatticeProfileInput): SpectralProfile {
+  const steps = latticeProfileSteps(input);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
+  }
+}
+
+/**
+ * The same, one wavelength per step: a caller on an event loop can let other work run between steps
+ * (the sum over drops is the bulk of a warm profile's time).
+ */
+export function* latticeProfileSteps(input: LatticeProfileInput): Generator<void, SpectralProfile> {
   const { angles, grid, span } = input;
   const { h, first, last } = span;
   const n = last - first + 1;
@@ -97,6 +109,7 @@ export function latticeProfile(input: LatticeProfileInput): SpectralProfile {
       perpendicular[i * nl + l] = scale * (smoothed[k] * (1 - t) + smoothed[k + 1] * t);
       parallel[i * nl + l] = scale * (smoothed[n + k] * (1 - t) + smoothed[n + k + 1] * t);
     }
+    yield;
   }
   return { anglesDeg, perpendicular, parallel, mieTermAngles: 0 };
 }

@@ -59,6 +59,9 @@ function solveOnBranch(n: number, k: number, branch: Branch, target: number): nu
   return 0.5 * (lo + hi);
 }
 
+/** 1 − 1e-9: cos i ≈ 4.5e-5, where sin Θ and dΘ/db of grazing rays are still accurate in double precision. */
+const GRAZING_IMPACT_PARAMETER = 1 - 1e-9;
+
 /** Impact parameters of all rays of order k leaving at scattering angle Θ (radians). */
 export function raysAtScatteringAngle(n: number, k: number, scatteringAngle: number): number[] {
   const found: number[] = [];
@@ -94,7 +97,10 @@ export function geometricIntensity(
   const parallel = new Float64Array(scatteringAngleDeg.length);
   for (let j = 0; j < scatteringAngleDeg.length; j++) {
     const theta = scatteringAngleDeg[j] * DEG;
-    for (const b of raysAtScatteringAngle(n, k, theta)) {
+    for (const root of raysAtScatteringAngle(n, k, theta)) {
+      // At grazing incidence (b → 1) both sin Θ and 1/|dΘ/db| vanish for the rays that leave near Θ = 0 or π;
+      // their ratio stays finite, so the ray is taken a hair inside the rim where both are representable.
+      const b = Math.min(root, GRAZING_IMPACT_PARAMETER);
       const slope = Math.abs(deviationSlope(n, k, b));
       const sinTheta = Math.abs(Math.sin(scatteringAngleOfDeviation(deviationRad(n, k, b)).angle));
       const bOverSin = b < AXIAL_IMPACT_PARAMETER ? 1 / slope : b / sinTheta;

@@ -3,6 +3,7 @@
 // share one computation. A pack holds the rows of many drop radii for one wavelength, engine, step and block.
 
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
+import { setMaxListeners } from "node:events";
 import { ByteLru } from "./byte-lru.js";
 import type { DiskStore } from "./disk-store.js";
 import type { KernelTask, KernelTaskResult, Medium } from "./kernel-types.js";
@@ -116,6 +117,13 @@ export class KernelService {
       list.push(bi);
     }
 
+    // One failed task stops this request's other tasks; the caller's signal (client gone) stops them all.
+    const stop = new AbortController();
+    setMaxListeners(0, stop.signal);
+    const onAbort = () => stop.abort(signal?.reason);
+    signal?.addEventListener("abort", onAbort, { once: true });
+    // Settle borrowed rows from the start, so that their failure is never an unhandled rejection.
+    const borrowedSettled = Promise.allSettled(waits);
     const tasks: Promise<void>[] = [];
     for (const [l, byRadius] of toCompute) {
       const indices = [...byRadius.keys()];
@@ -130,7 +138,7 @@ export class KernelService {
         }
       }
       const task = this.options
-        .compute({ medium: media[l], h, items }, signal)
+        .compute({ medium: media[l], h, items }, stop.signal)
         .then((result) => {
           stats.mieTermAngles += result.mieTermAngles;
           const written = new Map<string, Map<number, Float64Array>>();
@@ -160,13 +168,21 @@ export class KernelService {
             this.inflight.delete(rowKey);
             s.reject(error);
           }
+          stop.abort(error);
           throw error;
         });
       tasks.push(task);
     }
-    await Promise.all(tasks);
+    try {
+      await Promise.all(tasks);
+    } catch (error) {
+      await Promise.allSettled(tasks);
+      throw error;
+    } finally {
+      signal?.removeEventListener("abort", onAbort);
+    }
     // Rows borrowed from another request fail with it if that client went away: compute them for this one.
-    const borrowed = await Promise.allSettled(waits);
+    const borrowed = await borrowedSettled;
     if (borrowed.some((r) => r.status === "rejected")) {
       signal?.throwIfAborted();
       return this.rows(request, signal);

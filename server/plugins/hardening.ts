@@ -1,6 +1,7 @@
 // What makes the service safe on a network: security headers, CORS only when configured, per-client rate
 // limits, and back-pressure (503 with Retry-After) when the event loop or memory is saturated.
 
+import { setMaxListeners } from "node:events";
 import type { FastifyInstance, FastifyReply, FastifyRequest } from "fastify";
 import cors from "@fastify/cors";
 import rateLimit from "@fastify/rate-limit";
@@ -35,12 +36,10 @@ export async function registerHardening(app: FastifyInstance, config: Config): P
       max: config.rateLimitPerMinute,
       timeWindow: 60_000,
       allowList: (request) => request.url === "/healthz" || request.url === "/readyz",
-      errorResponseBuilder: (request, context) => ({
-        statusCode: 429,
-        error: "rate-limited",
-        message: `more than ${context.max} requests per minute from this client; retry in ${Math.ceil(context.ttl / 1000)} s`,
-        requestId: request.id,
-      }),
+      errorResponseBuilder: (_request, context) =>
+        new ClientError("rate-limited", `more than ${context.max} requests per minute from this client; retry in ${Math.ceil(context.ttl / 1000)} s`, {
+          allowed: `${context.max} requests per minute`,
+        }),
     });
   }
 
@@ -60,11 +59,12 @@ export async function registerHardening(app: FastifyInstance, config: Config): P
 }
 
 /** An AbortSignal that fires when the client goes away before the answer is sent, so its work stops. */
-export function clientSignal(request: FastifyRequest): AbortSignal {
+export function clientSignal(reply: FastifyReply): AbortSignal {
   const controller = new AbortController();
-  request.raw.on("close", () => {
-    if (!request.raw.complete || !request.raw.socket || request.raw.socket.destroyed) controller.abort(new ClientError("client-closed", "the client closed the connection"));
+  setMaxListeners(0, controller.signal);
+  // The response closes either when it has been sent, or earlier when the connection drops.
+  reply.raw.once("close", () => {
+    if (!reply.raw.writableFinished) controller.abort(new ClientError("client-closed", "the client closed the connection"));
   });
-  request.raw.socket?.on("close", () => controller.abort(new ClientError("client-closed", "the client closed the connection")));
   return controller.signal;
 }

@@ -30,10 +30,14 @@ export function sendOutput(reply: { type(t: string): unknown; header(k: string, 
   reply.type(output.contentType);
   for (const [k, v] of Object.entries(output.headers)) reply.header(k, v);
   reply.header("x-antisolar-cache", cache);
-  if (cache === "hit" && output.contentType.startsWith("application/json")) {
-    const value = JSON.parse(output.body.toString("utf8")) as { meta?: Record<string, unknown> };
-    if (value.meta) value.meta.cache = "hit";
-    return reply.send(Buffer.from(JSON.stringify(value)));
-  }
   return reply.send(output.body);
+}
+
+/** The same output as a later cache hit sees it: JSON bodies say `"cache":"hit"` in their meta. */
+export function asCacheHit(output: RenderOutput): RenderOutput {
+  if (!output.contentType.startsWith("application/json")) return output;
+  const text = output.body.toString("utf8");
+  const at = text.lastIndexOf('"cache":"miss"');
+  if (at < 0) return output;
+  return { ...output, body: Buffer.from(`${text.slice(0, at)}"cache":"hit"${text.slice(at + '"cache":"miss"'.length)}`) };
 }

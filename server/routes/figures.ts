@@ -8,7 +8,7 @@ import type { Config } from "../config.js";
 import type { KernelService } from "../kernel/kernel-service.js";
 
 export function figureRoutes(config: Config, kernels: KernelService): RouteSpec[] {
-  const depsFor = (request: Parameters<typeof clientSignal>[0]): RenderDeps => ({ kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(request) });
+  const depsFor = (reply: Parameters<typeof clientSignal>[0]): RenderDeps => ({ kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(reply) });
   return [
     defineRoute({
       method: "POST",
@@ -27,7 +27,7 @@ export function figureRoutes(config: Config, kernels: KernelService): RouteSpec[
         400: { description: "a field out of range" },
         422: { description: "valid, but costlier than the synchronous budget" },
       },
-      handle: async ({ body, request, reply }) => sendOutput(reply, await renderChromaticityFigure(body, depsFor(request)), "miss"),
+      handle: async ({ body, reply }) => sendOutput(reply, await renderChromaticityFigure(body, depsFor(reply)), "miss"),
     }),
     defineRoute({
       method: "POST",
@@ -46,7 +46,7 @@ export function figureRoutes(config: Config, kernels: KernelService): RouteSpec[
         400: { description: "a field out of range" },
         422: { description: "valid, but costlier than the synchronous budget" },
       },
-      handle: async ({ body, query, request, reply }) => sendOutput(reply, await renderSizeMap(body, query.format ?? "svg", depsFor(request)), "miss"),
+      handle: async ({ body, query, reply }) => sendOutput(reply, await renderSizeMap(body, query.format ?? "svg", depsFor(reply)), "miss"),
     }),
   ];
 }

@@ -25,8 +25,8 @@ export function lutRoutes(config: Config, kernels: KernelService): RouteSpec[] {
         400: { description: "a field out of range" },
         422: { description: "valid, but costlier than the synchronous budget" },
       },
-      handle: async ({ body, query, request, reply }) =>
-        sendOutput(reply, await renderLut(body, query, { kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(request) }), "miss"),
+      handle: async ({ body, query, reply }) =>
+        sendOutput(reply, await renderLut(body, query, { kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(reply) }), "miss"),
     }),
     defineRoute({
       method: "GET",

@@ -5,7 +5,7 @@ import { stripQuerySchema } from "../../schemas/formats.js";
 import { ResultCache } from "../result-cache.js";
 import { requestHash } from "../profile-service.js";
 import { renderProfile, type ProfileFormat } from "../render/profile-render.js";
-import { sendOutput, type RenderOutput } from "../render/render-output.js";
+import { asCacheHit, sendOutput, type RenderOutput } from "../render/render-output.js";
 import { ClientError } from "../errors.js";
 import { clientSignal } from "../plugins/hardening.js";
 import type { Config } from "../config.js";
@@ -46,8 +46,8 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
         const key = `${requestHash(body)}|${format}|${query.height}|${query.bitDepth ?? ""}`;
         const cached = results.get<RenderOutput>(key);
         if (cached) return sendOutput(reply, cached, "hit");
-        const output = await renderProfile(body, format, query, { kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(request) });
-        results.set(key, output, output.body.length + 1024);
+        const output = await renderProfile(body, format, query, { kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(reply) });
+        results.set(key, asCacheHit(output), output.body.length + 1024);
         return sendOutput(reply, output, "miss");
       },
     }),
