@@ -418,7 +418,8 @@ describe("property: valid requests give 2xx with well-formed output (or 422), ne
   });
 
   for (const endpoint of postEndpoints) {
-    it(`POST ${endpoint.url}`, async () => {
+    // Each valid request may compute cold kernels: on a loaded 2-core machine 20 of them can take a minute or two.
+    it(`POST ${endpoint.url}`, { timeout: 240_000 }, async () => {
       if (!present(endpoint.url)) return expect(paths.has(endpoint.url)).toBe(false);
       await fc.assert(
         fc.asyncProperty(endpoint.body, fc.constantFrom(...endpoint.formats), async (generated, query) => {

@@ -51,7 +51,7 @@ function packKey(m: Medium, engine: DropEngine, h: number, block: number): strin
 
 export class KernelService {
   readonly memory: ByteLru<Pack>;
-  private readonly inflight = new Map<string, Promise<Float64Array>>();
+  private readonly inflight = new Map<string, { task: Promise<KernelTaskResult>; item: number; block: number }>();
   private readonly packLoads = new Map<string, Promise<void>>();
   private readonly pendingWrites = new Set<Promise<void>>();
 
@@ -100,14 +100,14 @@ export class KernelService {
       stats.diskHits = before - missing.length;
     }
 
-    // Rows another request is computing already are awaited, not computed twice.
+    // Rows another request is computing already are awaited, not computed twice. In-flight rows point at the
+    // task that computes them (one promise per task, not per row: a cold profile has ~50,000 rows).
     const waits: Promise<void>[] = [];
     const toCompute = new Map<number, Map<number, number[]>>();
     for (const [l, i, bi] of missing) {
-      const rowKey = `${keys[l][bi].get(engines[i])}|${radiiUm[i]}`;
-      const pending = this.inflight.get(rowKey);
+      const pending = this.inflight.get(`${keys[l][bi].get(engines[i])}|${radiiUm[i]}`);
       if (pending) {
-        waits.push(pending.then((row) => void found[l][bi].set(radiiUm[i], row)));
+        waits.push(pending.task.then((result) => void found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block])));
         continue;
       }
       let byRadius = toCompute.get(l);
@@ -128,17 +128,17 @@ export class KernelService {
     for (const [l, byRadius] of toCompute) {
       const indices = [...byRadius.keys()];
       const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
-      const settle = new Map<string, { resolve: (r: Float64Array) => void; reject: (e: unknown) => void }>();
-      for (const i of indices) {
-        for (const bi of byRadius.get(i)!) {
+      const computing = this.options.compute({ medium: media[l], h, items }, stop.signal);
+      computing.catch(() => undefined);
+      const rowKeys: string[] = [];
+      indices.forEach((i, item) => {
+        byRadius.get(i)!.forEach((bi, block) => {
           const rowKey = `${keys[l][bi].get(engines[i])}|${radiiUm[i]}`;
-          const promise = new Promise<Float64Array>((resolve, reject) => settle.set(rowKey, { resolve, reject }));
-          promise.catch(() => undefined);
-          this.inflight.set(rowKey, promise);
-        }
-      }
-      const task = this.options
-        .compute({ medium: media[l], h, items }, stop.signal)
+          rowKeys.push(rowKey);
+          this.inflight.set(rowKey, { task: computing, item, block });
+        });
+      });
+      const task = computing
         .then((result) => {
           stats.mieTermAngles += result.mieTermAngles;
           const written = new Map<string, Map<number, Float64Array>>();
@@ -149,9 +149,6 @@ export class KernelService {
               this.remember(pack, radiiUm[i], row);
               found[l][bi].set(radiiUm[i], row);
               stats.computed++;
-              const rowKey = `${pack}|${radiiUm[i]}`;
-              settle.get(rowKey)!.resolve(row);
-              this.inflight.delete(rowKey);
               if (!written.has(pack)) written.set(pack, new Map());
               written.get(pack)!.set(radiiUm[i], row);
             });
@@ -164,12 +161,11 @@ export class KernelService {
           }
         })
         .catch((error: unknown) => {
-          for (const [rowKey, s] of settle) {
-            this.inflight.delete(rowKey);
-            s.reject(error);
-          }
           stop.abort(error);
           throw error;
+        })
+        .finally(() => {
+          for (const rowKey of rowKeys) if (this.inflight.get(rowKey)?.task === computing) this.inflight.delete(rowKey);
         });
       tasks.push(task);
     }
