@@ -15,6 +15,8 @@ import { lutRoutes } from "./routes/lut.js";
 import { viewRoutes } from "./routes/view.js";
 import { registerWeb } from "./routes/web.js";
 import { registerHardening } from "./plugins/hardening.js";
+import { jobRoutes } from "./routes/jobs.js";
+import { createJobSystem } from "./jobs/job-system.js";
 import { loadConfig, type Config } from "./config.js";
 
 export interface AppOptions {
@@ -38,7 +40,11 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   app.removeContentTypeParser("text/plain");
 
   const runtime = createKernelRuntime(config);
-  app.addHook("onClose", async () => runtime.close());
+  const jobs = await createJobSystem(config, runtime, { onError: (err, job) => app.log.error({ err, job: job.id }, "job failed") });
+  app.addHook("onClose", async () => {
+    await jobs.close();
+    await runtime.close();
+  });
   const routes: RouteSpec[] = [
     ...serviceRoutes(),
     ...opticsRoutes(config),
@@ -46,6 +52,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     ...figureRoutes(config, runtime.kernels),
     ...lutRoutes(config, runtime.kernels),
     ...viewRoutes(config, runtime.kernels),
+    ...jobRoutes(jobs),
   ];
   const openapi = buildOpenApi(routes, packageVersion());
   const docsHtml = renderDocsPage(openapi);

@@ -144,8 +144,8 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     throw new ClientError(
       "too-costly",
       `this profile needs about ${cost.toExponential(2)} Mie term-angles; the synchronous limit is ${limits.maxTermAngles.toExponential(2)}. ` +
-        `Use method "auto", fewer angles or wavelengths, or smaller drops`,
-      { cost, limit: limits.maxTermAngles },
+        `Submit it as a background job (POST /v1/jobs), or use method "auto", fewer angles or wavelengths, or smaller drops`,
+      { cost, limit: limits.maxTermAngles, jobs: "/v1/jobs" },
     );
   }
 

@@ -3,7 +3,7 @@ import type { z } from "zod";
 
 /** One endpoint: its zod inputs feed both validation and the OpenAPI document. */
 export interface RouteSpec<B extends z.ZodType = z.ZodType, Q extends z.ZodType = z.ZodType> {
-  method: "GET" | "POST";
+  method: "GET" | "POST" | "DELETE";
   url: string;
   summary: string;
   description?: string;

@@ -97,6 +97,7 @@ describe("POST /v1/profile", () => {
     expect(res.status).toBe(422);
     expect(res.body.error).toBe("too-costly");
     expect(res.body.message).toMatch(/auto/);
+    expect(res.body.message).toMatch(/POST \/v1\/jobs/);
   });
 });
 

@@ -55,7 +55,7 @@ export class KernelService {
   private readonly packLoads = new Map<string, Promise<void>>();
   private readonly pendingWrites = new Set<Promise<void>>();
 
-  constructor(private readonly options: { memoryBudgetBytes: number; disk?: DiskStore; compute: KernelCompute }) {
+  constructor(private readonly options: { memoryBudgetBytes: number; disk?: Pick<DiskStore, "read" | "write">; compute: KernelCompute }) {
     this.memory = new ByteLru(options.memoryBudgetBytes);
   }
 

@@ -3,6 +3,10 @@ import type { Config } from "../config.js";
 import { DiskStore } from "./disk-store.js";
 import { KernelService } from "./kernel-service.js";
 import { createInlinePool, createWorkerPool, type KernelPool } from "./worker-pool.js";
+import { kernelRedis, RedisKernelStore } from "./redis-kernel-store.js";
+
+/** Kernel packs in Redis expire after 30 days without a write (common practice for a cache; memory is bounded by Redis's eviction). */
+const KERNEL_TTL_S = 30 * 86_400;
 
 export interface KernelRuntime {
   kernels: KernelService;
@@ -11,13 +15,29 @@ export interface KernelRuntime {
 }
 
 /** The kernel cache and its workers as configured (WORKERS, CACHE_DIR, CACHE_BUDGET_MB). */
-export function createKernelRuntime(config: Pick<Config, "workers" | "cacheDir" | "cacheBudgetMb">): KernelRuntime {
+export function createKernelRuntime(
+  config: Pick<Config, "workers" | "cacheDir" | "cacheBudgetMb"> & Partial<Pick<Config, "redisUrl" | "redisPrefix">>,
+): KernelRuntime {
   const pool = config.workers > 0 ? createWorkerPool(config.workers) : createInlinePool();
   const folder = config.cacheDir ? (isAbsolute(config.cacheDir) ? config.cacheDir : join(process.cwd(), config.cacheDir)) : "";
+  // Issue 6 (jobs): with REDIS_URL the second tier is Redis, shared by every API and worker process.
+  const redis = config.redisUrl ? kernelRedis(config.redisUrl) : undefined;
   const kernels = new KernelService({
     memoryBudgetBytes: config.cacheBudgetMb * 2 ** 20,
-    disk: folder ? new DiskStore(join(folder, "kernels")) : undefined,
+    disk: redis
+      ? new RedisKernelStore(redis, config.redisPrefix ?? "antisolar", KERNEL_TTL_S)
+      : folder
+        ? new DiskStore(join(folder, "kernels"))
+        : undefined,
     compute: pool.compute,
   });
-  return { kernels, pool, close: () => pool.close() };
+  return {
+    kernels,
+    pool,
+    close: async () => {
+      await pool.close();
+      await kernels.flush();
+      redis?.disconnect();
+    },
+  };
 }

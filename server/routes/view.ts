@@ -1,28 +1,13 @@
 import type { FastifyReply } from "fastify";
 import { defineRoute, type RouteSpec } from "../route-spec.js";
-import { imageQuerySchema, skyRequestSchema, viewRequestSchema, type ImageQuery } from "../../schemas/view.js";
-import { encodeOverlay, overlayHash, prepareSky, prepareView, type OverlayFile, type PreparedOverlay, type ViewDeps } from "../view-service.js";
+import { imageQuerySchema, skyRequestSchema, viewRequestSchema, type ImageQuery, type SkyRequest, type ViewRequest } from "../../schemas/view.js";
+import { overlayHash } from "../view-service.js";
+import { renderOverlay } from "../render/view-render.js";
+import { asCacheHit, sendOutput, type RenderOutput } from "../render/render-output.js";
+import { clientSignal } from "../plugins/hardening.js";
 import type { Config } from "../config.js";
 import type { KernelService } from "../kernel/kernel-service.js";
 import { ResultCache } from "../result-cache.js";
-
-function ascii(text: string): string {
-  return text.replace(/[^\x20-\x7e]/g, "?");
-}
-
-function send(file: OverlayFile, query: ImageQuery, cache: "hit" | "miss", reply: FastifyReply) {
-  if (query.part === "manifest") return { ...file.manifest, cache };
-  const m = file.manifest as { hash: string; scale: { meaning: string; factor: number }; output: { space: string }; computeMs: number; warnings: string[] };
-  return reply
-    .type(file.contentType)
-    .header("x-antisolar-hash", m.hash)
-    .header("x-antisolar-space", m.output.space)
-    .header("x-antisolar-scale", ascii(`${m.scale.meaning}; factor ${m.scale.factor}`))
-    .header("x-antisolar-compute-ms", String(m.computeMs))
-    .header("x-antisolar-cache", cache)
-    .header("x-antisolar-warnings", ascii(JSON.stringify(m.warnings)))
-    .send(file.body);
-}
 
 const responses = {
   200: { description: "the layer, or its JSON manifest with ?part=manifest", contentTypes: ["image/x-exr", "image/vnd.radiance", "image/png", "application/json"] },
@@ -34,17 +19,15 @@ const responses = {
 export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] {
   // Images are large: a sixteenth of the cache budget, like the profile answers.
   const results = new ResultCache((config.cacheBudgetMb * 2 ** 20) / 16);
-  const deps: ViewDeps = { kernels, limits: { maxTermAngles: config.maxProfileTermAngles } };
 
-  async function answer(endpoint: "view" | "sky", prepared: () => Promise<PreparedOverlay>, key: string, query: ImageQuery, reply: FastifyReply) {
+  async function answer(endpoint: "view" | "sky", body: ViewRequest | SkyRequest, query: ImageQuery, reply: FastifyReply) {
     // The manifest depends on the format (space, quantising), so it is cached per format too.
-    const cacheKey = `${endpoint}|${key}|${query.format}|${query.part}`;
-    const cached = results.get<OverlayFile>(cacheKey);
-    if (cached) return send(cached, query, "hit", reply);
-    const p = await prepared();
-    const file: OverlayFile = query.part === "manifest" ? { body: Buffer.alloc(0), contentType: "application/json", manifest: p.manifest } : await encodeOverlay(p, query.format);
-    results.set(cacheKey, file, file.body.length + 16384);
-    return send(file, query, "miss", reply);
+    const cacheKey = `${endpoint}|${overlayHash(endpoint, body)}|${query.format}|${query.part}`;
+    const cached = results.get<RenderOutput>(cacheKey);
+    if (cached) return sendOutput(reply, cached, "hit");
+    const output = await renderOverlay(endpoint, body, query, { kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(reply) });
+    results.set(cacheKey, asCacheHit(output), output.body.length + 16384);
+    return sendOutput(reply, output, "miss");
   }
 
   return [
@@ -61,7 +44,7 @@ export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] 
       body: viewRequestSchema,
       query: imageQuerySchema,
       responses,
-      handle: async ({ body, query, reply }) => answer("view", () => prepareView(body, query.format, deps), overlayHash("view", body), query, reply),
+      handle: async ({ body, query, reply }) => answer("view", body, query, reply),
     }),
     defineRoute({
       method: "POST",
@@ -74,7 +57,7 @@ export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] 
       body: skyRequestSchema,
       query: imageQuerySchema,
       responses,
-      handle: async ({ body, query, reply }) => answer("sky", () => prepareSky(body, query.format, deps), overlayHash("sky", body), query, reply),
+      handle: async ({ body, query, reply }) => answer("sky", body, query, reply),
     }),
   ];
 }
