@@ -14,16 +14,17 @@ export interface KernelRuntime {
   close(): Promise<void>;
 }
 
-/** The kernel cache and its workers as configured (WORKERS, CACHE_DIR, CACHE_BUDGET_MB). */
+/** The kernel cache and its workers as configured (WORKERS, WORKER_MEMORY_MB, CACHE_DIR, CACHE_BUDGET_MB, REDIS_URL). */
 export function createKernelRuntime(
-  config: Pick<Config, "workers" | "cacheDir" | "cacheBudgetMb"> & Partial<Pick<Config, "redisUrl" | "redisPrefix">>,
+  config: Pick<Config, "workers" | "cacheDir" | "cacheBudgetMb"> & Partial<Pick<Config, "redisUrl" | "redisPrefix" | "workerMemoryMb">>,
 ): KernelRuntime {
-  const pool = config.workers > 0 ? createWorkerPool(config.workers) : createInlinePool();
+  const pool = config.workers > 0 ? createWorkerPool(config.workers, { memoryMb: config.workerMemoryMb }) : createInlinePool();
   const folder = config.cacheDir ? (isAbsolute(config.cacheDir) ? config.cacheDir : join(process.cwd(), config.cacheDir)) : "";
   // Issue 6 (jobs): with REDIS_URL the second tier is Redis, shared by every API and worker process.
   const redis = config.redisUrl ? kernelRedis(config.redisUrl) : undefined;
   const kernels = new KernelService({
-    memoryBudgetBytes: config.cacheBudgetMb * 2 ** 20,
+    // The profile and the view answers keep a sixteenth of the budget each (server/routes/profile.ts, view.ts).
+    memoryBudgetBytes: (config.cacheBudgetMb * 2 ** 20 * 7) / 8,
     disk: redis
       ? new RedisKernelStore(redis, config.redisPrefix ?? "antisolar", KERNEL_TTL_S)
       : folder
