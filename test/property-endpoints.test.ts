@@ -112,7 +112,7 @@ async function expectWellFormed(req: Sent, res: LightMyRequestResponse): Promise
   }
 }
 
-const ERROR_KEYS = new Set(["error", "message", "field", "allowed", "requestId", "cost", "limit"]);
+const ERROR_KEYS = new Set(["error", "message", "field", "allowed", "requestId", "cost", "limit", "jobs"]);
 
 /** The one error shape of shared/guide/api.md. */
 function expectErrorShape(req: Sent, res: LightMyRequestResponse): { error: string; message: string; field?: string } {
