@@ -2,45 +2,89 @@ import { performance } from "node:perf_hooks";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { computeProfile } from "../server/profile-service.js";
 import { KernelService } from "../server/kernel/kernel-service.js";
-import { createInlinePool, createWorkerPool, type KernelPool } from "../server/kernel/worker-pool.js";
+import { createWorkerPool, type KernelPool } from "../server/kernel/worker-pool.js";
 
 export interface ProfileBenchRow {
   name: string;
   workers: number;
+  /** Empty kernel cache, threads already started and warmed by one other request. */
   coldMs: number;
-  warmMs: number;
+  /** Empty kernel cache on a pool created for the request (thread start and JIT warm-up included). */
+  firstMs: number | null;
+  /** The same request again on the filled kernel cache (median of 5); null where not measured. */
+  warmMs: number | null;
   mieTermAngles: number;
+  kernelBytes: number;
+  /** CPU time of the whole process (all threads) during the cold request over its wall time: the cores it got. */
+  coldCores: number;
 }
 
-export const profileWorkloads: { name: string; body: unknown }[] = [
-  { name: "P1 default profile `{}` (Marshall–Palmer 2 mm/h, auto)", body: {} },
-  {
-    name: "P2 fog, lognormal 10 µm, full Mie, ψ 20–60° step 0.2°",
-    body: { drops: { kind: "lognormal", medianRadiusUm: 10, geometricSd: 1.4, totalNumberPerM3: 1e8 }, method: "mie", angles: { fromDeg: 20, toDeg: 60, stepDeg: 0.2 } },
-  },
-  { name: "heavy rain 25 mm/h, auto", body: { drops: { kind: "marshall-palmer", rainRateMmPerH: 25 } } },
-];
+export interface ProfileWorkload {
+  name: string;
+  body: Record<string, unknown>;
+  workers: number[];
+  warm: boolean;
+}
 
-async function once(body: unknown, kernels: KernelService): Promise<{ ms: number; mieTermAngles: number }> {
+export const P1: ProfileWorkload = { name: "P1 default profile `{}` (Marshall–Palmer 2 mm/h, auto)", body: {}, workers: [2], warm: true };
+export const P2: ProfileWorkload = {
+  name: "P2 fog, lognormal 10 µm (σg 1.4), full Mie, ψ 20–60° step 0.2°",
+  body: { drops: { kind: "lognormal", medianRadiusUm: 10, geometricSd: 1.4, totalNumberPerM3: 1e8 }, method: "mie", angles: { fromDeg: 20, toDeg: 60, stepDeg: 0.2 } },
+  workers: [2],
+  warm: true,
+};
+export const P3: ProfileWorkload = {
+  name: "P3 rain, Marshall–Palmer 25 mm/h (radii to the 3 mm cap), full Mie",
+  body: { drops: { kind: "marshall-palmer", rainRateMmPerH: 25 }, method: "mie" },
+  workers: [1, 2],
+  warm: false,
+};
+
+async function once(body: unknown, kernels: KernelService): Promise<{ ms: number; mieTermAngles: number; cores: number }> {
   const request = profileRequestSchema.parse(body);
+  const cpu0 = process.cpuUsage();
   const t0 = performance.now();
   const r = await computeProfile(request, { kernels, limits: { maxTermAngles: Infinity } });
-  return { ms: performance.now() - t0, mieTermAngles: r.spectral.mieTermAngles };
+  const ms = performance.now() - t0;
+  const cpu = process.cpuUsage(cpu0);
+  return { ms, mieTermAngles: r.spectral.mieTermAngles, cores: (cpu.user + cpu.system) / 1000 / ms };
 }
 
-/** Cold: a fresh in-memory kernel cache; warm: the same request again on the filled cache (median of 5). */
-export async function benchProfiles(workers: number[] = [0, 2]): Promise<ProfileBenchRow[]> {
+const freshCache = (pool: KernelPool) => new KernelService({ memoryBudgetBytes: 2 ** 31, compute: pool.compute });
+
+/** The default profile with the water 1 °C warmer: other kernels, the Mie and Airy code paths (warms threads and JIT). */
+const WARM_UP_BODY = { water: { temperatureC: 16 } };
+
+export async function benchProfile(w: ProfileWorkload, options: { first?: boolean } = {}): Promise<ProfileBenchRow[]> {
   const rows: ProfileBenchRow[] = [];
-  for (const threads of workers) {
-    const pool: KernelPool = threads > 0 ? createWorkerPool(threads) : createInlinePool();
-    for (const { name, body } of profileWorkloads) {
-      const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: pool.compute });
-      const cold = await once(body, kernels);
-      const warm: number[] = [];
-      for (let i = 0; i < 5; i++) warm.push((await once(body, kernels)).ms);
-      warm.sort((a, b) => a - b);
-      rows.push({ name, workers: threads, coldMs: cold.ms, warmMs: warm[2], mieTermAngles: cold.mieTermAngles });
+  for (const threads of w.workers) {
+    let firstMs: number | null = null;
+    if (options.first) {
+      const pool = createWorkerPool(threads);
+      firstMs = (await once(w.body, freshCache(pool))).ms;
+      await pool.close();
     }
+    const pool = createWorkerPool(threads);
+    await once(WARM_UP_BODY, freshCache(pool));
+    const kernels = freshCache(pool);
+    const cold = await once(w.body, kernels);
+    let warmMs: number | null = null;
+    if (w.warm) {
+      const warm: number[] = [];
+      for (let i = 0; i < 5; i++) warm.push((await once(w.body, kernels)).ms);
+      warm.sort((a, b) => a - b);
+      warmMs = warm[2];
+    }
+    rows.push({
+      name: w.name,
+      workers: threads,
+      coldMs: cold.ms,
+      firstMs,
+      warmMs,
+      mieTermAngles: cold.mieTermAngles,
+      kernelBytes: kernels.memory.sizeBytes,
+      coldCores: cold.cores,
+    });
     await pool.close();
   }
   return rows;

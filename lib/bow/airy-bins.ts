@@ -9,7 +9,7 @@
 // Bins are averaged exactly over z linear across each bin: ∫Ai² = z·Ai² − Ai′² and
 // ∫Ai′² = (−z²·Ai² + z·Ai′² + 2·Ai·Ai′)/3, both by differentiation with Ai″ = z·Ai (Abramowitz & Stegun 1964 Eq. 10.4.1).
 
-import { airyPair } from "../special/airy.js";
+import { airyFast, airyFastOut } from "./airy-table.js";
 import { airyBowScale } from "../rays/airy-bow.js";
 import { deviationCurvature, deviationRad, deviationSlope, rainbowImpactParameter, scatteringAngleOfDeviation } from "../rays/descartes.js";
 
@@ -74,6 +74,8 @@ interface RaysAtAngle {
  */
 const RAY_TABLE_SEGMENTS = 1000;
 const NEWTON_STEPS = 6;
+/** A Newton update this small relative to b (a few ulps) means the next one would be below rounding: stop. */
+const NEWTON_SETTLED = 1e-14;
 
 /**
  * All rays of order k reaching each angle of the evenly spaced grid firstDeg + m·spacingDeg (m < queries):
@@ -105,7 +107,11 @@ function raysOnGrid(n: number, k: number, bRainbow: number, firstDeg: number, sp
       for (let step = 0; step < NEWTON_STEPS; step++) {
         const slope = deviationSlope(n, k, Math.min(b, 1 - 1e-15));
         if (!Number.isFinite(slope) || slope === 0) break;
-        b = Math.min(b1, Math.max(b0, b - (deviationRad(n, k, Math.min(b, 1 - 1e-15)) - target) / slope));
+        const next = Math.min(b1, Math.max(b0, b - (deviationRad(n, k, Math.min(b, 1 - 1e-15)) - target) / slope));
+        // Converged to rounding: further steps would not move b.
+        const settled = Math.abs(next - b) <= NEWTON_SETTLED * b;
+        b = next;
+        if (settled) break;
       }
       found[m].push(b);
     }
@@ -113,9 +119,8 @@ function raysOnGrid(n: number, k: number, bRainbow: number, firstDeg: number, sp
   return found;
 }
 
-/** Rays of order k at one angle, split into the bow's own pair (equal deviation, nearest b_R on either side) and the rest. */
-function splitRays(n: number, k: number, bRainbow: number, rays: number[]): RaysAtAngle {
-  const dR = deviationRad(n, k, bRainbow);
+/** Rays of order k at one angle, split into the bow's own pair (equal deviation, nearest b_R on either side) and the rest; dR = D(b_R). */
+function splitRays(n: number, k: number, bRainbow: number, dR: number, rays: number[]): RaysAtAngle {
   let inner = -1;
   let outer = -1;
   rays.forEach((b, i) => {
@@ -152,10 +157,11 @@ export function uniformBowTable(n: number, p: number, thetaDeg: Float64Array, st
   // Edges and centres interleave on a half-step grid: edge e at m = 2e, centre j at m = 2j + 1.
   const halfGridFirstDeg = thetaDeg[0] - stepDeg / 2;
   const raysByHalfStep = raysOnGrid(n, k, bR, halfGridFirstDeg, stepDeg / 2, 2 * count + 1);
+  const deviationAtRainbow = deviationRad(n, k, bR);
   const zHatAt = (m: number): { zHat: number; rays: RaysAtAngle; single: boolean } => {
     const thetaAtDeg = halfGridFirstDeg + (m * stepDeg) / 2;
     const xi = scale.xiPerRad * (thetaAtDeg - scale.rainbowAngleDeg) * DEG;
-    const rays = splitRays(n, k, bR, raysByHalfStep[m]);
+    const rays = splitRays(n, k, bR, deviationAtRainbow, raysByHalfStep[m]);
     if (xi <= 0) return { zHat: xi, rays: { pair: null, others: rays.others }, single: false };
     return rays.pair ? { zHat: zHatOfPair(n, k, rays.pair), rays, single: false } : { zHat: NaN, rays, single: true };
   };
@@ -218,16 +224,25 @@ const DARK_CUTOFF_W = 40;
  */
 const INCOHERENT_FRINGES = 10;
 
-/** Antiderivatives at w of Ai² (w·Ai² − Ai′²) and of Ai′² ((−w²·Ai² + w·Ai′² + 2·Ai·Ai′)/3). */
-function squaredIntegrals(w: number): { ai2: number; aiPrime2: number } {
-  if (w >= DARK_CUTOFF_W) return { ai2: 0, aiPrime2: 0 };
-  const { ai, aiPrime } = airyPair(w);
-  return { ai2: w * ai * ai - aiPrime * aiPrime, aiPrime2: (-w * w * ai * ai + w * aiPrime * aiPrime + 2 * ai * aiPrime) / 3 };
+/** Antiderivatives at w of Ai² (w·Ai² − Ai′²) and of Ai′² ((−w²·Ai² + w·Ai′² + 2·Ai·Ai′)/3), into integralsOut. */
+const integralsOut = new Float64Array(2);
+function squaredIntegrals(w: number): void {
+  if (w >= DARK_CUTOFF_W) {
+    integralsOut[0] = 0;
+    integralsOut[1] = 0;
+    return;
+  }
+  airyFast(w);
+  const ai = airyFastOut[0];
+  const aiPrime = airyFastOut[1];
+  integralsOut[0] = w * ai * ai - aiPrime * aiPrime;
+  integralsOut[1] = (-w * w * ai * ai + w * aiPrime * aiPrime + 2 * ai * aiPrime) / 3;
 }
 
 /**
- * Adds weight × (bin mean of |S1|², |S2|²) of the bow in `table` for size parameter x to perp/par, on the bins
- * the table marks uniform; the others are left to the caller (bin-averaged ray optics of the same order).
+ * Adds weight × (bin mean of |S1|², |S2|²) of the bow's own ray pair in `table` for size parameter x to perp/par,
+ * on the bins the table marks uniform. The rest scales as x² and is left to the caller, prepared once per
+ * wavelength: the order's other rays (otherPerp, otherPar) there, bin-averaged ray optics of the order elsewhere.
  */
 export function addUniformBowBins(
   table: UniformBowTable,
@@ -239,12 +254,12 @@ export function addUniformBowBins(
   const zScale = x ** (2 / 3);
   const uScale = weight * x ** (7 / 3);
   const vScale = weight * x ** (5 / 3);
-  const raysScale = weight * x * x;
-  const edges = table.zHatEdges;
+  const { zHatEdges: edges, uniform, uPerp, uPar, vPerp, vPar } = table;
   let cachedEdge = -1;
-  let cached = { ai2: 0, aiPrime2: 0 };
+  let cachedAi2 = 0;
+  let cachedAiPrime2 = 0;
   for (let j = 0; j < perpendicular.length; j++) {
-    if (!table.uniform[j]) continue;
+    if (!uniform[j]) continue;
     const zLo = zScale * edges[j];
     const zHi = zScale * edges[j + 1];
     let meanAi2: number;
@@ -256,18 +271,28 @@ export function addUniformBowBins(
       meanAiPrime2 = root / (2 * Math.PI);
     } else if (Math.abs(zHi - zLo) > 1e-9) {
       // Mean over the bin of Ai²(w), w = −z running from −zLo to −zHi.
-      const lo = cachedEdge === j ? cached : squaredIntegrals(-zLo);
-      const hi = squaredIntegrals(-zHi);
-      meanAi2 = (lo.ai2 - hi.ai2) / (zHi - zLo);
-      meanAiPrime2 = (lo.aiPrime2 - hi.aiPrime2) / (zHi - zLo);
+      let loAi2: number;
+      let loAiPrime2: number;
+      if (cachedEdge === j) {
+        loAi2 = cachedAi2;
+        loAiPrime2 = cachedAiPrime2;
+      } else {
+        squaredIntegrals(-zLo);
+        loAi2 = integralsOut[0];
+        loAiPrime2 = integralsOut[1];
+      }
+      squaredIntegrals(-zHi);
+      meanAi2 = (loAi2 - integralsOut[0]) / (zHi - zLo);
+      meanAiPrime2 = (loAiPrime2 - integralsOut[1]) / (zHi - zLo);
       cachedEdge = j + 1;
-      cached = hi;
+      cachedAi2 = integralsOut[0];
+      cachedAiPrime2 = integralsOut[1];
     } else {
-      const { ai, aiPrime } = airyPair(-0.5 * (zLo + zHi));
-      meanAi2 = ai * ai;
-      meanAiPrime2 = aiPrime * aiPrime;
+      airyFast(-0.5 * (zLo + zHi));
+      meanAi2 = airyFastOut[0] * airyFastOut[0];
+      meanAiPrime2 = airyFastOut[1] * airyFastOut[1];
     }
-    perpendicular[j] += uScale * table.uPerp[j] * meanAi2 + vScale * table.vPerp[j] * meanAiPrime2 + raysScale * table.otherPerp[j];
-    parallel[j] += uScale * table.uPar[j] * meanAi2 + vScale * table.vPar[j] * meanAiPrime2 + raysScale * table.otherPar[j];
+    perpendicular[j] += uScale * uPerp[j] * meanAi2 + vScale * vPerp[j] * meanAiPrime2;
+    parallel[j] += uScale * uPar[j] * meanAi2 + vScale * vPar[j] * meanAiPrime2;
   }
 }

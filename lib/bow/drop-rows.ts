@@ -1,7 +1,7 @@
 // |S1|², |S2|² of one drop at one wavelength over an angle grid, by the engine chosen for its size. What does
 // not depend on the drop's size (ray-optics bins, the bows' uniform tables) is prepared once per wavelength.
 
-import { mieCoefficients } from "../mie/coefficients.js";
+import { mieCoefficientsScratch } from "../mie/coefficients-scratch.js";
 import { mieAmplitudes } from "../mie/amplitudes.js";
 import { allocateAmplitudes, type MieAmplitudes } from "../mie/types.js";
 import { rayOpticsBins, type RayBins } from "./ray-bins.js";
@@ -17,8 +17,8 @@ export interface DropRowContext {
   cosTheta: Float64Array;
   amplitudes: MieAmplitudes;
   raysAll: RayBins | null;
-  raysNonAiry: RayBins | null;
-  raysAiryOrders: (RayBins | null)[];
+  /** Everything in the airy engine that scales as x²: orders 0, 1, and the bows' orders where they are ray optics. */
+  raysAiryEngine: RayBins | null;
   bowTables: (UniformBowTable | null)[];
 }
 
@@ -30,9 +30,23 @@ export function dropRowContext(
   engines: ReadonlySet<DropEngine>,
 ): DropRowContext {
   const n = medium.mRe;
-  const needsRays = engines.has("airy") || engines.has("geometric");
   const needsAiry = engines.has("airy");
   const airyOrders = AIRY_BOW_ORDERS as readonly number[];
+  const bowTables = AIRY_BOW_ORDERS.map((p) => (needsAiry ? uniformBowTable(n, p, thetaDeg, stepDeg) : null));
+  let raysAiryEngine: RayBins | null = null;
+  if (needsAiry) {
+    raysAiryEngine = rayOpticsBins(n, RAY_ORDERS.filter((p) => !airyOrders.includes(p)), thetaDeg, stepDeg);
+    const { perpendicular, parallel } = raysAiryEngine;
+    AIRY_BOW_ORDERS.forEach((p, o) => {
+      const table = bowTables[o]!;
+      // Where only one ray of the order arrives there is nothing to interfere: ray optics.
+      const rays = rayOpticsBins(n, [p], thetaDeg, stepDeg);
+      for (let j = 0; j < thetaDeg.length; j++) {
+        perpendicular[j] += table.uniform[j] ? table.otherPerp[j] : rays.perpendicular[j];
+        parallel[j] += table.uniform[j] ? table.otherPar[j] : rays.parallel[j];
+      }
+    });
+  }
   return {
     mRe: n,
     mIm: medium.mIm,
@@ -41,9 +55,8 @@ export function dropRowContext(
     cosTheta: thetaDeg.map((t) => Math.cos((t * Math.PI) / 180)),
     amplitudes: allocateAmplitudes(thetaDeg.length),
     raysAll: engines.has("geometric") ? rayOpticsBins(n, RAY_ORDERS, thetaDeg, stepDeg) : null,
-    raysNonAiry: needsRays ? rayOpticsBins(n, RAY_ORDERS.filter((p) => !airyOrders.includes(p)), thetaDeg, stepDeg) : null,
-    raysAiryOrders: AIRY_BOW_ORDERS.map((p) => (needsAiry ? rayOpticsBins(n, [p], thetaDeg, stepDeg) : null)),
-    bowTables: AIRY_BOW_ORDERS.map((p) => (needsAiry ? uniformBowTable(n, p, thetaDeg, stepDeg) : null)),
+    raysAiryEngine,
+    bowTables,
   };
 }
 
@@ -54,7 +67,7 @@ export function dropRow(ctx: DropRowContext, engine: DropEngine, radiusUm: numbe
   perp.fill(0);
   par.fill(0);
   if (engine === "mie") {
-    const c = mieCoefficients(ctx.mRe, ctx.mIm, x);
+    const c = mieCoefficientsScratch(ctx.mRe, ctx.mIm, x);
     const a = mieAmplitudes(c, ctx.cosTheta, ctx.amplitudes);
     for (let j = 0; j < nTheta; j++) {
       perp[j] = a.s1Re[j] * a.s1Re[j] + a.s1Im[j] * a.s1Im[j];
@@ -66,17 +79,8 @@ export function dropRow(ctx: DropRowContext, engine: DropEngine, radiusUm: numbe
     addScaled(perp, par, ctx.raysAll!, x * x);
     return 0;
   }
-  addScaled(perp, par, ctx.raysNonAiry!, x * x);
-  ctx.bowTables.forEach((table, o) => {
-    addUniformBowBins(table!, x, 1, perp, par);
-    // Where only one ray of the order arrives there is nothing to interfere: ray optics.
-    const rays = ctx.raysAiryOrders[o]!;
-    for (let j = 0; j < nTheta; j++) {
-      if (table!.uniform[j]) continue;
-      perp[j] += x * x * rays.perpendicular[j];
-      par[j] += x * x * rays.parallel[j];
-    }
-  });
+  addScaled(perp, par, ctx.raysAiryEngine!, x * x);
+  for (const table of ctx.bowTables) addUniformBowBins(table!, x, 1, perp, par);
   return 0;
 }
 

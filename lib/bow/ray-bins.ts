@@ -29,15 +29,22 @@ export function rayOpticsBins(n: number, orders: readonly number[], thetaDeg: Fl
   const parallel = new Float64Array(count);
   if (count === 0) return { perpendicular, parallel };
   const firstEdgeDeg = thetaDeg[0] - stepDeg / 2;
+  const lastEdgeDeg = firstEdgeDeg + count * stepDeg;
+  const { impact, incidence, refraction } = segmentGeometry(n);
   for (const p of orders) {
     const k = p - 1;
     let bPrev = 0;
     let thetaPrev = scatteringAngleOfDeviation(deviationRad(n, k, 0)).angle / DEG;
     for (let s = 1; s <= SEGMENTS; s++) {
-      // Points crowd towards grazing incidence (b → 1), where Θ(b) turns fastest.
-      const u = s / SEGMENTS;
-      const b = Math.sin((u * Math.PI) / 2);
-      const theta = scatteringAngleOfDeviation(deviationRad(n, k, Math.min(b, 1 - 1e-15))).angle / DEG;
+      const b = impact[s];
+      // D(b) = 2i − 2p·r + (p − 1)π (van de Hulst 1957 §12.2), as deviationRad computes it, from the shared angles.
+      const theta = scatteringAngleOfDeviation(2 * incidence[s] - 2 * p * refraction[s] + (p - 1) * Math.PI).angle / DEG;
+      if (Math.max(theta, thetaPrev) < firstEdgeDeg || Math.min(theta, thetaPrev) > lastEdgeDeg) {
+        // Lands outside the grid: nothing to deposit, so no Fresnel factors to compute.
+        bPrev = b;
+        thetaPrev = theta;
+        continue;
+      }
       const bMid = 0.5 * (b + bPrev);
       const eps = pathTransmittance(n, k, Math.min(bMid, 1 - 1e-15));
       const weight = bMid * (b - bPrev);
@@ -55,6 +62,27 @@ export function rayOpticsBins(n: number, orders: readonly number[], thetaDeg: Fl
     parallel[j] /= solid;
   }
   return { perpendicular, parallel };
+}
+
+/**
+ * Segment ends b_s = sin(s/SEGMENTS · π/2) (they crowd towards grazing incidence, where Θ(b) turns fastest) and
+ * their angles i = asin b, r = asin(b/n), shared by every order: the arcsines are most of the cost. The last
+ * index of refraction is kept, as one drop-row context asks for several orders at the same n.
+ */
+let geometry = { n: NaN, impact: new Float64Array(0), incidence: new Float64Array(0), refraction: new Float64Array(0) };
+function segmentGeometry(n: number): typeof geometry {
+  if (geometry.n === n) return geometry;
+  const impact = new Float64Array(SEGMENTS + 1);
+  const incidence = new Float64Array(SEGMENTS + 1);
+  const refraction = new Float64Array(SEGMENTS + 1);
+  for (let s = 0; s <= SEGMENTS; s++) {
+    impact[s] = Math.sin(((s / SEGMENTS) * Math.PI) / 2);
+    const b = Math.min(impact[s], 1 - 1e-15);
+    incidence[s] = Math.asin(b);
+    refraction[s] = Math.asin(b / n);
+  }
+  geometry = { n, impact, incidence, refraction };
+  return geometry;
 }
 
 /** Spreads energy uniformly over the angle interval [a, b] into the bins it overlaps. */

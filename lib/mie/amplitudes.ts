@@ -1,4 +1,5 @@
 import { allocateAmplitudes, type MieAmplitudes, type MieCoefficients } from "./types.js";
+import { mieAmplitudesSimd } from "./simd-amplitudes.js";
 
 /** Values per partial wave in the packed scratch table read by the angle loop. */
 const STRIDE = 5;
@@ -24,6 +25,23 @@ function packCoefficients(c: MieCoefficients): Float64Array {
   return p;
 }
 
+function checkedOutput(nAngles: number, out?: MieAmplitudes): MieAmplitudes {
+  const res = out ?? allocateAmplitudes(nAngles);
+  if (res.s1Re.length < nAngles || res.s1Im.length < nAngles || res.s2Re.length < nAngles || res.s2Im.length < nAngles) {
+    throw new RangeError(`output arrays shorter than the ${nAngles} angles`);
+  }
+  return res;
+}
+
+/**
+ * S1, S2 at each μ = cos Θ as mieAmplitudesScalar computes them, by the WebAssembly SIMD kernel
+ * (lib/mie/simd-amplitudes.ts; same operations in the same order, so the same sums) where available.
+ */
+export function mieAmplitudes(c: MieCoefficients, cosTheta: Float64Array, out?: MieAmplitudes): MieAmplitudes {
+  const res = checkedOutput(cosTheta.length, out);
+  return mieAmplitudesSimd(c, cosTheta, res) ?? mieAmplitudesScalar(c, cosTheta, res);
+}
+
 /**
  * Scattering amplitudes S1 = Σ w_n (a_n π_n + b_n τ_n), S2 = Σ w_n (a_n τ_n + b_n π_n),
  * w_n = (2n+1)/(n(n+1)) (Bohren & Huffman 1983 eq. 4.74), at each μ = cos Θ, summed as
@@ -35,17 +53,15 @@ function packCoefficients(c: MieCoefficients): Float64Array {
  * one; four at a time or the n-outer order measured no faster). Not exploited: the Θ ↔ 180° − Θ
  * symmetry π_n(−μ) = (−1)^(n−1)π_n(μ), τ_n(−μ) = (−1)^n τ_n(μ) (B&H eq. 4.47 recurrences); it would
  * share only the π recurrence while the accumulations double, and bow work needs one half only.
+ * This is the reference: mieAmplitudes runs the same loop on WebAssembly SIMD lanes where it can.
  */
-export function mieAmplitudes(
+export function mieAmplitudesScalar(
   c: MieCoefficients,
   cosTheta: Float64Array,
   out?: MieAmplitudes,
 ): MieAmplitudes {
+  const res = checkedOutput(cosTheta.length, out);
   const nAngles = cosTheta.length;
-  const res = out ?? allocateAmplitudes(nAngles);
-  if (res.s1Re.length < nAngles || res.s1Im.length < nAngles || res.s2Re.length < nAngles || res.s2Im.length < nAngles) {
-    throw new RangeError(`output arrays shorter than the ${nAngles} angles`);
-  }
   const p = packCoefficients(c);
   const end = c.nTerms * STRIDE;
   const { s1Re, s1Im, s2Re, s2Im } = res;

@@ -30,7 +30,8 @@ export interface KernelPool {
 export function createWorkerPool(threads: number, options: { memoryMb?: number; filename?: string } = {}): KernelPool {
   const piscina = new Piscina({
     filename: options.filename ?? workerScript(),
-    minThreads: 1,
+    // All threads start with the service, so the first cold request does not wait for thread start-up.
+    minThreads: threads,
     maxThreads: threads,
     idleTimeout: 60_000,
     resourceLimits: { maxOldGenerationSizeMb: options.memoryMb ?? 2048 },

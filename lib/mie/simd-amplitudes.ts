@@ -1,0 +1,73 @@
+// S1, S2 by the WebAssembly SIMD angle loop (lib/mie/simd-module.ts): the formulas and operation order of
+// mieAmplitudesScalar (lib/mie/amplitudes.ts), two angles per f64x2 vector. Null where WebAssembly SIMD is missing.
+
+import { amplitudeModuleBytes, SIMD_OUT_PER_PAIR, SIMD_PAIRS_PER_GROUP, SIMD_TERM_STRIDE } from "./simd-module.js";
+import type { MieAmplitudes, MieCoefficients } from "./types.js";
+
+interface Kernel {
+  run(coefficients: number, nTerms: number, cosines: number, groups: number, out: number): void;
+  memory: WebAssembly.Memory;
+}
+
+function instantiate(): Kernel | null {
+  try {
+    const instance = new WebAssembly.Instance(new WebAssembly.Module(amplitudeModuleBytes()));
+    const { amplitudes, memory } = instance.exports as { amplitudes: Kernel["run"]; memory: WebAssembly.Memory };
+    return { run: amplitudes, memory };
+  } catch {
+    return null;
+  }
+}
+
+const PAGE_BYTES = 65536;
+const ANGLES_PER_GROUP = 2 * SIMD_PAIRS_PER_GROUP;
+const kernel = instantiate();
+
+/** Whether the WebAssembly kernel runs here (Node ≥ 16.4 has fixed-width SIMD on by default). */
+export const simdAmplitudesAvailable = kernel !== null;
+
+/** As mieAmplitudesScalar, or null when WebAssembly SIMD is unavailable. */
+export function mieAmplitudesSimd(c: MieCoefficients, cosTheta: Float64Array, res: MieAmplitudes): MieAmplitudes | null {
+  if (kernel === null || c.nTerms < 1) return null;
+  const nAngles = cosTheta.length;
+  const groups = Math.ceil(nAngles / ANGLES_PER_GROUP);
+  const padded = groups * ANGLES_PER_GROUP;
+  // Layout (f64 indices): coefficients, cosines (padded with μ = 0), sums.
+  const cosAt = c.nTerms * SIMD_TERM_STRIDE;
+  const outAt = cosAt + padded;
+  const bytes = 8 * (outAt + (padded / 2) * SIMD_OUT_PER_PAIR);
+  const have = kernel.memory.buffer.byteLength;
+  if (have < bytes) kernel.memory.grow(Math.ceil((bytes - have) / PAGE_BYTES));
+  const m = new Float64Array(kernel.memory.buffer);
+  for (let i = 0, k = 0; i < c.nTerms; i++, k += SIMD_TERM_STRIDE) {
+    const n = i + 1;
+    // Weight of Bohren & Huffman 1983 eq. 4.74, as in the scalar kernel.
+    const w = (2 * n + 1) / (n * (n + 1));
+    m[k] = w * (c.aRe[i] + c.bRe[i]);
+    m[k + 1] = w * (c.aIm[i] + c.bIm[i]);
+    m[k + 2] = w * (c.aRe[i] - c.bRe[i]);
+    m[k + 3] = w * (c.aIm[i] - c.bIm[i]);
+    m[k + 4] = (n + 1) / n;
+    m[k + 5] = n;
+  }
+  m.set(cosTheta, cosAt);
+  m.fill(0, cosAt + nAngles, outAt);
+  // One group per call: V8 first runs WebAssembly from baseline code (measured ~50× slower here) and swaps in the
+  // optimised code between calls, never inside one, so short calls pick it up as soon as it is ready.
+  const outGroupBytes = 8 * SIMD_OUT_PER_PAIR * SIMD_PAIRS_PER_GROUP;
+  for (let g = 0; g < groups; g++) kernel.run(0, c.nTerms, 8 * cosAt + 8 * ANGLES_PER_GROUP * g, 1, 8 * outAt + outGroupBytes * g);
+  const { s1Re, s1Im, s2Re, s2Im } = res;
+  for (let j = 0; j < nAngles; j++) {
+    // Pair p holds plusRe, plusIm, minusRe, minusIm as two lanes each; angle j is lane j & 1 of pair j >> 1.
+    const base = outAt + (j >> 1) * SIMD_OUT_PER_PAIR + (j & 1);
+    const plusRe = m[base];
+    const plusIm = m[base + 2];
+    const minusRe = m[base + 4];
+    const minusIm = m[base + 6];
+    s1Re[j] = 0.5 * (plusRe + minusRe);
+    s1Im[j] = 0.5 * (plusIm + minusIm);
+    s2Re[j] = 0.5 * (plusRe - minusRe);
+    s2Im[j] = 0.5 * (plusIm - minusIm);
+  }
+  return res;
+}
