@@ -27,7 +27,10 @@ export interface KernelPool {
  * Kernel tasks on worker threads, so that physics never blocks the event loop. A worker that crashes or exceeds
  * its heap limit fails only the task it ran; piscina starts a replacement thread.
  */
-export function createWorkerPool(threads: number, options: { memoryMb?: number; filename?: string } = {}): KernelPool {
+export function createWorkerPool(
+  threads: number,
+  options: { memoryMb?: number; filename?: string; onPoolError?: (error: unknown) => void } = {},
+): KernelPool {
   const piscina = new Piscina({
     filename: options.filename ?? workerScript(),
     // All threads start with the service, so the first cold request does not wait for thread start-up.
@@ -36,6 +39,9 @@ export function createWorkerPool(threads: number, options: { memoryMb?: number; 
     idleTimeout: 60_000,
     resourceLimits: { maxOldGenerationSizeMb: options.memoryMb ?? 2048 },
   });
+  // A task aborted while it ran may still send its answer, which piscina reports as an 'error' event ("unexpected
+  // message"). Its request has already failed; an unheard 'error' event would end the process.
+  piscina.on("error", (error: unknown) => options.onPoolError?.(error));
   return {
     threads,
     compute: (task: KernelTask, signal?: AbortSignal) => piscina.run(task, { signal }) as Promise<KernelTaskResult>,
