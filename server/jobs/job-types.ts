@@ -1,5 +1,6 @@
 // What every job backend (in-process or Redis) stores and answers, and the parts they share.
 
+import { canonicalJson } from "../content-hash.js";
 import { createHash } from "node:crypto";
 import { setMaxListeners } from "node:events";
 import type { RenderDeps, RenderOutput } from "../render/render-output.js";
@@ -49,17 +50,6 @@ export interface JobBackend {
   watch(id: string, onChange: () => void): () => void;
   ready(): Promise<{ ok: boolean; detail: string }>;
   close(): Promise<void>;
-}
-
-function canonicalJson(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(",")}]`;
-  if (value && typeof value === "object") {
-    const entries = Object.entries(value as Record<string, unknown>)
-      .filter(([, v]) => v !== undefined)
-      .sort(([a], [b]) => (a < b ? -1 : 1));
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
-  }
-  return JSON.stringify(value);
 }
 
 /** The version is part of the hash, so that a new release never serves an older release's result. */
