@@ -5,9 +5,14 @@
  * Upward ψ loses relative accuracy once n > x, where the Mie coefficients built from it are already
  * negligible (Wiscombe 1980, Appl. Opt. 19, 1505).
  */
-export function riccatiBesselReal(x: number, nMax: number): { psi: Float64Array; chi: Float64Array } {
-  const psi = new Float64Array(nMax + 1);
-  const chi = new Float64Array(nMax + 1);
+export function riccatiBesselReal(
+  x: number,
+  nMax: number,
+  out?: { psi: Float64Array; chi: Float64Array },
+): { psi: Float64Array; chi: Float64Array } {
+  // Reused buffers (at least nMax + 1 long) spare the per-drop allocation in profile loops.
+  const psi = out?.psi ?? new Float64Array(nMax + 1);
+  const chi = out?.chi ?? new Float64Array(nMax + 1);
   const s = Math.sin(x);
   const c = Math.cos(x);
   psi[0] = s;
@@ -42,9 +47,10 @@ export function logDerivativeDown(
   zIm: number,
   nMax: number,
   nStart: number,
+  out?: { dRe: Float64Array; dIm: Float64Array },
 ): { dRe: Float64Array; dIm: Float64Array } {
-  const dRe = new Float64Array(nMax + 1);
-  const dIm = new Float64Array(nMax + 1);
+  const dRe = out?.dRe ?? new Float64Array(nMax + 1);
+  const dIm = out?.dIm ?? new Float64Array(nMax + 1);
   const zAbs2 = zRe * zRe + zIm * zIm;
   // 1/z
   const izRe = zRe / zAbs2;
