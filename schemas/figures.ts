@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { angleRangeSchema } from "./angles.js";
 import { waterSchema } from "./water.js";
-import { outputSchema, profileMethods, profileRequestSchema, sunSchema } from "./profile.js";
+import { defaultSun, outputSchema, profileMethods, profileRequestSchema, sunSchema } from "./profile.js";
 
 export const svgQuerySchema = z
   .object({ format: z.enum(["svg"]).optional().describe("Output file: svg (the only one for this figure)") })
@@ -28,13 +28,7 @@ export const sizeMapRequestSchema = z
     radiusToUm: number(0.5, 3000, "Largest drop radius (top row), µm").default(2000),
     radiusSteps: z.number().int().min(2).max(SIZE_MAP_MAX_RADII).default(24).describe("Rows: radii log-spaced from radiusFromUm to radiusToUm"),
     water: waterSchema.default({ temperatureC: 15, salinityPsu: 0 }),
-    sun: sunSchema.default({
-      spectrum: { kind: "astm-g173", column: "extraterrestrial" },
-      elevationDeg: 10,
-      atmosphere: { attenuate: "auto", pressureHpa: 1013.25, angstromBeta: 0.05, angstromAlpha: 1.3 },
-      discDeg: 0.5329,
-      limbDarkening: "neckel-labs-1994",
-    }),
+    sun: sunSchema.default(defaultSun),
     observer: z.enum(["cie1931-2", "cie1964-10"]).default("cie1931-2"),
     angles: angleRangeSchema({ what: "angle ψ from the antisolar point", fromDeg: 30, toDeg: 60, stepDeg: 0.25, maxCount: SIZE_MAP_MAX_ANGLES }).default({
       fromDeg: 30,

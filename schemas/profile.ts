@@ -106,19 +106,16 @@ export const outputSchema = z
   })
   .strict();
 
+/** The sun every defaulted request gets: the sun schema's own field defaults (zod's .default skips inner defaults). */
+export const defaultSun = sunSchema.parse({});
+
 export const profileMethods = ["auto", "mie", "airy", "geometric"] as const;
 
 export const profileFieldsSchema = z
   .object({
     drops: dropsSchema.default({ kind: "marshall-palmer", rainRateMmPerH: 2 }),
     water: waterSchema.default({ temperatureC: 15, salinityPsu: 0 }),
-    sun: sunSchema.default({
-      spectrum: { kind: "astm-g173", column: "extraterrestrial" },
-      elevationDeg: 10,
-      atmosphere: { attenuate: "auto", pressureHpa: 1013.25, angstromBeta: 0.05, angstromAlpha: 1.3 },
-      discDeg: 0.5329,
-      limbDarkening: "neckel-labs-1994",
-    }),
+    sun: sunSchema.default(defaultSun),
     observer: z.enum(["cie1931-2", "cie1964-10"]).default("cie1931-2"),
     angles: angleRangeSchema({
       what: "angle ψ from the antisolar point",

@@ -1,4 +1,5 @@
 import { availableParallelism } from "node:os";
+import { positiveFromEnv } from "./env.js";
 // Issue 6 (jobs): the job and Redis settings (REDIS_URL, JOB_*) live in server/jobs/job-config.ts.
 import { loadJobConfig, type JobConfig } from "./jobs/job-config.js";
 
@@ -32,31 +33,23 @@ export interface Config extends JobConfig {
   workerMemoryMb: number;
 }
 
-function intFrom(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
-  const raw = env[name];
-  if (raw === undefined || raw === "") return fallback;
-  const value = Number(raw);
-  if (!Number.isFinite(value) || value <= 0) throw new Error(`${name} must be a positive number, got '${raw}'`);
-  return value;
-}
-
 export function loadConfig(env: NodeJS.ProcessEnv): Config {
   return {
-    port: intFrom(env, "PORT", 8080),
+    port: positiveFromEnv(env, "PORT", 8080),
     host: env.HOST || "0.0.0.0",
     logLevel: env.LOG_LEVEL || "info",
-    bodyLimitBytes: intFrom(env, "BODY_LIMIT_BYTES", 1_048_576),
-    maxTermAngles: intFrom(env, "MAX_TERM_ANGLES", 200_000_000),
-    maxProfileTermAngles: intFrom(env, "MAX_PROFILE_TERM_ANGLES", 3_000_000_000),
-    workers: env.WORKERS === "0" ? 0 : intFrom(env, "WORKERS", Math.max(1, availableParallelism())),
+    bodyLimitBytes: positiveFromEnv(env, "BODY_LIMIT_BYTES", 1_048_576),
+    maxTermAngles: positiveFromEnv(env, "MAX_TERM_ANGLES", 200_000_000),
+    maxProfileTermAngles: positiveFromEnv(env, "MAX_PROFILE_TERM_ANGLES", 3_000_000_000),
+    workers: env.WORKERS === "0" ? 0 : positiveFromEnv(env, "WORKERS", Math.max(1, availableParallelism())),
     cacheDir: env.CACHE_DIR ?? ".cache/antisolar",
-    cacheBudgetMb: intFrom(env, "CACHE_BUDGET_MB", 512),
+    cacheBudgetMb: positiveFromEnv(env, "CACHE_BUDGET_MB", 512),
     corsOrigins: (env.CORS_ORIGINS ?? "").split(",").map((o) => o.trim()).filter(Boolean),
-    rateLimitPerMinute: env.RATE_LIMIT_PER_MINUTE === "0" ? 0 : intFrom(env, "RATE_LIMIT_PER_MINUTE", 1200),
-    maxEventLoopDelayMs: intFrom(env, "MAX_EVENT_LOOP_DELAY_MS", 1000),
-    maxRssMb: intFrom(env, "MAX_RSS_MB", 4096),
-    requestTimeoutMs: intFrom(env, "REQUEST_TIMEOUT_MS", 120_000),
-    workerMemoryMb: intFrom(env, "WORKER_MEMORY_MB", 2048),
+    rateLimitPerMinute: env.RATE_LIMIT_PER_MINUTE === "0" ? 0 : positiveFromEnv(env, "RATE_LIMIT_PER_MINUTE", 1200),
+    maxEventLoopDelayMs: positiveFromEnv(env, "MAX_EVENT_LOOP_DELAY_MS", 1000),
+    maxRssMb: positiveFromEnv(env, "MAX_RSS_MB", 4096),
+    requestTimeoutMs: positiveFromEnv(env, "REQUEST_TIMEOUT_MS", 120_000),
+    workerMemoryMb: positiveFromEnv(env, "WORKER_MEMORY_MB", 2048),
     ...loadJobConfig(env), // issue 6 (jobs)
   };
 }

@@ -1,21 +1,8 @@
 // A self-contained HTML reference rendered from the OpenAPI document (no scripts, no external assets).
 
-type Schema = {
-  type?: string | string[];
-  description?: string;
-  default?: unknown;
-  properties?: Record<string, Schema>;
-  required?: string[];
-  items?: Schema;
-  oneOf?: Schema[];
-  anyOf?: Schema[];
-  enum?: unknown[];
-  const?: unknown;
-  minimum?: number;
-  maximum?: number;
-  exclusiveMinimum?: number;
-  exclusiveMaximum?: number;
-};
+import type { JsonSchemaNode } from "./json-schema.js";
+
+type Schema = JsonSchemaNode;
 
 function escapeHtml(text: string): string {
   return text.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);

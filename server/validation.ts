@@ -1,22 +1,8 @@
 import { z } from "zod";
 import { ClientError } from "./errors.js";
+import type { JsonSchemaNode } from "./json-schema.js";
 
-type JsonSchema = {
-  type?: string | string[];
-  properties?: Record<string, JsonSchema>;
-  items?: JsonSchema;
-  oneOf?: JsonSchema[];
-  anyOf?: JsonSchema[];
-  enum?: unknown[];
-  const?: unknown;
-  minimum?: number;
-  maximum?: number;
-  exclusiveMinimum?: number;
-  exclusiveMaximum?: number;
-  minItems?: number;
-  maxItems?: number;
-  description?: string;
-};
+type JsonSchema = JsonSchemaNode;
 
 const jsonSchemaCache = new WeakMap<z.ZodType, JsonSchema>();
 

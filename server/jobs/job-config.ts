@@ -1,3 +1,5 @@
+import { positiveFromEnv } from "../env.js";
+
 // Settings of the job system, from environment variables only (shared/guide/api.md); defaults in deploy/README.md.
 
 export interface JobConfig {
@@ -19,23 +21,15 @@ export interface JobConfig {
   redisPrefix: string;
 }
 
-function positive(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
-  const raw = env[name];
-  if (raw === undefined || raw === "") return fallback;
-  const value = raw === "Infinity" ? Infinity : Number(raw);
-  if (Number.isNaN(value) || value <= 0) throw new Error(`${name} must be a positive number, got '${raw}'`);
-  return value;
-}
-
 export function loadJobConfig(env: NodeJS.ProcessEnv): JobConfig {
   return {
     redisUrl: env.REDIS_URL ?? "",
     jobsInProcess: env.JOBS_IN_PROCESS === "1" || env.JOBS_IN_PROCESS === "true",
-    jobMaxTermAngles: positive(env, "JOB_MAX_TERM_ANGLES", Infinity),
-    jobConcurrency: Math.floor(positive(env, "JOB_CONCURRENCY", 1)),
-    jobResultTtlS: Math.floor(positive(env, "JOB_RESULT_TTL_S", 86_400)),
-    jobLockMs: Math.floor(positive(env, "JOB_LOCK_MS", 30_000)),
-    jobStalledIntervalMs: Math.floor(positive(env, "JOB_STALLED_INTERVAL_MS", 15_000)),
+    jobMaxTermAngles: positiveFromEnv(env, "JOB_MAX_TERM_ANGLES", Infinity, { allowInfinity: true }),
+    jobConcurrency: Math.floor(positiveFromEnv(env, "JOB_CONCURRENCY", 1)),
+    jobResultTtlS: Math.floor(positiveFromEnv(env, "JOB_RESULT_TTL_S", 86_400)),
+    jobLockMs: Math.floor(positiveFromEnv(env, "JOB_LOCK_MS", 30_000)),
+    jobStalledIntervalMs: Math.floor(positiveFromEnv(env, "JOB_STALLED_INTERVAL_MS", 15_000)),
     redisPrefix: env.REDIS_PREFIX || "antisolar",
   };
 }

@@ -23,8 +23,9 @@ export function createKernelRuntime(
   // Issue 6 (jobs): with REDIS_URL the second tier is Redis, shared by every API and worker process.
   const redis = config.redisUrl ? kernelRedis(config.redisUrl) : undefined;
   const kernels = new KernelService({
-    // The profile and the view answers keep a sixteenth of the budget each (server/routes/profile.ts, view.ts).
-    memoryBudgetBytes: (config.cacheBudgetMb * 2 ** 20 * 7) / 8,
+    // Profile answers, view answers and finished jobs keep a sixteenth of the budget each (routes/profile.ts,
+    // routes/view.ts, jobs/job-system.ts); kernels take the rest.
+    memoryBudgetBytes: (config.cacheBudgetMb * 2 ** 20 * 13) / 16,
     disk: redis
       ? new RedisKernelStore(redis, config.redisPrefix ?? "antisolar", KERNEL_TTL_S)
       : folder
