@@ -172,6 +172,9 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   }
   const spectral: SpectralProfile = { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
   const sunWhite = spectrumToXyz(sun.irradiance, request.observer);
+  if (!(sunWhite.Y > 0)) {
+    warnings.push("no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black");
+  }
   const colour = colourProfile(spectral, grid, {
     observer: request.observer,
     space: request.output.space,

@@ -92,6 +92,24 @@ describe("POST /v1/profile", () => {
     expect(bits.body.field).toBe("bitDepth");
   });
 
+  it("a sun whose light the atmosphere stops entirely gives a black bow and a warning, not an error", async () => {
+    // Air mass ≈ 38 at the horizon (Kasten & Young 1989) with Ångström β = 0.9, α = 4 at 380–460 nm: τ·m ≫ 700,
+    // so the transmitted sunlight underflows to zero.
+    const scenario = {
+      sun: { elevationDeg: 0, atmosphere: { angstromBeta: 0.9, angstromAlpha: 4 } },
+      spectral: { fromNm: 380, toNm: 460, stepNm: 20 },
+      drops: { kind: "monodisperse", radiusUm: 20 },
+    };
+    const res = await request(app.server).post("/v1/profile").send({ ...scenario, angles: { fromDeg: 36, toDeg: 46, stepDeg: 0.5 } });
+    expect(res.status).toBe(200);
+    expect(res.body.meta.warnings.join(" ")).toMatch(/no direct sunlight/);
+    expect(Math.max(...res.body.luminance)).toBe(0);
+    // The sky map takes the sun's elevation from its own field, and found the same failure through the property tests.
+    const skyScenario = { spectral: scenario.spectral, drops: scenario.drops, sun: { atmosphere: scenario.sun.atmosphere } };
+    const sky = await request(app.server).post("/v1/sky?part=manifest").send({ scenario: skyScenario, sun: { azimuthDeg: 0, elevationDeg: 0 }, widthPx: 2, heightPx: 1 });
+    expect(sky.status).toBe(200);
+  });
+
   it("422 for a full-Mie rain profile over the synchronous budget", async () => {
     const res = await request(app.server).post("/v1/profile").send({ method: "mie" });
     expect(res.status).toBe(422);

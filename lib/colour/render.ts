@@ -34,7 +34,10 @@ export function renderXyz(xyz: Float64Array, options: RenderColourOptions): Rend
   if (xyz.length % 3 !== 0) throw new RangeError("XYZ array length must be a multiple of 3");
   const space = outputSpace(options.space);
   let d65FromInput: Matrix3 | null = null;
-  if (options.white === "sun") {
+  // With no sunlight at all (the sun at the horizon behind a very turbid atmosphere) there is no white to
+  // adapt to, and nothing lit to adapt: the colours stay as they are (all black).
+  const sunless = options.white === "sun" && options.sunWhite !== undefined && !(options.sunWhite.Y > 0);
+  if (options.white === "sun" && !sunless) {
     if (!options.sunWhite) throw new RangeError('white "sun" needs the sun\'s XYZ');
     d65FromInput = d65FromSunWhite(options.sunWhite);
   }
@@ -60,7 +63,11 @@ export function renderXyz(xyz: Float64Array, options: RenderColourOptions): Rend
     values,
     linear,
     outOfGamut,
-    whiteAdaptation: options.white === "sun" ? WHITE_ADAPTATION_METHOD : "none (absolute: XYZ taken as D65-referred)",
+    whiteAdaptation: sunless
+      ? "none: no sunlight reaches the drops, so there is no white to adapt to"
+      : options.white === "sun"
+        ? WHITE_ADAPTATION_METHOD
+        : "none (absolute: XYZ taken as D65-referred)",
     spaceAdaptation: space.adaptation,
   };
 }
