@@ -13,7 +13,11 @@ export interface KernelRowsInput {
 
 export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mieTermAngles: number } {
   const { medium, h, items } = input;
-  const allBlocks = [...new Set(items.flatMap((it) => it.blocks))].sort((a, b) => a - b);
+  // The engines' bins need one evenly spaced Θ grid: the task covers every block from the first to the last one
+  // asked for, also where the drops ask for blocks with gaps between them (a partly filled cache).
+  const asked = items.flatMap((it) => it.blocks);
+  const firstBlock = Math.min(...asked);
+  const allBlocks = Array.from({ length: Math.max(...asked) - firstBlock + 1 }, (_, i) => firstBlock + i);
   const thetaDeg = thetaOfBlocks(allBlocks, h);
   const nTheta = thetaDeg.length;
   // Position in the Θ-ascending grid (ψ descending) of each sample of each block, looked up once per task.

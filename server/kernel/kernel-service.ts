@@ -9,7 +9,7 @@ import type { DiskStore } from "./disk-store.js";
 import type { KernelTask, KernelTaskResult, Medium } from "./kernel-types.js";
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
-export const KERNEL_VERSION = 3;
+export const KERNEL_VERSION = 4;
 
 export type KernelCompute = (task: KernelTask, signal?: AbortSignal) => Promise<KernelTaskResult>;
 
