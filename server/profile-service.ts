@@ -7,7 +7,7 @@ import { makeWavelengthGrid, wavelengthsNm } from "../lib/spectra/grid.js";
 import { waterIndex } from "../lib/water/water-index.js";
 import type { DropSizeDistribution } from "../lib/drops/distributions.js";
 import { fractionOfCrossSectionAbove } from "../lib/drops/quadrature.js";
-import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
+import { latticeRadiusQuadrature, type ThinningLevel } from "../lib/drops/lattice-quadrature.js";
 import { spectrumToXyz, type Xyz } from "../lib/colour/tristimulus.js";
 import { directSunlight } from "../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../lib/bow/lattice-profile.js";
@@ -98,6 +98,7 @@ export interface ProfileDeps {
 export interface ProfileResolution {
   nodesPerDecade?: number;
   maxInternalStepDeg?: number;
+  thinning?: readonly ThinningLevel[];
 }
 
 export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
@@ -116,7 +117,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   if (/extrapolated/i.test(waterSource)) warnings.push(`water index extrapolated: ${waterSource}`);
 
   const distribution = toDistribution(request.drops);
-  const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade });
+  const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
   if (quadrature.cappedAtMaxRadius && quadrature.crossSectionFractionAboveCap > 1e-3) {
     warnings.push(
       `drops above ${quadrature.maxRadiusUm} µm radius (${(100 * quadrature.crossSectionFractionAboveCap).toFixed(1)} % of the cross-section) are left out: such drops break up in nature`,
@@ -153,7 +154,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
 
   const engines = Array.from(quadrature.radiiUm, engine);
   const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, blocks }, deps.signal);
+  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, blocks, within: { first: span.first, last: span.last } }, deps.signal);
   const kernelMs = performance.now() - kernelStarted;
   const steps = latticeProfileSteps({
     angles,

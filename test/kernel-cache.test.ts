@@ -132,6 +132,59 @@ describe("the event loop stays free while kernels compute on worker threads", ()
   });
 });
 
+describe("rows computed only where a request reads them", () => {
+  // On the 0.05° lattice with the 0.533° disc, ψ 36–44° reads lattice points 713–887 and ψ 42–50° 833–1007: block 8
+  // (800–899) is read in part by each and whole by neither; ψ 36–50° (713–1007) reads the union.
+  const at = (fromDeg: number, toDeg: number) => ({ ...body, angles: { fromDeg, toDeg, stepDeg: 0.2 } });
+  it("an overlapping request computes only what is missing, and merged rows serve the union as a fresh cache would", async () => {
+    const inline = createInlinePool();
+    const fresh = await computeProfile(at(36, 50), { kernels: new KernelService({ memoryBudgetBytes: 2 ** 28, compute: inline.compute }), limits });
+    const disk = new DiskStore(join(folder, "partial"));
+    const { counter, compute } = counting(inline.compute);
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 28, disk, compute });
+    await computeProfile(at(36, 44), { kernels, limits });
+    const firstTasks = counter.tasks;
+    const second = await computeProfile(at(42, 50), { kernels, limits });
+    expect(counter.tasks).toBeGreaterThan(firstTasks);
+    expect((second.meta.kernel as { computed: number }).computed).toBeGreaterThan(0);
+    const tasks = counter.tasks;
+    const union = await computeProfile(at(36, 50), { kernels, limits });
+    expect(union.meta.cache).toBe("hit");
+    // Within 1e-9: rows computed on other Θ grids find their ray roots from other table nodes (rounding level).
+    const a = fresh.spectral.perpendicular;
+    const b = union.spectral.perpendicular;
+    for (let j = 0; j < a.length; j++) expect(Math.abs(b[j] - a[j])).toBeLessThanOrEqual(1e-9 * Math.abs(a[j]) + 1e-300);
+    // The disk packs kept the merged rows too.
+    await kernels.flush();
+    const reread = new KernelService({ memoryBudgetBytes: 2 ** 28, disk, compute });
+    expect((await computeProfile(at(36, 50), { kernels: reread, limits })).meta.cache).toBe("hit");
+    expect(counter.tasks).toBe(tasks);
+  });
+
+  it("kernelRows leaves NaN outside the range asked for and the same numbers inside", async () => {
+    const { kernelRows } = await import("../lib/bow/kernel-rows.js");
+    const medium = { wavelengthNm: 520, mRe: 1.3349, mIm: 1e-9, nAir: 1.000277 };
+    const items = [{ radiusUm: 25, engine: "mie" as const, blocks: [7, 8] }, { radiusUm: 400, engine: "airy" as const, blocks: [7, 8] }];
+    const whole = kernelRows({ medium, h: 0.05, items });
+    const part = kernelRows({ medium, h: 0.05, items, within: { first: 760, last: 812 } });
+    for (let item = 0; item < 2; item++) {
+      for (const [k, b] of [7, 8].entries()) {
+        const full = whole.rows[item][k];
+        const row = part.rows[item][k];
+        for (let s = 0; s < 100; s++) {
+          const index = b * 100 + s;
+          for (const half of [0, 100]) {
+            if (index < 760 || index > 812) expect(row[half + s]).toBeNaN();
+            else expect(Math.abs(row[half + s] - full[half + s])).toBeLessThanOrEqual(1e-9 * Math.abs(full[half + s]) + 1e-300);
+          }
+        }
+      }
+    }
+    // 53 of 200 lattice points: about a quarter of the Mie work.
+    expect(part.mieTermAngles / whole.mieTermAngles).toBeCloseTo(53 / 200, 6);
+  });
+});
+
 describe("kernel rows", () => {
   it("do not depend on which other blocks the same task computes (gaps between blocks included)", async () => {
     // Regression: blocks 0 and 9 in one task once gave a Θ grid with a gap, which the ray and Airy bins read as

@@ -45,14 +45,3 @@ export function blockRange(block: number, h: number): { first: number; count: nu
   const count = Math.min(BLOCK_SAMPLES, lastLatticeIndex(h) - first + 1);
   return { first, count };
 }
-
-/** Scattering angles Θ = 180° − ψ of the given blocks, ascending in Θ (descending in ψ), as engines want them. */
-export function thetaOfBlocks(blocks: readonly number[], h: number): Float64Array {
-  const psi: number[] = [];
-  for (const b of blocks) {
-    const { first, count } = blockRange(b, h);
-    for (let k = 0; k < count; k++) psi.push((first + k) * h);
-  }
-  psi.sort((a, b) => b - a);
-  return Float64Array.from(psi, (p) => 180 - p);
-}

@@ -2,31 +2,39 @@
 // unpolarised light split evenly) for several drops at one wavelength, over lattice blocks, ψ ascending.
 
 import type { DropEngine } from "./volume-scattering.js";
-import { blockRange, thetaOfBlocks } from "./kernel-grid.js";
+import { blockRange } from "./kernel-grid.js";
 import { dropRow, dropRowContext } from "./drop-rows.js";
 
 export interface KernelRowsInput {
   medium: { wavelengthNm: number; mRe: number; mIm: number; nAir: number };
   h: number;
   items: { radiusUm: number; engine: DropEngine; blocks: number[] }[];
+  /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
+  within?: { first: number; last: number };
 }
+
+/** A row's samples outside the computed range: never a kernel value, so "covered" is a NaN test. */
+export const NOT_COMPUTED = Number.NaN;
 
 export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mieTermAngles: number } {
   const { medium, h, items } = input;
-  // The engines' bins need one evenly spaced Θ grid: the task covers every block from the first to the last one
-  // asked for, also where the drops ask for blocks with gaps between them (a partly filled cache).
+  // The engines' bins need one evenly spaced Θ grid: the task covers every lattice point from the first to the
+  // last block asked for, also where the drops ask for blocks with gaps between them (a partly filled cache),
+  // clipped to the range the caller needs (the outer blocks of a request are mostly outside it).
   const asked = items.flatMap((it) => it.blocks);
   const firstBlock = Math.min(...asked);
-  const allBlocks = Array.from({ length: Math.max(...asked) - firstBlock + 1 }, (_, i) => firstBlock + i);
-  const thetaDeg = thetaOfBlocks(allBlocks, h);
+  const lastBlock = Math.max(...asked);
+  const lastOfRun = blockRange(lastBlock, h);
+  const lo = Math.max(input.within?.first ?? -Infinity, blockRange(firstBlock, h).first);
+  const hi = Math.min(input.within?.last ?? Infinity, lastOfRun.first + lastOfRun.count - 1);
+  // Θ ascending (ψ descending), as the engines want it.
+  const thetaDeg = Float64Array.from({ length: hi - lo + 1 }, (_, j) => 180 - (hi - j) * h);
   const nTheta = thetaDeg.length;
-  // Position in the Θ-ascending grid (ψ descending) of each sample of each block, looked up once per task.
-  const psiIndexAt = new Map<number, number>();
-  thetaDeg.forEach((t, j) => psiIndexAt.set(Math.round((180 - t) / h), j));
+  // Position in that grid of each sample of each block (−1: outside the computed range), looked up once per task.
   const positions = new Map<number, Int32Array>();
-  for (const b of allBlocks) {
+  for (let b = firstBlock; b <= lastBlock; b++) {
     const { first, count } = blockRange(b, h);
-    positions.set(b, Int32Array.from({ length: count }, (_, k) => psiIndexAt.get(first + k)!));
+    positions.set(b, Int32Array.from({ length: count }, (_, k) => (first + k >= lo && first + k <= hi ? hi - (first + k) : -1)));
   }
   const ctx = dropRowContext(medium, thetaDeg, h, new Set(items.map((it) => it.engine)));
   const perDrop = 1 / (2 * ctx.waveNumberPerM * ctx.waveNumberPerM);
@@ -58,8 +66,8 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
       pack.used += 2 * count;
       for (let k = 0; k < count; k++) {
         const j = at[k];
-        row[k] = perDrop * perp[j];
-        row[count + k] = perDrop * par[j];
+        row[k] = j < 0 ? NOT_COMPUTED : perDrop * perp[j];
+        row[count + k] = j < 0 ? NOT_COMPUTED : perDrop * par[j];
       }
       return row;
     });

@@ -15,7 +15,52 @@ export function latticeRadiusUm(i: number, nodesPerDecade: number): number {
  * radius r_i standing for its cell [r_(i−½), r_(i+½)] clipped to the bounds; weight = ∫ n(r) dr over the clipped
  * cell (exact for histograms, midpoint in ln r otherwise). Monodisperse drops keep their own radius.
  */
-export function latticeRadiusQuadrature(dist: DropSizeDistribution, options: RadiusQuadratureOptions = {}): RadiusQuadrature {
+export function latticeRadiusQuadrature(dist: DropSizeDistribution, options: LatticeQuadratureOptions = {}): RadiusQuadrature {
+  const fine = fineLatticeQuadrature(dist, options);
+  const thinning = options.thinning ?? DEFAULT_THINNING;
+  // A single drop size (monodisperse) keeps its own radius, off the lattice.
+  return thinning.length && fine.radiiUm.length > 1 ? thinQuadrature(fine, thinning) : fine;
+}
+
+export interface ThinningLevel {
+  /** Lattice cells whose cross-section is below this share of the largest cell's... */
+  belowPeakShare: number;
+  /** ...are merged into every stride-th lattice node (odd, so that a node sits at its cells' centre). */
+  stride: number;
+}
+
+export interface LatticeQuadratureOptions extends RadiusQuadratureOptions {
+  thinning?: readonly ThinningLevel[];
+}
+
+export const DEFAULT_THINNING: readonly ThinningLevel[] = [
+  { belowPeakShare: 1 / 8, stride: 3 },
+  { belowPeakShare: 1 / 32, stride: 9 },
+];
+
+/**
+ * Merges lattice cells that carry little of the cross-section into coarser nodes: cell i of stride s goes to node
+ * round(i/s)·s, which carries the merged cells' geometric cross-section (Σ w r², so the bow's brightness is kept).
+ */
+function thinQuadrature(q: RadiusQuadrature, levels: readonly ThinningLevel[]): RadiusQuadrature {
+  const npd = q.nodesPerDecade;
+  const cross = Array.from(q.radiiUm, (r, i) => q.weights[i] * r * r);
+  const peak = Math.max(...cross);
+  const merged = new Map<number, number>();
+  q.radiiUm.forEach((r, i) => {
+    const index = Math.round(Math.log10(r) * npd);
+    let stride = 1;
+    for (const level of levels) if (cross[i] < level.belowPeakShare * peak) stride = Math.max(stride, level.stride);
+    const node = Math.round(index / stride) * stride;
+    merged.set(node, (merged.get(node) ?? 0) + cross[i]);
+  });
+  const nodes = [...merged.keys()].sort((a, b) => a - b);
+  const radiiUm = Float64Array.from(nodes, (i) => latticeRadiusUm(i, npd));
+  const weights = Float64Array.from(nodes, (i, k) => merged.get(i)! / (radiiUm[k] * radiiUm[k]));
+  return { ...q, radiiUm, weights };
+}
+
+function fineLatticeQuadrature(dist: DropSizeDistribution, options: RadiusQuadratureOptions): RadiusQuadrature {
   const base = radiusQuadrature(dist, options);
   if (dist.kind === "monodisperse") return base;
   const npd = options.nodesPerDecade ?? DEFAULT_NODES_PER_DECADE;

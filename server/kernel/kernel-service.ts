@@ -7,6 +7,7 @@ import { setMaxListeners } from "node:events";
 import { ByteLru } from "./byte-lru.js";
 import type { DiskStore } from "./disk-store.js";
 import type { KernelTask, KernelTaskResult, Medium } from "./kernel-types.js";
+import { blockRange } from "../../lib/bow/kernel-grid.js";
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
 export const KERNEL_VERSION = 4;
@@ -19,6 +20,8 @@ export interface KernelRequest {
   radiiUm: Float64Array;
   engines: DropEngine[];
   blocks: number[];
+  /** Lattice indices (inclusive) the caller reads: rows need to be computed only there. */
+  within: { first: number; last: number };
 }
 
 export interface KernelStats {
@@ -40,9 +43,43 @@ class Pack {
   add(radiusUm: number, row: Float64Array): void {
     const old = this.rows.get(radiusUm);
     if (old) this.byteLength -= old.byteLength;
-    this.rows.set(radiusUm, row);
-    this.byteLength += row.byteLength + 64;
+    const kept = old ? mergeRows(old, row) : row;
+    this.rows.set(radiusUm, kept);
+    this.byteLength += kept.byteLength + 64;
   }
+}
+
+/** First and last computed sample of a row (β⊥ half; β∥ is computed at the same samples); null if none. */
+function coverage(row: Float64Array): [number, number] | null {
+  const count = row.length / 2;
+  let first = 0;
+  while (first < count && Number.isNaN(row[first])) first++;
+  if (first === count) return null;
+  let last = count - 1;
+  while (Number.isNaN(row[last])) last--;
+  return [first, last];
+}
+
+/** A row computed over samples k0..k1 of its block (rows cover one contiguous run of samples). */
+function covers(row: Float64Array, k0: number, k1: number): boolean {
+  return !Number.isNaN(row[k0]) && !Number.isNaN(row[k1]);
+}
+
+/**
+ * Two computations of one row over different samples: their union where it is one contiguous run, else the
+ * newer one. Samples both computed agree (same drop, same lattice point).
+ */
+function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
+  const a = coverage(older);
+  const b = coverage(newer);
+  if (!a) return newer;
+  if (!b) return older;
+  if (b[0] <= a[0] && b[1] >= a[1]) return newer;
+  if (a[0] <= b[0] && a[1] >= b[1]) return older;
+  if (b[0] > a[1] + 1 || a[0] > b[1] + 1) return newer;
+  const merged = Float64Array.from(older);
+  for (let k = 0; k < newer.length; k++) if (!Number.isNaN(newer[k])) merged[k] = newer[k];
+  return merged;
 }
 
 function packKey(m: Medium, engine: DropEngine, h: number, block: number): string {
@@ -51,9 +88,11 @@ function packKey(m: Medium, engine: DropEngine, h: number, block: number): strin
 
 export class KernelService {
   readonly memory: ByteLru<Pack>;
-  private readonly inflight = new Map<string, { task: Promise<KernelTaskResult>; item: number; block: number }>();
+  private readonly inflight = new Map<string, { task: Promise<KernelTaskResult>; item: number; block: number; within: { first: number; last: number } }>();
   private readonly packLoads = new Map<string, Promise<void>>();
   private readonly pendingWrites = new Set<Promise<void>>();
+  /** The last write queued per pack: writes to one pack read, merge and replace it, so they must not overlap. */
+  private readonly lastWrite = new Map<string, Promise<void>>();
 
   constructor(private readonly options: { memoryBudgetBytes: number; disk?: Pick<DiskStore, "read" | "write">; compute: KernelCompute }) {
     this.memory = new ByteLru(options.memoryBudgetBytes);
@@ -66,7 +105,14 @@ export class KernelService {
   }
 
   async rows(request: KernelRequest, signal?: AbortSignal): Promise<KernelRows> {
-    const { h, media, radiiUm, engines, blocks } = request;
+    const { h, media, radiiUm, engines, blocks, within } = request;
+    // The samples of each block the caller reads: k0..k1 in the block, first..last on the lattice.
+    const need = blocks.map((b) => {
+      const { first, count } = blockRange(b, h);
+      const lo = Math.max(within.first, first);
+      const hi = Math.min(within.last, first + count - 1);
+      return { first: lo, last: hi, k0: lo - first, k1: hi - first };
+    });
     const stats: KernelStats = { memoryHits: 0, diskHits: 0, computed: 0, mieTermAngles: 0 };
     const engineSet = [...new Set(engines)];
     // found[l][blockIndex]: radius → row, whatever engine served it (each radius has one engine).
@@ -82,7 +128,7 @@ export class KernelService {
           for (let i = 0; i < radiiUm.length; i++) {
             if (have.has(radiiUm[i])) continue;
             const row = packs.get(engines[i])?.rows.get(radiiUm[i]);
-            if (row) have.set(radiiUm[i], row);
+            if (row && covers(row, need[bi].k0, need[bi].k1)) have.set(radiiUm[i], row);
             else missing.push([l, i, bi]);
           }
         }
@@ -106,7 +152,7 @@ export class KernelService {
     const toCompute = new Map<number, Map<number, number[]>>();
     for (const [l, i, bi] of missing) {
       const pending = this.inflight.get(`${keys[l][bi].get(engines[i])}|${radiiUm[i]}`);
-      if (pending) {
+      if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
         waits.push(pending.task.then((result) => void found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block])));
         continue;
       }
@@ -128,14 +174,14 @@ export class KernelService {
     for (const [l, byRadius] of toCompute) {
       const indices = [...byRadius.keys()];
       const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
-      const computing = this.options.compute({ medium: media[l], h, items }, stop.signal);
+      const computing = this.options.compute({ medium: media[l], h, items, within }, stop.signal);
       computing.catch(() => undefined);
       const rowKeys: string[] = [];
       indices.forEach((i, item) => {
         byRadius.get(i)!.forEach((bi, block) => {
           const rowKey = `${keys[l][bi].get(engines[i])}|${radiiUm[i]}`;
           rowKeys.push(rowKey);
-          this.inflight.set(rowKey, { task: computing, item, block });
+          this.inflight.set(rowKey, { task: computing, item, block, within });
         });
       });
       const task = computing
@@ -155,8 +201,13 @@ export class KernelService {
           });
           if (this.options.disk) {
             for (const [pack, rows] of written) {
-              const write: Promise<void> = this.savePack(pack, rows).finally(() => this.pendingWrites.delete(write));
+              const previous = this.lastWrite.get(pack) ?? Promise.resolve();
+              const write: Promise<void> = previous.then(() => this.savePack(pack, rows)).finally(() => {
+                this.pendingWrites.delete(write);
+                if (this.lastWrite.get(pack) === write) this.lastWrite.delete(pack);
+              });
               this.pendingWrites.add(write);
+              this.lastWrite.set(pack, write);
             }
           }
         })
@@ -218,7 +269,7 @@ export class KernelService {
     try {
       const existing = await this.options.disk!.read(pack);
       const merged = existing ? decodePack(existing) : new Map<number, Float64Array>();
-      for (const [radius, row] of rows) merged.set(radius, row);
+      for (const [radius, row] of rows) merged.set(radius, merged.has(radius) ? mergeRows(merged.get(radius)!, row) : row);
       await this.options.disk!.write(pack, encodePack(merged));
     } catch {
       // The disk cache is an optimisation: a failed write only costs a recomputation later.

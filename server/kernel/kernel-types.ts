@@ -19,9 +19,11 @@ export interface KernelTask {
   medium: Medium;
   h: number;
   items: KernelTaskItem[];
+  /** Lattice indices (inclusive) needed; the blocks' other samples are not computed. */
+  within: { first: number; last: number };
 }
 
-/** rows[item][block]: β⊥ then β∥ per drop (m² sr⁻¹) over the block's lattice points, ψ ascending. */
+/** rows[item][block]: β⊥ then β∥ per drop (m² sr⁻¹) over the block's lattice points, ψ ascending; NaN where not computed. */
 export interface KernelTaskResult {
   rows: Float64Array[][];
   mieTermAngles: number;
