@@ -55,13 +55,17 @@ function progressBar(label: string) {
   };
 }
 
+/** A one-shot command's threads start on its own work: warming them up first would only delay it. */
+function oneShotConfig() {
+  return { ...loadConfig(process.env), workerWarmUpRounds: 0 };
+}
+
 async function bake(args: string[]): Promise<void> {
   const input = args[0];
   const output = argument(args, "-o");
   if (!input || !output) throw new Error(`bake needs a request file and -o <file>\n\n${usage}`);
   const request = parseOrThrow(lutRequestSchema, await readJson(input), "body");
-  const config = loadConfig(process.env);
-  const runtime = createKernelRuntime(config);
+  const runtime = createKernelRuntime(oneShotConfig());
   try {
     const lut = await computeLut(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity } }, progressBar("baking"));
     const ext = extname(output).toLowerCase();
@@ -98,7 +102,7 @@ async function render(args: string[]): Promise<void> {
   const output = argument(args, "-o");
   if (!input || !output) throw new Error(`render needs a request file and -o <file>\n\n${usage}`);
   const request = parseOrThrow(profileRequestSchema, await readJson(input), "body");
-  const runtime = createKernelRuntime(loadConfig(process.env));
+  const runtime = createKernelRuntime(oneShotConfig());
   try {
     const bar = progressBar("rendering");
     bar(0, "kernels");

@@ -31,6 +31,8 @@ export interface Config extends JobConfig {
   requestTimeoutMs: number;
   /** Heap limit of each kernel worker thread; a worker over it fails only its request and is replaced. */
   workerMemoryMb: number;
+  /** Rounds of a default-profile-like kernel task each worker thread runs at start (lib/bow/warm-up.ts); 0: none. */
+  workerWarmUpRounds: number;
 }
 
 export function loadConfig(env: NodeJS.ProcessEnv): Config {
@@ -50,6 +52,7 @@ export function loadConfig(env: NodeJS.ProcessEnv): Config {
     maxRssMb: positiveFromEnv(env, "MAX_RSS_MB", 4096),
     requestTimeoutMs: positiveFromEnv(env, "REQUEST_TIMEOUT_MS", 120_000),
     workerMemoryMb: positiveFromEnv(env, "WORKER_MEMORY_MB", 2048),
+    workerWarmUpRounds: env.WORKER_WARM_UP_ROUNDS === "0" ? 0 : positiveFromEnv(env, "WORKER_WARM_UP_ROUNDS", 12),
     ...loadJobConfig(env), // issue 6 (jobs)
   };
 }

@@ -52,7 +52,8 @@ describe("kernel cache", () => {
     const fromDisk = await computeProfile(body, { kernels: new KernelService({ memoryBudgetBytes: 2 ** 28, disk, compute }), limits });
     expect(counter.tasks).toBe(0);
     expect((fromDisk.meta.kernel as { diskHits: number }).diskHits).toBeGreaterThan(0);
-    const pool = createWorkerPool(2);
+    // The threads run warm-up tasks first (other wavelengths and drops): module-level scratch must not leak into rows.
+    const pool = createWorkerPool(2, { warmUpRounds: 2 });
     try {
       const threaded = await computeProfile(body, { kernels: new KernelService({ memoryBudgetBytes: 2 ** 28, compute: pool.compute }), limits });
       for (const r of [again, fromDisk, threaded]) {

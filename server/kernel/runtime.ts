@@ -14,11 +14,11 @@ export interface KernelRuntime {
   close(): Promise<void>;
 }
 
-/** The kernel cache and its workers as configured (WORKERS, WORKER_MEMORY_MB, CACHE_DIR, CACHE_BUDGET_MB, REDIS_URL). */
+/** The kernel cache and its workers as configured (WORKERS, WORKER_MEMORY_MB, WORKER_WARM_UP_ROUNDS, CACHE_DIR, CACHE_BUDGET_MB, REDIS_URL). */
 export function createKernelRuntime(
-  config: Pick<Config, "workers" | "cacheDir" | "cacheBudgetMb"> & Partial<Pick<Config, "redisUrl" | "redisPrefix" | "workerMemoryMb">>,
+  config: Pick<Config, "workers" | "cacheDir" | "cacheBudgetMb"> & Partial<Pick<Config, "redisUrl" | "redisPrefix" | "workerMemoryMb" | "workerWarmUpRounds">>,
 ): KernelRuntime {
-  const pool = config.workers > 0 ? createWorkerPool(config.workers, { memoryMb: config.workerMemoryMb }) : createInlinePool();
+  const pool = config.workers > 0 ? createWorkerPool(config.workers, { memoryMb: config.workerMemoryMb, warmUpRounds: config.workerWarmUpRounds }) : createInlinePool();
   const folder = config.cacheDir ? (isAbsolute(config.cacheDir) ? config.cacheDir : join(process.cwd(), config.cacheDir)) : "";
   // Issue 6 (jobs): with REDIS_URL the second tier is Redis, shared by every API and worker process.
   const redis = config.redisUrl ? kernelRedis(config.redisUrl) : undefined;

@@ -29,7 +29,7 @@ export interface KernelPool {
  */
 export function createWorkerPool(
   threads: number,
-  options: { memoryMb?: number; filename?: string; onPoolError?: (error: unknown) => void } = {},
+  options: { memoryMb?: number; filename?: string; onPoolError?: (error: unknown) => void; warmUpRounds?: number } = {},
 ): KernelPool {
   const piscina = new Piscina({
     filename: options.filename ?? workerScript(),
@@ -38,6 +38,8 @@ export function createWorkerPool(
     maxThreads: threads,
     idleTimeout: 60_000,
     resourceLimits: { maxOldGenerationSizeMb: options.memoryMb ?? 2048 },
+    // Each thread runs these rounds of lib/bow/warm-up.ts before it takes a task (also a replacement thread).
+    workerData: { warmUpRounds: options.warmUpRounds ?? 0 },
   });
   // A task aborted while it ran may still send its answer, which piscina reports as an 'error' event ("unexpected
   // message"). Its request has already failed; an unheard 'error' event would end the process.
