@@ -37,6 +37,13 @@ export interface KernelRows {
   stats: KernelStats;
 }
 
+interface InflightRow {
+  task: Promise<KernelTaskResult>;
+  item: number;
+  block: number;
+  within: { first: number; last: number };
+}
+
 class Pack {
   readonly rows = new Map<number, Float64Array>();
   byteLength = 0;
@@ -88,7 +95,8 @@ function packKey(m: Medium, engine: DropEngine, h: number, block: number): strin
 
 export class KernelService {
   readonly memory: ByteLru<Pack>;
-  private readonly inflight = new Map<string, { task: Promise<KernelTaskResult>; item: number; block: number; within: { first: number; last: number } }>();
+  /** Rows being computed: pack key → radius → the task computing it and where the row sits in its result. */
+  private readonly inflight = new Map<string, Map<number, InflightRow>>();
   private readonly packLoads = new Map<string, Promise<void>>();
   private readonly pendingWrites = new Set<Promise<void>>();
   /** The last write queued per pack: writes to one pack read, merge and replace it, so they must not overlap. */
@@ -98,9 +106,10 @@ export class KernelService {
     this.memory = new ByteLru(options.memoryBudgetBytes);
   }
 
-  private remember(pack: string, radiusUm: number, row: Float64Array): void {
+  /** Adds rows (radius → row) to a pack in memory: one cache update per pack, not per row. */
+  private remember(pack: string, rows: Iterable<[number, Float64Array]>): void {
     const entry = this.memory.take(pack) ?? new Pack();
-    entry.add(radiusUm, row);
+    for (const [radiusUm, row] of rows) entry.add(radiusUm, row);
     this.memory.set(pack, entry);
   }
 
@@ -151,7 +160,7 @@ export class KernelService {
     const waits: Promise<void>[] = [];
     const toCompute = new Map<number, Map<number, number[]>>();
     for (const [l, i, bi] of missing) {
-      const pending = this.inflight.get(`${keys[l][bi].get(engines[i])}|${radiiUm[i]}`);
+      const pending = this.inflight.get(keys[l][bi].get(engines[i])!)?.get(radiiUm[i]);
       if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
         waits.push(pending.task.then((result) => void found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block])));
         continue;
@@ -176,33 +185,33 @@ export class KernelService {
       const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
       const computing = this.options.compute({ medium: media[l], h, items, within }, stop.signal);
       computing.catch(() => undefined);
-      const rowKeys: string[] = [];
+      // The task's rows grouped by the pack they belong to: [pack key, radius, item, block] per row.
+      const byPack = new Map<string, [number, number, number][]>();
       indices.forEach((i, item) => {
         byRadius.get(i)!.forEach((bi, block) => {
-          const rowKey = `${keys[l][bi].get(engines[i])}|${radiiUm[i]}`;
-          rowKeys.push(rowKey);
-          this.inflight.set(rowKey, { task: computing, item, block, within });
+          const pack = keys[l][bi].get(engines[i])!;
+          let list = byPack.get(pack);
+          if (!list) byPack.set(pack, (list = []));
+          list.push([radiiUm[i], item, block]);
+          let rows = this.inflight.get(pack);
+          if (!rows) this.inflight.set(pack, (rows = new Map()));
+          rows.set(radiiUm[i], { task: computing, item, block, within });
         });
       });
+      const blockOfPack = new Map<string, number>();
+      indices.forEach((i) => byRadius.get(i)!.forEach((bi) => blockOfPack.set(keys[l][bi].get(engines[i])!, bi)));
       const task = computing
         .then((result) => {
           stats.mieTermAngles += result.mieTermAngles;
-          const written = new Map<string, Map<number, Float64Array>>();
-          indices.forEach((i, itemIndex) => {
-            byRadius.get(i)!.forEach((bi, k) => {
-              const pack = keys[l][bi].get(engines[i])!;
-              const row = result.rows[itemIndex][k];
-              this.remember(pack, radiiUm[i], row);
-              found[l][bi].set(radiiUm[i], row);
-              stats.computed++;
-              if (!written.has(pack)) written.set(pack, new Map());
-              written.get(pack)!.set(radiiUm[i], row);
-            });
-          });
-          if (this.options.disk) {
-            for (const [pack, rows] of written) {
+          for (const [pack, list] of byPack) {
+            const bi = blockOfPack.get(pack)!;
+            const rows = list.map(([radiusUm, item, block]): [number, Float64Array] => [radiusUm, result.rows[item][block]]);
+            this.remember(pack, rows);
+            for (const [radiusUm, row] of rows) found[l][bi].set(radiusUm, row);
+            stats.computed += rows.length;
+            if (this.options.disk) {
               const previous = this.lastWrite.get(pack) ?? Promise.resolve();
-              const write: Promise<void> = previous.then(() => this.savePack(pack, rows)).finally(() => {
+              const write: Promise<void> = previous.then(() => this.savePack(pack, new Map(rows))).finally(() => {
                 this.pendingWrites.delete(write);
                 if (this.lastWrite.get(pack) === write) this.lastWrite.delete(pack);
               });
@@ -216,7 +225,12 @@ export class KernelService {
           throw error;
         })
         .finally(() => {
-          for (const rowKey of rowKeys) if (this.inflight.get(rowKey)?.task === computing) this.inflight.delete(rowKey);
+          for (const [pack, list] of byPack) {
+            const rows = this.inflight.get(pack);
+            if (!rows) continue;
+            for (const [radiusUm] of list) if (rows.get(radiusUm)?.task === computing) rows.delete(radiusUm);
+            if (rows.size === 0) this.inflight.delete(pack);
+          }
         });
       tasks.push(task);
     }
@@ -262,7 +276,7 @@ export class KernelService {
   private async readPack(pack: string): Promise<void> {
     const payload = await this.options.disk!.read(pack);
     if (!payload) return;
-    for (const [radius, row] of decodePack(payload)) this.remember(pack, radius, row);
+    this.remember(pack, decodePack(payload));
   }
 
   private async savePack(pack: string, rows: Map<number, Float64Array>): Promise<void> {
