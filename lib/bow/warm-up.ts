@@ -1,21 +1,32 @@
 // A kernel task shaped like a default profile's at a few wavelengths: Mie drops, Airy drops, the bows' tables.
 // Run on each worker thread before its first request, so that the request does not pay for V8 compiling the
-// TypeScript and tiering up the WebAssembly Mie kernel.
+// TypeScript and tiering up the WebAssembly Mie kernel (measured in BENCHMARKS.md: "first" against "started").
 
 import { kernelRows, type KernelRowsInput } from "./kernel-rows.js";
+import { blocksOf, latticeSpan, KERNEL_STEPS_DEG } from "./kernel-grid.js";
+import { engineChooser } from "./engine-choice.js";
+import { waterIndex } from "../water/water-index.js";
 
-/** Lattice points of ψ ≈ 29.7–60.3° on the 0.05° lattice (the default profile's range with the sun's disc). */
-const WITHIN = { first: 593, last: 1207 };
-const BLOCKS = [5, 6, 7, 8, 9, 10, 11, 12];
+/** ψ 30–60° widened by the sun's radius (about 0.27°), on the coarsest lattice: the default profile's span. */
+const SPAN = latticeSpan(30 - 0.27, 60 + 0.27, KERNEL_STEPS_DEG[0]);
+/** Drop radii across both engines of the auto choice (µm). */
+const RADII_UM = [12, 35, 80, 150, 400, 1200];
 
-function warmUpTask(wavelengthNm: number, mRe: number): KernelRowsInput {
-  const items = [12, 35, 80, 150, 400, 1200].map((radiusUm) => ({ radiusUm, engine: radiusUm < 100 ? ("mie" as const) : ("airy" as const), blocks: BLOCKS }));
-  return { medium: { wavelengthNm, mRe, mIm: 1e-9, nAir: 1.000277 }, h: 0.05, items, within: WITHIN };
+function warmUpTask(wavelengthNm: number): KernelRowsInput {
+  const water = waterIndex({ wavelengthNm, temperatureC: 15, salinityPsu: 0 });
+  const engine = engineChooser("auto");
+  const blocks = blocksOf(SPAN);
+  return {
+    medium: { wavelengthNm, mRe: water.nRelativeToAir, mIm: water.k, nAir: water.n / water.nRelativeToAir },
+    h: SPAN.h,
+    items: RADII_UM.map((radiusUm) => ({ radiusUm, engine: engine(radiusUm), blocks })),
+    within: { first: SPAN.first, last: SPAN.last },
+  };
 }
 
-/** Runs `rounds` warm-up tasks (indices of water near 450, 550 and 650 nm, from memory) and returns the ms taken per round. */
+/** Runs `rounds` warm-up tasks (at 450, 550 and 650 nm in turn) and returns the ms each took. */
 export function warmUpKernels(rounds: number): number[] {
-  const tasks = [warmUpTask(450, 1.3374), warmUpTask(550, 1.3333), warmUpTask(650, 1.3309)];
+  const tasks = [450, 550, 650].map(warmUpTask);
   const times: number[] = [];
   for (let r = 0; r < rounds; r++) {
     const t0 = performance.now();

@@ -185,26 +185,23 @@ export class KernelService {
       const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
       const computing = this.options.compute({ medium: media[l], h, items, within }, stop.signal);
       computing.catch(() => undefined);
-      // The task's rows grouped by the pack they belong to: [pack key, radius, item, block] per row.
-      const byPack = new Map<string, [number, number, number][]>();
+      // The task's rows grouped by the pack they belong to (one wavelength, so one block per pack).
+      const byPack = new Map<string, { bi: number; rows: [radiusUm: number, item: number, block: number][] }>();
       indices.forEach((i, item) => {
         byRadius.get(i)!.forEach((bi, block) => {
           const pack = keys[l][bi].get(engines[i])!;
-          let list = byPack.get(pack);
-          if (!list) byPack.set(pack, (list = []));
-          list.push([radiiUm[i], item, block]);
+          let entry = byPack.get(pack);
+          if (!entry) byPack.set(pack, (entry = { bi, rows: [] }));
+          entry.rows.push([radiiUm[i], item, block]);
           let rows = this.inflight.get(pack);
           if (!rows) this.inflight.set(pack, (rows = new Map()));
           rows.set(radiiUm[i], { task: computing, item, block, within });
         });
       });
-      const blockOfPack = new Map<string, number>();
-      indices.forEach((i) => byRadius.get(i)!.forEach((bi) => blockOfPack.set(keys[l][bi].get(engines[i])!, bi)));
       const task = computing
         .then((result) => {
           stats.mieTermAngles += result.mieTermAngles;
-          for (const [pack, list] of byPack) {
-            const bi = blockOfPack.get(pack)!;
+          for (const [pack, { bi, rows: list }] of byPack) {
             const rows = list.map(([radiusUm, item, block]): [number, Float64Array] => [radiusUm, result.rows[item][block]]);
             this.remember(pack, rows);
             for (const [radiusUm, row] of rows) found[l][bi].set(radiusUm, row);
@@ -225,7 +222,7 @@ export class KernelService {
           throw error;
         })
         .finally(() => {
-          for (const [pack, list] of byPack) {
+          for (const [pack, { rows: list }] of byPack) {
             const rows = this.inflight.get(pack);
             if (!rows) continue;
             for (const [radiusUm] of list) if (rows.get(radiusUm)?.task === computing) rows.delete(radiusUm);
