@@ -98,9 +98,12 @@ export class KernelService {
   /** Rows being computed: pack key → radius → the task computing it and where the row sits in its result. */
   private readonly inflight = new Map<string, Map<number, InflightRow>>();
   private readonly packLoads = new Map<string, Promise<void>>();
-  private readonly pendingWrites = new Set<Promise<void>>();
-  /** The last write queued per pack: writes to one pack read, merge and replace it, so they must not overlap. */
-  private readonly lastWrite = new Map<string, Promise<void>>();
+  /**
+   * Disk writes, one after another: a write reads, merges and replaces its pack, so two must not overlap, and
+   * they start only once the request that computed the rows has them all, so they never compete with its tasks.
+   */
+  private writes: Promise<void> = Promise.resolve();
+  private queuedWrites = 0;
 
   constructor(private readonly options: { memoryBudgetBytes: number; disk?: Pick<DiskStore, "read" | "write">; compute: KernelCompute }) {
     this.memory = new ByteLru(options.memoryBudgetBytes);
@@ -180,6 +183,7 @@ export class KernelService {
     // Settle borrowed rows from the start, so that their failure is never an unhandled rejection.
     const borrowedSettled = Promise.allSettled(waits);
     const tasks: Promise<void>[] = [];
+    const toSave: [string, Map<number, Float64Array>][] = [];
     for (const [l, byRadius] of toCompute) {
       const indices = [...byRadius.keys()];
       const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
@@ -206,15 +210,7 @@ export class KernelService {
             this.remember(pack, rows);
             for (const [radiusUm, row] of rows) found[l][bi].set(radiusUm, row);
             stats.computed += rows.length;
-            if (this.options.disk) {
-              const previous = this.lastWrite.get(pack) ?? Promise.resolve();
-              const write: Promise<void> = previous.then(() => this.savePack(pack, new Map(rows))).finally(() => {
-                this.pendingWrites.delete(write);
-                if (this.lastWrite.get(pack) === write) this.lastWrite.delete(pack);
-              });
-              this.pendingWrites.add(write);
-              this.lastWrite.set(pack, write);
-            }
+            if (this.options.disk) toSave.push([pack, new Map(rows)]);
           }
         })
         .catch((error: unknown) => {
@@ -238,6 +234,7 @@ export class KernelService {
       throw error;
     } finally {
       signal?.removeEventListener("abort", onAbort);
+      this.queueWrites(toSave);
     }
     // Rows borrowed from another request fail with it if that client went away: compute them for this one.
     const borrowed = await borrowedSettled;
@@ -256,9 +253,16 @@ export class KernelService {
     };
   }
 
-  /** Resolves when every disk write started so far has finished (writes never hold up a response). */
+  private queueWrites(packs: [string, Map<number, Float64Array>][]): void {
+    for (const [pack, rows] of packs) {
+      this.queuedWrites++;
+      this.writes = this.writes.then(() => this.savePack(pack, rows)).finally(() => void this.queuedWrites--);
+    }
+  }
+
+  /** Resolves when every disk write queued so far has finished (writes never hold up a response). */
   async flush(): Promise<void> {
-    while (this.pendingWrites.size) await Promise.all([...this.pendingWrites]);
+    while (this.queuedWrites > 0) await this.writes;
   }
 
   private loadPack(pack: string): Promise<void> {
@@ -288,27 +292,30 @@ export class KernelService {
   }
 }
 
-/** Pack payload: u32 header length, JSON {radii, rowLength}, then the rows as little-endian float64. */
-function encodePack(rows: Map<number, Float64Array>): Buffer {
+/**
+ * Pack payload: u32 header length, JSON {radii, rowLength}, then the rows as little-endian float64 — as pieces
+ * (views of the rows, not copies) for the store to write one after another.
+ */
+function encodePack(rows: Map<number, Float64Array>): Buffer[] {
   const rowLength = rows.values().next().value!.length;
   const radii = [...rows.keys()].sort((a, b) => a - b);
   const header = Buffer.from(JSON.stringify({ radii, rowLength }));
-  const data = Buffer.alloc(radii.length * rowLength * 8);
-  radii.forEach((radius, r) => Buffer.from(rows.get(radius)!.buffer, rows.get(radius)!.byteOffset, rowLength * 8).copy(data, r * rowLength * 8));
   const length = Buffer.alloc(4);
   length.writeUInt32LE(header.length, 0);
-  return Buffer.concat([length, header, data]);
+  return [length, header, ...radii.map((radius) => {
+    const row = rows.get(radius)!;
+    return Buffer.from(row.buffer, row.byteOffset, rowLength * 8);
+  })];
 }
 
+/** The rows of a pack payload, as views of one aligned copy of its data (one allocation per pack, not per row). */
 function decodePack(payload: Buffer): Map<number, Float64Array> {
   const length = payload.readUInt32LE(0);
   const { radii, rowLength } = JSON.parse(payload.subarray(4, 4 + length).toString("utf8")) as { radii: number[]; rowLength: number };
   const start = 4 + length;
+  const data = new Float64Array(radii.length * rowLength);
+  new Uint8Array(data.buffer).set(payload.subarray(start, start + data.byteLength));
   const out = new Map<number, Float64Array>();
-  radii.forEach((radius, r) => {
-    const row = new Float64Array(rowLength);
-    Buffer.from(row.buffer).set(payload.subarray(start + r * rowLength * 8, start + (r + 1) * rowLength * 8));
-    out.set(radius, row);
-  });
+  radii.forEach((radius, r) => out.set(radius, data.subarray(r * rowLength, (r + 1) * rowLength)));
   return out;
 }

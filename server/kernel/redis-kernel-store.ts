@@ -36,9 +36,11 @@ export class RedisKernelStore {
     return createHash("sha256").update(payload).digest().equals(value.subarray(0, DIGEST_BYTES)) ? Buffer.from(payload) : undefined;
   }
 
-  async write(key: string, payload: Buffer): Promise<void> {
-    const digest = createHash("sha256").update(payload).digest();
-    await this.redis.set(this.pathOf(key), Buffer.concat([digest, payload]), "EX", this.ttlS);
+  async write(key: string, payload: Buffer | readonly Buffer[]): Promise<void> {
+    const pieces = Buffer.isBuffer(payload) ? [payload] : payload;
+    const hash = createHash("sha256");
+    for (const piece of pieces) hash.update(piece);
+    await this.redis.set(this.pathOf(key), Buffer.concat([hash.digest(), ...pieces]), "EX", this.ttlS);
   }
 }
 
