@@ -4,6 +4,10 @@ import { computeProfile } from "../server/profile-service.js";
 import { KernelService } from "../server/kernel/kernel-service.js";
 import { createWorkerPool, type KernelPool } from "../server/kernel/worker-pool.js";
 import { loadConfig } from "../server/config.js";
+import { DiskStore } from "../server/kernel/disk-store.js";
+import { mkdtemp, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
 
 /** Time between starting a pool and the request in the "started" figure: the warm-up rounds take about 0.4 s. */
 export const STARTED_WAIT_MS = 3000;
@@ -17,6 +21,8 @@ export interface ProfileBenchRow {
   firstMs: number | null;
   /** Empty kernel cache on a pool started STARTED_WAIT_MS earlier with the service's default warm-up rounds. */
   startedMs: number | null;
+  /** With the disk tier: a new kernel service (empty memory, as after a restart) reading the cold request's packs. */
+  fromDiskMs: number | null;
   /** The same request again on the filled kernel cache (median of 5); null where not measured. */
   warmMs: number | null;
   mieTermAngles: number;
@@ -30,9 +36,12 @@ export interface ProfileWorkload {
   body: Record<string, unknown>;
   workers: number[];
   warm: boolean;
+  /** With the disk tier (the service's default CACHE_DIR): cold on an empty disk, then from disk with an empty memory. */
+  disk?: boolean;
 }
 
 export const P1: ProfileWorkload = { name: "P1 default profile `{}` (Marshall–Palmer 2 mm/h, auto)", body: {}, workers: [2], warm: true };
+export const P1_DISK: ProfileWorkload = { ...P1, name: "P1 default profile `{}`, with the disk tier (CACHE_DIR)", warm: false, disk: true };
 export const P2: ProfileWorkload = {
   name: "P2 fog, lognormal 10 µm (σg 1.4), full Mie, ψ 20–60° step 0.2°",
   body: { drops: { kind: "lognormal", medianRadiusUm: 10, geometricSd: 1.4, totalNumberPerM3: 1e8 }, method: "mie", angles: { fromDeg: 20, toDeg: 60, stepDeg: 0.2 } },
@@ -56,7 +65,13 @@ async function once(body: unknown, kernels: KernelService): Promise<{ ms: number
   return { ms, mieTermAngles: r.spectral.mieTermAngles, cores: (cpu.user + cpu.system) / 1000 / ms };
 }
 
-const freshCache = (pool: KernelPool) => new KernelService({ memoryBudgetBytes: 2 ** 31, compute: pool.compute });
+const freshCache = (pool: KernelPool, disk?: DiskStore) => new KernelService({ memoryBudgetBytes: 2 ** 31, compute: pool.compute, disk });
+
+/** An empty disk tier in a temporary folder, as the service's CACHE_DIR on first start. */
+async function emptyDisk(): Promise<{ disk: DiskStore; remove: () => Promise<void> }> {
+  const folder = await mkdtemp(join(tmpdir(), "antisolar-bench-"));
+  return { disk: new DiskStore(folder), remove: () => rm(folder, { recursive: true, force: true }) };
+}
 
 /** The default profile with the water 1 °C warmer: other kernels, the Mie and Airy code paths (warms threads and JIT). */
 const WARM_UP_BODY = { water: { temperatureC: 16 } };
@@ -77,8 +92,15 @@ export async function benchProfile(w: ProfileWorkload, options: { first?: boolea
     }
     const pool = createWorkerPool(threads);
     await once(WARM_UP_BODY, freshCache(pool));
-    const kernels = freshCache(pool);
+    const tier = w.disk ? await emptyDisk() : undefined;
+    const kernels = freshCache(pool, tier?.disk);
     const cold = await once(w.body, kernels);
+    let fromDiskMs: number | null = null;
+    if (tier) {
+      await kernels.flush();
+      fromDiskMs = (await once(w.body, freshCache(pool, tier.disk))).ms;
+      await tier.remove();
+    }
     let warmMs: number | null = null;
     if (w.warm) {
       const warm: number[] = [];
@@ -92,6 +114,7 @@ export async function benchProfile(w: ProfileWorkload, options: { first?: boolea
       coldMs: cold.ms,
       firstMs,
       startedMs,
+      fromDiskMs,
       warmMs,
       mieTermAngles: cold.mieTermAngles,
       kernelBytes: kernels.memory.sizeBytes,

@@ -3,7 +3,7 @@
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import { cpus, loadavg, totalmem } from "node:os";
 import { benchMie, mieKernelName } from "./mie.js";
-import { benchProfile, P1, P2, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
+import { benchProfile, P1, P1_DISK, P2, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
 import { benchHttp } from "./http.js";
 import { repoPath } from "../server/resources.js";
 
@@ -22,13 +22,14 @@ for (const r of mie) {
   );
 }
 const profiles: ProfileBenchRow[] = [];
-for (const w of quick ? [P1, P2] : [P1, P2, P3]) {
+for (const w of quick ? [P1, P1_DISK, P2] : [P1, P1_DISK, P2, P3]) {
   for (const r of await benchProfile(w, { first: w === P1 })) {
     profiles.push(r);
     console.log(
       `${r.name}, ${r.workers} workers: cold ${r.coldMs.toFixed(0)} ms` +
         (r.firstMs === null ? "" : `, first on new threads ${r.firstMs.toFixed(0)} ms`) +
         (r.startedMs === null ? "" : `, on threads warmed up at start ${r.startedMs.toFixed(0)} ms`) +
+        (r.fromDiskMs === null ? "" : `, from disk after a restart ${r.fromDiskMs.toFixed(0)} ms`) +
         (r.warmMs === null ? "" : `, warm ${r.warmMs.toFixed(1)} ms`) +
         `, ${r.mieTermAngles.toExponential(2)} Mie term-angles, ${r.coldCores.toFixed(2)} cores busy, kernel cache ${(r.kernelBytes / 2 ** 20).toFixed(1)} MiB`,
     );
@@ -89,16 +90,18 @@ const lines = [
   "that have already served one other request (the default profile with the water 1 °C warmer: other kernels, warm JIT).",
   "First: an empty cache on a pool created for the request with no warm-up (thread start-up and JIT included).",
   `Started: an empty cache on a pool started ${STARTED_WAIT_MS / 1000} s earlier, whose threads ran the service's start-up warm-up`,
-  "(WORKER_WARM_UP_ROUNDS, lib/bow/warm-up.ts) — a freshly started service's first request. Warm: the same",
+  "(WORKER_WARM_UP_ROUNDS, lib/bow/warm-up.ts) — a freshly started service's first request. The disk-tier row",
+  "starts on an empty cache folder (cold: computing while packs are written after the answer); from disk: an empty",
+  "memory reading that folder, as after a restart. Warm: the same",
   "request again on the filled cache (median of 5). Cores: the process's CPU time (all threads) during the cold",
   "request over its wall time — below the worker count when other processes held the cores. Mie rate: Mie",
   "term-angles per second of cold wall time. Kernel cache: bytes held after the request.",
   "",
-  "| workload | workers | cold (ms) | cores busy | Mie rate | first (ms) | started (ms) | warm (ms) | Mie term-angles | kernel cache (MiB) |",
-  "|---|---|---|---|---|---|---|---|---|---|",
+  "| workload | workers | cold (ms) | cores busy | Mie rate | first (ms) | started (ms) | from disk (ms) | warm (ms) | Mie term-angles | kernel cache (MiB) |",
+  "|---|---|---|---|---|---|---|---|---|---|---|",
   ...profiles.map(
     (r) =>
-      `| ${r.name} | ${r.workers} | ${r.coldMs.toFixed(0)} | ${r.coldCores.toFixed(2)} | ${M(r.mieTermAngles / (r.coldMs / 1000))} | ${r.firstMs === null ? "–" : r.firstMs.toFixed(0)} | ${r.startedMs === null ? "–" : r.startedMs.toFixed(0)} | ${r.warmMs === null ? "–" : r.warmMs.toFixed(1)} | ${r.mieTermAngles.toExponential(2)} | ${(r.kernelBytes / 2 ** 20).toFixed(1)} |`,
+      `| ${r.name} | ${r.workers} | ${r.coldMs.toFixed(0)} | ${r.coldCores.toFixed(2)} | ${M(r.mieTermAngles / (r.coldMs / 1000))} | ${r.firstMs === null ? "–" : r.firstMs.toFixed(0)} | ${r.startedMs === null ? "–" : r.startedMs.toFixed(0)} | ${r.fromDiskMs === null ? "–" : r.fromDiskMs.toFixed(0)} | ${r.warmMs === null ? "–" : r.warmMs.toFixed(1)} | ${r.mieTermAngles.toExponential(2)} | ${(r.kernelBytes / 2 ** 20).toFixed(1)} |`,
   ),
   "",
   p3Scaling === null ? "P3 not run (`--quick`)." : `P3 speed-up from 1 to 2 workers: ${p3Scaling.toFixed(2)}×.`,
