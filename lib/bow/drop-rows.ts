@@ -39,11 +39,14 @@ export function dropRowContext(
     const { perpendicular, parallel } = raysAiryEngine;
     AIRY_BOW_ORDERS.forEach((p, o) => {
       const table = bowTables[o]!;
-      // Where only one ray of the order arrives there is nothing to interfere: ray optics.
-      const rays = rayOpticsBins(n, [p], thetaDeg, stepDeg);
+      const uniformBins = table.uniform.reduce((sum, u) => sum + u, 0);
+      if (uniformBins === 0) bowTables[o] = null;
+      // Where only one ray of the order arrives there is nothing to interfere: ray optics (not needed, and not
+      // computed, when the bow's formula serves every bin).
+      const rays = uniformBins < thetaDeg.length ? rayOpticsBins(n, [p], thetaDeg, stepDeg) : null;
       for (let j = 0; j < thetaDeg.length; j++) {
-        perpendicular[j] += table.uniform[j] ? table.otherPerp[j] : rays.perpendicular[j];
-        parallel[j] += table.uniform[j] ? table.otherPar[j] : rays.parallel[j];
+        perpendicular[j] += table.uniform[j] ? table.otherPerp[j] : rays!.perpendicular[j];
+        parallel[j] += table.uniform[j] ? table.otherPar[j] : rays!.parallel[j];
       }
     });
   }
@@ -80,7 +83,8 @@ export function dropRow(ctx: DropRowContext, engine: DropEngine, radiusUm: numbe
     return 0;
   }
   addScaled(perp, par, ctx.raysAiryEngine!, x * x);
-  for (const table of ctx.bowTables) addUniformBowBins(table!, x, 1, perp, par);
+  // A null table: the order's bow formula serves no bin of this grid (its rays are all in raysAiryEngine).
+  for (const table of ctx.bowTables) if (table) addUniformBowBins(table, x, 1, perp, par);
   return 0;
 }
 
