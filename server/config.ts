@@ -1,4 +1,5 @@
 import { availableParallelism } from "node:os";
+import { isAbsolute, join } from "node:path";
 import { positiveFromEnv } from "./env.js";
 // Issue 6 (jobs): the job and Redis settings (REDIS_URL, JOB_*) live in server/jobs/job-config.ts.
 import { loadJobConfig, type JobConfig } from "./jobs/job-config.js";
@@ -55,4 +56,9 @@ export function loadConfig(env: NodeJS.ProcessEnv): Config {
     workerWarmUpRounds: env.WORKER_WARM_UP_ROUNDS === "0" ? 0 : positiveFromEnv(env, "WORKER_WARM_UP_ROUNDS", 12),
     ...loadJobConfig(env), // issue 6 (jobs)
   };
+}
+
+/** CACHE_DIR as an absolute folder (relative to the working directory), or "" when caching to disk is off. */
+export function cacheFolder(cacheDir: string): string {
+  return cacheDir ? (isAbsolute(cacheDir) ? cacheDir : join(process.cwd(), cacheDir)) : "";
 }

@@ -1,8 +1,8 @@
 // Chooses how jobs run: in this process (no REDIS_URL), or through Redis with separate workers (REDIS_URL), where
 // an API process also runs jobs itself only with JOBS_IN_PROCESS=1.
 
-import { isAbsolute, join } from "node:path";
-import type { Config } from "../config.js";
+import { join } from "node:path";
+import { cacheFolder, type Config } from "../config.js";
 import type { KernelRuntime } from "../kernel/runtime.js";
 import { DiskStore } from "../kernel/disk-store.js";
 import { builtInRenderers, type RendererRegistry } from "./renderers.js";
@@ -27,7 +27,7 @@ export async function createJobSystem(
   const registry = options.registry ?? builtInRenderers;
   const closing = new AbortController();
   if (!config.redisUrl) {
-    const folder = config.cacheDir ? (isAbsolute(config.cacheDir) ? config.cacheDir : join(process.cwd(), config.cacheDir)) : "";
+    const folder = cacheFolder(config.cacheDir);
     const backend = new EmbeddedJobBackend({
       registry,
       kernels: runtime.kernels,

@@ -1,5 +1,5 @@
-import { isAbsolute, join } from "node:path";
-import type { Config } from "../config.js";
+import { join } from "node:path";
+import { cacheFolder, type Config } from "../config.js";
 import { DiskStore } from "./disk-store.js";
 import { KernelService } from "./kernel-service.js";
 import { createInlinePool, createWorkerPool, type KernelPool } from "./worker-pool.js";
@@ -19,7 +19,7 @@ export function createKernelRuntime(
   config: Pick<Config, "workers" | "cacheDir" | "cacheBudgetMb"> & Partial<Pick<Config, "redisUrl" | "redisPrefix" | "workerMemoryMb" | "workerWarmUpRounds">>,
 ): KernelRuntime {
   const pool = config.workers > 0 ? createWorkerPool(config.workers, { memoryMb: config.workerMemoryMb, warmUpRounds: config.workerWarmUpRounds }) : createInlinePool();
-  const folder = config.cacheDir ? (isAbsolute(config.cacheDir) ? config.cacheDir : join(process.cwd(), config.cacheDir)) : "";
+  const folder = cacheFolder(config.cacheDir);
   // Issue 6 (jobs): with REDIS_URL the second tier is Redis, shared by every API and worker process.
   const redis = config.redisUrl ? kernelRedis(config.redisUrl) : undefined;
   const kernels = new KernelService({
