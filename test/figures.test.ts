@@ -227,6 +227,24 @@ describe("figures of unusual requests", () => {
     await saveRender("figure-profile-unusual", profile);
     await saveRender("figure-chromaticity-unusual", chroma);
   });
+
+  it("draw no white point and no path, and say why, when the atmosphere extinguishes the sun on the horizon", async () => {
+    // Ångström β 2, α 4 at air mass ~38 (Kasten & Young 1989 at 0°): exp(−m τ) underflows to 0 over 380–460 nm.
+    const dark = await profileOf({
+      drops: { kind: "monodisperse", radiusUm: 5, numberPerM3: 1 },
+      sun: { spectrum: { kind: "astm-g173", column: "extraterrestrial" }, elevationDeg: 0, discDeg: 0, atmosphere: { attenuate: "always", angstromBeta: 2, angstromAlpha: 4 } },
+      angles: { fromDeg: 30, toDeg: 31, stepDeg: 0.1 },
+      spectral: { fromNm: 380, toNm: 460, stepNm: 20 },
+    });
+    expect(dark.sunWhite.Y).toBe(0);
+    const svg = chromaticitySvg(dark);
+    expect(svg).not.toMatch(/NaN|Infinity|undefined/);
+    const root = parseXml(svg);
+    expect(all(root).some((e) => e.attrs.id === "sun-white" || e.attrs.id === "sun-white-detail")).toBe(false);
+    expect(byId(root, "bow-path").attrs.points).toBe("");
+    expect(all(root).find((e) => e.name === "desc")!.text).toContain("sun's white point (none)");
+    expect(svg).toContain("No direct sunlight reaches the drops");
+  });
 });
 
 describe("chromaticitySvg", () => {

@@ -153,20 +153,24 @@ export function chromaticitySvg(p: FigureProfile): string {
     text(xs(q.x) + dx, ys(q.y) + dy, `sRGB ${name} (${q.x.toFixed(2)}, ${q.y.toFixed(2)})`, { "font-size": 11, fill: "#2e7d32", "text-anchor": dx < 0 ? "end" : "start" });
   parts.push(element("g", { id: "srgb-vertices" }, vertexLabel(srgb.red, "red", 6, -6) + vertexLabel(srgb.green, "green", -8, 4) + vertexLabel(srgb.blue, "blue", 8, 14)));
 
+  // With the sun extinguished (on the horizon through a thick atmosphere) there is no white point: x, y are 0/0.
   const sunXyz = p.sunWhite;
   const sunSum = sunXyz.X + sunXyz.Y + sunXyz.Z;
-  const sun: XyPoint = { x: sunXyz.X / sunSum, y: sunXyz.Y / sunSum };
+  const sun: XyPoint | null = sunSum > 0 ? { x: sunXyz.X / sunSum, y: sunXyz.Y / sunSum } : null;
 
   // The bow's path is small on the full diagram; a detail panel magnifies it.
   const bow = bowPoints(p);
   parts.push(element("polyline", { id: "bow-path", points: pointsAttribute(bow.map((q) => at(q))), fill: "none", stroke: "#111111", "stroke-width": 1.2 }));
-  parts.push(sunSymbol("sun-white", xs(sun.x), ys(sun.y)));
+  if (sun) parts.push(sunSymbol("sun-white", xs(sun.x), ys(sun.y)));
 
-  let minX = sun.x;
-  let maxX = sun.x;
-  let minY = sun.y;
-  let maxY = sun.y;
-  for (const q of bow) {
+  // The detail panel frames the sun's white and the bow's path; with neither, the sRGB white.
+  const framed = [...(sun ? [sun] : []), ...bow];
+  if (framed.length === 0) framed.push(srgb.white);
+  let minX = framed[0].x;
+  let maxX = minX;
+  let minY = framed[0].y;
+  let maxY = minY;
+  for (const q of framed) {
     minX = Math.min(minX, q.x);
     maxX = Math.max(maxX, q.x);
     minY = Math.min(minY, q.y);
@@ -216,8 +220,8 @@ export function chromaticitySvg(p: FigureProfile): string {
     const spot = placer.place(x0, y0, label.length, size, force);
     if (spot) labelled.push(text(spot.x, spot.y, label, { "font-size": size, "text-anchor": spot.anchor, ...attrs }));
   };
-  const sunAt = at(sun, dx, dy);
-  placer.block(sunAt[0], sunAt[1], 7);
+  const sunAt = sun ? at(sun, dx, dy) : null;
+  if (sunAt) placer.block(sunAt[0], sunAt[1], 7);
   const d65 = at(srgb.white, dx, dy);
   if (observer === "cie1931-2") {
     labelled.push(element("circle", { id: "d65-white", cx: d65[0], cy: d65[1], r: 3.5, fill: "none", stroke: "#2e7d32", "stroke-width": 1.4 }));
@@ -241,7 +245,7 @@ export function chromaticitySvg(p: FigureProfile): string {
     .map((psi) => ({ psi, q: bow.find((b) => Math.abs(b.psi - psi) < 1e-6) }))
     .filter((s): s is { psi: number; q: { x: number; y: number; psi: number } } => s.q !== undefined);
   for (const { q } of psiSpots) placer.block(dx(q.x), dy(q.y), 2.5);
-  put(sunAt[0], sunAt[1], "sun", 11, { fill: "#7a5c00", "font-weight": "bold" }, true);
+  if (sunAt) put(sunAt[0], sunAt[1], "sun", 11, { fill: "#7a5c00", "font-weight": "bold" }, true);
   for (const [bx, by, label, colour] of bowLabels) put(bx, by, label, 11, { fill: colour, "font-weight": "bold" }, true);
   if (observer === "cie1931-2") put(d65[0], d65[1], "D65 (sRGB white)", 10.5, { fill: "#2e7d32" }, false);
   const psiDots: string[] = [];
@@ -250,7 +254,7 @@ export function chromaticitySvg(p: FigureProfile): string {
     put(dx(q.x), dy(q.y), `${psi}°`, 10, { fill: "#333333" }, false);
   }
   inside.push(...psiDots, ...bowMarks);
-  inside.push(sunSymbol("sun-white-detail", sunAt[0], sunAt[1]));
+  if (sunAt) inside.push(sunSymbol("sun-white-detail", sunAt[0], sunAt[1]));
   inside.push(...labelled);
   detail.push(element("g", { "clip-path": "url(#detail-clip)" }, inside.join("")));
   detail.push(axis({ id: "detail-x", scale: dx, ticks: dTicks, at: detailBottom, side: "bottom", label: "x", fontSize: 10.5 }));
@@ -279,7 +283,10 @@ export function chromaticitySvg(p: FigureProfile): string {
   const hash = hashOf(p);
   const sources = [...chromaticityFigureSources(observer), ...sourcesOf(p)];
   const scenario = scenarioSentence(p.request, p.meta);
-  const sunNote = `Sun's white: x ${sun.x.toFixed(4)}, y ${sun.y.toFixed(4)}. Bow chromaticities are of the light as it arrives, before any white adaptation.`;
+  const sunWhiteText = sun ? `x ${sun.x.toFixed(4)}, y ${sun.y.toFixed(4)}` : "none";
+  const sunNote = sun
+    ? `Sun's white: ${sunWhiteText}. Bow chromaticities are of the light as it arrives, before any white adaptation.`
+    : "Sun's white: none. No direct sunlight reaches the drops at these wavelengths (the sun is on the horizon through this atmosphere), so the bow is black and has no path.";
   const lines = [...wrapText(scenario, CAPTION_CHARS), ...wrapText(sunNote, CAPTION_CHARS), `Content hash of the normalised request: ${hash}`];
   const caption = textBlock(24, mainBottom + 56, lines, 15, { "font-size": 11.5, fill: "#222222" });
   const sourceBlock = textBlock(24, caption.bottom + 6, ["Sources:", ...sources.flatMap((s) => wrapText(`• ${s}`, CAPTION_CHARS + 10))], 13, { "font-size": 10.5, fill: "#444444" });
@@ -288,7 +295,7 @@ export function chromaticitySvg(p: FigureProfile): string {
 
   const desc =
     `${title}: the spectrum locus with wavelength labels, the purple line, the sRGB triangle, the sun's white point ` +
-    `(x ${sun.x.toFixed(4)}, y ${sun.y.toFixed(4)}) and the colour path of the bow over ψ ${p.spectral.anglesDeg[0]}–${p.spectral.anglesDeg[p.spectral.anglesDeg.length - 1]}°. ` +
+    `(${sunWhiteText}) and the colour path of the bow over ψ ${p.spectral.anglesDeg[0]}–${p.spectral.anglesDeg[p.spectral.anglesDeg.length - 1]}°. ` +
     `${scenario} Content hash ${hash}. Sources: ${sources.join("; ")}.`;
   return svgDocument({ width: WIDTH, height: sourceBlock.bottom + 18, title, desc, body: parts.join("\n") });
 }
