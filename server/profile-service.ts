@@ -12,7 +12,7 @@ import { spectrumToXyz, type Xyz } from "../lib/colour/tristimulus.js";
 import { directSunlight } from "../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../lib/bow/lattice-profile.js";
 import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../lib/bow/lattice-profile.js";
-import { blocksOf, kernelStepFor, BLOCK_SAMPLES } from "../lib/bow/kernel-grid.js";
+import { blocksOf, kernelStepFor } from "../lib/bow/kernel-grid.js";
 import type { KernelService } from "./kernel/kernel-service.js";
 import type { Medium } from "./kernel/kernel-types.js";
 import { colourProfile, type ColourProfile } from "../lib/bow/colour-profile.js";
@@ -140,7 +140,8 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
   const span = profileSpan(angles, request.sun.discDeg, h);
   const blocks = blocksOf(span);
-  const cost = estimateMieTermAngles(quadrature.radiiUm, wl, blocks.length * BLOCK_SAMPLES, engine);
+  // Kernel tasks compute only the span's lattice points (KernelRequest.within), so that is what the guard counts.
+  const cost = estimateMieTermAngles(quadrature.radiiUm, wl, span.last - span.first + 1, engine);
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",

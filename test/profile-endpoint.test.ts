@@ -3,6 +3,11 @@ import request from "supertest";
 import sharp from "sharp";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../server/app.js";
+import { profileRequestSchema } from "../schemas/profile.js";
+import { computeProfile } from "../server/profile-service.js";
+import { KernelService } from "../server/kernel/kernel-service.js";
+import { createInlinePool } from "../server/kernel/worker-pool.js";
+import { ClientError } from "../server/errors.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -116,6 +121,19 @@ describe("POST /v1/profile", () => {
     expect(res.body.error).toBe("too-costly");
     expect(res.body.message).toMatch(/auto/);
     expect(res.body.message).toMatch(/POST \/v1\/jobs/);
+  });
+
+  it("the cost guard's estimate is the Mie work a cold profile then does (within 1 %)", async () => {
+    // Fog (all drops below the Airy radius) over a 6° window: the kernel computes only the window's lattice points,
+    // and the guard must count those, not whole 5° blocks, or it refuses requests it could serve.
+    const body = profileRequestSchema.parse({ drops: { kind: "lognormal", medianRadiusUm: 8, geometricSd: 1.3, totalNumberPerM3: 1e8 }, angles: { fromDeg: 31, toDeg: 37, stepDeg: 0.1 }, spectral: { fromNm: 400, toNm: 700, stepNm: 20 } });
+    const fresh = () => new KernelService({ memoryBudgetBytes: 2 ** 28, compute: createInlinePool().compute });
+    const refused = await computeProfile(body, { kernels: fresh(), limits: { maxTermAngles: 1 } }).catch((e: unknown) => e);
+    expect(refused).toBeInstanceOf(ClientError);
+    const estimate = (refused as ClientError).details.cost as number;
+    const done = await computeProfile(body, { kernels: fresh(), limits: { maxTermAngles: Infinity } });
+    expect(done.spectral.mieTermAngles).toBeGreaterThan(0);
+    expect(Math.abs(estimate / done.spectral.mieTermAngles - 1)).toBeLessThan(0.01);
   });
 });
 
