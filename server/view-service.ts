@@ -8,7 +8,7 @@ import { computeProfile, toDistribution, type ProfileLimits, type ProfileResult 
 import type { KernelService } from "./kernel/kernel-service.js";
 import { parseOrThrow } from "./validation.js";
 import { ClientError } from "./errors.js";
-import { spectraToXyz, type Xyz } from "../lib/colour/tristimulus.js";
+import { luminanceReciprocal, spectraToXyz, type Xyz } from "../lib/colour/tristimulus.js";
 import { renderXyz } from "../lib/colour/render.js";
 import { encodeLinear, outputSpace, type OutputSpaceId } from "../lib/colour/output-spaces.js";
 import { LUMINOUS_EFFICACY_LM_PER_W } from "../lib/bow/colour-profile.js";
@@ -253,8 +253,8 @@ function profileColours(result: ProfileResult, request: ProfileRequest, output: 
       : { referenceCdPerM2: output.referenceCdPerM2, peakBowCdPerM2: peakBow, meaning: `pixel luminance 1 = ${output.referenceCdPerM2} cd/m²` };
   const sunWhite = result.sunWhite;
   // Gamut mapping wants white at Y = 1: map relative to the profile's peak, then scale to the reference.
-  const relative = peakAll > 0 ? 1 / peakAll : 0;
-  const back = scaling.referenceCdPerM2 > 0 ? peakAll / scaling.referenceCdPerM2 : 0;
+  const relative = luminanceReciprocal(peakAll);
+  const back = luminanceReciprocal(luminanceReciprocal(peakAll) * scaling.referenceCdPerM2);
   let outOfGamut = 0;
   const render = (xyz: Float64Array, count: boolean) => {
     const r = renderXyz(
@@ -353,7 +353,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
       normalisation: scene.output.normalise,
       meaning: scaling.meaning,
       referenceCdPerM2: scaling.referenceCdPerM2,
-      factor: scaling.referenceCdPerM2 > 0 ? 1 / scaling.referenceCdPerM2 : 0,
+      factor: luminanceReciprocal(scaling.referenceCdPerM2),
       factorMeaning: "pixel value = absolute linear value (luminance in cd/m²) × factor",
       peakBowCdPerM2: scaling.peakBowCdPerM2,
     },

@@ -115,6 +115,17 @@ describe("POST /v1/profile", () => {
     expect(sky.status).toBe(200);
   });
 
+  it("a subnormal drop count (found by the property tests) gives finite colours and a finite scale factor (0), not Infinity", async () => {
+    // 5.5e-314 drops per m³: the peak luminance is a subnormal double and 1/peak overflows (IEEE 754 binary64).
+    const scenario = { drops: { kind: "monodisperse", radiusUm: 5, numberPerM3: 5.492806807e-314 }, spectral: { fromNm: 380, toNm: 460, stepNm: 20 }, method: "geometric" };
+    const profile = await request(app.server).post("/v1/profile").send({ ...scenario, angles: { fromDeg: 38, toDeg: 44, stepDeg: 1 }, output: { normalise: "peak" } });
+    expect(profile.status).toBe(200);
+    for (const v of [...profile.body.luminance, ...profile.body.xyz.flat(), ...profile.body.rgb.flat()]) expect(Number.isFinite(v)).toBe(true);
+    const sky = await request(app.server).post("/v1/sky?part=manifest").send({ scenario, sun: { azimuthDeg: 0, elevationDeg: 10 }, widthPx: 2, heightPx: 1 });
+    expect(sky.status).toBe(200);
+    expect(sky.body.scale.factor).toBe(0);
+  });
+
   it("422 for a full-Mie rain profile over the synchronous budget", async () => {
     const res = await request(app.server).post("/v1/profile").send({ method: "mie" });
     expect(res.status).toBe(422);

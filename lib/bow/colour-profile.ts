@@ -2,7 +2,7 @@
 // normalisation, and the output space.
 
 import type { WavelengthGrid } from "../spectra/grid.js";
-import { spectraToXyz, chromaticities, type Xyz } from "../colour/tristimulus.js";
+import { spectraToXyz, chromaticities, luminanceReciprocal, type Xyz } from "../colour/tristimulus.js";
 import type { Observer } from "../colour/observers.js";
 import { renderXyz, type WhiteHandling } from "../colour/render.js";
 import type { OutputSpaceId } from "../colour/output-spaces.js";
@@ -74,7 +74,7 @@ export function colourProfile(spectral: SpectralProfile, grid: WavelengthGrid, o
     luminanceCdPerM2[i] = xyzAbsolute[3 * i + 1];
     peak = Math.max(peak, luminanceCdPerM2[i]);
   }
-  const scale = options.normalise === "peak" ? (peak > 0 ? 1 / peak : 1) : 1;
+  const scale = options.normalise === "peak" ? luminanceReciprocal(peak) || 1 : 1;
   const xyz = xyzAbsolute.map((v) => v * scale);
   const luminance = new Float64Array(count);
   for (let i = 0; i < count; i++) luminance[i] = xyz[3 * i + 1];

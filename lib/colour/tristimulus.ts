@@ -61,6 +61,15 @@ export function spectraToXyz(grid: WavelengthGrid, spectra: Float64Array, observ
   return out;
 }
 
+/**
+ * 1/v for a luminance used as a scale; 0 for no light, and also for a subnormal v whose reciprocal overflows float64
+ * (such light, ~1e-308 of a unit, is black at any exposure; scaling by Infinity would only make NaN).
+ */
+export function luminanceReciprocal(v: number): number {
+  const r = 1 / v;
+  return v > 0 && Number.isFinite(r) ? r : 0;
+}
+
 /** x = X/(X+Y+Z), y = Y/(X+Y+Z) (CIE 015:2018 §7.3, Eq. 7.3); black gives NaN. */
 export function chromaticity(xyz: Xyz): Chromaticity {
   const sum = xyz.X + xyz.Y + xyz.Z;
