@@ -282,7 +282,9 @@ function curtainOf(scenario: ViewScenario, pathLengthM: number) {
   const tau = opticalThickness(quadrature.radiiUm, quadrature.weights, medium, pathLengthM);
   const k = (2 * Math.PI * medium.nAir) / (CURTAIN_WAVELENGTH_NM * 1e-3);
   const qExt = Array.from(quadrature.radiiUm, (r) => extinctionEfficiency(medium.mRe, medium.mIm, k * r));
-  return { opticalDepth: tau, transmittance: Math.exp(-tau), qExtRange: [Math.min(...qExt), Math.max(...qExt)], wavelengthNm: CURTAIN_WAVELENGTH_NM };
+  // No drops at all (every bin empty): no efficiency range to report, an empty one rather than ±Infinity.
+  const qExtRange = qExt.length > 0 ? [Math.min(...qExt), Math.max(...qExt)] : [];
+  return { opticalDepth: tau, transmittance: Math.exp(-tau), qExtRange, wavelengthNm: CURTAIN_WAVELENGTH_NM };
 }
 
 export interface PreparedOverlay {

@@ -289,6 +289,13 @@ describe("HTTP", () => {
     expect(m.antisolarPoint.elevationDeg).toBeCloseTo(-12, 9);
   });
 
+  it("a curtain with no drops (one empty histogram bin, found by the property tests) is clear, with no ±Infinity in the manifest", async () => {
+    const empty = { drops: { kind: "histogram", bins: [{ radiusUm: 1984, numberPerM3: 0 }] }, spectral: { fromNm: 380, toNm: 460, stepNm: 20 } };
+    const res = await request(app.server).post("/v1/view?part=manifest").send({ scenario: empty, camera: { widthPx: 4, heightPx: 2 } });
+    expect(res.status).toBe(200);
+    expect(res.body.layer.curtain).toMatchObject({ opticalDepth: 0, transmittance: 1, qExtRange: [] });
+  });
+
   it("rejects an HDR with alpha, and unknown scenario fields, with 400s naming the field", async () => {
     const hdr = await request(app.server).post("/v1/view?format=hdr").send({ camera: { widthPx: 8, heightPx: 8 } });
     expect(hdr.status).toBe(400);
