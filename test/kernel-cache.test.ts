@@ -1,9 +1,11 @@
 // The kernel cache: memory, disk and worker threads give the same numbers as a plain computation, compute each
 // row once, and survive corrupt files.
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
-import { mkdtemp, readdir, writeFile, readFile, rm } from "node:fs/promises";
+import { mkdir, mkdtemp, readdir, writeFile, readFile, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
-import { join } from "node:path";
+import { dirname, join } from "node:path";
+import { createHash } from "node:crypto";
+import { crc32 } from "node:zlib";
 import request from "supertest";
 import type { FastifyInstance } from "fastify";
 import { KernelService, type KernelCompute } from "../server/kernel/kernel-service.js";
@@ -96,6 +98,31 @@ describe("kernel cache", () => {
     const again = await computeProfile(body, { kernels: new KernelService({ memoryBudgetBytes: 2 ** 28, disk, compute }), limits });
     expect(counter.rows).toBeGreaterThanOrEqual(2);
     expect(Array.from(again.colour.xyz)).toEqual(Array.from(reference.colour.xyz));
+  });
+
+  it("disk entries: CRC-32 checked (version 2), version-1 files (SHA-256) still read, a flipped bit refused", async () => {
+    const store = new DiskStore(join(folder, "versions"));
+    const payload = Buffer.from(Float64Array.from({ length: 1000 }, (_, i) => Math.sin(i)).buffer);
+    await store.write("two", [payload.subarray(0, 3000), payload.subarray(3000)]);
+    const file = await readFile(store.pathOf("two"));
+    // CRC-32 check value of the ISO 3309 polynomial: crc32("123456789") = 0xCBF43926 (zlib's documentation).
+    expect(crc32("123456789")).toBe(0xcbf43926);
+    expect(file.readUInt32LE(4)).toBe(2);
+    expect(file.readUInt32LE(16)).toBe(crc32(payload));
+    expect(file.length - payload.length).toBe(24);
+    expect((await store.read("two"))!.equals(payload)).toBe(true);
+    // A version-1 file as the previous release wrote it: magic, version 1, u64 length, SHA-256 of the payload.
+    const v1 = Buffer.alloc(48);
+    v1.write("ANSK", 0, "latin1");
+    v1.writeUInt32LE(1, 4);
+    v1.writeBigUInt64LE(BigInt(payload.length), 8);
+    createHash("sha256").update(payload).digest().copy(v1, 16);
+    await mkdir(dirname(store.pathOf("one")), { recursive: true });
+    await writeFile(store.pathOf("one"), Buffer.concat([v1, payload]));
+    expect((await store.read("one"))!.equals(payload)).toBe(true);
+    file[24 + 4000] ^= 0x01;
+    await writeFile(store.pathOf("two"), file);
+    expect(await store.read("two")).toBeUndefined();
   });
 
   it("the memory cache stays within its byte budget", async () => {

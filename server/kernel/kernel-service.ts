@@ -293,13 +293,15 @@ export class KernelService {
 }
 
 /**
- * Pack payload: u32 header length, JSON {radii, rowLength}, then the rows as little-endian float64 — as pieces
- * (views of the rows, not copies) for the store to write one after another.
+ * Pack payload: u32 header length, JSON {radii, rowLength} padded with spaces so that the rows start 8-byte aligned
+ * (the disk store's header is 48 bytes), then the rows as little-endian float64 — as pieces (views of the rows,
+ * not copies) for the store to write one after another.
  */
 function encodePack(rows: Map<number, Float64Array>): Buffer[] {
   const rowLength = rows.values().next().value!.length;
   const radii = [...rows.keys()].sort((a, b) => a - b);
-  const header = Buffer.from(JSON.stringify({ radii, rowLength }));
+  const json = JSON.stringify({ radii, rowLength });
+  const header = Buffer.from(json.padEnd(json.length + ((8 - ((4 + json.length) % 8)) % 8), " "));
   const length = Buffer.alloc(4);
   length.writeUInt32LE(header.length, 0);
   return [length, header, ...radii.map((radius) => {
@@ -308,13 +310,22 @@ function encodePack(rows: Map<number, Float64Array>): Buffer[] {
   })];
 }
 
-/** The rows of a pack payload, as views of one aligned copy of its data (one allocation per pack, not per row). */
+/**
+ * The rows of a pack payload, as views of its own bytes when they are 8-byte aligned in memory (a file read whole
+ * into its own buffer), else of one aligned copy: no allocation per row, and none per pack when aligned.
+ */
 function decodePack(payload: Buffer): Map<number, Float64Array> {
   const length = payload.readUInt32LE(0);
   const { radii, rowLength } = JSON.parse(payload.subarray(4, 4 + length).toString("utf8")) as { radii: number[]; rowLength: number };
   const start = 4 + length;
-  const data = new Float64Array(radii.length * rowLength);
-  new Uint8Array(data.buffer).set(payload.subarray(start, start + data.byteLength));
+  const count = radii.length * rowLength;
+  let data: Float64Array;
+  if ((payload.byteOffset + start) % 8 === 0) {
+    data = new Float64Array(payload.buffer, payload.byteOffset + start, count);
+  } else {
+    data = new Float64Array(count);
+    new Uint8Array(data.buffer).set(payload.subarray(start, start + data.byteLength));
+  }
   const out = new Map<number, Float64Array>();
   radii.forEach((radius, r) => out.set(radius, data.subarray(r * rowLength, (r + 1) * rowLength)));
   return out;
