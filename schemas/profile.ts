@@ -139,6 +139,12 @@ export const profileFieldsSchema = z
         }
       }),
     method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
+    mieSizesPerDecade: z
+      .literal(["auto", 64, 128, 256, 512, 1024])
+      .default("auto")
+      .describe(
+        "Drop sizes per decade of radius at which Lorenz–Mie rows are evaluated: the radius nodes stay 64 per decade, and each Mie node's row is the mean over sizes/64 radii across its cell, which averages the Mie ripple. auto: 64 when Mie-served drops carry under half the cross-section (rain), else enough for the ripple within the interactive budget; meta.radii.rule says what was chosen and why",
+      ),
     polariserDeg: number(-180, 180, "Linear polariser's axis to the bow's tangent, degrees (0 strengthens the bow)").optional(),
     pathLengthM: number(1, 100000, "Path length through the rain along the line of sight, m").default(1000),
     output: outputSchema.default({ space: "srgb", gamut: "css4", normalise: "peak", white: "sun" }),

@@ -19,6 +19,8 @@ import { colourProfile, type ColourProfile } from "../lib/bow/colour-profile.js"
 import { findBows } from "../lib/bow/bow-peaks.js";
 import { engineChooser, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../lib/bow/engine-choice.js";
 import type { DropEngine } from "../lib/bow/volume-scattering.js";
+import { chooseRadiusDensity, type DensityChoice } from "../lib/bow/radius-density.js";
+import type { CellAverage } from "../lib/bow/cell-average.js";
 import type { WavelengthGrid } from "../lib/spectra/grid.js";
 import { ClientError } from "./errors.js";
 
@@ -101,6 +103,19 @@ export interface ProfileResolution {
   thinning?: readonly ThinningLevel[];
 }
 
+/**
+ * Mie term-angles "auto" may spend on the radius density: ~1.7 s of this machine's two cores at the measured
+ * ~1.5e9 term-angles/s (BENCHMARKS.md, P3 with 2 workers), so that a cold fog profile stays interactive.
+ */
+export const AUTO_DENSITY_BUDGET_TERM_ANGLES = 2.5e9;
+
+/** Lorenz–Mie sizes per decade: a convergence study's own node density (one size per node), the request's own, or "auto". */
+function radiusDensityFor(request: ProfileRequest, resolution: ProfileResolution, auto: Parameters<typeof chooseRadiusDensity>[0]): DensityChoice {
+  if (resolution.nodesPerDecade !== undefined) return { sizesPerDecade: resolution.nodesPerDecade as DensityChoice["sizesPerDecade"], rule: `fixed by the caller: ${resolution.nodesPerDecade} nodes per decade, one size each` };
+  if (request.mieSizesPerDecade !== "auto") return { sizesPerDecade: request.mieSizesPerDecade, rule: `requested: ${request.mieSizesPerDecade} Lorenz–Mie sizes per decade` };
+  return chooseRadiusDensity(auto);
+}
+
 export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
   const { limits } = deps;
   const started = performance.now();
@@ -117,7 +132,34 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   if (/extrapolated/i.test(waterSource)) warnings.push(`water index extrapolated: ${waterSource}`);
 
   const distribution = toDistribution(request.drops);
+  const engine = engineChooser(request.method);
+  const count = angleCount(request.angles);
+  const angles = { fromDeg: request.angles.fromDeg, stepDeg: request.angles.stepDeg, count };
+  const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
+  const span = profileSpan(angles, request.sun.discDeg, h);
   const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
+  // Lorenz–Mie rows averaged over each node's radius cell at sizesPerDecade (cell-average.ts, radius-density.ts).
+  const averagesAt = (sizesPerDecade: number) =>
+    Array.from(quadrature.radiiUm, (r, i): CellAverage | undefined => {
+      const samples = Math.round(sizesPerDecade / quadrature.nodesPerDecade);
+      const widthLn = quadrature.cellWidthsLn?.[i];
+      return engine(r) === "mie" && samples > 1 && widthLn !== undefined ? { samples, widthLn } : undefined;
+    });
+  // Kernel tasks compute only the span's lattice points (KernelRequest.within), so that is what cost estimates count.
+  const mieCost = (averages: (CellAverage | undefined)[]) => estimateMieTermAngles(quadrature.radiiUm, wl, span.last - span.first + 1, engine, averages);
+  const density = radiusDensityFor(request, resolution, {
+    base: quadrature,
+    engine,
+    nAir: media[0].nAir,
+    cost: (d) => mieCost(averagesAt(d)),
+    budgetTermAngles: Math.min(limits.maxTermAngles, AUTO_DENSITY_BUDGET_TERM_ANGLES),
+  });
+  if (density.cappedFrom) {
+    warnings.push(
+      `the Mie ripple of these drops wants about ${density.cappedFrom} sizes per decade; auto used ${density.sizesPerDecade} to stay interactive, so colours may be off by ΔE2000 1–2 where the bow is faint: ask mieSizesPerDecade ${density.cappedFrom} (as a job, POST /v1/jobs, if it is too costly)`,
+    );
+  }
+  const averages = averagesAt(density.sizesPerDecade);
   if (quadrature.cappedAtMaxRadius && quadrature.crossSectionFractionAboveCap > 1e-3) {
     warnings.push(
       `drops above ${quadrature.maxRadiusUm} µm radius (${(100 * quadrature.crossSectionFractionAboveCap).toFixed(1)} % of the cross-section) are left out: such drops break up in nature`,
@@ -134,14 +176,8 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     warnings.push("drops above 1 mm radius flatten as they fall (Beard & Chuang 1987); the sphere model overstates their bow");
   }
 
-  const engine = engineChooser(request.method);
-  const count = angleCount(request.angles);
-  const angles = { fromDeg: request.angles.fromDeg, stepDeg: request.angles.stepDeg, count };
-  const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
-  const span = profileSpan(angles, request.sun.discDeg, h);
   const blocks = blocksOf(span);
-  // Kernel tasks compute only the span's lattice points (KernelRequest.within), so that is what the guard counts.
-  const cost = estimateMieTermAngles(quadrature.radiiUm, wl, span.last - span.first + 1, engine);
+  const cost = mieCost(averages);
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",
@@ -155,7 +191,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
 
   const engines = Array.from(quadrature.radiiUm, engine);
   const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, blocks, within: { first: span.first, last: span.last } }, deps.signal);
+  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, averages, blocks, within: { first: span.first, last: span.last } }, deps.signal);
   const kernelMs = performance.now() - kernelStarted;
   const steps = latticeProfileSteps({
     angles,
@@ -216,6 +252,8 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
       fromUm: quadrature.lowerUm,
       toUm: quadrature.upperUm,
       nodesPerDecade: quadrature.nodesPerDecade,
+      mieSizesPerDecade: density.sizesPerDecade,
+      rule: density.rule,
     },
     sun: { scale: sun.scaleNote, attenuated: sun.attenuated },
     water: waterSource,

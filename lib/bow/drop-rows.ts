@@ -7,6 +7,9 @@ import { allocateAmplitudes, type MieAmplitudes } from "../mie/types.js";
 import { rayOpticsBins, type RayBins } from "./ray-bins.js";
 import { addUniformBowBins, uniformBowTable, type UniformBowTable } from "./airy-bins.js";
 import { AIRY_BOW_ORDERS, RAY_ORDERS, type DropEngine } from "./volume-scattering.js";
+import { cellSampleRadiusUm, type CellAverage } from "./cell-average.js";
+
+export type { CellAverage } from "./cell-average.js";
 
 export interface DropRowContext {
   mRe: number;
@@ -63,20 +66,30 @@ export function dropRowContext(
   };
 }
 
-/** Writes |S1|², |S2|² (Bohren–Huffman convention) into perp, par; returns the Mie term-angles spent. */
-export function dropRow(ctx: DropRowContext, engine: DropEngine, radiusUm: number, perp: Float64Array, par: Float64Array): number {
+/**
+ * Writes |S1|², |S2|² (Bohren–Huffman convention) into perp, par; returns the Mie term-angles spent. With an
+ * average (Lorenz–Mie only), the mean of |S|² over the cell's sizes (cell-average.ts).
+ */
+export function dropRow(ctx: DropRowContext, engine: DropEngine, radiusUm: number, perp: Float64Array, par: Float64Array, average?: CellAverage): number {
   const nTheta = ctx.thetaDeg.length;
   const x = ctx.waveNumberPerM * radiusUm * 1e-6;
   perp.fill(0);
   par.fill(0);
   if (engine === "mie") {
-    const c = mieCoefficientsScratch(ctx.mRe, ctx.mIm, x);
-    const a = mieAmplitudes(c, ctx.cosTheta, ctx.amplitudes);
-    for (let j = 0; j < nTheta; j++) {
-      perp[j] = a.s1Re[j] * a.s1Re[j] + a.s1Im[j] * a.s1Im[j];
-      par[j] = a.s2Re[j] * a.s2Re[j] + a.s2Im[j] * a.s2Im[j];
+    const samples = average && average.samples > 1 ? average.samples : 1;
+    const share = 1 / samples;
+    let termAngles = 0;
+    for (let s = 0; s < samples; s++) {
+      const xs = samples === 1 ? x : ctx.waveNumberPerM * cellSampleRadiusUm(radiusUm, average!, s) * 1e-6;
+      const c = mieCoefficientsScratch(ctx.mRe, ctx.mIm, xs);
+      const a = mieAmplitudes(c, ctx.cosTheta, ctx.amplitudes);
+      for (let j = 0; j < nTheta; j++) {
+        perp[j] += share * (a.s1Re[j] * a.s1Re[j] + a.s1Im[j] * a.s1Im[j]);
+        par[j] += share * (a.s2Re[j] * a.s2Re[j] + a.s2Im[j] * a.s2Im[j]);
+      }
+      termAngles += c.nTerms * nTheta;
     }
-    return c.nTerms * nTheta;
+    return termAngles;
   }
   if (engine === "geometric") {
     addScaled(perp, par, ctx.raysAll!, x * x);

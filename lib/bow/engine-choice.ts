@@ -2,6 +2,7 @@
 
 import type { DropEngine } from "./volume-scattering.js";
 import { mieTermCount } from "../mie/termCount.js";
+import { cellSampleRadiusUm, type CellAverage } from "./cell-average.js";
 
 export type ProfileMethod = "auto" | "mie" | "airy" | "geometric";
 
@@ -41,19 +42,23 @@ export function engineChooser(method: ProfileMethod): (radiusUm: number) => Drop
   }
 }
 
-/** Mie terms × angles a profile would cost: Σ over Mie radii and wavelengths of terms × angles. */
+/** Mie terms × angles a profile would cost: Σ over Mie radii (each size of a cell average) and wavelengths. */
 export function estimateMieTermAngles(
   radiiUm: Float64Array,
   wavelengthsNm: Float64Array,
   internalAngles: number,
   engine: (radiusUm: number) => DropEngine,
+  averages: readonly (CellAverage | undefined)[] = [],
 ): number {
   let total = 0;
-  for (const r of radiiUm) {
-    if (engine(r) !== "mie") continue;
-    for (const w of wavelengthsNm) {
-      total += mieTermCount((2 * Math.PI * r * 1000) / w) * internalAngles;
+  radiiUm.forEach((r, i) => {
+    if (engine(r) !== "mie") return;
+    const average = averages[i];
+    const samples = average && average.samples > 1 ? average.samples : 1;
+    for (let s = 0; s < samples; s++) {
+      const radiusUm = samples === 1 ? r : cellSampleRadiusUm(r, average!, s);
+      for (const w of wavelengthsNm) total += mieTermCount((2 * Math.PI * radiusUm * 1000) / w) * internalAngles;
     }
-  }
+  });
   return total;
 }

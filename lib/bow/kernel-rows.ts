@@ -3,12 +3,13 @@
 
 import type { DropEngine } from "./volume-scattering.js";
 import { blockRange } from "./kernel-grid.js";
-import { dropRow, dropRowContext } from "./drop-rows.js";
+import { rowVariant } from "./cell-average.js";
+import { dropRow, dropRowContext, type CellAverage } from "./drop-rows.js";
 
 export interface KernelRowsInput {
   medium: { wavelengthNm: number; mRe: number; mIm: number; nAir: number };
   h: number;
-  items: { radiusUm: number; engine: DropEngine; blocks: number[] }[];
+  items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage }[];
   /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
   within?: { first: number; last: number };
 }
@@ -45,7 +46,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   const packRows = new Map<string, { buffer: Float64Array; used: number }>();
   for (const item of items) {
     for (const b of item.blocks) {
-      const key = `${item.engine}|${b}`;
+      const key = `${rowVariant(item.engine, item.average)}|${b}`;
       const entry = packRows.get(key) ?? { buffer: new Float64Array(0), used: 0 };
       entry.used += 2 * positions.get(b)!.length;
       packRows.set(key, entry);
@@ -57,11 +58,11 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   }
   let mieTermAngles = 0;
   const rows = items.map((item) => {
-    mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par);
+    mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
     return item.blocks.map((b) => {
       const at = positions.get(b)!;
       const count = at.length;
-      const pack = packRows.get(`${item.engine}|${b}`)!;
+      const pack = packRows.get(`${rowVariant(item.engine, item.average)}|${b}`)!;
       const row = pack.buffer.subarray(pack.used, pack.used + 2 * count);
       pack.used += 2 * count;
       for (let k = 0; k < count; k++) {

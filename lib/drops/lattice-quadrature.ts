@@ -47,17 +47,21 @@ function thinQuadrature(q: RadiusQuadrature, levels: readonly ThinningLevel[]): 
   const cross = Array.from(q.radiiUm, (r, i) => q.weights[i] * r * r);
   const peak = Math.max(...cross);
   const merged = new Map<number, number>();
+  const strides = new Map<number, number>();
   q.radiiUm.forEach((r, i) => {
     const index = Math.round(Math.log10(r) * npd);
     let stride = 1;
     for (const level of levels) if (cross[i] < level.belowPeakShare * peak) stride = Math.max(stride, level.stride);
     const node = Math.round(index / stride) * stride;
     merged.set(node, (merged.get(node) ?? 0) + cross[i]);
+    strides.set(node, Math.max(strides.get(node) ?? 1, stride));
   });
   const nodes = [...merged.keys()].sort((a, b) => a - b);
   const radiiUm = Float64Array.from(nodes, (i) => latticeRadiusUm(i, npd));
   const weights = Float64Array.from(nodes, (i, k) => merged.get(i)! / (radiiUm[k] * radiiUm[k]));
-  return { ...q, radiiUm, weights };
+  // A merged node stands for its stride's cells (the widest stride among those merged into it).
+  const cellWidthsLn = Float64Array.from(nodes, (i) => (strides.get(i)! * Math.LN10) / npd);
+  return { ...q, radiiUm, weights, cellWidthsLn };
 }
 
 function fineLatticeQuadrature(dist: DropSizeDistribution, options: RadiusQuadratureOptions): RadiusQuadrature {
@@ -78,7 +82,8 @@ function fineLatticeQuadrature(dist: DropSizeDistribution, options: RadiusQuadra
       weights.push(w);
     }
   }
-  return { ...base, radiiUm: Float64Array.from(radii), weights: Float64Array.from(weights), nodesPerDecade: npd };
+  const cellWidthsLn = new Float64Array(radii.length).fill(Math.LN10 / npd);
+  return { ...base, radiiUm: Float64Array.from(radii), weights: Float64Array.from(weights), nodesPerDecade: npd, cellWidthsLn };
 }
 
 function histogramMass(dist: Extract<DropSizeDistribution, { kind: "histogram" }>, lo: number, hi: number): number {

@@ -26,6 +26,8 @@ export interface RadiusQuadrature {
   readonly maxRadiusUm: number;
   /** Share of ∫ r² n(r) dr above maxRadiusUm, left out of the quadrature. */
   readonly crossSectionFractionAboveCap: number;
+  /** Width in ln r of the radius cell each node stands for (lattice quadratures); absent for a single drop size. */
+  readonly cellWidthsLn?: Float64Array;
 }
 
 // Dense log grid for locating quantiles of continuous laws: 1 nm to 10 cm radius, 400 points per decade;

@@ -8,6 +8,7 @@ import { ByteLru } from "./byte-lru.js";
 import type { DiskStore } from "./disk-store.js";
 import type { KernelTask, KernelTaskResult, Medium } from "./kernel-types.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
+import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
 export const KERNEL_VERSION = 4;
@@ -19,6 +20,8 @@ export interface KernelRequest {
   media: Medium[];
   radiiUm: Float64Array;
   engines: DropEngine[];
+  /** Per radius: Lorenz–Mie rows averaged over the node's radius cell (undefined: the node's own size). */
+  averages?: (CellAverage | undefined)[];
   blocks: number[];
   /** Lattice indices (inclusive) the caller reads: rows need to be computed only there. */
   within: { first: number; last: number };
@@ -89,8 +92,9 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
   return merged;
 }
 
-function packKey(m: Medium, engine: DropEngine, h: number, block: number): string {
-  return `v${KERNEL_VERSION}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${engine}|${h}|${block}`;
+/** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
+function packKey(m: Medium, variant: string, h: number, block: number): string {
+  return `v${KERNEL_VERSION}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
 }
 
 export class KernelService {
@@ -118,6 +122,9 @@ export class KernelService {
 
   async rows(request: KernelRequest, signal?: AbortSignal): Promise<KernelRows> {
     const { h, media, radiiUm, engines, blocks, within } = request;
+    const averages = request.averages ?? [];
+    // Rows of one engine with different cell averages are different rows: packs are per variant.
+    const variants = Array.from(radiiUm, (_, i) => rowVariant(engines[i], averages[i]));
     // The samples of each block the caller reads: k0..k1 in the block, first..last on the lattice.
     const need = blocks.map((b) => {
       const { first, count } = blockRange(b, h);
@@ -126,20 +133,20 @@ export class KernelService {
       return { first: lo, last: hi, k0: lo - first, k1: hi - first };
     });
     const stats: KernelStats = { memoryHits: 0, diskHits: 0, computed: 0, mieTermAngles: 0 };
-    const engineSet = [...new Set(engines)];
+    const variantSet = [...new Set(variants)];
     // found[l][blockIndex]: radius → row, whatever engine served it (each radius has one engine).
     const found = media.map(() => blocks.map(() => new Map<number, Float64Array>()));
-    const keys = media.map((m) => blocks.map((b) => new Map(engineSet.map((e) => [e, packKey(m, e, h, b)]))));
+    const keys = media.map((m) => blocks.map((b) => new Map(variantSet.map((v) => [v, packKey(m, v, h, b)]))));
 
     const lookMemory = () => {
       const missing: [number, number, number][] = [];
       for (let l = 0; l < media.length; l++) {
         for (let bi = 0; bi < blocks.length; bi++) {
           const have = found[l][bi];
-          const packs = new Map(engineSet.map((e) => [e, this.memory.get(keys[l][bi].get(e)!)]));
+          const packs = new Map(variantSet.map((v) => [v, this.memory.get(keys[l][bi].get(v)!)]));
           for (let i = 0; i < radiiUm.length; i++) {
             if (have.has(radiiUm[i])) continue;
-            const row = packs.get(engines[i])?.rows.get(radiiUm[i]);
+            const row = packs.get(variants[i])?.rows.get(radiiUm[i]);
             if (row && covers(row, need[bi].k0, need[bi].k1)) have.set(radiiUm[i], row);
             else missing.push([l, i, bi]);
           }
@@ -151,7 +158,7 @@ export class KernelService {
     let missing = lookMemory();
     stats.memoryHits = media.length * radiiUm.length * blocks.length - missing.length;
     if (missing.length && this.options.disk) {
-      const packs = new Set(missing.map(([l, i, bi]) => keys[l][bi].get(engines[i])!));
+      const packs = new Set(missing.map(([l, i, bi]) => keys[l][bi].get(variants[i])!));
       await Promise.all([...packs].map((p) => this.loadPack(p)));
       const before = missing.length;
       missing = lookMemory();
@@ -163,7 +170,7 @@ export class KernelService {
     const waits: Promise<void>[] = [];
     const toCompute = new Map<number, Map<number, number[]>>();
     for (const [l, i, bi] of missing) {
-      const pending = this.inflight.get(keys[l][bi].get(engines[i])!)?.get(radiiUm[i]);
+      const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
       if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
         waits.push(pending.task.then((result) => void found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block])));
         continue;
@@ -186,14 +193,14 @@ export class KernelService {
     const toSave: [string, Map<number, Float64Array>][] = [];
     for (const [l, byRadius] of toCompute) {
       const indices = [...byRadius.keys()];
-      const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
+      const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], average: averages[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
       const computing = this.options.compute({ medium: media[l], h, items, within }, stop.signal);
       computing.catch(() => undefined);
       // The task's rows grouped by the pack they belong to (one wavelength, so one block per pack).
       const byPack = new Map<string, { bi: number; rows: [radiusUm: number, item: number, block: number][] }>();
       indices.forEach((i, item) => {
         byRadius.get(i)!.forEach((bi, block) => {
-          const pack = keys[l][bi].get(engines[i])!;
+          const pack = keys[l][bi].get(variants[i])!;
           let entry = byPack.get(pack);
           if (!entry) byPack.set(pack, (entry = { bi, rows: [] }));
           entry.rows.push([radiiUm[i], item, block]);

@@ -1,4 +1,5 @@
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
+import type { CellAverage } from "../../lib/bow/drop-rows.js";
 
 /** Optical constants of the drop material at one wavelength, all a kernel row depends on besides size and angles. */
 export interface Medium {
@@ -12,6 +13,8 @@ export interface KernelTaskItem {
   radiusUm: number;
   engine: DropEngine;
   blocks: number[];
+  /** Lorenz–Mie rows only: the row is the mean over sizes spread across the node's radius cell. */
+  average?: CellAverage;
 }
 
 /** One wavelength, several drops, each over some lattice blocks: the unit of work sent to a worker. */
