@@ -136,8 +136,10 @@ describe("POST /v1/profile", () => {
 
   it("the cost guard's estimate is the Mie work a cold profile then does (within 1 %)", async () => {
     // Fog (all drops below the Airy radius) over a 6° window: the kernel computes only the window's lattice points,
-    // and the guard must count those, not whole 5° blocks, or it refuses requests it could serve.
-    const body = profileRequestSchema.parse({ drops: { kind: "lognormal", medianRadiusUm: 8, geometricSd: 1.3, totalNumberPerM3: 1e8 }, angles: { fromDeg: 31, toDeg: 37, stepDeg: 0.1 }, spectral: { fromNm: 400, toNm: 700, stepNm: 20 } });
+    // and the guard must count those, not whole 5° blocks, or it refuses requests it could serve; each Mie row is
+    // the mean of 4 sizes (256 per decade over 64 nodes), which the guard must count too. The density is fixed
+    // here because "auto" chooses it within the limit, and the refused run's limit is 1.
+    const body = profileRequestSchema.parse({ drops: { kind: "lognormal", medianRadiusUm: 8, geometricSd: 1.3, totalNumberPerM3: 1e8 }, angles: { fromDeg: 31, toDeg: 37, stepDeg: 0.1 }, spectral: { fromNm: 400, toNm: 700, stepNm: 20 }, mieSizesPerDecade: 256 });
     const fresh = () => new KernelService({ memoryBudgetBytes: 2 ** 28, compute: createInlinePool().compute });
     const refused = await computeProfile(body, { kernels: fresh(), limits: { maxTermAngles: 1 } }).catch((e: unknown) => e);
     expect(refused).toBeInstanceOf(ClientError);
