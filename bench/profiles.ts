@@ -43,10 +43,17 @@ export interface ProfileWorkload {
 export const P1: ProfileWorkload = { name: "P1 default profile `{}` (Marshall–Palmer 2 mm/h, auto)", body: {}, workers: [2], warm: true };
 export const P1_DISK: ProfileWorkload = { ...P1, name: "P1 default profile `{}`, with the disk tier (CACHE_DIR)", warm: false, disk: true };
 export const P2: ProfileWorkload = {
-  name: "P2 fog, lognormal 10 µm (σg 1.4), full Mie, ψ 20–60° step 0.2°",
+  name: "P2 fog, lognormal 10 µm (σg 1.4), full Mie, ψ 20–60° step 0.2° (auto: 512 Mie sizes per decade)",
   body: { drops: { kind: "lognormal", medianRadiusUm: 10, geometricSd: 1.4, totalNumberPerM3: 1e8 }, method: "mie", angles: { fromDeg: 20, toDeg: 60, stepDeg: 0.2 } },
   workers: [2],
   warm: true,
+};
+/** P2 with one size per radius node, as before the ripple averaging: what the averaging costs. */
+export const P2_ONE_SIZE: ProfileWorkload = {
+  name: "P2 with one Mie size per radius node (mieSizesPerDecade 64; ripple not averaged)",
+  body: { ...P2.body, mieSizesPerDecade: 64 },
+  workers: [2],
+  warm: false,
 };
 export const P3: ProfileWorkload = {
   name: "P3 rain, Marshall–Palmer 25 mm/h (radii to the 3 mm cap), full Mie",

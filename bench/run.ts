@@ -3,7 +3,7 @@
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import { cpus, loadavg, totalmem } from "node:os";
 import { benchMie, mieKernelName } from "./mie.js";
-import { benchProfile, P1, P1_DISK, P2, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
+import { benchProfile, P1, P1_DISK, P2, P2_ONE_SIZE, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
 import { benchHttp } from "./http.js";
 import { repoPath } from "../server/resources.js";
 
@@ -22,7 +22,7 @@ for (const r of mie) {
   );
 }
 const profiles: ProfileBenchRow[] = [];
-for (const w of quick ? [P1, P1_DISK, P2] : [P1, P1_DISK, P2, P3]) {
+for (const w of quick ? [P1, P1_DISK, P2, P2_ONE_SIZE] : [P1, P1_DISK, P2, P2_ONE_SIZE, P3]) {
   for (const r of await benchProfile(w, { first: w === P1 })) {
     profiles.push(r);
     console.log(

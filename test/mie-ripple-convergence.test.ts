@@ -31,9 +31,10 @@ describe("Mie ripple averaging over radius cells", () => {
     const dense = await profileOf(fog, { nodesPerDecade: 1024, thinning: [] });
     const plain = await profileOf({ ...fog, mieSizesPerDecade: 64 });
     const auto = await profileOf(fog);
-    expect(auto.meta.radii.mieSizesPerDecade).toBe(256);
-    expect(auto.meta.radii.nodesPerDecade).toBe(64);
-    expect(auto.meta.radii.rule).toMatch(/^auto: 256 Lorenz–Mie sizes per decade, 0\.6\d apart in size parameter/);
+    const radii = auto.meta.radii as { mieSizesPerDecade: number; nodesPerDecade: number; rule: string };
+    expect(radii.mieSizesPerDecade).toBe(256);
+    expect(radii.nodesPerDecade).toBe(64);
+    expect(radii.rule).toMatch(/^auto: 256 Lorenz–Mie sizes per decade, 0\.6\d apart in size parameter/);
     const a = stats(auto, dense);
     const p = stats(plain, dense);
     console.log(`fog 5 µm: worst/mean ΔE2000 against 1024 sizes per decade: one size per node ${p.worst.toFixed(3)}/${p.mean.toFixed(3)}, auto ${a.worst.toFixed(3)}/${a.mean.toFixed(3)}`);
@@ -70,6 +71,8 @@ describe("Mie ripple averaging over radius cells", () => {
     expect(chooseRadiusDensity({ base: rain, engine, nAir: 1.000277, cost: () => 0, budgetTermAngles: 1 }).sizesPerDecade).toBe(64);
     // Δx = x ln10 / density ≈ 0.6 at the nearest density: x 29 → 128, x 72 → 256, x 142 → 512 (AUTO_MAX_DENSITY).
     expect([29, 72, 142, 2000].map(rippleDensity)).toEqual([128, 256, 512, 512]);
+    const forcedRain = latticeRadiusQuadrature({ kind: "marshall-palmer", rainRateMmPerH: 2 });
+    expect(chooseRadiusDensity({ base: forcedRain, engine: engineChooser("mie"), nAir: 1.000277, cost: () => 0, budgetTermAngles: Infinity }).rule).toMatch(/above the 1000 up to which/);
     const cloud = latticeRadiusQuadrature({ kind: "lognormal", medianRadiusUm: 40, geometricSd: 1.3, totalNumberPerM3: 1e6 });
     const held = chooseRadiusDensity({ base: cloud, engine, nAir: 1.000277, cost: (d) => d * 1e7, budgetTermAngles: 1.5e9 });
     expect(held.sizesPerDecade).toBe(128);
