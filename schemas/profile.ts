@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { angleRangeSchema } from "./angles.js";
 import { waterSchema } from "./water.js";
+import { RADIUS_DENSITIES } from "../lib/bow/radius-density.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 
@@ -140,7 +141,7 @@ export const profileFieldsSchema = z
       }),
     method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
     mieSizesPerDecade: z
-      .literal(["auto", 64, 128, 256, 512, 1024])
+      .literal(["auto", ...RADIUS_DENSITIES])
       .default("auto")
       .describe(
         "Drop sizes per decade of radius at which Lorenz–Mie rows are evaluated: the radius nodes stay 64 per decade, and each Mie node's row is the mean over sizes/64 radii across its cell, which averages the Mie ripple. auto: 64 when Mie-served drops carry under half the cross-section (rain), else enough for the ripple within the interactive budget; meta.radii.rule says what was chosen and why",

@@ -6,6 +6,8 @@ import { chromium, type Browser, type Page } from "playwright-core";
 import sharp from "sharp";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../server/app.js";
+import { AUTO_AIRY_FROM_RADIUS_UM } from "../lib/bow/engine-choice.js";
+import { RADIUS_DENSITIES } from "../lib/bow/radius-density.js";
 
 // The explorer page in a real browser (Debian's chromium), served by the real app with the page's routes
 // registered as server/app.ts registers them.
@@ -42,6 +44,16 @@ afterAll(async () => {
 });
 
 describe("static files of the page", () => {
+  it("state the service's own auto switch radius and offer every mieSizesPerDecade the schema allows", () => {
+    const page = readFileSync(fileURLToPath(new URL("../web/index.html", import.meta.url)), "utf8");
+    const script = readFileSync(fileURLToPath(new URL("../web/request-body.js", import.meta.url)), "utf8");
+    expect(page).toContain(`Auto: Mie below ${AUTO_AIRY_FROM_RADIUS_UM} µm, else Airy`);
+    expect(script).toContain(`const AUTO_AIRY_FROM_RADIUS_UM = ${AUTO_AIRY_FROM_RADIUS_UM};`);
+    const select = /<select id="mie-sizes" name="mieSizesPerDecade">([\s\S]*?)<\/select>/.exec(page)![1];
+    const offered = [...select.matchAll(/value="([^"]+)"/g)].map((m) => (m[1] === "auto" ? "auto" : Number(m[1])));
+    expect(offered).toEqual(["auto", ...RADIUS_DENSITIES]);
+  });
+
   it("serves the page with a same-origin-only Content-Security-Policy and the right content types", async () => {
     const page = await app.inject({ method: "GET", url: "/" });
     expect(page.statusCode).toBe(200);

@@ -8,6 +8,7 @@ const DEFAULTS = {
   observer: "cie1931-2",
   angles: { fromDeg: 30, toDeg: 60, stepDeg: 0.1 },
   method: "auto",
+  mieSizesPerDecade: "auto",
   pathLengthM: 1000,
   output: { space: "srgb", gamut: "css4", normalise: "peak", white: "sun" },
 };
@@ -54,6 +55,7 @@ export function writeForm(form, body) {
   setValue(form, "limbDarkening", sun.limbDarkening);
 
   setValue(form, "method", body.method ?? DEFAULTS.method);
+  setValue(form, "mieSizesPerDecade", body.mieSizesPerDecade ?? DEFAULTS.mieSizesPerDecade);
   setValue(form, "observer", body.observer ?? DEFAULTS.observer);
   const output = { ...DEFAULTS.output, ...body.output };
   for (const name of ["space", "gamut", "normalise", "white"]) setValue(form, name, output[name]);
@@ -115,6 +117,7 @@ export function readForm(form, stepNm) {
     // Sea water has a refractive index from 400 to 700 nm only (Quan & Fry 1995), so the range narrows with salt.
     spectral: salty ? { fromNm: 400, toNm: 700, stepNm } : { fromNm: 380, toNm: 780, stepNm },
     method: field(form, "method").value,
+    mieSizesPerDecade: field(form, "mieSizesPerDecade").value === "auto" ? "auto" : Number(field(form, "mieSizesPerDecade").value),
     pathLengthM: numberOf(form, "pathLengthM"),
     output: {
       space: field(form, "space").value,
@@ -171,8 +174,8 @@ function typicalRadiusUm(drops) {
   return 0;
 }
 
-/** Radius from which "auto" switches to Airy theory; the service's measured threshold (meta.method.engines). */
-const AUTO_AIRY_FROM_RADIUS_UM = 60;
+/** Radius from which "auto" switches to Airy theory: the service's measured threshold (lib/bow/engine-choice.ts). */
+const AUTO_AIRY_FROM_RADIUS_UM = 100;
 
 /** A plain-language cost note for the body about to be sent, using the last measured render time. */
 export function costNote(body, last) {
