@@ -139,12 +139,13 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const span = profileSpan(angles, request.sun.discDeg, h);
   const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
   // Lorenz–Mie rows averaged over each node's radius cell at sizesPerDecade (cell-average.ts, radius-density.ts).
-  const averagesAt = (sizesPerDecade: number) =>
-    Array.from(quadrature.radiiUm, (r, i): CellAverage | undefined => {
-      const samples = Math.round(sizesPerDecade / quadrature.nodesPerDecade);
+  const averagesAt = (sizesPerDecade: number) => {
+    const samples = Math.round(sizesPerDecade / quadrature.nodesPerDecade);
+    return Array.from(quadrature.radiiUm, (r, i): CellAverage | undefined => {
       const widthLn = quadrature.cellWidthsLn?.[i];
       return engine(r) === "mie" && samples > 1 && widthLn !== undefined ? { samples, widthLn } : undefined;
     });
+  };
   // Kernel tasks compute only the span's lattice points (KernelRequest.within), so that is what cost estimates count.
   const mieCost = (averages: (CellAverage | undefined)[]) => estimateMieTermAngles(quadrature.radiiUm, wl, span.last - span.first + 1, engine, averages);
   const density = radiusDensityFor(request, resolution, {

@@ -78,5 +78,8 @@ describe("Mie ripple averaging over radius cells", () => {
     expect(held.sizesPerDecade).toBe(128);
     expect(held.cappedFrom).toBe(1024);
     expect(held.rule).toMatch(/beyond the interactive budget/);
+    const unbounded = chooseRadiusDensity({ base: cloud, engine, nAir: 1.000277, cost: () => 0, budgetTermAngles: Infinity });
+    expect([unbounded.sizesPerDecade, unbounded.cappedFrom]).toEqual([512, 1024]);
+    expect(unbounded.rule).toMatch(/beyond auto.s limit of 512/);
   });
 });

@@ -100,14 +100,17 @@ export function chooseRadiusDensity(options: {
   let chosen: RadiusDensity = wanted;
   while (chosen > 64 && cost(chosen) > budgetTermAngles) chosen = (chosen / 2) as RadiusDensity;
   const at = `at the Mie drops' cross-section median (${medianRadiusUm.toFixed(1)} µm, x ${x.toFixed(0)} at 550 nm)`;
-  const step = (d: number) => ((x * Math.LN10) / d).toFixed(2);
-  if (chosen === wanted && Number(step(chosen)) <= 1.5 * MAX_RIPPLE_STEP_X) {
-    return { sizesPerDecade: chosen, rule: `auto: ${chosen} Lorenz–Mie sizes per decade, ${step(chosen)} apart in size parameter ${at}: enough to average the Mie ripple` };
+  const stepX = (d: number) => (x * Math.LN10) / d;
+  // The nearest density in log is within a factor √2 of the one the step asks for.
+  const averages = (d: number) => stepX(d) <= Math.SQRT2 * MAX_RIPPLE_STEP_X;
+  if (chosen === wanted && averages(chosen)) {
+    return { sizesPerDecade: chosen, rule: `auto: ${chosen} Lorenz–Mie sizes per decade, ${stepX(chosen).toFixed(2)} apart in size parameter ${at}: enough to average the Mie ripple` };
   }
-  const enough = RADIUS_DENSITIES.find((d) => Number(step(d)) <= 1.5 * MAX_RIPPLE_STEP_X) ?? RADIUS_DENSITIES[RADIUS_DENSITIES.length - 1];
+  const enough = RADIUS_DENSITIES.find(averages) ?? RADIUS_DENSITIES[RADIUS_DENSITIES.length - 1];
+  const limit = chosen < wanted ? "the interactive budget" : `auto's limit of ${AUTO_MAX_DENSITY}`;
   return {
     sizesPerDecade: chosen,
     cappedFrom: Math.max(enough, chosen * 2) as RadiusDensity,
-    rule: `auto: ${chosen} Lorenz–Mie sizes per decade, ${step(chosen)} apart in size parameter ${at}; averaging the Mie ripple wants ≤ ${MAX_RIPPLE_STEP_X}, beyond the interactive budget`,
+    rule: `auto: ${chosen} Lorenz–Mie sizes per decade, ${stepX(chosen).toFixed(2)} apart in size parameter ${at}; averaging the Mie ripple wants ≤ ${MAX_RIPPLE_STEP_X}, beyond ${limit}`,
   };
 }
