@@ -12,6 +12,7 @@ import { kernelRows } from "../lib/bow/kernel-rows.js";
 import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
 import { engineChooser } from "../lib/bow/engine-choice.js";
 import type { ProfileResult } from "../server/profile-service.js";
+import { scenarioSentence } from "../lib/figures/figure-input.js";
 
 const stats = (a: ProfileResult, b: ProfileResult) => {
   const d = deltaE2000(a.colour.xyz, b.colour.xyz);
@@ -43,6 +44,9 @@ describe("Mie ripple averaging over radius cells", () => {
     expect(a.worst).toBeLessThan(1.5);
     expect(a.mean).toBeLessThan(0.6);
     expect(a.mean).toBeLessThan(p.mean / 3);
+    // Figures say so in their caption (lib/figures/figure-input.ts); one size per node says nothing.
+    expect(scenarioSentence(auto.request, auto.meta)).toContain(", Mie rows averaged over 256 sizes per decade)");
+    expect(scenarioSentence(plain.request, plain.meta)).not.toContain("averaged");
   });
 
   it("a cell's mean row is the mean of the single-size rows at its sizes, and cached apart from them", () => {

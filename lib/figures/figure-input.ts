@@ -93,9 +93,16 @@ function describeEngines(meta: Record<string, unknown>): string {
     .join(", ");
 }
 
+/** "Mie rows averaged over 512 sizes per decade" when the profile averaged the Mie ripple (meta.radii), else "". */
+function describeAveraging(meta: Record<string, unknown>): string {
+  const radii = meta.radii as { nodesPerDecade?: number; mieSizesPerDecade?: number } | undefined;
+  const sizes = radii?.mieSizesPerDecade;
+  return sizes !== undefined && radii?.nodesPerDecade !== undefined && sizes > radii.nodesPerDecade ? `Mie rows averaged over ${sizes} sizes per decade` : "";
+}
+
 /** One sentence naming the scenario: drops, sun, water, method, observer, output and normalisation. */
 export function scenarioSentence(request: FigureRequest, meta: Record<string, unknown> = {}, includeDrops = true): string {
-  const engines = describeEngines(meta);
+  const engines = [describeEngines(meta), describeAveraging(meta)].filter((s) => s !== "").join(", ");
   const parts = [
     includeDrops ? `drops ${describeDrops(request.drops)}` : "",
     `sun ${n3(request.sun.elevationDeg)}° high (${describeSpectrum(request.sun.spectrum)}, disc ${n3(request.sun.discDeg)}°)`,
