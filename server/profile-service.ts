@@ -153,7 +153,9 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     engine,
     nAir: media[0].nAir,
     cost: (d) => mieCost(averagesAt(d)),
-    budgetTermAngles: Math.min(limits.maxTermAngles, AUTO_DENSITY_BUDGET_TERM_ANGLES),
+    // A constant, not the server's limit: the result for a request (and its content hash) is the same on every
+    // server, synchronous or as a job; the limit only decides whether it may run synchronously.
+    budgetTermAngles: AUTO_DENSITY_BUDGET_TERM_ANGLES,
   });
   if (density.cappedFrom) {
     warnings.push(
@@ -183,7 +185,8 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     throw new ClientError(
       "too-costly",
       `this profile needs about ${cost.toExponential(2)} Mie term-angles; the synchronous limit is ${limits.maxTermAngles.toExponential(2)}. ` +
-        `Submit it as a background job (POST /v1/jobs), or use method "auto", fewer angles or wavelengths, or smaller drops`,
+        `Submit it as a background job (POST /v1/jobs), or use method "auto", fewer angles or wavelengths, or smaller drops` +
+        (density.sizesPerDecade > quadrature.nodesPerDecade ? `, or fewer Lorenz–Mie sizes (mieSizesPerDecade, now ${density.sizesPerDecade})` : ""),
       { cost, limit: limits.maxTermAngles, jobs: "/v1/jobs" },
     );
   }

@@ -13,6 +13,11 @@ import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
 import { engineChooser } from "../lib/bow/engine-choice.js";
 import type { ProfileResult } from "../server/profile-service.js";
 import { scenarioSentence } from "../lib/figures/figure-input.js";
+import { computeProfile } from "../server/profile-service.js";
+import { profileRequestSchema } from "../schemas/profile.js";
+import { KernelService } from "../server/kernel/kernel-service.js";
+import { createInlinePool } from "../server/kernel/worker-pool.js";
+import { ClientError } from "../server/errors.js";
 
 const stats = (a: ProfileResult, b: ProfileResult) => {
   const d = deltaE2000(a.colour.xyz, b.colour.xyz);
@@ -47,6 +52,17 @@ describe("Mie ripple averaging over radius cells", () => {
     // Figures say so in their caption (lib/figures/figure-input.ts); one size per node says nothing.
     expect(scenarioSentence(auto.request, auto.meta)).toContain(", Mie rows averaged over 256 sizes per decade)");
     expect(scenarioSentence(plain.request, plain.meta)).not.toContain("averaged");
+  });
+
+  it("auto's choice is the request's own, whatever the server's limit: over it, a 422 that names the knob", async () => {
+    // Otherwise one content hash would stand for different colours on servers with different MAX_PROFILE_TERM_ANGLES.
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 26, compute: createInlinePool().compute });
+    const refused = await computeProfile(profileRequestSchema.parse(fog), { kernels, limits: { maxTermAngles: 1.5e8 } }).catch((e: unknown) => e);
+    expect(refused).toBeInstanceOf(ClientError);
+    const error = refused as ClientError;
+    expect(error.code).toBe("too-costly");
+    expect(error.details.cost as number).toBeGreaterThan(2e8);
+    expect(error.message).toMatch(/mieSizesPerDecade, now 256/);
   });
 
   it("a cell's mean row is the mean of the single-size rows at its sizes, and cached apart from them", () => {
