@@ -301,7 +301,7 @@ export class KernelService {
 
 /**
  * Pack payload: u32 header length, JSON {radii, rowLength} padded with spaces so that the rows start 8-byte aligned
- * (the disk store's header is 48 bytes), then the rows as little-endian float64 — as pieces (views of the rows,
+ * (the disk store's header is a multiple of 8 bytes), then the rows as little-endian float64 — as pieces (views of the rows,
  * not copies) for the store to write one after another.
  */
 function encodePack(rows: Map<number, Float64Array>): Buffer[] {
