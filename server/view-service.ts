@@ -254,7 +254,8 @@ function profileColours(result: ProfileResult, request: ProfileRequest, output: 
   const sunWhite = result.sunWhite;
   // Gamut mapping wants white at Y = 1: map relative to the profile's peak, then scale to the reference.
   const relative = luminanceReciprocal(peakAll);
-  const back = luminanceReciprocal(luminanceReciprocal(peakAll) * scaling.referenceCdPerM2);
+  // peakAll / reference, 0 where either is no light (never Infinity, whose product with 0 is NaN).
+  const back = luminanceReciprocal(relative * scaling.referenceCdPerM2);
   let outOfGamut = 0;
   const render = (xyz: Float64Array, count: boolean) => {
     const r = renderXyz(

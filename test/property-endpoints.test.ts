@@ -15,6 +15,7 @@ import { profileRequestSchema } from "../schemas/profile.js";
 import { lutRequestSchema } from "../schemas/lut.js";
 import { skyRequestSchema, viewRequestSchema } from "../schemas/view.js";
 import { sizeMapRequestSchema } from "../schemas/figures.js";
+import type { JsonSchemaNode } from "../server/json-schema.js";
 
 /** A request that has not answered in this time counts as hung; the slowest valid request here takes well under 5 s. */
 const REQUEST_TIMEOUT_MS = 20_000;
@@ -320,19 +321,7 @@ const postEndpoints: PostEndpoint[] = [
 
 // ---------- invalid bodies: one field of a valid body made wrong, found through the schema's JSON Schema ----------
 
-type JsonSchema = {
-  type?: string | string[];
-  properties?: Record<string, JsonSchema>;
-  items?: JsonSchema;
-  anyOf?: JsonSchema[];
-  oneOf?: JsonSchema[];
-  enum?: unknown[];
-  const?: unknown;
-  minimum?: number;
-  maximum?: number;
-  exclusiveMinimum?: number;
-  exclusiveMaximum?: number;
-};
+type JsonSchema = JsonSchemaNode;
 
 /** Numbers that JSON text can carry but a double cannot: JSON.parse turns them into ±Infinity. */
 const INF = "@@1e400@@";

@@ -1,6 +1,7 @@
 // CIE chromaticity diagram with the bow's colour path, the sun's white and the sRGB gamut.
 
 import { cmfTables, type Observer } from "../colour/observers.js";
+import { chromaticity } from "../colour/tristimulus.js";
 import { axis, linearScale, niceTicks, type Scale } from "./axes.js";
 import { element, hexColour, pointsAttribute, px, svgDocument, text, textBlock, wrapText } from "./svg.js";
 import { LabelPlacer } from "./labels.js";
@@ -154,9 +155,8 @@ export function chromaticitySvg(p: FigureProfile): string {
   parts.push(element("g", { id: "srgb-vertices" }, vertexLabel(srgb.red, "red", 6, -6) + vertexLabel(srgb.green, "green", -8, 4) + vertexLabel(srgb.blue, "blue", 8, 14)));
 
   // With the sun extinguished (on the horizon through a thick atmosphere) there is no white point: x, y are 0/0.
-  const sunXyz = p.sunWhite;
-  const sunSum = sunXyz.X + sunXyz.Y + sunXyz.Z;
-  const sun: XyPoint | null = sunSum > 0 ? { x: sunXyz.X / sunSum, y: sunXyz.Y / sunSum } : null;
+  const sunXy = chromaticity(p.sunWhite);
+  const sun: XyPoint | null = Number.isFinite(sunXy.x) && Number.isFinite(sunXy.y) ? sunXy : null;
 
   // The bow's path is small on the full diagram; a detail panel magnifies it.
   const bow = bowPoints(p);

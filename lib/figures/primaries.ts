@@ -2,6 +2,7 @@
 
 import Color from "colorjs.io";
 import { outputSpace, type OutputSpaceId } from "../colour/output-spaces.js";
+import { chromaticity } from "../colour/tristimulus.js";
 
 export interface XyPoint {
   x: number;
@@ -10,8 +11,7 @@ export interface XyPoint {
 
 function xyOf(colorjsId: string, coords: [number, number, number]): XyPoint {
   const [X, Y, Z] = new Color(colorjsId, coords).to("xyz-d65").coords.map(Number);
-  // x = X/(X+Y+Z), y = Y/(X+Y+Z) (CIE 015:2018 Eq. 7.3).
-  return { x: X / (X + Y + Z), y: Y / (X + Y + Z) };
+  return chromaticity({ X, Y, Z });
 }
 
 /** Primaries and white of a D65 RGB space, as xy (spaces with another white would come back Bradford-adapted). */

@@ -1,6 +1,7 @@
 import Color from "colorjs.io";
 import { outputSpace, type OutputSpaceId } from "../../lib/colour/output-spaces.js";
 import type { ExrChromaticities } from "./exr.js";
+import { chromaticity } from "../../lib/colour/tristimulus.js";
 
 /** Published primaries and whites of the linear spaces that HDR files carry. */
 const PUBLISHED: Partial<Record<OutputSpaceId, ExrChromaticities & { source: string }>> = {
@@ -21,7 +22,10 @@ export function spaceChromaticities(id: OutputSpaceId): ExrChromaticities & { so
   const published = PUBLISHED[id] ?? (id === "srgb" ? PUBLISHED["srgb-linear"] : undefined);
   if (published) return published;
   const space = Color.Space.get(outputSpace(id).linearColorjsId) as unknown as { M: { toXYZ: number[][] }; white: number[] };
-  const xy = (X: number, Y: number, Z: number): [number, number] => [X / (X + Y + Z), Y / (X + Y + Z)];
+  const xy = (X: number, Y: number, Z: number): [number, number] => {
+    const c = chromaticity({ X, Y, Z });
+    return [c.x, c.y];
+  };
   const m = space.M.toXYZ;
   const column = (c: number) => xy(m[0][c], m[1][c], m[2][c]);
   return { red: column(0), green: column(1), blue: column(2), white: xy(space.white[0], space.white[1], space.white[2]), source: "colorjs.io space definition" };
