@@ -4,7 +4,8 @@ WORKDIR /app
 COPY package.json package-lock.json ./
 RUN npm ci --no-audit --no-fund
 COPY tsconfig.json tsconfig.build.json ./
-COPY server ./server
+COPY http ./http
+COPY pipeline ./pipeline
 COPY lib ./lib
 COPY schemas ./schemas
 COPY bench ./bench
@@ -22,4 +23,4 @@ COPY --chown=node:node web ./web
 USER node
 EXPOSE 8080
 HEALTHCHECK --interval=30s --timeout=3s CMD node -e "fetch('http://127.0.0.1:'+process.env.PORT+'/healthz').then(r=>process.exit(r.ok?0:1)).catch(()=>process.exit(1))"
-CMD ["node", "dist/server/main.js"]
+CMD ["node", "dist/http/main.js"]

@@ -3,7 +3,7 @@
 // lower bounds on what a separate client would see.
 import { performance } from "node:perf_hooks";
 import type { AddressInfo } from "node:net";
-import { buildApp } from "../server/app.js";
+import { buildApp } from "../http/app.js";
 
 export interface HttpBenchRow {
   name: string;

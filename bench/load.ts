@@ -7,8 +7,8 @@ import { readFileSync, writeFileSync, existsSync } from "node:fs";
 import { cpus, totalmem } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
-import { buildApp } from "../server/app.js";
-import { repoPath } from "../server/resources.js";
+import { buildApp } from "../http/app.js";
+import { repoPath } from "../pipeline/config/resources.js";
 
 const SECONDS_PER_SCENARIO = 10;
 const HEALTH_INTERVAL_MS = 100;

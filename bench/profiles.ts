@@ -1,10 +1,10 @@
 import { performance } from "node:perf_hooks";
 import { profileRequestSchema } from "../schemas/profile.js";
-import { computeProfile } from "../server/profile-service.js";
-import { KernelService } from "../server/kernel/kernel-service.js";
-import { createWorkerPool, type KernelPool } from "../server/kernel/worker-pool.js";
-import { loadConfig } from "../server/config.js";
-import { DiskStore } from "../server/kernel/disk-store.js";
+import { computeProfile } from "../pipeline/compute/profile.js";
+import { KernelService } from "../pipeline/kernels/kernel-service.js";
+import { createWorkerPool, type KernelPool } from "../pipeline/kernels/worker-pool.js";
+import { loadConfig } from "../pipeline/config/config.js";
+import { DiskStore } from "../pipeline/kernels/disk-store.js";
 import { mkdtemp, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";

@@ -5,7 +5,7 @@ import { cpus, loadavg, totalmem } from "node:os";
 import { benchMie, mieKernelName } from "./mie.js";
 import { benchProfile, P1, P1_DISK, P2, P2_ONE_SIZE, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
 import { benchHttp } from "./http.js";
-import { repoPath } from "../server/resources.js";
+import { repoPath } from "../pipeline/config/resources.js";
 
 const quick = process.argv.includes("--quick");
 const machine = `${cpus()[0]?.model ?? "unknown CPU"}, ${cpus().length} cores, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}`;

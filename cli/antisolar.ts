@@ -8,17 +8,17 @@ import { extname } from "node:path";
 import { z } from "zod";
 import { lutRequestSchema } from "../schemas/lut.js";
 import { profileRequestSchema } from "../schemas/profile.js";
-import { computeLut } from "../server/lut-service.js";
-import { computeProfile } from "../server/profile-service.js";
-import { profileJson } from "../server/render/profile-render.js";
-import { encodeExr } from "../server/images/exr.js";
-import { encodeRadianceHdr } from "../server/images/radiance-hdr.js";
-import { encodePngImage, encodePngStrip } from "../server/images/png-strip.js";
-import { spaceChromaticities } from "../server/images/space-chromaticities.js";
-import { createKernelRuntime } from "../server/kernel/runtime.js";
-import { loadConfig } from "../server/config.js";
-import { parseOrThrow } from "../server/validation.js";
-import { ClientError } from "../server/errors.js";
+import { computeLut } from "../pipeline/compute/lut.js";
+import { computeProfile } from "../pipeline/compute/profile.js";
+import { profileJson } from "../pipeline/render/profile-render.js";
+import { encodeExr } from "../pipeline/encoders/exr.js";
+import { encodeRadianceHdr } from "../pipeline/encoders/radiance-hdr.js";
+import { encodePngImage, encodePngStrip } from "../pipeline/encoders/png-strip.js";
+import { spaceChromaticities } from "../pipeline/encoders/space-chromaticities.js";
+import { createKernelRuntime } from "../pipeline/kernels/runtime.js";
+import { loadConfig } from "../pipeline/config/config.js";
+import { parseOrThrow } from "../pipeline/requests/parse-request.js";
+import { ClientError } from "../pipeline/requests/client-error.js";
 
 const usage = `antisolar — physically based rainbows
 
@@ -130,7 +130,7 @@ async function main(): Promise<void> {
     case "render":
       return render(args);
     case "serve":
-      await import("../server/main.js");
+      await import("../http/main.js");
       return;
     case undefined:
     case "help":

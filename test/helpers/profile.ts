@@ -1,7 +1,7 @@
 import { profileRequestSchema } from "../../schemas/profile.js";
-import { computeProfile, type ProfileResolution, type ProfileResult } from "../../server/profile-service.js";
-import { KernelService } from "../../server/kernel/kernel-service.js";
-import { createInlinePool } from "../../server/kernel/worker-pool.js";
+import { computeProfile, type ProfileResolution, type ProfileResult } from "../../pipeline/compute/profile.js";
+import { KernelService } from "../../pipeline/kernels/kernel-service.js";
+import { createInlinePool } from "../../pipeline/kernels/worker-pool.js";
 
 /** One in-memory kernel cache for the test process: later profiles reuse the kernels of earlier ones. */
 const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: createInlinePool().compute });

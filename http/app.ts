@@ -1,0 +1,124 @@
+import Fastify, { type FastifyInstance, type FastifyError } from "fastify";
+import { packageVersion } from "../pipeline/config/resources.js";
+import { ClientError } from "../pipeline/requests/client-error.js";
+import { buildOpenApi } from "./openapi.js";
+import { renderDocsPage } from "./docs-page.js";
+import type { RouteSpec } from "./route-spec.js";
+import { parseOrThrow } from "../pipeline/requests/parse-request.js";
+import { serviceRoutes } from "./routes/service.js";
+import { opticsRoutes } from "./routes/optics.js";
+import { profileRoutes } from "./routes/profile.js";
+import { figureRoutes } from "./routes/figures.js";
+import { loadPresets } from "../pipeline/requests/presets.js";
+import { createKernelRuntime } from "../pipeline/kernels/runtime.js";
+import { lutRoutes } from "./routes/lut.js";
+import { viewRoutes } from "./routes/view.js";
+import { registerWeb } from "./routes/web.js";
+import { registerHardening } from "./plugins/hardening.js";
+import { jobRoutes } from "./routes/jobs.js";
+import { createJobSystem } from "../pipeline/jobs/job-system.js";
+import { loadConfig, type Config } from "../pipeline/config/config.js";
+
+export interface AppOptions {
+  config?: Partial<Config>;
+  logger?: boolean;
+}
+
+/** Builds the application; http/main.ts only listens. Tests call buildApp() and inject requests. */
+export async function buildApp(options: AppOptions = {}): Promise<FastifyInstance> {
+  const config = { ...loadConfig(process.env), ...options.config };
+  const app = Fastify({
+    logger: options.logger ? { level: config.logLevel } : false,
+    bodyLimit: config.bodyLimitBytes,
+    requestTimeout: config.requestTimeoutMs,
+    genReqId: () => crypto.randomUUID(),
+  });
+
+  await registerHardening(app, config);
+
+  // JSON only: a text/plain body must be a 415, not parsed as a string.
+  app.removeContentTypeParser("text/plain");
+
+  const runtime = createKernelRuntime(config);
+  const jobs = await createJobSystem(config, runtime, { onError: (err, job) => app.log.error({ err, job: job.id }, "job failed") });
+  app.addHook("onClose", async () => {
+    await jobs.close();
+    await runtime.close();
+  });
+  const routes: RouteSpec[] = [
+    ...serviceRoutes(),
+    ...opticsRoutes(config),
+    ...profileRoutes(config, loadPresets(), runtime.kernels),
+    ...figureRoutes(config, runtime.kernels),
+    ...lutRoutes(config, runtime.kernels),
+    ...viewRoutes(config, runtime.kernels),
+    ...jobRoutes(jobs),
+  ];
+  const openapi = buildOpenApi(routes, packageVersion());
+  const docsHtml = renderDocsPage(openapi);
+
+  for (const route of routes) {
+    app.route({
+      method: route.method,
+      url: route.url,
+      handler: async (request, reply) => {
+        // No body at all means "all defaults"; an explicit JSON null is not an object and is refused.
+        const body = route.body ? parseOrThrow(route.body, request.body === undefined ? {} : request.body, "body") : undefined;
+        const query = route.query ? parseOrThrow(route.query, request.query ?? {}, "query") : undefined;
+        return route.handle({ body, query, request, reply });
+      },
+    });
+  }
+  app.get("/openapi.json", async () => openapi);
+  app.get("/docs", async (_request, reply) => reply.type("text/html; charset=utf-8").send(docsHtml));
+
+  await registerWeb(app);
+
+  app.setNotFoundHandler((request, reply) => {
+    const err = new ClientError("not-found", `no route ${request.method} ${request.url.split("?")[0]}; see /docs`);
+    reply.status(err.status).send(err.toBody(request.id));
+  });
+
+  app.setErrorHandler((error: FastifyError | ClientError, request, reply) => {
+    if (error instanceof ClientError) {
+      reply.status(error.status).send(error.toBody(request.id));
+      return;
+    }
+    const mapped = mapFastifyError(error as FastifyError);
+    if (mapped) {
+      reply.status(mapped.status).send(mapped.toBody(request.id));
+      return;
+    }
+    request.log.error({ err: error }, "unhandled error");
+    reply.status(500).send({ error: "internal", message: "internal error; report the requestId", requestId: request.id });
+  });
+
+  return app;
+}
+
+function mapFastifyError(error: FastifyError): ClientError | undefined {
+  if (error.name === "AbortError" || error.cause instanceof ClientError) {
+    return error.cause instanceof ClientError ? error.cause : new ClientError("client-closed", "the request was cancelled");
+  }
+  switch (error.code) {
+    case "FST_ERR_CTP_INVALID_MEDIA_TYPE":
+      return new ClientError("unsupported-media-type", "send the body as application/json", {
+        allowed: "application/json",
+      });
+    case "FST_ERR_CTP_BODY_TOO_LARGE":
+      return new ClientError("body-too-large", "the request body is larger than the limit");
+    case "FST_ERR_CTP_EMPTY_JSON_BODY":
+      return new ClientError("invalid-json", "the body is empty but says it is JSON; send {} for all defaults");
+    case "FST_ERR_REQUEST_TIMEOUT":
+      return new ClientError("timeout", "the request took longer than the synchronous limit; use POST /v1/jobs");
+    case "FST_ERR_CTP_INVALID_JSON_BODY":
+      return new ClientError("invalid-json", `the body is not valid JSON: ${error.message}`);
+  }
+  if (error.statusCode === 400 && /JSON/i.test(error.message)) {
+    return new ClientError("invalid-json", `the body is not valid JSON: ${error.message}`);
+  }
+  if (error.statusCode && error.statusCode >= 400 && error.statusCode < 500) {
+    return new ClientError("invalid-request", error.message);
+  }
+  return undefined;
+}

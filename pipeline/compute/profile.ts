@@ -1,0 +1,326 @@
+// Turns a validated profile request into the core's inputs, runs it, and shapes the JSON answer.
+
+import { contentHash } from "../requests/content-hash.js";
+import type { ProfileRequest } from "../../schemas/profile.js";
+import { angleCount } from "../../schemas/angles.js";
+import { makeWavelengthGrid, wavelengthsNm } from "../../lib/spectra/grid.js";
+import { waterIndex } from "../../lib/water/water-index.js";
+import type { DropSizeDistribution } from "../../lib/drops/distributions.js";
+import { fractionOfCrossSectionAbove } from "../../lib/drops/quadrature.js";
+import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lattice-quadrature.js";
+import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
+import { directSunlight } from "../../lib/bow/sunlight.js";
+import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
+import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
+import { blocksOf, kernelStepFor } from "../../lib/bow/kernel-grid.js";
+import type { KernelService } from "../kernels/kernel-service.js";
+import type { Medium } from "../kernels/kernel-types.js";
+import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
+import { findBows } from "../../lib/bow/bow-peaks.js";
+import { engineChooser, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
+import type { DropEngine } from "../../lib/bow/volume-scattering.js";
+import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-density.js";
+import type { CellAverage } from "../../lib/bow/cell-average.js";
+import type { WavelengthGrid } from "../../lib/spectra/grid.js";
+import { ClientError } from "../requests/client-error.js";
+
+/** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
+const FLATTENED_FROM_RADIUS_UM = 1000;
+
+export interface ProfileResult {
+  request: ProfileRequest;
+  /** XYZ of the direct sunlight on the rain (any scale): the white under white = "sun". */
+  sunWhite: Xyz;
+  grid: WavelengthGrid;
+  spectral: SpectralProfile;
+  colour: ColourProfile;
+  bows: { primaryDeg: number | null; secondaryDeg: number | null };
+  meta: Record<string, unknown>;
+}
+
+export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribution {
+  switch (drops.kind) {
+    case "monodisperse":
+      return { kind: "monodisperse", radiusUm: drops.radiusUm, totalNumberPerM3: drops.numberPerM3 };
+    case "marshall-palmer":
+      return drops;
+    case "gamma":
+      return {
+        kind: "gamma-d0",
+        medianVolumeDiameterMm: drops.medianVolumeDiameterMm,
+        mu: drops.mu,
+        totalNumberPerM3: drops.totalNumberPerM3,
+      };
+    case "lognormal":
+      return drops;
+    case "histogram": {
+      // Bin edges half-way (geometrically) between centres; the outer edges mirror the inner ones.
+      const r = drops.bins.map((b) => b.radiusUm);
+      const edgesUm: number[] = [];
+      const ratio = r.length > 1 ? Math.sqrt(r[1] / r[0]) : 1.05;
+      edgesUm.push(r[0] / ratio);
+      for (let i = 1; i < r.length; i++) edgesUm.push(Math.sqrt(r[i - 1] * r[i]));
+      const lastRatio = r.length > 1 ? Math.sqrt(r[r.length - 1] / r[r.length - 2]) : 1.05;
+      edgesUm.push(r[r.length - 1] * lastRatio);
+      return { kind: "histogram", edgesUm, numberPerM3: drops.bins.map((b) => b.numberPerM3) };
+    }
+  }
+}
+
+export function requestHash(request: unknown): string {
+  return contentHash(request);
+}
+
+/** The direct sunlight on the rain for a request, on its wavelength grid. */
+export function sunlightFor(request: ProfileRequest, grid: WavelengthGrid) {
+  return directSunlight(
+    request.sun.spectrum,
+    grid,
+    {
+      elevationDeg: Math.max(request.sun.elevationDeg, 0),
+      pressureHpa: request.sun.atmosphere.pressureHpa,
+      angstromBeta: request.sun.atmosphere.angstromBeta,
+      angstromAlpha: request.sun.atmosphere.angstromAlpha,
+    },
+    request.sun.atmosphere.attenuate,
+  );
+}
+
+export interface ProfileLimits {
+  maxTermAngles: number;
+}
+
+export interface ProfileDeps {
+  kernels: KernelService;
+  limits: ProfileLimits;
+  signal?: AbortSignal;
+}
+
+/** Numerical resolution beyond the request, for convergence studies; the defaults are what the service uses. */
+export interface ProfileResolution {
+  nodesPerDecade?: number;
+  maxInternalStepDeg?: number;
+  thinning?: readonly ThinningLevel[];
+}
+
+/**
+ * Mie term-angles "auto" may spend on the radius density: ~1.7 s of this machine's two cores at the measured
+ * ~1.5e9 term-angles/s (BENCHMARKS.md, P3 with 2 workers), so that a cold fog profile stays interactive.
+ */
+export const AUTO_DENSITY_BUDGET_TERM_ANGLES = 2.5e9;
+
+/** Lorenz–Mie sizes per decade: a convergence study's own node density (one size per node), the request's own, or "auto". */
+function radiusDensityFor(request: ProfileRequest, resolution: ProfileResolution, auto: Parameters<typeof chooseRadiusDensity>[0]): DensityChoice {
+  if (resolution.nodesPerDecade !== undefined) return { sizesPerDecade: resolution.nodesPerDecade as DensityChoice["sizesPerDecade"], rule: `fixed by the caller: ${resolution.nodesPerDecade} nodes per decade, one size each` };
+  if (request.mieSizesPerDecade !== "auto") return { sizesPerDecade: request.mieSizesPerDecade, rule: `requested: ${request.mieSizesPerDecade} Lorenz–Mie sizes per decade` };
+  return chooseRadiusDensity(auto);
+}
+
+export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
+  const { limits } = deps;
+  const started = performance.now();
+  const warnings: string[] = [];
+  const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
+  const wl = wavelengthsNm(grid);
+  const media: Medium[] = [];
+  let waterSource = "";
+  for (let l = 0; l < grid.count; l++) {
+    const idx = waterIndex({ wavelengthNm: wl[l], ...request.water });
+    media.push({ wavelengthNm: wl[l], mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir });
+    waterSource = idx.source;
+  }
+  if (/extrapolated/i.test(waterSource)) warnings.push(`water index extrapolated: ${waterSource}`);
+
+  const distribution = toDistribution(request.drops);
+  const engine = engineChooser(request.method);
+  const count = angleCount(request.angles);
+  const angles = { fromDeg: request.angles.fromDeg, stepDeg: request.angles.stepDeg, count };
+  const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
+  const span = profileSpan(angles, request.sun.discDeg, h);
+  const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
+  // Lorenz–Mie rows averaged over each node's radius cell at sizesPerDecade (cell-average.ts, radius-density.ts).
+  const averagesAt = (sizesPerDecade: number) => {
+    const samples = Math.round(sizesPerDecade / quadrature.nodesPerDecade);
+    return Array.from(quadrature.radiiUm, (r, i): CellAverage | undefined => {
+      const widthLn = quadrature.cellWidthsLn?.[i];
+      return engine(r) === "mie" && samples > 1 && widthLn !== undefined ? { samples, widthLn } : undefined;
+    });
+  };
+  // Kernel tasks compute only the span's lattice points (KernelRequest.within), so that is what cost estimates count.
+  const mieCost = (averages: (CellAverage | undefined)[]) => estimateMieTermAngles(quadrature.radiiUm, wl, span.last - span.first + 1, engine, averages);
+  const density = radiusDensityFor(request, resolution, {
+    base: quadrature,
+    engine,
+    nAir: media[0].nAir,
+    cost: (d) => mieCost(averagesAt(d)),
+    // A constant, not the server's limit: the result for a request (and its content hash) is the same on every
+    // server, synchronous or as a job; the limit only decides whether it may run synchronously.
+    budgetTermAngles: AUTO_DENSITY_BUDGET_TERM_ANGLES,
+  });
+  if (density.cappedFrom) {
+    warnings.push(
+      `the Mie ripple of these drops wants about ${density.cappedFrom} sizes per decade; auto used ${density.sizesPerDecade} to stay interactive, so colours may differ from converged ones where the bow is faint (fog, 10 µm: worst ΔE2000 2.4 with no averaging, 0.7 at 512): ask mieSizesPerDecade ${density.cappedFrom} (as a job, POST /v1/jobs, if it is too costly)`,
+    );
+  }
+  const averages = averagesAt(density.sizesPerDecade);
+  if (quadrature.cappedAtMaxRadius && quadrature.crossSectionFractionAboveCap > 1e-3) {
+    warnings.push(
+      `drops above ${quadrature.maxRadiusUm} µm radius (${(100 * quadrature.crossSectionFractionAboveCap).toFixed(1)} % of the cross-section) are left out: such drops break up in nature`,
+    );
+  }
+  if (request.drops.kind !== "monodisperse") {
+    const flattened = fractionOfCrossSectionAbove(distribution, FLATTENED_FROM_RADIUS_UM);
+    if (flattened > 0.5) {
+      warnings.push(
+        `${(100 * flattened).toFixed(0)} % of the drops' cross-section is in drops above 1 mm radius, which flatten as they fall (Beard & Chuang 1987); the sphere model overstates their bow`,
+      );
+    }
+  } else if (request.drops.radiusUm > FLATTENED_FROM_RADIUS_UM) {
+    warnings.push("drops above 1 mm radius flatten as they fall (Beard & Chuang 1987); the sphere model overstates their bow");
+  }
+
+  const blocks = blocksOf(span);
+  const cost = mieCost(averages);
+  if (cost > limits.maxTermAngles) {
+    throw new ClientError(
+      "too-costly",
+      `this profile needs about ${cost.toExponential(2)} Mie term-angles; the synchronous limit is ${limits.maxTermAngles.toExponential(2)}. ` +
+        `Submit it as a background job (POST /v1/jobs), or use method "auto", fewer angles or wavelengths, or smaller drops` +
+        (density.sizesPerDecade > quadrature.nodesPerDecade ? `, or fewer Lorenz–Mie sizes (mieSizesPerDecade, now ${density.sizesPerDecade})` : ""),
+      { cost, limit: limits.maxTermAngles, jobs: "/v1/jobs" },
+    );
+  }
+
+  const sun = sunlightFor(request, grid);
+
+  const engines = Array.from(quadrature.radiiUm, engine);
+  const kernelStarted = performance.now();
+  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, averages, blocks, within: { first: span.first, last: span.last } }, deps.signal);
+  const kernelMs = performance.now() - kernelStarted;
+  const steps = latticeProfileSteps({
+    angles,
+    grid,
+    span,
+    beta: (l, out) => accumulateBlocks(span, blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
+    sunIrradiance: sun.irradiance.values,
+    discDiameterDeg: request.sun.discDeg,
+    limbDarkening: request.sun.limbDarkening,
+    pathLengthM: request.pathLengthM,
+  });
+  let step = steps.next();
+  while (!step.done) {
+    await new Promise<void>((resolve) => setImmediate(resolve));
+    step = steps.next();
+  }
+  const spectral: SpectralProfile = { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
+  const sunWhite = spectrumToXyz(sun.irradiance, request.observer);
+  if (!(sunWhite.Y > 0)) {
+    warnings.push("no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black");
+  }
+  const colour = colourProfile(spectral, grid, {
+    observer: request.observer,
+    space: request.output.space,
+    gamut: request.output.gamut,
+    white: request.output.white,
+    normalise: request.output.normalise,
+    polariserDeg: request.polariserDeg,
+    sunWhite,
+  });
+  const bows = findBows(spectral.anglesDeg, colour.luminance);
+
+  const engineRanges = summariseEngines(quadrature.radiiUm, engine);
+  if (request.method === "airy" && quadrature.radiiUm[0] < AUTO_AIRY_FROM_RADIUS_UM) {
+    warnings.push(`Airy theory used for drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm, outside its measured validity; use "auto" or "mie"`);
+  }
+  if (request.method === "geometric") {
+    warnings.push("ray optics has no supernumeraries and no diffraction; bows are sharper than in nature");
+  }
+  if (request.sun.elevationDeg > 42) {
+    warnings.push("with the sun above about 42° the primary bow lies below the horizon for an observer on flat ground");
+  }
+
+  const meta = {
+    method: { requested: request.method, engines: engineRanges },
+    units: {
+      anglesDeg: "degrees from the antisolar point",
+      luminance: request.output.normalise === "peak" ? "relative: the brightest sample is 1" : "cd/m²",
+      xyz: request.output.normalise === "peak" ? "relative: the brightest sample has Y = 1" : "cd/m² (Y is luminance)",
+      spectralRadiance: "W m⁻² sr⁻¹ nm⁻¹",
+      rgb: rgbUnits(request),
+    },
+    normalisation: request.output.normalise,
+    peakLuminanceCdPerM2: Math.max(...colour.luminanceCdPerM2),
+    wavelengths: { fromNm: grid.fromNm, toNm: grid.toNm, stepNm: grid.stepNm, count: grid.count, medium: "vacuum" },
+    radii: {
+      nodes: quadrature.radiiUm.length,
+      fromUm: quadrature.lowerUm,
+      toUm: quadrature.upperUm,
+      nodesPerDecade: quadrature.nodesPerDecade,
+      mieSizesPerDecade: density.sizesPerDecade,
+      rule: density.rule,
+    },
+    sun: { scale: sun.scaleNote, attenuated: sun.attenuated },
+    water: waterSource,
+    colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
+    mieTermAngles: spectral.mieTermAngles,
+    computeMs: Math.round((performance.now() - started) * 10) / 10,
+    kernel: {
+      angleStepDeg: h,
+      rows: rows.stats.memoryHits + rows.stats.diskHits + rows.stats.computed,
+      memoryHits: rows.stats.memoryHits,
+      diskHits: rows.stats.diskHits,
+      computed: rows.stats.computed,
+      ms: Math.round(kernelMs * 10) / 10,
+    },
+    cache: rows.stats.computed === 0 ? "hit" : "miss",
+    hash: requestHash(request),
+    sources: profileSources(request),
+    warnings,
+  };
+  return { request, sunWhite, grid, spectral, colour, bows, meta };
+}
+
+function rgbUnits(request: ProfileRequest): string {
+  const encoded = ["srgb", "display-p3", "rec2020"].includes(request.output.space);
+  if (encoded) return `${request.output.space}, encoded (transfer function applied), 1 = the peak's luminance`;
+  return request.output.normalise === "peak" ? `${request.output.space}, linear, relative to the peak` : `${request.output.space}, linear, cd/m²`;
+}
+
+interface EngineRange {
+  engine: DropEngine;
+  fromUm: number;
+  toUm: number;
+  nodes: number;
+  estimatedError?: string;
+}
+
+function summariseEngines(radiiUm: Float64Array, engine: (r: number) => DropEngine): EngineRange[] {
+  const out: EngineRange[] = [];
+  for (const r of radiiUm) {
+    const e = engine(r);
+    const last = out[out.length - 1];
+    if (last && last.engine === e) {
+      last.toUm = r;
+      last.nodes++;
+    } else out.push({ engine: e, fromUm: r, toUm: r, nodes: 1 });
+  }
+  for (const range of out) range.estimatedError = estimatedEngineError(range.engine, range.fromUm);
+  return out;
+}
+
+function profileSources(request: ProfileRequest): string[] {
+  const s = [
+    "IAPWS R9-97 (Harvey, Gallagher & Levelt Sengers 1998) with Kell 1975 density; Ciddor 1996 air index",
+    "Lorenz–Mie theory (Bohren & Huffman 1983; Wiscombe 1980)",
+    "Airy 1838 / van de Hulst 1957 §13.2 rainbow theory; ray optics with Fresnel coefficients (van de Hulst 1957 ch. 12)",
+    `CIE 015:2018 colorimetry with the ${request.observer === "cie1931-2" ? "CIE 1931 2°" : "CIE 1964 10°"} observer (ISO/CIE 11664-1:2019)`,
+    "Neckel & Labs 1994 limb darkening",
+  ];
+  if (request.water.salinityPsu > 0) s.push("Quan & Fry 1995 sea-water index");
+  if (request.drops.kind === "marshall-palmer") s.push("Marshall & Palmer 1948 drop sizes");
+  if (request.drops.kind === "gamma") s.push("Ulbrich 1983 gamma drop sizes");
+  if (request.sun.spectrum.kind === "astm-g173") s.push("ASTM G173-03 reference spectra");
+  if (request.sun.spectrum.kind === "cie-d65" || request.sun.spectrum.kind === "cie-daylight") s.push("CIE daylight (CIE 015:2018)");
+  s.push("Kasten & Young 1989 air mass; Bucholtz 1995 Rayleigh depth; Ångström 1929 aerosol");
+  return s;
+}

@@ -1,0 +1,519 @@
+// Camera views and sky maps of a bow layer: a profile computed over the ψ range the image needs, turned into
+// linear colours per profile sample, spread over the pixels by lib/view, and written as EXR, Radiance HDR or PNG.
+
+import sharp from "sharp";
+import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
+import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../../schemas/view.js";
+import { computeProfile, toDistribution, type ProfileLimits, type ProfileResult } from "./profile.js";
+import type { KernelService } from "../kernels/kernel-service.js";
+import { parseOrThrow } from "../requests/parse-request.js";
+import { ClientError } from "../requests/client-error.js";
+import { luminanceReciprocal, spectraToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
+import { renderXyz } from "../../lib/colour/render.js";
+import { encodeLinear, outputSpace, type OutputSpaceId } from "../../lib/colour/output-spaces.js";
+import { LUMINOUS_EFFICACY_LM_PER_W } from "../../lib/bow/colour-profile.js";
+import { latticeRadiusQuadrature } from "../../lib/drops/lattice-quadrature.js";
+import { waterIndex } from "../../lib/water/water-index.js";
+import { type Camera, cameraBasis, cameraRayField, centralPixelDeg, fieldOfViewDeg, focalPxFromFov, focalPxFromLens } from "../../lib/view/camera.js";
+import { skyRayField } from "../../lib/view/sky-map.js";
+import type { RayField } from "../../lib/view/ray-field.js";
+import { type Vec3, azimuthElevationOf, directionFromAzimuthElevation } from "../../lib/view/vectors.js";
+import { angleRangeDeg, renderLayer, type Layer, type ProfileColours } from "../../lib/view/layer.js";
+import { extinctionEfficiency, opticalThickness } from "../../lib/bow/extinction.js";
+import { spaceChromaticities } from "../encoders/space-chromaticities.js";
+import { contentHash } from "../requests/content-hash.js";
+import { ditheredCode8 } from "../../lib/view/dither.js";
+import { encodeExr, type ExrChromaticities } from "../encoders/exr.js";
+import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
+import { withSpaceColourChunks } from "../encoders/png-strip.js";
+
+/** The window that holds both bows (primary ≈ 42°, secondary ≈ 51°: physics brief); "peak" scales to its brightest sample. */
+const BOW_WINDOW_DEG = { fromDeg: 30, toDeg: 60 } as const;
+/** Coarsest profile step: the sun's disc (0.533°) smears anything finer; finer still where a pixel is smaller. */
+const MAX_PROFILE_STEP_DEG = 0.1;
+/** The profile endpoint's limit on samples per request (schemas/profile.ts). */
+const MAX_PROFILE_SAMPLES = 4001;
+/** Near the peak of the photopic efficiency V(λ), 555 nm (CIE 015:2018): one wavelength stands for the grey curtain. */
+const CURTAIN_WAVELENGTH_NM = 555;
+/** Above this optical depth single scattering overstates the bow by more than e^(−1/2) ≈ 40 % (Beer–Lambert). */
+const SINGLE_SCATTERING_TAU = 1;
+/** Camera used when neither horizontalFovDeg nor focalLengthMm is given. */
+const DEFAULT_HORIZONTAL_FOV_DEG = 90;
+
+/** Published chromaticities of each linear output space's primaries and white, as EXR and Radiance want them. */
+
+export interface ViewDeps {
+  kernels: KernelService;
+  limits: ProfileLimits;
+  signal?: AbortSignal;
+}
+
+type Output = ViewRequest["output"];
+type LinearSpace = Output["space"];
+
+interface Scene {
+  endpoint: "view" | "sky";
+  rays: RayField;
+  sunDirection: Vec3;
+  antisolar: Vec3;
+  ground: boolean;
+  layer: "premultiplied" | "additive";
+  maxAngleDeg: number;
+  /** Angular size of a pixel where it is smallest on the sky, degrees. */
+  pixelDeg: number;
+  polariserAxis?: Vec3;
+  /** A polariser at a fixed angle to the bow's tangent: its cos² (Malus's law), the same at every pixel. */
+  polariserTangentCos2?: number;
+  scenario: ViewScenario;
+  output: Output;
+  sunPosition: { azimuthDeg: number; elevationDeg: number };
+  description: Record<string, unknown>;
+  normalisedRequest: unknown;
+}
+
+export function overlayHash(endpoint: string, request: unknown): string {
+  return contentHash(request, endpoint);
+}
+
+function worldFrameNote(): string {
+  return "world frame: x east, y north, z up; azimuth clockwise from north (east = 90°), elevation up from the horizon";
+}
+
+export function cameraOf(body: ViewRequest): Camera {
+  const sun = body.sun;
+  const c = body.camera;
+  const focalPx =
+    c.focalLengthMm !== undefined
+      ? focalPxFromLens(c.focalLengthMm, c.sensorWidthMm, c.widthPx)
+      : focalPxFromFov(c.projection, c.widthPx, c.horizontalFovDeg ?? DEFAULT_HORIZONTAL_FOV_DEG);
+  return {
+    projection: c.projection,
+    widthPx: c.widthPx,
+    heightPx: c.heightPx,
+    focalPx,
+    yawDeg: c.yawDeg ?? (((sun.azimuthDeg + 180) % 360) + 360) % 360,
+    pitchDeg: c.pitchDeg,
+    rollDeg: c.rollDeg,
+  };
+}
+
+function viewScene(body: ViewRequest): Scene {
+  const camera = cameraOf(body);
+  if (camera.projection === "rectilinear" && fieldOfViewDeg("rectilinear", camera.focalPx, camera.widthPx) >= 179) {
+    throw new ClientError("invalid-request", "body field 'camera.focalLengthMm' gives a rectilinear view 179° wide or more; use a longer lens or projection fisheye", {
+      field: "camera.focalLengthMm",
+    });
+  }
+  const basis = cameraBasis(camera);
+  const sunDirection = directionFromAzimuthElevation(body.sun.azimuthDeg, body.sun.elevationDeg);
+  let polariserAxis: Vec3 | undefined;
+  if (body.polariserDeg !== undefined) {
+    const b = (body.polariserDeg * Math.PI) / 180;
+    polariserAxis = [0, 1, 2].map((k) => Math.cos(b) * basis.right[k] + Math.sin(b) * basis.up[k]) as Vec3;
+  }
+  const description = {
+    kind: "camera",
+    projection: camera.projection,
+    mapping:
+      camera.projection === "rectilinear"
+        ? "rectilinear pinhole: r = f·tan θ (θ from the optical axis, r in pixels from the image centre)"
+        : "equidistant fisheye: r = f·θ (θ in radians from the optical axis, r in pixels from the image centre)",
+    widthPx: camera.widthPx,
+    heightPx: camera.heightPx,
+    focalPx: camera.focalPx,
+    horizontalFovDeg: fieldOfViewDeg(camera.projection, camera.focalPx, camera.widthPx),
+    verticalFovDeg: fieldOfViewDeg(camera.projection, camera.focalPx, camera.heightPx),
+    principalPointPx: [camera.widthPx / 2, camera.heightPx / 2],
+    pixelCentres: "pixel (i, j) has its centre at (i + 0.5, j + 0.5); j grows downwards",
+    yawDeg: camera.yawDeg,
+    pitchDeg: camera.pitchDeg,
+    rollDeg: camera.rollDeg,
+    rollConvention: "positive roll turns the camera clockwise as the photographer sees it",
+    axes: { forward: basis.forward, right: basis.right, up: basis.up },
+    polariser:
+      body.polariserDeg === undefined
+        ? null
+        : {
+            axisDeg: body.polariserDeg,
+            convention: "transmission axis at this angle anticlockwise from the image's horizontal; per pixel the field along the bow's tangent passes with cos²α, the radial field with sin²α (Malus)",
+          },
+  };
+  return {
+    endpoint: "view",
+    rays: cameraRayField(camera),
+    sunDirection,
+    antisolar: [-sunDirection[0], -sunDirection[1], -sunDirection[2]],
+    ground: body.ground,
+    layer: body.layer,
+    maxAngleDeg: body.maxAngleDeg,
+    pixelDeg: camera.projection === "rectilinear" ? centralPixelDeg(camera.focalPx) : 180 / Math.PI / camera.focalPx,
+    polariserAxis,
+    scenario: body.scenario,
+    output: body.output,
+    sunPosition: body.sun,
+    description,
+    normalisedRequest: { ...body, camera: { ...body.camera, yawDeg: camera.yawDeg } },
+  };
+}
+
+function skyScene(body: SkyRequest): Scene {
+  const sunDirection = directionFromAzimuthElevation(body.sun.azimuthDeg, body.sun.elevationDeg);
+  return {
+    endpoint: "sky",
+    rays: skyRayField(body.widthPx, body.heightPx),
+    sunDirection,
+    antisolar: [-sunDirection[0], -sunDirection[1], -sunDirection[2]],
+    ground: body.ground,
+    layer: body.layer,
+    maxAngleDeg: body.maxAngleDeg,
+    // Rows near the poles are narrower in azimuth, but a row is always 180°/height tall.
+    pixelDeg: 180 / body.heightPx,
+    polariserTangentCos2: body.polariserToTangentDeg === undefined ? undefined : Math.cos((body.polariserToTangentDeg * Math.PI) / 180) ** 2,
+    scenario: body.scenario,
+    output: body.output,
+    sunPosition: body.sun,
+    description: {
+      kind: "equirectangular",
+      widthPx: body.widthPx,
+      heightPx: body.heightPx,
+      mapping:
+        "longitude = azimuth, latitude = elevation, both linear: column centre u = (x + 0.5)/width has azimuth 360°·u − 180° " +
+        "(north in the middle column, east at ¾ width, south at both edges; east is right of north, as seen from inside the sphere); " +
+        "row centre v = (y + 0.5)/height has elevation 90° − 180°·v (zenith at the top)",
+    },
+    normalisedRequest: body,
+  };
+}
+
+/** Merges the view's choices into the scenario and validates it as a profile request; errors name the scenario field. */
+function profileRequestFor(scene: Scene, angles: { fromDeg: number; toDeg: number; stepDeg: number }): ProfileRequest {
+  const body = {
+    ...scene.scenario,
+    sun: { ...scene.scenario.sun, elevationDeg: scene.sunPosition.elevationDeg },
+    angles,
+    output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute" },
+  };
+  try {
+    return parseOrThrow(profileRequestSchema, body, "body");
+  } catch (err) {
+    if (err instanceof ClientError && typeof err.details.field === "string") {
+      throw new ClientError(err.code, err.message.replace(`'${err.details.field}'`, `'scenario.${err.details.field}'`), {
+        ...err.details,
+        field: `scenario.${err.details.field}`,
+      });
+    }
+    throw err;
+  }
+}
+
+function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg: number; seen: { minDeg: number; maxDeg: number } | null } {
+  const seen = angleRangeDeg(scene.rays, scene.antisolar, scene.ground, scene.maxAngleDeg);
+  let lo: number = BOW_WINDOW_DEG.fromDeg;
+  let hi: number = BOW_WINDOW_DEG.toDeg;
+  if (seen) {
+    lo = Math.min(lo, seen.minDeg);
+    hi = Math.max(hi, seen.maxDeg);
+  }
+  let step = Math.min(MAX_PROFILE_STEP_DEG, scene.pixelDeg);
+  const pad = step;
+  lo = Math.max(0, lo - pad);
+  hi = Math.min(180, hi + pad);
+  step = Math.max(step, (hi - lo) / (MAX_PROFILE_SAMPLES - 1));
+  const count = Math.ceil((hi - lo) / step - 1e-9) + 1;
+  return { fromDeg: lo, toDeg: lo + (count - 1) * step, stepDeg: step, seen };
+}
+
+
+interface Scaling {
+  /** Pixel value 1 stands for this luminance, cd/m². */
+  referenceCdPerM2: number;
+  peakBowCdPerM2: number;
+  meaning: string;
+}
+
+/** Linear colours per profile sample in `space`, scaled so that 1 is the reference luminance; gamut mapped per sample. */
+function profileColours(result: ProfileResult, request: ProfileRequest, output: Output, space: LinearSpace) {
+  const { grid, spectral } = result;
+  const n = spectral.anglesDeg.length;
+  const toCd = (spectra: Float64Array) => spectraToXyz(grid, spectra, request.observer).map((v) => v * LUMINOUS_EFFICACY_LM_PER_W);
+  const perp = toCd(spectral.perpendicular);
+  const par = toCd(spectral.parallel);
+  const total = perp.map((v, k) => v + par[k]);
+  let peakAll = 0;
+  let peakBow = 0;
+  for (let i = 0; i < n; i++) {
+    const y = total[3 * i + 1];
+    peakAll = Math.max(peakAll, y);
+    const psi = spectral.anglesDeg[i];
+    if (psi >= BOW_WINDOW_DEG.fromDeg && psi <= BOW_WINDOW_DEG.toDeg) peakBow = Math.max(peakBow, y);
+  }
+  const scaling: Scaling =
+    output.normalise === "peak"
+      ? { referenceCdPerM2: peakBow, peakBowCdPerM2: peakBow, meaning: "pixel luminance 1 = the brightest point of the bows (ψ 30°–60°)" }
+      : { referenceCdPerM2: output.referenceCdPerM2, peakBowCdPerM2: peakBow, meaning: `pixel luminance 1 = ${output.referenceCdPerM2} cd/m²` };
+  const sunWhite = result.sunWhite;
+  // Gamut mapping wants white at Y = 1: map relative to the profile's peak, then scale to the reference.
+  const relative = luminanceReciprocal(peakAll);
+  // peakAll / reference, 0 where either is no light (never Infinity, whose product with 0 is NaN).
+  const back = luminanceReciprocal(relative * scaling.referenceCdPerM2);
+  let outOfGamut = 0;
+  const render = (xyz: Float64Array, count: boolean) => {
+    const r = renderXyz(
+      xyz.map((v) => v * relative),
+      { space, gamut: output.gamut, white: output.white, sunWhite },
+    );
+    if (count) for (const flag of r.outOfGamut) outOfGamut += flag;
+    return r.linear.map((v) => v * back);
+  };
+  const colours: ProfileColours = {
+    fromDeg: spectral.anglesDeg[0],
+    stepDeg: n > 1 ? spectral.anglesDeg[1] - spectral.anglesDeg[0] : 1,
+    count: n,
+    total: render(total, true),
+    perpendicular: render(perp, false),
+    parallel: render(par, false),
+  };
+  return { colours, scaling, outOfGamut, sunWhite };
+}
+
+function curtainOf(scenario: ViewScenario, pathLengthM: number) {
+  const quadrature = latticeRadiusQuadrature(toDistribution(scenario.drops));
+  const idx = waterIndex({ wavelengthNm: CURTAIN_WAVELENGTH_NM, ...scenario.water });
+  const medium = { wavelengthNm: CURTAIN_WAVELENGTH_NM, mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir };
+  const tau = opticalThickness(quadrature.radiiUm, quadrature.weights, medium, pathLengthM);
+  const k = (2 * Math.PI * medium.nAir) / (CURTAIN_WAVELENGTH_NM * 1e-3);
+  const qExt = Array.from(quadrature.radiiUm, (r) => extinctionEfficiency(medium.mRe, medium.mIm, k * r));
+  // No drops at all (every bin empty): no efficiency range to report, an empty one rather than ±Infinity.
+  const qExtRange = qExt.length > 0 ? [Math.min(...qExt), Math.max(...qExt)] : [];
+  return { opticalDepth: tau, transmittance: Math.exp(-tau), qExtRange, wavelengthNm: CURTAIN_WAVELENGTH_NM };
+}
+
+export interface PreparedOverlay {
+  scene: Scene;
+  hash: string;
+  profile: ProfileResult;
+  colours: ProfileColours;
+  /** Alpha of every pixel that sees rain, or undefined for the additive layer. */
+  alpha: number | undefined;
+  manifest: Record<string, unknown>;
+}
+
+export type OverlayFormat = ImageQuery["format"];
+
+/** The linear space pixels are computed in: the requested one, except for the 8-bit sRGB preview. */
+export function renderSpaceFor(format: OverlayFormat, output: Output): LinearSpace {
+  return format === "png" ? "srgb-linear" : output.space;
+}
+
+async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Promise<PreparedOverlay> {
+  if (format === "hdr" && scene.layer === "premultiplied") {
+    throw new ClientError("invalid-request", "format hdr has no alpha channel: ask for layer \"additive\" or format exr", {
+      field: "layer",
+      allowed: "additive (with format=hdr)",
+    });
+  }
+  const started = performance.now();
+  const angles = profileAngles(scene);
+  const request = profileRequestFor(scene, { fromDeg: angles.fromDeg, toDeg: angles.toDeg, stepDeg: angles.stepDeg });
+  const profile = await computeProfile(request, deps, {});
+  const space = renderSpaceFor(format, scene.output);
+  const { colours, scaling, outOfGamut } = profileColours(profile, request, scene.output, space);
+  const curtain = curtainOf(scene.scenario, request.pathLengthM);
+  const alpha = scene.layer === "premultiplied" ? 1 - curtain.transmittance : undefined;
+  const warnings = [...((profile.meta.warnings as string[]) ?? [])];
+  if (curtain.opticalDepth > SINGLE_SCATTERING_TAU) {
+    warnings.push(
+      `the rain curtain's optical depth is ${curtain.opticalDepth.toFixed(2)}: the single-scattering bow radiance is too high (multiple scattering and extinction inside the curtain are not modelled); shorten pathLengthM`,
+    );
+  }
+  if (!angles.seen) warnings.push("no pixel sees rain (all below the horizon or beyond maxAngleDeg): the layer is empty");
+  const hash = overlayHash(scene.endpoint, scene.normalisedRequest);
+  const antisolar = azimuthElevationOf(scene.antisolar);
+  const chroma = spaceChromaticities(space);
+  const manifest: Record<string, unknown> = {
+    endpoint: `/v1/${scene.endpoint}`,
+    frame: worldFrameNote(),
+    [scene.endpoint === "view" ? "camera" : "map"]: scene.description,
+    sun: { ...scene.sunPosition, direction: scene.sunDirection },
+    antisolarPoint: { azimuthDeg: antisolar.azimuthDeg, elevationDeg: antisolar.elevationDeg, direction: scene.antisolar },
+    ground: scene.ground ? "flat ground: pixels whose ray points below the horizon (z < 0) are empty (RGB and alpha 0)" : "no ground: the bows continue below the horizon",
+    layer: {
+      kind: scene.layer,
+      channels: scene.layer === "premultiplied" ? "RGBA" : "RGB",
+      meaning:
+        scene.layer === "premultiplied"
+          ? "premultiplied (associated) alpha: RGB = the rain's scattered radiance, A = 1 − T of the curtain; composite out = RGB + (1 − A)·background. PNG stores straight alpha (RGB/A, clamped to 1), as PNG requires"
+          : "RGB to be added onto the background; the curtain's dimming of the background is left out",
+      alpha: alpha ?? null,
+      curtain: {
+        ...curtain,
+        pathLengthM: request.pathLengthM,
+        model: "T = exp(−τ), τ = pathLengthM · Σ n(r) Q_ext π r², Q_ext from Lorenz–Mie theory at one wavelength (→ 2 for large drops: van de Hulst 1957 §8.22); the same path length along every ray",
+      },
+      curtainExtent: `the rain covers the sky out to ψ = ${scene.maxAngleDeg}° from the antisolar point; beyond it the layer is empty (no light, alpha 0)`,
+    },
+    scale: {
+      normalisation: scene.output.normalise,
+      meaning: scaling.meaning,
+      referenceCdPerM2: scaling.referenceCdPerM2,
+      factor: luminanceReciprocal(scaling.referenceCdPerM2),
+      factorMeaning: "pixel value = absolute linear value (luminance in cd/m²) × factor",
+      peakBowCdPerM2: scaling.peakBowCdPerM2,
+    },
+    units: {
+      pixels: `linear ${space}${format === "png" ? " encoded with the sRGB transfer function (IEC 61966-2-1)" : ""}; ${scaling.meaning}`,
+      radiance: "the profile's spectral radiance is in W m⁻² sr⁻¹ nm⁻¹, luminance in cd/m² (K_m = 683 lm/W)",
+    },
+    output: {
+      format,
+      space: format === "png" ? "srgb" : space,
+      chromaticities: chroma,
+      gamut: scene.output.gamut,
+      white: scene.output.white,
+      samplesOutOfGamut: outOfGamut,
+      ...(format === "png"
+        ? { quantising: "8 bits per channel with ordered dithering (Bayer 1973 8 × 8 threshold matrix, deterministic)" }
+        : format === "png16"
+          ? { quantising: "16 bits per channel, linear values clamped to 0..1, rounded (no dither); ICC profile of the space" }
+          : format === "exr"
+            ? { quantising: "half float, ZIP compression, chromaticities attribute" }
+            : { quantising: "Radiance RGBE, PRIMARIES header" }),
+    },
+    profile: {
+      anglesDeg: { fromDeg: angles.fromDeg, toDeg: angles.toDeg, stepDeg: angles.stepDeg, count: colours.count },
+      seenAnglesDeg: angles.seen,
+      interpolation: "linear in ψ; outside the profile the layer has no scattered light",
+      bows: profile.bows,
+      method: profile.meta.method,
+      wavelengths: profile.meta.wavelengths,
+      radii: profile.meta.radii,
+      sun: profile.meta.sun,
+      water: profile.meta.water,
+    },
+    hash,
+    cache: profile.meta.cache,
+    computeMs: Math.round((performance.now() - started) * 10) / 10,
+    sources: [
+      ...((profile.meta.sources as string[]) ?? []),
+      "Beer–Lambert transmittance of the rain curtain; extinction paradox (van de Hulst 1957 §8.22)",
+      `output chromaticities: ${chroma.source}`,
+      ...(format === "png" ? ["IEC 61966-2-1 sRGB transfer; Bayer 1973 ordered dither"] : []),
+    ],
+    warnings,
+  };
+  return { scene, hash, profile, colours, alpha, manifest };
+}
+
+export function renderPrepared(p: PreparedOverlay): Layer {
+  return renderLayer({
+    rays: p.scene.rays,
+    antisolar: p.scene.antisolar,
+    colours: p.colours,
+    ground: p.scene.ground,
+    maxAngleDeg: p.scene.maxAngleDeg,
+    alpha: p.alpha,
+    polariserAxis: p.scene.polariserAxis,
+    polariserTangentCos2: p.scene.polariserTangentCos2,
+  });
+}
+
+let srgbTable: Float32Array | undefined;
+/** Linear 0..1 in 1/65535 steps → encoded sRGB, from lib/colour's transfer function (IEC 61966-2-1). */
+function srgbEncodeTable(): Float32Array {
+  if (!srgbTable) {
+    const space = outputSpace("srgb");
+    srgbTable = new Float32Array(65536);
+    for (let i = 0; i < 65536; i++) srgbTable[i] = encodeLinear(space, [i / 65535, 0, 0])[0];
+  }
+  return srgbTable;
+}
+
+/** Straight (unassociated) alpha, as PNG requires: colour = premultiplied RGB / A. */
+function straightColour(value: number, alpha: number): number {
+  return alpha > 0 ? value / alpha : 0;
+}
+
+async function encodePng(layer: Layer, bitDepth: 8 | 16, space: OutputSpaceId): Promise<{ png: Buffer; clamped: number }> {
+  const { widthPx: w, heightPx: h, channels, data } = layer;
+  const codes = bitDepth === 8 ? new Uint8Array(data.length) : new Uint16Array(data.length);
+  const table = bitDepth === 8 ? srgbEncodeTable() : undefined;
+  let clamped = 0;
+  for (let y = 0; y < h; y++) {
+    for (let x = 0; x < w; x++) {
+      const at = (y * w + x) * channels;
+      const a = channels === 4 ? data[at + 3] : 1;
+      for (let k = 0; k < channels; k++) {
+        let v = k === 3 ? a : straightColour(data[at + k], a);
+        if (v < 0 || v > 1) {
+          clamped++;
+          v = Math.min(1, Math.max(0, v));
+        }
+        if (table) {
+          const encoded = k === 3 ? v : table[Math.round(v * 65535)];
+          codes[at + k] = ditheredCode8(encoded, x, y);
+        } else codes[at + k] = Math.round(v * 65535);
+      }
+    }
+  }
+  let image = sharp(codes, { raw: { width: w, height: h, channels } });
+  if (bitDepth === 16) image = image.toColourspace("rgb16");
+  const plain = await image.png({ compressionLevel: 6, palette: false }).toBuffer();
+  return { png: withSpaceColourChunks(plain, space), clamped };
+}
+
+export interface OverlayFile {
+  body: Buffer;
+  contentType: string;
+  manifest: Record<string, unknown>;
+}
+
+export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): Promise<OverlayFile> {
+  const layer = renderPrepared(p);
+  const space = renderSpaceFor(format, p.scene.output);
+  const chroma = spaceChromaticities(space);
+  const manifest = p.manifest;
+  switch (format) {
+    case "exr":
+      return {
+        body: encodeExr({
+          width: layer.widthPx,
+          height: layer.heightPx,
+          channels: layer.channels === 4 ? ["R", "G", "B", "A"] : ["R", "G", "B"],
+          data: layer.data,
+          pixelType: "half",
+          compression: "zip",
+          chromaticities: { red: chroma.red, green: chroma.green, blue: chroma.blue, white: chroma.white },
+          attributes: {
+            comments: `antisolar bow layer (${p.scene.layer}); linear ${space}; ${(manifest.scale as { meaning: string }).meaning}`,
+            antisolarHash: p.hash,
+          },
+        }),
+        contentType: "image/x-exr",
+        manifest,
+      };
+    case "hdr":
+      return {
+        body: encodeRadianceHdr({
+          width: layer.widthPx,
+          height: layer.heightPx,
+          data: layer.data,
+          primaries: [chroma.red, chroma.green, chroma.blue, chroma.white],
+        }),
+        contentType: "image/vnd.radiance",
+        manifest,
+      };
+    case "png16":
+    case "png": {
+      const { png, clamped } = await encodePng(layer, format === "png" ? 8 : 16, format === "png" ? "srgb" : space);
+      return { body: png, contentType: "image/png", manifest: { ...manifest, clampedComponents: clamped } };
+    }
+  }
+}
+
+export function prepareView(body: ViewRequest, format: OverlayFormat, deps: ViewDeps): Promise<PreparedOverlay> {
+  return prepare(viewScene(body), format, deps);
+}
+
+export function prepareSky(body: SkyRequest, format: OverlayFormat, deps: ViewDeps): Promise<PreparedOverlay> {
+  return prepare(skyScene(body), format, deps);
+}

@@ -1,0 +1,61 @@
+import { existsSync } from "node:fs";
+import { fileURLToPath } from "node:url";
+import { Piscina } from "piscina";
+import { kernelRows } from "../../lib/bow/kernel-rows.js";
+import type { KernelCompute } from "./kernel-service.js";
+import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
+
+/**
+ * The compiled worker script. From dist/ it sits beside this file; from the sources (tests) it is the built copy,
+ * which `npm test` builds first.
+ */
+function workerScript(): string {
+  const beside = fileURLToPath(new URL("./kernel-worker.js", import.meta.url));
+  if (existsSync(beside)) return beside;
+  const built = fileURLToPath(new URL("../../dist/pipeline/kernels/kernel-worker.js", import.meta.url));
+  if (existsSync(built)) return built;
+  throw new Error("the kernel worker is not built: run `npm run build`");
+}
+
+export interface KernelPool {
+  compute: KernelCompute;
+  threads: number;
+  close(): Promise<void>;
+}
+
+/**
+ * Kernel tasks on worker threads, so that physics never blocks the event loop. A worker that crashes or exceeds
+ * its heap limit fails only the task it ran; piscina starts a replacement thread.
+ */
+export function createWorkerPool(
+  threads: number,
+  options: { memoryMb?: number; filename?: string; onPoolError?: (error: unknown) => void; warmUpRounds?: number } = {},
+): KernelPool {
+  const piscina = new Piscina({
+    filename: options.filename ?? workerScript(),
+    // All threads start with the service, so the first cold request does not wait for thread start-up.
+    minThreads: threads,
+    maxThreads: threads,
+    idleTimeout: 60_000,
+    resourceLimits: { maxOldGenerationSizeMb: options.memoryMb ?? 2048 },
+    // Each thread runs these rounds of lib/bow/warm-up.ts before it takes a task (also a replacement thread).
+    workerData: { warmUpRounds: options.warmUpRounds ?? 0 },
+  });
+  // A task aborted while it ran may still send its answer, which piscina reports as an 'error' event ("unexpected
+  // message"). Its request has already failed; an unheard 'error' event would end the process.
+  piscina.on("error", (error: unknown) => options.onPoolError?.(error));
+  return {
+    threads,
+    compute: (task: KernelTask, signal?: AbortSignal) => piscina.run(task, { signal }) as Promise<KernelTaskResult>,
+    close: () => piscina.destroy(),
+  };
+}
+
+/** The same computation on the calling thread (tests and the CLI, where blocking is fine). */
+export function createInlinePool(): KernelPool {
+  return {
+    threads: 0,
+    compute: async (task: KernelTask) => kernelRows(task),
+    close: async () => undefined,
+  };
+}

@@ -1,0 +1,108 @@
+import sharp from "sharp";
+import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
+import { sizeMapRowBody, type SizeMapRequest } from "../../schemas/figures.js";
+import { computeProfile, type ProfileResult } from "../compute/profile.js";
+import { contentHash } from "../requests/content-hash.js";
+import { chromaticityFigureSources, chromaticitySvg } from "../../lib/figures/chromaticity-figure.js";
+import { SIZE_MAP_SOURCES, sizeMapRaster, sizeMapSvg, logSpacedRadii, type SizeMapData } from "../../lib/figures/size-map-figure.js";
+import { scenarioSentence } from "../../lib/figures/figure-input.js";
+import { ClientError } from "../requests/client-error.js";
+import { headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
+
+export const SVG_CONTENT_TYPE = "image/svg+xml; charset=utf-8";
+
+function sourcesOf(result: ProfileResult): string[] {
+  return Array.isArray(result.meta.sources) ? result.meta.sources.map(String) : [];
+}
+
+/** The provenance every render carries (shared/guide/api.md): content hash and published sources, as headers. */
+export function figureHeaders(hash: string, sources: readonly string[]): Record<string, string> {
+  return { "x-antisolar-hash": hash, "x-antisolar-sources": headerSafe(JSON.stringify(sources)) };
+}
+
+export async function renderChromaticityFigure(body: ProfileRequest, deps: RenderDeps): Promise<RenderOutput> {
+  deps.onProgress?.(0, "kernels");
+  const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal });
+  deps.onProgress?.(1, "done");
+  const sources = [...chromaticityFigureSources(body.observer), ...sourcesOf(result)];
+  return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(chromaticitySvg(result), "utf8"), headers: figureHeaders(String(result.meta.hash), sources) };
+}
+
+/** Engines over all rows, merged where neighbouring rows used the same one. */
+function mergedEngines(results: ProfileResult[]): { engine: string; fromUm: number; toUm: number }[] {
+  const out: { engine: string; fromUm: number; toUm: number }[] = [];
+  for (const r of results) {
+    const engines = (r.meta.method as { engines: { engine: string; fromUm: number; toUm: number }[] }).engines;
+    for (const e of engines) {
+      const last = out[out.length - 1];
+      if (last && last.engine === e.engine) last.toUm = e.toUm;
+      else out.push({ ...e });
+    }
+  }
+  return out;
+}
+
+/** One monodisperse profile per radius; the cost limit is shared by the rows, and the first failure stops the others. */
+async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ radiiUm: Float64Array; results: ProfileResult[] }> {
+  const radiiUm = logSpacedRadii(body.radiusFromUm, body.radiusToUm, body.radiusSteps);
+  const limits = { maxTermAngles: deps.maxTermAngles / body.radiusSteps };
+  const abort = new AbortController();
+  const stop = () => abort.abort();
+  deps.signal?.addEventListener("abort", stop);
+  let done = 0;
+  try {
+    const results = await Promise.all(
+      Array.from(radiiUm, async (radiusUm) => {
+        try {
+          const result = await computeProfile(profileRequestSchema.parse(sizeMapRowBody(body, radiusUm)), { kernels: deps.kernels, limits, signal: abort.signal });
+          deps.onProgress?.(++done / radiiUm.length, "rows");
+          return result;
+        } catch (err) {
+          abort.abort();
+          if (err instanceof ClientError && err.code === "too-costly") {
+            throw new ClientError(
+              "too-costly",
+              `the row for ${radiusUm.toPrecision(4)} µm drops is too costly: ${err.message}. A size map shares the synchronous limit among its ` +
+                `${body.radiusSteps} rows; use fewer rows, fewer angles or wavelengths, method "auto", or POST /v1/jobs`,
+              { ...err.details, field: "radiusSteps" },
+            );
+          }
+          throw err;
+        }
+      }),
+    );
+    return { radiiUm, results };
+  } finally {
+    deps.signal?.removeEventListener("abort", stop);
+    abort.abort();
+  }
+}
+
+export async function renderSizeMap(body: SizeMapRequest, format: "svg" | "png", deps: RenderDeps): Promise<RenderOutput> {
+  const hash = contentHash(body, "figure/size-map");
+  const { radiiUm, results } = await sizeMapRows(body, deps);
+  const anglesDeg = results[0].spectral.anglesDeg;
+  const srgb = new Float64Array(radiiUm.length * anglesDeg.length * 3);
+  results.forEach((r, i) => srgb.set(r.colour.rgb, i * anglesDeg.length * 3));
+  const sources = [...new Set(results.flatMap(sourcesOf))];
+  const map: SizeMapData = {
+    radiiUm,
+    anglesDeg,
+    srgb,
+    bows: results.map((r) => r.bows),
+    scenario: scenarioSentence(results[0].request, { method: { engines: mergedEngines(results) } }, false),
+    hash,
+    sources,
+  };
+  if (format === "svg") return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(sizeMapSvg(map), "utf8"), headers: figureHeaders(hash, [...SIZE_MAP_SOURCES, ...sources]) };
+  const raster = sizeMapRaster(map);
+  const png = await sharp(raster.pixels, { raw: { width: raster.width, height: raster.height, channels: 3 } }).png().toBuffer();
+  const axes = {
+    psi: { fromDeg: anglesDeg[0], toDeg: anglesDeg[anglesDeg.length - 1], count: anglesDeg.length, columns: "left to right" },
+    radiusUm: { from: radiiUm[0], to: radiiUm[radiiUm.length - 1], count: radiiUm.length, scale: "log", rows: "largest on top" },
+    normalisation: "each row's peak luminance = 1",
+    space: "srgb",
+  };
+  return { contentType: "image/png", body: png, headers: { ...figureHeaders(hash, [...SIZE_MAP_SOURCES, ...sources]), "x-antisolar-axes": headerSafe(JSON.stringify(axes)) } };
+}
+

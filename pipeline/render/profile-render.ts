@@ -1,0 +1,65 @@
+import type { z } from "zod";
+import type { ProfileRequest } from "../../schemas/profile.js";
+import type { stripQuerySchema } from "../../schemas/formats.js";
+import { computeProfile, type ProfileResult } from "../compute/profile.js";
+import { encodePngStrip } from "../encoders/png-strip.js";
+import { jsonOutput, headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
+import { profileSvg } from "../../lib/figures/profile-figure.js";
+
+export type StripQuery = z.output<typeof stripQuerySchema>;
+export type ProfileFormat = "json" | "png" | "png16" | "svg";
+
+/** Six significant digits: far below any colour difference, and it keeps the JSON small. */
+function round6(v: number): number {
+  return Number.isFinite(v) ? Number(v.toPrecision(6)) : v;
+}
+
+function triples(values: Float64Array): number[][] {
+  const out: number[][] = [];
+  for (let i = 0; i < values.length; i += 3) out.push([round6(values[i]), round6(values[i + 1]), round6(values[i + 2])]);
+  return out;
+}
+
+export function profileJson(result: ProfileResult) {
+  const { spectral, colour } = result;
+  const pairs: number[][] = [];
+  for (let i = 0; i < colour.chromaticity.length; i += 2) {
+    pairs.push([round6(colour.chromaticity[i]), round6(colour.chromaticity[i + 1])]);
+  }
+  return {
+    anglesDeg: Array.from(spectral.anglesDeg, round6),
+    xyz: triples(colour.xyz),
+    chromaticity: pairs,
+    luminance: Array.from(colour.luminance, round6),
+    rgb: triples(colour.rgb),
+    space: result.request.output.space,
+    outOfGamut: Array.from(colour.outOfGamut, (v) => v === 1),
+    polarisation: Array.from(colour.polarisation, round6),
+    bows: result.bows,
+    meta: result.meta,
+  };
+}
+
+function describingHeaders(result: ProfileResult): Record<string, string> {
+  return {
+    "x-antisolar-hash": String(result.meta.hash),
+    "x-antisolar-space": result.request.output.space,
+    "x-antisolar-compute-ms": String(result.meta.computeMs),
+    "x-antisolar-bows": JSON.stringify(result.bows),
+    "x-antisolar-warnings": headerSafe(JSON.stringify(result.meta.warnings)),
+  };
+}
+
+export async function renderProfile(body: ProfileRequest, format: ProfileFormat, query: StripQuery, deps: RenderDeps): Promise<RenderOutput> {
+  deps.onProgress?.(0, "kernels");
+  const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal });
+  deps.onProgress?.(1, "done");
+  if (format === "json") return jsonOutput(profileJson(result), { "x-antisolar-hash": String(result.meta.hash) });
+  if (format === "svg") {
+    const sources = headerSafe(JSON.stringify(result.meta.sources));
+    return { contentType: "image/svg+xml; charset=utf-8", body: Buffer.from(profileSvg(result), "utf8"), headers: { ...describingHeaders(result), "x-antisolar-sources": sources } };
+  }
+  const bitDepth = (query.bitDepth ?? (format === "png16" ? 16 : 8)) as 8 | 16;
+  const strip = await encodePngStrip({ values: result.colour.rgb, height: query.height, bitDepth, space: body.output.space });
+  return { contentType: "image/png", body: strip.png, headers: { ...describingHeaders(result), "x-antisolar-icc": strip.iccDescription } };
+}

@@ -1,0 +1,34 @@
+import type { ImageQuery, SkyRequest, ViewRequest } from "../../schemas/view.js";
+import { encodeOverlay, prepareSky, prepareView } from "../compute/view.js";
+import { headerSafe, jsonOutput, type RenderDeps, type RenderOutput } from "./render-output.js";
+
+/** A camera view or sky map, or its manifest, as a render output (for the routes and for jobs alike). */
+export async function renderOverlay(
+  endpoint: "view" | "sky",
+  body: ViewRequest | SkyRequest,
+  query: ImageQuery,
+  deps: RenderDeps,
+): Promise<RenderOutput> {
+  const viewDeps = { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal };
+  deps.onProgress?.(0, "profile");
+  const prepared = endpoint === "view" ? await prepareView(body as ViewRequest, query.format, viewDeps) : await prepareSky(body as SkyRequest, query.format, viewDeps);
+  const m = prepared.manifest as { hash: string; scale: { meaning: string; factor: number }; output: { space: string }; computeMs: number; warnings: string[] };
+  if (query.part === "manifest") {
+    deps.onProgress?.(1, "done");
+    return jsonOutput(prepared.manifest, { "x-antisolar-hash": m.hash });
+  }
+  deps.onProgress?.(0.5, "pixels");
+  const file = await encodeOverlay(prepared, query.format);
+  deps.onProgress?.(1, "done");
+  return {
+    contentType: file.contentType,
+    body: file.body,
+    headers: {
+      "x-antisolar-hash": m.hash,
+      "x-antisolar-space": m.output.space,
+      "x-antisolar-scale": headerSafe(`${m.scale.meaning}; factor ${m.scale.factor}`),
+      "x-antisolar-compute-ms": String(m.computeMs),
+      "x-antisolar-warnings": headerSafe(JSON.stringify(m.warnings)),
+    },
+  };
+}

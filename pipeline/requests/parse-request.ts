@@ -1,0 +1,109 @@
+import { z } from "zod";
+import { ClientError } from "./client-error.js";
+import type { JsonSchemaNode } from "../../schemas/json-schema.js";
+
+type JsonSchema = JsonSchemaNode;
+
+const jsonSchemaCache = new WeakMap<z.ZodType, JsonSchema>();
+
+function jsonSchemaOf(schema: z.ZodType): JsonSchema {
+  let js = jsonSchemaCache.get(schema);
+  if (!js) {
+    js = z.toJSONSchema(schema, { io: "input", unrepresentable: "any" }) as JsonSchema;
+    jsonSchemaCache.set(schema, js);
+  }
+  return js;
+}
+
+/** Follows a zod issue path through the JSON Schema, choosing the union branch that matches the sent value. */
+function schemaAtPath(root: JsonSchema, path: PropertyKey[], value: unknown): JsonSchema | undefined {
+  let node: JsonSchema | undefined = root;
+  let current: unknown = value;
+  for (const key of path) {
+    node = pickBranch(node, current);
+    if (!node) return undefined;
+    if (typeof key === "number") node = node.items;
+    else node = node.properties?.[String(key)];
+    current = current && typeof current === "object" ? (current as Record<PropertyKey, unknown>)[key] : undefined;
+  }
+  return pickBranch(node, current);
+}
+
+function pickBranch(node: JsonSchema | undefined, value: unknown): JsonSchema | undefined {
+  const branches = node?.oneOf ?? node?.anyOf;
+  if (!branches) return node;
+  const kind = value && typeof value === "object" ? (value as { kind?: unknown }).kind : undefined;
+  const byKind = branches.find((b) => b.properties?.kind?.const === kind);
+  return byKind ?? branches.find((b) => b.type !== "null") ?? node;
+}
+
+function describeRange(node: JsonSchema): string | undefined {
+  if (node.enum) return `one of ${node.enum.map((v) => JSON.stringify(v)).join(", ")}`;
+  if (node.const !== undefined) return `exactly ${JSON.stringify(node.const)}`;
+  const lo = node.minimum ?? node.exclusiveMinimum;
+  const hi = node.maximum ?? node.exclusiveMaximum;
+  if (lo !== undefined || hi !== undefined) {
+    const left = lo === undefined ? "" : `${node.exclusiveMinimum !== undefined ? ">" : ">="} ${lo}`;
+    const right = hi === undefined ? "" : `${node.exclusiveMaximum !== undefined ? "<" : "<="} ${hi}`;
+    return `a finite number ${[left, right].filter(Boolean).join(" and ")}`;
+  }
+  if (node.minItems !== undefined || node.maxItems !== undefined) {
+    return `an array of ${node.minItems ?? 0} to ${node.maxItems ?? "any number of"} items`;
+  }
+  const branches = node.oneOf ?? node.anyOf;
+  if (branches) {
+    const kinds = branches.map((b) => b.properties?.kind?.const).filter((k) => k !== undefined);
+    if (kinds.length) return `an object whose kind is one of ${kinds.map((k) => JSON.stringify(k)).join(", ")}`;
+  }
+  if (node.properties) return `an object with the fields ${Object.keys(node.properties).join(", ")}`;
+  if (node.type) return `a value of type ${Array.isArray(node.type) ? node.type.join(" or ") : node.type}`;
+  return undefined;
+}
+
+function formatPath(path: PropertyKey[]): string {
+  let out = "";
+  for (const key of path) out += typeof key === "number" ? `[${key}]` : out ? `.${String(key)}` : String(key);
+  return out;
+}
+
+/** Parses input with a zod schema, or throws a 400 that names the field and what it allows. */
+export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, where: "body" | "query"): z.output<S> {
+  const result = schema.safeParse(input);
+  if (result.success) return result.data;
+  const issue = result.error.issues[0];
+  const root = jsonSchemaOf(schema);
+  let path = issue.path;
+  let allowed: string | undefined;
+  let message: string;
+  if (issue.code === "unrecognized_keys") {
+    const node = schemaAtPath(root, path, input);
+    const field = formatPath([...path, issue.keys[0]]);
+    allowed = node?.properties ? `the fields ${Object.keys(node.properties).join(", ")}` : undefined;
+    message = `${where} field '${field}' is not known${allowed ? `; allowed here are ${allowed}` : ""}`;
+    path = [...path, issue.keys[0]];
+  } else {
+    const node = schemaAtPath(root, path, input);
+    allowed = node ? describeRange(node) : undefined;
+    const field = formatPath(path) || "(root)";
+    const sent = valueAt(input, path);
+    const sentText = sent === undefined ? "missing" : truncate(JSON.stringify(sent) ?? String(sent));
+    message = `${where} field '${field}' is invalid (${issue.message}; sent ${sentText})${allowed ? `: allowed is ${allowed}` : ""}`;
+  }
+  throw new ClientError("invalid-request", message, {
+    field: formatPath(path) || undefined,
+    ...(allowed ? { allowed } : {}),
+  });
+}
+
+function valueAt(input: unknown, path: PropertyKey[]): unknown {
+  let v = input;
+  for (const key of path) {
+    if (!v || typeof v !== "object") return undefined;
+    v = (v as Record<PropertyKey, unknown>)[key];
+  }
+  return v;
+}
+
+function truncate(text: string): string {
+  return text.length > 80 ? `${text.slice(0, 77)}...` : text;
+}
