@@ -8,7 +8,7 @@ export const STANDARD_PRESSURE_HPA = 1013.25;
 export const DEFAULT_ANGSTROM_BETA = 0.05;
 export const DEFAULT_ANGSTROM_ALPHA = 1.3;
 
-/** Relative optical air mass, Kasten & Young 1989 (Appl. Opt. 28, 4735; coefficients as in pvlib-python, equation number not checked), apparent elevation. */
+/** Relative optical air mass, Kasten & Young 1989 (Appl. Opt. 28, 4735, Eq. 3 as public implementations cite it; coefficients as in pvlib-python; tested against the paper's Table II), apparent elevation. */
 export function relativeAirMass(elevationDeg: number): number {
   if (!(elevationDeg >= 0 && elevationDeg <= 90)) throw new RangeError(`air mass needs a solar elevation in 0–90°, got ${elevationDeg}`);
   const zenithDeg = 90 - elevationDeg;

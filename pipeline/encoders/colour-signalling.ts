@@ -34,7 +34,7 @@ const SIGNALLING: Record<OutputSpaceId, SpaceSignalling> = {
   "xyz-d65": { description: "antisolar CIE XYZ (D65-relative, linear)", curve: LINEAR_CURVE, cicp: null, note: "XYZ has no H.273 code points; the ICC profile uses the X, Y, Z axes as primaries. Z of the D65 white exceeds 1 and is clipped." },
 };
 
-/** Fixed so identical requests give byte-identical PNGs (common practice for cacheable output). */
+/** Fixed so identical requests give byte-identical PNGs (so a content hash names one file). */
 const PROFILE_CREATED = new Date(Date.UTC(2026, 0, 1));
 
 type Vec3 = [number, number, number];
