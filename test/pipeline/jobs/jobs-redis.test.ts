@@ -6,13 +6,13 @@
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { mkdtemp, rm } from "node:fs/promises";
-import { createServer } from "node:net";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { randomBytes } from "node:crypto";
 import { Redis } from "ioredis";
 import { programRuns, skipWithout } from "../../helpers/tools.js";
+import { freePort } from "../../helpers/free-port.js";
 
 const repo = fileURLToPath(new URL("../../..", import.meta.url));
 
@@ -56,17 +56,6 @@ let folder = "";
 const prefix = `antisolar-test-${randomBytes(4).toString("hex")}`;
 let apiA = "";
 let apiB = "";
-
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.once("error", reject);
-    server.listen(0, "127.0.0.1", () => {
-      const { port } = server.address() as { port: number };
-      server.close(() => resolve(port));
-    });
-  });
-}
 
 /** TEST_REDIS_URL, or a redis-server of our own outside CI; CI must provide the URL (.ci/redis.sh). */
 async function findRedis(): Promise<string> {
