@@ -19,8 +19,11 @@ import { createKernelRuntime } from "../pipeline/kernels/runtime.js";
 import { loadConfig } from "../pipeline/config/config.js";
 import { parseOrThrow } from "../pipeline/requests/parse-request.js";
 import { ClientError } from "../pipeline/requests/client-error.js";
+import { EYE_SAFETY_CAUTION } from "../pipeline/eye-safety.js";
 
 const usage = `antisolar — physically based rainbows
+
+${EYE_SAFETY_CAUTION}
 
   antisolar bake <lut-request.json> -o <texture.exr|.hdr|.png|.json>   bake a lookup texture (+ <file>.manifest.json)
   antisolar render <profile-request.json> -o <profile.json|.png>       render a bow profile

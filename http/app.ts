@@ -15,6 +15,7 @@ import { lutRoutes } from "./routes/lut.js";
 import { viewRoutes } from "./routes/view.js";
 import { registerWeb } from "./routes/web.js";
 import { registerHardening } from "./plugins/hardening.js";
+import { registerRefusedBodyDrain } from "./plugins/drain-refused-body.js";
 import { jobRoutes } from "./routes/jobs.js";
 import { createJobSystem } from "../pipeline/jobs/job-system.js";
 import { loadConfig, type Config } from "../pipeline/config/config.js";
@@ -35,6 +36,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   });
 
   await registerHardening(app, config);
+  registerRefusedBodyDrain(app);
 
   // JSON only: a text/plain body must be a 415, not parsed as a string.
   app.removeContentTypeParser("text/plain");

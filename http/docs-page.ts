@@ -1,6 +1,7 @@
 // A self-contained HTML reference rendered from the OpenAPI document (no scripts, no external assets).
 
 import type { JsonSchemaNode } from "../schemas/json-schema.js";
+import { EYE_SAFETY_CAUTION } from "../pipeline/eye-safety.js";
 
 type Schema = JsonSchemaNode;
 
@@ -84,10 +85,8 @@ table{border-collapse:collapse;width:100%;font-size:.9rem} td,th{border:1px soli
 .caution{border-left:4px solid #b4531b;background:#fff4ec;padding:.5rem 1rem}
 </style></head><body>
 <h1>${escapeHtml(info.title)} <small>${escapeHtml(info.version)}</small></h1>
-<p>${escapeHtml(info.description)}</p>
-<p class="caution"><strong>Eye safety.</strong> A rainbow is always opposite the sun. Never look at the sun, directly or
-through a camera, viewfinder, binoculars or a telescope, while searching for a bow or framing a shot near the sun:
-it can permanently damage your eyes and your camera's sensor.</p>
+<p class="caution">${escapeHtml(EYE_SAFETY_CAUTION)}</p>
+<p>${escapeHtml(info.description.replace(EYE_SAFETY_CAUTION, "").trim())}</p>
 <p>Every error has the JSON shape <code>{ error, message, field, allowed, requestId }</code>. The machine-readable
 document is at <a href="/openapi.json">/openapi.json</a>.</p>
 <nav><ul>${Object.entries(paths)

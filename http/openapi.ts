@@ -1,5 +1,6 @@
 import { z } from "zod";
 import type { RouteSpec } from "./route-spec.js";
+import { EYE_SAFETY_CAUTION } from "../pipeline/eye-safety.js";
 
 const errorSchema = {
   type: "object",
@@ -67,7 +68,8 @@ export function buildOpenApi(routes: RouteSpec[], version: string): Record<strin
       version,
       description:
         "Physically based rainbows: Lorenz–Mie, Debye, Airy and ray optics of water drops, integrated over drop sizes, " +
-        "the sun's spectrum and disc, and the CIE observers.",
+        "the sun's spectrum and disc, and the CIE observers.\n\n" +
+        EYE_SAFETY_CAUTION,
     },
     paths,
   };

@@ -191,7 +191,7 @@ export function costNote(body, last) {
     const terms = Math.ceil(x + 6 * Math.cbrt(x) + 2);
     warning =
       `Lorenz–Mie for drops of about ${Math.round(radiusUm)} µm needs about ${terms.toLocaleString("en")} series terms ` +
-      `per wavelength and angle: expect a long render, or a "too costly" refusal. "Automatic" gives these bows with Airy theory in a fraction of the time.`;
+      `per wavelength and angle: expect a long render, or a "too costly" refusal. "Auto" gives these bows with Airy theory in a fraction of the time.`;
   } else if (angles > 1000) {
     warning = `${angles} angles is a fine sampling: the render will take longer. A step of 0.1° is enough for most bows.`;
   }

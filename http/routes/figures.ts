@@ -37,7 +37,7 @@ export function figureRoutes(config: Config, kernels: KernelService): RouteSpec[
       summary: "Colour against ψ and drop radius (log scale), one monodisperse profile per row, as SVG or PNG",
       description:
         "Rows are drops of one radius, log-spaced from `radiusFromUm` to `radiusToUm`; each row is normalised to its own peak " +
-        "luminance (row peak = 1) and drawn in sRGB. The diagram type follows Lee 1991 (Applied Optics 30, 3401). " +
+        "luminance (row peak = 1) and drawn in sRGB. The diagram type follows Lee 1998 (Applied Optics 37, 1506). " +
         "`?format=png` gives the map alone, one pixel per (angle, radius) sample with the largest radius on top; its axes are " +
         "in the `x-antisolar-axes` header. The synchronous cost limit is shared by the rows.",
       body: sizeMapRequestSchema,

@@ -12,7 +12,7 @@ import type { JobSystem } from "../../pipeline/jobs/job-system.js";
 import { JobError } from "../../pipeline/jobs/job-errors.js";
 import { jobHash, terminalStates, type JobRecord } from "../../pipeline/jobs/job-types.js";
 
-/** Comment lines keep idle event streams open through proxies that close quiet connections (common practice). */
+/** Comment lines keep idle event streams open through proxies that close quiet connections (WHATWG HTML Living Standard §9.2.7, authoring notes: a comment line every 15 s or so). */
 const HEARTBEAT_MS = 15_000;
 /** Re-reads the job this often while streaming, in case a change notice was missed. */
 const POLL_MS = 1_000;

@@ -26,8 +26,8 @@ export function opticsRoutes(config: Config): RouteSpec[] {
       tag: "optics",
       summary: "Scattering by one drop at one wavelength: Lorenz–Mie, a Debye order, Airy theory or ray optics",
       description:
-        "Intensities |S1|² (perpendicular to the scattering plane) and |S2|² (parallel) in the dimensionless " +
-        "Bohren–Huffman convention at scattering angles Θ (0° = forward). Requests costlier than the synchronous " +
+        "`intensityPerpendicular` = |S1|² and `intensityParallel` = |S2|² (van de Hulst's i1 and i2: perpendicular and " +
+        "parallel to the scattering plane) in the dimensionless Bohren–Huffman convention at scattering angles Θ (0° = forward). Requests costlier than the synchronous " +
         "budget (Mie terms × angles) are refused with 422.",
       body: scatterRequestSchema,
       responses: {

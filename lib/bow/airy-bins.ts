@@ -14,7 +14,7 @@ import { airyBowScale } from "../rays/airy-bow.js";
 import { deviationCurvature, deviationRad, deviationSlope, rainbowImpactParameter, scatteringAngleOfDeviation } from "../rays/descartes.js";
 
 const DEG = Math.PI / 180;
-/** Relative step of the central difference for dA/db at the rainbow ray (common practice: ~ε^{1/3} of the scale). */
+/** Relative step of the central difference for dA/db at the rainbow ray (~ε^{1/3} of the scale: Press et al. 2007, Numerical Recipes 3rd ed. §5.7). */
 const SLOPE_STEP = 1e-5;
 
 /** Size-independent part of one bow on one angle grid: z = x^{2/3}·ẑ, U_j = x^{7/3}·u_j, V_j = x^{5/3}·v_j. */
@@ -69,7 +69,7 @@ interface RaysAtAngle {
 
 /**
  * Segments of the tabulated Θ(b); roots are then polished by Newton steps kept inside their segment (quadratic
- * convergence from a linear guess in a segment of ≤ π/2000 in b: 6 steps reach rounding error, common practice;
+ * convergence from a linear guess in a segment of ≤ π/2000 in b: 6 steps reach rounding error (quadratic convergence: Press et al. 2007 §9.4);
  * checked against 64-step bisection, which gave ΔE identical to 1e-8 in test/auto-engine.test.ts's case).
  */
 const RAY_TABLE_SEGMENTS = 1000;

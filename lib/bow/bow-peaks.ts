@@ -2,8 +2,9 @@
 
 /**
  * Search windows for ψ (degrees). The primary sits at 40.6–42.4° and the secondary at 50.2–53.6° across
- * 400–700 nm for water (CHECKS.md §6.2, computed from Descartes 1637 with IAPWS R9-97); small drops move the
- * primary inwards by up to ~4° and the secondary outwards by ~7° (Airy displacement, CHECKS.md §6.2).
+ * 400–700 nm for water (computed from Descartes' condition with IAPWS R9-97's index: docs/checks.md); small drops
+ * move the primary inwards by up to ~4° and the secondary outwards by ~7° (Airy 1838's displacement of the main
+ * maximum at 10 µm, computed there too).
  */
 export const PRIMARY_WINDOW_DEG = [30, 46] as const;
 export const SECONDARY_WINDOW_DEG = [46.5, 62] as const;

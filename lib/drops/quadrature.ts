@@ -1,6 +1,6 @@
 import { type DropSizeDistribution, numberDensityPerUm, validateDistribution } from "./distributions.js";
 
-/** Largest radius integrated by default: rain drops above ~3 mm radius are rare and break up (common practice). */
+/** Largest radius integrated by default: rain drops above ~3 mm radius (6 mm diameter) are rare and break up (NASA GPM, "How big can a raindrop get?": collisions and surface instabilities limit drops to about 6 mm diameter). */
 export const DEFAULT_MAX_RADIUS_UM = 3000;
 export const DEFAULT_NODES_PER_DECADE = 64;
 /** Part of each covered moment left outside the bounds, split equally between the two tails. */

@@ -22,7 +22,7 @@ export function logScale(domain: readonly [number, number], range: readonly [num
   return Object.assign(f, { domain, range, log: true, invert: (p: number) => 10 ** inner.invert(p) });
 }
 
-/** Round tick values at 1, 2 or 5 × 10ⁿ spacing, about `target` of them and at least three (common practice in plotting). */
+/** Round tick values at 1, 2 or 5 × 10ⁿ spacing, about `target` of them and at least three (Heckbert 1990, "Nice numbers for graph labels", Graphics Gems, 61–63). */
 export function niceTicks(min: number, max: number, target = 6): number[] {
   const span = max - min;
   if (!(span > 0)) return [min];

@@ -1,4 +1,4 @@
-// Colour against ψ and drop radius, one monodisperse profile per row (the diagram type of Lee 1991, Appl. Opt. 30, 3401).
+// Colour against ψ and drop radius, one monodisperse profile per row (the diagram type of Lee 1998, "Mie theory, Airy theory, and the natural rainbow", Appl. Opt. 37, 1506).
 
 import { axis, linearScale, logScale, logTicks, niceTicks } from "./axes.js";
 import { element, hexColour, svgDocument, text, textBlock, wrapText } from "./svg.js";
@@ -16,7 +16,7 @@ export interface SizeMapData {
 }
 
 /** The published sources of the diagram itself, before those of the profiles in its rows. */
-export const SIZE_MAP_SOURCES = ["Lee 1991, Applied Optics 30, 3401 (diagram type: colour against angle and drop size)", "sRGB: IEC 61966-2-1:1999"];
+export const SIZE_MAP_SOURCES = ["Lee 1998, Applied Optics 37, 1506 (diagram type: colour against angle and drop size)", "sRGB: IEC 61966-2-1:1999"];
 
 const WIDTH = 960;
 const PLOT = { left: 96, right: 900, top: 64, bottom: 504 };

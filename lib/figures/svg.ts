@@ -72,7 +72,7 @@ export function svgDocument(doc: SvgDocument): string {
   );
 }
 
-/** sRGB triple in [0, 1] (encoded) as #rrggbb, 8 bits per channel with round-half-up (common practice). */
+/** sRGB triple in [0, 1] (encoded) as #rrggbb, 8 bits per channel (CSS Color Module Level 4, hex notation) with round-half-up (our choice). */
 export function hexColour(r: number, g: number, b: number): string {
   const byte = (v: number) => Math.round(Math.min(1, Math.max(0, Number.isFinite(v) ? v : 0)) * 255).toString(16).padStart(2, "0");
   return `#${byte(r)}${byte(g)}${byte(b)}`;

@@ -6,7 +6,7 @@ export type AngleMapping = "linear" | "bow-weighted";
 /**
  * "bow-weighted" packs texels around the bows: ψ(u) = c + s·sinh(a0 + u·(a1 − a0)), a = asinh((ψ − c)/s), so the
  * texel density falls off as 1/cosh away from c. c = 46.5° sits between the primary (≈ 42°) and the secondary
- * (≈ 51°) (CHECKS.md §6.2, Descartes angles) and s = 4° keeps both bows in the dense part (our choice).
+ * (≈ 51°) (Descartes angles for water, docs/checks.md) and s = 4° keeps both bows in the dense part (our choice).
  */
 export const BOW_WEIGHTED_CENTRE_DEG = 46.5;
 export const BOW_WEIGHTED_SCALE_DEG = 4;

@@ -32,7 +32,7 @@ export function riccatiBesselReal(
 /**
  * Start of the downward recurrence for D_n(mx). The classic max(N, |mx|) + 16 start gives Qsca 0.3 %
  * wrong at m = 1.33 + 1e-5 i, x = 10000; 1.1·max(N, |mx|) + 200 reproduces Wiscombe and Du there
- * (CHECKS.md §4.5, computed observation; confirmed by test/mie-reference.test.ts).
+ * (Wiscombe 1979 case 11 and Du 2004 case f; computed, docs/checks.md; confirmed by test/lib/mie/).
  */
 export function logDerivativeStart(nTerms: number, absMx: number): number {
   return Math.ceil(1.1 * Math.max(nTerms, absMx) + 200);

@@ -4,11 +4,11 @@ import { type Spectrum, multiplySpectra } from "../spectra/spectrum.js";
 /** Standard sea-level pressure of Bucholtz's (1995) US Standard Atmosphere 1962 tables. */
 export const STANDARD_PRESSURE_HPA = 1013.25;
 
-/** Ångström turbidity defaults: common practice for a clear continental sky (β = 0.05, α = 1.3). */
+/** Ångström turbidity defaults: α = 1.3, the mean wavelength exponent Ångström (1929) proposed for natural atmospheres; β = 0.05 for a clear sky (common practice). */
 export const DEFAULT_ANGSTROM_BETA = 0.05;
 export const DEFAULT_ANGSTROM_ALPHA = 1.3;
 
-/** Relative optical air mass, Kasten & Young 1989 (Appl. Opt. 28, 4735; coefficients as in pvlib-python, equation number not checked), apparent elevation. */
+/** Relative optical air mass, Kasten & Young 1989 (Appl. Opt. 28, 4735, Eq. 3 as public implementations cite it; coefficients as in pvlib-python; tested against the paper's Table II), apparent elevation. */
 export function relativeAirMass(elevationDeg: number): number {
   if (!(elevationDeg >= 0 && elevationDeg <= 90)) throw new RangeError(`air mass needs a solar elevation in 0–90°, got ${elevationDeg}`);
   const zenithDeg = 90 - elevationDeg;

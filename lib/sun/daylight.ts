@@ -12,7 +12,7 @@ export function d65Spectrum(grid: WavelengthGrid): Spectrum {
   return resample(regularTable(startNm, stepNm, columns.relative), grid);
 }
 
-/** Chromaticity of CIE daylight at a correlated colour temperature (CIE 015:2018 §4.1.2, Eqs. 4.7–4.9; from memory, checked against D65). */
+/** Chromaticity of CIE daylight at a correlated colour temperature (CIE 015:2018; the same polynomials as CIE 015:2004 §3.1 and Wyszecki & Stiles 2000, pp. 145–146; equation numbers 4.7–4.9 from memory; checked against D65). */
 export function cieDaylightChromaticity(cctK: number): { x: number; y: number } {
   if (!(cctK >= DAYLIGHT_CCT_MIN_K && cctK <= DAYLIGHT_CCT_MAX_K)) {
     throw new RangeError(`CIE daylight is defined for ${DAYLIGHT_CCT_MIN_K}–${DAYLIGHT_CCT_MAX_K} K, not ${cctK} K`);
@@ -25,7 +25,7 @@ export function cieDaylightChromaticity(cctK: number): { x: number; y: number } 
   return { x, y };
 }
 
-/** M1, M2 of CIE 015:2018 Eq. 4.10, rounded to 3 decimals as the standard prescribes (from memory; reproduces D65). */
+/** M1, M2 of CIE 015:2018 Eq. 4.10, rounded to 3 decimals as the standard prescribes (the rounding that yields the internationally agreed D-illuminant tables; equation number from memory; reproduces D65). */
 export function cieDaylightFactors(cctK: number): { m1: number; m2: number } {
   const { x, y } = cieDaylightChromaticity(cctK);
   const m = 0.0241 + 0.2562 * x - 0.7341 * y;

@@ -1,6 +1,7 @@
 import { neckelLabs1994 } from "../data/neckel-labs-1994-limb-darkening.js";
 
-// IAU 2015 Resolution B3 nominal solar radius and IAU 2012 Resolution B2 astronomical unit (from memory, CHECKS §2.2).
+// IAU 2015 Resolution B3 nominal solar radius (695 700 km exactly; Prša et al. 2016, AJ 152, 41) and IAU 2012
+// Resolution B2 astronomical unit (149 597 870 700 m exactly).
 export const NOMINAL_SOLAR_RADIUS_KM = 695700;
 export const ASTRONOMICAL_UNIT_KM = 149597870.7;
 

@@ -1,5 +1,5 @@
 // Image of a bow layer from a 1-D profile: each pixel's ray → angle ψ from the antisolar point → colour by linear
-// interpolation in ψ. Bows are circles about the antisolar point (physics brief, Coordinates), so ψ is all a
+// interpolation in ψ. Bows are circles about the antisolar point (Descartes 1637: every bow ray leaves at one angle to the sun's rays), so ψ is all a
 // pixel needs, apart from the polariser, which also needs the bow's local tangent.
 
 import type { RayField } from "./ray-field.js";

@@ -1,6 +1,6 @@
 // Refractive index of ordinary water substance, IAPWS R9-97 (Harvey, Gallagher & Levelt Sengers 1998,
-// J. Phys. Chem. Ref. Data 27, 761). Index relative to vacuum, vacuum wavelength (the convention taken by the
-// project brief; equation/table numbers below from memory).
+// J. Phys. Chem. Ref. Data 27, 761). Index relative to vacuum, vacuum wavelength (the convention of public IAPWS
+// implementations, whose tests reproduce the release's Table 3 with it; equation/table numbers below from memory).
 
 /** Validity of IAPWS R9-97 (release text): 0.2–1.1 µm, 261.15–773.15 K, 0–1060 kg/m³. */
 export const IAPWS_R9_97_WAVELENGTH_NM = { min: 200, max: 1100 } as const;

@@ -1,5 +1,5 @@
 // Empirical index of sea water relative to air, Quan & Fry 1995 (Appl. Opt. 34, 3477; coefficients as widely
-// reproduced, CHECKS.md §3.2); λ in nm (in air), T in °C, S in ‰. Fit ranges below: from memory.
+// reproduced in public ocean-optics code); λ in nm (in air), T in °C, S in ‰. Fit ranges below: from memory.
 
 /** Ranges of the data Quan & Fry fitted (Austin & Halikas 1976). */
 export const QUAN_FRY_WAVELENGTH_NM = { min: 400, max: 700 } as const;

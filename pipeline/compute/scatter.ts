@@ -89,8 +89,8 @@ export function computeScatter(body: ScatterRequest) {
   });
   return {
     scatteringAngleDeg: Array.from(thetaDeg),
-    s11Perpendicular: finiteArray(perpendicular),
-    s11Parallel: finiteArray(parallel),
+    intensityPerpendicular: finiteArray(perpendicular),
+    intensityParallel: finiteArray(parallel),
     degreeOfPolarisation: Array.from(degreeOfPolarisation),
     sizeParameter: x,
     refractiveIndex: { re: m.mRe, im: m.mIm },
@@ -98,7 +98,8 @@ export function computeScatter(body: ScatterRequest) {
     meta: {
       method: body.method,
       units: {
-        s11Perpendicular: "|S1|², dimensionless (Bohren & Huffman 1983): dσ/dΩ = |S|²/k² for that polarisation",
+        intensityPerpendicular: "|S1|² (i1 of van de Hulst 1957), dimensionless (Bohren & Huffman 1983): dσ/dΩ = |S|²/k² for that polarisation",
+        intensityParallel: "|S2|² (i2 of van de Hulst 1957), dimensionless, as intensityPerpendicular",
         scatteringAngleDeg: "degrees, 0 = forward",
       },
       refractiveIndexSource: m.source,

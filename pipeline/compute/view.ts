@@ -27,7 +27,7 @@ import { encodeExr, type ExrChromaticities } from "../encoders/exr.js";
 import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { withSpaceColourChunks } from "../encoders/png-strip.js";
 
-/** The window that holds both bows (primary ≈ 42°, secondary ≈ 51°: physics brief); "peak" scales to its brightest sample. */
+/** The window that holds both bows (primary ≈ 42°, secondary ≈ 51°: Descartes angles, docs/checks.md); "peak" scales to its brightest sample. */
 const BOW_WINDOW_DEG = { fromDeg: 30, toDeg: 60 } as const;
 /** Coarsest profile step: the sun's disc (0.533°) smears anything finer; finer still where a pixel is smaller. */
 const MAX_PROFILE_STEP_DEG = 0.1;
@@ -485,7 +485,7 @@ export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): 
           chromaticities: { red: chroma.red, green: chroma.green, blue: chroma.blue, white: chroma.white },
           attributes: {
             comments: `antisolar bow layer (${p.scene.layer}); linear ${space}; ${(manifest.scale as { meaning: string }).meaning}`,
-            antisolarHash: p.hash,
+            "antisolar:hash": p.hash,
           },
         }),
         contentType: "image/x-exr",

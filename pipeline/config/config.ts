@@ -4,7 +4,7 @@ import { positiveFromEnv } from "./env.js";
 // The job and Redis settings (REDIS_URL, JOB_*) live in pipeline/jobs/job-config.ts.
 import { loadJobConfig, type JobConfig } from "../jobs/job-config.js";
 
-/** Configuration comes from environment variables only (shared/guide/api.md); defaults are documented in README.md. */
+/** Configuration comes from environment variables only; defaults are documented in README.md. */
 export interface Config extends JobConfig {
   port: number;
   host: string;

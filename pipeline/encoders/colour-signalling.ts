@@ -34,7 +34,7 @@ const SIGNALLING: Record<OutputSpaceId, SpaceSignalling> = {
   "xyz-d65": { description: "antisolar CIE XYZ (D65-relative, linear)", curve: LINEAR_CURVE, cicp: null, note: "XYZ has no H.273 code points; the ICC profile uses the X, Y, Z axes as primaries. Z of the D65 white exceeds 1 and is clipped." },
 };
 
-/** Fixed so identical requests give byte-identical PNGs (common practice for cacheable output). */
+/** Fixed so identical requests give byte-identical PNGs (so a content hash names one file). */
 const PROFILE_CREATED = new Date(Date.UTC(2026, 0, 1));
 
 type Vec3 = [number, number, number];
@@ -60,7 +60,7 @@ const cache = new Map<OutputSpaceId, SpaceColourMetadata>();
 
 /**
  * ICC matrix/TRC profile and cICP for an output space. Colorants: colorjs.io's linear → XYZ-D65 map followed by
- * Bradford D65 → ICC D50 (the linear Bradford transform ICC.1:2010 recommends for 'chad', from memory).
+ * Bradford D65 → ICC D50 (the linear Bradford transform of ICC.1 Annex E, as public colour-management code cites it for 'chad').
  */
 export function colourMetadataFor(id: OutputSpaceId): SpaceColourMetadata {
   const cached = cache.get(id);

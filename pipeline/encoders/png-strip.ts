@@ -29,7 +29,7 @@ const MAX_PIXELS = 0x3fff * 0x3fff;
 
 /**
  * One pixel column per sample and `height` identical rows. Codes are round(v·(2^bits − 1)) of v clamped to [0, 1]
- * (full-range coding, common practice).
+ * (full-range coding: ITU-T H.273 VideoFullRangeFlag = 1).
  */
 export async function encodePngStrip(req: PngStripRequest): Promise<PngStrip> {
   const { values, height } = req;

@@ -9,7 +9,7 @@ const PUBLISHED: Partial<Record<OutputSpaceId, ExrChromaticities & { source: str
   "srgb-linear": { red: [0.64, 0.33], green: [0.3, 0.6], blue: [0.15, 0.06], white: [0.3127, 0.329], source: "ITU-R BT.709-6" },
   // Academy S-2014-004 (ACEScg, AP1) and TB-2018-001 (ACES white).
   acescg: { red: [0.713, 0.293], green: [0.165, 0.83], blue: [0.128, 0.044], white: [0.32168, 0.33767], source: "Academy S-2014-004, TB-2018-001" },
-  // The X, Y, Z axes themselves; RGB = (1, 1, 1) is the equal-energy white (the OpenEXR convention for XYZ data, from memory).
+  // The X, Y, Z axes themselves; RGB = (1, 1, 1) is the equal-energy white (from the attribute's definition: the x, y of RGB (1,0,0), (0,1,0), (0,0,1), (1,1,1); OpenEXR ImfChromaticities.h).
   "xyz-d65": { red: [1, 0], green: [0, 1], blue: [0, 0], white: [1 / 3, 1 / 3], source: "CIE XYZ axes" },
 };
 

@@ -1,6 +1,6 @@
 import { positiveFromEnv } from "../config/env.js";
 
-// Settings of the job system, from environment variables only (shared/guide/api.md); defaults in deploy/README.md.
+// Settings of the job system, from environment variables only; defaults in deploy/README.md.
 
 export interface JobConfig {
   /** Redis for the queue, job state, results and the shared kernel cache; empty runs everything in-process. */

@@ -5,7 +5,7 @@ import { KernelService } from "./kernel-service.js";
 import { createInlinePool, createWorkerPool, type KernelPool } from "./worker-pool.js";
 import { kernelRedis, RedisKernelStore } from "./redis-kernel-store.js";
 
-/** Kernel packs in Redis expire after 30 days without a write (common practice for a cache; memory is bounded by Redis's eviction). */
+/** Kernel packs in Redis expire after 30 days without a write (our choice for a cache; memory is bounded by Redis's eviction). */
 const KERNEL_TTL_S = 30 * 86_400;
 
 export interface KernelRuntime {

@@ -15,7 +15,7 @@ function sourcesOf(result: ProfileResult): string[] {
   return Array.isArray(result.meta.sources) ? result.meta.sources.map(String) : [];
 }
 
-/** The provenance every render carries (shared/guide/api.md): content hash and published sources, as headers. */
+/** The provenance every render carries (README, Using it): content hash and published sources, as headers. */
 export function figureHeaders(hash: string, sources: readonly string[]): Record<string, string> {
   return { "x-antisolar-hash": hash, "x-antisolar-sources": headerSafe(JSON.stringify(sources)) };
 }

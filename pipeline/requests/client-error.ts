@@ -1,4 +1,5 @@
-// The catalogue of errors a client can see: a stable code, a status and the JSON shape of shared/guide/api.md.
+// The catalogue of errors a client can see: a stable code, a status and the one JSON shape the README documents
+// ({ error, message, field, allowed, requestId }).
 
 export type ErrorCode =
   | "invalid-request"

@@ -1,7 +1,7 @@
 // The same failure modes as hardening.test.ts seen by an HTTP client of the real app: a crashed kernel worker
-// gives a 500 that hides internals (shared/guide/api.md: "A 500 is a bug and hides internals"), a client that
-// hangs up stops its kernel work, and app.close() lets a request in flight finish (common practice for a
-// graceful shutdown). The app's kernel pool runs the test-only worker of fixtures/crashing-worker.mjs.
+// gives a 500 that hides internals (DEVELOPERS.md: anything but a ClientError is a 500, a bug; OWASP Error
+// Handling Cheat Sheet: no stack traces to clients), a client that hangs up stops its kernel work, and app.close()
+// lets a request in flight finish (Node's server.close(): stop accepting connections, let open ones finish). The app's kernel pool runs the test-only worker of fixtures/crashing-worker.mjs.
 import { describe, it, expect, vi, afterAll } from "vitest";
 import { request as httpRequest } from "node:http";
 import type { AddressInfo } from "node:net";

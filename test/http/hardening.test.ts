@@ -1,5 +1,5 @@
-// What keeps the service safe on a network (http/plugins/hardening.ts), checked against the contract in
-// shared/guide/api.md and common practice for HTTP services: security headers (OWASP Secure Headers Project),
+// What keeps the service safe on a network (http/plugins/hardening.ts), checked against the service's contract
+// (README: configuration, error shape) and published practice for HTTP services: security headers (OWASP Secure Headers Project),
 // CORS only when configured (Fetch standard, CORS protocol), 429 and 503 with Retry-After (RFC 6585 §4,
 // RFC 9110 §15.6.4), a crashed kernel worker fails only its own request, and cancelled work stops.
 import { describe, it, expect } from "vitest";

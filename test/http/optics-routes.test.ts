@@ -14,8 +14,8 @@ const post = (body: unknown) => request(app.server).post("/v1/scatter").send(bod
 
 describe("POST /v1/scatter", () => {
   it("reproduces Wiscombe's MIEV0 case 10 (m = 1.33 + 1e-5 i, x = 100) through HTTP", async () => {
-    // Wiscombe 1979 (NCAR/TN-140+STR) test case 10: Qext 2.101321, Qsca 2.096594; |S1(90°)|² from
-    // S1 = −3.655758 + 8.769860i (CHECKS.md §4.1). x = 100 at λ = 2π µm and r = 100 µm.
+    // Wiscombe 1979 (NCAR/TN-140+STR, MIEV0 test-case answers) case 10: Qext 2.101321, Qsca 2.096594; at 90°
+    // S1 = −3.655758 + 8.769860i and S2 = −6.550512 − 4.675370i. x = 100 at λ = 2π µm and r = 100 µm.
     const res = await post({
       radiusUm: 100,
       wavelengthNm: 2000 * Math.PI,
@@ -28,7 +28,11 @@ describe("POST /v1/scatter", () => {
     expect(Math.abs(res.body.qExt / 2.101321 - 1)).toBeLessThan(1e-6);
     expect(Math.abs(res.body.qSca / 2.096594 - 1)).toBeLessThan(1e-6);
     const s1At90 = 3.655758 ** 2 + 8.76986 ** 2;
-    expect(Math.abs(res.body.s11Perpendicular[1] / s1At90 - 1)).toBeLessThan(5e-6);
+    expect(Math.abs(res.body.intensityPerpendicular[1] / s1At90 - 1)).toBeLessThan(5e-6);
+    const s2At90 = 6.550512 ** 2 + 4.67537 ** 2;
+    expect(Math.abs(res.body.intensityParallel[1] / s2At90 - 1)).toBeLessThan(5e-6);
+    // |S1|², |S2|² are van de Hulst's i1, i2, not the Mueller element S11 = ½(i1 + i2): no field is named after it.
+    expect(Object.keys(res.body).filter((k) => /s11/i.test(k))).toEqual([]);
     expect(res.body.scatteringAngleDeg).toEqual([0, 90, 180]);
     expect(res.body.meta.method).toBe("mie");
   });
@@ -36,7 +40,8 @@ describe("POST /v1/scatter", () => {
   it("uses water's index relative to air and the wavelength in air by default", async () => {
     const res = await post({ radiusUm: 10, wavelengthNm: 589.3, scatteringAngles: { fromDeg: 0, toDeg: 180, stepDeg: 45 } });
     expect(res.status).toBe(200);
-    // IAPWS R9-97 at 20 °C, 589.3 nm: n = 1.333349 (CHECKS.md §3.3), divided by n_air ≈ 1.000277 (Ciddor 1996).
+    // IAPWS R9-97 at 20 °C, 589.3 nm, ρ = 998.20715 kg/m³ (IAPWS-95): n = 1.333349 (computed from the release's formula,
+    // docs/checks.md), divided by n_air ≈ 1.000277 (Ciddor 1996).
     expect(res.body.refractiveIndex.re).toBeCloseTo(1.333349 / 1.000277, 5);
     expect(res.body.sizeParameter).toBeCloseTo((2 * Math.PI * 10_000 * 1.000277) / 589.3, 2);
   });
@@ -50,10 +55,11 @@ describe("POST /v1/scatter", () => {
       scatteringAngles: { fromDeg: 130, toDeg: 145, stepDeg: 0.05 },
     });
     expect(res.status).toBe(200);
-    const s = res.body.s11Perpendicular as number[];
+    const s = res.body.intensityPerpendicular as number[];
     const peak = res.body.scatteringAngleDeg[s.indexOf(Math.max(...s))];
-    // Descartes primary for water at 600 nm: ψ = 42.075° (CHECKS.md §6.2), Θ = 137.925°; Airy shift for x ≈ 1050
-    // is ≈ 0.9° towards larger Θ (CHECKS.md §6.2 table, 0.1 mm row): peak expected near 138.8°.
+    // Descartes primary for water at 600 nm: ψ = 42.075° (Descartes' condition, van de Hulst 1957 ch. 13, with
+    // R9-97's n; docs/checks.md), Θ = 137.925°; Airy's main maximum for x ≈ 1050 lies ≈ 0.9° towards larger Θ
+    // (1.01879·(D″/2)^(1/3)·x^(−2/3), Airy 1838; van de Hulst 1957 ch. 13): peak expected near 138.8°.
     expect(peak).toBeGreaterThan(138.3);
     expect(peak).toBeLessThan(139.3);
   });
@@ -62,7 +68,7 @@ describe("POST /v1/scatter", () => {
     for (const method of ["airy", "geometric"]) {
       const res = await post({ radiusUm: 500, wavelengthNm: 550, method, scatteringAngles: { fromDeg: 120, toDeg: 150, stepDeg: 0.5 } });
       expect(res.status).toBe(200);
-      for (const v of res.body.s11Perpendicular) expect(v === null || Number.isFinite(v)).toBe(true);
+      for (const v of res.body.intensityPerpendicular) expect(v === null || Number.isFinite(v)).toBe(true);
     }
   });
 
@@ -115,7 +121,7 @@ describe("GET /v1/water", () => {
   it("gives IAPWS R9-97 at 20 °C and 589.3 nm with the index relative to air", async () => {
     const res = await request(app.server).get("/v1/water?wavelengthNm=589.3&temperatureC=20");
     expect(res.status).toBe(200);
-    // CHECKS.md §3.3 (computed from R9-97 with the IAPWS-95 density): 1.333349; our Kell density gives ≤ 2e-6 off.
+    // R9-97 at ρ = 998.20715 kg/m³ (IAPWS-95 at 20 °C): 1.333349 (computed, docs/checks.md); our Kell density gives ≤ 2e-6 off.
     expect(Math.abs(res.body.n - 1.333349)).toBeLessThan(2e-6);
     expect(res.body.nRelativeToAir).toBeLessThan(res.body.n);
     expect(res.body.wavelength).toBe("vacuum");

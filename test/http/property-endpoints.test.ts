@@ -1,5 +1,5 @@
 // Random valid and invalid requests through every endpoint (property-based, fast-check). The expectations are the
-// service's own contract in shared/guide/api.md ("common practice" for an HTTP API): a valid request gives 2xx with a
+// service's own contract (README, Conventions; DEVELOPERS.md): a valid request gives 2xx with a
 // well-formed file (or 422 when valid but too costly), an invalid one a 4xx in the one error shape that names the
 // field at fault, and nothing gives a 5xx or hangs. File formats are checked against their published magic numbers:
 // PNG (ISO/IEC 15948:2004 §5.2, via sharp's decoder), OpenEXR (magic 20000630, OpenEXR file layout spec),
@@ -120,7 +120,7 @@ async function expectWellFormed(req: Sent, res: LightMyRequestResponse): Promise
 
 const ERROR_KEYS = new Set(["error", "message", "field", "allowed", "requestId", "cost", "limit", "jobs"]);
 
-/** The one error shape of shared/guide/api.md. */
+/** The one error shape the README documents: { error, message, field, allowed, requestId }. */
 function expectErrorShape(req: Sent, res: LightMyRequestResponse): { error: string; message: string; field?: string } {
   const what = describeRequest(req, res);
   expect(String(res.headers["content-type"]), what).toMatch(/^application\/json/);

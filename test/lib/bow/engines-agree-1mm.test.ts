@@ -53,8 +53,9 @@ describe("bow positions of a 1 mm drop at 550 nm (x ≈ 11,400): Mie against Air
     const mie = miePerpendicularPeak(theta, step);
     const airy = theta[argmax(airyBowIntensity(n, x, 1, theta).perpendicular)];
     const descartes = descartesRay(n, 1).scatteringAngleDeg;
-    // CHECKS.md §6.2: at x = 10,000 Airy (137.947°) and smoothed Mie (137.942°) agree to 0.005°; 0.03° allows the
-    // smoothing window (±0.02°) and the grid step. Descartes ignores the Airy shift of ≈ 0.195° at 1 mm (same table).
+    // At x = 10,000 Airy (137.947°) and smoothed Mie (137.942°) agree to 0.005° (computed Airy-vs-Mie cross-check,
+    // docs/checks.md; Wang & van de Hulst 1991 compare the two the same way); 0.03° allows the smoothing window
+    // (±0.02°) and the grid step. Descartes ignores the Airy shift of ≈ 0.195° at 1 mm (Airy 1838, computed there too).
     expect(Math.abs(mie - airy)).toBeLessThan(0.03);
     expect(mie - descartes).toBeGreaterThan(0.1);
     expect(mie - descartes).toBeLessThan(0.25);
@@ -65,7 +66,7 @@ describe("bow positions of a 1 mm drop at 550 nm (x ≈ 11,400): Mie against Air
     const mie = miePerpendicularPeak(theta, step);
     const airy = theta[argmax(airyBowIntensity(n, x, 2, theta).perpendicular)];
     const descartes = descartesRay(n, 2).scatteringAngleDeg;
-    // The secondary's Airy shift is 0.348° at 1 mm (CHECKS.md §6.2) towards smaller Θ (outside the bow in ψ);
+    // The secondary's Airy shift is 0.348° at 1 mm (Airy 1838, computed: docs/checks.md) towards smaller Θ (outside the bow in ψ);
     // the secondary is ~5× fainter, so reflected light's ripple is relatively stronger: 0.05°.
     expect(Math.abs(mie - airy)).toBeLessThan(0.05);
     expect(descartes - mie).toBeGreaterThan(0.2);

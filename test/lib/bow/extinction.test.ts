@@ -5,7 +5,7 @@ describe("extinction by the rain curtain", () => {
   it("Q_ext tends to 2 for large drops (van de Hulst 1957 §8.22): within 1 % at the switch-over size", () => {
     const q = extinctionEfficiency(1.334, 0, EXTINCTION_LIMIT_X);
     expect(Math.abs(q - 2)).toBeLessThan(0.02);
-    // Wiscombe 1979 case 10 (m = 1.33 + 1e-5 i, x = 100): Qext = 2.101321 (CHECKS.md §4.1).
+    // Wiscombe 1979 case 10 (m = 1.33 + 1e-5 i, x = 100): Qext = 2.101321 (NCAR/TN-140+STR, MIEV0 test answers).
     expect(extinctionEfficiency(1.33, 1e-5, 100)).toBeCloseTo(2.101321, 5);
   });
 

@@ -9,7 +9,7 @@ import { d65Spectrum } from "../../../lib/sun/index.js";
 
 const sum = (a: Float64Array) => a.reduce((s, v) => s + (Number.isNaN(v) ? 0 : v), 0);
 
-describe("generated CIE tables against the CIE dataset metadata (CHECKS §1.1, published)", () => {
+describe("generated CIE tables against the CIE dataset metadata (CIE 2019 data sets 10.25039/CIE.DS.xvudnb9b, .sqksu2n5, .hjfjmt59; published sums and sample rows)", () => {
   // Sums of ~471 numbers with ≤ 13 significant digits: 1e-9 absolute allows double round-off only.
   it("CIE 1931 2° column sums equal CIE's sumOfColumns", () => {
     const c = cieXyz1931TwoDeg.columns;
@@ -44,7 +44,7 @@ describe("generated CIE tables against the CIE dataset metadata (CHECKS §1.1, p
   });
 });
 
-describe("spectrum locus (CHECKS §1.3, computed from the CIE 1 nm files; 5-decimal rounding → tolerance 5e-6)", () => {
+describe("spectrum locus (computed from the CIE 2019 1 nm data sets, as CIE's own 10.25039/CIE.DS.mifmy4x4; 5-decimal rounding → tolerance 5e-6)", () => {
   const rows: [number, number, number, number, number][] = [
     [400, 0.17334, 0.0048, 0.17839, 0.01871], [450, 0.15664, 0.0177, 0.151, 0.03644], [500, 0.00817, 0.53842, 0.00559, 0.67454],
     [520, 0.0743, 0.8338, 0.12524, 0.81019], [550, 0.3016, 0.69231, 0.3473, 0.65009], [580, 0.51249, 0.48659, 0.53856, 0.46144],
@@ -72,7 +72,8 @@ function normalisedXyz(s: Spectrum, observer: Observer) {
 }
 
 describe("white points by the CIE 015:2018 §7 sum", () => {
-  // CHECKS §1.2 computed figures are given to 6 decimals (x, y) and 4 decimals (XYZ): tolerances are half a unit.
+  // The computed figures (docs/checks.md; CIE 015:2018 publishes 0.31272, 0.32903 for the 5 nm sum) are given to
+  // 6 decimals (x, y) and 4 decimals (XYZ): tolerances are half a unit.
   it("D65, 2°, 1 nm 360–830: x, y = 0.312727, 0.329023; XYZ = 95.0471, 100, 108.8829 (computed)", () => {
     const w = normalisedXyz(d65Spectrum(makeWavelengthGrid(360, 830, 1)), "cie1931-2");
     expect(Math.abs(w.x - 0.312727)).toBeLessThan(5e-7);

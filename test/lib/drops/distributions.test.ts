@@ -6,7 +6,7 @@ import {
 
 const rel = (a: number, b: number) => Math.abs(a / b - 1);
 
-describe("Marshall & Palmer 1948 (CHECKS §7, computed from N0 = 8000 m⁻³ mm⁻¹, Λ = 4.1 R^−0.21)", () => {
+describe("Marshall & Palmer 1948 (J. Meteorol. 5, 165; computed from N0 = 8000 m⁻³ mm⁻¹, Λ = 4.1 R^−0.21)", () => {
   it("Λ at R = 1, 5, 10, 25 mm/h = 4.1000, 2.9242, 2.5280, 2.0855 mm⁻¹ (4 decimals → 5e-5)", () => {
     [[1, 4.1], [5, 2.9242], [10, 2.528], [25, 2.0855]].forEach(([r, l]) => expect(Math.abs(marshallPalmerSlopePerMm(r) - l)).toBeLessThan(5e-5));
   });
@@ -17,7 +17,7 @@ describe("Marshall & Palmer 1948 (CHECKS §7, computed from N0 = 8000 m⁻³ mm�
   it("median volume diameter D0 = 3.67/Λ: 0.895 mm (R = 1), 1.452 mm (R = 10); the exact median of D³N(D) is 3.672/Λ", () => {
     expect(Math.abs(3.67 / marshallPalmerSlopePerMm(1) - 0.895)).toBeLessThan(5e-4);
     expect(Math.abs(3.67 / marshallPalmerSlopePerMm(10) - 1.452)).toBeLessThan(5e-4);
-    // Half the volume lies above D0 = 3.672/Λ: Γ(4, x)/Γ(4) = e^−x(1 + x + x²/2 + x³/6) = 0.5 at x = 3.672 (CHECKS §7).
+    // Half the volume lies above D0 = 3.672/Λ: Γ(4, x)/Γ(4) = e^−x(1 + x + x²/2 + x³/6) = 0.5 at x = 3.672 (the regularised upper incomplete gamma function at integer order, DLMF §8.4).
     const x = 3.672;
     expect(Math.abs(Math.exp(-x) * (1 + x + (x * x) / 2 + x ** 3 / 6) - 0.5)).toBeLessThan(2e-4);
   });

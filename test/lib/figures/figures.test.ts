@@ -188,7 +188,7 @@ describe("profileSvg", () => {
     const p3 = await profileOf({ ...showerBody, output: { space: "display-p3" } });
     const strip = byId(parseXml(profileSvg(p3)), "colour-strip").children.map((r) => r.attrs.fill);
     const reference = byId(parseXml(profileSvg(shower)), "colour-strip").children.map((r) => r.attrs.fill);
-    // One 8-bit code of slack for rounding of the two paths (common practice for 8-bit comparisons).
+    // One 8-bit code of slack: the two paths round separately, so a value near a half-code may land either side.
     let worst = 0;
     strip.forEach((hex, i) => {
       for (let c = 0; c < 3; c++) {
@@ -217,7 +217,7 @@ describe("figures of unusual requests", () => {
     expect(byId(root, "colour-strip").children).toHaveLength(21);
     const chroma = chromaticitySvg(odd);
     expect(all(parseXml(chroma)).find((e) => e.name === "desc")!.text).toContain("10.25039/CIE.DS.sqksu2n5");
-    // CHECKS.md §1.3, 10° locus at 520 nm: (0.12524, 0.81019).
+    // CIE 1964 10° locus at 520 nm: (0.12524, 0.81019), computed from CIE data set 10.25039/CIE.DS.sqksu2n5 (docs/checks.md).
     const r = parseXml(chroma);
     const dot = byId(r, "locus-520nm");
     const fx = axisMap(r, "x", "x1");
@@ -248,12 +248,12 @@ describe("figures of unusual requests", () => {
 });
 
 describe("chromaticitySvg", () => {
-  it("puts the spectrum locus where CIE's tables put it (CHECKS.md §1.3) and the sRGB triangle at IEC 61966-2-1's primaries", async () => {
+  it("puts the spectrum locus where CIE's tables put it (CIE 2019 1 nm data sets) and the sRGB triangle at IEC 61966-2-1's primaries", async () => {
     const svg = chromaticitySvg(shower);
     const root = parseXml(svg);
     const fx = axisMap(root, "x", "x1");
     const fy = axisMap(root, "y", "y1");
-    // CHECKS.md §1.3: x = x̄/(x̄+ȳ+z̄), y = ȳ/(…) from the CIE 2019 1 nm file, 5 decimals (±5e-6); the drawing adds
+    // x = x̄/(x̄+ȳ+z̄), y = ȳ/(…) computed from the CIE 2019 1 nm data set, 5 decimals (±5e-6; docs/checks.md); the drawing adds
     // ≤ 0.01 px (point and tick rounding) at 700 px per unit (±1.5e-5): tolerance 2.2e-5.
     const tol = 5e-6 + 0.011 * fx.perPixel;
     expect(tol).toBeLessThan(2.2e-5);
@@ -272,7 +272,7 @@ describe("chromaticitySvg", () => {
       expect(Math.abs(fx(Number(dot.attrs.cx)) - x)).toBeLessThan(tol);
       expect(Math.abs(fy(Number(dot.attrs.cy)) - y)).toBeLessThan(tol);
     }
-    // The locus polyline passes through 400 and 450 nm too (CHECKS.md §1.3), at 1 nm steps from 360 nm.
+    // The locus polyline passes through 400 and 450 nm too (same computed locus), at 1 nm steps from 360 nm.
     const locus = points(byId(root, "spectrum-locus"));
     expect(locus).toHaveLength(471);
     for (const [nm, x, y] of [
@@ -289,7 +289,7 @@ describe("chromaticitySvg", () => {
     expect([Number(purple.attrs.x1), Number(purple.attrs.y1)]).toEqual(locus[0]);
     expect([Number(purple.attrs.x2), Number(purple.attrs.y2)]).toEqual(locus[locus.length - 1]);
 
-    // IEC 61966-2-1:1999 primaries R (0.64, 0.33), G (0.30, 0.60), B (0.15, 0.06) (CHECKS.md §1.5, from memory).
+    // IEC 61966-2-1:1999 primaries R (0.64, 0.33), G (0.30, 0.60), B (0.15, 0.06) (ITU-R BT.709-6's primaries; as in colour-science's sRGB data set, which cites both).
     const tri = points(byId(root, "srgb-gamut")).map(([px, py]) => [fx(px), fy(py)]);
     const iec = [
       [0.64, 0.33],
@@ -339,7 +339,7 @@ describe("chromaticitySvg", () => {
     expect(Math.abs(fx(Number(marker.attrs.cx)) - c[2 * primary])).toBeLessThan(0.011 * fx.perPixel);
   });
 
-  it("marks the sun's white at D65 when the sun is CIE D65 (CHECKS.md §1.2: 0.31272, 0.32903 from 5 nm sums)", async () => {
+  it("marks the sun's white at D65 when the sun is CIE D65 (CIE 015:2018: 0.31272, 0.32903 from 5 nm sums)", async () => {
     const d65 = await profileOf({
       drops: { kind: "monodisperse", radiusUm: 500 },
       sun: { spectrum: { kind: "cie-d65" } },
@@ -350,7 +350,7 @@ describe("chromaticitySvg", () => {
     const fx = axisMap(root, "detail-x", "x1");
     const fy = axisMap(root, "detail-y", "y1");
     const sun = byId(root, "sun-white-detail").children[0];
-    // CHECKS.md: 0.312721, 0.329031 computed at 5 nm; allow the published 5-decimal rounding plus 0.01 px of drawing.
+    // Computed 0.312721, 0.329031 at 5 nm (docs/checks.md); allow the published 5-decimal rounding plus 0.01 px of drawing.
     expect(Math.abs(fx(Number(sun.attrs.cx)) - 0.31272)).toBeLessThan(5e-6 + 0.011 * fx.perPixel);
     expect(Math.abs(fy(Number(sun.attrs.cy)) - 0.32903)).toBeLessThan(5e-6 + 0.011 * fy.perPixel);
     expect(5e-6 + 0.011 * Math.max(fx.perPixel, fy.perPixel)).toBeLessThan(3e-5);
@@ -377,7 +377,8 @@ describe("sizeMapSvg and sizeMapRaster", () => {
     expect(ticks[0] - ticks[1]).toBeCloseTo(ticks[1] - ticks[2], 1);
     expect(svg).toContain("drop radius (µm, logarithmic scale)");
     expect(svg).toContain("row peak = 1");
-    expect(svg).toContain("Lee 1991, Applied Optics 30, 3401");
+    expect(svg).toContain("Lee 1998, Applied Optics 37, 1506");
+    expect(svg).not.toContain("Lee 1991");
     const raster = sizeMapRaster(map);
     expect([raster.width, raster.height]).toEqual([na, 5]);
     // Top raster row = largest radius: its first pixel equals row 4's first colour.
@@ -439,7 +440,7 @@ describe("figure routes", () => {
     // Defaults: 24 radii × 121 angles (30–60° by 0.25°).
     expect(byId(root, "size-map-cells").children).toHaveLength(24 * 121);
     expect(svg).toContain(res.headers["x-antisolar-hash"]);
-    expect(JSON.parse(res.headers["x-antisolar-sources"])[0]).toMatch(/Lee 1991/);
+    expect(JSON.parse(res.headers["x-antisolar-sources"])[0]).toMatch(/Lee 1998, Applied Optics 37, 1506/);
     await saveRender("figure-size-map", svg);
 
     const png = await binary("/v1/figure/size-map?format=png").send({ radiusSteps: 6, angles: { fromDeg: 35, toDeg: 55, stepDeg: 0.5 } });

@@ -124,13 +124,14 @@ describe("Debye orders place the bows (x = 1000, n = 1.3317)", () => {
     });
     return at;
   }
-  // Airy main maximum: Θ_R ± 1.01879 (D″/2)^(1/3) x^(−2/3) rad toward the lit side (CHECKS.md §6.1,
-  // computed), with Θ_R and D″ = d²D/db² from CHECKS.md §6.2 (computed, Descartes' condition).
+  // Airy main maximum: Θ_R ± 1.01879 (D″/2)^(1/3) x^(−2/3) rad toward the lit side (Airy 1838: 1.01879 = −a′₁,
+  // the first zero of Ai′, A&S Table 10.13), with Θ_R and D″ = d²D/db² computed from Descartes' condition
+  // (van de Hulst 1957 ch. 13; values in docs/checks.md).
   const airyShiftDeg = (d2: number) => (1.01879 * Math.cbrt(d2 / 2) * x ** (-2 / 3) * 180) / Math.PI;
 
   it("p = 2 (one internal reflection): |S1|² peaks at the primary bow, lit side of 137.73°", () => {
     const theta = peakDeg(2, 130, 150);
-    // CHECKS.md §6.2: Airy 138.726°, smoothed full Mie 138.60° at x = 1000. Airy theory and Mie differ by
+    // Computed cross-check (docs/checks.md): Airy 138.726°, smoothed full Mie 138.60° at x = 1000. Airy theory and Mie differ by
     // 0.13° at this size, so both must be met within 0.2°. Measured: 138.71°.
     expect(Math.abs(theta - (137.7325 + airyShiftDeg(9.871973)))).toBeLessThan(0.2);
     expect(Math.abs(theta - 138.6)).toBeLessThan(0.2);
@@ -138,9 +139,9 @@ describe("Debye orders place the bows (x = 1000, n = 1.3317)", () => {
   });
 
   it("p = 3 (two internal reflections): |S1|² peaks at the secondary bow, lit side of 129.45°", () => {
-    const thetaR = 360 - 230.5494; // CHECKS.md §6.2, k = 2 deviation
+    const thetaR = 360 - 230.5494; // k = 2 deviation at n = 1.3317 (Descartes' condition, computed: docs/checks.md)
     const theta = peakDeg(3, 120, 135);
-    // Airy predicts 127.68°; the secondary's Airy shift is 1.8× the primary's (CHECKS.md §6.2 table), so
+    // Airy predicts 127.68°; the secondary's Airy shift is 1.8× the primary's (56.21 against 9.87 in D″, docs/checks.md), so
     // the 0.13° Airy error of the primary is allowed to grow to 0.3°. Measured: 127.83°.
     expect(Math.abs(theta - (thetaR - airyShiftDeg(56.209084)))).toBeLessThan(0.3);
     expect(theta).toBeLessThan(thetaR);

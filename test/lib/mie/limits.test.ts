@@ -62,7 +62,7 @@ describe("Rayleigh limit (Bohren & Huffman 1983 §5.1)", () => {
   }
 });
 
-describe("stability at x = 50000 (r = 3 mm at 380 nm, physics brief)", () => {
+describe("stability at x = 50000 (r = 3 mm, the largest radius integrated by default, at 380 nm)", () => {
   // Extinction paradox: Qext → 2 from above as x → ∞ (van de Hulst 1957 §8.22, from memory);
   // Wiscombe's x = 10000 cases give 2.0041–2.0059, so at x = 50000 it must lie in (2, 2.006).
   const angles = Float64Array.from({ length: 181 }, (_, i) => i);

@@ -6,18 +6,19 @@ import { readCsv, num, referenceCsv } from "../../helpers/csv.js";
 
 // Wiscombe 1979 (rev. 1996), NCAR/TN-140+STR, reference answers of the 19 MIEV0 test cases
 // (file line 1). Wiscombe writes m = n − iκ and his S1, S2 are the complex conjugates of the
-// Bohren & Huffman values this project computes (CHECKS.md §4, checked on all cases).
+// Bohren & Huffman values this project computes (checked on all cases).
 const table = readCsv(referenceCsv("mie_wiscombe_miev0_testcases.csv"));
 
-// Published to 7 significant digits; CHECKS.md §4 records that an independent double-precision
-// recomputation agrees with every figure to ≤ 4.4e-6 relative (the published Cray run differs in the
+// Published to 7 significant digits; an independent double-precision recomputation (docs/checks.md)
+// agrees with every figure to ≤ 4.4e-6 relative (the published Cray run differs in the
 // last digits in places, e.g. case 6 Qext). Tolerance: 5e-6 relative.
 const REL = 5e-6;
 // Amplitudes: complex difference relative to the larger of |S1|, |S2| at that angle, same 5e-6. Relative
 // to max(|S1|, |S2|) because the published S2 of case 2 at 60° (3.966328e-6, a cancellation of terms
 // ~1e3 times larger) is itself off by 7.6e-5 of its own size: mpmath at 40 digits gives 3.966026e-6.
 const REL_S = 5e-6;
-// Case 1 (x = 0.099 < 0.1): MIEV0 switches to its small-sphere series below x = 0.1 (from memory), which
+// Case 1 (x = 0.099 < 0.1): MIEV0 switches to its small-sphere series for a perfect conductor at x ≤ 0.1 (MIEV0
+// source: IF (PERFCT .AND. XX .LE. 0.1) CALL SMALL1), which
 // differs from the exact series by 5.2e-5 in Qext; the exact value is checked to 1e-12 against mpmath in
 // test/mie-reference.test.ts. Tolerance here 1e-4.
 const REL_SMALL_SERIES = 1e-4;

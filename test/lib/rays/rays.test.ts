@@ -7,7 +7,7 @@ import { waterIndex } from "../../../lib/water/water-index.js";
 
 const DEG = Math.PI / 180;
 
-describe("Descartes rainbow rays (CHECKS.md §6.2, computed from Descartes' condition cos²i = (n²−1)/(k(k+2)))", () => {
+describe("Descartes rainbow rays (computed from Descartes' condition cos²i = (n²−1)/(k(k+2)), van de Hulst 1957 ch. 13; docs/checks.md)", () => {
   // [n, k, incidence°, deviation°, Θ from the sun°, d²D/db²]; angles printed to 1e-4° → tolerance 1e-4°,
   // curvature printed to 7 significant digits → 1e-6 relative.
   const rows: [number, number, number, number, number, number][] = [
@@ -42,7 +42,7 @@ describe("Descartes rainbow rays (CHECKS.md §6.2, computed from Descartes' cond
     expect(Math.abs((up + down) / (h * h) / deviationCurvature(1.3317, 1, ray.impactParameter) - 1)).toBeLessThan(1e-6);
   });
 
-  // Per-wavelength bows, water at 20 °C from R9-97 (CHECKS.md §6.2, computed). Our n uses the Kell density
+  // Per-wavelength bows, water at 20 °C from R9-97 (computed: docs/checks.md). Our n uses the Kell density
   // (≤ 2e-6 off) and the table's n is rounded to 6 decimals: 0.002° covers both (dψ/dn ≈ 140° per unit n).
   const bows: [number, number, number, number][] = [
     [400, 40.567, 53.621, 13.054],
@@ -83,8 +83,8 @@ function airyPeakDeg(n: number, x: number, k: number): number {
 }
 
 describe("Airy theory of the bow", () => {
-  // Main-maximum displacement Δθ = 1.01879·(D″/2)^(1/3)·x^(−2/3) at 550 nm, n = 1.334683 (CHECKS.md §6.2,
-  // computed from Airy theory); printed to 0.001° → tolerance 0.0006°.
+  // Main-maximum displacement Δθ = 1.01879·(D″/2)^(1/3)·x^(−2/3) at 550 nm, n = 1.334683 (Airy 1838;
+  // computed: docs/checks.md); printed to 0.001° → tolerance 0.0006°.
   const displacements: [number, number, number][] = [
     [10, 4.197, 7.498],
     [25, 2.279, 4.071],
@@ -104,7 +104,7 @@ describe("Airy theory of the bow", () => {
     expect(Math.abs(-dSecondary - secondary)).toBeLessThanOrEqual(6e-4);
   });
 
-  // "Airy prediction" column of the Airy-vs-Mie cross-check, n = 1.3317 (CHECKS.md §6.2, computed): 1e-3°.
+  // "Airy prediction" column of the Airy-vs-Mie cross-check, n = 1.3317 (computed: docs/checks.md): 1e-3°.
   it.each([
     [1000, 138.726],
     [3000, 138.21],

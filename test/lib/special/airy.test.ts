@@ -9,8 +9,8 @@ import {
   airyAiPrime,
 } from "../../../lib/special/airy.js";
 
-// Values from Abramowitz & Stegun 1964 (§10.4, Tables 10.11 and 10.13) / DLMF §9, as collected in CHECKS.md §5,
-// where they were confirmed against scipy.special.airy / ai_zeros to every digit shown.
+// Values from Abramowitz & Stegun 1964 (§10.4, Tables 10.11 and 10.13) / DLMF §9 (listed in docs/checks.md), which
+// agree with scipy.special.airy / ai_zeros to every digit shown.
 const relativeOrAbsolute = (got: number, want: number, rel: number, abs: number) =>
   Math.abs(got - want) <= rel * Math.abs(want) + abs;
 
@@ -67,7 +67,7 @@ describe("Airy function: published values", () => {
     }
   });
 
-  it("maximum of Ai² is 0.2869280531 at a'_1 (CHECKS.md §5)", () => {
+  it("maximum of Ai² is 0.2869280531 at a'_1 (A&S Table 10.13: Ai(a′₁) = 0.53565666)", () => {
     expect(Math.abs(airyAi(aiPrimeZeros[0]) ** 2 - 0.2869280531)).toBeLessThan(6e-11);
   });
 });
@@ -77,7 +77,7 @@ describe("Airy function against scipy.special.airy on −200 ≤ x ≤ 20", () =
     readFileSync(new URL("../../../fixtures/airy/airy-reference.json", import.meta.url), "utf8"),
   ) as { x: number[]; ai: number[]; aiPrime: number[]; scipyVsMpmathMaxAbs: number };
 
-  // Tolerance 1e-10 relative + 1e-12 absolute (the brief's target). The reference itself is off mpmath by at most
+  // Tolerance 1e-10 relative + 1e-12 absolute (our accuracy target for the Airy kernel). The reference itself is off mpmath by at most
   // the stored scipyVsMpmathMaxAbs (4e-13), inside the absolute part.
   it(`matches ${reference.x.length} points to 1e-10 relative + 1e-12 absolute`, () => {
     expect(reference.scipyVsMpmathMaxAbs).toBeLessThan(1e-12);

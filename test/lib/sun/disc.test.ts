@@ -8,13 +8,13 @@ const sumOf = (a: Float64Array) => a.reduce((s, v) => s + v, 0);
 const secondMoment = (k: { offsetsDeg: Float64Array; weights: Float64Array }) =>
   k.weights.reduce((s, w, i) => s + w * k.offsetsDeg[i] ** 2, 0);
 
-describe("solar disc size (CHECKS §2.2)", () => {
+describe("solar disc size (IAU 2015 Resolution B3, IAU 2012 Resolution B2)", () => {
   it("mean angular diameter 2 asin(R☉/au) = 0.532906° (computed from IAU 2015 B3 radius and IAU 2012 B2 au)", () => {
     expect(Math.abs(SUN_MEAN_ANGULAR_DIAMETER_DEG - 0.532906)).toBeLessThan(5e-7);
   });
 });
 
-describe("limb darkening, Neckel & Labs 1994 (CHECKS §2.3)", () => {
+describe("limb darkening, Neckel & Labs 1994 (Sol. Phys. 153, 91; coefficient table)", () => {
   it("at 559.95 nm: I(0.5)/I(1) = 0.71310, I(0)/I(1) = 0.26892, I(1) = 1 (5 decimals → 5e-6)", () => {
     const a = limbDarkeningCoefficients(559.95);
     expect(Math.abs(limbDarkening(0.5, a) - 0.7131)).toBeLessThan(5e-6);

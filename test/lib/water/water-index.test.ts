@@ -9,7 +9,7 @@ import { waterIndex } from "../../../lib/water/water-index.js";
 const printed = (decimals: number) => 0.6 * 10 ** -decimals;
 
 describe("IAPWS R9-97 refractive index", () => {
-  // IAPWS R9-97 Table 3 (as carried in public IAPWS implementations' tests; CHECKS.md §3.1), with ρ from IAPWS-95.
+  // IAPWS R9-97 Table 3 (as carried in public IAPWS implementations' tests), with ρ from IAPWS-95 (docs/checks.md).
   const table3: [number, number, number, string][] = [
     [273.15, 999.842411, 0.2265, "1.394527"],
     [273.15, 999.842411, 0.589, "1.334344"],
@@ -28,7 +28,7 @@ describe("IAPWS R9-97 refractive index", () => {
     expect(Math.abs(n - Number(expected))).toBeLessThanOrEqual(printed(decimals));
   });
 
-  // Direct formula checks published in a public IAPWS implementation's documentation (CHECKS.md §3.1).
+  // Direct formula checks published in a public IAPWS implementation's documentation.
   it("direct checks: 1.39277824 (ρ 997.047435, 298.15 K, 0.2265 µm) and 1.00949307 (ρ 30.4758534, 773.15 K, 0.5893 µm)", () => {
     expect(Math.abs(iapwsRefractiveIndex(226.5, 298.15, 997.047435) - 1.39277824)).toBeLessThanOrEqual(printed(8));
     expect(Math.abs(iapwsRefractiveIndex(589.3, 773.15, 30.4758534) - 1.00949307)).toBeLessThanOrEqual(printed(8));
@@ -36,7 +36,7 @@ describe("IAPWS R9-97 refractive index", () => {
 });
 
 describe("Kell 1975 liquid density", () => {
-  // IAPWS-95 densities at 0.101325 MPa (computed, CHECKS.md §3.1). Kell's correlation sits ≈ 3e-3 kg/m³ below them
+  // IAPWS-95 densities at 0.101325 MPa (Wagner & Pruß 2002; computed, docs/checks.md). Kell's correlation sits ≈ 3e-3 kg/m³ below them
   // throughout (his absolute density scale predates the current one); 5e-3 kg/m³ (5 ppm) covers that and shifts n
   // by < 2e-6, below R9-97's own uncertainty.
   it.each([
@@ -48,7 +48,8 @@ describe("Kell 1975 liquid density", () => {
     expect(Math.abs(liquidWaterDensityKgPerM3(tC) - rho)).toBeLessThanOrEqual(5e-3);
   });
 
-  // Supercooled −10 °C: 998.117 kg/m³ (IAPWS-95 extrapolation, from memory); Kell's rational form stays within 0.01.
+  // Supercooled −10 °C: 998.117 kg/m³ (as public density tables list it; their primary source not checked;
+  // IAPWS G12-15 is the formulation for supercooled water); Kell's rational form stays within 0.01.
   it("extrapolates to supercooled −10 °C", () => {
     expect(Math.abs(liquidWaterDensityKgPerM3(-10) - 998.117)).toBeLessThanOrEqual(0.01);
   });
@@ -64,7 +65,7 @@ describe("Ciddor 1996 standard dry air", () => {
   });
 });
 
-describe("comparison at 20 °C (CHECKS.md §3.3, computed with R9-97 at ρ = 998.20715 and Quan & Fry 1995)", () => {
+describe("comparison at 20 °C (computed with R9-97 at ρ = 998.20715 and Quan & Fry 1995: docs/checks.md)", () => {
   const rows: [number, number, number, number][] = [
     [380, 1.345625, 1.345307, 1.352086],
     [400, 1.34356, 1.343211, 1.349938],
@@ -106,11 +107,11 @@ describe("waterIndex", () => {
     const w = waterIndex({ wavelengthNm: 589.3, temperatureC: 20, salinityPsu: 0 });
     expect(w.nRelativeToAir).toBeCloseTo(w.n / standardAirIndex(589.3), 15);
     // Quan & Fry 1995 is itself relative to air; the R9-97 value divided by n_air must fall within 5e-5 of it
-    // (the two independent fits differ by ≈ 3e-5 at 400–700 nm, CHECKS.md §3.3 after dividing by n_air).
+    // (the two independent fits differ by ≈ 3e-5 at 400–700 nm, computed after dividing by n_air).
     expect(Math.abs(w.nRelativeToAir - quanFryIndexRelativeToAir(589.3, 20, 0))).toBeLessThan(5e-5);
   });
   // R9-97 is valid down to −12 °C (release text); the liquid index changes by well under 1e-3 per 10 K near 0 °C
-  // (CHECKS.md §3.1 Table 3 vs §3.3), so a supercooled drop must land within 1e-3 of the 0 °C value.
+  // (R9-97 Table 3 at 0 °C against the 20 °C values), so a supercooled drop must land within 1e-3 of the 0 °C value.
   it("supercooled drops at −10 °C get an index within 1e-3 of the 0 °C value", () => {
     const cold = waterIndex({ wavelengthNm: 589.3, temperatureC: -10, salinityPsu: 0 }).n;
     const zero = waterIndex({ wavelengthNm: 589.3, temperatureC: 0, salinityPsu: 0 }).n;

@@ -15,8 +15,8 @@ describe("a rain bow: Marshall–Palmer 2 mm/h, sun 10° high (the default reque
   const lum = rain.colour.luminance;
 
   it("puts the primary at 40.5–42.5° and the secondary at 49.5–53.5°", () => {
-    // Descartes' minimum deviation for water, 400–700 nm: primary 40.6–42.4°, secondary 50.2–53.6° (CHECKS.md §6.2,
-    // computed from Descartes 1637 with IAPWS R9-97); the issue's windows.
+    // Descartes' minimum deviation for water, 400–700 nm: primary 40.6–42.4°, secondary 50.2–53.6° (computed
+    // from Descartes 1637 with IAPWS R9-97: docs/checks.md), widened by a few tenths for the Airy shift.
     expect(rain.bows.primaryDeg).not.toBeNull();
     expect(rain.bows.secondaryDeg).not.toBeNull();
     expect(rain.bows.primaryDeg!).toBeGreaterThanOrEqual(40.5);
@@ -34,13 +34,14 @@ describe("a rain bow: Marshall–Palmer 2 mm/h, sun 10° high (the default reque
 
   it("orders the colours red-outside in the primary and reversed in the secondary", () => {
     // Dispersion: n(450 nm) > n(650 nm) puts blue inside red in the primary and outside it in the secondary
-    // (Descartes angles of CHECKS.md §6.2 move from 41.1° to 42.3° and from 52.6° to 50.5°).
+    // (Descartes angles, docs/checks.md, move from 41.1° to 42.3° and from 52.6° to 50.5°).
     expect(spectralPeakDeg(rain, 650, 38, 45)).toBeGreaterThan(spectralPeakDeg(rain, 450, 38, 45));
     expect(spectralPeakDeg(rain, 650, 47, 56)).toBeLessThan(spectralPeakDeg(rain, 450, 47, 56));
   });
 
   it("leaves Alexander's dark band darker than the light just inside the primary", () => {
-    // No light of orders p = 2 and 3 falls between the bows (Descartes; common practice).
+    // No light of orders p = 2 and 3 falls between the bows: each order's deviation has its minimum at its bow
+    // (Descartes 1637), so p = 2 stays inside the primary and p = 3 outside the secondary.
     const band = meanOver(a, lum, 44, 48.5);
     const inside = meanOver(a, lum, 36, 39.5);
     expect(band).toBeLessThan(0.5 * inside);
@@ -48,7 +49,8 @@ describe("a rain bow: Marshall–Palmer 2 mm/h, sun 10° high (the default reque
 
   it("is strongly polarised along the bow at the primary", () => {
     // The rainbow ray meets the inner surface near Brewster's angle: degree of polarisation about 0.9–0.96
-    // (Können 1985, Polarized Light in Nature, from memory); we require > 0.8.
+    // (Können 1985, Polarized Light in Nature, from memory; Können & de Boer 1979, Appl. Opt. 18, 1961: below the
+    // ray-optics value and rising with drop size); we require > 0.8.
     expect(rain.colour.polarisation[a.indexOf(rain.bows.primaryDeg!)]).toBeGreaterThan(0.8);
   });
 
@@ -76,7 +78,7 @@ describe("a fog bow: lognormal drops, median radius 10 µm", () => {
   const lum = fog.colour.luminance;
 
   it("is broad and sits inside the rain bow", () => {
-    // Fogbows are broad, nearly white and slightly inside the rain bow (physics brief, common practice).
+    // Fogbows are broad, nearly white and slightly inside the rain bow (common practice; the Airy shift of small drops).
     const peak = fog.bows.primaryDeg!;
     expect(peak).toBeGreaterThan(34);
     expect(peak).toBeLessThan(41);

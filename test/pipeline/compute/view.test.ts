@@ -25,6 +25,13 @@ const deps: ViewDeps = { kernels, limits: { maxTermAngles: Infinity } };
 const scenario = { drops: { kind: "monodisperse", radiusUm: 500, numberPerM3: 1000 }, spectral: { fromNm: 380, toNm: 780, stepNm: 20 } };
 const DEG = Math.PI / 180;
 
+/** An OpenEXR header attribute of type string: name NUL, type NUL, int32 size, the bytes (OpenEXR file layout). */
+function exrStringAttribute(name: string, value: string): Buffer {
+  const size = Buffer.alloc(4);
+  size.writeInt32LE(Buffer.byteLength(value));
+  return Buffer.concat([Buffer.from(`${name}\0string\0`), size, Buffer.from(value)]);
+}
+
 /** Relative luminance of linear BT.709 RGB: Y = 0.2126 R + 0.7152 G + 0.0722 B (ITU-R BT.709-6, item 3.2). */
 function luminance(data: Float32Array, at: number): number {
   return 0.2126 * data[at] + 0.7152 * data[at + 1] + 0.0722 * data[at + 2];
@@ -59,7 +66,7 @@ describe("camera geometry (world x east, y north, z up; azimuth clockwise from n
     // Worked by hand for hfov = 90°, W = 201: f = 100.5/tan 45° = 100.5 px; at ψ = 42°, r = 100.5 × tan 42° =
     // 100.5 × 0.9004 = 90.5 px (r = f·ψ would give 73.7 px, so a wrong projection fails by 17 px).
     const { primaryDeg, lum } = await rowThroughCentre({ ...looking, projection: "rectilinear", horizontalFovDeg: 90 });
-    // Descartes' primary for water (n ≈ 1.333): about 42° (physics brief, common practice); Airy's maximum lies
+    // Descartes' primary for water (n = 4/3): 42.03° (computed, docs/checks.md); Airy's maximum lies
     // a little inside it for 0.5 mm drops, so ±1° holds it.
     expect(Math.abs(primaryDeg - 42)).toBeLessThan(1);
     const f = 100.5 / Math.tan(45 * DEG);
@@ -126,7 +133,8 @@ describe("horizon and layers", () => {
   });
 
   it("a polariser along the image horizontal passes the top of the bow and blocks its sides", async () => {
-    // Bow light is polarised along the bow (physics brief); the primary about 96 % (Können 1985, from memory).
+    // Bow light is polarised along the bow (Können & de Boer 1979, Appl. Opt. 18, 1961); the primary about 96 %
+    // (Können 1985, from memory).
     // The top of the bow has a horizontal tangent, its sides a vertical one, so with the axis horizontal the top
     // keeps (1 + P)/2 and the sides (1 − P)/2: a ratio above 5 means P > 2/3, far from the 1 of no polariser.
     const sun = { azimuthDeg: 200, elevationDeg: 20 };
@@ -195,7 +203,8 @@ describe("sky map (equirectangular: azimuth −180°..180° left to right with n
 
 describe("rain curtain", () => {
   it("Q_ext of a 1 mm drop is 2 within 0.5 % (extinction paradox, van de Hulst 1957 §8.22)", () => {
-    // x = 2π·1000/0.555 ≈ 11 300; the excess over 2 falls like x^(−2/3) (from memory), about 0.2 % here. m = 1.3335: water at 555 nm, from memory.
+    // x = 2π·1000/0.555 ≈ 11 300; the excess over 2 falls like x^(−2/3) (the edge term of Nussenzveig & Wiscombe 1980,
+    // Phys. Rev. Lett. 45, 1490), about 0.2 % here. m = 1.3335 is about water's index at 555 nm; the limit does not depend on it.
     const q = extinctionEfficiency(1.3335, 0, (2 * Math.PI * 1000) / 0.555);
     expect(Math.abs(q - 2)).toBeLessThan(0.01);
   });
@@ -215,6 +224,13 @@ describe("rain curtain", () => {
 
 describe("files", () => {
   const small = { scenario, camera: { widthPx: 96, heightPx: 54 } };
+
+  it("EXR: the content hash is the string attribute antisolar:hash, the name lookup textures use", async () => {
+    const p = await prepareView(viewRequestSchema.parse(small), "exr", deps);
+    const body = (await encodeOverlay(p, "exr")).body;
+    expect(body.includes(exrStringAttribute("antisolar:hash", p.hash))).toBe(true);
+    expect(body.includes(Buffer.from("antisolarHash"))).toBe(false);
+  });
 
   it("EXR: exrheader reads it; half RGBA, ZIP, and the output space's chromaticities", async () => {
     const p = await prepareView(viewRequestSchema.parse({ ...small, output: { space: "acescg" } }), "exr", deps);

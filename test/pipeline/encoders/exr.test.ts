@@ -6,6 +6,7 @@ import { join } from "node:path";
 import { inflateSync } from "node:zlib";
 import { encodeExr, type ExrChannelName, type ExrCompression, type ExrPixelType } from "../../../pipeline/encoders/exr.js";
 import { halfBitsFromNumber } from "../../../pipeline/encoders/half-float.js";
+import { programRuns, skipWithout } from "../../helpers/tools.js";
 
 // ---- binary16 from its definition (IEEE 754-2008 §3.4, Table 3.5: bias 15, 10 fraction bits), sharing no code ----
 
@@ -233,7 +234,7 @@ function decodeScanlineExr(file: Buffer): DecodedExr {
 
 // ---- Invented test images ----
 
-/** Deterministic pseudo-random numbers in [0, 1) (32-bit LCG, Numerical Recipes constants; common practice). */
+/** Deterministic pseudo-random numbers in [0, 1) (32-bit LCG 1664525, 1013904223: Press et al. 1992, Numerical Recipes in C §7.1). */
 function lcg(seed: number): () => number {
   let s = seed >>> 0;
   return () => ((s = (Math.imul(s, 1664525) + 1013904223) >>> 0) / 2 ** 32);
@@ -374,17 +375,13 @@ describe("OpenEXR writer: structure read back by an independent reader", () => {
 
 // ---- The OpenEXR library's own tools (Debian package "openexr") ----
 
-function toolPresent(name: string): boolean {
-  return spawnSync(name, ["-h"], { encoding: "utf8" }).error === undefined;
-}
 const EXR_TOOLS = ["exrheader", "exrinfo", "exrmaketiled"];
-const haveExrTools = EXR_TOOLS.every(toolPresent);
+const haveExrTools = EXR_TOOLS.every((name) => programRuns(name, ["-h"]));
+const withoutExrTools = skipWithout(haveExrTools);
 
-/** CI installs the tools (.ci/run); elsewhere their absence is reported instead of failing. */
-function exrToolsAvailable(): boolean {
-  if (process.env.CI === "true") expect(haveExrTools, `CI must install the Debian package openexr (${EXR_TOOLS.join(", ")})`).toBe(true);
-  if (!haveExrTools) console.warn("OpenEXR tools not on PATH (apt-get install openexr): library checks not run here");
-  return haveExrTools;
+/** Skipped where the tools are missing (apt-get install openexr); CI installs them, so there a missing one fails. */
+function expectExrTools(): void {
+  expect(haveExrTools, `the Debian package openexr must be installed (${EXR_TOOLS.join(", ")})`).toBe(true);
 }
 
 function run(tool: string, args: string[]): string {
@@ -409,8 +406,8 @@ function decodeSingleTileExr(file: Buffer, width: number, height: number): Map<s
 }
 
 describe("OpenEXR writer: files read by the OpenEXR library's tools", () => {
-  it.each(COMBINATIONS)("exrheader, exrinfo -s and exrmaketiled accept $pixelType / $compression / $channels", ({ pixelType, compression, channels }) => {
-    if (!exrToolsAvailable()) return;
+  it.skipIf(withoutExrTools).each(COMBINATIONS)("exrheader, exrinfo -s and exrmaketiled accept $pixelType / $compression / $channels", ({ pixelType, compression, channels }) => {
+    expectExrTools();
     const dir = mkdtempSync(join(tmpdir(), "antisolar-exr-"));
     try {
       const { data, file } = writeCombination(pixelType, compression, channels);
@@ -442,8 +439,8 @@ describe("OpenEXR writer: files read by the OpenEXR library's tools", () => {
     }
   });
 
-  it("exrinfo rejects a file whose header is cut short (the check can fail)", () => {
-    if (!exrToolsAvailable()) return;
+  it.skipIf(withoutExrTools)("exrinfo rejects a file whose header is cut short (the check can fail)", () => {
+    expectExrTools();
     const dir = mkdtempSync(join(tmpdir(), "antisolar-exr-"));
     try {
       const path = join(dir, "cut.exr");

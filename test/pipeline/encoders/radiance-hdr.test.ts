@@ -4,6 +4,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { encodeRadianceHdr, rgbeFromRgb } from "../../../pipeline/encoders/radiance-hdr.js";
+import { programRuns, skipWithout } from "../../helpers/tools.js";
 
 type Rgbe = [number, number, number, number];
 
@@ -20,7 +21,7 @@ function referenceRgbe(r: number, g: number, b: number): Rgbe {
   return [cr, cg, cb].map((c) => Math.floor(c * 2 ** (8 - e))).concat(e + 128) as Rgbe;
 }
 
-/** Radiance's decoding puts each value mid-way in its interval: (byte + 0.5)·2^(E − 136) (Radiance color.c colr_color; from memory). */
+/** Radiance's decoding puts each value mid-way in its interval: (byte + 0.5)·2^(E − 136) (Radiance's color.c, colr_color: f = ldexp(1, E − (COLXS + 8)), COLXS = 128). */
 function rgbFromRgbe([r, g, b, e]: Rgbe): [number, number, number] {
   if (e === 0) return [0, 0, 0];
   const f = 2 ** (e - 136);
@@ -81,7 +82,7 @@ function readPicture(file: Buffer): Picture {
   return { headerLines, width, height, pixels, newStyleLines };
 }
 
-/** Deterministic pseudo-random numbers in [0, 1) (32-bit LCG, Numerical Recipes constants; common practice). */
+/** Deterministic pseudo-random numbers in [0, 1) (32-bit LCG 1664525, 1013904223: Press et al. 1992, Numerical Recipes in C §7.1). */
 function lcg(seed: number): () => number {
   let s = seed >>> 0;
   return () => ((s = (Math.imul(s, 1664525) + 1013904223) >>> 0) / 2 ** 32);
@@ -193,15 +194,12 @@ describe("Radiance picture writer", () => {
 // ---- ImageMagick's RGBE reader (Debian package "imagemagick") ----
 
 const MAGICK_CANDIDATES = ["magick", "convert-im6.q16"];
-const magick = MAGICK_CANDIDATES.find((name) => spawnSync(name, ["-version"]).error === undefined);
+const magick = MAGICK_CANDIDATES.find((name) => programRuns(name, ["-version"]));
 
 describe("Radiance picture writer: files read by ImageMagick", () => {
-  it.each([5, 40])("ImageMagick decodes a %i-pixel-wide picture to our values", (width) => {
-    if (process.env.CI === "true") expect(magick, "CI must install the Debian package imagemagick").toBeDefined();
-    if (!magick) {
-      console.warn("ImageMagick not on PATH (apt-get install imagemagick): its check not run here");
-      return;
-    }
+  // Skipped where ImageMagick is missing (apt-get install imagemagick); CI installs it, so there a missing one fails.
+  it.skipIf(skipWithout(magick !== undefined)).each([5, 40])("ImageMagick decodes a %i-pixel-wide picture to our values", (width) => {
+    expect(magick, "the Debian package imagemagick must be installed").toBeDefined();
     const height = 6;
     // Values in [2^-10, 1): the Debian build is Q16 without HDRI, so it clips above 1.
     const random = lcg(width);
@@ -212,7 +210,7 @@ describe("Radiance picture writer: files read by ImageMagick", () => {
       const output = join(dir, "out.raw");
       writeFileSync(input, encodeRadianceHdr({ width, height, data }));
       // "-set colorspace sRGB" relabels without converting, so the raw floats are the linear values read.
-      const result = spawnSync(magick, [input, "-set", "colorspace", "sRGB", "-depth", "32", "-define", "quantum:format=floating-point", `RGB:${output}`], { encoding: "utf8" });
+      const result = spawnSync(magick!, [input, "-set", "colorspace", "sRGB", "-depth", "32", "-define", "quantum:format=floating-point", `RGB:${output}`], { encoding: "utf8" });
       expect(result.status, result.stderr).toBe(0);
       const raw = readFileSync(output);
       const read = new Float32Array(raw.buffer, raw.byteOffset, raw.length / 4);
