@@ -300,7 +300,8 @@ describe("the explorer page in chromium", () => {
     await page.screenshot({ path: fileURLToPath(new URL("web-explorer.png", ARTIFACTS)), fullPage: true });
 
     // A change while a preview is on its way aborts it, and Stop aborts the one that replaced it.
-    profileDelayMs = 1500;
+    // Long enough that the first preview is surely still on its way when the second replaces it, even on a loaded machine.
+    profileDelayMs = 8000;
     // Before anything is sent, the page warns that Lorenz–Mie is costly for drops this large.
     await page.selectOption("#method", "mie");
     expect(await page.textContent("#estimate")).toMatch(/Lorenz–Mie for drops of about 150 µm needs about [\d,]+ series terms/);
@@ -315,7 +316,8 @@ describe("the explorer page in chromium", () => {
     await page.click("#cancel");
     await page.waitForFunction(() => document.body.dataset.state !== "busy");
     expect(await page.textContent("#status")).toMatch(/^Stopped/);
-    expect(aborted.length).toBeGreaterThanOrEqual(2);
+    // The browser reports each aborted request asynchronously; wait for both reports.
+    await expect.poll(() => aborted.length, { timeout: 5000 }).toBeGreaterThanOrEqual(2);
     expect(new Set(aborted)).toEqual(new Set(["net::ERR_ABORTED"]));
     profileDelayMs = 0;
 
