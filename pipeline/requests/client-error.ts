@@ -6,6 +6,9 @@ export type ErrorCode =
   | "invalid-json"
   | "unsupported-media-type"
   | "body-too-large"
+  | "headers-too-large"
+  | "uri-too-long"
+  | "request-timeout"
   | "not-found"
   | "too-costly"
   | "not-acceptable"
@@ -20,6 +23,9 @@ const statusByCode: Record<ErrorCode, number> = {
   "invalid-json": 400,
   "unsupported-media-type": 415,
   "body-too-large": 413,
+  "headers-too-large": 431,
+  "uri-too-long": 414,
+  "request-timeout": 408,
   "not-found": 404,
   "too-costly": 422,
   "not-acceptable": 406,
