@@ -11,6 +11,8 @@ export const LOG_URL_CHARS = 200;
 export const LOG_MESSAGE_CHARS = 500;
 /** Longest error stack (our choice: some twenty frames). */
 export const LOG_STACK_CHARS = 2000;
+/** What a log line can reach with all of the above at their longest, with pino's own fields (checked by tests). */
+export const LOG_LINE_BYTES = 4096;
 
 interface LoggedRequest {
   method?: string;

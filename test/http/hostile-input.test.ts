@@ -5,11 +5,17 @@
 // PROPERTY_RUNS=500, say) hunts for new cases, and fast-check prints the seed and the shrunk request of a failure.
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { connect } from "node:net";
+import { spawn, type ChildProcess } from "node:child_process";
+import { fileURLToPath } from "node:url";
+import { freePort } from "../helpers/free-port.js";
+import { LOG_LINE_BYTES } from "../../http/plugins/bounded-logs.js";
 import fc from "fast-check";
 import type { FastifyInstance, LightMyRequestResponse } from "fastify";
 import { buildApp } from "../../http/app.js";
 import { JSON_BODY_LIMITS } from "../../pipeline/requests/json-body.js";
-import { connectionError } from "../../http/plugins/framework-errors.js";
+import { connectionError, MAX_PARAM_CHARS } from "../../http/plugins/framework-errors.js";
+import { PREVIEW_CHARS } from "../../pipeline/requests/preview.js";
+import { readFileSync } from "node:fs";
 import { hostileRequest, hostileTargets, HOSTILE_STATUSES, MAX_ERROR_BYTES, type HostileRequest, type HostileTarget } from "../../bench/hostile-inputs.js";
 
 const SEED = process.env.PROPERTY_SEED === "random" ? undefined : Number(process.env.PROPERTY_SEED ?? 20261203);
@@ -176,6 +182,18 @@ describe("cases found, each by name", () => {
 });
 
 describe("the limits leave room for every schema", () => {
+  it("are the ones README.md states", () => {
+    const readme = readFileSync(fileURLToPath(new URL("../../README.md", import.meta.url)), "utf8");
+    const row = (what: string) => readme.split("\n").find((l) => l.startsWith(`| ${what} |`)) ?? "";
+    const n = (v: number) => v.toLocaleString("en-GB");
+    expect(row("nesting of objects and arrays")).toContain(`| ${JSON_BODY_LIMITS.maxDepth} levels`);
+    expect(row("members of one object")).toContain(`| ${n(JSON_BODY_LIMITS.maxMembers)} |`);
+    expect(row("items of one array")).toContain(`| ${n(JSON_BODY_LIMITS.maxItems)} |`);
+    expect(row("a string / a member name")).toContain(`| ${n(JSON_BODY_LIMITS.maxStringChars)} / ${n(JSON_BODY_LIMITS.maxKeyChars)} characters`);
+    expect(readme).toContain(`at most ${PREVIEW_CHARS} characters of anything the client sent`);
+    expect(readme).toContain(`path parameters ${MAX_PARAM_CHARS} characters`);
+  });
+
   // The stated limits must never refuse a request the schemas accept: depth (plus one for a job's body), array
   // length, object width and string length of every route's body schema stay inside them.
   it("every request body schema fits inside the body limits", () => {
@@ -238,5 +256,63 @@ describe("generated hostile structure, every endpoint with a body or a query", (
         { seed: SEED, numRuns: RUNS_PER_TARGET },
       );
     }
+  });
+});
+
+/** Sends raw bytes on a new connection; resolves with all that came back once the server closes it. */
+function rawExchange(port: number, bytes: string): Promise<string> {
+  return new Promise((resolve, reject) => {
+    const socket = connect(port, "127.0.0.1", () => socket.end(bytes));
+    let out = "";
+    socket.on("data", (d) => (out += d.toString("latin1"))).on("close", () => resolve(out)).on("error", reject);
+  });
+}
+
+// The log as deployed: the built server (dist/http/main.js) in its own process at the most verbose level, its
+// stdout read line by line, while it is sent the longest URL, header and body fields a client can get past Node's
+// limits, and requests Node's parser refuses.
+describe("log lines stay bounded whatever the input", () => {
+  let server: ChildProcess;
+  let port: number;
+  const lines: string[] = [];
+  beforeAll(async () => {
+    port = await freePort();
+    const main = fileURLToPath(new URL("../../dist/http/main.js", import.meta.url));
+    const env = { ...process.env, PORT: String(port), HOST: "127.0.0.1", RATE_LIMIT_PER_MINUTE: "0", WORKERS: "0", CACHE_DIR: "", LOG_LEVEL: "trace", MAX_EVENT_LOOP_DELAY_MS: "600000" };
+    server = spawn(process.execPath, [main], { env, stdio: ["ignore", "pipe", "inherit"] });
+    let pending = "";
+    await new Promise<void>((resolve, reject) => {
+      server.stdout!.on("data", (d: Buffer) => {
+        pending += d.toString("utf8");
+        const parts = pending.split("\n");
+        pending = parts.pop()!;
+        lines.push(...parts);
+        if (lines.some((l) => l.includes("Server listening"))) resolve();
+      });
+      server.once("exit", (code) => reject(new Error(`the server exited (${code}) before listening`)));
+    });
+  }, 60_000);
+  afterAll(() => {
+    server?.kill("SIGKILL");
+  });
+
+  it(`every line is at most ${LOG_LINE_BYTES} bytes`, async () => {
+    const base = `http://127.0.0.1:${port}`;
+    const json = { "content-type": "application/json" };
+    await fetch(`${base}/v1/${"p".repeat(14_000)}`);
+    await fetch(`${base}/v1/water?${"q".repeat(14_000)}=1`);
+    await fetch(`${base}/healthz`, { headers: { "accept-version": "v".repeat(14_000) } });
+    await fetch(`${base}/v1/profile`, { method: "POST", headers: json, body: `{"${"k".repeat(500_000)}":1}` });
+    await fetch(`${base}/v1/profile`, { method: "POST", headers: json, body: nested(100_000) });
+    await fetch(`${base}/v1/profile`, { method: "POST", headers: json, body: `{"drops":"${"x".repeat(1000)}"}` });
+    await fetch(`${base}/v1/presets/%E0%A4%A${"x".repeat(10_000)}`);
+    expect(await rawExchange(port, `GET / HTTP/1.1\r\nhost: x\r\nx-big: ${"h".repeat(20_000)}\r\n\r\n`)).toMatch(/^HTTP\/1\.1 431 /);
+    expect(await rawExchange(port, `\x00 ${"g".repeat(10_000)}\r\n\r\n`)).toMatch(/^HTTP\/1\.1 400 /);
+    await fetch(`${base}/healthz`); // the last request's lines are written before this one answers
+    await new Promise((r) => setTimeout(r, 200));
+    const incoming = lines.filter((l) => l.includes("incoming request"));
+    expect(incoming.length).toBeGreaterThanOrEqual(7);
+    const longest = Math.max(...lines.map((l) => Buffer.byteLength(l)));
+    expect(longest, lines.find((l) => Buffer.byteLength(l) === longest)?.slice(0, 300)).toBeLessThanOrEqual(LOG_LINE_BYTES);
   });
 });
