@@ -3,6 +3,7 @@
 
 import { mieCoefficients } from "../mie/coefficients.js";
 import { mieEfficiencies } from "../mie/efficiencies.js";
+import type { DropMedium } from "../water/drop-medium.js";
 
 /**
  * Above this size parameter Q_ext is taken as 2, the large-sphere limit (van de Hulst 1957 §8.22, the
@@ -20,7 +21,7 @@ export function extinctionEfficiency(mRe: number, mIm: number, x: number): numbe
 export function opticalThickness(
   radiiUm: Float64Array,
   weightsPerM3: Float64Array,
-  medium: { wavelengthNm: number; mRe: number; mIm: number; nAir: number },
+  medium: DropMedium,
   pathLengthM: number,
 ): number {
   const k = (2 * Math.PI * medium.nAir) / (medium.wavelengthNm * 1e-3);

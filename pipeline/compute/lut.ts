@@ -6,7 +6,7 @@ import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { latticeRadiusQuadrature } from "../../lib/drops/lattice-quadrature.js";
 import { opticalThickness } from "../../lib/bow/extinction.js";
-import { waterIndex } from "../../lib/water/water-index.js";
+import { dropMedium } from "../../lib/water/drop-medium.js";
 import { computeProfile, requestHash, toDistribution, type ProfileDeps, type ProfileResult } from "./profile.js";
 
 /** Density of liquid water for the number density of a row at given liquid water content (common practice). */
@@ -85,8 +85,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     first ??= profile;
     for (const w of profile.meta.warnings as string[]) warnings.add(w);
     const quadrature = latticeRadiusQuadrature(toDistribution(body.drops));
-    const idx = waterIndex({ wavelengthNm: TRANSMITTANCE_WAVELENGTH_NM, ...body.water });
-    const medium = { wavelengthNm: TRANSMITTANCE_WAVELENGTH_NM, mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir };
+    const medium = dropMedium(body.water, TRANSMITTANCE_WAVELENGTH_NM);
     const t = Math.exp(-opticalThickness(quadrature.radiiUm, quadrature.weights, medium, body.pathLengthM));
     transmittance.push(t);
     const a = profile.spectral.anglesDeg;

@@ -13,7 +13,7 @@ import { renderXyz } from "../../lib/colour/render.js";
 import { encodeLinear, outputSpace, type OutputSpaceId } from "../../lib/colour/output-spaces.js";
 import { LUMINOUS_EFFICACY_LM_PER_W } from "../../lib/bow/colour-profile.js";
 import { latticeRadiusQuadrature } from "../../lib/drops/lattice-quadrature.js";
-import { waterIndex } from "../../lib/water/water-index.js";
+import { dropMedium } from "../../lib/water/drop-medium.js";
 import { type Camera, cameraBasis, cameraRayField, centralPixelDeg, fieldOfViewDeg, focalPxFromFov, focalPxFromLens } from "../../lib/view/camera.js";
 import { skyRayField } from "../../lib/view/sky-map.js";
 import type { RayField } from "../../lib/view/ray-field.js";
@@ -278,8 +278,7 @@ function profileColours(result: ProfileResult, request: ProfileRequest, output: 
 
 function curtainOf(scenario: ViewScenario, pathLengthM: number) {
   const quadrature = latticeRadiusQuadrature(toDistribution(scenario.drops));
-  const idx = waterIndex({ wavelengthNm: CURTAIN_WAVELENGTH_NM, ...scenario.water });
-  const medium = { wavelengthNm: CURTAIN_WAVELENGTH_NM, mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir };
+  const medium = dropMedium(scenario.water, CURTAIN_WAVELENGTH_NM);
   const tau = opticalThickness(quadrature.radiiUm, quadrature.weights, medium, pathLengthM);
   const k = (2 * Math.PI * medium.nAir) / (CURTAIN_WAVELENGTH_NM * 1e-3);
   const qExt = Array.from(quadrature.radiiUm, (r) => extinctionEfficiency(medium.mRe, medium.mIm, k * r));
