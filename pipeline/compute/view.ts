@@ -13,13 +13,12 @@ import { renderXyz } from "../../lib/colour/render.js";
 import { encodeLinear, outputSpace, type OutputSpaceId } from "../../lib/colour/output-spaces.js";
 import { LUMINOUS_EFFICACY_LM_PER_W } from "../../lib/bow/colour-profile.js";
 import { latticeRadiusQuadrature } from "../../lib/drops/lattice-quadrature.js";
-import { dropMedium } from "../../lib/water/drop-medium.js";
 import { type Camera, cameraBasis, cameraRayField, centralPixelDeg, fieldOfViewDeg, focalPxFromFov, focalPxFromLens } from "../../lib/view/camera.js";
 import { skyRayField } from "../../lib/view/sky-map.js";
 import type { RayField } from "../../lib/view/ray-field.js";
 import { type Vec3, azimuthElevationOf, directionFromAzimuthElevation } from "../../lib/view/vectors.js";
 import { angleRangeDeg, renderLayer, type Layer, type ProfileColours } from "../../lib/view/layer.js";
-import { extinctionEfficiency, opticalThickness } from "../../lib/bow/extinction.js";
+import { curtainTransmittance } from "../../lib/bow/extinction.js";
 import { spaceChromaticities } from "../encoders/space-chromaticities.js";
 import { contentHash } from "../requests/content-hash.js";
 import { ditheredCode8 } from "../../lib/view/dither.js";
@@ -33,8 +32,6 @@ const BOW_WINDOW_DEG = { fromDeg: 30, toDeg: 60 } as const;
 const MAX_PROFILE_STEP_DEG = 0.1;
 /** The profile endpoint's limit on samples per request (schemas/profile.ts). */
 const MAX_PROFILE_SAMPLES = 4001;
-/** Near the peak of the photopic efficiency V(λ), 555 nm (CIE 015:2018): one wavelength stands for the grey curtain. */
-const CURTAIN_WAVELENGTH_NM = 555;
 /** Above this optical depth single scattering overstates the bow by more than e^(−1/2) ≈ 40 % (Beer–Lambert). */
 const SINGLE_SCATTERING_TAU = 1;
 /** Camera used when neither horizontalFovDeg nor focalLengthMm is given. */
@@ -277,14 +274,7 @@ function profileColours(result: ProfileResult, request: ProfileRequest, output: 
 }
 
 function curtainOf(scenario: ViewScenario, pathLengthM: number) {
-  const quadrature = latticeRadiusQuadrature(toDistribution(scenario.drops));
-  const medium = dropMedium(scenario.water, CURTAIN_WAVELENGTH_NM);
-  const tau = opticalThickness(quadrature.radiiUm, quadrature.weights, medium, pathLengthM);
-  const k = (2 * Math.PI * medium.nAir) / (CURTAIN_WAVELENGTH_NM * 1e-3);
-  const qExt = Array.from(quadrature.radiiUm, (r) => extinctionEfficiency(medium.mRe, medium.mIm, k * r));
-  // No drops at all (every bin empty): no efficiency range to report, an empty one rather than ±Infinity.
-  const qExtRange = qExt.length > 0 ? [Math.min(...qExt), Math.max(...qExt)] : [];
-  return { opticalDepth: tau, transmittance: Math.exp(-tau), qExtRange, wavelengthNm: CURTAIN_WAVELENGTH_NM };
+  return curtainTransmittance(latticeRadiusQuadrature(toDistribution(scenario.drops)), scenario.water, pathLengthM);
 }
 
 export interface PreparedOverlay {
