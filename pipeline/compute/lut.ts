@@ -4,9 +4,8 @@
 import type { LutRequest } from "../../schemas/lut.js";
 import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
-import { latticeRadiusQuadrature } from "../../lib/drops/lattice-quadrature.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
-import { computeProfile, requestHash, toDistribution, type ProfileDeps, type ProfileResult } from "./profile.js";
+import { computeProfile, requestHash, type ProfileDeps, type ProfileResult } from "./profile.js";
 
 /** Density of liquid water for the number density of a row at given liquid water content (common practice). */
 const WATER_DENSITY_G_PER_M3 = 1e6;
@@ -81,8 +80,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     const profile = await computeProfile(body, deps);
     first ??= profile;
     for (const w of profile.meta.warnings as string[]) warnings.add(w);
-    const quadrature = latticeRadiusQuadrature(toDistribution(body.drops));
-    const t = curtainTransmittance(quadrature, body.water, body.pathLengthM).transmittance;
+    const t = curtainTransmittance(profile.quadrature, body.water, body.pathLengthM).transmittance;
     transmittance.push(t);
     const a = profile.spectral.anglesDeg;
     for (let i = 0; i < width; i++) {

@@ -6,7 +6,7 @@ import { angleCount } from "../../schemas/angles.js";
 import { makeWavelengthGrid, wavelengthsNm } from "../../lib/spectra/grid.js";
 import { dropMedia } from "../../lib/water/drop-medium.js";
 import type { DropSizeDistribution } from "../../lib/drops/distributions.js";
-import { fractionOfCrossSectionAbove } from "../../lib/drops/quadrature.js";
+import { fractionOfCrossSectionAbove, type RadiusQuadrature } from "../../lib/drops/quadrature.js";
 import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lattice-quadrature.js";
 import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { directSunlight } from "../../lib/bow/sunlight.js";
@@ -31,6 +31,8 @@ export interface ProfileResult {
   /** XYZ of the direct sunlight on the rain (any scale): the white under white = "sun". */
   sunWhite: Xyz;
   grid: WavelengthGrid;
+  /** The drops on their radius nodes, computed once per request: the curtain's extinction reads them too. */
+  quadrature: RadiusQuadrature;
   spectral: SpectralProfile;
   colour: ColourProfile;
   bows: { primaryDeg: number | null; secondaryDeg: number | null };
@@ -270,7 +272,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     sources: profileSources(request),
     warnings,
   };
-  return { request, sunWhite, grid, spectral, colour, bows, meta };
+  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta };
 }
 
 function rgbUnits(request: ProfileRequest): string {

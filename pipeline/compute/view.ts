@@ -4,7 +4,7 @@
 import sharp from "sharp";
 import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
 import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../../schemas/view.js";
-import { computeProfile, toDistribution, type ProfileLimits, type ProfileResult } from "./profile.js";
+import { computeProfile, type ProfileLimits, type ProfileResult } from "./profile.js";
 import type { KernelService } from "../kernels/kernel-service.js";
 import { parseOrThrow } from "../requests/parse-request.js";
 import { ClientError } from "../requests/client-error.js";
@@ -12,7 +12,6 @@ import { luminanceReciprocal, spectraToXyz, type Xyz } from "../../lib/colour/tr
 import { renderXyz } from "../../lib/colour/render.js";
 import { encodeLinear, outputSpace, type OutputSpaceId } from "../../lib/colour/output-spaces.js";
 import { LUMINOUS_EFFICACY_LM_PER_W } from "../../lib/bow/colour-profile.js";
-import { latticeRadiusQuadrature } from "../../lib/drops/lattice-quadrature.js";
 import { type Camera, cameraBasis, cameraRayField, centralPixelDeg, fieldOfViewDeg, focalPxFromFov, focalPxFromLens } from "../../lib/view/camera.js";
 import { skyRayField } from "../../lib/view/sky-map.js";
 import type { RayField } from "../../lib/view/ray-field.js";
@@ -273,10 +272,6 @@ function profileColours(result: ProfileResult, request: ProfileRequest, output: 
   return { colours, scaling, outOfGamut, sunWhite };
 }
 
-function curtainOf(scenario: ViewScenario, pathLengthM: number) {
-  return curtainTransmittance(latticeRadiusQuadrature(toDistribution(scenario.drops)), scenario.water, pathLengthM);
-}
-
 export interface PreparedOverlay {
   scene: Scene;
   hash: string;
@@ -307,7 +302,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
   const profile = await computeProfile(request, deps, {});
   const space = renderSpaceFor(format, scene.output);
   const { colours, scaling, outOfGamut } = profileColours(profile, request, scene.output, space);
-  const curtain = curtainOf(scene.scenario, request.pathLengthM);
+  const curtain = curtainTransmittance(profile.quadrature, request.water, request.pathLengthM);
   const alpha = scene.layer === "premultiplied" ? 1 - curtain.transmittance : undefined;
   const warnings = [...((profile.meta.warnings as string[]) ?? [])];
   if (curtain.opticalDepth > SINGLE_SCATTERING_TAU) {
