@@ -18,7 +18,7 @@ import type { RayField } from "../../lib/view/ray-field.js";
 import { type Vec3, azimuthElevationOf, directionFromAzimuthElevation } from "../../lib/view/vectors.js";
 import { angleRangeDeg, renderLayer, type Layer, type ProfileColours } from "../../lib/view/layer.js";
 import { curtainTransmittance } from "../../lib/bow/extinction.js";
-import { spaceChromaticities } from "../encoders/space-chromaticities.js";
+import { spacePrimaries } from "../../lib/colour/primaries.js";
 import { contentHash } from "../requests/content-hash.js";
 import { ditheredCode8 } from "../../lib/view/dither.js";
 import { encodeExr, type ExrChromaticities } from "../encoders/exr.js";
@@ -35,8 +35,6 @@ const MAX_PROFILE_SAMPLES = 4001;
 const SINGLE_SCATTERING_TAU = 1;
 /** Camera used when neither horizontalFovDeg nor focalLengthMm is given. */
 const DEFAULT_HORIZONTAL_FOV_DEG = 90;
-
-/** Published chromaticities of each linear output space's primaries and white, as EXR and Radiance want them. */
 
 export interface ViewDeps {
   kernels: KernelService;
@@ -313,7 +311,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
   if (!angles.seen) warnings.push("no pixel sees rain (all below the horizon or beyond maxAngleDeg): the layer is empty");
   const hash = overlayHash(scene.endpoint, scene.normalisedRequest);
   const antisolar = azimuthElevationOf(scene.antisolar);
-  const chroma = spaceChromaticities(space);
+  const chroma = spacePrimaries(space);
   const manifest: Record<string, unknown> = {
     endpoint: `/v1/${scene.endpoint}`,
     frame: worldFrameNote(),
@@ -454,7 +452,7 @@ export interface OverlayFile {
 export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): Promise<OverlayFile> {
   const layer = renderPrepared(p);
   const space = renderSpaceFor(format, p.scene.output);
-  const chroma = spaceChromaticities(space);
+  const chroma = spacePrimaries(space);
   const manifest = p.manifest;
   switch (format) {
     case "exr":
