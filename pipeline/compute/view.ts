@@ -187,17 +187,7 @@ function profileRequestFor(scene: Scene, angles: { fromDeg: number; toDeg: numbe
     angles,
     output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute" },
   };
-  try {
-    return parseOrThrow(profileRequestSchema, body, "body");
-  } catch (err) {
-    if (err instanceof ClientError && typeof err.details.field === "string") {
-      throw new ClientError(err.code, err.message.replace(`'${err.details.field}'`, `'scenario.${err.details.field}'`), {
-        ...err.details,
-        field: `scenario.${err.details.field}`,
-      });
-    }
-    throw err;
-  }
+  return parseOrThrow(profileRequestSchema, body, "body", ["scenario"]);
 }
 
 function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg: number; seen: { minDeg: number; maxDeg: number } | null } {

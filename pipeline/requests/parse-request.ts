@@ -66,8 +66,11 @@ function formatPath(path: PropertyKey[]): string {
   return out;
 }
 
-/** Parses input with a zod schema, or throws a 400 that names the field and what it allows. */
-export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, where: "body" | "query"): z.output<S> {
+/**
+ * Parses input with a zod schema, or throws a 400 that names the field and what it allows. `prefix` is where the
+ * input sits inside the request (a job's `body`), so that the field is named from the request's root.
+ */
+export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, where: "body" | "query", prefix: readonly PropertyKey[] = []): z.output<S> {
   const result = schema.safeParse(input);
   if (result.success) return result.data;
   const issue = result.error.issues[0];
@@ -77,20 +80,20 @@ export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, whe
   let message: string;
   if (issue.code === "unrecognized_keys") {
     const node = schemaAtPath(root, path, input);
-    const field = formatPath([...path, issue.keys[0]]);
+    const field = formatPath([...prefix, ...path, issue.keys[0]]);
     allowed = node?.properties ? `the fields ${Object.keys(node.properties).join(", ")}` : undefined;
     message = `${where} field '${field}' is not known${allowed ? `; allowed here are ${allowed}` : ""}`;
     path = [...path, issue.keys[0]];
   } else {
     const node = schemaAtPath(root, path, input);
     allowed = node ? describeRange(node) : undefined;
-    const field = formatPath(path) || "(root)";
+    const field = formatPath([...prefix, ...path]) || "(root)";
     const sent = valueAt(input, path);
     const sentText = sent === undefined ? "missing" : truncate(JSON.stringify(sent) ?? String(sent));
     message = `${where} field '${field}' is invalid (${issue.message}; sent ${sentText})${allowed ? `: allowed is ${allowed}` : ""}`;
   }
   throw new ClientError("invalid-request", message, {
-    field: formatPath(path) || undefined,
+    field: formatPath([...prefix, ...path]) || undefined,
     ...(allowed ? { allowed } : {}),
   });
 }
