@@ -14,7 +14,7 @@ import { profileJson } from "../pipeline/render/profile-render.js";
 import { encodeExr } from "../pipeline/encoders/exr.js";
 import { encodeRadianceHdr } from "../pipeline/encoders/radiance-hdr.js";
 import { encodePngImage, encodePngStrip } from "../pipeline/encoders/png-strip.js";
-import { spaceChromaticities } from "../pipeline/encoders/space-chromaticities.js";
+import { spacePrimaries } from "../lib/colour/primaries.js";
 import { createKernelRuntime } from "../pipeline/kernels/runtime.js";
 import { loadConfig } from "../pipeline/config/config.js";
 import { parseOrThrow } from "../pipeline/requests/parse-request.js";
@@ -75,11 +75,11 @@ async function bake(args: string[]): Promise<void> {
     let file: Buffer;
     if (ext === ".exr") {
       file = encodeExr({ width: lut.width, height: lut.height, channels: ["R", "G", "B", "A"], data: lut.rgba, pixelType: "half", compression: "zip",
-        chromaticities: request.space === "xyz-d65" ? undefined : spaceChromaticities(request.space), attributes: { "antisolar:space": request.space, "antisolar:hash": String(lut.manifest.hash) } });
+        chromaticities: request.space === "xyz-d65" ? undefined : spacePrimaries(request.space), attributes: { "antisolar:space": request.space, "antisolar:hash": String(lut.manifest.hash) } });
     } else if (ext === ".hdr") {
       const rgb = new Float32Array(lut.width * lut.height * 3);
       for (let p = 0; p < lut.width * lut.height; p++) rgb.set(lut.rgba.subarray(4 * p, 4 * p + 3), 3 * p);
-      const c = spaceChromaticities(request.space);
+      const c = spacePrimaries(request.space);
       file = encodeRadianceHdr({ width: lut.width, height: lut.height, data: rgb, primaries: [c.red, c.green, c.blue, c.white] });
     } else if (ext === ".png") {
       let peak = 0;

@@ -28,14 +28,7 @@ function jobView(record: JobRecord) {
 
 /** Checks a part of the job against the endpoint's schema; a fault is reported at its place in the job body. */
 function parseNested(schema: Parameters<typeof parseOrThrow>[0], value: unknown, part: "body" | "query"): unknown {
-  try {
-    return parseOrThrow(schema, value, part);
-  } catch (error) {
-    if (!(error instanceof ClientError)) throw error;
-    const field = error.details.field ? `${part}.${error.details.field}` : part;
-    const message = error.message.replace(/^(body|query) field '([^']*)'/, (_all, _where, name: string) => `body field '${part}${name === "(root)" ? "" : `.${name}`}'`);
-    throw new ClientError(error.code, message, { ...error.details, field });
-  }
+  return parseOrThrow(schema, value, "body", [part]);
 }
 
 function idOf(request: FastifyRequest): string {

@@ -4,9 +4,9 @@ import { contentHash } from "../requests/content-hash.js";
 import type { ProfileRequest } from "../../schemas/profile.js";
 import { angleCount } from "../../schemas/angles.js";
 import { makeWavelengthGrid, wavelengthsNm } from "../../lib/spectra/grid.js";
-import { waterIndex } from "../../lib/water/water-index.js";
+import { dropMedia } from "../../lib/water/drop-medium.js";
 import type { DropSizeDistribution } from "../../lib/drops/distributions.js";
-import { fractionOfCrossSectionAbove } from "../../lib/drops/quadrature.js";
+import { fractionOfCrossSectionAbove, type RadiusQuadrature } from "../../lib/drops/quadrature.js";
 import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lattice-quadrature.js";
 import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { directSunlight } from "../../lib/bow/sunlight.js";
@@ -14,7 +14,6 @@ import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
 import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
 import { blocksOf, kernelStepFor } from "../../lib/bow/kernel-grid.js";
 import type { KernelService } from "../kernels/kernel-service.js";
-import type { Medium } from "../kernels/kernel-types.js";
 import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
 import { engineChooser, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
@@ -32,6 +31,8 @@ export interface ProfileResult {
   /** XYZ of the direct sunlight on the rain (any scale): the white under white = "sun". */
   sunWhite: Xyz;
   grid: WavelengthGrid;
+  /** The drops on their radius nodes, computed once per request: the curtain's extinction reads them too. */
+  quadrature: RadiusQuadrature;
   spectral: SpectralProfile;
   colour: ColourProfile;
   bows: { primaryDeg: number | null; secondaryDeg: number | null };
@@ -122,13 +123,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
   const wl = wavelengthsNm(grid);
-  const media: Medium[] = [];
-  let waterSource = "";
-  for (let l = 0; l < grid.count; l++) {
-    const idx = waterIndex({ wavelengthNm: wl[l], ...request.water });
-    media.push({ wavelengthNm: wl[l], mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir });
-    waterSource = idx.source;
-  }
+  const { media, source: waterSource } = dropMedia(request.water, wl);
   if (/extrapolated/i.test(waterSource)) warnings.push(`water index extrapolated: ${waterSource}`);
 
   const distribution = toDistribution(request.drops);
@@ -277,7 +272,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     sources: profileSources(request),
     warnings,
   };
-  return { request, sunWhite, grid, spectral, colour, bows, meta };
+  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta };
 }
 
 function rgbUnits(request: ProfileRequest): string {

@@ -6,7 +6,8 @@ import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { setMaxListeners } from "node:events";
 import { ByteLru } from "./byte-lru.js";
 import type { DiskStore } from "./disk-store.js";
-import type { KernelTask, KernelTaskResult, Medium } from "./kernel-types.js";
+import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
+import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 
@@ -17,7 +18,7 @@ export type KernelCompute = (task: KernelTask, signal?: AbortSignal) => Promise<
 
 export interface KernelRequest {
   h: number;
-  media: Medium[];
+  media: DropMedium[];
   radiiUm: Float64Array;
   engines: DropEngine[];
   /** Per radius: Lorenz–Mie rows averaged over the node's radius cell (undefined: the node's own size). */
@@ -93,7 +94,7 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
 }
 
 /** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
-function packKey(m: Medium, variant: string, h: number, block: number): string {
+function packKey(m: DropMedium, variant: string, h: number, block: number): string {
   return `v${KERNEL_VERSION}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
 }
 

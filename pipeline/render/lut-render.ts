@@ -4,7 +4,7 @@ import { computeLut, type Lut } from "../compute/lut.js";
 import { encodeExr } from "../encoders/exr.js";
 import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { encodePngImage } from "../encoders/png-strip.js";
-import { spaceChromaticities } from "../encoders/space-chromaticities.js";
+import { spacePrimaries } from "../../lib/colour/primaries.js";
 import { jsonOutput, type RenderDeps, type RenderOutput } from "./render-output.js";
 
 export type LutQuery = z.output<typeof lutQuerySchema>;
@@ -41,7 +41,7 @@ export async function renderLut(body: LutRequest, query: LutQuery, deps: RenderD
           data: lut.rgba,
           pixelType: query.pixelType,
           compression: "zip",
-          chromaticities: body.space === "xyz-d65" ? undefined : spaceChromaticities(body.space),
+          chromaticities: body.space === "xyz-d65" ? undefined : spacePrimaries(body.space),
           attributes: {
             comments: JSON.stringify({ u: manifest.u, v: manifest.v, scale: manifest.scale }).slice(0, 60_000),
             "antisolar:space": body.space,
@@ -50,7 +50,7 @@ export async function renderLut(body: LutRequest, query: LutQuery, deps: RenderD
         }),
       };
     case "hdr": {
-      const c = spaceChromaticities(body.space);
+      const c = spacePrimaries(body.space);
       return {
         contentType: "image/vnd.radiance",
         headers: { ...headers, "x-antisolar-note": "Radiance RGBE has no alpha: the transmittance is in the manifest's v.transmittance" },
