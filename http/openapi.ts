@@ -1,24 +1,28 @@
 import { z } from "zod";
 import type { RouteSpec } from "./route-spec.js";
 import { EYE_SAFETY_CAUTION } from "../pipeline/eye-safety.js";
+import { responseSchemas, type ResponseSchemaName } from "../schemas/responses/catalogue.js";
 
-const errorSchema = {
-  type: "object",
-  required: ["error", "message"],
-  properties: {
-    error: { type: "string", description: "stable error code" },
-    message: { type: "string" },
-    field: { type: "string", description: "JSON path of the field at fault" },
-    allowed: { type: "string", description: "the allowed range or choices" },
-    requestId: { type: "string" },
-  },
-};
-
-function toJsonSchema(schema: z.ZodType): Record<string, unknown> {
-  const js = z.toJSONSchema(schema, { io: "input", unrepresentable: "any" }) as Record<string, unknown>;
+/** Requests are described as clients send them (defaults optional), responses as the service writes them. */
+export function toJsonSchema(schema: z.ZodType, io: "input" | "output" = "input"): Record<string, unknown> {
+  const js = z.toJSONSchema(schema, { io, unrepresentable: "any" }) as Record<string, unknown>;
   delete js.$schema;
   return js;
 }
+
+/** Where /openapi.json keeps a response body's schema. */
+export function responseSchemaRef(name: ResponseSchemaName): { $ref: string } {
+  return { $ref: `#/components/schemas/${name}` };
+}
+
+function jsonBodySchema(status: number, names: ResponseSchemaName | ResponseSchemaName[] | undefined): Record<string, unknown> {
+  if (status >= 400) return responseSchemaRef("Error");
+  if (names === undefined) return {};
+  return Array.isArray(names) ? { oneOf: names.map(responseSchemaRef) } : responseSchemaRef(names);
+}
+
+/** Errors any route can give besides those it lists: 413, 415, 429, 503, and a 500 that is a bug. */
+const otherErrors = { description: "any other error, in the same shape", content: { "application/json": { schema: responseSchemaRef("Error") } } };
 
 /** OpenAPI 3.1 (whose schemas are JSON Schema 2020-12, what zod emits) built from the route specs. */
 export function buildOpenApi(routes: RouteSpec[], version: string): Record<string, unknown> {
@@ -46,9 +50,10 @@ export function buildOpenApi(routes: RouteSpec[], version: string): Record<strin
       const types = r.contentTypes ?? ["application/json"];
       responses[status] = {
         description: r.description,
-        content: Object.fromEntries(types.map((t) => [t, Number(status) >= 400 ? { schema: errorSchema } : {}])),
+        content: Object.fromEntries(types.map((t) => [t, t === "application/json" ? { schema: jsonBodySchema(Number(status), r.json) } : {}])),
       };
     }
+    responses.default = otherErrors;
     paths[openApiPath] ??= {};
     paths[openApiPath][route.method.toLowerCase()] = {
       summary: route.summary,
@@ -72,5 +77,6 @@ export function buildOpenApi(routes: RouteSpec[], version: string): Record<strin
         EYE_SAFETY_CAUTION,
     },
     paths,
+    components: { schemas: Object.fromEntries(Object.entries(responseSchemas).map(([name, schema]) => [name, toJsonSchema(schema, "output")])) },
   };
 }

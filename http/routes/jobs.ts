@@ -65,7 +65,7 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
         "An identical request whose result is still kept is done at once (`reused: true`).",
       body: requestSchema,
       responses: {
-        202: { description: "queued (or done at once when the same result is kept)" },
+        202: { description: "queued (or done at once when the same result is kept)", json: "Job" },
         400: { description: "an unknown endpoint, or a field of the body or query out of range" },
       },
       handle: async ({ body, reply }) => {
@@ -90,7 +90,7 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
       tag: "jobs",
       summary: "A job's state (queued, running, done, failed, cancelled) and progress",
       description: "progress.fraction runs from 0 to 1 and never falls; progress.stage names the step.",
-      responses: { 200: { description: "the job" }, 404: { description: "no such job" } },
+      responses: { 200: { description: "the job", json: "Job" }, 404: { description: "no such job" } },
       handle: async ({ request }) => jobView(await find(idOf(request))),
     }),
     defineRoute({
@@ -139,7 +139,7 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
       url: "/v1/jobs/:id",
       tag: "jobs",
       summary: "Cancel a job: its render stops, and its state becomes cancelled (a finished job is left as it is)",
-      responses: { 200: { description: "the job after cancelling" }, 404: { description: "no such job" } },
+      responses: { 200: { description: "the job after cancelling", json: "Job" }, 404: { description: "no such job" } },
       handle: async ({ request }) => {
         const record = await backend.cancel(idOf(request));
         if (!record) throw new ClientError("not-found", `no job '${idOf(request)}'`, { field: "id" });
@@ -151,7 +151,7 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
       url: "/readyz",
       tag: "service",
       summary: "200 when the dependencies answer (Redis, when REDIS_URL is set); 503 otherwise",
-      responses: { 200: { description: "ready" }, 503: { description: "a dependency does not answer" } },
+      responses: { 200: { description: "ready", json: "Ready" }, 503: { description: "a dependency does not answer" } },
       handle: async ({ reply }) => {
         const check = await backend.ready();
         if (!check.ok) {

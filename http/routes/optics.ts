@@ -17,7 +17,7 @@ export function opticsRoutes(config: Config): RouteSpec[] {
         "IAPWS R9-97 with the liquid density at the temperature, plus the Quan & Fry 1995 salinity increment. " +
         "`n` is relative to vacuum; `nRelativeToAir` is what the scattering code uses for a drop in air.",
       query: waterQuerySchema,
-      responses: { 200: { description: "the index" }, 400: { description: "a parameter out of range" } },
+      responses: { 200: { description: "the index", json: "Water" }, 400: { description: "a parameter out of range" } },
       handle: async ({ query }) => ({ ...waterIndex(query), wavelength: "vacuum", wavelengthNm: query.wavelengthNm }),
     }),
     defineRoute({
@@ -31,7 +31,7 @@ export function opticsRoutes(config: Config): RouteSpec[] {
         "budget (Mie terms × angles) are refused with 422.",
       body: scatterRequestSchema,
       responses: {
-        200: { description: "intensities per scattering angle" },
+        200: { description: "intensities per scattering angle", json: "Scatter" },
         400: { description: "a field out of range" },
         422: { description: "valid, but costlier than the synchronous budget" },
       },

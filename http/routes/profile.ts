@@ -38,7 +38,7 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
       body: profileRequestSchema,
       query: stripQuerySchema,
       responses: {
-        200: { description: "the profile", contentTypes: ["application/json", "image/png", "image/svg+xml"] },
+        200: { description: "the profile", contentTypes: ["application/json", "image/png", "image/svg+xml"], json: "Profile" },
         400: { description: "a field out of range" },
         422: { description: "valid, but costlier than the synchronous budget" },
       },
@@ -57,7 +57,7 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
       url: "/v1/presets",
       tag: "bows",
       summary: "Named demo scenarios, each a complete body for POST /v1/profile",
-      responses: { 200: { description: "the presets" } },
+      responses: { 200: { description: "the presets", json: "PresetList" } },
       handle: async () => ({
         presets: [...presets.values()].map((p) => ({ name: p.name, title: p.title, description: p.description })),
       }),
@@ -67,7 +67,7 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
       url: "/v1/presets/:name",
       tag: "bows",
       summary: "One demo scenario with its complete request body",
-      responses: { 200: { description: "the preset" }, 404: { description: "no such preset" } },
+      responses: { 200: { description: "the preset", json: "Preset" }, 404: { description: "no such preset" } },
       handle: async ({ request }) => {
         const name = (request.params as { name: string }).name;
         const preset = presets.get(name);

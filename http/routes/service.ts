@@ -7,7 +7,7 @@ export function serviceRoutes(): RouteSpec[] {
       url: "/healthz",
       tag: "service",
       summary: "200 when the process can serve requests",
-      responses: { 200: { description: "the process is alive" } },
+      responses: { 200: { description: "the process is alive", json: "Health" } },
       handle: async () => ({ status: "ok", uptimeS: Math.round(process.uptime()) }),
     }),
   ];
