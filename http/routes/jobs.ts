@@ -11,13 +11,15 @@ import { sendOutput } from "../send-output.js";
 import type { JobSystem } from "../../pipeline/jobs/job-system.js";
 import { JobError } from "../../pipeline/jobs/job-errors.js";
 import { jobHash, terminalStates, type JobRecord } from "../../pipeline/jobs/job-types.js";
+import type { JobResponse } from "../../schemas/responses/job-response.js";
+import type { ReadyResponse } from "../../schemas/responses/service-response.js";
 
 /** Comment lines keep idle event streams open through proxies that close quiet connections (WHATWG HTML Living Standard §9.2.7, authoring notes: a comment line every 15 s or so). */
 const HEARTBEAT_MS = 15_000;
 /** Re-reads the job this often while streaming, in case a change notice was missed. */
 const POLL_MS = 1_000;
 
-function jobView(record: JobRecord) {
+function jobView(record: JobRecord): JobResponse {
   const self = `/v1/jobs/${record.id}`;
   const { id, endpoint, state, progress, reused, hash, createdAt, startedAt, finishedAt, attempts, error } = record;
   return {
@@ -158,7 +160,8 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
           reply.header("retry-after", "5");
           throw new JobError("not-ready", `not ready: ${check.detail}`);
         }
-        return { status: "ready", jobs: backend.mode, detail: check.detail };
+        const ready: ReadyResponse = { status: "ready", jobs: backend.mode, detail: check.detail };
+        return ready;
       },
     }),
   ];

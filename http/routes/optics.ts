@@ -5,6 +5,7 @@ import { waterIndex } from "../../lib/water/water-index.js";
 import { computeScatter, scatterCost } from "../../pipeline/compute/scatter.js";
 import { ClientError } from "../../pipeline/requests/client-error.js";
 import type { Config } from "../../pipeline/config/config.js";
+import type { WaterResponse } from "../../schemas/responses/optics-response.js";
 
 export function opticsRoutes(config: Config): RouteSpec[] {
   return [
@@ -18,7 +19,7 @@ export function opticsRoutes(config: Config): RouteSpec[] {
         "`n` is relative to vacuum; `nRelativeToAir` is what the scattering code uses for a drop in air.",
       query: waterQuerySchema,
       responses: { 200: { description: "the index", json: "Water" }, 400: { description: "a parameter out of range" } },
-      handle: async ({ query }) => ({ ...waterIndex(query), wavelength: "vacuum", wavelengthNm: query.wavelengthNm }),
+      handle: async ({ query }): Promise<WaterResponse> => ({ ...waterIndex(query), wavelength: "vacuum", wavelengthNm: query.wavelengthNm }),
     }),
     defineRoute({
       method: "POST",

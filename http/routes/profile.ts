@@ -12,6 +12,7 @@ import { clientSignal } from "../plugins/hardening.js";
 import type { Config } from "../../pipeline/config/config.js";
 import type { Preset } from "../../pipeline/requests/presets.js";
 import type { KernelService } from "../../pipeline/kernels/kernel-service.js";
+import type { PresetList } from "../../schemas/responses/profile-response.js";
 
 function chooseFormat(query: { format?: ProfileFormat }, request: FastifyRequest): ProfileFormat {
   if (query.format) return query.format;
@@ -58,7 +59,7 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
       tag: "bows",
       summary: "Named demo scenarios, each a complete body for POST /v1/profile",
       responses: { 200: { description: "the presets", json: "PresetList" } },
-      handle: async () => ({
+      handle: async (): Promise<PresetList> => ({
         presets: [...presets.values()].map((p) => ({ name: p.name, title: p.title, description: p.description })),
       }),
     }),

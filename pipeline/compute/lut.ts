@@ -8,6 +8,7 @@ import { latticeRadiusQuadrature } from "../../lib/drops/lattice-quadrature.js";
 import { opticalThickness } from "../../lib/bow/extinction.js";
 import { waterIndex } from "../../lib/water/water-index.js";
 import { computeProfile, requestHash, toDistribution, type ProfileDeps, type ProfileResult } from "./profile.js";
+import type { LutManifest } from "../../schemas/responses/lut-response.js";
 
 /** Density of liquid water for the number density of a row at given liquid water content (common practice). */
 const WATER_DENSITY_G_PER_M3 = 1e6;
@@ -19,7 +20,7 @@ export interface Lut {
   height: number;
   /** RGBA per texel, row-major from the top row (row j = size j, ascending). */
   rgba: Float32Array;
-  manifest: Record<string, unknown>;
+  manifest: LutManifest;
 }
 
 function rowDrops(request: LutRequest): { label: string; value: number; drops: ProfileRequest["drops"] }[] {
@@ -83,7 +84,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     onProgress?.(j / rows.length, `row ${j + 1} of ${rows.length}`);
     const profile = await computeProfile(body, deps);
     first ??= profile;
-    for (const w of profile.meta.warnings as string[]) warnings.add(w);
+    for (const w of profile.meta.warnings) warnings.add(w);
     const quadrature = latticeRadiusQuadrature(toDistribution(body.drops));
     const idx = waterIndex({ wavelengthNm: TRANSMITTANCE_WAVELENGTH_NM, ...body.water });
     const medium = { wavelengthNm: TRANSMITTANCE_WAVELENGTH_NM, mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir };
@@ -102,7 +103,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
 
   onProgress?.(1, "done");
   const mapping = request.angles.mapping;
-  const manifest = {
+  const manifest: LutManifest = {
     width,
     height,
     channels: ["R", "G", "B", "A"],
@@ -134,7 +135,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     additiveUse: "or add rgb to the plate's radiance and ignore alpha (thin rain)",
     scenario: request,
     hash: requestHash(request),
-    sources: first?.meta.sources,
+    sources: first?.meta.sources ?? [],
     warnings: [...warnings],
     computeMs: Math.round(performance.now() - started),
   };

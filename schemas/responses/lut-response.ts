@@ -1,14 +1,6 @@
 import { z } from "zod";
 import { lutRequestSchema, lutSpaces } from "../lut.js";
 
-const uLinear = {
-  quantity: z.string(),
-  unit: z.literal("degree"),
-  fromDeg: z.number(),
-  toDeg: z.number(),
-  formula: z.string().describe("ψ as a function of the texture coordinate u"),
-};
-const texelCentresDeg = z.array(z.number()).describe("ψ at each texel's centre");
 
 export const lutManifestSchema = z
   .strictObject({
@@ -16,10 +8,17 @@ export const lutManifestSchema = z
     height: z.number().int(),
     channels: z.tuple([z.literal("R"), z.literal("G"), z.literal("B"), z.literal("A")]),
     rowOrder: z.string(),
-    u: z.union([
-      z.strictObject({ ...uLinear, mapping: z.literal("linear"), texelCentresDeg }),
-      z.strictObject({ ...uLinear, mapping: z.literal("bow-weighted"), centreDeg: z.number(), scaleDeg: z.number(), texelCentresDeg }),
-    ]),
+    u: z.strictObject({
+      quantity: z.string(),
+      unit: z.literal("degree"),
+      mapping: lutRequestSchema.shape.angles.unwrap().shape.mapping.unwrap(),
+      fromDeg: z.number(),
+      toDeg: z.number(),
+      formula: z.string().describe("ψ as a function of the texture coordinate u"),
+      centreDeg: z.number().optional().describe("bow-weighted mapping: its centre c"),
+      scaleDeg: z.number().optional().describe("bow-weighted mapping: its scale s"),
+      texelCentresDeg: z.array(z.number()).describe("ψ at each texel's centre"),
+    }),
     v: z.strictObject({
       quantity: z.string().describe("what the rows stand for: radiusUm, rainRateMmPerH or the scenario's drops"),
       mapping: z.string(),

@@ -23,40 +23,26 @@ const scatterCommon = {
   refractiveIndex: z.strictObject({ re: z.number(), im: z.number() }).describe("of the drop relative to the surrounding medium"),
 };
 
-const scatterMeta = (method: z.ZodType) =>
-  z.strictObject({
-    method,
-    units: z.strictObject({ intensityPerpendicular: z.string(), intensityParallel: z.string(), scatteringAngleDeg: z.string() }),
-    refractiveIndexSource: z.string(),
-    mediumWavelengthNm: z.number(),
-    computeMs: z.number(),
-    warnings: z.array(z.string()),
-  });
-
 export const scatterResponseSchema = z
-  .union([
-    z.strictObject({
-      ...scatterCommon,
-      qExt: z.number().describe("extinction efficiency"),
-      qSca: z.number().describe("scattering efficiency"),
-      qBack: z.number().describe("backscattering efficiency"),
-      g: z.number().describe("asymmetry parameter ⟨cos Θ⟩"),
-      terms: z.number().int().describe("Mie series terms summed"),
-      meta: scatterMeta(z.literal("mie")),
+  .strictObject({
+    ...scatterCommon,
+    qExt: z.number().optional().describe("mie: extinction efficiency"),
+    qSca: z.number().optional().describe("mie: scattering efficiency"),
+    qBack: z.number().optional().describe("mie: backscattering efficiency"),
+    g: z.number().optional().describe("mie: asymmetry parameter ⟨cos Θ⟩"),
+    debyeOrder: z.number().int().optional().describe("debye: the order p (p − 1 internal reflections)"),
+    terms: z.number().int().optional().describe("mie and debye: series terms summed"),
+    orders: z.array(z.number().int()).optional().describe("airy and geometric: the Debye orders summed"),
+    meta: z.strictObject({
+      method: z.enum(["mie", "debye", "airy", "geometric"]),
+      units: z.strictObject({ intensityPerpendicular: z.string(), intensityParallel: z.string(), scatteringAngleDeg: z.string() }),
+      refractiveIndexSource: z.string(),
+      mediumWavelengthNm: z.number(),
+      computeMs: z.number(),
+      warnings: z.array(z.string()),
     }),
-    z.strictObject({
-      ...scatterCommon,
-      debyeOrder: z.number().int().describe("Debye order p (p − 1 internal reflections)"),
-      terms: z.number().int(),
-      meta: scatterMeta(z.literal("debye")),
-    }),
-    z.strictObject({
-      ...scatterCommon,
-      orders: z.array(z.number().int()).describe("Debye orders summed"),
-      meta: scatterMeta(z.enum(["airy", "geometric"])),
-    }),
-  ])
-  .describe("POST /v1/scatter: intensities of one drop at one wavelength; the extra fields depend on the method");
+  })
+  .describe("POST /v1/scatter: intensities of one drop at one wavelength; which optional fields appear depends on the method");
 
 export type WaterResponse = z.infer<typeof waterResponseSchema>;
 export type ScatterResponse = z.infer<typeof scatterResponseSchema>;

@@ -3,7 +3,7 @@ import { cameraSchema, layerSchema, viewOutputSchema, imageQuerySchema } from ".
 import { bowsSchema, methodSummarySchema, radiiSummarySchema, sunSummarySchema, wavelengthsSummarySchema } from "./profile-response.js";
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()]).describe("unit vector in the world frame (x east, y north, z up)");
-const xy = z.tuple([z.number(), z.number()]);
+const xy = z.tuple([z.number(), z.number()]).readonly();
 
 export const cameraDescriptionSchema = z.strictObject({
   kind: z.literal("camera"),
