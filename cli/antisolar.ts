@@ -86,7 +86,7 @@ async function bake(args: string[]): Promise<void> {
       lut.rgba.forEach((v, k) => (peak = k % 4 === 3 ? peak : Math.max(peak, v)));
       const scaled = Float32Array.from(lut.rgba, (v, k) => (k % 4 === 3 ? v : peak > 0 ? v / peak : 0));
       file = (await encodePngImage({ width: lut.width, height: lut.height, channels: 4, values: scaled, bitDepth: 16, space: request.space })).png;
-      lut.manifest.pngScale = `RGB were divided by ${peak} to fit PNG's 0..1`;
+      (lut.manifest as typeof lut.manifest & { pngScale?: string }).pngScale = `RGB were divided by ${peak} to fit PNG's 0..1`;
     } else if (ext === ".json") {
       file = Buffer.from(JSON.stringify({ manifest: lut.manifest, rgba: Array.from(lut.rgba) }));
     } else {

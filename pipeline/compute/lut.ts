@@ -6,6 +6,7 @@ import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
 import { computeProfile, requestHash, type ProfileDeps, type ProfileResult } from "./profile.js";
+import type { LutManifest } from "../../schemas/responses/lut-response.js";
 
 /** Density of liquid water for the number density of a row at given liquid water content (common practice). */
 const WATER_DENSITY_G_PER_M3 = 1e6;
@@ -15,7 +16,7 @@ export interface Lut {
   height: number;
   /** RGBA per texel, row-major from the top row (row j = size j, ascending). */
   rgba: Float32Array;
-  manifest: Record<string, unknown>;
+  manifest: LutManifest;
 }
 
 function rowDrops(request: LutRequest): { label: string; value: number; drops: ProfileRequest["drops"] }[] {
@@ -79,7 +80,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     onProgress?.(j / rows.length, `row ${j + 1} of ${rows.length}`);
     const profile = await computeProfile(body, deps);
     first ??= profile;
-    for (const w of profile.meta.warnings as string[]) warnings.add(w);
+    for (const w of profile.meta.warnings) warnings.add(w);
     const t = curtainTransmittance(profile.quadrature, body.water, body.pathLengthM).transmittance;
     transmittance.push(t);
     const a = profile.spectral.anglesDeg;
@@ -95,7 +96,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
 
   onProgress?.(1, "done");
   const mapping = request.angles.mapping;
-  const manifest = {
+  const manifest: LutManifest = {
     width,
     height,
     channels: ["R", "G", "B", "A"],
@@ -127,7 +128,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     additiveUse: "or add rgb to the plate's radiance and ignore alpha (thin rain)",
     scenario: request,
     hash: requestHash(request),
-    sources: first?.meta.sources,
+    sources: first?.meta.sources ?? [],
     warnings: [...warnings],
     computeMs: Math.round(performance.now() - started),
   };

@@ -22,6 +22,7 @@ import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-de
 import type { CellAverage } from "../../lib/bow/cell-average.js";
 import type { WavelengthGrid } from "../../lib/spectra/grid.js";
 import { ClientError } from "../requests/client-error.js";
+import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
 
 /** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
 const FLATTENED_FROM_RADIUS_UM = 1000;
@@ -35,8 +36,8 @@ export interface ProfileResult {
   quadrature: RadiusQuadrature;
   spectral: SpectralProfile;
   colour: ColourProfile;
-  bows: { primaryDeg: number | null; secondaryDeg: number | null };
-  meta: Record<string, unknown>;
+  bows: Bows;
+  meta: ProfileMeta;
 }
 
 export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribution {
@@ -234,7 +235,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     warnings.push("with the sun above about 42° the primary bow lies below the horizon for an observer on flat ground");
   }
 
-  const meta = {
+  const meta: ProfileMeta = {
     method: { requested: request.method, engines: engineRanges },
     units: {
       anglesDeg: "degrees from the antisolar point",
@@ -279,14 +280,6 @@ function rgbUnits(request: ProfileRequest): string {
   const encoded = ["srgb", "display-p3", "rec2020"].includes(request.output.space);
   if (encoded) return `${request.output.space}, encoded (transfer function applied), 1 = the peak's luminance`;
   return request.output.normalise === "peak" ? `${request.output.space}, linear, relative to the peak` : `${request.output.space}, linear, cd/m²`;
-}
-
-interface EngineRange {
-  engine: DropEngine;
-  fromUm: number;
-  toUm: number;
-  nodes: number;
-  estimatedError?: string;
 }
 
 function summariseEngines(radiiUm: Float64Array, engine: (r: number) => DropEngine): EngineRange[] {

@@ -18,7 +18,7 @@ function rgbOnly(lut: Lut): Float32Array {
 export async function renderLut(body: LutRequest, query: LutQuery, deps: RenderDeps): Promise<RenderOutput> {
   const lut = await computeLut(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal }, deps.onProgress);
   const { manifest } = lut;
-  const headers = { "x-antisolar-hash": String(manifest.hash) };
+  const headers = { "x-antisolar-hash": manifest.hash };
   if (query.part === "manifest") return jsonOutput(manifest, headers);
   switch (query.format) {
     case "json": {
@@ -45,7 +45,7 @@ export async function renderLut(body: LutRequest, query: LutQuery, deps: RenderD
           attributes: {
             comments: JSON.stringify({ u: manifest.u, v: manifest.v, scale: manifest.scale }).slice(0, 60_000),
             "antisolar:space": body.space,
-            "antisolar:hash": String(manifest.hash),
+            "antisolar:hash": manifest.hash,
           },
         }),
       };

@@ -12,7 +12,7 @@ export async function renderOverlay(
   const viewDeps = { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal };
   deps.onProgress?.(0, "profile");
   const prepared = endpoint === "view" ? await prepareView(body as ViewRequest, query.format, viewDeps) : await prepareSky(body as SkyRequest, query.format, viewDeps);
-  const m = prepared.manifest as { hash: string; scale: { meaning: string; factor: number }; output: { space: string }; computeMs: number; warnings: string[] };
+  const m = prepared.manifest;
   if (query.part === "manifest") {
     deps.onProgress?.(1, "done");
     return jsonOutput(prepared.manifest, { "x-antisolar-hash": m.hash });
