@@ -2,6 +2,8 @@
 // mieAmplitudesScalar (lib/mie/amplitudes.ts), two angles per f64x2 vector. Null where WebAssembly SIMD is missing.
 
 import { wasmModules } from "./wasm/modules.generated.js";
+import { decodeWasm } from "./wasm/decode.js";
+import { amplitudeFromLanes } from "./wasm/lane-sums.js";
 import { packCoefficients, PACKED_STRIDE } from "./packed-coefficients.js";
 import type { MieAmplitudes, MieCoefficients } from "./types.js";
 
@@ -10,7 +12,6 @@ const SIMD_PAIRS_PER_GROUP = wasmModules.amplitudes.constants.PAIRS;
 /** f64 values written per angle pair: Σ w(a+b)(π+τ) re, im and Σ w(a−b)(π−τ) re, im, two lanes each. */
 const SIMD_OUT_PER_PAIR = 8;
 
-const decode = (base64: string) => Uint8Array.from(atob(base64), (ch) => ch.charCodeAt(0));
 
 interface Kernel {
   run(coefficients: number, nTerms: number, cosines: number, groups: number, out: number): void;
@@ -19,7 +20,7 @@ interface Kernel {
 
 function instantiate(): Kernel | null {
   try {
-    const instance = new WebAssembly.Instance(new WebAssembly.Module(decode(wasmModules.amplitudes.exact)));
+    const instance = new WebAssembly.Instance(new WebAssembly.Module(decodeWasm(wasmModules.amplitudes.exact)));
     const { amplitudes, memory } = instance.exports as { amplitudes: Kernel["run"]; memory: WebAssembly.Memory };
     return { run: amplitudes, memory };
   } catch {
@@ -54,18 +55,7 @@ export function mieAmplitudesSimd(c: MieCoefficients, cosTheta: Float64Array, re
   // optimised code between calls, never inside one, so short calls pick it up as soon as it is ready.
   const outGroupBytes = 8 * SIMD_OUT_PER_PAIR * SIMD_PAIRS_PER_GROUP;
   for (let g = 0; g < groups; g++) kernel.run(0, c.nTerms, 8 * cosAt + 8 * ANGLES_PER_GROUP * g, 1, 8 * outAt + outGroupBytes * g);
-  const { s1Re, s1Im, s2Re, s2Im } = res;
-  for (let j = 0; j < nAngles; j++) {
-    // Pair p holds plusRe, plusIm, minusRe, minusIm as two lanes each; angle j is lane j & 1 of pair j >> 1.
-    const base = outAt + (j >> 1) * SIMD_OUT_PER_PAIR + (j & 1);
-    const plusRe = m[base];
-    const plusIm = m[base + 2];
-    const minusRe = m[base + 4];
-    const minusIm = m[base + 6];
-    s1Re[j] = 0.5 * (plusRe + minusRe);
-    s1Im[j] = 0.5 * (plusIm + minusIm);
-    s2Re[j] = 0.5 * (plusRe - minusRe);
-    s2Im[j] = 0.5 * (plusIm - minusIm);
-  }
+  // Angle j is lane j & 1 of pair j >> 1.
+  for (let j = 0; j < nAngles; j++) amplitudeFromLanes(m, outAt + (j >> 1) * SIMD_OUT_PER_PAIR + (j & 1), res, j);
   return res;
 }
