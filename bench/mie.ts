@@ -1,7 +1,7 @@
 import { mieCoefficients } from "../lib/mie/coefficients.js";
 import { mieCoefficientsScratch } from "../lib/mie/coefficients-scratch.js";
 import { mieAmplitudes, mieAmplitudesScalar } from "../lib/mie/amplitudes.js";
-import { simdAmplitudesAvailable } from "../lib/mie/simd-amplitudes.js";
+import { simdAmplitudesAvailable, simdArithmetic } from "../lib/mie/simd-amplitudes.js";
 import { mieTermCount } from "../lib/mie/termCount.js";
 import { mieAmplitudesManyDrops } from "../lib/mie/many-drops.js";
 import { allocateAmplitudes } from "../lib/mie/types.js";
@@ -200,4 +200,6 @@ export function benchMie(workloads: MieWorkload[] = mieWorkloads, rounds = 5): {
   return { rows, compiler: compiledRef ? compiledRef.compiler : (reference as { missing: string }).missing };
 }
 
-export const mieKernelName = simdAmplitudesAvailable ? "WebAssembly SIMD" : "scalar TypeScript (no WebAssembly SIMD here)";
+export const mieKernelName = simdAmplitudesAvailable
+  ? `WebAssembly SIMD, ${simdArithmetic === "fused" ? "fused multiply-add (relaxed SIMD)" : "exact arithmetic (no relaxed SIMD here)"}`
+  : "scalar TypeScript (no WebAssembly SIMD here)";

@@ -6,7 +6,7 @@
 import { wasmModules } from "./wasm/modules.generated.js";
 import { packCoefficients, PACKED_STRIDE } from "./packed-coefficients.js";
 import { mieAmplitudes } from "./amplitudes.js";
-import { decodeWasm } from "./wasm/decode.js";
+import { instantiateKernel, preferredArithmetic, type WasmArithmetic } from "./wasm/load.js";
 import { amplitudeFromLanes } from "./wasm/lane-sums.js";
 import type { MieAmplitudes, MieCoefficients } from "./types.js";
 
@@ -15,17 +15,6 @@ interface Kernel {
   memory: WebAssembly.Memory;
 }
 
-function instantiate(): Kernel | null {
-  try {
-    const instance = new WebAssembly.Instance(new WebAssembly.Module(decodeWasm(wasmModules["many-drops"].exact)));
-    const { manyDrops, memory } = instance.exports as { manyDrops: Kernel["run"]; memory: WebAssembly.Memory };
-    return { run: manyDrops, memory };
-  } catch {
-    return null;
-  }
-}
-
-const kernel = instantiate();
 const PAGE_BYTES = 65536;
 const ANGLES_PER_BLOCK = 4;
 const CHUNK = wasmModules["many-drops"].constants.CHUNK;
@@ -36,18 +25,37 @@ const CHUNK = wasmModules["many-drops"].constants.CHUNK;
  */
 export const MANY_DROPS_MAX_TERMS = 2 ** 19;
 
+export type ManyDropsAmplitudes = (count: number, coefficientsOf: (d: number) => MieCoefficients, cosTheta: Float64Array, outs: MieAmplitudes[]) => void;
+
+/** The kernel in the given arithmetic, or null where this runtime cannot run it. */
+export function createManyDrops(arithmetic: WasmArithmetic): ManyDropsAmplitudes | null {
+  const exports = instantiateKernel("many-drops", arithmetic);
+  if (exports === null) return null;
+  const { manyDrops, memory } = exports as { manyDrops: Kernel["run"]; memory: WebAssembly.Memory };
+  const kernel: Kernel = { run: manyDrops, memory };
+  return (count, coefficientsOf, cosTheta, outs) => runManyDrops(kernel, count, coefficientsOf, cosTheta, outs);
+}
+
+// The same arithmetic as mieAmplitudes' kernel (simd-amplitudes.ts), so both give the same sums.
+const preferred = createManyDrops(preferredArithmetic());
+
 /** Whether the many-drops kernel runs here. */
-export const manyDropsAvailable = kernel !== null;
+export const manyDropsAvailable = preferred !== null;
 
 /**
  * S1, S2 (Bohren & Huffman 1983 convention) of `count` drops at each μ = cos Θ into outs[d]. coefficientsOf(d)
  * gives drop d's a_n, b_n; its result is packed at once, so it may be a scratch buffer reused from call to call.
+ * The same values as mieAmplitudes drop by drop, which it falls back to where WebAssembly SIMD is missing.
  */
 export function mieAmplitudesManyDrops(count: number, coefficientsOf: (d: number) => MieCoefficients, cosTheta: Float64Array, outs: MieAmplitudes[]): void {
-  if (kernel === null) {
+  if (preferred === null) {
     for (let d = 0; d < count; d++) mieAmplitudes(coefficientsOf(d), cosTheta, outs[d]);
     return;
   }
+  preferred(count, coefficientsOf, cosTheta, outs);
+}
+
+function runManyDrops(kernel: Kernel, count: number, coefficientsOf: (d: number) => MieCoefficients, cosTheta: Float64Array, outs: MieAmplitudes[]): void {
   let batch: { drop: number; at: number; nTerms: number }[] = [];
   let words = 0;
   let m = new Float64Array(kernel.memory.buffer);

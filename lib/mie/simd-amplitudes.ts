@@ -1,8 +1,9 @@
 // S1, S2 by the WebAssembly SIMD angle loop (lib/mie/wasm/amplitudes.wat): the formulas and operation order of
-// mieAmplitudesScalar (lib/mie/amplitudes.ts), two angles per f64x2 vector. Null where WebAssembly SIMD is missing.
+// mieAmplitudesScalar (lib/mie/amplitudes.ts), two angles per f64x2 vector; in exact arithmetic the same sums to the
+// bit, fused (relaxed SIMD, lib/mie/wasm/load.ts) within rounding of them. Null where WebAssembly SIMD is missing.
 
 import { wasmModules } from "./wasm/modules.generated.js";
-import { decodeWasm } from "./wasm/decode.js";
+import { instantiateKernel, preferredArithmetic, type WasmArithmetic } from "./wasm/load.js";
 import { amplitudeFromLanes } from "./wasm/lane-sums.js";
 import { packCoefficients, PACKED_STRIDE } from "./packed-coefficients.js";
 import type { MieAmplitudes, MieCoefficients } from "./types.js";
@@ -11,33 +12,39 @@ import type { MieAmplitudes, MieCoefficients } from "./types.js";
 const SIMD_PAIRS_PER_GROUP = wasmModules.amplitudes.constants.PAIRS;
 /** f64 values written per angle pair: Σ w(a+b)(π+τ) re, im and Σ w(a−b)(π−τ) re, im, two lanes each. */
 const SIMD_OUT_PER_PAIR = 8;
-
+const PAGE_BYTES = 65536;
+const ANGLES_PER_GROUP = 2 * SIMD_PAIRS_PER_GROUP;
 
 interface Kernel {
   run(coefficients: number, nTerms: number, cosines: number, groups: number, out: number): void;
   memory: WebAssembly.Memory;
 }
 
-function instantiate(): Kernel | null {
-  try {
-    const instance = new WebAssembly.Instance(new WebAssembly.Module(decodeWasm(wasmModules.amplitudes.exact)));
-    const { amplitudes, memory } = instance.exports as { amplitudes: Kernel["run"]; memory: WebAssembly.Memory };
-    return { run: amplitudes, memory };
-  } catch {
-    return null;
-  }
+export type SimdAmplitudes = (c: MieCoefficients, cosTheta: Float64Array, res: MieAmplitudes) => MieAmplitudes | null;
+
+/** The kernel in the given arithmetic, or null where this runtime cannot run it. */
+export function createSimdAmplitudes(arithmetic: WasmArithmetic): SimdAmplitudes | null {
+  const exports = instantiateKernel("amplitudes", arithmetic);
+  if (exports === null) return null;
+  const { amplitudes, memory } = exports as { amplitudes: Kernel["run"]; memory: WebAssembly.Memory };
+  const kernel: Kernel = { run: amplitudes, memory };
+  return (c, cosTheta, res) => run(kernel, c, cosTheta, res);
 }
 
-const PAGE_BYTES = 65536;
-const ANGLES_PER_GROUP = 2 * SIMD_PAIRS_PER_GROUP;
-const kernel = instantiate();
+/** The arithmetic mieAmplitudesSimd uses here: fused where relaxed SIMD is offered, else exact. */
+export const simdArithmetic: WasmArithmetic = preferredArithmetic();
+const preferred = createSimdAmplitudes(simdArithmetic);
 
 /** Whether the WebAssembly kernel runs here (Node ≥ 16.4 has fixed-width SIMD on by default). */
-export const simdAmplitudesAvailable = kernel !== null;
+export const simdAmplitudesAvailable = preferred !== null;
 
 /** As mieAmplitudesScalar, or null when WebAssembly SIMD is unavailable. */
 export function mieAmplitudesSimd(c: MieCoefficients, cosTheta: Float64Array, res: MieAmplitudes): MieAmplitudes | null {
-  if (kernel === null || c.nTerms < 1) return null;
+  return preferred === null ? null : preferred(c, cosTheta, res);
+}
+
+function run(kernel: Kernel, c: MieCoefficients, cosTheta: Float64Array, res: MieAmplitudes): MieAmplitudes | null {
+  if (c.nTerms < 1) return null;
   const nAngles = cosTheta.length;
   const groups = Math.ceil(nAngles / ANGLES_PER_GROUP);
   const padded = groups * ANGLES_PER_GROUP;
