@@ -2,6 +2,7 @@
 // (content-addressed packs), then computation in worker threads. Concurrent requests for the same kernel row
 // share one computation. A pack holds the rows of many drop radii for one wavelength, engine, step and block.
 
+import { simdArithmetic } from "../../lib/mie/simd-amplitudes.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { setMaxListeners } from "node:events";
 import { ByteLru } from "./byte-lru.js";
@@ -95,7 +96,8 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
 
 /** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
 function packKey(m: DropMedium, variant: string, h: number, block: number): string {
-  return `v${KERNEL_VERSION}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
+  // Rows of the fused-arithmetic kernels (relaxed SIMD) differ from exact ones in the last bits: kept apart.
+  return `v${KERNEL_VERSION}${simdArithmetic === "fused" ? "f" : ""}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
 }
 
 export class KernelService {
