@@ -83,6 +83,8 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
 
   app.setErrorHandler((error: FastifyError | ClientError, request, reply) => {
     if (error instanceof ClientError) {
+      // A dependency away (503): the body says how long to wait, and so does the header.
+      if (typeof error.details.retryAfterS === "number") reply.header("retry-after", String(error.details.retryAfterS));
       reply.status(error.status).send(error.toBody(request.id));
       return;
     }

@@ -8,6 +8,7 @@ import type { RenderOutput } from "../render/render-output.js";
 import type { JobConfig } from "./job-config.js";
 import { redisKeys, transitionScript } from "./redis-keys.js";
 import { JobError } from "./job-errors.js";
+import { ClientError } from "../requests/client-error.js";
 import { decodeOutput, type JobBackend, type JobRecord, type JobSpec, type JobState } from "./job-types.js";
 
 export interface QueuedJob {
@@ -32,13 +33,32 @@ export function parseRecord(fields: Record<string, string>): JobRecord | undefin
   };
 }
 
-/** A Redis outage is a 503 with Retry-After (readiness takes the process out meanwhile), not a 500. */
-async function guarded<T>(work: Promise<T>): Promise<T> {
+/** Longest a job request waits for Redis before it is answered 503 (our choice: an answer within a second). */
+export const JOB_STORE_DEADLINE_MS = 800;
+/** What the 503 tells clients to wait: about the time Redis needs to restart and load its append-only file. */
+const RETRY_AFTER_S = 5;
+
+function storeAway(): JobError {
+  return new JobError("not-ready", "the job store (Redis) does not answer; retry shortly", { retryAfterS: RETRY_AFTER_S });
+}
+
+/**
+ * A Redis outage is a 503 with Retry-After within JOB_STORE_DEADLINE_MS (readiness takes the process out
+ * meanwhile), not a 500 and not a hang: at once while the connection is down, else when Redis is too slow.
+ */
+async function guarded<T>(redis: Redis, work: () => Promise<T>): Promise<T> {
+  if (redis.status !== "ready") throw storeAway();
+  let timer: NodeJS.Timeout | undefined;
+  const deadline = new Promise<never>((_, reject) => {
+    timer = setTimeout(() => reject(storeAway()), JOB_STORE_DEADLINE_MS);
+  });
   try {
-    return await work;
+    return await Promise.race([work(), deadline]);
   } catch (error) {
-    if (error instanceof JobError) throw error;
-    throw new JobError("not-ready", "the job store (Redis) does not answer; retry shortly", { retryAfterS: 5 });
+    if (error instanceof ClientError) throw error;
+    throw storeAway();
+  } finally {
+    clearTimeout(timer);
   }
 }
 
@@ -67,7 +87,7 @@ export class RedisJobBackend implements JobBackend {
   }
 
   submit(spec: JobSpec): Promise<JobRecord> {
-    return guarded(this.submitNow(spec));
+    return guarded(this.redis, () => this.submitNow(spec));
   }
 
   private async submitNow(spec: JobSpec): Promise<JobRecord> {
@@ -100,7 +120,7 @@ export class RedisJobBackend implements JobBackend {
   }
 
   get(id: string): Promise<JobRecord | undefined> {
-    return guarded(this.getNow(id));
+    return guarded(this.redis, () => this.getNow(id));
   }
 
   private async getNow(id: string): Promise<JobRecord | undefined> {
@@ -108,7 +128,7 @@ export class RedisJobBackend implements JobBackend {
   }
 
   result(hash: string): Promise<RenderOutput | undefined> {
-    return guarded(this.resultNow(hash));
+    return guarded(this.redis, () => this.resultNow(hash));
   }
 
   private async resultNow(hash: string): Promise<RenderOutput | undefined> {
@@ -117,7 +137,7 @@ export class RedisJobBackend implements JobBackend {
   }
 
   cancel(id: string): Promise<JobRecord | undefined> {
-    return guarded(this.cancelNow(id));
+    return guarded(this.redis, () => this.cancelNow(id));
   }
 
   private async cancelNow(id: string): Promise<JobRecord | undefined> {
