@@ -33,8 +33,8 @@ export interface RunningWorker {
 
 /** Why a render was stopped when its worker gives the job back. */
 const GIVE_BACK = "the worker is shutting down";
-/** A Redis command of a stopping worker waits at most this long (Redis may be away). */
-const STOPPING_COMMAND_MS = 1000;
+/** A Redis command of a stopping worker waits at most this long (Redis may be away): the two of a give-back fit in 1 s. */
+const STOPPING_COMMAND_MS = 500;
 /** While Redis is away, one "queue error" line per this time, not one per reconnection attempt. */
 const ERROR_LOG_EVERY_MS = 30_000;
 
@@ -49,6 +49,9 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
   const redis = new Redis(config.redisUrl, { maxRetriesPerRequest: null, retryStrategy: reconnectDelayMs });
   const cancels = new Redis(config.redisUrl, { maxRetriesPerRequest: null, retryStrategy: reconnectDelayMs });
   const inHand = new Map<string, AbortController>();
+  let onDrained: (() => void)[] = [];
+  /** Resolves once no job is in hand. */
+  const drained = () => (inHand.size === 0 ? Promise.resolve() : new Promise<void>((resolve) => onDrained.push(resolve)));
   const ttl = String(config.jobResultTtlS);
   redis.on("error", () => undefined);
   cancels.on("error", () => undefined);
@@ -59,7 +62,8 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
   /** Stopped for shutdown: back to the queue (BullMQ and the record), each step bounded; a lapsed lease does the rest. */
   const giveBack = async (job: Job<QueuedJob>, token: string | undefined, started: number): Promise<never> => {
     const id = job.data.id;
-    const moved = await within(job.moveToWait(token).then(() => true), STOPPING_COMMAND_MS);
+    // Disconnected: nothing to try; the job's lease lapses and the stalled-job check of a worker puts it back.
+    const moved = redis.status === "ready" && (await within(job.moveToWait(token).then(() => true), STOPPING_COMMAND_MS));
     if (moved) await within(transition(id, "queued", { stage: "queued again: its worker stopped" }), STOPPING_COMMAND_MS);
     log({ msg: moved ? "job given back" : "job left to its lease", id, ms: Math.round(performance.now() - started) });
     // BullMQ leaves a job alone that the processor has moved itself.
@@ -108,6 +112,10 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
       return { state: "failed" };
     } finally {
       inHand.delete(id);
+      if (inHand.size === 0) {
+        for (const resolve of onDrained) resolve();
+        onDrained = [];
+      }
     }
   };
 
@@ -143,7 +151,15 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
           }, Math.max(0, giveBackAt - Date.now()))
         : undefined;
       try {
-        await worker.close();
+        const closing = worker.close().then(() => true);
+        if (!Number.isFinite(giveBackAt)) await closing;
+        else {
+          // Jobs in hand end by the give-back (and its two bounded commands); BullMQ's close then waits for Redis to
+          // answer, so it gets a moment only while Redis is connected, and the sockets are dropped after.
+          await within(drained(), giveBackAt + 2 * STOPPING_COMMAND_MS - Date.now());
+          const closed = redis.status === "ready" && (await within(closing, 2 * STOPPING_COMMAND_MS));
+          if (!closed) await within(worker.disconnect(), STOPPING_COMMAND_MS);
+        }
       } finally {
         clearTimeout(timer);
       }

@@ -26,6 +26,8 @@ exitOnSignals({
   log,
   stop: async ({ abandonAt, exitAt }) => {
     await worker.close(abandonAt);
-    await within(runtime.close(), exitAt - Date.now());
+    log({ msg: "queue closed; stopping kernel threads" });
+    // Ahead of the hard exit: an orderly end exits with 0.
+    await within(runtime.close(), exitAt - Date.now() - 250);
   },
 });

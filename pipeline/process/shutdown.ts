@@ -10,7 +10,7 @@ export interface ShutdownDeadlines {
 
 /**
  * The time kept at the end of the grace for giving work back and closing connections: a quarter of the grace, at
- * most 3 s (our choice: a give-back is two Redis commands, each bounded by 1 s).
+ * most 3 s (our choice: a give-back is two Redis commands, each bounded by 0.5 s).
  */
 export function deadlines(graceMs: number, startedAt: number = Date.now()): ShutdownDeadlines {
   return { abandonAt: startedAt + graceMs - Math.min(3000, graceMs / 4), exitAt: startedAt + graceMs };

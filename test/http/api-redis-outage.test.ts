@@ -9,6 +9,11 @@ import { freePort } from "../helpers/free-port.js";
 import { ownRedis, redisServerPresent, type OwnRedis } from "../helpers/redis-server.js";
 import { API_MAIN, startService, statusOf, waitFor, type ServiceProcess } from "../helpers/service-process.js";
 import { skipWithout } from "../helpers/tools.js";
+import { LONG_LUT } from "../helpers/deployment.js";
+
+const GRACE_MS = 5000;
+/** Slack for a process to be scheduled and torn down on a loaded machine, beyond the grace itself. */
+const EXIT_SLACK_MS = 2000;
 
 const profile = (temperatureC: number) => ({
   drops: { kind: "monodisperse", radiusUm: 30 },
@@ -40,7 +45,7 @@ describe.skipIf(skipWithout(redisServerPresent))("the API process while Redis is
     folder = await mkdtemp(join(tmpdir(), "antisolar-api-outage-"));
     const port = await freePort();
     base = `http://127.0.0.1:${port}`;
-    api = startService("api", API_MAIN, { REDIS_URL: server.url, CACHE_DIR: folder, PORT: String(port) });
+    api = startService("api", API_MAIN, { REDIS_URL: server.url, CACHE_DIR: folder, PORT: String(port), SHUTDOWN_GRACE_MS: String(GRACE_MS) });
     await waitFor("the API to be ready", async () => ((await statusOf(`${base}/readyz`)) === 200 ? true : undefined), [api], 30_000);
   }, 40_000);
 
@@ -76,5 +81,25 @@ describe.skipIf(skipWithout(redisServerPresent))("the API process while Redis is
     expect(res.status).toBe(202);
     // Rendered again (the answer cache of the process may serve it): byte for byte what was rendered during the outage.
     expect((await render(profile(17))).bytes.equals(duringOutage)).toBe(true);
+  }, 30_000);
+
+  it("exits within its grace on SIGTERM while Redis is away, with a long request in flight", async () => {
+    await server.kill();
+    await waitFor("readiness to fail", async () => ((await statusOf(`${base}/readyz`)) === 503 ? true : undefined), [api]);
+    // Several seconds of Lorenz–Mie: still running when the grace's abandon time comes.
+    const inFlight = fetch(`${base}/v1/lut?format=json`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(LONG_LUT) }).then(
+      (res) => res.status,
+      () => "aborted",
+    );
+    await new Promise((r) => setTimeout(r, 500));
+    const started = performance.now();
+    api.process.kill("SIGTERM");
+    const code = await api.exited;
+    const ms = performance.now() - started;
+    expect(code, api.lines.join("\n")).toBe(0);
+    expect(ms).toBeLessThan(GRACE_MS + EXIT_SLACK_MS);
+    // Finished or cut off, never left hanging.
+    expect([200, "aborted"]).toContain(await inFlight);
+    expect(await statusOf(`${base}/healthz`)).toBe(0);
   }, 30_000);
 });
