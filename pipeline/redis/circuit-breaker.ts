@@ -1,5 +1,5 @@
 // Stops calling a dependency for a while after it failed several times in a row, so that every caller gets the
-// fallback at once instead of waiting for a timeout each (the circuit-breaker pattern: common practice).
+// fallback at once instead of waiting for a timeout each (the Circuit Breaker of Nygard 2007, Release It!, ch. 5).
 
 export interface BreakerSettings {
   /** Consecutive failures that open the circuit. */
