@@ -161,7 +161,7 @@ export class EmbeddedJobBackend implements JobBackend {
           kernels: this.options.kernels,
           maxTermAngles: this.options.maxTermAngles,
           signal: controller.signal,
-          onProgress: (fraction, stage) => {
+          onProgress: ({ fraction, stage }) => {
             if (!stillRunning() || !risingProgress(record.progress, fraction)) return;
             record.progress = { fraction, stage };
             this.changed(id);

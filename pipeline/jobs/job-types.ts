@@ -98,9 +98,9 @@ export function renderJob(registry: RendererRegistry, spec: JobSpec, deps: Rende
   return renderer.render(body, query, {
     ...deps,
     // Stages between kernel computations are checkpoints too: a cancelled job stops at the next one.
-    onProgress: (fraction, stage) => {
+    onProgress: (update) => {
       deps.signal?.throwIfAborted();
-      deps.onProgress?.(fraction, stage);
+      deps.onProgress?.(update);
     },
   });
 }

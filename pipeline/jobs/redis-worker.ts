@@ -58,7 +58,7 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
           kernels,
           maxTermAngles,
           signal: abort,
-          onProgress: (fraction, stage) => {
+          onProgress: ({ fraction, stage }) => {
             redis.eval(progressScript, 1, keys.record(id), String(fraction), stage, keys.events(id)).catch(() => undefined);
           },
         });

@@ -32,6 +32,7 @@ export function createKernelRuntime(
         ? new DiskStore(join(folder, "kernels"))
         : undefined,
     compute: pool.compute,
+    parallelism: pool.threads,
   });
   return {
     kernels,
