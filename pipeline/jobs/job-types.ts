@@ -20,11 +20,21 @@ export interface JobSpec {
   hash: string;
 }
 
+export interface JobProgress {
+  fraction: number;
+  stage: string;
+  secondsLeft?: number | null;
+}
+
 export interface JobRecord {
   id: string;
   endpoint: string;
   state: JobState;
-  progress: { fraction: number; stage: string };
+  /**
+   * fraction: of the work, measured (pipeline/progress/), never falling; stage: what runs now; secondsLeft: the
+   * estimate from the rate so far, null while there is none.
+   */
+  progress: JobProgress;
   /** Content hash of endpoint, normalised body and query: identical requests share a result. */
   hash: string;
   /** True when the result was already there and nothing was rendered. */
@@ -81,6 +91,11 @@ export function workerName(): string {
 /** Progress for clients only rises: a stage reported out of order (or a retried attempt) never moves it back. */
 export function risingProgress(current: { fraction: number }, fraction: number): boolean {
   return Number.isFinite(fraction) && fraction > current.fraction;
+}
+
+/** Seconds left to a tenth of a second (finer is noise), or null. */
+export function roundedSeconds(seconds: number | null): number | null {
+  return seconds === null || !Number.isFinite(seconds) ? null : Math.round(seconds * 10) / 10;
 }
 
 export function isAbort(error: unknown, signal: AbortSignal): boolean {

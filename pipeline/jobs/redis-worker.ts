@@ -7,7 +7,8 @@ import type { KernelService } from "../kernels/kernel-service.js";
 import type { JobConfig } from "./job-config.js";
 import type { RendererRegistry } from "./renderers.js";
 import { progressScript, redisKeys, transitionScript } from "./redis-keys.js";
-import { encodeOutput, failureMessage, isAbort, renderJob, workerName, type JobSpec } from "./job-types.js";
+import { encodeOutput, failureMessage, isAbort, renderJob, roundedSeconds, workerName, type JobSpec } from "./job-types.js";
+import { throttledProgress } from "../progress/throttled-progress.js";
 import type { QueuedJob } from "./redis-backend.js";
 
 export interface WorkerOptions {
@@ -50,6 +51,17 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
     log({ msg: "job started", id, endpoint: spec.endpoint, attempt: job.attemptsStarted });
     const started = performance.now();
     const abort = signal ?? new AbortController().signal;
+    // Rate-limited (throttled-progress.ts): at most ten writes a second to Redis per job.
+    let firstUpdate = true;
+    const progress = throttledProgress(({ fraction, stage, secondsLeft }) => {
+      if (firstUpdate) {
+        // Where this attempt starts: above 0 when rows of an earlier attempt were kept (a retry after a worker died).
+        log({ msg: "job progress", id, attempt: job.attemptsStarted, fraction });
+        firstUpdate = false;
+      }
+      const left = roundedSeconds(secondsLeft);
+      redis.eval(progressScript, 1, keys.record(id), String(fraction), stage, keys.events(id), left === null ? "" : String(left)).catch(() => undefined);
+    });
     try {
       if ((await redis.exists(keys.result(spec.hash))) === 1) {
         await redis.hset(keys.record(id), "reused", "1");
@@ -58,13 +70,12 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
           kernels,
           maxTermAngles,
           signal: abort,
-          onProgress: ({ fraction, stage }) => {
-            redis.eval(progressScript, 1, keys.record(id), String(fraction), stage, keys.events(id)).catch(() => undefined);
-          },
+          onProgress: progress.listener,
+          saveEachTask: true,
         });
         await redis.set(keys.result(spec.hash), encodeOutput(output), "EX", config.jobResultTtlS);
       }
-      const final = await transition(id, "done", { finishedAt: new Date().toISOString(), fraction: "1", stage: "done" });
+      const final = await transition(id, "done", { finishedAt: new Date().toISOString(), fraction: "1", stage: "done", secondsLeft: "0" });
       log({ msg: "job done", id, state: final, ms: Math.round(performance.now() - started) });
       return { state: final };
     } catch (error) {
@@ -75,6 +86,8 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
       await transition(id, "failed", { finishedAt: new Date().toISOString(), error: failureMessage(error) });
       log({ msg: "job failed", id, error: String(error) });
       return { state: "failed" };
+    } finally {
+      progress.stop();
     }
   };
 
