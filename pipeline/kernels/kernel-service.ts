@@ -195,18 +195,15 @@ export class KernelService {
 
     let missing = lookMemory();
     stats.memoryHits = media.length * radiiUm.length * blocks.length - missing.length;
-    let missingNs = watch.onRows ? costOf(missing) : 0;
-    done(totalNs - missingNs, true);
     if (missing.length && this.options.disk) {
       const packs = new Set(missing.map(([l, i, bi]) => keys[l][bi].get(variants[i])!));
       await Promise.all([...packs].map((p) => this.loadPack(p)));
       const before = missing.length;
       missing = lookMemory();
       stats.diskHits = before - missing.length;
-      const stillNs = watch.onRows ? costOf(missing) : 0;
-      done(missingNs - stillNs, true);
-      missingNs = stillNs;
     }
+    // Everything found in memory, on disk or in Redis counts at once, in one report.
+    if (watch.onRows) done(totalNs - costOf(missing), true);
 
     // Rows another request is computing already are awaited, not computed twice. In-flight rows point at the
     // task that computes them (one promise per task, not per row: a cold profile has ~50,000 rows).
