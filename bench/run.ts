@@ -150,10 +150,12 @@ const lines = [
   ),
   "",
 ];
-// bench/load.ts keeps its own section between these markers: carry it over unchanged.
+// bench/load.ts and bench/progress.ts keep their own sections between markers: carry them over unchanged.
 const target = repoPath("BENCHMARKS.md");
 const previous = existsSync(target) ? readFileSync(target, "utf8") : "";
-const kept = /<!-- load:start -->[\s\S]*<!-- load:end -->/.exec(previous);
-if (kept) lines.push(kept[0], "");
+for (const name of ["load", "progress"]) {
+  const kept = new RegExp(`<!-- ${name}:start -->[\\s\\S]*<!-- ${name}:end -->`).exec(previous);
+  if (kept) lines.push(kept[0], "");
+}
 writeFileSync(target, lines.join("\n"));
 console.log("wrote BENCHMARKS.md");

@@ -9,7 +9,9 @@ import { z } from "zod";
 import { lutRequestSchema } from "../schemas/lut.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { computeLut } from "../pipeline/compute/lut.js";
-import { computeProfile } from "../pipeline/compute/profile.js";
+import { computeProfile, PROFILE_STAGES } from "../pipeline/compute/profile.js";
+import { ProgressMeter } from "../pipeline/progress/progress-meter.js";
+import { progressBar } from "./progress-bar.js";
 import { profileJson } from "../pipeline/render/profile-render.js";
 import { encodeExr } from "../pipeline/encoders/exr.js";
 import { encodeRadianceHdr } from "../pipeline/encoders/radiance-hdr.js";
@@ -44,18 +46,6 @@ async function readJson(path: string): Promise<unknown> {
     process.stdin.on("end", () => resolve(data));
   }) : await readFile(path, "utf8");
   return JSON.parse(text);
-}
-
-/** A one-line progress bar on stderr (only when it is a terminal, so logs stay clean). */
-function progressBar(label: string) {
-  const tty = process.stderr.isTTY;
-  return (fraction: number, stage: string) => {
-    if (!tty) return;
-    const width = 30;
-    const filled = Math.round(fraction * width);
-    process.stderr.write(`\r${label} [${"#".repeat(filled)}${".".repeat(width - filled)}] ${(fraction * 100).toFixed(0).padStart(3)}% ${stage.padEnd(20)}`);
-    if (fraction >= 1) process.stderr.write("\n");
-  };
 }
 
 /** A one-shot command's threads start on its own work: warming them up first would only delay it. */
@@ -108,9 +98,9 @@ async function render(args: string[]): Promise<void> {
   const runtime = createKernelRuntime(oneShotConfig());
   try {
     const bar = progressBar("rendering");
-    bar(0, "kernels");
-    const result = await computeProfile(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity } });
-    bar(1, "done");
+    const progress = new ProgressMeter(PROFILE_STAGES, bar);
+    const result = await computeProfile(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity }, progress });
+    progress.done();
     const ext = extname(output).toLowerCase();
     if (ext === ".png") {
       await writeFile(output, (await encodePngStrip({ values: result.colour.rgb, height: 32, bitDepth: 16, space: request.output.space })).png);

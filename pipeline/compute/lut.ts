@@ -7,6 +7,7 @@ import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIG
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
 import { computeProfile, requestHash, type ProfileDeps, type ProfileResult } from "./profile.js";
 import type { LutManifest } from "../../schemas/responses/lut-response.js";
+import { ProgressMeter, type ProgressListener } from "../progress/progress-meter.js";
 
 /** Density of liquid water for the number density of a row at given liquid water content (common practice). */
 const WATER_DENSITY_G_PER_M3 = 1e6;
@@ -53,10 +54,7 @@ function profileStepDeg(request: LutRequest): number {
   return Math.max(0.002, Math.min(0.1, finest / 2));
 }
 
-/** Reports progress as a fraction in [0, 1] with a stage name (for progress bars and job status). */
-export type ProgressReporter = (fraction: number, stage: string) => void;
-
-export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressReporter): Promise<Lut> {
+export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener): Promise<Lut> {
   const started = performance.now();
   const texelPsi = texelAngles(request.angles);
   const step = profileStepDeg(request);
@@ -69,6 +67,10 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
   const warnings = new Set<string>();
   let first: ProfileResult | undefined;
   const transmittance: number[] = [];
+  // One stage per row, of equal cost: rows are counted as they are done.
+  const stageNames = rows.map((_, j) => `row ${j + 1} of ${rows.length}`);
+  const progress = new ProgressMeter(stageNames, onProgress);
+  for (const name of stageNames) progress.plan(name, 1);
 
   for (let j = 0; j < rows.length; j++) {
     const body = profileRequestSchema.parse({
@@ -77,8 +79,8 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
       angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
       output: { space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
     });
-    onProgress?.(j / rows.length, `row ${j + 1} of ${rows.length}`);
     const profile = await computeProfile(body, deps);
+    progress.complete(stageNames[j]);
     first ??= profile;
     for (const w of profile.meta.warnings) warnings.add(w);
     const t = curtainTransmittance(profile.quadrature, body.water, body.pathLengthM).transmittance;
@@ -94,7 +96,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     }
   }
 
-  onProgress?.(1, "done");
+  progress.done();
   const mapping = request.angles.mapping;
   const manifest: LutManifest = {
     width,

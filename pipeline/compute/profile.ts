@@ -23,6 +23,11 @@ import type { CellAverage } from "../../lib/bow/cell-average.js";
 import type { WavelengthGrid } from "../../lib/spectra/grid.js";
 import { ClientError } from "../requests/client-error.js";
 import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
+import type { ProgressMeter } from "../progress/progress-meter.js";
+import { COST_NS } from "../progress/work-costs.js";
+
+/** The stages of a profile's progress, in order (a render adds its encoding after them: PROFILE_RENDER_STAGES). */
+export const PROFILE_STAGES = ["kernels", "spectral", "colour"] as const;
 
 /** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
 const FLATTENED_FROM_RADIUS_UM = 1000;
@@ -96,6 +101,10 @@ export interface ProfileDeps {
   kernels: KernelService;
   limits: ProfileLimits;
   signal?: AbortSignal;
+  /** Told of the work as it is done; it must have the PROFILE_STAGES. */
+  progress?: ProgressMeter;
+  /** Keep each kernel task's rows in the second tier at once (background jobs: a retry resumes from them). */
+  saveEachTask?: boolean;
 }
 
 /** Numerical resolution beyond the request, for convergence studies; the defaults are what the service uses. */
@@ -190,8 +199,27 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const sun = sunlightFor(request, grid);
 
   const engines = Array.from(quadrature.radiiUm, engine);
+  const progress = deps.progress;
+  // The sum over drops and the sun's disc, per wavelength (lattice-profile.ts), and the colour of every output angle.
+  const spanSamples = span.last - span.first + 1;
+  const discSamples = Math.ceil(request.sun.discDeg / h) + 1;
+  const spectralNsPerWavelength = spanSamples * (quadrature.weights.filter((w) => w !== 0).length * COST_NS.sumSample + discSamples * COST_NS.discSample);
+  progress?.plan("spectral", grid.count * spectralNsPerWavelength);
+  progress?.plan("colour", grid.count * count * COST_NS.colourSample);
   const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, averages, blocks, within: { first: span.first, last: span.last } }, deps.signal);
+  const rows = await deps.kernels.rows(
+    { h, media, radiiUm: quadrature.radiiUm, engines, averages, blocks, within: { first: span.first, last: span.last } },
+    deps.signal,
+    {
+      saveEachTask: deps.saveEachTask,
+      onRows: progress
+        ? (doneNs, totalNs, found) => {
+            progress.plan("kernels", totalNs);
+            progress.advance("kernels", doneNs, { found });
+          }
+        : undefined,
+    },
+  );
   const kernelMs = performance.now() - kernelStarted;
   const steps = latticeProfileSteps({
     angles,
@@ -204,7 +232,9 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     pathLengthM: request.pathLengthM,
   });
   let step = steps.next();
+  let wavelengthsDone = 0;
   while (!step.done) {
+    progress?.advance("spectral", ++wavelengthsDone * spectralNsPerWavelength);
     await new Promise<void>((resolve) => setImmediate(resolve));
     step = steps.next();
   }
@@ -223,6 +253,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     sunWhite,
   });
   const bows = findBows(spectral.anglesDeg, colour.luminance);
+  progress?.complete("colour");
 
   const engineRanges = summariseEngines(quadrature.radiiUm, engine);
   if (request.method === "airy" && quadrature.radiiUm[0] < AUTO_AIRY_FROM_RADIUS_UM) {

@@ -6,6 +6,7 @@ import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile
 import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../../schemas/view.js";
 import { computeProfile, type ProfileLimits, type ProfileResult } from "./profile.js";
 import type { KernelService } from "../kernels/kernel-service.js";
+import type { ProgressMeter } from "../progress/progress-meter.js";
 import { parseOrThrow } from "../requests/parse-request.js";
 import { ClientError } from "../requests/client-error.js";
 import { luminanceReciprocal, spectraToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
@@ -41,6 +42,9 @@ export interface ViewDeps {
   kernels: KernelService;
   limits: ProfileLimits;
   signal?: AbortSignal;
+  /** As for profiles (ProfileDeps): told of the profile's work; must have the PROFILE_STAGES. */
+  progress?: ProgressMeter;
+  saveEachTask?: boolean;
 }
 
 type Output = ViewRequest["output"];

@@ -2,12 +2,14 @@ import sharp from "sharp";
 import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
 import { sizeMapRowBody, type SizeMapRequest } from "../../schemas/figures.js";
 import { computeProfile, type ProfileResult } from "../compute/profile.js";
+import { profileProgress } from "./profile-render.js";
 import { contentHash } from "../requests/content-hash.js";
 import { chromaticityFigureSources, chromaticitySvg } from "../../lib/figures/chromaticity-figure.js";
 import { SIZE_MAP_SOURCES, sizeMapRaster, sizeMapSvg, logSpacedRadii, type SizeMapData } from "../../lib/figures/size-map-figure.js";
 import { scenarioSentence } from "../../lib/figures/figure-input.js";
 import { ClientError } from "../requests/client-error.js";
 import { headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
+import { ProgressMeter } from "../progress/progress-meter.js";
 
 export const SVG_CONTENT_TYPE = "image/svg+xml; charset=utf-8";
 
@@ -21,10 +23,11 @@ export function figureHeaders(hash: string, sources: readonly string[]): Record<
 }
 
 export async function renderChromaticityFigure(body: ProfileRequest, deps: RenderDeps): Promise<RenderOutput> {
-  deps.onProgress?.(0, "kernels");
-  const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal });
-  deps.onProgress?.(1, "done");
+  // Drawing the figure costs about what the JSON answer does (one point per angle).
+  const progress = profileProgress(body, "json", deps);
+  const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask });
   const sources = [...chromaticityFigureSources(body.observer), ...sourcesOf(result)];
+  progress.done();
   return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(chromaticitySvg(result), "utf8"), headers: figureHeaders(result.meta.hash, sources) };
 }
 
@@ -48,13 +51,16 @@ async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ ra
   const abort = new AbortController();
   const stop = () => abort.abort();
   deps.signal?.addEventListener("abort", stop);
+  // One stage per row, of equal cost (the rows differ only in drop size); they end in any order, so they count as rows done.
+  const rowsDone = new ProgressMeter(Array.from(radiiUm, (_, k) => `row ${k + 1}`), deps.onProgress);
+  radiiUm.forEach((_, k) => rowsDone.plan(`row ${k + 1}`, 1));
   let done = 0;
   try {
     const results = await Promise.all(
       Array.from(radiiUm, async (radiusUm) => {
         try {
           const result = await computeProfile(profileRequestSchema.parse(sizeMapRowBody(body, radiusUm)), { kernels: deps.kernels, limits, signal: abort.signal });
-          deps.onProgress?.(++done / radiiUm.length, "rows");
+          rowsDone.complete(`row ${++done}`);
           return result;
         } catch (err) {
           abort.abort();
