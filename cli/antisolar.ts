@@ -11,6 +11,7 @@ import { profileRequestSchema } from "../schemas/profile.js";
 import { computeLut } from "../pipeline/compute/lut.js";
 import { computeProfile } from "../pipeline/compute/profile.js";
 import { profileJson } from "../pipeline/render/profile-render.js";
+import { annotate, resolveLutRequest, resolveProfileRequest } from "../pipeline/sky/resolve-source.js";
 import { encodeExr } from "../pipeline/encoders/exr.js";
 import { encodeRadianceHdr } from "../pipeline/encoders/radiance-hdr.js";
 import { encodePngImage, encodePngStrip } from "../pipeline/encoders/png-strip.js";
@@ -67,10 +68,12 @@ async function bake(args: string[]): Promise<void> {
   const input = args[0];
   const output = argument(args, "-o");
   if (!input || !output) throw new Error(`bake needs a request file and -o <file>\n\n${usage}`);
-  const request = parseOrThrow(lutRequestSchema, await readJson(input), "body");
+  const resolved = resolveLutRequest(parseOrThrow(lutRequestSchema, await readJson(input), "body"));
+  const request = resolved.body;
   const runtime = createKernelRuntime(oneShotConfig());
   try {
     const lut = await computeLut(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity } }, progressBar("baking"));
+    annotate(lut.manifest, resolved);
     const ext = extname(output).toLowerCase();
     let file: Buffer;
     if (ext === ".exr") {
@@ -104,12 +107,14 @@ async function render(args: string[]): Promise<void> {
   const input = args[0];
   const output = argument(args, "-o");
   if (!input || !output) throw new Error(`render needs a request file and -o <file>\n\n${usage}`);
-  const request = parseOrThrow(profileRequestSchema, await readJson(input), "body");
+  const resolved = resolveProfileRequest(parseOrThrow(profileRequestSchema, await readJson(input), "body"));
+  const request = resolved.body;
   const runtime = createKernelRuntime(oneShotConfig());
   try {
     const bar = progressBar("rendering");
     bar(0, "kernels");
     const result = await computeProfile(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity } });
+    annotate(result.meta, resolved);
     bar(1, "done");
     const ext = extname(output).toLowerCase();
     if (ext === ".png") {

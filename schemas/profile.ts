@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { angleRangeSchema } from "./angles.js";
 import { waterSchema } from "./water.js";
+import { placeAndMomentSchema } from "./place-and-time.js";
 import { RADIUS_DENSITIES } from "../lib/bow/radius-density.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
@@ -81,6 +82,7 @@ export const sunSchema = z
       .default({ kind: "astm-g173", column: "extraterrestrial" })
       .describe("Sunlight above the atmosphere (astm-g173 extraterrestrial, blackbody) or at the ground (the others)"),
     elevationDeg: number(-1, 90, "Sun's elevation above the horizon, degrees").default(10),
+    at: placeAndMomentSchema.optional().describe("A moment and a place instead of elevationDeg: the sun's apparent elevation is computed (meta.sourcePosition)"),
     atmosphere: z
       .object({
         attenuate: z

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { profileRequestSchema, sunSchema } from "./profile.js";
+import { placeAndMomentSchema } from "./place-and-time.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 const profileFields = profileRequestSchema.shape;
@@ -9,7 +10,7 @@ export const viewScenarioSchema = z
   .object({
     drops: profileFields.drops,
     water: profileFields.water,
-    sun: sunSchema.omit({ elevationDeg: true }).prefault({}).describe("Sun spectrum, atmosphere and disc; its position is the body's `sun`"),
+    sun: sunSchema.omit({ elevationDeg: true, at: true }).prefault({}).describe("Sun spectrum, atmosphere and disc; its position is the body's `sun`"),
     observer: profileFields.observer,
     spectral: profileFields.spectral,
     method: profileFields.method,
@@ -23,6 +24,7 @@ export const sunPositionSchema = z
   .object({
     azimuthDeg: number(-360, 360, "Sun's azimuth, degrees clockwise from north (east = 90)").default(240),
     elevationDeg: number(-1, 90, "Sun's elevation above the horizon, degrees").default(12),
+    at: placeAndMomentSchema.optional().describe("A moment and a place instead of azimuthDeg/elevationDeg: the sun's apparent position is computed (manifest sourcePosition)"),
   })
   .strict()
   .prefault({});

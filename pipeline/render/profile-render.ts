@@ -5,6 +5,8 @@ import { computeProfile, type ProfileResult } from "../compute/profile.js";
 import { encodePngStrip } from "../encoders/png-strip.js";
 import { jsonOutput, headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
 import { profileSvg } from "../../lib/figures/profile-figure.js";
+import { annotate, resolveProfileRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
+import type { SourcePositionMeta } from "../sky/source-position.js";
 
 export type StripQuery = z.output<typeof stripQuerySchema>;
 export type ProfileFormat = "json" | "png" | "png16" | "svg";
@@ -42,6 +44,7 @@ export function profileJson(result: ProfileResult) {
 
 function describingHeaders(result: ProfileResult): Record<string, string> {
   return {
+    ...sourcePositionHeaders(result.meta.sourcePosition as SourcePositionMeta | undefined),
     "x-antisolar-hash": String(result.meta.hash),
     "x-antisolar-space": result.request.output.space,
     "x-antisolar-compute-ms": String(result.meta.computeMs),
@@ -50,9 +53,12 @@ function describingHeaders(result: ProfileResult): Record<string, string> {
   };
 }
 
-export async function renderProfile(body: ProfileRequest, format: ProfileFormat, query: StripQuery, deps: RenderDeps): Promise<RenderOutput> {
+export async function renderProfile(request: ProfileRequest, format: ProfileFormat, query: StripQuery, deps: RenderDeps): Promise<RenderOutput> {
+  const resolved = resolveProfileRequest(request);
+  const body = resolved.body;
   deps.onProgress?.(0, "kernels");
   const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal });
+  annotate(result.meta, resolved);
   deps.onProgress?.(1, "done");
   if (format === "json") return jsonOutput(profileJson(result), { "x-antisolar-hash": String(result.meta.hash) });
   if (format === "svg") {

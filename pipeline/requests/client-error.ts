@@ -8,6 +8,7 @@ export type ErrorCode =
   | "body-too-large"
   | "not-found"
   | "too-costly"
+  | "source-below-horizon"
   | "not-acceptable"
   | "rate-limited"
   | "overloaded"
@@ -22,6 +23,7 @@ const statusByCode: Record<ErrorCode, number> = {
   "body-too-large": 413,
   "not-found": 404,
   "too-costly": 422,
+  "source-below-horizon": 422,
   "not-acceptable": 406,
   "rate-limited": 429,
   overloaded: 503,
