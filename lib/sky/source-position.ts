@@ -1,5 +1,5 @@
 // Where the sun or the moon stands for an observer at a moment: airless topocentric position from the
-// astronomy-engine library (Cross 2019–, VSOP87 for the sun, a truncated ELP/MPP02-like series for the moon),
+// astronomy-engine library (Cross 2019–; VSOP87 for the sun, the Improved Lunar Ephemeris 1954 for the moon),
 // then our refraction (refraction.ts).
 
 import { Body, Equator, Horizon, Illumination, Observer } from "astronomy-engine";

@@ -34,7 +34,7 @@ export interface ResolvedPosition {
   warnings: string[];
 }
 
-const EPHEMERIS = "astronomy-engine 2 (D. Cross): VSOP87 sun, ELP-based moon, IAU 2006 precession, IAU 2000B nutation; apparent topocentric, equator of date";
+const EPHEMERIS = "astronomy-engine 2 (D. Cross): VSOP87 sun; moon from the Improved Lunar Ephemeris 1954 (Brown) after Montenbruck & Pfleger; apparent topocentric, equator of date";
 
 const round = (v: number, digits = 6) => Number(v.toFixed(digits));
 
