@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { profileRequestSchema, sunSchema } from "./profile.js";
 import { placeAndMomentSchema } from "./place-and-time.js";
+import { moonPositionSchema } from "./moon.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 const profileFields = profileRequestSchema.shape;
@@ -89,6 +90,7 @@ export const viewRequestSchema = z
     scenario: viewScenarioSchema,
     camera: cameraSchema,
     sun: sunPositionSchema,
+    moon: moonPositionSchema.optional().describe("The moon as the light instead of the sun (leave sun out): position, phase, distance and atmosphere; scenario.sun's spectrum and disc are then the moon's"),
     ground: z.boolean().default(true).describe("true: flat ground hides everything below the horizon (z < 0)"),
     layer: layerSchema,
     polariserDeg: number(-180, 180, "Linear polariser's axis, degrees anticlockwise from the image's horizontal; omit for none").optional(),
@@ -103,6 +105,7 @@ export const skyRequestSchema = z
     widthPx: z.number().int().min(2).max(8192).default(2048).describe("Map width, pixels (360° of azimuth)"),
     heightPx: z.number().int().min(1).max(4096).default(1024).describe("Map height, pixels (180° of elevation); width/height must be 2"),
     sun: sunPositionSchema,
+    moon: moonPositionSchema.optional().describe("The moon as the light instead of the sun (leave sun out): position, phase, distance and atmosphere; scenario.sun's spectrum and disc are then the moon's"),
     polariserToTangentDeg: number(-180, 180, "A linear polariser held at this angle to the bow's tangent everywhere (as polariserDeg of /v1/profile); omit for none").optional(),
     ground: z.boolean().default(true).describe("true: the lower half (elevation < 0) is left empty"),
     layer: layerSchema,
