@@ -4,6 +4,7 @@ import { waterSchema } from "./water.js";
 import { placeAndMomentSchema } from "./place-and-time.js";
 import { atmosphereSchema } from "./atmosphere.js";
 import { moonSchema } from "./moon.js";
+import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
 import { RADIUS_DENSITIES } from "../lib/bow/radius-density.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
@@ -97,6 +98,8 @@ export const outputSchema = z
     gamut: z.enum(["clip", "css4", "desaturate"]).default("css4"),
     normalise: z.enum(["peak", "physical"]).default("peak"),
     white: z.enum(["sun", "absolute"]).default("sun"),
+    vision: visionSchema,
+    adaptingLuminanceCdPerM2: adaptingLuminanceSchema,
   })
   .strict();
 
@@ -142,7 +145,7 @@ export const profileFieldsSchema = z
       ),
     polariserDeg: number(-180, 180, "Linear polariser's axis to the bow's tangent, degrees (0 strengthens the bow)").optional(),
     pathLengthM: number(1, 100000, "Path length through the rain along the line of sight, m").default(1000),
-    output: outputSchema.default({ space: "srgb", gamut: "css4", normalise: "peak", white: "sun" }),
+    output: outputSchema.default({ space: "srgb", gamut: "css4", normalise: "peak", white: "sun", vision: "camera" }),
   })
   .strict();
 

@@ -2,6 +2,7 @@ import { z } from "zod";
 import { profileRequestSchema, sunSchema } from "./profile.js";
 import { placeAndMomentSchema } from "./place-and-time.js";
 import { moonPositionSchema } from "./moon.js";
+import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 const profileFields = profileRequestSchema.shape;
@@ -51,6 +52,8 @@ export const viewOutputSchema = z
       .default("peak")
       .describe("peak: pixel luminance 1 = the brightest point of the bows (ψ 30°–60°); physical: 1 = referenceCdPerM2"),
     referenceCdPerM2: number(1e-3, 1e6, "Luminance that pixel value 1 stands for under normalise = physical, cd/m²").default(1000),
+    vision: visionSchema,
+    adaptingLuminanceCdPerM2: adaptingLuminanceSchema,
   })
   .strict()
   .prefault({});
