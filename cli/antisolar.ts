@@ -13,6 +13,7 @@ import { computeProfile, PROFILE_STAGES } from "../pipeline/compute/profile.js";
 import { ProgressMeter } from "../pipeline/progress/progress-meter.js";
 import { progressBar } from "./progress-bar.js";
 import { profileJson } from "../pipeline/render/profile-render.js";
+import { annotate, resolveLutRequest, resolveProfileRequest } from "../pipeline/sky/resolve-source.js";
 import { encodeExr } from "../pipeline/encoders/exr.js";
 import { encodeRadianceHdr } from "../pipeline/encoders/radiance-hdr.js";
 import { encodePngImage, encodePngStrip } from "../pipeline/encoders/png-strip.js";
@@ -57,10 +58,12 @@ async function bake(args: string[]): Promise<void> {
   const input = args[0];
   const output = argument(args, "-o");
   if (!input || !output) throw new Error(`bake needs a request file and -o <file>\n\n${usage}`);
-  const request = parseOrThrow(lutRequestSchema, await readJson(input), "body");
+  const resolved = resolveLutRequest(parseOrThrow(lutRequestSchema, await readJson(input), "body"));
+  const request = resolved.body;
   const runtime = createKernelRuntime(oneShotConfig());
   try {
     const lut = await computeLut(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity } }, progressBar("baking"));
+    annotate(lut.manifest, resolved);
     const ext = extname(output).toLowerCase();
     let file: Buffer;
     if (ext === ".exr") {
@@ -94,12 +97,14 @@ async function render(args: string[]): Promise<void> {
   const input = args[0];
   const output = argument(args, "-o");
   if (!input || !output) throw new Error(`render needs a request file and -o <file>\n\n${usage}`);
-  const request = parseOrThrow(profileRequestSchema, await readJson(input), "body");
+  const resolved = resolveProfileRequest(parseOrThrow(profileRequestSchema, await readJson(input), "body"));
+  const request = resolved.body;
   const runtime = createKernelRuntime(oneShotConfig());
   try {
     const bar = progressBar("rendering");
     const progress = new ProgressMeter(PROFILE_STAGES, bar);
     const result = await computeProfile(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity }, progress });
+    annotate(result.meta, resolved);
     progress.done();
     const ext = extname(output).toLowerCase();
     if (ext === ".png") {

@@ -28,6 +28,8 @@ import { COST_NS } from "../progress/work-costs.js";
 
 /** The stages of a profile's progress, in order (a render adds its encoding after them: PROFILE_RENDER_STAGES). */
 export const PROFILE_STAGES = ["kernels", "spectral", "colour"] as const;
+import { sceneEyeAdaptation } from "../../lib/colour/low-light-vision.js";
+import { visionMeta } from "./vision-meta.js";
 
 /** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
 const FLATTENED_FROM_RADIUS_UM = 1000;
@@ -243,6 +245,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   if (!(sunWhite.Y > 0)) {
     warnings.push("no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black");
   }
+  const eye = request.output.vision === "eye" ? sceneEyeAdaptation(sun.irradiance, request.sun.elevationDeg, request.output.adaptingLuminanceCdPerM2) : undefined;
   const colour = colourProfile(spectral, grid, {
     observer: request.observer,
     space: request.output.space,
@@ -251,6 +254,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     normalise: request.output.normalise,
     polariserDeg: request.polariserDeg,
     sunWhite,
+    eye,
   });
   const bows = findBows(spectral.anglesDeg, colour.luminance);
   progress?.complete("colour");
@@ -289,6 +293,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     sun: { scale: sun.scaleNote, attenuated: sun.attenuated },
     water: waterSource,
     colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
+    vision: visionMeta(eye),
     mieTermAngles: spectral.mieTermAngles,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
     kernel: {

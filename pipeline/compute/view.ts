@@ -190,7 +190,7 @@ function profileRequestFor(scene: Scene, angles: { fromDeg: number; toDeg: numbe
     ...scene.scenario,
     sun: { ...scene.scenario.sun, elevationDeg: scene.sunPosition.elevationDeg },
     angles,
-    output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute" },
+    output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute", vision: scene.output.vision, adaptingLuminanceCdPerM2: scene.output.adaptingLuminanceCdPerM2 },
   };
   return parseOrThrow(profileRequestSchema, body, "body", ["scenario"]);
 }
@@ -369,6 +369,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
       radii: profile.meta.radii,
       sun: profile.meta.sun,
       water: profile.meta.water,
+      vision: profile.meta.vision,
     },
     hash,
     cache: profile.meta.cache,

@@ -10,6 +10,7 @@ import { scenarioSentence } from "../../lib/figures/figure-input.js";
 import { ClientError } from "../requests/client-error.js";
 import { headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
 import { ProgressMeter } from "../progress/progress-meter.js";
+import { resolveProfileRequest, resolveSizeMapRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
 
 export const SVG_CONTENT_TYPE = "image/svg+xml; charset=utf-8";
 
@@ -22,13 +23,15 @@ export function figureHeaders(hash: string, sources: readonly string[]): Record<
   return { "x-antisolar-hash": hash, "x-antisolar-sources": headerSafe(JSON.stringify(sources)) };
 }
 
-export async function renderChromaticityFigure(body: ProfileRequest, deps: RenderDeps): Promise<RenderOutput> {
+export async function renderChromaticityFigure(request: ProfileRequest, deps: RenderDeps): Promise<RenderOutput> {
+  const resolved = resolveProfileRequest(request);
+  const body = resolved.body;
   // Drawing the figure costs about what the JSON answer does (one point per angle).
   const progress = profileProgress(body, "json", deps);
   const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask });
   const sources = [...chromaticityFigureSources(body.observer), ...sourcesOf(result)];
   progress.done();
-  return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(chromaticitySvg(result), "utf8"), headers: figureHeaders(result.meta.hash, sources) };
+  return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(chromaticitySvg(result), "utf8"), headers: { ...figureHeaders(result.meta.hash, sources), ...sourcePositionHeaders(resolved.sourcePosition) } };
 }
 
 /** Engines over all rows, merged where neighbouring rows used the same one. */
@@ -83,8 +86,10 @@ async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ ra
   }
 }
 
-export async function renderSizeMap(body: SizeMapRequest, format: "svg" | "png", deps: RenderDeps): Promise<RenderOutput> {
-  const hash = contentHash(body, "figure/size-map");
+export async function renderSizeMap(request: SizeMapRequest, format: "svg" | "png", deps: RenderDeps): Promise<RenderOutput> {
+  const resolved = resolveSizeMapRequest(request);
+  const body = resolved.body;
+  const hash = contentHash(request, "figure/size-map");
   const { radiiUm, results } = await sizeMapRows(body, deps);
   const anglesDeg = results[0].spectral.anglesDeg;
   const srgb = new Float64Array(radiiUm.length * anglesDeg.length * 3);
@@ -99,7 +104,7 @@ export async function renderSizeMap(body: SizeMapRequest, format: "svg" | "png",
     hash,
     sources,
   };
-  if (format === "svg") return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(sizeMapSvg(map), "utf8"), headers: figureHeaders(hash, [...SIZE_MAP_SOURCES, ...sources]) };
+  if (format === "svg") return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(sizeMapSvg(map), "utf8"), headers: { ...figureHeaders(hash, [...SIZE_MAP_SOURCES, ...sources]), ...sourcePositionHeaders(resolved.sourcePosition) } };
   const raster = sizeMapRaster(map);
   const png = await sharp(raster.pixels, { raw: { width: raster.width, height: raster.height, channels: 3 } }).png().toBuffer();
   const axes = {
@@ -108,6 +113,6 @@ export async function renderSizeMap(body: SizeMapRequest, format: "svg" | "png",
     normalisation: "each row's peak luminance = 1",
     space: "srgb",
   };
-  return { contentType: "image/png", body: png, headers: { ...figureHeaders(hash, [...SIZE_MAP_SOURCES, ...sources]), "x-antisolar-axes": headerSafe(JSON.stringify(axes)) } };
+  return { contentType: "image/png", body: png, headers: { ...figureHeaders(hash, [...SIZE_MAP_SOURCES, ...sources]), ...sourcePositionHeaders(resolved.sourcePosition), "x-antisolar-axes": headerSafe(JSON.stringify(axes)) } };
 }
 

@@ -6,6 +6,7 @@ import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { encodePngImage } from "../encoders/png-strip.js";
 import { spacePrimaries } from "../../lib/colour/primaries.js";
 import { jsonOutput, type RenderDeps, type RenderOutput } from "./render-output.js";
+import { annotate, resolveLutRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
 
 export type LutQuery = z.output<typeof lutQuerySchema>;
 
@@ -15,10 +16,13 @@ function rgbOnly(lut: Lut): Float32Array {
   return out;
 }
 
-export async function renderLut(body: LutRequest, query: LutQuery, deps: RenderDeps): Promise<RenderOutput> {
+export async function renderLut(request: LutRequest, query: LutQuery, deps: RenderDeps): Promise<RenderOutput> {
+  const resolved = resolveLutRequest(request);
+  const body = resolved.body;
   const lut = await computeLut(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal }, deps.onProgress);
   const { manifest } = lut;
-  const headers = { "x-antisolar-hash": manifest.hash };
+  annotate(manifest as Record<string, unknown>, resolved);
+  const headers = { ...sourcePositionHeaders(resolved.sourcePosition), "x-antisolar-hash": manifest.hash };
   if (query.part === "manifest") return jsonOutput(manifest, headers);
   switch (query.format) {
     case "json": {

@@ -9,6 +9,8 @@ import { encodePngStrip } from "../encoders/png-strip.js";
 import { jsonOutput, headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
 import { profileSvg } from "../../lib/figures/profile-figure.js";
 import type { ProfileResponse } from "../../schemas/responses/profile-response.js";
+import { annotate, resolveProfileRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
+import type { SourcePositionMeta } from "../sky/source-position.js";
 
 export type StripQuery = z.output<typeof stripQuerySchema>;
 export type ProfileFormat = "json" | "png" | "png16" | "svg";
@@ -46,6 +48,7 @@ export function profileJson(result: ProfileResult): ProfileResponse {
 
 function describingHeaders(result: ProfileResult): Record<string, string> {
   return {
+    ...sourcePositionHeaders(result.meta.sourcePosition as SourcePositionMeta | undefined),
     "x-antisolar-hash": result.meta.hash,
     "x-antisolar-space": result.request.output.space,
     "x-antisolar-compute-ms": String(result.meta.computeMs),
@@ -61,9 +64,12 @@ export function profileProgress(body: ProfileRequest, format: ProfileFormat, dep
   return meter;
 }
 
-export async function renderProfile(body: ProfileRequest, format: ProfileFormat, query: StripQuery, deps: RenderDeps): Promise<RenderOutput> {
+export async function renderProfile(request: ProfileRequest, format: ProfileFormat, query: StripQuery, deps: RenderDeps): Promise<RenderOutput> {
+  const resolved = resolveProfileRequest(request);
+  const body = resolved.body;
   const progress = profileProgress(body, format, deps);
   const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask });
+  annotate(result.meta, resolved);
   const output = await encodeProfile(result, body, format, query);
   progress.complete("encoding");
   progress.done();

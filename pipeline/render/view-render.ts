@@ -4,14 +4,17 @@ import { headerSafe, jsonOutput, type RenderDeps, type RenderOutput } from "./re
 import { PROFILE_STAGES } from "../compute/profile.js";
 import { ProgressMeter } from "../progress/progress-meter.js";
 import { COST_NS } from "../progress/work-costs.js";
+import { annotate, resolveOverlayRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
 
 /** A camera view or sky map, or its manifest, as a render output (for the routes and for jobs alike). */
 export async function renderOverlay(
   endpoint: "view" | "sky",
-  body: ViewRequest | SkyRequest,
+  request: ViewRequest | SkyRequest,
   query: ImageQuery,
   deps: RenderDeps,
 ): Promise<RenderOutput> {
+  const resolved = resolveOverlayRequest(request);
+  const body = resolved.body;
   const progress = new ProgressMeter([...PROFILE_STAGES, "pixels"], deps.onProgress);
   if (query.part !== "manifest") {
     const { widthPx, heightPx } = endpoint === "view" ? (body as ViewRequest).camera : (body as SkyRequest);
@@ -19,6 +22,7 @@ export async function renderOverlay(
   }
   const viewDeps = { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask };
   const prepared = endpoint === "view" ? await prepareView(body as ViewRequest, query.format, viewDeps) : await prepareSky(body as SkyRequest, query.format, viewDeps);
+  annotate(prepared.manifest as Record<string, unknown>, resolved);
   const m = prepared.manifest;
   if (query.part === "manifest") {
     progress.done();
@@ -31,6 +35,7 @@ export async function renderOverlay(
     contentType: file.contentType,
     body: file.body,
     headers: {
+      ...sourcePositionHeaders(resolved.sourcePosition),
       "x-antisolar-hash": m.hash,
       "x-antisolar-space": m.output.space,
       "x-antisolar-scale": headerSafe(`${m.scale.meaning}; factor ${m.scale.factor}`),

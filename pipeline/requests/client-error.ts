@@ -16,6 +16,7 @@ const statusByCode: Record<ErrorCode, number> = {
   "request-timeout": 408,
   "not-found": 404,
   "too-costly": 422,
+  "source-below-horizon": 422,
   "not-acceptable": 406,
   "rate-limited": 429,
   overloaded: 503,

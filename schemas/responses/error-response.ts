@@ -13,6 +13,7 @@ export const clientErrorCodes = [
   "request-timeout",
   "not-found",
   "too-costly",
+  "source-below-horizon",
   "not-acceptable",
   "rate-limited",
   "overloaded",

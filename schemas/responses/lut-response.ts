@@ -1,3 +1,4 @@
+import { lightSourceFields } from "./light-source-response.js";
 import { z } from "zod";
 import { lutRequestSchema, lutSpaces } from "../lut.js";
 
@@ -36,6 +37,7 @@ export const lutManifestSchema = z
     sources: z.array(z.string()),
     warnings: z.array(z.string()),
     computeMs: z.number(),
+    ...lightSourceFields,
   })
   .describe("POST /v1/lut?part=manifest: how to sample the lookup texture");
 
