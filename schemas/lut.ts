@@ -63,9 +63,12 @@ export type LutRequest = z.infer<typeof lutRequestSchema>;
 
 export const lutQuerySchema = z
   .object({
-    format: z.enum(["exr", "hdr", "png16", "json"]).default("exr"),
+    format: z
+      .enum(["exr", "ktx2", "hdr", "png16", "json"])
+      .default("exr")
+      .describe("exr: OpenEXR, ZIP; ktx2: KTX 2.0 RGBA16F/RGBA32F for engines; hdr: Radiance RGBE; png16: scaled 16-bit PNG; json: texel values"),
     part: z.enum(["image", "manifest"]).default("image").describe("manifest: the JSON that maps texels to angle and size"),
-    pixelType: z.enum(["half", "float"]).default("half").describe("EXR sample type"),
+    pixelType: z.enum(["half", "float"]).default("half").describe("EXR and KTX2 sample type (KTX2: RGBA16F or RGBA32F)"),
   })
   .strict();
 

@@ -2,6 +2,7 @@ import type { z } from "zod";
 import type { LutRequest, lutQuerySchema } from "../../schemas/lut.js";
 import { computeLut, type Lut } from "../compute/lut.js";
 import { encodeExr } from "../encoders/exr.js";
+import { encodeKtx2 } from "../encoders/ktx2.js";
 import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { encodePngImage } from "../encoders/png-strip.js";
 import { spaceChromaticities } from "../encoders/space-chromaticities.js";
@@ -48,6 +49,27 @@ export async function renderLut(body: LutRequest, query: LutQuery, deps: RenderD
             "antisolar:hash": String(manifest.hash),
           },
         }),
+      };
+    case "ktx2":
+      return {
+        contentType: "image/ktx2",
+        headers,
+        body: Buffer.from(
+          encodeKtx2({
+            width: lut.width,
+            height: lut.height,
+            layers: 1,
+            rgba: lut.rgba,
+            pixelType: query.pixelType,
+            space: body.space,
+            premultipliedAlpha: true,
+            keyValues: {
+              "antisolar.mapping": JSON.stringify({ u: manifest.u, v: manifest.v, scale: manifest.scale, alpha: manifest.alpha }),
+              "antisolar.space": body.space,
+              "antisolar.hash": String(manifest.hash),
+            },
+          }),
+        ),
       };
     case "hdr": {
       const c = spaceChromaticities(body.space);
