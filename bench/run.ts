@@ -1,11 +1,11 @@
 // npm run bench [-- --quick]: times the Mie kernel (W1–W3), whole profiles (P1–P3; --quick leaves out P3, which
 // takes minutes) and warm HTTP requests in one run, prints the figures and rewrites BENCHMARKS.md.
-import { existsSync, readFileSync, writeFileSync } from "node:fs";
+import { writeFileSync } from "node:fs";
+import { BENCHMARKS_FILE, keptSections } from "./benchmarks-file.js";
 import { cpus, loadavg, totalmem } from "node:os";
 import { benchMie, mieKernelName } from "./mie.js";
 import { benchProfile, P1, P1_DISK, P2, P2_ONE_SIZE, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
 import { benchHttp } from "./http.js";
-import { repoPath } from "../pipeline/config/resources.js";
 
 const quick = process.argv.includes("--quick");
 const machine = `${cpus()[0]?.model ?? "unknown CPU"}, ${cpus().length} cores, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}`;
@@ -120,10 +120,7 @@ const lines = [
   ),
   "",
 ];
-// bench/load.ts keeps its own section between these markers: carry it over unchanged.
-const target = repoPath("BENCHMARKS.md");
-const previous = existsSync(target) ? readFileSync(target, "utf8") : "";
-const kept = /<!-- load:start -->[\s\S]*<!-- load:end -->/.exec(previous);
-if (kept) lines.push(kept[0], "");
-writeFileSync(target, lines.join("\n"));
+// Other benchmark scripts (bench/load.ts, bench/time-of-day.ts, …) keep their own marked sections: carry them over.
+for (const section of keptSections()) lines.push(section, "");
+writeFileSync(BENCHMARKS_FILE, lines.join("\n"));
 console.log("wrote BENCHMARKS.md");
