@@ -2,11 +2,12 @@
 // (P1–P3; --quick leaves out P3, which takes minutes) and warm HTTP requests in one run, prints the figures and
 // rewrites BENCHMARKS.md. --mie times the Mie kernel only and rewrites that section of BENCHMARKS.md.
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
+import { keptSections } from "./sections.js";
+import { repoPath } from "../pipeline/config/resources.js";
 import { cpus, loadavg, totalmem } from "node:os";
 import { benchMie, MANY_DROPS, mieKernelName } from "./mie.js";
 import { benchProfile, P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
 import { benchHttp } from "./http.js";
-import { repoPath } from "../pipeline/config/resources.js";
 
 const quick = process.argv.includes("--quick");
 const mieOnly = process.argv.includes("--mie");
@@ -150,12 +151,9 @@ const lines = [
   ),
   "",
 ];
-// bench/load.ts and bench/progress.ts keep their own sections between markers: carry them over unchanged.
+// Other benchmark scripts (bench/load.ts, bench/progress.ts, bench/time-of-day.ts, …) keep their own marked
+// sections: carry them over unchanged.
 const target = repoPath("BENCHMARKS.md");
-const previous = existsSync(target) ? readFileSync(target, "utf8") : "";
-for (const name of ["load", "progress"]) {
-  const kept = new RegExp(`<!-- ${name}:start -->[\\s\\S]*<!-- ${name}:end -->`).exec(previous);
-  if (kept) lines.push(kept[0], "");
-}
+for (const section of keptSections()) lines.push(section, "");
 writeFileSync(target, lines.join("\n"));
 console.log("wrote BENCHMARKS.md");
