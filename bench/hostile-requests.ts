@@ -15,6 +15,7 @@ import fc from "fast-check";
 import { repoPath } from "../pipeline/config/resources.js";
 import { hostileRequest, hostileTargets, MAX_ERROR_BYTES, HOSTILE_STATUSES, type HostileRequest } from "./hostile-inputs.js";
 import { LOG_LINE_BYTES } from "../http/plugins/bounded-logs.js";
+import { freePort } from "../test/helpers/free-port.js";
 
 const START = "<!-- hostile:start -->";
 const END = "<!-- hostile:end -->";
@@ -36,18 +37,6 @@ interface Server {
   child: ChildProcess;
   port: number;
   log: { lines: number; longest: number; longestText: string };
-}
-
-async function freePort(): Promise<number> {
-  const { createServer } = await import("node:net");
-  return new Promise((resolve, reject) => {
-    const probe = createServer();
-    probe.once("error", reject);
-    probe.listen(0, "127.0.0.1", () => {
-      const { port } = probe.address() as { port: number };
-      probe.close(() => resolve(port));
-    });
-  });
 }
 
 async function startServer(): Promise<Server> {
@@ -126,6 +115,7 @@ interface Tally {
   sent: number;
   byStatus: Map<number, number>;
   byKind: Map<string, Map<number, number>>;
+  inJobByKind: Map<string, number>;
   largestAnswer: number;
   largestAnswerKind: string;
   notJson: number;
@@ -146,8 +136,9 @@ function count(tally: Tally, kind: string, status: number, bytes: number, json: 
   if ((status >= 500 || bytes > MAX_ERROR_BYTES || !json || !HOSTILE_STATUSES.includes(status)) && tally.failures.length < 20) tally.failures.push(`${status} ${bytes} B: ${what}`);
 }
 
-/** "deep-array@drops.radii" → "deep-array"; "job-body:long-key@x" → "job-body:long-key". */
-const kindOf = (label: string) => label.split("@")[0];
+/** "deep-array@drops.radii" → "deep-array"; "job-body:long-key@x" → "long-key" (counted as inside a job too). */
+const kindOf = (label: string) => label.split("@")[0].replace(/^job-(body|query):/, "");
+const inJob = (label: string) => /^job-(body|query):/.test(label);
 
 async function sendOne(base: string, req: HostileRequest, tally: Tally): Promise<void> {
   const what = `${req.label} ${req.method} ${req.url.slice(0, 120)} ${req.payload?.subarray(0, 120).toString("latin1") ?? ""}`;
@@ -167,6 +158,7 @@ async function sendOne(base: string, req: HostileRequest, tally: Tally): Promise
       json = false;
     }
     count(tally, kindOf(req.label), res.status, body.length, json, what);
+    if (inJob(req.label)) tally.inJobByKind.set(kindOf(req.label), (tally.inJobByKind.get(kindOf(req.label)) ?? 0) + 1);
   } catch (error) {
     count(tally, kindOf(req.label), 0, 0, false, `${what}: ${(error as Error).message}`);
   }
@@ -197,7 +189,7 @@ function rawRequest(port: number, bytes: string): Promise<{ status: number; byte
 async function run(): Promise<void> {
   const server = await startServer();
   const base = `http://127.0.0.1:${server.port}`;
-  const tally: Tally = { sent: 0, byStatus: new Map(), byKind: new Map(), largestAnswer: 0, largestAnswerKind: "", notJson: 0, failures: [] };
+  const tally: Tally = { sent: 0, byStatus: new Map(), byKind: new Map(), inJobByKind: new Map(), largestAnswer: 0, largestAnswerKind: "", notJson: 0, failures: [] };
   const loadStart = loadavg()[0];
   let idle: ReturnType<typeof summary>;
   let busy: ReturnType<typeof summary>;
@@ -291,11 +283,11 @@ function writeSection(r: {
     `| idle | ${r.idle.n} | ${ms(r.idle.median)} | ${ms(r.idle.p99)} | ${ms(r.idle.max)} | 0 |`,
     `| during the hostile requests | ${r.busy.n} | ${ms(r.busy.median)} | ${ms(r.busy.p99)} | ${ms(r.busy.max)} | ${r.busyFailures} |`,
     "",
-    "| kind of hostility | sent | statuses |",
-    "| --- | ---: | --- |",
+    "| kind of hostility | sent | of which inside a job's body or query | statuses |",
+    "| --- | ---: | ---: | --- |",
     ...[...r.tally.byKind]
       .sort(([a], [b]) => (a < b ? -1 : 1))
-      .map(([kind, m]) => `| ${kind} | ${[...m.values()].reduce((a, b) => a + b, 0)} | ${statuses(m)} |`),
+      .map(([kind, m]) => `| ${kind} | ${[...m.values()].reduce((a, b) => a + b, 0)} | ${r.tally.inJobByKind.get(kind) ?? 0} | ${statuses(m)} |`),
     END,
   ].join("\n");
   const text = existsSync(file) ? readFileSync(file, "utf8") : "";
