@@ -23,6 +23,7 @@ import { boundedLogger } from "./plugins/bounded-logs.js";
 import { jobRoutes } from "./routes/jobs.js";
 import { createJobSystem } from "../pipeline/jobs/job-system.js";
 import { loadConfig, type Config } from "../pipeline/config/config.js";
+import { deadlines } from "../pipeline/process/shutdown.js";
 
 export interface AppOptions {
   config?: Partial<Config>;
@@ -49,8 +50,15 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
 
   const runtime = createKernelRuntime(config);
   const jobs = await createJobSystem(config, runtime, { onError: (err, job) => app.log.error({ err, job: job.id }, "job failed") });
+  // On close: event streams end first (they would hold the server open), then, once requests in flight have ended,
+  // a job this process runs itself (JOBS_IN_PROCESS) finishes or goes back to the queue before the grace is over.
+  let closeStartedAt = Date.now();
+  app.addHook("preClose", async () => {
+    closeStartedAt = Date.now();
+    jobs.endStreams();
+  });
   app.addHook("onClose", async () => {
-    await jobs.close();
+    await jobs.close(deadlines(config.shutdownGraceMs, closeStartedAt).abandonAt);
     await runtime.close();
   });
   const routes: RouteSpec[] = [
@@ -89,6 +97,8 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
 
   app.setErrorHandler((error: FastifyError | ClientError, request, reply) => {
     if (error instanceof ClientError) {
+      // A dependency away (503): the body says how long to wait, and so does the header.
+      if (typeof error.details.retryAfterS === "number") reply.header("retry-after", String(error.details.retryAfterS));
       reply.status(error.status).send(error.toBody(request.id));
       return;
     }

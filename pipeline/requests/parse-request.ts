@@ -73,8 +73,11 @@ function formatPath(path: PropertyKey[]): string {
   return previewText(out, 160);
 }
 
-/** Parses input with a zod schema, or throws a 400 that names the field and what it allows. */
-export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, where: "body" | "query"): z.output<S> {
+/**
+ * Parses input with a zod schema, or throws a 400 that names the field and what it allows. `prefix` is where the
+ * input sits inside the request (a job's `body`), so that the field is named from the request's root.
+ */
+export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, where: "body" | "query", prefix: readonly PropertyKey[] = []): z.output<S> {
   if (where === "query") checkQueryValues(jsonSchemaOf(schema), input);
   const result = schema.safeParse(input);
   if (result.success) return result.data;
@@ -85,21 +88,21 @@ export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, whe
   let message: string;
   if (issue.code === "unrecognized_keys") {
     const node = schemaAtPath(root, path, input);
-    const field = formatPath([...path, issue.keys[0]]);
+    const field = formatPath([...prefix, ...path, issue.keys[0]]);
     allowed = node?.properties ? `the fields ${Object.keys(node.properties).join(", ")}` : undefined;
     message = `${where} field '${field}' is not known${allowed ? `; allowed here are ${allowed}` : ""}`;
     path = [...path, issue.keys[0]];
   } else {
     const node = schemaAtPath(root, path, input);
     allowed = node ? describeRange(node) : undefined;
-    const field = formatPath(path) || "(root)";
+    const field = formatPath([...prefix, ...path]) || "(root)";
     const sent = valueAt(input, path);
     // Never JSON.stringify what was sent: it may be large, or (from a query string) anything at all.
     const sentText = sent === undefined ? "missing" : previewValue(sent);
     message = `${where} field '${field}' is invalid (${previewText(issue.message, 200)}; sent ${sentText})${allowed ? `: allowed is ${allowed}` : ""}`;
   }
   throw new ClientError("invalid-request", message, {
-    field: formatPath(path) || undefined,
+    field: formatPath([...prefix, ...path]) || undefined,
     ...(allowed ? { allowed } : {}),
   });
 }
