@@ -138,6 +138,13 @@ describe("cases found, each by name", () => {
     expect((await app.inject({ method: "GET", url: "/v1/water?salinityPsu=10&temperatureC=-5.5e0" })).statusCode).toBe(200);
   });
 
+  it("the same inside a job's query object", async () => {
+    for (const value of ['"0x10"', '""', '" 5"', "[8, 9]"]) {
+      const body = await refused(post("/v1/jobs", `{"endpoint":"profile","query":{"height":${value}}}`));
+      expect(body.field).toBe("query.height");
+    }
+  });
+
   // Found by the harness: a parameter with an empty name ("?=1") was refused without naming a field.
   it("a query parameter with an empty name is named as \"\"", async () => {
     expect((await refused({ label: "named", method: "GET", url: "/v1/water?=1" })).field).toBe('""');
