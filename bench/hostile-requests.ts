@@ -4,7 +4,8 @@
 // by kind of hostility, the largest answer, the longest log line the server wrote, and /healthz latency while idle
 // and while under the hostile load, in the same run. Writes the figures into BENCHMARKS.md between
 // <!-- hostile:start --> and <!-- hostile:end -->; exits 1 when any answer was a 5xx or larger than the bound.
-// Options: --requests N (default 12,000), --seed S (default fixed; "random" for a new one).
+// Options: --requests N (default 12,000), --seed S (default fixed; "random" for a new one), --server PATH (another
+// build's dist/http/main.js, e.g. of an older commit, for comparison: figures are printed, BENCHMARKS.md is left alone).
 import { spawn, type ChildProcess } from "node:child_process";
 import { connect } from "node:net";
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
@@ -31,6 +32,7 @@ const argument = (name: string) => {
   return at >= 0 ? process.argv[at + 1] : undefined;
 };
 const TOTAL = Number(argument("--requests") ?? 12_000);
+const OTHER_SERVER = argument("--server");
 const SEED = argument("--seed") === "random" ? Math.floor(Math.random() * 2 ** 31) : Number(argument("--seed") ?? 20261203);
 
 interface Server {
@@ -41,7 +43,7 @@ interface Server {
 
 async function startServer(): Promise<Server> {
   const port = await freePort();
-  const main = fileURLToPath(new URL("../http/main.js", import.meta.url));
+  const main = OTHER_SERVER ?? fileURLToPath(new URL("../http/main.js", import.meta.url));
   // As deployed, but without the per-client rate limit (every request here comes from one address) and without a disk cache.
   const env = { ...process.env, PORT: String(port), HOST: "127.0.0.1", RATE_LIMIT_PER_MINUTE: "0", CACHE_DIR: "", LOG_LEVEL: "info" };
   const child = spawn(process.execPath, [main], { env, stdio: ["ignore", "pipe", "inherit"] });
@@ -186,6 +188,16 @@ function rawRequest(port: number, bytes: string): Promise<{ status: number; byte
   });
 }
 
+/** The service's OpenAPI document; retried while a freshly started server still answers 503 (workers warming up). */
+async function openApiOf(base: string): Promise<Parameters<typeof hostileTargets>[0]> {
+  for (let attempt = 0; ; attempt++) {
+    const res = await fetch(`${base}/openapi.json`);
+    if (res.ok) return (await res.json()) as Parameters<typeof hostileTargets>[0];
+    if (attempt >= 60) throw new Error(`/openapi.json answered ${res.status}`);
+    await new Promise((r) => setTimeout(r, 1000));
+  }
+}
+
 async function run(): Promise<void> {
   const server = await startServer();
   const base = `http://127.0.0.1:${server.port}`;
@@ -196,7 +208,7 @@ async function run(): Promise<void> {
   let busyFailures = 0;
   let seconds = 0;
   try {
-    const targets = hostileTargets((await (await fetch(`${base}/openapi.json`)).json()) as Parameters<typeof hostileTargets>[0]);
+    const targets = hostileTargets(await openApiOf(base));
     const arbitrary = hostileRequest(targets);
 
     const stopIdle = pollHealth(base);
@@ -242,7 +254,8 @@ async function run(): Promise<void> {
       `/healthz idle median ${idle.median.toFixed(1)} ms p99 ${idle.p99.toFixed(1)} ms (${idle.n}), under load median ${busy.median.toFixed(1)} ms p99 ${busy.p99.toFixed(1)} ms max ${busy.max.toFixed(1)} ms (${busy.n}, ${busyFailures} failed)`,
   );
   for (const failure of tally.failures) console.log(`  ${failure}`);
-  writeSection(report);
+  if (OTHER_SERVER) console.log(`(against ${OTHER_SERVER}: BENCHMARKS.md left as it is)`);
+  else writeSection(report);
   const bad = fiveHundreds > 0 || tally.largestAnswer > MAX_ERROR_BYTES || tally.notJson > 0 || server.log.longest > LOG_LINE_BYTES;
   if (bad) console.log("FAILED: a 5xx, an answer over the bound, an answer not in the error shape, or a log line over the bound");
   process.exitCode = bad ? 1 : 0;
