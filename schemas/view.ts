@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { profileRequestSchema, sunSchema } from "./profile.js";
+import { checkProfilePhysics, profileRequestSchema, sunSchema } from "./profile.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 const profileFields = profileRequestSchema.shape;
@@ -16,6 +16,7 @@ export const viewScenarioSchema = z
     pathLengthM: profileFields.pathLengthM.describe("Path length through the rain along every line of sight, m (sets the bow's radiance and the curtain's opacity)"),
   })
   .strict()
+  .superRefine(checkProfilePhysics)
   .prefault({})
   .describe("Drops, water, sunlight, observer, wavelengths, engine and path length, as in POST /v1/profile; angles are chosen to fit the image");
 
