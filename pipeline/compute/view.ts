@@ -6,6 +6,7 @@ import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../../schemas/view.js";
 import { computeProfile, type ProfileLimits, type ProfileResult } from "./profile.js";
 import type { KernelService } from "../kernels/kernel-service.js";
+import type { ProgressMeter } from "../progress/progress-meter.js";
 import { ClientError } from "../requests/client-error.js";
 import { luminanceReciprocal, spectraToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { renderXyz } from "../../lib/colour/render.js";
@@ -23,6 +24,7 @@ import { ditheredCode8 } from "../../lib/view/dither.js";
 import { encodeExr, type ExrChromaticities } from "../encoders/exr.js";
 import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { withSpaceColourChunks } from "../encoders/png-strip.js";
+import type { CameraDescription, MapDescription, OverlayManifest } from "../../schemas/responses/overlay-response.js";
 
 /** The window that holds both bows (primary ≈ 42°, secondary ≈ 51°: Descartes angles, docs/checks.md); "peak" scales to its brightest sample. */
 const BOW_WINDOW_DEG = { fromDeg: 30, toDeg: 60 } as const;
@@ -39,6 +41,9 @@ export interface ViewDeps {
   kernels: KernelService;
   limits: ProfileLimits;
   signal?: AbortSignal;
+  /** As for profiles (ProfileDeps): told of the profile's work; must have the PROFILE_STAGES. */
+  progress?: ProgressMeter;
+  saveEachTask?: boolean;
 }
 
 type Output = ViewRequest["output"];
@@ -60,7 +65,7 @@ interface Scene {
   scenario: ViewScenario;
   output: Output;
   sunPosition: { azimuthDeg: number; elevationDeg: number };
-  description: Record<string, unknown>;
+  description: CameraDescription | MapDescription;
   normalisedRequest: unknown;
 }
 
@@ -104,7 +109,7 @@ function viewScene(body: ViewRequest): Scene {
     const b = (body.polariserDeg * Math.PI) / 180;
     polariserAxis = [0, 1, 2].map((k) => Math.cos(b) * basis.right[k] + Math.sin(b) * basis.up[k]) as Vec3;
   }
-  const description = {
+  const description: CameraDescription = {
     kind: "camera",
     projection: camera.projection,
     mapping:
@@ -185,7 +190,7 @@ function profileRequestFor(scene: Scene, angles: { fromDeg: number; toDeg: numbe
     ...scene.scenario,
     sun: { ...scene.scenario.sun, elevationDeg: scene.sunPosition.elevationDeg },
     angles,
-    output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute" },
+    output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute", vision: scene.output.vision, adaptingLuminanceCdPerM2: scene.output.adaptingLuminanceCdPerM2 },
   };
 }
 
@@ -266,7 +271,7 @@ export interface PreparedOverlay {
   colours: ProfileColours;
   /** Alpha of every pixel that sees rain, or undefined for the additive layer. */
   alpha: number | undefined;
-  manifest: Record<string, unknown>;
+  manifest: OverlayManifest;
 }
 
 export type OverlayFormat = ImageQuery["format"];
@@ -291,7 +296,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
   const { colours, scaling, outOfGamut } = profileColours(profile, request, scene.output, space);
   const curtain = curtainTransmittance(profile.quadrature, request.water, request.pathLengthM);
   const alpha = scene.layer === "premultiplied" ? 1 - curtain.transmittance : undefined;
-  const warnings = [...((profile.meta.warnings as string[]) ?? [])];
+  const warnings = [...profile.meta.warnings];
   if (curtain.opticalDepth > SINGLE_SCATTERING_TAU) {
     warnings.push(
       `the rain curtain's optical depth is ${curtain.opticalDepth.toFixed(2)}: the single-scattering bow radiance is too high (multiple scattering and extinction inside the curtain are not modelled); shorten pathLengthM`,
@@ -301,10 +306,13 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
   const hash = overlayHash(scene.endpoint, scene.normalisedRequest);
   const antisolar = azimuthElevationOf(scene.antisolar);
   const chroma = spacePrimaries(space);
-  const manifest: Record<string, unknown> = {
-    endpoint: `/v1/${scene.endpoint}`,
-    frame: worldFrameNote(),
-    [scene.endpoint === "view" ? "camera" : "map"]: scene.description,
+  // The camera (views) or the map (sky maps) follows the frame: the key order is the JSON's.
+  const described =
+    scene.description.kind === "camera"
+      ? { endpoint: "/v1/view" as const, frame: worldFrameNote(), camera: scene.description }
+      : { endpoint: "/v1/sky" as const, frame: worldFrameNote(), map: scene.description };
+  const manifest: OverlayManifest = {
+    ...described,
     sun: { ...scene.sunPosition, direction: scene.sunDirection },
     antisolarPoint: { azimuthDeg: antisolar.azimuthDeg, elevationDeg: antisolar.elevationDeg, direction: scene.antisolar },
     ground: scene.ground ? "flat ground: pixels whose ray points below the horizon (z < 0) are empty (RGB and alpha 0)" : "no ground: the bows continue below the horizon",
@@ -360,12 +368,13 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
       radii: profile.meta.radii,
       sun: profile.meta.sun,
       water: profile.meta.water,
+      vision: profile.meta.vision,
     },
     hash,
     cache: profile.meta.cache,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
     sources: [
-      ...((profile.meta.sources as string[]) ?? []),
+      ...profile.meta.sources,
       "Beer–Lambert transmittance of the rain curtain; extinction paradox (van de Hulst 1957 §8.22)",
       `output chromaticities: ${chroma.source}`,
       ...(format === "png" ? ["IEC 61966-2-1 sRGB transfer; Bayer 1973 ordered dither"] : []),
@@ -435,7 +444,7 @@ async function encodePng(layer: Layer, bitDepth: 8 | 16, space: OutputSpaceId): 
 export interface OverlayFile {
   body: Buffer;
   contentType: string;
-  manifest: Record<string, unknown>;
+  manifest: OverlayManifest & { clampedComponents?: number };
 }
 
 export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): Promise<OverlayFile> {
@@ -455,7 +464,7 @@ export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): 
           compression: "zip",
           chromaticities: { red: chroma.red, green: chroma.green, blue: chroma.blue, white: chroma.white },
           attributes: {
-            comments: `antisolar bow layer (${p.scene.layer}); linear ${space}; ${(manifest.scale as { meaning: string }).meaning}`,
+            comments: `antisolar bow layer (${p.scene.layer}); linear ${space}; ${manifest.scale.meaning}`,
             "antisolar:hash": p.hash,
           },
         }),

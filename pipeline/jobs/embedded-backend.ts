@@ -9,6 +9,7 @@ import type { LRUCache } from "lru-cache";
 import { byteBoundedCache } from "../kernels/byte-bounded-cache.js";
 import type { RenderOutput } from "../render/render-output.js";
 import type { RendererRegistry } from "./renderers.js";
+import { throttledProgress } from "../progress/throttled-progress.js";
 import {
   decodeOutput,
   encodeOutput,
@@ -16,6 +17,7 @@ import {
   isAbort,
   renderJob,
   risingProgress,
+  roundedSeconds,
   terminalStates,
   workerName,
   type JobBackend,
@@ -154,6 +156,11 @@ export class EmbeddedJobBackend implements JobBackend {
     Object.assign(record, { state: "running", startedAt: new Date().toISOString(), worker: workerName(), attempts: record.attempts + 1 });
     record.progress = { fraction: 0, stage: "starting" };
     this.changed(id);
+    const progress = throttledProgress(({ fraction, stage, secondsLeft }) => {
+      if (!stillRunning() || !risingProgress(record.progress, fraction)) return;
+      record.progress = { fraction, stage, secondsLeft: roundedSeconds(secondsLeft) };
+      this.changed(id);
+    });
     try {
       // An identical job may have finished while this one waited.
       const earlier = await this.result(spec.hash);
@@ -162,16 +169,13 @@ export class EmbeddedJobBackend implements JobBackend {
           kernels: this.options.kernels,
           maxTermAngles: this.options.maxTermAngles,
           signal: controller.signal,
-          onProgress: (fraction, stage) => {
-            if (!stillRunning() || !risingProgress(record.progress, fraction)) return;
-            record.progress = { fraction, stage };
-            this.changed(id);
-          },
+          onProgress: progress.listener,
+          saveEachTask: true,
         });
         await this.store(spec.hash, output);
       } else record.reused = true;
       if (stillRunning()) {
-        Object.assign(record, { state: "done", finishedAt: new Date().toISOString(), progress: { fraction: 1, stage: "done" } });
+        Object.assign(record, { state: "done", finishedAt: new Date().toISOString(), progress: { fraction: 1, stage: "done", secondsLeft: 0 } });
       }
     } catch (error) {
       if (stillRunning()) {
@@ -184,6 +188,7 @@ export class EmbeddedJobBackend implements JobBackend {
         }
       }
     } finally {
+      progress.stop();
       this.controllers.delete(id);
       this.changed(id);
     }

@@ -17,6 +17,9 @@ import { loadConfig } from "../../../pipeline/config/config.js";
 import { tangentTransmission } from "../../../lib/view/layer.js";
 import { computeLut } from "../../../pipeline/compute/lut.js";
 import { lutRequestSchema } from "../../../schemas/lut.js";
+import { extinctionEfficiency, opticalThickness } from "../../../lib/bow/extinction.js";
+import { viewManifestSchema } from "../../../schemas/responses/overlay-response.js";
+import { latticeRadiusQuadrature } from "../../../lib/drops/lattice-quadrature.js";
 
 const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: createInlinePool().compute });
 const deps: ViewDeps = { kernels, limits: { maxTermAngles: Infinity } };
@@ -93,7 +96,7 @@ describe("camera geometry (world x east, y north, z up; azimuth clockwise from n
   it("focal length and sensor width give the same camera as the field of view they imply", async () => {
     // 18 mm on a 36 mm sensor: tan(hfov/2) = 18/18 → hfov = 90° (similar triangles).
     const a = await prepareView(viewRequestSchema.parse({ scenario, sun, camera: { ...looking, focalLengthMm: 18, sensorWidthMm: 36 } }), "exr", deps);
-    const cam = a.manifest.camera as { focalPx: number; horizontalFovDeg: number };
+    const cam = viewManifestSchema.parse(a.manifest).camera;
     expect(cam.focalPx).toBeCloseTo(100.5, 9);
     expect(cam.horizontalFovDeg).toBeCloseTo(90, 9);
   });
