@@ -17,6 +17,11 @@ function rgbOnly(lut: Lut): Float32Array {
 
 export async function renderLut(body: LutRequest, query: LutQuery, deps: RenderDeps): Promise<RenderOutput> {
   const lut = await computeLut(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal }, deps.onProgress);
+  return encodeLut(lut, body, query);
+}
+
+/** A computed texture as the file (or manifest) the query asks for: the one encoding of POST /v1/lut and `antisolar bake`. */
+export async function encodeLut(lut: Lut, body: LutRequest, query: LutQuery): Promise<RenderOutput> {
   const { manifest } = lut;
   const headers = { "x-antisolar-hash": manifest.hash };
   if (query.part === "manifest") return jsonOutput(manifest, headers);
