@@ -6,7 +6,7 @@ import { mieEfficiencies } from "../mie/efficiencies.js";
 
 /**
  * Above this size parameter Q_ext is taken as 2, the large-sphere limit (van de Hulst 1957 §8.22, the
- * extinction paradox); Q_ext − 2 is ~0.5 % at x = 2000 for water (test/extinction.test.ts measures it).
+ * extinction paradox); Q_ext − 2 is ~0.5 % at x = 2000 for water (test/lib/bow/extinction.test.ts measures it).
  */
 export const EXTINCTION_LIMIT_X = 2000;
 
