@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 // antisolar's command line: bake lookup textures and render profiles without running a server, or serve.
-//   antisolar bake <lut-request.json> -o <file.exr|.hdr|.png|.json>
+//   antisolar bake <lut-request.json> -o <file.exr|.ktx2|.hdr|.png|.json>
 //   antisolar render <profile-request.json> -o <file.json|.png|.svg>
 //   antisolar serve
 import { readFile, writeFile } from "node:fs/promises";
@@ -10,7 +10,9 @@ import { z } from "zod";
 import { lutQuerySchema, lutRequestSchema } from "../schemas/lut.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { stripQuerySchema } from "../schemas/formats.js";
-import { computeLut } from "../pipeline/compute/lut.js";
+import { computeSlicedLut } from "../pipeline/compute/lut-time-of-day.js";
+import { resolveLutRequest } from "../pipeline/sky/resolve-source.js";
+import { progressBar } from "./progress-bar.js";
 import { encodeLut } from "../pipeline/render/lut-render.js";
 import { renderProfile, type ProfileFormat } from "../pipeline/render/profile-render.js";
 import type { RenderDeps } from "../pipeline/render/render-output.js";
@@ -25,13 +27,13 @@ const usage = `antisolar — physically based rainbows
 
 ${EYE_SAFETY_CAUTION}
 
-  antisolar bake <lut-request.json> -o <texture.exr|.hdr|.png|.json>   bake a lookup texture (+ <file>.manifest.json)
+  antisolar bake <lut-request.json> -o <texture.exr|.ktx2|.hdr|.png|.json>  bake a lookup texture (+ <file>.manifest.json)
   antisolar render <profile-request.json> -o <profile.json|.png|.svg>  render a bow profile
   antisolar serve                                                       start the HTTP service (PORT, HOST)
 
 Options:
   -o, --output <file>         the file to write; its extension picks the format
-      --pixel-type half|float  bake: the EXR sample type (default half)
+      --pixel-type half|float  bake: the EXR or KTX2 sample type (default half)
       --height <px>           render: the PNG strip's height (default 32)
   -h, --help                  this text
 
@@ -53,7 +55,7 @@ type CliValues = ReturnType<typeof parseArgs<{ options: typeof cliOptions; allow
 class UsageError extends Error {}
 
 /** Output extensions of `bake`, as ?format= of POST /v1/lut. */
-const LUT_FORMATS: Readonly<Record<string, z.output<typeof lutQuerySchema>["format"]>> = { ".exr": "exr", ".hdr": "hdr", ".png": "png16", ".json": "json" };
+const LUT_FORMATS: Readonly<Record<string, z.output<typeof lutQuerySchema>["format"]>> = { ".exr": "exr", ".ktx2": "ktx2", ".hdr": "hdr", ".png": "png16", ".json": "json" };
 /** Output extensions of `render`, as ?format= of POST /v1/profile. */
 const PROFILE_FORMATS: Readonly<Record<string, ProfileFormat>> = { ".json": "json", ".png": "png16", ".svg": "svg" };
 
@@ -64,18 +66,6 @@ async function readJson(path: string): Promise<unknown> {
     process.stdin.on("end", () => resolve(data));
   }) : await readFile(path, "utf8");
   return JSON.parse(text);
-}
-
-/** A one-line progress bar on stderr (only when it is a terminal, so logs stay clean). */
-function progressBar(label: string) {
-  const tty = process.stderr.isTTY;
-  return (fraction: number, stage: string) => {
-    if (!tty) return;
-    const width = 30;
-    const filled = Math.round(fraction * width);
-    process.stderr.write(`\r${label} [${"#".repeat(filled)}${".".repeat(width - filled)}] ${(fraction * 100).toFixed(0).padStart(3)}% ${stage.padEnd(20)}`);
-    if (fraction >= 1) process.stderr.write("\n");
-  };
 }
 
 /** A one-shot command's threads start on its own work: warming them up first would only delay it. */
@@ -106,10 +96,10 @@ async function bake(input: string | undefined, values: CliValues): Promise<void>
   const output = values.output;
   if (!input || !output) throw new UsageError("bake needs a request file and -o <file>");
   const query = parseOrThrow(lutQuerySchema, { format: formatFor(output, LUT_FORMATS), pixelType: values["pixel-type"] }, "query");
-  const request = parseOrThrow(lutRequestSchema, await readJson(input), "body");
+  const resolved = resolveLutRequest(parseOrThrow(lutRequestSchema, await readJson(input), "body"));
   await withKernels(async (deps) => {
-    const lut = await computeLut(request, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles } }, progressBar("baking"));
-    const file = await encodeLut(lut, request, query);
+    const lut = await computeSlicedLut(resolved.body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles } }, progressBar("baking"));
+    const file = await encodeLut(lut, resolved, query);
     // PNG holds 0..1: the route states the divisor in a header, the CLI in the manifest beside the file.
     const scale = file.headers["x-antisolar-scale"];
     const manifest = scale === undefined ? lut.manifest : { ...lut.manifest, pngScale: `RGB were divided by ${scale} to fit PNG's 0..1` };

@@ -6,6 +6,7 @@ import { buildOpenApi } from "./openapi.js";
 import { renderDocsPage } from "./docs-page.js";
 import type { RouteSpec } from "./route-spec.js";
 import { parseOrThrow } from "../pipeline/requests/parse-request.js";
+import { previewText } from "../pipeline/requests/preview.js";
 import { serviceRoutes } from "./routes/service.js";
 import { opticsRoutes } from "./routes/optics.js";
 import { profileRoutes } from "./routes/profile.js";
@@ -17,9 +18,13 @@ import { viewRoutes } from "./routes/view.js";
 import { registerWeb } from "./routes/web.js";
 import { registerHardening } from "./plugins/hardening.js";
 import { registerRefusedBodyDrain } from "./plugins/drain-refused-body.js";
+import { registerJsonBody } from "./plugins/json-body.js";
+import { frameworkErrorOptions } from "./plugins/framework-errors.js";
+import { boundedLogger } from "./plugins/bounded-logs.js";
 import { jobRoutes } from "./routes/jobs.js";
 import { createJobSystem } from "../pipeline/jobs/job-system.js";
 import { loadConfig, type Config } from "../pipeline/config/config.js";
+import { deadlines } from "../pipeline/process/shutdown.js";
 
 export interface AppOptions {
   config?: Partial<Config>;
@@ -33,7 +38,8 @@ export interface AppPluginOptions {
 /** The instance options the app expects (body limit, time limit, request ids) for a configuration. */
 export function appServerOptions(config: Config, logger = false): FastifyServerOptions {
   return {
-    logger: logger ? { level: config.logLevel } : false,
+    logger: logger ? boundedLogger(config.logLevel) : false,
+    ...frameworkErrorOptions(),
     bodyLimit: config.bodyLimitBytes,
     requestTimeout: config.requestTimeoutMs,
     genReqId: () => crypto.randomUUID(),
@@ -61,14 +67,22 @@ export const antisolarApp = fastifyPlugin(registerApp, { name: "antisolar", fast
 async function registerApp(app: FastifyInstance, { config }: AppPluginOptions): Promise<void> {
   await registerHardening(app, config);
   registerRefusedBodyDrain(app);
+  registerJsonBody(app);
 
   // JSON only: a text/plain body must be a 415, not parsed as a string.
   app.removeContentTypeParser("text/plain");
 
   const runtime = createKernelRuntime(config);
   const jobs = await createJobSystem(config, runtime, { onError: (err, job) => app.log.error({ err, job: job.id }, "job failed") });
+  // On close: event streams end first (they would hold the server open), then, once requests in flight have ended,
+  // a job this process runs itself (JOBS_IN_PROCESS) finishes or goes back to the queue before the grace is over.
+  let closeStartedAt = Date.now();
+  app.addHook("preClose", async () => {
+    closeStartedAt = Date.now();
+    jobs.endStreams();
+  });
   app.addHook("onClose", async () => {
-    await jobs.close();
+    await jobs.close(deadlines(config.shutdownGraceMs, closeStartedAt).abandonAt);
     await runtime.close();
   });
   const routes: RouteSpec[] = [
@@ -101,12 +115,14 @@ async function registerApp(app: FastifyInstance, { config }: AppPluginOptions): 
   await registerWeb(app);
 
   app.setNotFoundHandler((request, reply) => {
-    const err = new ClientError("not-found", `no route ${request.method} ${request.url.split("?")[0]}; see /docs`);
+    const err = new ClientError("not-found", `no route ${previewText(request.method, 20)} ${previewText(request.url.split("?")[0])}; see /docs`);
     reply.status(err.status).send(err.toBody(request.id));
   });
 
   app.setErrorHandler((error: FastifyError | ClientError, request, reply) => {
     if (error instanceof ClientError) {
+      // A dependency away (503): the body says how long to wait, and so does the header.
+      if (typeof error.details.retryAfterS === "number") reply.header("retry-after", String(error.details.retryAfterS));
       reply.status(error.status).send(error.toBody(request.id));
       return;
     }

@@ -2,7 +2,7 @@
 
 import type { ScatterRequest } from "../../schemas/scatter.js";
 import { angleCount, angleSamples } from "../../schemas/angles.js";
-import { waterIndex } from "../../lib/water/water-index.js";
+import { dropMedia } from "../../lib/water/drop-medium.js";
 import { mieCoefficients } from "../../lib/mie/coefficients.js";
 import { mieAmplitudes } from "../../lib/mie/amplitudes.js";
 import { mieEfficiencies } from "../../lib/mie/efficiencies.js";
@@ -34,9 +34,9 @@ function medium(body: ScatterRequest): Medium {
     };
   }
   const water = body.water ?? { temperatureC: 20, salinityPsu: 0 };
-  const idx = waterIndex({ wavelengthNm: body.wavelengthNm, ...water });
-  const nAir = idx.n / idx.nRelativeToAir;
-  return { mRe: idx.nRelativeToAir, mIm: idx.k, mediumWavelengthNm: body.wavelengthNm / nAir, source: idx.source };
+  const { media, source } = dropMedia(water, [body.wavelengthNm]);
+  const { mRe, mIm, nAir } = media[0];
+  return { mRe, mIm, mediumWavelengthNm: body.wavelengthNm / nAir, source };
 }
 
 export function scatterCost(body: ScatterRequest): { terms: number; angles: number; termAngles: number } {

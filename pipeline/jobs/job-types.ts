@@ -65,6 +65,11 @@ export function risingProgress(current: { fraction: number }, fraction: number):
   return Number.isFinite(fraction) && fraction > current.fraction;
 }
 
+/** Seconds left to a tenth of a second (finer is noise), or null. */
+export function roundedSeconds(seconds: number | null): number | null {
+  return seconds === null || !Number.isFinite(seconds) ? null : Math.round(seconds * 10) / 10;
+}
+
 export function isAbort(error: unknown, signal: AbortSignal): boolean {
   return signal.aborted || (error instanceof Error && (error.name === "AbortError" || /abort/i.test(error.message)));
 }
@@ -80,9 +85,9 @@ export function renderJob(registry: RendererRegistry, spec: JobSpec, deps: Rende
   return renderer.render(body, query, {
     ...deps,
     // Stages between kernel computations are checkpoints too: a cancelled job stops at the next one.
-    onProgress: (fraction, stage) => {
+    onProgress: (update) => {
       deps.signal?.throwIfAborted();
-      deps.onProgress?.(fraction, stage);
+      deps.onProgress?.(update);
     },
   });
 }

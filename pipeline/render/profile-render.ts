@@ -1,11 +1,16 @@
 import type { z } from "zod";
 import type { ProfileRequest } from "../../schemas/profile.js";
 import type { stripQuerySchema } from "../../schemas/formats.js";
-import { computeProfile, type ProfileResult } from "../compute/profile.js";
+import { computeProfile, PROFILE_STAGES, type ProfileResult } from "../compute/profile.js";
+import { angleCount } from "../../schemas/angles.js";
+import { ProgressMeter } from "../progress/progress-meter.js";
+import { COST_NS } from "../progress/work-costs.js";
 import { encodePngStrip } from "../encoders/png-strip.js";
 import { jsonOutput, headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
 import { profileSvg } from "../../lib/figures/profile-figure.js";
 import type { ProfileResponse } from "../../schemas/responses/profile-response.js";
+import { annotate, resolveProfileRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
+import type { SourcePositionMeta } from "../sky/source-position.js";
 
 export type StripQuery = z.output<typeof stripQuerySchema>;
 export type ProfileFormat = "json" | "png" | "png16" | "svg";
@@ -43,6 +48,7 @@ export function profileJson(result: ProfileResult): ProfileResponse {
 
 function describingHeaders(result: ProfileResult): Record<string, string> {
   return {
+    ...sourcePositionHeaders(result.meta.sourcePosition as SourcePositionMeta | undefined),
     "x-antisolar-hash": result.meta.hash,
     "x-antisolar-space": result.request.output.space,
     "x-antisolar-compute-ms": String(result.meta.computeMs),
@@ -51,10 +57,26 @@ function describingHeaders(result: ProfileResult): Record<string, string> {
   };
 }
 
-export async function renderProfile(body: ProfileRequest, format: ProfileFormat, query: StripQuery, deps: RenderDeps): Promise<RenderOutput> {
-  deps.onProgress?.(0, "kernels");
-  const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal });
-  deps.onProgress?.(1, "done");
+/** A profile's progress: its own stages, then the encoding of the answer (planned before the work starts). */
+export function profileProgress(body: ProfileRequest, format: ProfileFormat, deps: RenderDeps): ProgressMeter {
+  const meter = new ProgressMeter([...PROFILE_STAGES, "encoding"], deps.onProgress);
+  meter.plan("encoding", angleCount(body.angles) * (format === "png" || format === "png16" ? COST_NS.pngAngle : COST_NS.jsonAngle));
+  return meter;
+}
+
+export async function renderProfile(request: ProfileRequest, format: ProfileFormat, query: StripQuery, deps: RenderDeps): Promise<RenderOutput> {
+  const resolved = resolveProfileRequest(request);
+  const body = resolved.body;
+  const progress = profileProgress(body, format, deps);
+  const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask });
+  annotate(result.meta, resolved);
+  const output = await encodeProfile(result, body, format, query);
+  progress.complete("encoding");
+  progress.done();
+  return output;
+}
+
+async function encodeProfile(result: ProfileResult, body: ProfileRequest, format: ProfileFormat, query: StripQuery): Promise<RenderOutput> {
   if (format === "json") return jsonOutput(profileJson(result), { "x-antisolar-hash": result.meta.hash });
   if (format === "svg") {
     const sources = headerSafe(JSON.stringify(result.meta.sources));

@@ -8,8 +8,12 @@ export const clientErrorCodes = [
   "invalid-json",
   "unsupported-media-type",
   "body-too-large",
+  "headers-too-large",
+  "uri-too-long",
+  "request-timeout",
   "not-found",
   "too-costly",
+  "source-below-horizon",
   "not-acceptable",
   "rate-limited",
   "overloaded",
@@ -27,6 +31,11 @@ export const jobProgressSchema = z
   .strictObject({
     fraction: z.number().min(0).max(1).describe("0 to 1; never falls"),
     stage: z.string().describe("the step the render is at"),
+    secondsLeft: z
+      .number()
+      .nullable()
+      .optional()
+      .describe("estimated seconds left from the rate so far, (1 − f)·elapsed / (f − f₀); null until there is an estimate"),
   })
   .describe("progress of a job");
 

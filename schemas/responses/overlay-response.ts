@@ -1,3 +1,4 @@
+import { lightSourceFields, visionMetaSchema } from "./light-source-response.js";
 import { z } from "zod";
 import { cameraSchema, layerSchema, viewOutputSchema, imageQuerySchema } from "../view.js";
 import { bowsSchema, methodSummarySchema, radiiSummarySchema, sunSummarySchema, wavelengthsSummarySchema } from "./profile-response.js";
@@ -81,12 +82,14 @@ const overlayFields = {
     radii: radiiSummarySchema,
     sun: sunSummarySchema,
     water: z.string(),
+    vision: visionMetaSchema.optional(),
   }),
   hash: z.string(),
   cache: z.enum(["hit", "miss"]),
   computeMs: z.number(),
   sources: z.array(z.string()),
   warnings: z.array(z.string()),
+  ...lightSourceFields,
 };
 
 export const viewManifestSchema = z

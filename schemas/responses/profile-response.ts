@@ -1,3 +1,4 @@
+import { lightSourceFields, visionMetaSchema } from "./light-source-response.js";
 import { z } from "zod";
 import { outputSchema, profileMethods, profileRequestSchema } from "../profile.js";
 
@@ -69,6 +70,8 @@ export const profileMetaSchema = z
     hash: z.string().describe("content hash of the normalised request"),
     sources: z.array(z.string()).describe("published sources of the physics used"),
     warnings: z.array(z.string()),
+    vision: visionMetaSchema.optional(),
+    ...lightSourceFields,
   })
   .describe("how a profile was computed: engines, grids, units, cost, provenance");
 

@@ -135,6 +135,6 @@ describe("one bake: the CLI writes what the routes answer", () => {
     expect(unknown.stderr).toMatch(/antisolar bake <lut-request.json>/);
     const type = run(["bake", "x.json", "-o", "x.tiff"], join(dir, "cache"));
     expect(type.status).toBe(1);
-    expect(type.stderr).toMatch(/\.tiff.*\.exr, \.hdr, \.png, \.json/);
+    expect(type.stderr).toMatch(/\.tiff.*\.exr, \.ktx2, \.hdr, \.png, \.json/);
   });
 });
