@@ -30,7 +30,7 @@ export async function renderLut(request: LutRequest, query: LutQuery, deps: Rend
 export async function encodeLut(lut: SlicedLut, resolved: Resolved<LutRequest>, query: LutQuery): Promise<RenderOutput> {
   const body = resolved.body;
   const { manifest } = lut;
-  annotate(manifest as Record<string, unknown>, resolved);
+  annotate(manifest, resolved);
   const headers = { ...sourcePositionHeaders(resolved.sourcePosition), "x-antisolar-hash": manifest.hash };
   if (query.part === "manifest") return jsonOutput(manifest, headers);
   // Files without layers hold a time-of-day texture's slices stacked top to bottom (the manifest states it).
