@@ -97,7 +97,7 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
       tag: "jobs",
       summary: "A job's progress as server-sent events, ending with one final event",
       description:
-        "Each event's data is the job as GET /v1/jobs/:id gives it. `event: progress` while queued or running; the stream ends " +
+        "Each event's data is the job as GET /v1/jobs/:id gives it (schema `Job` in components.schemas). `event: progress` while queued or running; the stream ends " +
         "with `event: done`, `event: failed` or `event: cancelled`.",
       responses: { 200: { description: "the event stream", contentTypes: ["text/event-stream"] }, 404: { description: "no such job" } },
       handle: async ({ request, reply }) => streamEvents(await find(idOf(request)), reply),
