@@ -153,7 +153,10 @@ const lines = [
 // bench/load.ts keeps its own section between these markers: carry it over unchanged.
 const target = repoPath("BENCHMARKS.md");
 const previous = existsSync(target) ? readFileSync(target, "utf8") : "";
-const kept = /<!-- load:start -->[\s\S]*<!-- load:end -->/.exec(previous);
-if (kept) lines.push(kept[0], "");
+// bench/auto-presets.ts (minutes of full-Mie profiles) keeps its section the same way.
+for (const section of ["auto", "load"]) {
+  const kept = new RegExp(`<!-- ${section}:start -->[\\s\\S]*<!-- ${section}:end -->`).exec(previous);
+  if (kept) lines.push(kept[0], "");
+}
 writeFileSync(target, lines.join("\n"));
 console.log("wrote BENCHMARKS.md");
