@@ -8,7 +8,8 @@
 // test/pipeline/compute/auto-presets.test.ts reads: the measured error of auto's choice on each preset.
 
 import { pathToFileURL } from "node:url";
-import { mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import { mkdirSync, writeFileSync } from "node:fs";
+import { writeMarkedSection } from "./sections.js";
 import { cpus, loadavg } from "node:os";
 import { repoPath } from "../pipeline/config/resources.js";
 import { performance } from "node:perf_hooks";
@@ -108,7 +109,6 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
       })),
     };
     const table = [
-      "<!-- auto:start -->",
       "## `auto` against full Lorenz–Mie on the presets",
       "",
       `Written by \`node dist/bench/auto-presets.js --write\` (bench/auto-presets.ts), ${fixture.measured}; ${cpus()[0]?.model ?? "unknown CPU"}, ${cpus().length} cores, Node ${process.version};`,
@@ -122,12 +122,8 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
         (r) =>
           `| ${r.preset} | ${Number.isFinite(r.airyFromUm) ? r.airyFromUm.toFixed(0) : "– (all Mie)"} | ${r.worstDeltaE.toFixed(2)} | ${r.worstAtDeg === null ? "–" : r.worstAtDeg.toFixed(2)} | ${r.meanDeltaE.toFixed(3)} | ${r.mieMieTermAngles.toExponential(2)} | ${(r.mieColdMs / 1000).toFixed(1)} |`,
       ),
-      "<!-- auto:end -->",
-      "",
-    ].join("\n");
-    const target = repoPath("BENCHMARKS.md");
-    const previous = readFileSync(target, "utf8");
-    writeFileSync(target, /<!-- auto:start -->[\s\S]*<!-- auto:end -->\n/.test(previous) ? previous.replace(/<!-- auto:start -->[\s\S]*<!-- auto:end -->\n/, table) : previous.replace("<!-- mie:end -->\n", `<!-- mie:end -->\n\n${table}`));
+    ];
+    writeMarkedSection("auto", table);
     mkdirSync(repoPath("fixtures/auto-engine"), { recursive: true });
     writeFileSync(repoPath("fixtures/auto-engine/presets-vs-mie.json"), JSON.stringify(fixture, null, 2) + "\n");
   }

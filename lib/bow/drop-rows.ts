@@ -9,6 +9,7 @@ import { rayOpticsBins, type RayBins } from "./ray-bins.js";
 import { addUniformBowBins, uniformBowTable, type UniformBowTable } from "./airy-bins.js";
 import { AIRY_BOW_ORDERS, RAY_ORDERS, type DropEngine } from "./volume-scattering.js";
 import { cellSampleRadiusUm, type CellAverage } from "./cell-average.js";
+import type { DropMedium } from "../water/drop-medium.js";
 
 export type { CellAverage } from "./cell-average.js";
 
@@ -28,7 +29,7 @@ export interface DropRowContext {
 
 /** Θ ascending and evenly spaced by stepDeg (ray and Airy engines give bin means over each step). */
 export function dropRowContext(
-  medium: { wavelengthNm: number; mRe: number; mIm: number; nAir: number },
+  medium: DropMedium,
   thetaDeg: Float64Array,
   stepDeg: number,
   engines: ReadonlySet<DropEngine>,

@@ -5,9 +5,10 @@ import type { DropEngine } from "./volume-scattering.js";
 import { blockRange } from "./kernel-grid.js";
 import { rowVariant } from "./cell-average.js";
 import { dropRow, dropRowContext, mieRows, type CellAverage } from "./drop-rows.js";
+import type { DropMedium } from "../water/drop-medium.js";
 
 export interface KernelRowsInput {
-  medium: { wavelengthNm: number; mRe: number; mIm: number; nAir: number };
+  medium: DropMedium;
   h: number;
   items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage }[];
   /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
