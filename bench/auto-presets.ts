@@ -9,6 +9,7 @@
 
 import { pathToFileURL } from "node:url";
 import { mkdirSync, writeFileSync } from "node:fs";
+import { join } from "node:path";
 import { writeMarkedSection } from "./sections.js";
 import { cpus, loadavg } from "node:os";
 import { repoPath } from "../pipeline/config/resources.js";
@@ -124,7 +125,8 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
       ),
     ];
     writeMarkedSection("auto", table);
-    mkdirSync(repoPath("fixtures/auto-engine"), { recursive: true });
-    writeFileSync(repoPath("fixtures/auto-engine/presets-vs-mie.json"), JSON.stringify(fixture, null, 2) + "\n");
+    const folder = join(repoPath("fixtures"), "auto-engine");
+    mkdirSync(folder, { recursive: true });
+    writeFileSync(join(folder, "presets-vs-mie.json"), JSON.stringify(fixture, null, 2) + "\n");
   }
 }

@@ -45,7 +45,7 @@ export const sizeMapRequestSchema = z
       })
       .strict()
       .default({ fromNm: 380, toNm: 780, stepNm: 20 }),
-    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
+    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto: exact Lorenz–Mie within a budget of Mie work, Airy theory only for the largest drops beyond it"),
     output: outputSchema
       .pick({ gamut: true, white: true })
       .default({ gamut: "css4", white: "sun" })

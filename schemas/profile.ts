@@ -136,7 +136,7 @@ export const profileFieldsSchema = z
           ctx.addIssue({ code: "custom", path: ["stepNm"], message: "toNm − fromNm must be a whole number of steps" });
         }
       }),
-    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
+    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto: exact Lorenz–Mie within a budget of Mie work, Airy theory only for the largest drops beyond it"),
     mieSizesPerDecade: z
       .literal(["auto", ...RADIUS_DENSITIES])
       .default("auto")
