@@ -6,6 +6,7 @@ import { benchMie, mieKernelName } from "./mie.js";
 import { benchProfile, P1, P1_DISK, P2, P2_ONE_SIZE, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
 import { benchHttp } from "./http.js";
 import { repoPath } from "../pipeline/config/resources.js";
+import { keptSections } from "./sections.js";
 
 const quick = process.argv.includes("--quick");
 const machine = `${cpus()[0]?.model ?? "unknown CPU"}, ${cpus().length} cores, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}`;
@@ -120,10 +121,9 @@ const lines = [
   ),
   "",
 ];
-// bench/load.ts keeps its own section between these markers: carry it over unchanged.
+// bench/load.ts and bench/outage.ts keep their own sections between markers: carry them over unchanged.
 const target = repoPath("BENCHMARKS.md");
 const previous = existsSync(target) ? readFileSync(target, "utf8") : "";
-const kept = /<!-- load:start -->[\s\S]*<!-- load:end -->/.exec(previous);
-if (kept) lines.push(kept[0], "");
+for (const kept of keptSections(previous)) lines.push(kept, "");
 writeFileSync(target, lines.join("\n"));
 console.log("wrote BENCHMARKS.md");
