@@ -3,10 +3,9 @@
 // BENCHMARKS.md between <!-- load:start --> and <!-- load:end --> (the rest of the file is left as it is).
 import { fork, type ChildProcess } from "node:child_process";
 import { createRequire } from "node:module";
-import { cpus, totalmem } from "node:os";
 import { fileURLToPath } from "node:url";
 import { buildApp } from "../http/app.js";
-import { writeSection as writeBenchSection } from "./sections.js";
+import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
 
 const SECONDS_PER_SCENARIO = 10;
 const HEALTH_INTERVAL_MS = 100;
@@ -171,12 +170,10 @@ async function run(): Promise<void> {
 }
 
 function writeSection(rows: Row[]): void {
-  const machine = `${cpus()[0]?.model ?? "unknown CPU"}, ${cpus().length} cores, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}`;
-  const date = new Date().toISOString().slice(0, 16).replace("T", " ") + " UTC";
-  const file = writeBenchSection("load", [
+  writeMarkedSection("load", [
     "## HTTP load",
     "",
-    `Written by \`npm run load\` (bench/load.ts), ${date}; ${machine}. The server runs in a child process with its defaults`,
+    `Written by \`npm run load\` (bench/load.ts), ${benchDate()}; ${machineLine()}. The server runs in a child process with its defaults`,
     `(worker threads = cores, 512 MiB cache) except no rate limit and no disk cache; autocannon runs ${SECONDS_PER_SCENARIO} s per row from`,
     "the same machine (so client and server share the cores), while /healthz is polled every 100 ms.",
     "",
@@ -187,7 +184,6 @@ function writeSection(rows: Row[]): void {
         `| ${scenario.name} | ${scenario.connections} | ${result.requests.average.toFixed(1)} | ${result.latency.p50} | ${result.latency.p97_5} | ${result.latency.p99} | ${result.non2xx} | ${result.errors + result.timeouts} | ${health.worstMs.toFixed(1)} |`,
     ),
   ]);
-  console.log(`wrote the load section of ${file}`);
 }
 
 if (process.argv.includes("--serve")) await serve();

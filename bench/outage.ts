@@ -5,11 +5,11 @@
 // worker processes while Redis is away. Prints the figures and writes the "outage" section of BENCHMARKS.md.
 import { spawn, type ChildProcess } from "node:child_process";
 import { mkdtemp, rm } from "node:fs/promises";
-import { cpus, loadavg, tmpdir, totalmem } from "node:os";
+import { loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { ownRedis, redisServerPresent, type OwnRedis } from "./own-redis.js";
 import { freePort } from "./free-port.js";
-import { writeSection } from "./sections.js";
+import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
 import { repoPath } from "../pipeline/config/resources.js";
 
 /** Rounds of (healthy cold render, outage cold render): each render with its own water temperature, so always cold. */
@@ -215,8 +215,8 @@ process.once("exit", () => {
   for (const s of services) if (s.child.exitCode === null && s.child.signalCode === null) s.child.kill("SIGKILL");
 });
 
-const machine = `${cpus()[0]?.model ?? "unknown CPU"}, ${cpus().length} cores, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}`;
-const date = new Date().toISOString().slice(0, 16).replace("T", " ") + " UTC";
+const machine = machineLine();
+const date = benchDate();
 const loadBefore = loadavg()[0];
 console.log(`machine: ${machine}; load average ${loadBefore.toFixed(2)}`);
 
@@ -233,7 +233,7 @@ const tally = (outcomes: Outcome[]) => {
   for (const o of outcomes) counts.set(o, (counts.get(o) ?? 0) + 1);
   return [...counts].map(([o, n]) => `${n} ${o}`).join(", ");
 };
-const file = writeSection("outage", [
+writeMarkedSection("outage", [
   "## Redis outage",
   "",
   `Written by \`npm run bench:outage\` (bench/outage.ts), ${date}; ${machine}; one-minute load average ${loadBefore.toFixed(2)} at the`,
@@ -264,5 +264,4 @@ const file = writeSection("outage", [
   ...exits.map((e) => `| ${e.what} | ${e.seconds.toFixed(2)} | ${e.code} |`),
   "",
 ]);
-console.log(`wrote the outage section of ${file}`);
 process.exit(0);

@@ -5,6 +5,7 @@ import { buildOpenApi } from "./openapi.js";
 import { renderDocsPage } from "./docs-page.js";
 import type { RouteSpec } from "./route-spec.js";
 import { parseOrThrow } from "../pipeline/requests/parse-request.js";
+import { previewText } from "../pipeline/requests/preview.js";
 import { serviceRoutes } from "./routes/service.js";
 import { opticsRoutes } from "./routes/optics.js";
 import { profileRoutes } from "./routes/profile.js";
@@ -16,6 +17,9 @@ import { viewRoutes } from "./routes/view.js";
 import { registerWeb } from "./routes/web.js";
 import { registerHardening } from "./plugins/hardening.js";
 import { registerRefusedBodyDrain } from "./plugins/drain-refused-body.js";
+import { registerJsonBody } from "./plugins/json-body.js";
+import { frameworkErrorOptions } from "./plugins/framework-errors.js";
+import { boundedLogger } from "./plugins/bounded-logs.js";
 import { jobRoutes } from "./routes/jobs.js";
 import { createJobSystem } from "../pipeline/jobs/job-system.js";
 import { loadConfig, type Config } from "../pipeline/config/config.js";
@@ -30,7 +34,8 @@ export interface AppOptions {
 export async function buildApp(options: AppOptions = {}): Promise<FastifyInstance> {
   const config = { ...loadConfig(process.env), ...options.config };
   const app = Fastify({
-    logger: options.logger ? { level: config.logLevel } : false,
+    logger: options.logger ? boundedLogger(config.logLevel) : false,
+    ...frameworkErrorOptions(),
     bodyLimit: config.bodyLimitBytes,
     requestTimeout: config.requestTimeoutMs,
     genReqId: () => crypto.randomUUID(),
@@ -38,6 +43,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
 
   await registerHardening(app, config);
   registerRefusedBodyDrain(app);
+  registerJsonBody(app);
 
   // JSON only: a text/plain body must be a 415, not parsed as a string.
   app.removeContentTypeParser("text/plain");
@@ -85,7 +91,7 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   await registerWeb(app);
 
   app.setNotFoundHandler((request, reply) => {
-    const err = new ClientError("not-found", `no route ${request.method} ${request.url.split("?")[0]}; see /docs`);
+    const err = new ClientError("not-found", `no route ${previewText(request.method, 20)} ${previewText(request.url.split("?")[0])}; see /docs`);
     reply.status(err.status).send(err.toBody(request.id));
   });
 

@@ -22,7 +22,11 @@ export function parseRecord(fields: Record<string, string>): JobRecord | undefin
     id: fields.id,
     endpoint: fields.endpoint,
     state: fields.state as JobState,
-    progress: { fraction: Number(fields.fraction ?? 0), stage: fields.stage ?? "" },
+    progress: {
+      fraction: Number(fields.fraction ?? 0),
+      stage: fields.stage ?? "",
+      secondsLeft: fields.secondsLeft ? Number(fields.secondsLeft) : fields.state === "done" ? 0 : null,
+    },
     hash: fields.hash,
     reused: fields.reused === "1",
     createdAt: fields.createdAt,

@@ -10,7 +10,8 @@ import type { KernelService } from "../kernels/kernel-service.js";
 import type { JobConfig } from "./job-config.js";
 import type { RendererRegistry } from "./renderers.js";
 import { progressScript, redisKeys, transitionScript } from "./redis-keys.js";
-import { encodeOutput, failureMessage, isAbort, renderJob, workerName, type JobSpec } from "./job-types.js";
+import { encodeOutput, failureMessage, isAbort, renderJob, roundedSeconds, workerName, type JobSpec } from "./job-types.js";
+import { throttledProgress } from "../progress/throttled-progress.js";
 import type { QueuedJob } from "./redis-backend.js";
 import { closeRedis, reconnectDelayMs, within } from "../redis/connection.js";
 
@@ -83,6 +84,17 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
     const stopping = new AbortController();
     inHand.set(id, stopping);
     const abort = signal ? AbortSignal.any([signal, stopping.signal]) : stopping.signal;
+    // Rate-limited (throttled-progress.ts): at most ten writes a second to Redis per job.
+    let firstUpdate = true;
+    const progress = throttledProgress(({ fraction, stage, secondsLeft }) => {
+      if (firstUpdate) {
+        // Where this attempt starts: above 0 when rows of an earlier attempt were kept (a retry after a worker died).
+        log({ msg: "job progress", id, attempt: job.attemptsStarted, fraction });
+        firstUpdate = false;
+      }
+      const left = roundedSeconds(secondsLeft);
+      redis.eval(progressScript, 1, keys.record(id), String(fraction), stage, keys.events(id), left === null ? "" : String(left)).catch(() => undefined);
+    });
     try {
       if ((await redis.exists(keys.result(spec.hash))) === 1) {
         await redis.hset(keys.record(id), "reused", "1");
@@ -91,13 +103,12 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
           kernels,
           maxTermAngles,
           signal: abort,
-          onProgress: (fraction, stage) => {
-            redis.eval(progressScript, 1, keys.record(id), String(fraction), stage, keys.events(id)).catch(() => undefined);
-          },
+          onProgress: progress.listener,
+          saveEachTask: true,
         });
         await redis.set(keys.result(spec.hash), encodeOutput(output), "EX", config.jobResultTtlS);
       }
-      const final = await transition(id, "done", { finishedAt: new Date().toISOString(), fraction: "1", stage: "done" });
+      const final = await transition(id, "done", { finishedAt: new Date().toISOString(), fraction: "1", stage: "done", secondsLeft: "0" });
       // No record: Redis came back without its data (no persistence) while the job was being computed.
       log({ msg: final === null ? "job lost" : "job done", id, state: final, ms: Math.round(performance.now() - started) });
       return { state: final };
@@ -111,6 +122,7 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
       log({ msg: "job failed", id, error: String(error) });
       return { state: "failed" };
     } finally {
+      progress.stop();
       inHand.delete(id);
       if (inHand.size === 0) {
         for (const resolve of onDrained) resolve();

@@ -30,6 +30,7 @@ export function createKernelRuntime(
     // With both, the local folder stands in for Redis while Redis is away.
     disk: redis ? new RedisKernelStore(redis, config.redisPrefix ?? "antisolar", KERNEL_TTL_S, disk) : disk,
     compute: pool.compute,
+    parallelism: pool.threads,
   });
   return {
     kernels,
