@@ -16,7 +16,7 @@ import { profileJson } from "../pipeline/render/profile-render.js";
 import { encodeExr } from "../pipeline/encoders/exr.js";
 import { encodeRadianceHdr } from "../pipeline/encoders/radiance-hdr.js";
 import { encodePngImage, encodePngStrip } from "../pipeline/encoders/png-strip.js";
-import { spaceChromaticities } from "../pipeline/encoders/space-chromaticities.js";
+import { spacePrimaries } from "../lib/colour/primaries.js";
 import { createKernelRuntime } from "../pipeline/kernels/runtime.js";
 import { loadConfig } from "../pipeline/config/config.js";
 import { parseOrThrow } from "../pipeline/requests/parse-request.js";
@@ -65,18 +65,18 @@ async function bake(args: string[]): Promise<void> {
     let file: Buffer;
     if (ext === ".exr") {
       file = encodeExr({ width: lut.width, height: lut.height, channels: ["R", "G", "B", "A"], data: lut.rgba, pixelType: "half", compression: "zip",
-        chromaticities: request.space === "xyz-d65" ? undefined : spaceChromaticities(request.space), attributes: { "antisolar:space": request.space, "antisolar:hash": String(lut.manifest.hash) } });
+        chromaticities: request.space === "xyz-d65" ? undefined : spacePrimaries(request.space), attributes: { "antisolar:space": request.space, "antisolar:hash": String(lut.manifest.hash) } });
     } else if (ext === ".hdr") {
       const rgb = new Float32Array(lut.width * lut.height * 3);
       for (let p = 0; p < lut.width * lut.height; p++) rgb.set(lut.rgba.subarray(4 * p, 4 * p + 3), 3 * p);
-      const c = spaceChromaticities(request.space);
+      const c = spacePrimaries(request.space);
       file = encodeRadianceHdr({ width: lut.width, height: lut.height, data: rgb, primaries: [c.red, c.green, c.blue, c.white] });
     } else if (ext === ".png") {
       let peak = 0;
       lut.rgba.forEach((v, k) => (peak = k % 4 === 3 ? peak : Math.max(peak, v)));
       const scaled = Float32Array.from(lut.rgba, (v, k) => (k % 4 === 3 ? v : peak > 0 ? v / peak : 0));
       file = (await encodePngImage({ width: lut.width, height: lut.height, channels: 4, values: scaled, bitDepth: 16, space: request.space })).png;
-      lut.manifest.pngScale = `RGB were divided by ${peak} to fit PNG's 0..1`;
+      (lut.manifest as typeof lut.manifest & { pngScale?: string }).pngScale = `RGB were divided by ${peak} to fit PNG's 0..1`;
     } else if (ext === ".json") {
       file = Buffer.from(JSON.stringify({ manifest: lut.manifest, rgba: Array.from(lut.rgba) }));
     } else {

@@ -4,9 +4,9 @@ import { contentHash } from "../requests/content-hash.js";
 import type { ProfileRequest } from "../../schemas/profile.js";
 import { angleCount } from "../../schemas/angles.js";
 import { makeWavelengthGrid, wavelengthsNm } from "../../lib/spectra/grid.js";
-import { waterIndex } from "../../lib/water/water-index.js";
+import { dropMedia } from "../../lib/water/drop-medium.js";
 import type { DropSizeDistribution } from "../../lib/drops/distributions.js";
-import { fractionOfCrossSectionAbove } from "../../lib/drops/quadrature.js";
+import { fractionOfCrossSectionAbove, type RadiusQuadrature } from "../../lib/drops/quadrature.js";
 import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lattice-quadrature.js";
 import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { directSunlight } from "../../lib/bow/sunlight.js";
@@ -14,7 +14,6 @@ import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
 import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
 import { blocksOf, kernelStepFor } from "../../lib/bow/kernel-grid.js";
 import type { KernelService } from "../kernels/kernel-service.js";
-import type { Medium } from "../kernels/kernel-types.js";
 import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
 import { engineChooser, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
@@ -23,6 +22,7 @@ import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-de
 import type { CellAverage } from "../../lib/bow/cell-average.js";
 import type { WavelengthGrid } from "../../lib/spectra/grid.js";
 import { ClientError } from "../requests/client-error.js";
+import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
 import { COST_NS } from "../progress/work-costs.js";
 
@@ -37,10 +37,12 @@ export interface ProfileResult {
   /** XYZ of the direct sunlight on the rain (any scale): the white under white = "sun". */
   sunWhite: Xyz;
   grid: WavelengthGrid;
+  /** The drops on their radius nodes, computed once per request: the curtain's extinction reads them too. */
+  quadrature: RadiusQuadrature;
   spectral: SpectralProfile;
   colour: ColourProfile;
-  bows: { primaryDeg: number | null; secondaryDeg: number | null };
-  meta: Record<string, unknown>;
+  bows: Bows;
+  meta: ProfileMeta;
 }
 
 export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribution {
@@ -131,13 +133,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
   const wl = wavelengthsNm(grid);
-  const media: Medium[] = [];
-  let waterSource = "";
-  for (let l = 0; l < grid.count; l++) {
-    const idx = waterIndex({ wavelengthNm: wl[l], ...request.water });
-    media.push({ wavelengthNm: wl[l], mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir });
-    waterSource = idx.source;
-  }
+  const { media, source: waterSource } = dropMedia(request.water, wl);
   if (/extrapolated/i.test(waterSource)) warnings.push(`water index extrapolated: ${waterSource}`);
 
   const distribution = toDistribution(request.drops);
@@ -270,7 +266,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     warnings.push("with the sun above about 42° the primary bow lies below the horizon for an observer on flat ground");
   }
 
-  const meta = {
+  const meta: ProfileMeta = {
     method: { requested: request.method, engines: engineRanges },
     units: {
       anglesDeg: "degrees from the antisolar point",
@@ -308,21 +304,13 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     sources: profileSources(request),
     warnings,
   };
-  return { request, sunWhite, grid, spectral, colour, bows, meta };
+  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta };
 }
 
 function rgbUnits(request: ProfileRequest): string {
   const encoded = ["srgb", "display-p3", "rec2020"].includes(request.output.space);
   if (encoded) return `${request.output.space}, encoded (transfer function applied), 1 = the peak's luminance`;
   return request.output.normalise === "peak" ? `${request.output.space}, linear, relative to the peak` : `${request.output.space}, linear, cd/m²`;
-}
-
-interface EngineRange {
-  engine: DropEngine;
-  fromUm: number;
-  toUm: number;
-  nodes: number;
-  estimatedError?: string;
 }
 
 function summariseEngines(radiiUm: Float64Array, engine: (r: number) => DropEngine): EngineRange[] {

@@ -8,8 +8,9 @@ import type { RendererRegistry } from "./renderers.js";
 import { ClientError } from "../requests/client-error.js";
 import { KERNEL_VERSION } from "../kernels/kernel-service.js";
 import { packageVersion } from "../config/resources.js";
+import type { JobRecord, JobState } from "../../schemas/responses/job-response.js";
 
-export type JobState = "queued" | "running" | "done" | "failed" | "cancelled";
+export type { JobRecord, JobState } from "../../schemas/responses/job-response.js";
 export const terminalStates: readonly JobState[] = ["done", "failed", "cancelled"];
 
 /** A validated submission: the raw body and query as sent (each worker re-parses them) and their content hash. */
@@ -18,35 +19,6 @@ export interface JobSpec {
   body: unknown;
   query: unknown;
   hash: string;
-}
-
-export interface JobProgress {
-  fraction: number;
-  stage: string;
-  secondsLeft?: number | null;
-}
-
-export interface JobRecord {
-  id: string;
-  endpoint: string;
-  state: JobState;
-  /**
-   * fraction: of the work, measured (pipeline/progress/), never falling; stage: what runs now; secondsLeft: the
-   * estimate from the rate so far, null while there is none.
-   */
-  progress: JobProgress;
-  /** Content hash of endpoint, normalised body and query: identical requests share a result. */
-  hash: string;
-  /** True when the result was already there and nothing was rendered. */
-  reused: boolean;
-  createdAt: string;
-  startedAt?: string;
-  finishedAt?: string;
-  /** Times a worker started the job (above 1 after a worker died and the job was retried). */
-  attempts: number;
-  /** host:pid of the process that ran it last. */
-  worker?: string;
-  error?: string;
 }
 
 export interface JobBackend {

@@ -7,6 +7,8 @@ export function redisKeys(prefix: string) {
     events: (id: string) => `${prefix}:events:${id}`,
     eventsPattern: `${prefix}:events:*`,
     cancel: `${prefix}:cancel`,
+    /** When this Redis's data set began (set once): records of older jobs missing from it were lost with Redis's data. */
+    dataSince: `${prefix}:since`,
     queue: "jobs",
     bullPrefix: `${prefix}:bull`,
   };

@@ -2,11 +2,13 @@
 // (content-addressed packs), then computation in worker threads. Concurrent requests for the same kernel row
 // share one computation. A pack holds the rows of many drop radii for one wavelength, engine, step and block.
 
+import { simdArithmetic } from "../../lib/mie/simd-amplitudes.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { setMaxListeners } from "node:events";
 import { ByteLru } from "./byte-lru.js";
 import type { DiskStore } from "./disk-store.js";
-import type { KernelTask, KernelTaskResult, Medium } from "./kernel-types.js";
+import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
+import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
@@ -18,7 +20,7 @@ export type KernelCompute = (task: KernelTask, signal?: AbortSignal) => Promise<
 
 export interface KernelRequest {
   h: number;
-  media: Medium[];
+  media: DropMedium[];
   radiiUm: Float64Array;
   engines: DropEngine[];
   /** Per radius: Lorenz–Mie rows averaged over the node's radius cell (undefined: the node's own size). */
@@ -108,8 +110,9 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
 }
 
 /** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
-function packKey(m: Medium, variant: string, h: number, block: number): string {
-  return `v${KERNEL_VERSION}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
+function packKey(m: DropMedium, variant: string, h: number, block: number): string {
+  // Rows of the fused-arithmetic kernels (relaxed SIMD) differ from exact ones in the last bits: kept apart.
+  return `v${KERNEL_VERSION}${simdArithmetic === "fused" ? "f" : ""}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
 }
 
 export class KernelService {

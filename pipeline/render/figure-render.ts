@@ -14,7 +14,7 @@ import { ProgressMeter } from "../progress/progress-meter.js";
 export const SVG_CONTENT_TYPE = "image/svg+xml; charset=utf-8";
 
 function sourcesOf(result: ProfileResult): string[] {
-  return Array.isArray(result.meta.sources) ? result.meta.sources.map(String) : [];
+  return result.meta.sources;
 }
 
 /** The provenance every render carries (README, Using it): content hash and published sources, as headers. */
@@ -28,15 +28,14 @@ export async function renderChromaticityFigure(body: ProfileRequest, deps: Rende
   const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask });
   const sources = [...chromaticityFigureSources(body.observer), ...sourcesOf(result)];
   progress.done();
-  return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(chromaticitySvg(result), "utf8"), headers: figureHeaders(String(result.meta.hash), sources) };
+  return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(chromaticitySvg(result), "utf8"), headers: figureHeaders(result.meta.hash, sources) };
 }
 
 /** Engines over all rows, merged where neighbouring rows used the same one. */
 function mergedEngines(results: ProfileResult[]): { engine: string; fromUm: number; toUm: number }[] {
   const out: { engine: string; fromUm: number; toUm: number }[] = [];
   for (const r of results) {
-    const engines = (r.meta.method as { engines: { engine: string; fromUm: number; toUm: number }[] }).engines;
-    for (const e of engines) {
+    for (const e of r.meta.method.engines) {
       const last = out[out.length - 1];
       if (last && last.engine === e.engine) last.toUm = e.toUm;
       else out.push({ ...e });

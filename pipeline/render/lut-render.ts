@@ -4,7 +4,7 @@ import { computeLut, type Lut } from "../compute/lut.js";
 import { encodeExr } from "../encoders/exr.js";
 import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { encodePngImage } from "../encoders/png-strip.js";
-import { spaceChromaticities } from "../encoders/space-chromaticities.js";
+import { spacePrimaries } from "../../lib/colour/primaries.js";
 import { jsonOutput, type RenderDeps, type RenderOutput } from "./render-output.js";
 
 export type LutQuery = z.output<typeof lutQuerySchema>;
@@ -18,7 +18,7 @@ function rgbOnly(lut: Lut): Float32Array {
 export async function renderLut(body: LutRequest, query: LutQuery, deps: RenderDeps): Promise<RenderOutput> {
   const lut = await computeLut(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal }, deps.onProgress);
   const { manifest } = lut;
-  const headers = { "x-antisolar-hash": String(manifest.hash) };
+  const headers = { "x-antisolar-hash": manifest.hash };
   if (query.part === "manifest") return jsonOutput(manifest, headers);
   switch (query.format) {
     case "json": {
@@ -41,16 +41,16 @@ export async function renderLut(body: LutRequest, query: LutQuery, deps: RenderD
           data: lut.rgba,
           pixelType: query.pixelType,
           compression: "zip",
-          chromaticities: body.space === "xyz-d65" ? undefined : spaceChromaticities(body.space),
+          chromaticities: body.space === "xyz-d65" ? undefined : spacePrimaries(body.space),
           attributes: {
             comments: JSON.stringify({ u: manifest.u, v: manifest.v, scale: manifest.scale }).slice(0, 60_000),
             "antisolar:space": body.space,
-            "antisolar:hash": String(manifest.hash),
+            "antisolar:hash": manifest.hash,
           },
         }),
       };
     case "hdr": {
-      const c = spaceChromaticities(body.space);
+      const c = spacePrimaries(body.space);
       return {
         contentType: "image/vnd.radiance",
         headers: { ...headers, "x-antisolar-note": "Radiance RGBE has no alpha: the transmittance is in the manifest's v.transmittance" },

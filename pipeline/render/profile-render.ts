@@ -8,6 +8,7 @@ import { COST_NS } from "../progress/work-costs.js";
 import { encodePngStrip } from "../encoders/png-strip.js";
 import { jsonOutput, headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
 import { profileSvg } from "../../lib/figures/profile-figure.js";
+import type { ProfileResponse } from "../../schemas/responses/profile-response.js";
 
 export type StripQuery = z.output<typeof stripQuerySchema>;
 export type ProfileFormat = "json" | "png" | "png16" | "svg";
@@ -17,15 +18,15 @@ function round6(v: number): number {
   return Number.isFinite(v) ? Number(v.toPrecision(6)) : v;
 }
 
-function triples(values: Float64Array): number[][] {
-  const out: number[][] = [];
+function triples(values: Float64Array): [number, number, number][] {
+  const out: [number, number, number][] = [];
   for (let i = 0; i < values.length; i += 3) out.push([round6(values[i]), round6(values[i + 1]), round6(values[i + 2])]);
   return out;
 }
 
-export function profileJson(result: ProfileResult) {
+export function profileJson(result: ProfileResult): ProfileResponse {
   const { spectral, colour } = result;
-  const pairs: number[][] = [];
+  const pairs: [number, number][] = [];
   for (let i = 0; i < colour.chromaticity.length; i += 2) {
     pairs.push([round6(colour.chromaticity[i]), round6(colour.chromaticity[i + 1])]);
   }
@@ -45,7 +46,7 @@ export function profileJson(result: ProfileResult) {
 
 function describingHeaders(result: ProfileResult): Record<string, string> {
   return {
-    "x-antisolar-hash": String(result.meta.hash),
+    "x-antisolar-hash": result.meta.hash,
     "x-antisolar-space": result.request.output.space,
     "x-antisolar-compute-ms": String(result.meta.computeMs),
     "x-antisolar-bows": JSON.stringify(result.bows),
@@ -70,7 +71,7 @@ export async function renderProfile(body: ProfileRequest, format: ProfileFormat,
 }
 
 async function encodeProfile(result: ProfileResult, body: ProfileRequest, format: ProfileFormat, query: StripQuery): Promise<RenderOutput> {
-  if (format === "json") return jsonOutput(profileJson(result), { "x-antisolar-hash": String(result.meta.hash) });
+  if (format === "json") return jsonOutput(profileJson(result), { "x-antisolar-hash": result.meta.hash });
   if (format === "svg") {
     const sources = headerSafe(JSON.stringify(result.meta.sources));
     return { contentType: "image/svg+xml; charset=utf-8", body: Buffer.from(profileSvg(result), "utf8"), headers: { ...describingHeaders(result), "x-antisolar-sources": sources } };

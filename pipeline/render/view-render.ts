@@ -19,7 +19,7 @@ export async function renderOverlay(
   }
   const viewDeps = { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask };
   const prepared = endpoint === "view" ? await prepareView(body as ViewRequest, query.format, viewDeps) : await prepareSky(body as SkyRequest, query.format, viewDeps);
-  const m = prepared.manifest as { hash: string; scale: { meaning: string; factor: number }; output: { space: string }; computeMs: number; warnings: string[] };
+  const m = prepared.manifest;
   if (query.part === "manifest") {
     progress.done();
     return jsonOutput(prepared.manifest, { "x-antisolar-hash": m.hash });
