@@ -12,8 +12,9 @@ export async function renderOverlay(
   query: ImageQuery,
   deps: RenderDeps,
 ): Promise<RenderOutput> {
-  const progress = new ProgressMeter([...PROFILE_STAGES, "pixels"], deps.onProgress);
-  if (query.part !== "manifest") {
+  // Counted only when somebody listens (a job), as for profiles.
+  const progress = deps.onProgress ? new ProgressMeter([...PROFILE_STAGES, "pixels"], deps.onProgress) : undefined;
+  if (progress && query.part !== "manifest") {
     const { widthPx, heightPx } = endpoint === "view" ? (body as ViewRequest).camera : (body as SkyRequest);
     progress.plan("pixels", widthPx * heightPx * COST_NS.overlayPixel);
   }
@@ -21,12 +22,12 @@ export async function renderOverlay(
   const prepared = endpoint === "view" ? await prepareView(body as ViewRequest, query.format, viewDeps) : await prepareSky(body as SkyRequest, query.format, viewDeps);
   const m = prepared.manifest;
   if (query.part === "manifest") {
-    progress.done();
+    progress?.done();
     return jsonOutput(prepared.manifest, { "x-antisolar-hash": m.hash });
   }
   const file = await encodeOverlay(prepared, query.format);
-  progress.complete("pixels");
-  progress.done();
+  progress?.complete("pixels");
+  progress?.done();
   return {
     contentType: file.contentType,
     body: file.body,
