@@ -31,6 +31,8 @@ ${EYE_SAFETY_CAUTION}
   antisolar serve                                                       start the HTTP service (PORT, HOST)
 
 Request files use the same JSON as POST /v1/lut and POST /v1/profile; "-" reads standard input; {} gives defaults.
+The light may be given by a moment and a place ("sun": {"at": {"utc", "latitudeDeg", "longitudeDeg"}}) or be the
+moon ("moon": {...}), and "output": {"vision": "eye"} renders for the eye at the scene's light level, as in the service.
 Environment: WORKERS, CACHE_DIR, CACHE_BUDGET_MB as for the service.`;
 
 function argument(args: string[], flag: string): string | undefined {

@@ -56,7 +56,7 @@ export function buildOpenApi(routes: RouteSpec[], version: string): Record<strin
       tags: [route.tag],
       parameters: parameters.length ? parameters : undefined,
       requestBody: route.body
-        ? { required: false, content: { "application/json": { schema: toJsonSchema(route.body) } } }
+        ? { required: false, content: { "application/json": { schema: toJsonSchema(route.body), ...(route.examples ? { examples: route.examples } : {}) } } }
         : undefined,
       responses,
     };

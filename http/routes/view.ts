@@ -5,6 +5,7 @@ import { overlayHash } from "../../pipeline/compute/view.js";
 import { renderOverlay } from "../../pipeline/render/view-render.js";
 import { asCacheHit, type RenderOutput } from "../../pipeline/render/render-output.js";
 import { sendOutput } from "../send-output.js";
+import { viewExamples } from "./source-examples.js";
 import { clientSignal } from "../plugins/hardening.js";
 import type { Config } from "../../pipeline/config/config.js";
 import type { KernelService } from "../../pipeline/kernels/kernel-service.js";
@@ -13,7 +14,7 @@ import { ResultCache } from "../../pipeline/render/result-cache.js";
 const responses = {
   200: { description: "the layer, or its JSON manifest with ?part=manifest", contentTypes: ["image/x-exr", "image/vnd.radiance", "image/png", "application/json"] },
   400: { description: "a field out of range" },
-  422: { description: "valid, but costlier than the synchronous budget" },
+  422: { description: "valid, but costlier than the synchronous budget (too-costly), or the light source is below the horizon at the moment given (source-below-horizon)" },
 };
 
 /** POST /v1/view (camera) and POST /v1/sky (equirectangular map): bow layers for compositing. */
@@ -43,6 +44,7 @@ export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] 
         "90° wide, looking at the antisolar azimuth 15° up, sun 12° high behind the camera. Default EXR (half, ZIP, RGBA premultiplied); " +
         "?format=hdr|png16|png; ?part=manifest for the JSON sidecar (camera, mapping, scale, hash, sources).",
       body: viewRequestSchema,
+      examples: viewExamples,
       query: imageQuerySchema,
       responses,
       handle: async ({ body, query, reply }) => answer("view", body, query, reply),

@@ -58,4 +58,29 @@ describe("antisolar CLI", () => {
       rmSync(dir, { recursive: true, force: true });
     }
   });
+
+  it("renders the moon by place and time with its sourcePosition, and refuses a moment with the sun down (exit 1)", () => {
+    const dir = mkdtempSync(join(tmpdir(), "antisolar-cli-"));
+    try {
+      // An invented lake at 61.1° N 24.6° E; the full moon of 2026-03-03 stands about 31° high at 22:00 UTC.
+      const place = { latitudeDeg: 61.1, longitudeDeg: 24.6 };
+      const request = join(dir, "moon.json");
+      writeFileSync(request, JSON.stringify({ moon: { at: { utc: "2026-03-03T22:00:00Z", ...place } }, spectral: { fromNm: 380, toNm: 780, stepNm: 20 }, output: { vision: "eye" } }));
+      const rendered = run(["render", request, "-o", join(dir, "moon.json.out.json")], join(dir, "cache"));
+      expect(rendered.status, rendered.stderr).toBe(0);
+      const profile = JSON.parse(readFileSync(join(dir, "moon.json.out.json"), "utf8"));
+      expect(profile.meta.sourcePosition.source).toBe("moon");
+      expect(profile.meta.sourcePosition.elevationDeg).toBeGreaterThan(25);
+      expect(profile.meta.vision.mode).toBe("eye");
+
+      const night = join(dir, "night.json");
+      writeFileSync(night, JSON.stringify({ sun: { at: { utc: "2026-03-03T22:00:00Z", ...place } } }));
+      const refused = run(["render", night, "-o", join(dir, "night.out.json")], join(dir, "cache"));
+      expect(refused.status).toBe(1);
+      expect(refused.stderr).toMatch(/sun\.at\.utc/);
+      expect(refused.stderr).toMatch(/below the horizon/);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
 });
