@@ -11,11 +11,13 @@ import type { Config } from "../../pipeline/config/config.js";
 import type { KernelService } from "../../pipeline/kernels/kernel-service.js";
 import { ResultCache } from "../../pipeline/render/result-cache.js";
 
-const responses = {
-  200: { description: "the layer, or its JSON manifest with ?part=manifest", contentTypes: ["image/x-exr", "image/vnd.radiance", "image/png", "application/json"] },
-  400: { description: "a field out of range" },
-  422: { description: "valid, but costlier than the synchronous budget (too-costly), or the light source is below the horizon at the moment given (source-below-horizon)" },
-};
+function responses(manifest: "ViewManifest" | "SkyManifest") {
+  return {
+    200: { description: "the layer, or its JSON manifest with ?part=manifest", contentTypes: ["image/x-exr", "image/vnd.radiance", "image/png", "application/json"], json: manifest },
+    400: { description: "a field out of range" },
+    422: { description: "valid, but costlier than the synchronous budget (too-costly), or the light source is below the horizon at the moment given (source-below-horizon)" },
+  };
+}
 
 /** POST /v1/view (camera) and POST /v1/sky (equirectangular map): bow layers for compositing. */
 export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] {
@@ -46,7 +48,7 @@ export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] 
       body: viewRequestSchema,
       examples: viewExamples,
       query: imageQuerySchema,
-      responses,
+      responses: responses("ViewManifest"),
       handle: async ({ body, query, reply }) => answer("view", body, query, reply),
     }),
     defineRoute({
@@ -59,7 +61,7 @@ export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] 
         "`{}` renders 2048×1024 with the sun at azimuth 240°, 12° high. Same layers, formats and manifest as POST /v1/view.",
       body: skyRequestSchema,
       query: imageQuerySchema,
-      responses,
+      responses: responses("SkyManifest"),
       handle: async ({ body, query, reply }) => answer("sky", body, query, reply),
     }),
   ];

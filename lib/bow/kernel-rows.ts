@@ -4,10 +4,11 @@
 import type { DropEngine } from "./volume-scattering.js";
 import { blockRange } from "./kernel-grid.js";
 import { rowVariant } from "./cell-average.js";
-import { dropRow, dropRowContext, type CellAverage } from "./drop-rows.js";
+import { dropRow, dropRowContext, mieRows, type CellAverage } from "./drop-rows.js";
+import type { DropMedium } from "../water/drop-medium.js";
 
 export interface KernelRowsInput {
-  medium: { wavelengthNm: number; mRe: number; mIm: number; nAir: number };
+  medium: DropMedium;
   h: number;
   items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage }[];
   /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
@@ -58,9 +59,17 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
     entry.buffer = new Float64Array(entry.used);
     entry.used = 0;
   }
-  let mieTermAngles = 0;
+  // Lorenz–Mie drops all at once (the angular functions shared among them), the other engines drop by drop.
+  const mieIndices = items.flatMap((item, index) => (item.engine === "mie" ? [index] : []));
+  const mie = mieRows(ctx, mieIndices.map((i) => items[i]));
+  const mieRowOf = new Map(mieIndices.map((item, k) => [item, mie.rows[k]]));
+  let mieTermAngles = mie.termAngles;
   const rows = items.map((item, index) => {
-    mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
+    const computed = mieRowOf.get(index);
+    if (computed) {
+      perp.set(computed.perp);
+      par.set(computed.par);
+    } else mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
     return item.blocks.map((b) => {
       const at = positions.get(b)!;
       const count = at.length;

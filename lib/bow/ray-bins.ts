@@ -85,7 +85,8 @@ function segmentGeometry(n: number): typeof geometry {
   return geometry;
 }
 
-/** Spreads energy uniformly over the angle interval [a, b] into the bins it overlaps. */
+/** Spreads energy uniformly over the angle interval [a, b] (degrees) into the bins it overlaps. */
+export { deposit as depositOverInterval };
 function deposit(bins: Float64Array, energy: number, a: number, b: number, firstEdgeDeg: number, stepDeg: number): void {
   if (energy === 0) return;
   const lo = Math.min(a, b);

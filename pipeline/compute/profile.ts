@@ -4,9 +4,9 @@ import { contentHash } from "../requests/content-hash.js";
 import type { ProfileRequest } from "../../schemas/profile.js";
 import { angleCount } from "../../schemas/angles.js";
 import { makeWavelengthGrid, wavelengthsNm } from "../../lib/spectra/grid.js";
-import { waterIndex } from "../../lib/water/water-index.js";
+import { dropMedia } from "../../lib/water/drop-medium.js";
 import type { DropSizeDistribution } from "../../lib/drops/distributions.js";
-import { fractionOfCrossSectionAbove } from "../../lib/drops/quadrature.js";
+import { fractionOfCrossSectionAbove, type RadiusQuadrature } from "../../lib/drops/quadrature.js";
 import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lattice-quadrature.js";
 import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { directSunlight } from "../../lib/bow/sunlight.js";
@@ -14,7 +14,6 @@ import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
 import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
 import { blocksOf, kernelStepFor } from "../../lib/bow/kernel-grid.js";
 import type { KernelService } from "../kernels/kernel-service.js";
-import type { Medium } from "../kernels/kernel-types.js";
 import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
 import { engineChooser, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
@@ -23,6 +22,12 @@ import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-de
 import type { CellAverage } from "../../lib/bow/cell-average.js";
 import type { WavelengthGrid } from "../../lib/spectra/grid.js";
 import { ClientError } from "../requests/client-error.js";
+import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
+import type { ProgressMeter } from "../progress/progress-meter.js";
+import { COST_NS } from "../progress/work-costs.js";
+
+/** The stages of a profile's progress, in order (a render adds its encoding after them: PROFILE_RENDER_STAGES). */
+export const PROFILE_STAGES = ["kernels", "spectral", "colour"] as const;
 import { sceneEyeAdaptation } from "../../lib/colour/low-light-vision.js";
 import { visionMeta } from "./vision-meta.js";
 
@@ -34,10 +39,12 @@ export interface ProfileResult {
   /** XYZ of the direct sunlight on the rain (any scale): the white under white = "sun". */
   sunWhite: Xyz;
   grid: WavelengthGrid;
+  /** The drops on their radius nodes, computed once per request: the curtain's extinction reads them too. */
+  quadrature: RadiusQuadrature;
   spectral: SpectralProfile;
   colour: ColourProfile;
-  bows: { primaryDeg: number | null; secondaryDeg: number | null };
-  meta: Record<string, unknown>;
+  bows: Bows;
+  meta: ProfileMeta;
 }
 
 export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribution {
@@ -96,6 +103,10 @@ export interface ProfileDeps {
   kernels: KernelService;
   limits: ProfileLimits;
   signal?: AbortSignal;
+  /** Told of the work as it is done; it must have the PROFILE_STAGES. */
+  progress?: ProgressMeter;
+  /** Keep each kernel task's rows in the second tier at once (background jobs: a retry resumes from them). */
+  saveEachTask?: boolean;
 }
 
 /** Numerical resolution beyond the request, for convergence studies; the defaults are what the service uses. */
@@ -124,13 +135,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
   const wl = wavelengthsNm(grid);
-  const media: Medium[] = [];
-  let waterSource = "";
-  for (let l = 0; l < grid.count; l++) {
-    const idx = waterIndex({ wavelengthNm: wl[l], ...request.water });
-    media.push({ wavelengthNm: wl[l], mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir });
-    waterSource = idx.source;
-  }
+  const { media, source: waterSource } = dropMedia(request.water, wl);
   if (/extrapolated/i.test(waterSource)) warnings.push(`water index extrapolated: ${waterSource}`);
 
   const distribution = toDistribution(request.drops);
@@ -196,8 +201,27 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const sun = sunlightFor(request, grid);
 
   const engines = Array.from(quadrature.radiiUm, engine);
+  const progress = deps.progress;
+  // The sum over drops and the sun's disc, per wavelength (lattice-profile.ts), and the colour of every output angle.
+  const spanSamples = span.last - span.first + 1;
+  const discSamples = Math.ceil(request.sun.discDeg / h) + 1;
+  const spectralNsPerWavelength = spanSamples * (quadrature.weights.filter((w) => w !== 0).length * COST_NS.sumSample + discSamples * COST_NS.discSample);
+  progress?.plan("spectral", grid.count * spectralNsPerWavelength);
+  progress?.plan("colour", grid.count * count * COST_NS.colourSample);
   const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, averages, blocks, within: { first: span.first, last: span.last } }, deps.signal);
+  const rows = await deps.kernels.rows(
+    { h, media, radiiUm: quadrature.radiiUm, engines, averages, blocks, within: { first: span.first, last: span.last } },
+    deps.signal,
+    {
+      saveEachTask: deps.saveEachTask,
+      onRows: progress
+        ? (doneNs, totalNs, found) => {
+            progress.plan("kernels", totalNs);
+            progress.advance("kernels", doneNs, { found });
+          }
+        : undefined,
+    },
+  );
   const kernelMs = performance.now() - kernelStarted;
   const steps = latticeProfileSteps({
     angles,
@@ -210,7 +234,9 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     pathLengthM: request.pathLengthM,
   });
   let step = steps.next();
+  let wavelengthsDone = 0;
   while (!step.done) {
+    progress?.advance("spectral", ++wavelengthsDone * spectralNsPerWavelength);
     await new Promise<void>((resolve) => setImmediate(resolve));
     step = steps.next();
   }
@@ -231,6 +257,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     eye,
   });
   const bows = findBows(spectral.anglesDeg, colour.luminance);
+  progress?.complete("colour");
 
   const engineRanges = summariseEngines(quadrature.radiiUm, engine);
   if (request.method === "airy" && quadrature.radiiUm[0] < AUTO_AIRY_FROM_RADIUS_UM) {
@@ -243,7 +270,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     warnings.push("with the sun above about 42° the primary bow lies below the horizon for an observer on flat ground");
   }
 
-  const meta = {
+  const meta: ProfileMeta = {
     method: { requested: request.method, engines: engineRanges },
     units: {
       anglesDeg: "degrees from the antisolar point",
@@ -282,21 +309,13 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     sources: profileSources(request),
     warnings,
   };
-  return { request, sunWhite, grid, spectral, colour, bows, meta };
+  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta };
 }
 
 function rgbUnits(request: ProfileRequest): string {
   const encoded = ["srgb", "display-p3", "rec2020"].includes(request.output.space);
   if (encoded) return `${request.output.space}, encoded (transfer function applied), 1 = the peak's luminance`;
   return request.output.normalise === "peak" ? `${request.output.space}, linear, relative to the peak` : `${request.output.space}, linear, cd/m²`;
-}
-
-interface EngineRange {
-  engine: DropEngine;
-  fromUm: number;
-  toUm: number;
-  nodes: number;
-  estimatedError?: string;
 }
 
 function summariseEngines(radiiUm: Float64Array, engine: (r: number) => DropEngine): EngineRange[] {

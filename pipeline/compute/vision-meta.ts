@@ -1,12 +1,16 @@
 import type { EyeAdaptation } from "../../lib/colour/low-light-vision.js";
 import { SCOTOPIC_CHROMATICITY } from "../../lib/colour/low-light-vision.js";
+import type { z } from "zod";
+import type { visionMetaSchema } from "../../schemas/responses/light-source-response.js";
+
+export type VisionMeta = z.infer<typeof visionMetaSchema>;
 
 /** What an answer states about the vision it was rendered for. */
-export function visionMeta(eye: EyeAdaptation | undefined): Record<string, unknown> {
-  if (!eye) return { mode: "camera", note: "colorimetric: CIE XYZ of the light, as a camera records it" };
+export function visionMeta(eye: EyeAdaptation | undefined): VisionMeta {
+  if (!eye) return { mode: "camera" as const, note: "colorimetric: CIE XYZ of the light, as a camera records it" };
   const round = (v: number) => Number(v.toPrecision(6));
   return {
-    mode: "eye",
+    mode: "eye" as const,
     adaptingLuminanceCdPerM2: round(eye.adaptingPhotopicCdPerM2),
     adaptingScotopicCdPerM2: round(eye.adaptingScotopicCdPerM2),
     adaptationCoefficientM: round(eye.m),

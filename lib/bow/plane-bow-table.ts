@@ -1,0 +1,294 @@
+// The bow of one order in one scattering half-plane of a drop of any shape, in the uniform caustic form of
+// lib/bow/airy-bins.ts (Chester, Friedman & Ursell 1957; Berry & Mount 1972 §5). Airy's theory extended to
+// non-spherical drops: the wavefront of each scattering plane is taken with its own caustic angle Θ_R and its own
+// cubic coefficient, as in Möbius (1910, Ann. Phys. 338, 1493, spheroids; from memory) and Können (1987, J. Opt.
+// Soc. Am. A 4, 810, flattened raindrops; from memory). Here nothing is expanded by hand: the two rays of the
+// fold are traced in 3D (lib/rays/plane-sweep.ts), their amplitudes come from the traced Jacobian and their
+// phase difference from the traced optical paths, so the sphere's table is reproduced exactly in the limit.
+//
+// With the fold parametrised by the pupil abscissa u: Θ(u) ≈ Θ_R ± ½Θ″(u − u_R)², the exit ray's offset s(u)
+// (Hamilton: dW/dΘ = ±s, Born & Wolf 1999 §3.1 characteristic function, from memory) and the amplitude per unit
+// √(pupil width) Ã = A/√|∂Y/∂v|; in the variable s the sphere's formulas hold (b is both pupil and offset there):
+//   ξ per radian κ = |s′|^{2/3}(2/|Θ″|)^{1/3},  C = 4π·2^{−1/3}·Ã²·|s′|^{1/3}/|Θ″|^{2/3},
+//   D = 4π·2^{1/3}·Ã′²·|s′|^{−1/3}/|Θ″|^{4/3}   (sphere: s′ = 1, Ã² = ε²b/sinΘ, lib/rays/airy-bow.ts).
+
+import type { PlaneRay, PlaneSweep, PlaneTracer } from "../rays/plane-sweep.js";
+import type { UniformBowTable } from "./airy-bins.js";
+import { deviationRad, rainbowImpactParameter, scatteringAngleOfDeviation } from "../rays/descartes.js";
+
+const DEG = Math.PI / 180;
+/** Golden-section steps for the rainbow ray: 0.618⁶⁰ of a sample spacing pins u_R far below rounding of Θ. */
+const GOLDEN_STEPS = 60;
+/** Step (units of a) of the differences for Θ″, s′ and Ã′ at the rainbow ray (error ~ step² ≈ 1e-6 relative). */
+const FOLD_STEP = 1e-3;
+/** Roots are refined until Θ is within this of the target (radians): a phase error x·s·1e-13 ≪ 1 for x < 1e6. */
+const ROOT_TOLERANCE_RAD = 1e-13;
+const ROOT_STEPS = 60;
+
+export interface PlaneFold {
+  uR: number;
+  vR: number;
+  thetaR: number;
+  /** True when the lit side (two rays) is Θ > Θ_R. */
+  litAbove: boolean;
+  /** Sweep samples of the two monotone pieces beside the fold: [first, last] index, inclusive. */
+  inner: [number, number];
+  outer: [number, number];
+}
+
+/** Θ in the half-plane (radians, positive), NaN where the sample is not in it. */
+function sideTheta(sweep: PlaneSweep, side: 1 | -1): Float64Array {
+  return sweep.thetaSigned.map((t, s) => (sweep.ok[s] && side * t > 0 ? side * t : Number.NaN));
+}
+
+/**
+ * The fold of the sweep's half-plane whose angle is nearest nearRad (the sphere's bow angle for this order): a
+ * flattened or tilted drop can have further folds (near the backward direction, or where the sphere's bow splits),
+ * whose light stays ray optics (bin means, finite); null if the order has no fold there.
+ */
+export function findFold(tracer: PlaneTracer, sweep: PlaneSweep, side: 1 | -1, nearRad: number): PlaneFold | null {
+  const t = sideTheta(sweep, side);
+  const joined = (s: number) => !Number.isNaN(t[s]) && !Number.isNaN(t[s + 1]) && Math.abs(t[s + 1] - t[s]) < Math.PI / 2;
+  let best = -1;
+  for (let s = 1; s + 1 < t.length; s++) {
+    if (!joined(s - 1) || !joined(s)) continue;
+    if ((t[s] - t[s - 1]) * (t[s + 1] - t[s]) < 0 && (best < 0 || Math.abs(t[s] - nearRad) < Math.abs(t[best] - nearRad))) best = s;
+  }
+  if (best < 0) return null;
+  const isMin = t[best] < t[best - 1];
+  const p = sweep.order;
+  const thetaAt = (u: number) => {
+    const ray = tracer.planeRay(u, sweep.v[best], p);
+    return ray === null ? Number.NaN : side * ray.thetaSigned;
+  };
+  // Golden-section search for the extremum of Θ(u) between the neighbouring samples (Press et al. 2007 §10.2).
+  let a = sweep.u[best - 1];
+  let b = sweep.u[best + 1];
+  const g = (Math.sqrt(5) - 1) / 2;
+  const score = (u: number) => (isMin ? thetaAt(u) : -thetaAt(u));
+  let c = b - g * (b - a);
+  let d = a + g * (b - a);
+  let fc = score(c);
+  let fd = score(d);
+  for (let it = 0; it < GOLDEN_STEPS; it++) {
+    if (fc < fd) {
+      b = d;
+      d = c;
+      fd = fc;
+      c = b - g * (b - a);
+      fc = score(c);
+    } else {
+      a = c;
+      c = d;
+      fc = fd;
+      d = a + g * (b - a);
+      fd = score(d);
+    }
+  }
+  const uR = 0.5 * (a + b);
+  const ray = tracer.planeRay(uR, sweep.v[best], p);
+  if (ray === null) return null;
+  // The monotone pieces on each side, walking away from the fold until Θ turns again or the run breaks.
+  const direction = (s: number) => Math.sign(t[s + 1] - t[s]);
+  const leftDir = direction(best - 1);
+  let first = best - 1;
+  while (first - 1 >= 0 && joined(first - 1) && direction(first - 1) === leftDir) first--;
+  const rightDir = direction(best);
+  let last = best + 1;
+  while (last + 1 < t.length && joined(last) && direction(last) === rightDir) last++;
+  // Sample `best` lies on one side of u_R; each piece keeps its own samples (u ascending with the index).
+  const bestIsLeft = sweep.u[best] < uR;
+  return {
+    uR,
+    vR: ray.v,
+    thetaR: side * ray.thetaSigned,
+    litAbove: isMin,
+    inner: [first, bestIsLeft ? best : best - 1],
+    outer: [bestIsLeft ? best + 1 : best, last],
+  };
+}
+
+interface FoldConstants {
+  kappa: number;
+  cPerp: number;
+  cPar: number;
+  dPerp: number;
+  dPar: number;
+}
+
+function foldConstants(tracer: PlaneTracer, fold: PlaneFold, p: number): FoldConstants | null {
+  const h = FOLD_STEP;
+  const rays = [fold.uR - h, fold.uR, fold.uR + h].map((u) => tracer.planeRay(u, fold.vR, p));
+  if (rays.some((r) => r === null)) return null;
+  const [lo, mid, hi] = rays as PlaneRay[];
+  const curvature = Math.abs((lo.thetaSigned + hi.thetaSigned - 2 * mid.thetaSigned) / (h * h));
+  const offsetSlope = Math.abs((hi.offset - lo.offset) / (2 * h));
+  const tilde = (r: PlaneRay, amp: number) => amp / Math.sqrt(Math.abs(r.yv));
+  const aPerp = tilde(mid, mid.ampPerp);
+  const aPar = tilde(mid, mid.ampPar);
+  const slopePerp = (tilde(hi, hi.ampPerp) - tilde(lo, lo.ampPerp)) / (2 * h);
+  const slopePar = (tilde(hi, hi.ampPar) - tilde(lo, lo.ampPar)) / (2 * h);
+  const cScale = (4 * Math.PI * 2 ** (-1 / 3) * offsetSlope ** (1 / 3)) / curvature ** (2 / 3);
+  const dScale = (4 * Math.PI * 2 ** (1 / 3)) / (offsetSlope ** (1 / 3) * curvature ** (4 / 3));
+  return {
+    kappa: offsetSlope ** (2 / 3) * Math.cbrt(2 / curvature),
+    cPerp: cScale * aPerp * aPerp,
+    cPar: cScale * aPar * aPar,
+    dPerp: dScale * slopePerp * slopePerp,
+    dPar: dScale * slopePar * slopePar,
+  };
+}
+
+/** The ray of the piece [first, last] (plus the fold's end) reaching Θ = target, refined; null if the piece does not reach it. */
+function rootInPiece(
+  tracer: PlaneTracer,
+  sweep: PlaneSweep,
+  side: 1 | -1,
+  fold: PlaneFold,
+  piece: [number, number],
+  atFoldEnd: "first" | "last",
+  target: number,
+): PlaneRay | null {
+  const p = sweep.order;
+  // Nodes of the piece in index order, with the fold itself at its end.
+  const us: number[] = [];
+  const vs: number[] = [];
+  const ts: number[] = [];
+  if (atFoldEnd === "first") {
+    us.push(fold.uR);
+    vs.push(fold.vR);
+    ts.push(fold.thetaR);
+  }
+  for (let s = piece[0]; s <= piece[1]; s++) {
+    us.push(sweep.u[s]);
+    vs.push(sweep.v[s]);
+    ts.push(side * sweep.thetaSigned[s]);
+  }
+  if (atFoldEnd === "last") {
+    us.push(fold.uR);
+    vs.push(fold.vR);
+    ts.push(fold.thetaR);
+  }
+  // Θ is monotone along the piece: bisect the nodes for the bracketing pair.
+  const rising = ts[ts.length - 1] > ts[0];
+  const lowT = rising ? ts[0] : ts[ts.length - 1];
+  const highT = rising ? ts[ts.length - 1] : ts[0];
+  if (!(target >= lowT && target <= highT)) return null;
+  let i = 0;
+  let j = ts.length - 1;
+  while (j - i > 1) {
+    const m = (i + j) >> 1;
+    if (ts[m] < target === rising) i = m;
+    else j = m;
+  }
+  // Illinois regula falsi between the bracketing nodes (Press et al. 2007 §9.2).
+  let ua = us[i];
+  let fa = ts[i] - target;
+  let ub = us[j];
+  let fb = ts[j] - target;
+  let vGuess = vs[i];
+  let keep = 0;
+  let u = ua;
+  for (let it = 0; it < ROOT_STEPS; it++) {
+    u = fb === fa ? 0.5 * (ua + ub) : ub - (fb * (ub - ua)) / (fb - fa);
+    if (!(u > Math.min(ua, ub) && u < Math.max(ua, ub))) u = 0.5 * (ua + ub);
+    const ray = tracer.planeRay(u, vGuess, p);
+    if (ray === null) return null;
+    vGuess = ray.v;
+    const f = side * ray.thetaSigned - target;
+    if (Math.abs(f) < ROOT_TOLERANCE_RAD || Math.abs(ub - ua) < 1e-15) break;
+    if (f * fb < 0) {
+      ua = ub;
+      fa = fb;
+      keep = 0;
+    } else if (++keep >= 1) {
+      fa *= 0.5;
+    }
+    ub = u;
+    fb = f;
+  }
+  return tracer.planeRay(u, vGuess, p, true);
+}
+
+/**
+ * The uniform bow table of one order in one half-plane on bins of width stepDeg centred on thetaDeg, with the
+ * segments of the fold's two pieces marked in `pairSegments` (their light is in the table; the other segments of
+ * the order are the caller's, as ray optics). Null when the order has no fold in this half-plane.
+ */
+export function planeBowTable(
+  tracer: PlaneTracer,
+  sweep: PlaneSweep,
+  side: 1 | -1,
+  thetaDeg: Float64Array,
+  stepDeg: number,
+): { table: UniformBowTable; pairSegments: Uint8Array; fold: PlaneFold } | null {
+  const descartes = rainbowImpactParameter(tracer.setup.n, sweep.order - 1);
+  if (descartes === null) return null;
+  const nearRad = scatteringAngleOfDeviation(deviationRad(tracer.setup.n, sweep.order - 1, descartes)).angle;
+  const fold = findFold(tracer, sweep, side, nearRad);
+  if (fold === null) return null;
+  const constants = foldConstants(tracer, fold, sweep.order);
+  if (constants === null) return null;
+  const count = thetaDeg.length;
+  const pairSegments = new Uint8Array(sweep.u.length);
+  for (let s = fold.inner[0]; s < fold.outer[1]; s++) pairSegments[s] = 1;
+  const halfFirstDeg = thetaDeg[0] - stepDeg / 2;
+  interface AtAngle {
+    zHat: number;
+    single: boolean;
+    pair: [PlaneRay, PlaneRay] | null;
+  }
+  const at = (m: number): AtAngle => {
+    const target = (halfFirstDeg + (m * stepDeg) / 2) * DEG;
+    const lit = (fold.litAbove ? 1 : -1) * (target - fold.thetaR);
+    if (lit <= 0) return { zHat: -constants.kappa * -lit, single: false, pair: null };
+    const inner = rootInPiece(tracer, sweep, side, fold, fold.inner, "last", target);
+    const outer = rootInPiece(tracer, sweep, side, fold, fold.outer, "first", target);
+    if (inner === null || outer === null) return { zHat: Number.NaN, single: true, pair: null };
+    return { zHat: Math.cbrt(0.75 * Math.abs(inner.path - outer.path)) ** 2, single: false, pair: [inner, outer] };
+  };
+  const zHatEdges = new Float64Array(count + 1);
+  const singleEdge = new Uint8Array(count + 1);
+  for (let e = 0; e <= count; e++) {
+    const edge = at(2 * e);
+    zHatEdges[e] = edge.zHat;
+    singleEdge[e] = edge.single ? 1 : 0;
+  }
+  const table: UniformBowTable = {
+    zHatEdges,
+    uPerp: new Float64Array(count),
+    uPar: new Float64Array(count),
+    vPerp: new Float64Array(count),
+    vPar: new Float64Array(count),
+    otherPerp: new Float64Array(count),
+    otherPar: new Float64Array(count),
+    uniform: new Uint8Array(count),
+  };
+  for (let j = 0; j < count; j++) {
+    if (singleEdge[j] || singleEdge[j + 1] || !(Math.sin(thetaDeg[j] * DEG) > 0)) continue;
+    const centre = at(2 * j + 1);
+    if (centre.single) continue;
+    table.uniform[j] = 1;
+    if (centre.pair === null) {
+      table.uPerp[j] = constants.cPerp;
+      table.uPar[j] = constants.cPar;
+      table.vPerp[j] = constants.dPerp;
+      table.vPar[j] = constants.dPar;
+      continue;
+    }
+    // a_i/x = A_i/√|det_i| (single-ray |S|²/x² = |A|²/|∂(Θ,Y)/∂(u,v)|, lib/rays/plane-sweep.ts).
+    const [r1, r2] = centre.pair;
+    const w1 = 1 / Math.sqrt(Math.abs(r1.det));
+    const w2 = 1 / Math.sqrt(Math.abs(r2.det));
+    const z = centre.zHat;
+    const sumPerp = r1.ampPerp * w1 + r2.ampPerp * w2;
+    const difPerp = r1.ampPerp * w1 - r2.ampPerp * w2;
+    const sumPar = r1.ampPar * w1 + r2.ampPar * w2;
+    const difPar = r1.ampPar * w1 - r2.ampPar * w2;
+    table.uPerp[j] = Math.PI * sumPerp * sumPerp * Math.sqrt(z);
+    table.uPar[j] = Math.PI * sumPar * sumPar * Math.sqrt(z);
+    table.vPerp[j] = (Math.PI * difPerp * difPerp) / Math.sqrt(z);
+    table.vPar[j] = (Math.PI * difPar * difPar) / Math.sqrt(z);
+  }
+  return { table, pairSegments, fold };
+}
