@@ -6,6 +6,7 @@ import type { FastifyReply, FastifyRequest } from "fastify";
 import { defineRoute, type RouteSpec } from "../route-spec.js";
 import { jobRequestSchema, type JobRequest } from "../../schemas/jobs.js";
 import { parseOrThrow } from "../../pipeline/requests/parse-request.js";
+import { asSequenceJob } from "../../pipeline/sequence/sequence-job.js";
 import { ClientError } from "../../pipeline/requests/client-error.js";
 import { sendOutput } from "../send-output.js";
 import type { JobSystem } from "../../pipeline/jobs/job-system.js";
@@ -64,7 +65,8 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
         400: { description: "an unknown endpoint, or a field of the body or query out of range" },
       },
       handle: async ({ body, reply }) => {
-        const job = body as JobRequest;
+        const request = body as JobRequest;
+        const job = request.sequence ? { ...request, ...asSequenceJob(request, registry), format: undefined } : request;
         const renderer = registry[job.endpoint];
         const rawQuery = { ...job.query };
         if (job.format !== undefined) {
