@@ -12,6 +12,7 @@ import { computeLut } from "../pipeline/compute/lut.js";
 import { computeProfile, PROFILE_STAGES } from "../pipeline/compute/profile.js";
 import { ProgressMeter } from "../pipeline/progress/progress-meter.js";
 import { progressBar } from "./progress-bar.js";
+import { sequenceCommand } from "./sequence-command.js";
 import { profileJson } from "../pipeline/render/profile-render.js";
 import { annotate, resolveLutRequest, resolveProfileRequest } from "../pipeline/sky/resolve-source.js";
 import { encodeExr } from "../pipeline/encoders/exr.js";
@@ -30,6 +31,8 @@ ${EYE_SAFETY_CAUTION}
 
   antisolar bake <lut-request.json> -o <texture.exr|.hdr|.png|.json>   bake a lookup texture (+ <file>.manifest.json)
   antisolar render <profile-request.json> -o <profile.json|.png>       render a bow profile
+  antisolar sequence <job.json> -o <frames.tar>                         render a span of time as frames (the body of
+                                                                        POST /v1/jobs with "sequence"), tar + manifest.json
   antisolar serve                                                       start the HTTP service (PORT, HOST)
 
 Request files use the same JSON as POST /v1/lut and POST /v1/profile; "-" reads standard input; {} gives defaults.
@@ -122,6 +125,19 @@ async function render(args: string[]): Promise<void> {
   }
 }
 
+async function sequence(args: string[]): Promise<void> {
+  const input = args[0];
+  const output = argument(args, "-o");
+  if (!input || !output) throw new Error(`sequence needs a job file and -o <file.tar>\n\n${usage}`);
+  const job = await readJson(input);
+  const runtime = createKernelRuntime(oneShotConfig());
+  try {
+    console.log(await sequenceCommand(job, output, runtime.kernels));
+  } finally {
+    await runtime.close();
+  }
+}
+
 async function main(): Promise<void> {
   const [command, ...args] = process.argv.slice(2);
   switch (command) {
@@ -129,6 +145,8 @@ async function main(): Promise<void> {
       return bake(args);
     case "render":
       return render(args);
+    case "sequence":
+      return sequence(args);
     case "serve":
       await import("../http/main.js");
       return;

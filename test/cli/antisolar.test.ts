@@ -83,4 +83,30 @@ describe("antisolar CLI", () => {
       rmSync(dir, { recursive: true, force: true });
     }
   });
+
+  it("renders a sequence to a tar archive of frames and a manifest", () => {
+    const dir = mkdtempSync(join(tmpdir(), "antisolar-cli-"));
+    try {
+      // An invented hillside at 47.2° N 8.4° E on a June evening: two frames 20 minutes apart.
+      const job = {
+        endpoint: "profile",
+        format: "png",
+        body: { sun: { at: { utc: "2026-06-21T18:00:00Z", latitudeDeg: 47.2, longitudeDeg: 8.4 } }, spectral: { fromNm: 400, toNm: 700, stepNm: 20 }, angles: { fromDeg: 36, toDeg: 56, stepDeg: 0.5 } },
+        sequence: { fromUtc: "2026-06-21T18:00:00Z", toUtc: "2026-06-21T18:20:00Z", frames: 2 },
+      };
+      const request = join(dir, "job.json");
+      writeFileSync(request, JSON.stringify(job));
+      const out = join(dir, "frames.tar");
+      const result = run(["sequence", request, "-o", out], join(dir, "cache"));
+      expect(result.status, result.stderr).toBe(0);
+      const tar = readFileSync(out);
+      // POSIX ustar: "ustar" at offset 257 of each 512-byte header; the first entry is the first frame.
+      expect(tar.subarray(257, 262).toString("latin1")).toBe("ustar");
+      expect(tar.subarray(0, 14).toString("latin1")).toBe("frame-0001.png");
+      expect(tar.includes(Buffer.from("frame-0002.png"))).toBe(true);
+      expect(tar.includes(Buffer.from("manifest.json"))).toBe(true);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
 });
