@@ -78,6 +78,16 @@ function updateVisibility() {
   [temperature.min, temperature.max] = spectrum === "cie-daylight" ? ["4000", "25000"] : ["1000", "50000"];
   $("polariser").disabled = !$("polariser-on").checked;
   $("elevation-value").textContent = `${$("elevation").value}°`;
+  const light = form.elements.namedItem("light").value;
+  const position = form.elements.namedItem("positionBy").value;
+  for (const el of form.querySelectorAll("[data-light], [data-position]")) {
+    el.hidden = (el.dataset.light !== undefined && el.dataset.light !== light) || (el.dataset.position !== undefined && el.dataset.position !== position);
+  }
+}
+
+/** The light's apparent elevation: as computed by the service for a place and time, else as given. */
+function sourceElevationDeg(body, meta) {
+  return meta?.sourcePosition?.elevationDeg ?? (body.moon ?? body.sun).elevationDeg ?? 10;
 }
 
 function fullBody() {
@@ -242,7 +252,7 @@ function showWarnings(profile, colours) {
 /** Until the tilt slider is moved, aim half-way up the highest bow so both arcs and the horizon are in view. */
 function autoPitch(body, profile) {
   const highestDeg = profile.bows.secondaryDeg ?? profile.bows.primaryDeg ?? 42;
-  const pitch = Math.round(Math.min(Math.max((highestDeg - body.sun.elevationDeg) / 2, 0), 60));
+  const pitch = Math.round(Math.min(Math.max((highestDeg - sourceElevationDeg(body, profile.meta)) / 2, 0), 60));
   $("pitch").value = String(pitch);
 }
 
@@ -253,7 +263,7 @@ function drawSky() {
   if (!state.last) return;
   const { body, profile, colours } = state.last;
   drawSkyView($("sky"), profile, colours, {
-    sunElevationDeg: body.sun.elevationDeg,
+    sunElevationDeg: sourceElevationDeg(body, profile.meta),
     pitchDeg: Number($("pitch").value),
     hfovDeg: Number($("fov").value),
   });
@@ -261,7 +271,7 @@ function drawSky() {
   $("sky").setAttribute(
     "aria-label",
     `Camera view facing away from the sun, tilted ${$("pitch").value}° up with a ${$("fov").value}° field of view; ` +
-      `the sun is ${body.sun.elevationDeg}° high behind the camera` +
+      `the ${body.moon ? "moon" : "sun"} is ${Number(sourceElevationDeg(body, profile.meta).toFixed(2))}° high behind the camera` +
       (primaryDeg !== null ? `, the primary bow is a circle of ${primaryDeg.toFixed(1)}° radius around the antisolar point.` : "."),
   );
 }
@@ -289,10 +299,20 @@ function saveBlob(blob, fileName) {
 function scenarioOf(body, { keepSunElevation }) {
   const { angles, output, polariserDeg, ...scenario } = body;
   if (!keepSunElevation) {
-    const { elevationDeg, ...sun } = scenario.sun;
-    scenario.sun = sun;
+    // A view takes the light's position beside the scenario: the moon, or the sun's place and time, move out.
+    delete scenario.moon;
+    if (scenario.sun) {
+      const { elevationDeg, at, ...sun } = scenario.sun;
+      scenario.sun = sun;
+    }
   }
   return { scenario, angles, polariserDeg };
+}
+
+/** The light's position for POST /v1/view, looking south-ish as the page's sky does (azimuth 180°). */
+function viewLight(b) {
+  if (b.moon) return { moon: { ...b.moon, azimuthDeg: 180 } };
+  return { sun: b.sun.at ? { at: b.sun.at } : { azimuthDeg: 180, elevationDeg: b.sun.elevationDeg } };
 }
 
 /** Every export: which endpoint, with what body, to which file. */
@@ -317,7 +337,8 @@ const exportKinds = {
       return {
         scenario,
         camera: { horizontalFovDeg: Number($("fov").value), pitchDeg: Number($("pitch").value), widthPx: 1280, heightPx: 720 },
-        sun: { azimuthDeg: 180, elevationDeg: b.sun.elevationDeg },
+        ...viewLight(b),
+        output: { vision: b.output.vision },
         ...(polariserDeg === undefined ? {} : { polariserDeg }),
       };
     },

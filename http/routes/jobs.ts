@@ -6,6 +6,7 @@ import type { FastifyReply, FastifyRequest } from "fastify";
 import { defineRoute, type RouteSpec } from "../route-spec.js";
 import { jobRequestSchema, type JobRequest } from "../../schemas/jobs.js";
 import { parseOrThrow } from "../../pipeline/requests/parse-request.js";
+import { asSequenceJob } from "../../pipeline/sequence/sequence-job.js";
 import { ClientError } from "../../pipeline/requests/client-error.js";
 import { sendOutput } from "../send-output.js";
 import type { JobSystem } from "../../pipeline/jobs/job-system.js";
@@ -65,7 +66,8 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
         503: { description: "the job store (Redis) does not answer: answered within a second, with Retry-After" },
       },
       handle: async ({ body, reply }) => {
-        const job = body as JobRequest;
+        const request = body as JobRequest;
+        const job = request.sequence ? { ...request, ...asSequenceJob(request, registry), format: undefined } : request;
         const renderer = registry[job.endpoint];
         const rawQuery = { ...job.query };
         if (job.format !== undefined) {
