@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { profileFieldsSchema } from "./profile.js";
+import { refuseFlattenedDrops } from "./drop-shape.js";
 
 const scenarioSchema = profileFieldsSchema.omit({ angles: true, output: true });
 
@@ -10,6 +11,7 @@ export const lutRequestSchema = z
     scenario: scenarioSchema
       .partial()
       .strict()
+      .superRefine(refuseFlattenedDrops("the lookup texture"))
       .default({})
       .describe("The profile request's physics (drops are used by the 1-D variant only; the size axis replaces them in 2-D)"),
     angles: z

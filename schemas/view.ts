@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { profileRequestSchema, sunSchema } from "./profile.js";
+import { refuseFlattenedDrops } from "./drop-shape.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 const profileFields = profileRequestSchema.shape;
@@ -16,6 +17,7 @@ export const viewScenarioSchema = z
     pathLengthM: profileFields.pathLengthM.describe("Path length through the rain along every line of sight, m (sets the bow's radiance and the curtain's opacity)"),
   })
   .strict()
+  .superRefine(refuseFlattenedDrops("the camera view and sky overlay"))
   .prefault({})
   .describe("Drops, water, sunlight, observer, wavelengths, engine and path length, as in POST /v1/profile; angles are chosen to fit the image");
 

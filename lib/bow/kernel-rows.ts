@@ -5,11 +5,12 @@ import type { DropEngine } from "./volume-scattering.js";
 import { blockRange } from "./kernel-grid.js";
 import { rowVariant } from "./cell-average.js";
 import { dropRow, dropRowContext, type CellAverage } from "./drop-rows.js";
+import { shapedDropRow, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
 
 export interface KernelRowsInput {
   medium: { wavelengthNm: number; mRe: number; mIm: number; nAir: number };
   h: number;
-  items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage }[];
+  items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage; shape?: ShapedRowSpec }[];
   /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
   within?: { first: number; last: number };
 }
@@ -37,7 +38,8 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
     const { first, count } = blockRange(b, h);
     positions.set(b, Int32Array.from({ length: count }, (_, k) => (first + k >= lo && first + k <= hi ? hi - (first + k) : -1)));
   }
-  const ctx = dropRowContext(medium, thetaDeg, h, new Set(items.map((it) => it.engine)));
+  // Drops that are not spheres have their own engine (shaped-rows.ts): the sphere engines' tables are not built for them.
+  const ctx = dropRowContext(medium, thetaDeg, h, new Set(items.filter((it) => !it.shape).map((it) => it.engine)));
   const perDrop = 1 / (2 * ctx.waveNumberPerM * ctx.waveNumberPerM);
   const perp = new Float64Array(nTheta);
   const par = new Float64Array(nTheta);
@@ -45,7 +47,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   // one allocation instead of one per drop (garbage collection fell from 17 % to 11 % of a default-profile task).
   const packRows = new Map<string, { buffer: Float64Array; used: number }>();
   // An averaged Lorenz–Mie row is not the single-size row of the same engine: its own buffer (and cache pack).
-  const variants = items.map((item) => rowVariant(item.engine, item.average));
+  const variants = items.map((item) => shapedVariant(rowVariant(item.engine, item.average), item.shape));
   for (const [index, item] of items.entries()) {
     for (const b of item.blocks) {
       const key = `${variants[index]}|${b}`;
@@ -60,7 +62,8 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   }
   let mieTermAngles = 0;
   const rows = items.map((item, index) => {
-    mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
+    if (item.shape) shapedDropRow(item.shape, ctx.mRe, ctx.waveNumberPerM * item.radiusUm * 1e-6, item.radiusUm, thetaDeg, h, perp, par);
+    else mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
     return item.blocks.map((b) => {
       const at = positions.get(b)!;
       const count = at.length;

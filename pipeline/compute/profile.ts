@@ -23,6 +23,7 @@ import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-de
 import type { CellAverage } from "../../lib/bow/cell-average.js";
 import type { WavelengthGrid } from "../../lib/spectra/grid.js";
 import { ClientError } from "../requests/client-error.js";
+import { planDropShapes } from "./drop-shape-plan.js";
 
 /** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
 const FLATTENED_FROM_RADIUS_UM = 1000;
@@ -168,7 +169,11 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
       `drops above ${quadrature.maxRadiusUm} µm radius (${(100 * quadrature.crossSectionFractionAboveCap).toFixed(1)} % of the cross-section) are left out: such drops break up in nature`,
     );
   }
-  if (request.drops.kind !== "monodisperse") {
+  const shapePlan = planDropShapes(request, quadrature.radiiUm);
+  // The warnings about the sphere model are moot where flattened drops are modelled.
+  if (shapePlan.flattened) {
+    warnings.push(...shapePlan.warnings);
+  } else if (request.drops.kind !== "monodisperse") {
     const flattened = fractionOfCrossSectionAbove(distribution, FLATTENED_FROM_RADIUS_UM);
     if (flattened > 0.5) {
       warnings.push(
@@ -195,7 +200,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
 
   const engines = Array.from(quadrature.radiiUm, engine);
   const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, averages, blocks, within: { first: span.first, last: span.last } }, deps.signal);
+  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } }, deps.signal);
   const kernelMs = performance.now() - kernelStarted;
   const steps = latticeProfileSteps({
     angles,
@@ -241,6 +246,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
 
   const meta = {
     method: { requested: request.method, engines: engineRanges },
+    shape: shapePlan.meta,
     units: {
       anglesDeg: "degrees from the antisolar point",
       luminance: request.output.normalise === "peak" ? "relative: the brightest sample is 1" : "cd/m²",
