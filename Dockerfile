@@ -10,6 +10,7 @@ COPY lib ./lib
 COPY schemas ./schemas
 COPY bench ./bench
 COPY cli ./cli
+COPY scripts ./scripts
 RUN npm run build && npm prune --omit=dev
 
 FROM node:20-bookworm-slim

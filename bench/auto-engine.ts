@@ -6,7 +6,7 @@
 
 import { pathToFileURL } from "node:url";
 import { makeWavelengthGrid, wavelengthsNm } from "../lib/spectra/grid.js";
-import { waterIndex } from "../lib/water/water-index.js";
+import { dropMedium } from "../lib/water/drop-medium.js";
 import { radiusQuadrature } from "../lib/drops/quadrature.js";
 import { directSunlight } from "../lib/bow/sunlight.js";
 import { volumeScattering, type DropEngine } from "../lib/bow/volume-scattering.js";
@@ -51,10 +51,10 @@ function profileXyz(c: EngineComparisonCase, engine: DropEngine) {
   const nAir = new Float64Array(grid.count);
   for (let l = 0; l < grid.count; l++) {
     // 15 °C fresh water, the service's default.
-    const idx = waterIndex({ wavelengthNm: wl[l], temperatureC: 15, salinityPsu: 0 });
-    mRe[l] = idx.nRelativeToAir;
-    mIm[l] = idx.k;
-    nAir[l] = idx.n / idx.nRelativeToAir;
+    const medium = dropMedium({ temperatureC: 15, salinityPsu: 0 }, wl[l]);
+    mRe[l] = medium.mRe;
+    mIm[l] = medium.mIm;
+    nAir[l] = medium.nAir;
   }
   const quadrature = radiusQuadrature(
     c.drops.kind === "monodisperse"

@@ -3,18 +3,13 @@
 // BENCHMARKS.md between <!-- load:start --> and <!-- load:end --> (the rest of the file is left as it is).
 import { fork, type ChildProcess } from "node:child_process";
 import { createRequire } from "node:module";
-import { readFileSync, writeFileSync, existsSync } from "node:fs";
-import { cpus, totalmem } from "node:os";
-import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { buildApp } from "../http/app.js";
-import { repoPath } from "../pipeline/config/resources.js";
+import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
 
 const SECONDS_PER_SCENARIO = 10;
 const HEALTH_INTERVAL_MS = 100;
 const HEALTH_TIMEOUT_MS = 10_000;
-const START = "<!-- load:start -->";
-const END = "<!-- load:end -->";
 
 interface Histogram {
   average: number;
@@ -175,14 +170,10 @@ async function run(): Promise<void> {
 }
 
 function writeSection(rows: Row[]): void {
-  const file = join(dirname(repoPath("package.json")), "BENCHMARKS.md");
-  const machine = `${cpus()[0]?.model ?? "unknown CPU"}, ${cpus().length} cores, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}`;
-  const date = new Date().toISOString().slice(0, 16).replace("T", " ") + " UTC";
-  const lines = [
-    START,
+  writeMarkedSection("load", [
     "## HTTP load",
     "",
-    `Written by \`npm run load\` (bench/load.ts), ${date}; ${machine}. The server runs in a child process with its defaults`,
+    `Written by \`npm run load\` (bench/load.ts), ${benchDate()}; ${machineLine()}. The server runs in a child process with its defaults`,
     `(worker threads = cores, 512 MiB cache) except no rate limit and no disk cache; autocannon runs ${SECONDS_PER_SCENARIO} s per row from`,
     "the same machine (so client and server share the cores), while /healthz is polled every 100 ms.",
     "",
@@ -192,15 +183,7 @@ function writeSection(rows: Row[]): void {
       ({ scenario, result, health }) =>
         `| ${scenario.name} | ${scenario.connections} | ${result.requests.average.toFixed(1)} | ${result.latency.p50} | ${result.latency.p97_5} | ${result.latency.p99} | ${result.non2xx} | ${result.errors + result.timeouts} | ${health.worstMs.toFixed(1)} |`,
     ),
-    END,
-  ].join("\n");
-  const text = existsSync(file) ? readFileSync(file, "utf8") : "";
-  const start = text.indexOf(START);
-  const end = text.indexOf(END);
-  const next =
-    start >= 0 && end > start ? text.slice(0, start) + lines + text.slice(end + END.length) : `${text}${text === "" || text.endsWith("\n") ? "" : "\n"}\n${lines}\n`;
-  writeFileSync(file, next);
-  console.log(`wrote the load section of ${file}`);
+  ]);
 }
 
 if (process.argv.includes("--serve")) await serve();

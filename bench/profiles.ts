@@ -42,6 +42,8 @@ export interface ProfileWorkload {
 
 export const P1: ProfileWorkload = { name: "P1 default profile `{}` (Marshall–Palmer 2 mm/h, auto)", body: {}, workers: [2], warm: true };
 export const P1_DISK: ProfileWorkload = { ...P1, name: "P1 default profile `{}`, with the disk tier (CACHE_DIR)", warm: false, disk: true };
+/** The default profile with every drop by Lorenz–Mie: what exact Mie costs where auto sends large drops to Airy. */
+export const P1_MIE: ProfileWorkload = { name: "P1 default profile with `method: \"mie\"`", body: { method: "mie" }, workers: [2], warm: false };
 export const P2: ProfileWorkload = {
   name: "P2 fog, lognormal 10 µm (σg 1.4), full Mie, ψ 20–60° step 0.2° (auto: 512 Mie sizes per decade)",
   body: { drops: { kind: "lognormal", medianRadiusUm: 10, geometricSd: 1.4, totalNumberPerM3: 1e8 }, method: "mie", angles: { fromDeg: 20, toDeg: 60, stepDeg: 0.2 } },
@@ -60,6 +62,16 @@ export const P3: ProfileWorkload = {
   body: { drops: { kind: "marshall-palmer", rainRateMmPerH: 25 }, method: "mie" },
   workers: [1, 2],
   warm: false,
+};
+/**
+ * Flattened drops (issue 13): one size, so one radius node, 41 wavelengths × 5 canting nodes of 3D ray tracing.
+ * A rain distribution multiplies this by its ~50 radius nodes above 150 µm and is not run here.
+ */
+export const P4: ProfileWorkload = {
+  name: "P4 flattened drops: 1 mm equilibrium drops (canting 7.5°), top of the bow, default wavelengths and angles",
+  body: { drops: { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium" } }, arcPositionDeg: 0 },
+  workers: [2],
+  warm: true,
 };
 
 async function once(body: unknown, kernels: KernelService): Promise<{ ms: number; mieTermAngles: number; cores: number }> {

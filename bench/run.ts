@@ -1,28 +1,88 @@
-// npm run bench [-- --quick]: times the Mie kernel (W1–W3), whole profiles (P1–P3; --quick leaves out P3, which
-// takes minutes) and warm HTTP requests in one run, prints the figures and rewrites BENCHMARKS.md.
+// npm run bench [-- --quick | --mie]: times the Mie kernel (W1–W3, M) beside the compiled reference, whole profiles
+// (P1–P4; --quick leaves out P3 and P4, which take minutes) and warm HTTP requests in one run, prints the figures and
+// rewrites BENCHMARKS.md. --mie times the Mie kernel only and rewrites that section of BENCHMARKS.md.
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
-import { cpus, loadavg, totalmem } from "node:os";
-import { benchMie, mieKernelName } from "./mie.js";
-import { benchProfile, P1, P1_DISK, P2, P2_ONE_SIZE, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
-import { benchHttp } from "./http.js";
+import { keptSections } from "./sections.js";
 import { repoPath } from "../pipeline/config/resources.js";
+import { cpus, loadavg, totalmem } from "node:os";
+import { benchMie, MANY_DROPS, mieKernelName } from "./mie.js";
+import { benchProfile, P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3, P4, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
+import { benchHttp } from "./http.js";
 
 const quick = process.argv.includes("--quick");
+const mieOnly = process.argv.includes("--mie");
 const machine = `${cpus()[0]?.model ?? "unknown CPU"}, ${cpus().length} cores, ${Math.round(totalmem() / 2 ** 30)} GiB, Node ${process.version}`;
 const date = new Date().toISOString().slice(0, 16).replace("T", " ") + " UTC";
 const loadBefore = loadavg()[0];
 const M = (v: number) => `${(v / 1e6).toFixed(0)} M`;
 
 console.log(`machine: ${machine}; load average ${loadBefore.toFixed(2)}; Mie kernel: ${mieKernelName}`);
-const mie = benchMie();
+const { rows: mie, compiler } = benchMie();
+console.log(`compiled reference: ${compiler}`);
+const x = (v: number) => `${v.toFixed(2)}×`;
 for (const r of mie) {
+  const c = r.compiled;
   console.log(
-    `${r.workload.name}: ${r.nTerms} terms × ${r.angles} angles, coefficients ${r.coefficientsMs.toFixed(2)} ms, amplitudes ${r.amplitudesMs.toFixed(1)} ms ` +
-      `(scalar ${r.scalarMs.toFixed(1)} ms), ${M(r.termAnglesPerSecond)} term-angles/s/core (scalar ${M(r.scalarTermAnglesPerSecond)})`,
+    `${r.workload.name}: ${r.terms} terms × ${r.angles} angles, coefficients ${r.coefficientsMs.toFixed(2)} ms, amplitudes ${r.amplitudesMs.toFixed(1)} ms, ` +
+      `${M(r.termAnglesPerSecond)} term-angles/s/core` +
+      (r.scalar ? ` (scalar ${r.scalar.ms.toFixed(1)} ms, ${M(r.scalar.termAnglesPerSecond)})` : "") +
+      (c
+        ? `; compiled ${c.coefficientsMs.toFixed(2)} + ${c.amplitudesMs.toFixed(1)} ms; speed vs compiled ${x(c.speed.median)} (rounds ${x(c.speed.low)}–${x(c.speed.high)}), ` +
+          `amplitudes ${x(c.amplitudeSpeed)}, coefficients ${x(c.coefficientSpeed)}; checksums differ by ${c.checksumRelDiff.toExponential(1)}`
+        : ""),
   );
 }
+const mieSection = [
+  "<!-- mie:start -->",
+  "## Lorenz–Mie kernel beside compiled code, one core",
+  "",
+  `Measured ${date} on ${machine}; one-minute load average ${loadavg()[0].toFixed(2)} when this table was written` +
+    (loadavg()[0] > cpus().length ? " (above the core count: other processes shared the cores, so rounds vary)" : "") +
+    `. Mie kernel: ${mieKernelName}.`,
+  "",
+  "W1: m = 1.333, Θ = 0–180° by 0.1° (1,801 angles). W2: m = 1.333, x = 3,000, Θ = 120–150° by 0.01° (3,001 angles).",
+  `W3: m = 1.333 + 1e-8 i, x = 50,000, Θ = 130–145° by 0.05° (301 angles). M: ${MANY_DROPS} drops, m = 1.333 + 1e-9 i, x = 500–5,000`,
+  "evenly in ln x, Θ = 115–155° by 0.05° (801 angles), as a profile task computes them, by our per-call kernel",
+  "(one drop at a time) and by the many-drops kernel (π_n ± τ_n once per block of angles, all drops' sums from them;",
+  "its amplitude time includes packing, and is the pass less a coefficients-only pass). Times are per pass over the",
+  "workload's drops. Term-angles: partial waves × angles per second in the amplitude loop.",
+  "",
+  `Compiled reference: bench/reference/mie-reference.c (the same recurrences in plain C: Bohren & Huffman 1983`,
+  `coefficients, Wiscombe 1980 S± sums, n outer and angles inner so the compiler vectorises), built by the benchmark`,
+  `with ${compiler}. It times itself (compute only, no process start or output), as ours is timed in-process. Both`,
+  "sides read CPU time (process.cpuUsage; CLOCK_PROCESS_CPUTIME_ID), not wall time: the machine is shared.",
+  "Ours and it run in alternating rounds (5 rounds, each the median of 3 passes); figures are medians over the rounds.",
+  "Speed vs compiled = compiled time ÷ our time (1 = as fast), with the lowest and highest round beside it. The",
+  "checksum column compares Σ |S1|² + |S2|² over drops and angles between the two programs.",
+  "",
+  "| workload | terms | angles | ours: coefficients (ms) | ours: amplitudes (ms) | compiled: coefficients (ms) | compiled: amplitudes (ms) | speed vs compiled (rounds) | amplitudes only | coefficients only | ours term-angles/s | scalar TypeScript term-angles/s | checksum difference |",
+  "|---|---|---|---|---|---|---|---|---|---|---|---|---|",
+  ...mie.map((r) => {
+    const c = r.compiled;
+    const ours = `| ${r.workload.name} | ${r.terms} | ${r.angles} | ${r.coefficientsMs.toFixed(2)} | ${r.amplitudesMs.toFixed(1)} | `;
+    const ref = c
+      ? `${c.coefficientsMs.toFixed(2)} | ${c.amplitudesMs.toFixed(1)} | ${x(c.speed.median)} (${x(c.speed.low)}–${x(c.speed.high)}) | ${x(c.amplitudeSpeed)} | ${x(c.coefficientSpeed)} | `
+      : "– | – | – | – | – | ";
+    return ours + ref + `${M(r.termAnglesPerSecond)} | ${r.scalar ? M(r.scalar.termAnglesPerSecond) : "–"} | ${c ? c.checksumRelDiff.toExponential(1) : "–"} |`;
+  }),
+  "",
+  "Earlier versions of this file set these times against other programs' whole-process times taken on another",
+  "machine; such figures are not comparable with ours (other machine, process start and output included) and are",
+  "no longer given. The compiled reference above runs on this machine, in this run, on the same inputs.",
+  "",
+  "<!-- mie:end -->",
+  "",
+];
+if (mieOnly) {
+  // Rewrites the Mie section of BENCHMARKS.md only, between its markers.
+  const target = repoPath("BENCHMARKS.md");
+  const previous = readFileSync(target, "utf8");
+  writeFileSync(target, previous.replace(/<!-- mie:start -->[\s\S]*<!-- mie:end -->\n\n/, mieSection.join("\n") + "\n"));
+  console.log("rewrote the Mie section of BENCHMARKS.md");
+  process.exit(0);
+}
 const profiles: ProfileBenchRow[] = [];
-for (const w of quick ? [P1, P1_DISK, P2, P2_ONE_SIZE] : [P1, P1_DISK, P2, P2_ONE_SIZE, P3]) {
+for (const w of quick ? [P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE] : [P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3, P4]) {
   for (const r of await benchProfile(w, { first: w === P1 })) {
     profiles.push(r);
     console.log(
@@ -43,47 +103,18 @@ const loadAfter = loadavg()[0];
 
 const p3 = profiles.filter((r) => r.name === P3.name);
 const p3Scaling = p3.length === 2 ? p3[0].coldMs / p3[1].coldMs : null;
-const compute = (r: (typeof mie)[number]) => (r.coefficientsMs + r.amplitudesMs) / 1000;
-const anchored = mie.filter((r) => r.workload.anchors);
 
 const lines = [
   "# Benchmarks",
   "",
-  "Written by `npm run bench` (bench/run.ts; `-- --quick` leaves out P3). Medians after warm-up, inside one Node process.",
+  "Written by `npm run bench` (bench/run.ts; `-- --quick` leaves out P3 and P4). Medians after warm-up, inside one Node process.",
   "Machines are noisy: compare ratios between rows of one run, not absolute times between runs.",
   "",
   `Machine: ${machine}. Date: ${date}. One-minute load average ${loadBefore.toFixed(2)} at the start, ${loadAfter.toFixed(2)} at the end` +
     (Math.max(loadBefore, loadAfter) > cpus().length ? " (above the core count: other processes shared the cores, so times are inflated)" : "") +
     `. Mie kernel: ${mieKernelName}.`,
   "",
-  "## Lorenz–Mie kernel, one core",
-  "",
-  "W1: m = 1.333, Θ = 0–180° by 0.1° (1,801 angles). W2: m = 1.333, x = 3,000, Θ = 120–150° by 0.01° (3,001 angles).",
-  "W3: m = 1.333 + 1e-8 i, x = 50,000, Θ = 130–145° by 0.05° (301 angles). Term-angles: partial waves × angles per",
-  "second in the amplitude loop. The scalar column is the TypeScript reference kernel on the same inputs.",
-  "",
-  "| workload | terms | angles | coefficients (ms) | amplitudes (ms) | scalar amplitudes (ms) | term-angles/s | scalar term-angles/s |",
-  "|---|---|---|---|---|---|---|---|",
-  ...mie.map(
-    (r) =>
-      `| ${r.workload.name} | ${r.nTerms} | ${r.angles} | ${r.coefficientsMs.toFixed(2)} | ${r.amplitudesMs.toFixed(1)} | ${r.scalarMs.toFixed(1)} | ${M(r.termAnglesPerSecond)} | ${M(r.scalarTermAnglesPerSecond)} |`,
-  ),
-  "",
-  "### Against other programs",
-  "",
-  "The anchors are whole-process times of other programs measured elsewhere, on another machine: start-up, input,",
-  "output and the computation. Ours are in-process compute times on this machine (coefficients + amplitudes, warm",
-  "JIT, no start-up, no output). The ratio (anchor ÷ ours, > 1 means ours is faster) is therefore an optimistic",
-  "comparison of the computation only and says nothing about the machines' relative speed.",
-  "",
-  "| workload | ours (s) | MIEV0 0.044 / 0.060 s | scattnlay 0.173 / 0.285 s | miepython 6.1 / 10.0 s |",
-  "|---|---|---|---|---|",
-  ...anchored.map((r) => {
-    const a = r.workload.anchors!;
-    const ours = compute(r);
-    return `| ${r.workload.name} | ${ours.toFixed(4)} | ${(a.miev0 / ours).toFixed(2)}× | ${(a.scattnlay / ours).toFixed(1)}× | ${(a.miepython / ours).toFixed(0)}× |`;
-  }),
-  "",
+  ...mieSection,
   "## Whole profiles through the kernel cache (in-process: no HTTP)",
   "",
   "Worker threads as the service runs them (KernelService + createWorkerPool). Cold: an empty kernel cache, on threads",
@@ -120,10 +151,9 @@ const lines = [
   ),
   "",
 ];
-// bench/load.ts keeps its own section between these markers: carry it over unchanged.
+// Other benchmark scripts (bench/load.ts, bench/progress.ts, bench/time-of-day.ts, …) keep their own marked
+// sections: carry them over unchanged.
 const target = repoPath("BENCHMARKS.md");
-const previous = existsSync(target) ? readFileSync(target, "utf8") : "";
-const kept = /<!-- load:start -->[\s\S]*<!-- load:end -->/.exec(previous);
-if (kept) lines.push(kept[0], "");
+for (const section of keptSections()) lines.push(section, "");
 writeFileSync(target, lines.join("\n"));
 console.log("wrote BENCHMARKS.md");

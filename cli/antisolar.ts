@@ -9,12 +9,15 @@ import { z } from "zod";
 import { lutRequestSchema } from "../schemas/lut.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { computeLut } from "../pipeline/compute/lut.js";
-import { computeProfile } from "../pipeline/compute/profile.js";
+import { computeProfile, PROFILE_STAGES } from "../pipeline/compute/profile.js";
+import { ProgressMeter } from "../pipeline/progress/progress-meter.js";
+import { progressBar } from "./progress-bar.js";
 import { profileJson } from "../pipeline/render/profile-render.js";
+import { annotate, resolveLutRequest, resolveProfileRequest } from "../pipeline/sky/resolve-source.js";
 import { encodeExr } from "../pipeline/encoders/exr.js";
 import { encodeRadianceHdr } from "../pipeline/encoders/radiance-hdr.js";
 import { encodePngImage, encodePngStrip } from "../pipeline/encoders/png-strip.js";
-import { spaceChromaticities } from "../pipeline/encoders/space-chromaticities.js";
+import { spacePrimaries } from "../lib/colour/primaries.js";
 import { createKernelRuntime } from "../pipeline/kernels/runtime.js";
 import { loadConfig } from "../pipeline/config/config.js";
 import { parseOrThrow } from "../pipeline/requests/parse-request.js";
@@ -46,18 +49,6 @@ async function readJson(path: string): Promise<unknown> {
   return JSON.parse(text);
 }
 
-/** A one-line progress bar on stderr (only when it is a terminal, so logs stay clean). */
-function progressBar(label: string) {
-  const tty = process.stderr.isTTY;
-  return (fraction: number, stage: string) => {
-    if (!tty) return;
-    const width = 30;
-    const filled = Math.round(fraction * width);
-    process.stderr.write(`\r${label} [${"#".repeat(filled)}${".".repeat(width - filled)}] ${(fraction * 100).toFixed(0).padStart(3)}% ${stage.padEnd(20)}`);
-    if (fraction >= 1) process.stderr.write("\n");
-  };
-}
-
 /** A one-shot command's threads start on its own work: warming them up first would only delay it. */
 function oneShotConfig() {
   return { ...loadConfig(process.env), workerWarmUpRounds: 0 };
@@ -67,26 +58,28 @@ async function bake(args: string[]): Promise<void> {
   const input = args[0];
   const output = argument(args, "-o");
   if (!input || !output) throw new Error(`bake needs a request file and -o <file>\n\n${usage}`);
-  const request = parseOrThrow(lutRequestSchema, await readJson(input), "body");
+  const resolved = resolveLutRequest(parseOrThrow(lutRequestSchema, await readJson(input), "body"));
+  const request = resolved.body;
   const runtime = createKernelRuntime(oneShotConfig());
   try {
     const lut = await computeLut(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity } }, progressBar("baking"));
+    annotate(lut.manifest, resolved);
     const ext = extname(output).toLowerCase();
     let file: Buffer;
     if (ext === ".exr") {
       file = encodeExr({ width: lut.width, height: lut.height, channels: ["R", "G", "B", "A"], data: lut.rgba, pixelType: "half", compression: "zip",
-        chromaticities: request.space === "xyz-d65" ? undefined : spaceChromaticities(request.space), attributes: { "antisolar:space": request.space, "antisolar:hash": String(lut.manifest.hash) } });
+        chromaticities: request.space === "xyz-d65" ? undefined : spacePrimaries(request.space), attributes: { "antisolar:space": request.space, "antisolar:hash": String(lut.manifest.hash) } });
     } else if (ext === ".hdr") {
       const rgb = new Float32Array(lut.width * lut.height * 3);
       for (let p = 0; p < lut.width * lut.height; p++) rgb.set(lut.rgba.subarray(4 * p, 4 * p + 3), 3 * p);
-      const c = spaceChromaticities(request.space);
+      const c = spacePrimaries(request.space);
       file = encodeRadianceHdr({ width: lut.width, height: lut.height, data: rgb, primaries: [c.red, c.green, c.blue, c.white] });
     } else if (ext === ".png") {
       let peak = 0;
       lut.rgba.forEach((v, k) => (peak = k % 4 === 3 ? peak : Math.max(peak, v)));
       const scaled = Float32Array.from(lut.rgba, (v, k) => (k % 4 === 3 ? v : peak > 0 ? v / peak : 0));
       file = (await encodePngImage({ width: lut.width, height: lut.height, channels: 4, values: scaled, bitDepth: 16, space: request.space })).png;
-      lut.manifest.pngScale = `RGB were divided by ${peak} to fit PNG's 0..1`;
+      (lut.manifest as typeof lut.manifest & { pngScale?: string }).pngScale = `RGB were divided by ${peak} to fit PNG's 0..1`;
     } else if (ext === ".json") {
       file = Buffer.from(JSON.stringify({ manifest: lut.manifest, rgba: Array.from(lut.rgba) }));
     } else {
@@ -104,13 +97,15 @@ async function render(args: string[]): Promise<void> {
   const input = args[0];
   const output = argument(args, "-o");
   if (!input || !output) throw new Error(`render needs a request file and -o <file>\n\n${usage}`);
-  const request = parseOrThrow(profileRequestSchema, await readJson(input), "body");
+  const resolved = resolveProfileRequest(parseOrThrow(profileRequestSchema, await readJson(input), "body"));
+  const request = resolved.body;
   const runtime = createKernelRuntime(oneShotConfig());
   try {
     const bar = progressBar("rendering");
-    bar(0, "kernels");
-    const result = await computeProfile(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity } });
-    bar(1, "done");
+    const progress = new ProgressMeter(PROFILE_STAGES, bar);
+    const result = await computeProfile(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity }, progress });
+    annotate(result.meta, resolved);
+    progress.done();
     const ext = extname(output).toLowerCase();
     if (ext === ".png") {
       await writeFile(output, (await encodePngStrip({ values: result.colour.rgb, height: 32, bitDepth: 16, space: request.output.space })).png);

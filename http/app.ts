@@ -5,6 +5,7 @@ import { buildOpenApi } from "./openapi.js";
 import { renderDocsPage } from "./docs-page.js";
 import type { RouteSpec } from "./route-spec.js";
 import { parseOrThrow } from "../pipeline/requests/parse-request.js";
+import { previewText } from "../pipeline/requests/preview.js";
 import { serviceRoutes } from "./routes/service.js";
 import { opticsRoutes } from "./routes/optics.js";
 import { profileRoutes } from "./routes/profile.js";
@@ -16,9 +17,13 @@ import { viewRoutes } from "./routes/view.js";
 import { registerWeb } from "./routes/web.js";
 import { registerHardening } from "./plugins/hardening.js";
 import { registerRefusedBodyDrain } from "./plugins/drain-refused-body.js";
+import { registerJsonBody } from "./plugins/json-body.js";
+import { frameworkErrorOptions } from "./plugins/framework-errors.js";
+import { boundedLogger } from "./plugins/bounded-logs.js";
 import { jobRoutes } from "./routes/jobs.js";
 import { createJobSystem } from "../pipeline/jobs/job-system.js";
 import { loadConfig, type Config } from "../pipeline/config/config.js";
+import { deadlines } from "../pipeline/process/shutdown.js";
 
 export interface AppOptions {
   config?: Partial<Config>;
@@ -29,7 +34,8 @@ export interface AppOptions {
 export async function buildApp(options: AppOptions = {}): Promise<FastifyInstance> {
   const config = { ...loadConfig(process.env), ...options.config };
   const app = Fastify({
-    logger: options.logger ? { level: config.logLevel } : false,
+    logger: options.logger ? boundedLogger(config.logLevel) : false,
+    ...frameworkErrorOptions(),
     bodyLimit: config.bodyLimitBytes,
     requestTimeout: config.requestTimeoutMs,
     genReqId: () => crypto.randomUUID(),
@@ -37,14 +43,22 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
 
   await registerHardening(app, config);
   registerRefusedBodyDrain(app);
+  registerJsonBody(app);
 
   // JSON only: a text/plain body must be a 415, not parsed as a string.
   app.removeContentTypeParser("text/plain");
 
   const runtime = createKernelRuntime(config);
   const jobs = await createJobSystem(config, runtime, { onError: (err, job) => app.log.error({ err, job: job.id }, "job failed") });
+  // On close: event streams end first (they would hold the server open), then, once requests in flight have ended,
+  // a job this process runs itself (JOBS_IN_PROCESS) finishes or goes back to the queue before the grace is over.
+  let closeStartedAt = Date.now();
+  app.addHook("preClose", async () => {
+    closeStartedAt = Date.now();
+    jobs.endStreams();
+  });
   app.addHook("onClose", async () => {
-    await jobs.close();
+    await jobs.close(deadlines(config.shutdownGraceMs, closeStartedAt).abandonAt);
     await runtime.close();
   });
   const routes: RouteSpec[] = [
@@ -77,12 +91,14 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
   await registerWeb(app);
 
   app.setNotFoundHandler((request, reply) => {
-    const err = new ClientError("not-found", `no route ${request.method} ${request.url.split("?")[0]}; see /docs`);
+    const err = new ClientError("not-found", `no route ${previewText(request.method, 20)} ${previewText(request.url.split("?")[0])}; see /docs`);
     reply.status(err.status).send(err.toBody(request.id));
   });
 
   app.setErrorHandler((error: FastifyError | ClientError, request, reply) => {
     if (error instanceof ClientError) {
+      // A dependency away (503): the body says how long to wait, and so does the header.
+      if (typeof error.details.retryAfterS === "number") reply.header("retry-after", String(error.details.retryAfterS));
       reply.status(error.status).send(error.toBody(request.id));
       return;
     }

@@ -2,6 +2,7 @@
 
 import type { JsonSchemaNode } from "../schemas/json-schema.js";
 import { EYE_SAFETY_CAUTION } from "../pipeline/eye-safety.js";
+import type { OpenApiDocument, OpenApiResponse } from "./openapi.js";
 
 type Schema = JsonSchemaNode;
 
@@ -41,29 +42,33 @@ function fieldRows(s: Schema, prefix: string, rows: string[]): void {
   }
 }
 
-export function renderDocsPage(openapi: Record<string, unknown>): string {
-  const info = openapi.info as { title: string; version: string; description: string };
-  const paths = openapi.paths as Record<string, Record<string, Record<string, unknown>>>;
+/** Content types of an answer, each JSON one with the name of its schema under components.schemas. */
+function contentText(response: OpenApiResponse): string {
+  return Object.entries(response.content)
+    .map(([type, media]) => {
+      const refs = [media.schema?.$ref, ...(media.schema?.oneOf ?? []).map((s) => s.$ref)].filter((r): r is string => r !== undefined);
+      return refs.length ? `${type} (${refs.map((r) => r.replace("#/components/schemas/", "")).join(" or ")})` : type;
+    })
+    .join(", ");
+}
+
+export function renderDocsPage(openapi: OpenApiDocument): string {
+  const { info, paths } = openapi;
   const sections: string[] = [];
   for (const [path, methods] of Object.entries(paths)) {
     for (const [method, op] of Object.entries(methods)) {
       const rows: string[] = [];
-      const params = (op.parameters as { name: string; in: string; schema: Schema; description?: string }[]) ?? [];
+      const params = op.parameters ?? [];
       for (const p of params) {
         const def = p.schema.default !== undefined ? escapeHtml(JSON.stringify(p.schema.default)) : "";
         rows.push(
           `<tr><td><code>${escapeHtml(p.name)}</code> (${p.in})</td><td>${escapeHtml(typeText(p.schema))}</td><td>${def}</td><td>${escapeHtml(p.description ?? p.schema.description ?? "")}</td></tr>`,
         );
       }
-      const body = (op.requestBody as { content: Record<string, { schema: Schema }> } | undefined)?.content[
-        "application/json"
-      ]?.schema;
+      const body = op.requestBody?.content["application/json"].schema;
       if (body) fieldRows(body, "", rows);
-      const responses = Object.entries(op.responses as Record<string, { description: string; content?: object }>)
-        .map(
-          ([status, r]) =>
-            `<li><strong>${status}</strong> ${escapeHtml(r.description)} <small>${escapeHtml(Object.keys(r.content ?? {}).join(", "))}</small></li>`,
-        )
+      const responses = Object.entries(op.responses)
+        .map(([status, r]) => `<li><strong>${status}</strong> ${escapeHtml(r.description)} <small>${escapeHtml(contentText(r))}</small></li>`)
         .join("");
       const id = `${method}-${path}`.replace(/[^a-z0-9]+/gi, "-");
       sections.push(`<section id="${id}">
@@ -88,7 +93,8 @@ table{border-collapse:collapse;width:100%;font-size:.9rem} td,th{border:1px soli
 <p class="caution">${escapeHtml(EYE_SAFETY_CAUTION)}</p>
 <p>${escapeHtml(info.description.replace(EYE_SAFETY_CAUTION, "").trim())}</p>
 <p>Every error has the JSON shape <code>{ error, message, field, allowed, requestId }</code>. The machine-readable
-document is at <a href="/openapi.json">/openapi.json</a>.</p>
+document is at <a href="/openapi.json">/openapi.json</a>; the schema of every JSON answer is in its
+<code>components.schemas</code>, under the name given beside each answer below.</p>
 <nav><ul>${Object.entries(paths)
     .flatMap(([p, ms]) =>
       Object.keys(ms).map(

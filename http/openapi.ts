@@ -1,36 +1,71 @@
 import { z } from "zod";
 import type { RouteSpec } from "./route-spec.js";
 import { EYE_SAFETY_CAUTION } from "../pipeline/eye-safety.js";
+import { responseSchemas, type ResponseSchemaName } from "../schemas/responses/catalogue.js";
+import type { JsonSchemaNode } from "../schemas/json-schema.js";
 
-const errorSchema = {
-  type: "object",
-  required: ["error", "message"],
-  properties: {
-    error: { type: "string", description: "stable error code" },
-    message: { type: "string" },
-    field: { type: "string", description: "JSON path of the field at fault" },
-    allowed: { type: "string", description: "the allowed range or choices" },
-    requestId: { type: "string" },
-  },
-};
+export interface OpenApiParameter {
+  name: string;
+  in: "path" | "query";
+  required: boolean;
+  description?: string;
+  schema: JsonSchemaNode;
+}
 
-function toJsonSchema(schema: z.ZodType): Record<string, unknown> {
-  const js = z.toJSONSchema(schema, { io: "input", unrepresentable: "any" }) as Record<string, unknown>;
+export interface OpenApiResponse {
+  description: string;
+  content: Record<string, { schema?: JsonSchemaNode }>;
+}
+
+export interface OpenApiOperation {
+  summary: string;
+  description?: string;
+  tags: string[];
+  parameters?: OpenApiParameter[];
+  requestBody?: { required: boolean; content: { "application/json": { schema: JsonSchemaNode } } };
+  responses: Record<string, OpenApiResponse>;
+}
+
+/** The parts of an OpenAPI 3.1 document this service writes. */
+export interface OpenApiDocument {
+  openapi: "3.1.0";
+  info: { title: string; version: string; description: string };
+  paths: Record<string, Record<string, OpenApiOperation>>;
+  components: { schemas: Record<string, JsonSchemaNode> };
+}
+
+/** Requests are described as clients send them (defaults optional), responses as the service writes them. */
+export function toJsonSchema(schema: z.ZodType, io: "input" | "output" = "input"): JsonSchemaNode {
+  const js = z.toJSONSchema(schema, { io, unrepresentable: "any" }) as JsonSchemaNode & { $schema?: string };
   delete js.$schema;
   return js;
 }
 
+/** Where /openapi.json keeps a response body's schema. */
+export function responseSchemaRef(name: ResponseSchemaName): JsonSchemaNode {
+  return { $ref: `#/components/schemas/${name}` };
+}
+
+function jsonBodySchema(status: number, names: ResponseSchemaName | ResponseSchemaName[] | undefined): JsonSchemaNode {
+  if (status >= 400) return responseSchemaRef("Error");
+  if (names === undefined) return {};
+  return Array.isArray(names) ? { oneOf: names.map(responseSchemaRef) } : responseSchemaRef(names);
+}
+
+/** Errors any route can give besides those it lists: 413, 415, 429, 503, and a 500 that is a bug. */
+const otherErrors: OpenApiResponse = { description: "any other error, in the same shape", content: { "application/json": { schema: responseSchemaRef("Error") } } };
+
 /** OpenAPI 3.1 (whose schemas are JSON Schema 2020-12, what zod emits) built from the route specs. */
-export function buildOpenApi(routes: RouteSpec[], version: string): Record<string, unknown> {
-  const paths: Record<string, Record<string, unknown>> = {};
+export function buildOpenApi(routes: RouteSpec[], version: string): OpenApiDocument {
+  const paths: OpenApiDocument["paths"] = {};
   for (const route of routes) {
     const openApiPath = route.url.replace(/:(\w+)/g, "{$1}");
-    const parameters: unknown[] = [];
+    const parameters: OpenApiParameter[] = [];
     for (const match of route.url.matchAll(/:(\w+)/g)) {
       parameters.push({ name: match[1], in: "path", required: true, schema: { type: "string" } });
     }
     if (route.query) {
-      const js = toJsonSchema(route.query) as { properties?: Record<string, { description?: string }>; required?: string[] };
+      const js = toJsonSchema(route.query);
       for (const [name, schema] of Object.entries(js.properties ?? {})) {
         parameters.push({
           name,
@@ -41,14 +76,15 @@ export function buildOpenApi(routes: RouteSpec[], version: string): Record<strin
         });
       }
     }
-    const responses: Record<string, unknown> = {};
+    const responses: Record<string, OpenApiResponse> = {};
     for (const [status, r] of Object.entries(route.responses)) {
       const types = r.contentTypes ?? ["application/json"];
       responses[status] = {
         description: r.description,
-        content: Object.fromEntries(types.map((t) => [t, Number(status) >= 400 ? { schema: errorSchema } : {}])),
+        content: Object.fromEntries(types.map((t) => [t, t === "application/json" ? { schema: jsonBodySchema(Number(status), r.json) } : {}])),
       };
     }
+    responses.default = otherErrors;
     paths[openApiPath] ??= {};
     paths[openApiPath][route.method.toLowerCase()] = {
       summary: route.summary,
@@ -72,5 +108,6 @@ export function buildOpenApi(routes: RouteSpec[], version: string): Record<strin
         EYE_SAFETY_CAUTION,
     },
     paths,
+    components: { schemas: Object.fromEntries(Object.entries(responseSchemas).map(([name, schema]) => [name, toJsonSchema(schema, "output")])) },
   };
 }

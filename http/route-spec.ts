@@ -1,5 +1,13 @@
 import type { FastifyReply, FastifyRequest } from "fastify";
 import type { z } from "zod";
+import type { ResponseSchemaName } from "../schemas/responses/catalogue.js";
+
+/** A status's answer: its content types and, for JSON, the schema(s) of schemas/responses/ it follows (errors: always Error). */
+export interface ResponseSpec {
+  description: string;
+  contentTypes?: string[];
+  json?: ResponseSchemaName | ResponseSchemaName[];
+}
 
 /** One endpoint: its zod inputs feed both validation and the OpenAPI document. */
 export interface RouteSpec<B extends z.ZodType = z.ZodType, Q extends z.ZodType = z.ZodType> {
@@ -10,7 +18,7 @@ export interface RouteSpec<B extends z.ZodType = z.ZodType, Q extends z.ZodType 
   tag: string;
   body?: B;
   query?: Q;
-  responses: Record<number, { description: string; contentTypes?: string[] }>;
+  responses: Record<number, ResponseSpec>;
   handle: (input: { body: z.output<B>; query: z.output<Q>; request: FastifyRequest; reply: FastifyReply }) => Promise<unknown>;
 }
 

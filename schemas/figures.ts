@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { angleRangeSchema } from "./angles.js";
 import { waterSchema } from "./water.js";
+import { moonSchema } from "./moon.js";
 import { defaultSun, outputSchema, profileMethods, profileRequestSchema, sunSchema } from "./profile.js";
 
 export const svgQuerySchema = z
@@ -29,6 +30,7 @@ export const sizeMapRequestSchema = z
     radiusSteps: z.number().int().min(2).max(SIZE_MAP_MAX_RADII).default(24).describe("Rows: radii log-spaced from radiusFromUm to radiusToUm"),
     water: waterSchema.default({ temperatureC: 15, salinityPsu: 0 }),
     sun: sunSchema.default(defaultSun),
+    moon: moonSchema.optional().describe("The moon as the light instead of the sun, as in POST /v1/profile"),
     observer: z.enum(["cie1931-2", "cie1964-10"]).default("cie1931-2"),
     angles: angleRangeSchema({ what: "angle ψ from the antisolar point", fromDeg: 30, toDeg: 60, stepDeg: 0.25, maxCount: SIZE_MAP_MAX_ANGLES }).default({
       fromDeg: 30,
@@ -67,6 +69,7 @@ export function sizeMapRowBody(b: Omit<SizeMapRequest, "radiusFromUm" | "radiusT
     drops: { kind: "monodisperse" as const, radiusUm },
     water: b.water,
     sun: b.sun,
+    moon: b.moon,
     observer: b.observer,
     angles: b.angles,
     spectral: b.spectral,

@@ -1,5 +1,6 @@
 /** The parts of a JSON Schema node (as zod's toJSONSchema writes them) that our error messages and docs read. */
 export interface JsonSchemaNode {
+  $ref?: string;
   type?: string | string[];
   description?: string;
   default?: unknown;

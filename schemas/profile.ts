@@ -1,6 +1,10 @@
 import { z } from "zod";
 import { angleRangeSchema } from "./angles.js";
 import { waterSchema } from "./water.js";
+import { placeAndMomentSchema } from "./place-and-time.js";
+import { atmosphereSchema } from "./atmosphere.js";
+import { moonSchema } from "./moon.js";
+import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
 import { RADIUS_DENSITIES } from "../lib/bow/radius-density.js";
 import { arcPositionSchema, dropShapeSchema } from "./drop-shape.js";
 
@@ -87,18 +91,8 @@ export const sunSchema = z
       .default({ kind: "astm-g173", column: "extraterrestrial" })
       .describe("Sunlight above the atmosphere (astm-g173 extraterrestrial, blackbody) or at the ground (the others)"),
     elevationDeg: number(-1, 90, "Sun's elevation above the horizon, degrees").default(10),
-    atmosphere: z
-      .object({
-        attenuate: z
-          .enum(["auto", "always", "never"])
-          .default("auto")
-          .describe("Slant-path extinction: auto applies it to top-of-atmosphere spectra only"),
-        pressureHpa: number(300, 1100, "Surface pressure, hPa (scales Rayleigh depth)").default(1013.25),
-        angstromBeta: number(0, 2, "Ångström turbidity β (aerosol depth at 1 µm)").default(0.05),
-        angstromAlpha: number(0, 4, "Ångström exponent α").default(1.3),
-      })
-      .strict()
-      .default({ attenuate: "auto", pressureHpa: 1013.25, angstromBeta: 0.05, angstromAlpha: 1.3 }),
+    at: placeAndMomentSchema.optional().describe("A moment and a place instead of elevationDeg: the sun's apparent elevation is computed (meta.sourcePosition)"),
+    atmosphere: atmosphereSchema,
     discDeg: number(0, 5, "Angular diameter of the source, degrees (0 = point source)").default(0.5329),
     limbDarkening: z.enum(["neckel-labs-1994", "uniform"]).default("neckel-labs-1994"),
   })
@@ -110,6 +104,8 @@ export const outputSchema = z
     gamut: z.enum(["clip", "css4", "desaturate"]).default("css4"),
     normalise: z.enum(["peak", "physical"]).default("peak"),
     white: z.enum(["sun", "absolute"]).default("sun"),
+    vision: visionSchema,
+    adaptingLuminanceCdPerM2: adaptingLuminanceSchema,
   })
   .strict();
 
@@ -123,6 +119,7 @@ export const profileFieldsSchema = z
     drops: dropsSchema.default({ kind: "marshall-palmer", rainRateMmPerH: 2 }),
     water: waterSchema.default({ temperatureC: 15, salinityPsu: 0 }),
     sun: sunSchema.default(defaultSun),
+    moon: moonSchema.optional().describe("The moon as the light instead of the sun (leave sun out): position, phase, distance and atmosphere"),
     observer: z.enum(["cie1931-2", "cie1964-10"]).default("cie1931-2"),
     angles: angleRangeSchema({
       what: "angle ψ from the antisolar point",
@@ -155,7 +152,7 @@ export const profileFieldsSchema = z
     arcPositionDeg: arcPositionSchema,
     polariserDeg: number(-180, 180, "Linear polariser's axis to the bow's tangent, degrees (0 strengthens the bow)").optional(),
     pathLengthM: number(1, 100000, "Path length through the rain along the line of sight, m").default(1000),
-    output: outputSchema.default({ space: "srgb", gamut: "css4", normalise: "peak", white: "sun" }),
+    output: outputSchema.default({ space: "srgb", gamut: "css4", normalise: "peak", white: "sun", vision: "camera" }),
   })
   .strict();
 

@@ -1,6 +1,9 @@
 import { z } from "zod";
 import { profileRequestSchema, sunSchema } from "./profile.js";
 import { refuseFlattenedDrops } from "./drop-shape.js";
+import { placeAndMomentSchema } from "./place-and-time.js";
+import { moonPositionSchema } from "./moon.js";
+import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 const profileFields = profileRequestSchema.shape;
@@ -10,7 +13,7 @@ export const viewScenarioSchema = z
   .object({
     drops: profileFields.drops,
     water: profileFields.water,
-    sun: sunSchema.omit({ elevationDeg: true }).prefault({}).describe("Sun spectrum, atmosphere and disc; its position is the body's `sun`"),
+    sun: sunSchema.omit({ elevationDeg: true, at: true }).prefault({}).describe("Sun spectrum, atmosphere and disc; its position is the body's `sun`"),
     observer: profileFields.observer,
     spectral: profileFields.spectral,
     method: profileFields.method,
@@ -25,6 +28,7 @@ export const sunPositionSchema = z
   .object({
     azimuthDeg: number(-360, 360, "Sun's azimuth, degrees clockwise from north (east = 90)").default(240),
     elevationDeg: number(-1, 90, "Sun's elevation above the horizon, degrees").default(12),
+    at: placeAndMomentSchema.optional().describe("A moment and a place instead of azimuthDeg/elevationDeg: the sun's apparent position is computed (manifest sourcePosition)"),
   })
   .strict()
   .prefault({});
@@ -50,6 +54,8 @@ export const viewOutputSchema = z
       .default("peak")
       .describe("peak: pixel luminance 1 = the brightest point of the bows (ψ 30°–60°); physical: 1 = referenceCdPerM2"),
     referenceCdPerM2: number(1e-3, 1e6, "Luminance that pixel value 1 stands for under normalise = physical, cd/m²").default(1000),
+    vision: visionSchema,
+    adaptingLuminanceCdPerM2: adaptingLuminanceSchema,
   })
   .strict()
   .prefault({});
@@ -89,6 +95,7 @@ export const viewRequestSchema = z
     scenario: viewScenarioSchema,
     camera: cameraSchema,
     sun: sunPositionSchema,
+    moon: moonPositionSchema.optional().describe("The moon as the light instead of the sun (leave sun out): position, phase, distance and atmosphere; scenario.sun's spectrum and disc are then the moon's"),
     ground: z.boolean().default(true).describe("true: flat ground hides everything below the horizon (z < 0)"),
     layer: layerSchema,
     polariserDeg: number(-180, 180, "Linear polariser's axis, degrees anticlockwise from the image's horizontal; omit for none").optional(),
@@ -103,6 +110,7 @@ export const skyRequestSchema = z
     widthPx: z.number().int().min(2).max(8192).default(2048).describe("Map width, pixels (360° of azimuth)"),
     heightPx: z.number().int().min(1).max(4096).default(1024).describe("Map height, pixels (180° of elevation); width/height must be 2"),
     sun: sunPositionSchema,
+    moon: moonPositionSchema.optional().describe("The moon as the light instead of the sun (leave sun out): position, phase, distance and atmosphere; scenario.sun's spectrum and disc are then the moon's"),
     polariserToTangentDeg: number(-180, 180, "A linear polariser held at this angle to the bow's tangent everywhere (as polariserDeg of /v1/profile); omit for none").optional(),
     ground: z.boolean().default(true).describe("true: the lower half (elevation < 0) is left empty"),
     layer: layerSchema,

@@ -21,7 +21,7 @@ export function lutRoutes(config: Config, kernels: KernelService): RouteSpec[] {
       body: lutRequestSchema,
       query: lutQuerySchema,
       responses: {
-        200: { description: "the texture or its manifest", contentTypes: ["image/x-exr", "image/vnd.radiance", "image/png", "application/json"] },
+        200: { description: "the texture or its manifest", contentTypes: ["image/x-exr", "image/ktx2", "image/vnd.radiance", "image/png", "application/json"], json: ["LutManifest", "LutJson"] },
         400: { description: "a field out of range" },
         422: { description: "valid, but costlier than the synchronous budget" },
       },

@@ -5,6 +5,7 @@ import { waterIndex } from "../../lib/water/water-index.js";
 import { computeScatter, scatterCost } from "../../pipeline/compute/scatter.js";
 import { ClientError } from "../../pipeline/requests/client-error.js";
 import type { Config } from "../../pipeline/config/config.js";
+import type { WaterResponse } from "../../schemas/responses/optics-response.js";
 
 export function opticsRoutes(config: Config): RouteSpec[] {
   return [
@@ -17,8 +18,8 @@ export function opticsRoutes(config: Config): RouteSpec[] {
         "IAPWS R9-97 with the liquid density at the temperature, plus the Quan & Fry 1995 salinity increment. " +
         "`n` is relative to vacuum; `nRelativeToAir` is what the scattering code uses for a drop in air.",
       query: waterQuerySchema,
-      responses: { 200: { description: "the index" }, 400: { description: "a parameter out of range" } },
-      handle: async ({ query }) => ({ ...waterIndex(query), wavelength: "vacuum", wavelengthNm: query.wavelengthNm }),
+      responses: { 200: { description: "the index", json: "Water" }, 400: { description: "a parameter out of range" } },
+      handle: async ({ query }): Promise<WaterResponse> => ({ ...waterIndex(query), wavelength: "vacuum", wavelengthNm: query.wavelengthNm }),
     }),
     defineRoute({
       method: "POST",
@@ -31,7 +32,7 @@ export function opticsRoutes(config: Config): RouteSpec[] {
         "budget (Mie terms × angles) are refused with 422.",
       body: scatterRequestSchema,
       responses: {
-        200: { description: "intensities per scattering angle" },
+        200: { description: "intensities per scattering angle", json: "Scatter" },
         400: { description: "a field out of range" },
         422: { description: "valid, but costlier than the synchronous budget" },
       },

@@ -12,6 +12,7 @@ import { clientSignal } from "../plugins/hardening.js";
 import type { Config } from "../../pipeline/config/config.js";
 import type { Preset } from "../../pipeline/requests/presets.js";
 import type { KernelService } from "../../pipeline/kernels/kernel-service.js";
+import type { PresetList } from "../../schemas/responses/profile-response.js";
 
 function chooseFormat(query: { format?: ProfileFormat }, request: FastifyRequest): ProfileFormat {
   if (query.format) return query.format;
@@ -38,7 +39,7 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
       body: profileRequestSchema,
       query: stripQuerySchema,
       responses: {
-        200: { description: "the profile", contentTypes: ["application/json", "image/png", "image/svg+xml"] },
+        200: { description: "the profile", contentTypes: ["application/json", "image/png", "image/svg+xml"], json: "Profile" },
         400: { description: "a field out of range" },
         422: { description: "valid, but costlier than the synchronous budget" },
       },
@@ -57,8 +58,8 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
       url: "/v1/presets",
       tag: "bows",
       summary: "Named demo scenarios, each a complete body for POST /v1/profile",
-      responses: { 200: { description: "the presets" } },
-      handle: async () => ({
+      responses: { 200: { description: "the presets", json: "PresetList" } },
+      handle: async (): Promise<PresetList> => ({
         presets: [...presets.values()].map((p) => ({ name: p.name, title: p.title, description: p.description })),
       }),
     }),
@@ -67,7 +68,7 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
       url: "/v1/presets/:name",
       tag: "bows",
       summary: "One demo scenario with its complete request body",
-      responses: { 200: { description: "the preset" }, 404: { description: "no such preset" } },
+      responses: { 200: { description: "the preset", json: "Preset" }, 404: { description: "no such preset" } },
       handle: async ({ request }) => {
         const name = (request.params as { name: string }).name;
         const preset = presets.get(name);

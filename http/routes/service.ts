@@ -1,4 +1,5 @@
 import { defineRoute, type RouteSpec } from "../route-spec.js";
+import type { HealthResponse } from "../../schemas/responses/service-response.js";
 
 export function serviceRoutes(): RouteSpec[] {
   return [
@@ -7,8 +8,8 @@ export function serviceRoutes(): RouteSpec[] {
       url: "/healthz",
       tag: "service",
       summary: "200 when the process can serve requests",
-      responses: { 200: { description: "the process is alive" } },
-      handle: async () => ({ status: "ok", uptimeS: Math.round(process.uptime()) }),
+      responses: { 200: { description: "the process is alive", json: "Health" } },
+      handle: async (): Promise<HealthResponse> => ({ status: "ok", uptimeS: Math.round(process.uptime()) }),
     }),
   ];
 }

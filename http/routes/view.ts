@@ -10,11 +10,13 @@ import type { Config } from "../../pipeline/config/config.js";
 import type { KernelService } from "../../pipeline/kernels/kernel-service.js";
 import { ResultCache } from "../../pipeline/render/result-cache.js";
 
-const responses = {
-  200: { description: "the layer, or its JSON manifest with ?part=manifest", contentTypes: ["image/x-exr", "image/vnd.radiance", "image/png", "application/json"] },
-  400: { description: "a field out of range" },
-  422: { description: "valid, but costlier than the synchronous budget" },
-};
+function responses(manifest: "ViewManifest" | "SkyManifest") {
+  return {
+    200: { description: "the layer, or its JSON manifest with ?part=manifest", contentTypes: ["image/x-exr", "image/vnd.radiance", "image/png", "application/json"], json: manifest },
+    400: { description: "a field out of range" },
+    422: { description: "valid, but costlier than the synchronous budget" },
+  };
+}
 
 /** POST /v1/view (camera) and POST /v1/sky (equirectangular map): bow layers for compositing. */
 export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] {
@@ -44,7 +46,7 @@ export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] 
         "?format=hdr|png16|png; ?part=manifest for the JSON sidecar (camera, mapping, scale, hash, sources).",
       body: viewRequestSchema,
       query: imageQuerySchema,
-      responses,
+      responses: responses("ViewManifest"),
       handle: async ({ body, query, reply }) => answer("view", body, query, reply),
     }),
     defineRoute({
@@ -57,7 +59,7 @@ export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] 
         "`{}` renders 2048×1024 with the sun at azimuth 240°, 12° high. Same layers, formats and manifest as POST /v1/view.",
       body: skyRequestSchema,
       query: imageQuerySchema,
-      responses,
+      responses: responses("SkyManifest"),
       handle: async ({ body, query, reply }) => answer("sky", body, query, reply),
     }),
   ];

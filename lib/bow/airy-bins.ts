@@ -12,6 +12,7 @@
 import { airyFast, airyFastOut } from "./airy-table.js";
 import { airyBowScale } from "../rays/airy-bow.js";
 import { deviationCurvature, deviationRad, deviationSlope, rainbowImpactParameter, scatteringAngleOfDeviation } from "../rays/descartes.js";
+import { fresnelAmplitudes, type PolarisedPair } from "../rays/fresnel.js";
 
 const DEG = Math.PI / 180;
 /** Relative step of the central difference for dA/db at the rainbow ray (~ε^{1/3} of the scale: Press et al. 2007, Numerical Recipes 3rd ed. §5.7). */
@@ -36,12 +37,8 @@ export interface UniformBowTable {
  * Signed field amplitudes t·r^k·t′ of a ray of order k at impact parameter b (Fresnel, Born & Wolf 1999 §1.5.2
  * Eq. 20–21; internal r′ = −r by Stokes' relations), times √b for the ring's width.
  */
-function signedAmplitude(n: number, k: number, b: number): { perpendicular: number; parallel: number } {
-  const cosI = Math.sqrt(1 - b * b);
-  const nCosR = Math.sqrt(n * n - b * b);
-  const cosR = nCosR / n;
-  const rPerp = (cosI - nCosR) / (cosI + nCosR);
-  const rPar = (n * cosI - cosR) / (n * cosI + cosR);
+function signedAmplitude(n: number, k: number, b: number): PolarisedPair {
+  const { perpendicular: rPerp, parallel: rPar } = fresnelAmplitudes(n, b);
   // t·t′ = 1 − r² for both polarisations (Stokes' relations).
   const root = Math.sqrt(b);
   return {

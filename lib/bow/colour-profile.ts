@@ -8,6 +8,8 @@ import { renderXyz, type WhiteHandling } from "../colour/render.js";
 import type { OutputSpaceId } from "../colour/output-spaces.js";
 import type { GamutMethod } from "../colour/gamut.js";
 import type { SpectralProfile } from "./lattice-profile.js";
+import { applyEyeToXyz, type EyeAdaptation } from "../colour/low-light-vision.js";
+import { scotopicOf } from "../colour/mesopic.js";
 
 /** Maximum luminous efficacy K_m = 683 lm/W (CIE 015:2018 §7.1; the SI definition of the candela). */
 export const LUMINOUS_EFFICACY_LM_PER_W = 683;
@@ -24,6 +26,8 @@ export interface ColourOptions {
   polariserDeg?: number;
   /** XYZ of the direct sunlight (any scale), the white under white = "sun". */
   sunWhite: Xyz;
+  /** A human eye at this adaptation instead of a colorimetric camera (output.vision = "eye"). */
+  eye?: EyeAdaptation;
 }
 
 export interface ColourProfile {
@@ -68,6 +72,7 @@ export function colourProfile(spectral: SpectralProfile, grid: WavelengthGrid, o
 
   const xyzAbsolute = spectraToXyz(grid, radiance, options.observer);
   for (let k = 0; k < xyzAbsolute.length; k++) xyzAbsolute[k] *= LUMINOUS_EFFICACY_LM_PER_W;
+  if (options.eye) applyEyeToXyz(xyzAbsolute, scotopicOf(grid, radiance), options.eye);
   const luminanceCdPerM2 = new Float64Array(count);
   let peak = 0;
   for (let i = 0; i < count; i++) {

@@ -3,11 +3,13 @@
 
 import { mieCoefficientsScratch } from "../mie/coefficients-scratch.js";
 import { mieAmplitudes } from "../mie/amplitudes.js";
+import { mieAmplitudesManyDrops } from "../mie/many-drops.js";
 import { allocateAmplitudes, type MieAmplitudes } from "../mie/types.js";
 import { rayOpticsBins, type RayBins } from "./ray-bins.js";
 import { addUniformBowBins, uniformBowTable, type UniformBowTable } from "./airy-bins.js";
 import { AIRY_BOW_ORDERS, RAY_ORDERS, type DropEngine } from "./volume-scattering.js";
 import { cellSampleRadiusUm, type CellAverage } from "./cell-average.js";
+import type { DropMedium } from "../water/drop-medium.js";
 
 export type { CellAverage } from "./cell-average.js";
 
@@ -27,7 +29,7 @@ export interface DropRowContext {
 
 /** Θ ascending and evenly spaced by stepDeg (ray and Airy engines give bin means over each step). */
 export function dropRowContext(
-  medium: { wavelengthNm: number; mRe: number; mIm: number; nAir: number },
+  medium: DropMedium,
   thetaDeg: Float64Array,
   stepDeg: number,
   engines: ReadonlySet<DropEngine>,
@@ -99,6 +101,52 @@ export function dropRow(ctx: DropRowContext, engine: DropEngine, radiusUm: numbe
   // A null table: the order's bow formula serves no bin of this grid (its rays are all in raysAiryEngine).
   for (const table of ctx.bowTables) if (table) addUniformBowBins(table, x, 1, perp, par);
   return 0;
+}
+
+/** Sizes handed to the many-drops kernel at once: enough to share each angular table among many drops. */
+const MIE_SIZES_PER_PASS = 64;
+
+/**
+ * As dropRow for Lorenz–Mie drops, many at once (lib/mie/many-drops.ts: the angular functions once per block of
+ * angles for all of them): |S1|², |S2|² per drop (the mean over its cell's sizes with an average), the same values
+ * as dropRow to the bit; and the Mie term-angles spent.
+ */
+export function mieRows(ctx: DropRowContext, drops: readonly { radiusUm: number; average?: CellAverage }[]): { rows: { perp: Float64Array; par: Float64Array }[]; termAngles: number } {
+  const nTheta = ctx.thetaDeg.length;
+  const sizes: { drop: number; x: number; share: number }[] = [];
+  drops.forEach((drop, i) => {
+    const samples = drop.average && drop.average.samples > 1 ? drop.average.samples : 1;
+    for (let s = 0; s < samples; s++) {
+      const radiusUm = samples === 1 ? drop.radiusUm : cellSampleRadiusUm(drop.radiusUm, drop.average!, s);
+      sizes.push({ drop: i, x: ctx.waveNumberPerM * radiusUm * 1e-6, share: 1 / samples });
+    }
+  });
+  const rows = drops.map(() => ({ perp: new Float64Array(nTheta), par: new Float64Array(nTheta) }));
+  const outs = Array.from({ length: Math.min(MIE_SIZES_PER_PASS, sizes.length) }, () => allocateAmplitudes(nTheta));
+  let termAngles = 0;
+  for (let first = 0; first < sizes.length; first += MIE_SIZES_PER_PASS) {
+    const pass = sizes.slice(first, first + MIE_SIZES_PER_PASS);
+    mieAmplitudesManyDrops(
+      pass.length,
+      (d) => {
+        const c = mieCoefficientsScratch(ctx.mRe, ctx.mIm, pass[d].x);
+        termAngles += c.nTerms * nTheta;
+        return c;
+      },
+      ctx.cosTheta,
+      outs,
+    );
+    // In the order of the sizes, as dropRow adds them, so the means are the same to the bit.
+    pass.forEach(({ drop, share }, d) => {
+      const a = outs[d];
+      const { perp, par } = rows[drop];
+      for (let j = 0; j < nTheta; j++) {
+        perp[j] += share * (a.s1Re[j] * a.s1Re[j] + a.s1Im[j] * a.s1Im[j]);
+        par[j] += share * (a.s2Re[j] * a.s2Re[j] + a.s2Im[j] * a.s2Im[j]);
+      }
+    });
+  }
+  return { rows, termAngles };
 }
 
 function addScaled(perp: Float64Array, par: Float64Array, rays: RayBins, factor: number): void {

@@ -4,11 +4,12 @@
 import type { DropEngine } from "./volume-scattering.js";
 import { blockRange } from "./kernel-grid.js";
 import { rowVariant } from "./cell-average.js";
-import { dropRow, dropRowContext, type CellAverage } from "./drop-rows.js";
+import { dropRow, dropRowContext, mieRows, type CellAverage } from "./drop-rows.js";
+import type { DropMedium } from "../water/drop-medium.js";
 import { shapedDropRow, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
 
 export interface KernelRowsInput {
-  medium: { wavelengthNm: number; mRe: number; mIm: number; nAir: number };
+  medium: DropMedium;
   h: number;
   items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage; shape?: ShapedRowSpec }[];
   /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
@@ -60,10 +61,18 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
     entry.buffer = new Float64Array(entry.used);
     entry.used = 0;
   }
-  let mieTermAngles = 0;
+  // Lorenz–Mie drops all at once (the angular functions shared among them), the other engines drop by drop.
+  const mieIndices = items.flatMap((item, index) => (item.engine === "mie" && !item.shape ? [index] : []));
+  const mie = mieRows(ctx, mieIndices.map((i) => items[i]));
+  const mieRowOf = new Map(mieIndices.map((item, k) => [item, mie.rows[k]]));
+  let mieTermAngles = mie.termAngles;
   const rows = items.map((item, index) => {
+    const computed = mieRowOf.get(index);
     if (item.shape) shapedDropRow(item.shape, ctx.mRe, ctx.waveNumberPerM * item.radiusUm * 1e-6, item.radiusUm, thetaDeg, h, perp, par);
-    else mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
+    else if (computed) {
+      perp.set(computed.perp);
+      par.set(computed.par);
+    } else mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
     return item.blocks.map((b) => {
       const at = positions.get(b)!;
       const count = at.length;

@@ -5,7 +5,7 @@
 import { kernelRows, type KernelRowsInput } from "./kernel-rows.js";
 import { blocksOf, latticeSpan, KERNEL_STEPS_DEG } from "./kernel-grid.js";
 import { engineChooser } from "./engine-choice.js";
-import { waterIndex } from "../water/water-index.js";
+import { dropMedium } from "../water/drop-medium.js";
 
 /** ψ 30–60° widened by the sun's radius (about 0.27°), on the coarsest lattice: the default profile's span. */
 const SPAN = latticeSpan(30 - 0.27, 60 + 0.27, KERNEL_STEPS_DEG[0]);
@@ -13,11 +13,10 @@ const SPAN = latticeSpan(30 - 0.27, 60 + 0.27, KERNEL_STEPS_DEG[0]);
 const RADII_UM = [12, 35, 80, 150, 400, 1200];
 
 function warmUpTask(wavelengthNm: number): KernelRowsInput {
-  const water = waterIndex({ wavelengthNm, temperatureC: 15, salinityPsu: 0 });
   const engine = engineChooser("auto");
   const blocks = blocksOf(SPAN);
   return {
-    medium: { wavelengthNm, mRe: water.nRelativeToAir, mIm: water.k, nAir: water.n / water.nRelativeToAir },
+    medium: dropMedium({ temperatureC: 15, salinityPsu: 0 }, wavelengthNm),
     h: SPAN.h,
     items: RADII_UM.map((radiusUm) => ({ radiusUm, engine: engine(radiusUm), blocks })),
     within: { first: SPAN.first, last: SPAN.last },

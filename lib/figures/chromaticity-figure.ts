@@ -1,12 +1,12 @@
 // CIE chromaticity diagram with the bow's colour path, the sun's white and the sRGB gamut.
 
 import { cmfTables, type Observer } from "../colour/observers.js";
-import { chromaticity } from "../colour/tristimulus.js";
+import { chromaticity, type Chromaticity } from "../colour/tristimulus.js";
+import { spacePrimaries } from "../colour/primaries.js";
 import { axis, linearScale, niceTicks, type Scale } from "./axes.js";
 import { element, hexColour, pointsAttribute, px, svgDocument, text, textBlock, wrapText } from "./svg.js";
 import { LabelPlacer } from "./labels.js";
 import { type FigureProfile, hashOf, scenarioSentence, sourcesOf, srgbColours } from "./figure-input.js";
-import { rgbSpaceChromaticities, type XyPoint } from "./primaries.js";
 
 /** Wavelengths labelled on the locus, nm (spaced where the locus runs fast, as is usual on such diagrams). */
 export const LOCUS_LABELS_NM = [460, 470, 480, 490, 500, 510, 520, 540, 560, 580, 600, 620, 700] as const;
@@ -24,7 +24,7 @@ const LOCUS_DATA: Record<Observer, { name: string; citation: string }> = {
   },
 };
 
-const SRGB_SOURCE = "sRGB primaries and white: IEC 61966-2-1:1999 (as implemented in colorjs.io)";
+const SRGB_SOURCE = "sRGB primaries and white: IEC 61966-2-1:1999 (ITU-R BT.709-6 primaries, D65)";
 
 /** The published sources of the diagram itself, before those of the profile drawn on it. */
 export function chromaticityFigureSources(observer: Observer): string[] {
@@ -92,7 +92,7 @@ export function chromaticitySvg(p: FigureProfile): string {
   const ys = linearScale([0, MAIN.yMax], [MAIN.top + MAIN.yMax * MAIN.unitPx, MAIN.top]);
   const mainBottom = ys(0);
   const mainRight = xs(MAIN.xMax);
-  const at = (q: XyPoint, sx: Scale = xs, sy: Scale = ys): [number, number] => [sx(q.x), sy(q.y)];
+  const at = (q: Chromaticity, sx: Scale = xs, sy: Scale = ys): [number, number] => [sx(q.x), sy(q.y)];
   const parts: string[] = [];
   const title = `Chromaticity of the rainbow on the CIE ${observer === "cie1931-2" ? "1931" : "1964"} (x, y) diagram`;
   parts.push(text(WIDTH / 2, 28, title, { "font-size": 16, "font-weight": "bold", "text-anchor": "middle", fill: "#111111" }));
@@ -146,17 +146,19 @@ export function chromaticitySvg(p: FigureProfile): string {
   parts.push(element("g", { id: "wavelength-labels" }, labels.join("")));
   parts.push(text(xs(0.03), ys(0.86), "wavelengths in nm (vacuum)", { "font-size": 11, fill: "#555555", "font-style": "italic" }));
 
-  const srgb = rgbSpaceChromaticities("srgb");
+  const xy = ([x, y]: readonly [number, number]): Chromaticity => ({ x, y });
+  const primaries = spacePrimaries("srgb");
+  const srgb = { red: xy(primaries.red), green: xy(primaries.green), blue: xy(primaries.blue), white: xy(primaries.white) };
   const tri = [srgb.red, srgb.green, srgb.blue];
   parts.push(element("polygon", { id: "srgb-gamut", points: pointsAttribute(tri.map((q) => at(q))), fill: "none", stroke: "#2e7d32", "stroke-width": 1.4, "stroke-dasharray": "8 4" }));
-  const vertexLabel = (q: XyPoint, name: string, dx: number, dy: number) =>
+  const vertexLabel = (q: Chromaticity, name: string, dx: number, dy: number) =>
     element("circle", { id: `srgb-${name}`, cx: xs(q.x), cy: ys(q.y), r: 2.5, fill: "#2e7d32" }) +
     text(xs(q.x) + dx, ys(q.y) + dy, `sRGB ${name} (${q.x.toFixed(2)}, ${q.y.toFixed(2)})`, { "font-size": 11, fill: "#2e7d32", "text-anchor": dx < 0 ? "end" : "start" });
   parts.push(element("g", { id: "srgb-vertices" }, vertexLabel(srgb.red, "red", 6, -6) + vertexLabel(srgb.green, "green", -8, 4) + vertexLabel(srgb.blue, "blue", 8, 14)));
 
   // With the sun extinguished (on the horizon through a thick atmosphere) there is no white point: x, y are 0/0.
   const sunXy = chromaticity(p.sunWhite);
-  const sun: XyPoint | null = Number.isFinite(sunXy.x) && Number.isFinite(sunXy.y) ? sunXy : null;
+  const sun: Chromaticity | null = Number.isFinite(sunXy.x) && Number.isFinite(sunXy.y) ? sunXy : null;
 
   // The bow's path is small on the full diagram; a detail panel magnifies it.
   const bow = bowPoints(p);

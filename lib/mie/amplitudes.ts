@@ -1,28 +1,14 @@
 import { allocateAmplitudes, type MieAmplitudes, type MieCoefficients } from "./types.js";
 import { mieAmplitudesSimd } from "./simd-amplitudes.js";
+import { packCoefficients, PACKED_STRIDE } from "./packed-coefficients.js";
 
-/** Values per partial wave in the packed scratch table read by the angle loop. */
-const STRIDE = 5;
 let packed = new Float64Array(0);
 
-/**
- * Packs per n: w·(a_n + b_n), w·(a_n − b_n) with w = (2n+1)/(n(n+1)) (the weight of B&H eq. 4.74) and
- * (n+1)/n of the π_n recurrence, so the angle loop reads one sequential stream and does no division.
- */
-function packCoefficients(c: MieCoefficients): Float64Array {
-  const need = c.nTerms * STRIDE;
+function packedStream(c: MieCoefficients): Float64Array {
+  const need = c.nTerms * PACKED_STRIDE;
   if (packed.length < need) packed = new Float64Array(need);
-  const p = packed;
-  for (let i = 0, k = 0; i < c.nTerms; i++, k += STRIDE) {
-    const n = i + 1;
-    const w = (2 * n + 1) / (n * (n + 1));
-    p[k] = w * (c.aRe[i] + c.bRe[i]);
-    p[k + 1] = w * (c.aIm[i] + c.bIm[i]);
-    p[k + 2] = w * (c.aRe[i] - c.bRe[i]);
-    p[k + 3] = w * (c.aIm[i] - c.bIm[i]);
-    p[k + 4] = (n + 1) / n;
-  }
-  return p;
+  packCoefficients(c, packed);
+  return packed;
 }
 
 function checkedOutput(nAngles: number, out?: MieAmplitudes): MieAmplitudes {
@@ -62,8 +48,8 @@ export function mieAmplitudesScalar(
 ): MieAmplitudes {
   const res = checkedOutput(cosTheta.length, out);
   const nAngles = cosTheta.length;
-  const p = packCoefficients(c);
-  const end = c.nTerms * STRIDE;
+  const p = packedStream(c);
+  const end = c.nTerms * PACKED_STRIDE;
   const { s1Re, s1Im, s2Re, s2Im } = res;
   let j = 0;
   for (; j + 1 < nAngles; j += 2) {
@@ -77,7 +63,7 @@ export function mieAmplitudesScalar(
     let pPlusRe = 0, pPlusIm = 0, pMinusRe = 0, pMinusIm = 0;
     let qPlusRe = 0, qPlusIm = 0, qMinusRe = 0, qMinusIm = 0;
     let n = 1;
-    for (let k = 0; k < end; k += STRIDE) {
+    for (let k = 0; k < end; k += PACKED_STRIDE) {
       const sumRe = p[k], sumIm = p[k + 1], difRe = p[k + 2], difIm = p[k + 3], f = p[k + 4];
       const s = mu * pCur;
       const t = s - pPrev;
@@ -118,7 +104,7 @@ export function mieAmplitudesScalar(
     let pCur = 1;
     let plusRe = 0, plusIm = 0, minusRe = 0, minusIm = 0;
     let n = 1;
-    for (let k = 0; k < end; k += STRIDE) {
+    for (let k = 0; k < end; k += PACKED_STRIDE) {
       const s = mu * pCur;
       const t = s - pPrev;
       const tau = n * t - pPrev;

@@ -1,73 +1,68 @@
-// S1, S2 by the WebAssembly SIMD angle loop (lib/mie/simd-module.ts): the formulas and operation order of
-// mieAmplitudesScalar (lib/mie/amplitudes.ts), two angles per f64x2 vector. Null where WebAssembly SIMD is missing.
+// S1, S2 by the WebAssembly SIMD angle loop (lib/mie/wasm/amplitudes.wat): the formulas and operation order of
+// mieAmplitudesScalar (lib/mie/amplitudes.ts), two angles per f64x2 vector; in exact arithmetic the same sums to the
+// bit, fused (relaxed SIMD, lib/mie/wasm/load.ts) within rounding of them. Null where WebAssembly SIMD is missing.
 
-import { amplitudeModuleBytes, SIMD_OUT_PER_PAIR, SIMD_PAIRS_PER_GROUP, SIMD_TERM_STRIDE } from "./simd-module.js";
+import { wasmModules } from "./wasm/modules.generated.js";
+import { instantiateKernel, preferredArithmetic, type WasmArithmetic } from "./wasm/load.js";
+import { amplitudeFromLanes } from "./wasm/lane-sums.js";
+import { packCoefficients, PACKED_STRIDE } from "./packed-coefficients.js";
 import type { MieAmplitudes, MieCoefficients } from "./types.js";
+
+/** Angle pairs (f64x2 vectors) per pass over the coefficients: 4 (8 angles) measured 2.5–3× the scalar kernel at x = 3000; 1, 2 and 6 were slower, 5 no faster. */
+const SIMD_PAIRS_PER_GROUP = wasmModules.amplitudes.constants.PAIRS;
+/** f64 values written per angle pair: Σ w(a+b)(π+τ) re, im and Σ w(a−b)(π−τ) re, im, two lanes each. */
+const SIMD_OUT_PER_PAIR = 8;
+const PAGE_BYTES = 65536;
+const ANGLES_PER_GROUP = 2 * SIMD_PAIRS_PER_GROUP;
 
 interface Kernel {
   run(coefficients: number, nTerms: number, cosines: number, groups: number, out: number): void;
   memory: WebAssembly.Memory;
 }
 
-function instantiate(): Kernel | null {
-  try {
-    const instance = new WebAssembly.Instance(new WebAssembly.Module(amplitudeModuleBytes()));
-    const { amplitudes, memory } = instance.exports as { amplitudes: Kernel["run"]; memory: WebAssembly.Memory };
-    return { run: amplitudes, memory };
-  } catch {
-    return null;
-  }
+export type SimdAmplitudes = (c: MieCoefficients, cosTheta: Float64Array, res: MieAmplitudes) => MieAmplitudes | null;
+
+/** The kernel in the given arithmetic, or null where this runtime cannot run it. */
+export function createSimdAmplitudes(arithmetic: WasmArithmetic): SimdAmplitudes | null {
+  const exports = instantiateKernel("amplitudes", arithmetic);
+  if (exports === null) return null;
+  const { amplitudes, memory } = exports as { amplitudes: Kernel["run"]; memory: WebAssembly.Memory };
+  const kernel: Kernel = { run: amplitudes, memory };
+  return (c, cosTheta, res) => run(kernel, c, cosTheta, res);
 }
 
-const PAGE_BYTES = 65536;
-const ANGLES_PER_GROUP = 2 * SIMD_PAIRS_PER_GROUP;
-const kernel = instantiate();
+/** The arithmetic mieAmplitudesSimd uses here: fused where relaxed SIMD is offered, else exact. */
+export const simdArithmetic: WasmArithmetic = preferredArithmetic();
+const preferred = createSimdAmplitudes(simdArithmetic);
 
 /** Whether the WebAssembly kernel runs here (Node ≥ 16.4 has fixed-width SIMD on by default). */
-export const simdAmplitudesAvailable = kernel !== null;
+export const simdAmplitudesAvailable = preferred !== null;
 
 /** As mieAmplitudesScalar, or null when WebAssembly SIMD is unavailable. */
 export function mieAmplitudesSimd(c: MieCoefficients, cosTheta: Float64Array, res: MieAmplitudes): MieAmplitudes | null {
-  if (kernel === null || c.nTerms < 1) return null;
+  return preferred === null ? null : preferred(c, cosTheta, res);
+}
+
+function run(kernel: Kernel, c: MieCoefficients, cosTheta: Float64Array, res: MieAmplitudes): MieAmplitudes | null {
+  if (c.nTerms < 1) return null;
   const nAngles = cosTheta.length;
   const groups = Math.ceil(nAngles / ANGLES_PER_GROUP);
   const padded = groups * ANGLES_PER_GROUP;
   // Layout (f64 indices): coefficients, cosines (padded with μ = 0), sums.
-  const cosAt = c.nTerms * SIMD_TERM_STRIDE;
+  const cosAt = c.nTerms * PACKED_STRIDE;
   const outAt = cosAt + padded;
   const bytes = 8 * (outAt + (padded / 2) * SIMD_OUT_PER_PAIR);
   const have = kernel.memory.buffer.byteLength;
   if (have < bytes) kernel.memory.grow(Math.ceil((bytes - have) / PAGE_BYTES));
   const m = new Float64Array(kernel.memory.buffer);
-  for (let i = 0, k = 0; i < c.nTerms; i++, k += SIMD_TERM_STRIDE) {
-    const n = i + 1;
-    // Weight of Bohren & Huffman 1983 eq. 4.74, as in the scalar kernel.
-    const w = (2 * n + 1) / (n * (n + 1));
-    m[k] = w * (c.aRe[i] + c.bRe[i]);
-    m[k + 1] = w * (c.aIm[i] + c.bIm[i]);
-    m[k + 2] = w * (c.aRe[i] - c.bRe[i]);
-    m[k + 3] = w * (c.aIm[i] - c.bIm[i]);
-    m[k + 4] = (n + 1) / n;
-    m[k + 5] = n;
-  }
+  packCoefficients(c, m, 0);
   m.set(cosTheta, cosAt);
   m.fill(0, cosAt + nAngles, outAt);
   // One group per call: V8 first runs WebAssembly from baseline code (measured ~50× slower here) and swaps in the
   // optimised code between calls, never inside one, so short calls pick it up as soon as it is ready.
   const outGroupBytes = 8 * SIMD_OUT_PER_PAIR * SIMD_PAIRS_PER_GROUP;
   for (let g = 0; g < groups; g++) kernel.run(0, c.nTerms, 8 * cosAt + 8 * ANGLES_PER_GROUP * g, 1, 8 * outAt + outGroupBytes * g);
-  const { s1Re, s1Im, s2Re, s2Im } = res;
-  for (let j = 0; j < nAngles; j++) {
-    // Pair p holds plusRe, plusIm, minusRe, minusIm as two lanes each; angle j is lane j & 1 of pair j >> 1.
-    const base = outAt + (j >> 1) * SIMD_OUT_PER_PAIR + (j & 1);
-    const plusRe = m[base];
-    const plusIm = m[base + 2];
-    const minusRe = m[base + 4];
-    const minusIm = m[base + 6];
-    s1Re[j] = 0.5 * (plusRe + minusRe);
-    s1Im[j] = 0.5 * (plusIm + minusIm);
-    s2Re[j] = 0.5 * (plusRe - minusRe);
-    s2Im[j] = 0.5 * (plusIm - minusIm);
-  }
+  // Angle j is lane j & 1 of pair j >> 1.
+  for (let j = 0; j < nAngles; j++) amplitudeFromLanes(m, outAt + (j >> 1) * SIMD_OUT_PER_PAIR + (j & 1), res, j);
   return res;
 }

@@ -9,17 +9,21 @@ export interface PolarisedPair {
 }
 
 /**
- * Reflectances for incidence from outside at sin i = b on a medium of relative index n (Fresnel equations,
- * Born & Wolf 1999 §1.5.2 Eq. 21); by Stokes' relations the same values hold for the internal reflections.
+ * Signed amplitude reflection coefficients r for incidence from outside at sin i = b on a medium of relative
+ * index n (Fresnel equations, Born & Wolf 1999 §1.5.2 Eq. 21); inside the drop r′ = −r (Stokes' relations).
  */
-export function fresnelReflectance(n: number, impactParameter: number): PolarisedPair {
+export function fresnelAmplitudes(n: number, impactParameter: number): PolarisedPair {
   const b2 = impactParameter * impactParameter;
   const cosI = Math.sqrt(1 - b2);
   const nCosR = Math.sqrt(n * n - b2);
   const cosR = nCosR / n;
-  const rPerp = (cosI - nCosR) / (cosI + nCosR);
-  const rPar = (n * cosI - cosR) / (n * cosI + cosR);
-  return { perpendicular: rPerp * rPerp, parallel: rPar * rPar };
+  return { perpendicular: (cosI - nCosR) / (cosI + nCosR), parallel: (n * cosI - cosR) / (n * cosI + cosR) };
+}
+
+/** Power reflectances R = r² (the same for the internal reflections, by Stokes' relations). */
+export function fresnelReflectance(n: number, impactParameter: number): PolarisedPair {
+  const r = fresnelAmplitudes(n, impactParameter);
+  return { perpendicular: r.perpendicular * r.perpendicular, parallel: r.parallel * r.parallel };
 }
 
 /**

@@ -2,6 +2,7 @@
 // and what the response's meta says about it.
 
 import type { ProfileRequest } from "../../schemas/profile.js";
+import type { ShapeMeta } from "../../schemas/responses/shape-meta.js";
 import { CANTING_SD_DEG } from "../../lib/drops/shape/canting.js";
 import { AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import { outlineAxisRatio } from "../../lib/drops/shape/outline.js";
@@ -22,7 +23,7 @@ export interface ShapePlan {
   /** Per radius node: the flattened drop's spec, or undefined for a sphere. */
   shapes: (ShapedRowSpec | undefined)[];
   flattened: boolean;
-  meta: Record<string, unknown>;
+  meta: ShapeMeta;
   warnings: string[];
 }
 
@@ -36,7 +37,7 @@ const DEFAULT_NOTE =
 export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array): ShapePlan {
   const shape = request.drops.shape ?? { kind: "sphere" as const };
   if (shape.kind === "sphere") {
-    const meta: Record<string, unknown> = { model: "sphere", default: DEFAULT_NOTE };
+    const meta: ShapeMeta = { model: "sphere", default: DEFAULT_NOTE };
     if (request.arcPositionDeg !== undefined) {
       meta.note = `arcPositionDeg ${request.arcPositionDeg} changes nothing for spherical drops: their bow is the same all along the arc`;
     }
@@ -56,7 +57,7 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array): 
   const ratios = flattenedRadii.length
     ? [flattenedRadii[0], flattenedRadii[flattenedRadii.length - 1]].map((r) => Math.round(outlineAxisRatio(outlineFor(spec, r)) * 1e4) / 1e4)
     : [];
-  const meta: Record<string, unknown> = {
+  const meta: ShapeMeta = {
     model: shape.kind === "equilibrium" ? "equilibrium (Beard & Chuang 1987; Chuang & Beard 1990 Table 1 coefficients)" : `spheroid, axis ratio ${shape.axisRatio}`,
     engine: ENGINE,
     accuracy: ACCURACY,

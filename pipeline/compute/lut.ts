@@ -4,22 +4,20 @@
 import type { LutRequest } from "../../schemas/lut.js";
 import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
-import { latticeRadiusQuadrature } from "../../lib/drops/lattice-quadrature.js";
-import { opticalThickness } from "../../lib/bow/extinction.js";
-import { waterIndex } from "../../lib/water/water-index.js";
-import { computeProfile, requestHash, toDistribution, type ProfileDeps, type ProfileResult } from "./profile.js";
+import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
+import { computeProfile, requestHash, type ProfileDeps, type ProfileResult } from "./profile.js";
+import type { LutManifest } from "../../schemas/responses/lut-response.js";
+import { ProgressMeter, type ProgressListener } from "../progress/progress-meter.js";
 
 /** Density of liquid water for the number density of a row at given liquid water content (common practice). */
 const WATER_DENSITY_G_PER_M3 = 1e6;
-/** Transmittance is taken at mid-visible, where rain's extinction is grey to within a percent (Q_ext ≈ 2). */
-const TRANSMITTANCE_WAVELENGTH_NM = 550;
 
 export interface Lut {
   width: number;
   height: number;
   /** RGBA per texel, row-major from the top row (row j = size j, ascending). */
   rgba: Float32Array;
-  manifest: Record<string, unknown>;
+  manifest: LutManifest;
 }
 
 function rowDrops(request: LutRequest): { label: string; value: number; drops: ProfileRequest["drops"] }[] {
@@ -56,10 +54,7 @@ function profileStepDeg(request: LutRequest): number {
   return Math.max(0.002, Math.min(0.1, finest / 2));
 }
 
-/** Reports progress as a fraction in [0, 1] with a stage name (for progress bars and job status). */
-export type ProgressReporter = (fraction: number, stage: string) => void;
-
-export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressReporter): Promise<Lut> {
+export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener): Promise<Lut> {
   const started = performance.now();
   const texelPsi = texelAngles(request.angles);
   const step = profileStepDeg(request);
@@ -72,6 +67,10 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
   const warnings = new Set<string>();
   let first: ProfileResult | undefined;
   const transmittance: number[] = [];
+  // One stage per row, of equal cost: rows are counted as they are done.
+  const stageNames = rows.map((_, j) => `row ${j + 1} of ${rows.length}`);
+  const progress = new ProgressMeter(stageNames, onProgress);
+  for (const name of stageNames) progress.plan(name, 1);
 
   for (let j = 0; j < rows.length; j++) {
     const body = profileRequestSchema.parse({
@@ -80,14 +79,11 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
       angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
       output: { space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
     });
-    onProgress?.(j / rows.length, `row ${j + 1} of ${rows.length}`);
     const profile = await computeProfile(body, deps);
+    progress.complete(stageNames[j]);
     first ??= profile;
-    for (const w of profile.meta.warnings as string[]) warnings.add(w);
-    const quadrature = latticeRadiusQuadrature(toDistribution(body.drops));
-    const idx = waterIndex({ wavelengthNm: TRANSMITTANCE_WAVELENGTH_NM, ...body.water });
-    const medium = { wavelengthNm: TRANSMITTANCE_WAVELENGTH_NM, mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir };
-    const t = Math.exp(-opticalThickness(quadrature.radiiUm, quadrature.weights, medium, body.pathLengthM));
+    for (const w of profile.meta.warnings) warnings.add(w);
+    const t = curtainTransmittance(profile.quadrature, body.water, body.pathLengthM).transmittance;
     transmittance.push(t);
     const a = profile.spectral.anglesDeg;
     for (let i = 0; i < width; i++) {
@@ -100,9 +96,9 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     }
   }
 
-  onProgress?.(1, "done");
+  progress.done();
   const mapping = request.angles.mapping;
-  const manifest = {
+  const manifest: LutManifest = {
     width,
     height,
     channels: ["R", "G", "B", "A"],
@@ -130,11 +126,11 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     transferFunction: "linear",
     white: "the sun's light maps to the space's white",
     scale: "RGB are physical: texel × 1 gives luminance-weighted radiance with Y in cd/m² (the bow alone, without sky)",
-    alpha: "1 − T, the rain curtain's opacity at 550 nm (T = exp(−τ)); composite as premultiplied over: out = rgb + (1 − a)·background",
+    alpha: `1 − T, the rain curtain's opacity at ${CURTAIN_WAVELENGTH_NM} nm (T = exp(−τ)); composite as premultiplied over: out = rgb + (1 − a)·background`,
     additiveUse: "or add rgb to the plate's radiance and ignore alpha (thin rain)",
     scenario: request,
     hash: requestHash(request),
-    sources: first?.meta.sources,
+    sources: first?.meta.sources ?? [],
     warnings: [...warnings],
     computeMs: Math.round(performance.now() - started),
   };

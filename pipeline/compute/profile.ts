@@ -4,9 +4,9 @@ import { contentHash } from "../requests/content-hash.js";
 import type { ProfileRequest } from "../../schemas/profile.js";
 import { angleCount } from "../../schemas/angles.js";
 import { makeWavelengthGrid, wavelengthsNm } from "../../lib/spectra/grid.js";
-import { waterIndex } from "../../lib/water/water-index.js";
+import { dropMedia } from "../../lib/water/drop-medium.js";
 import type { DropSizeDistribution } from "../../lib/drops/distributions.js";
-import { fractionOfCrossSectionAbove } from "../../lib/drops/quadrature.js";
+import { fractionOfCrossSectionAbove, type RadiusQuadrature } from "../../lib/drops/quadrature.js";
 import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lattice-quadrature.js";
 import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { directSunlight } from "../../lib/bow/sunlight.js";
@@ -14,7 +14,6 @@ import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
 import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
 import { blocksOf, kernelStepFor } from "../../lib/bow/kernel-grid.js";
 import type { KernelService } from "../kernels/kernel-service.js";
-import type { Medium } from "../kernels/kernel-types.js";
 import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
 import { engineChooser, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
@@ -24,6 +23,14 @@ import type { CellAverage } from "../../lib/bow/cell-average.js";
 import type { WavelengthGrid } from "../../lib/spectra/grid.js";
 import { ClientError } from "../requests/client-error.js";
 import { planDropShapes } from "./drop-shape-plan.js";
+import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
+import type { ProgressMeter } from "../progress/progress-meter.js";
+import { COST_NS } from "../progress/work-costs.js";
+
+/** The stages of a profile's progress, in order (a render adds its encoding after them: PROFILE_RENDER_STAGES). */
+export const PROFILE_STAGES = ["kernels", "spectral", "colour"] as const;
+import { sceneEyeAdaptation } from "../../lib/colour/low-light-vision.js";
+import { visionMeta } from "./vision-meta.js";
 
 /** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
 const FLATTENED_FROM_RADIUS_UM = 1000;
@@ -33,10 +40,12 @@ export interface ProfileResult {
   /** XYZ of the direct sunlight on the rain (any scale): the white under white = "sun". */
   sunWhite: Xyz;
   grid: WavelengthGrid;
+  /** The drops on their radius nodes, computed once per request: the curtain's extinction reads them too. */
+  quadrature: RadiusQuadrature;
   spectral: SpectralProfile;
   colour: ColourProfile;
-  bows: { primaryDeg: number | null; secondaryDeg: number | null };
-  meta: Record<string, unknown>;
+  bows: Bows;
+  meta: ProfileMeta;
 }
 
 export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribution {
@@ -95,6 +104,10 @@ export interface ProfileDeps {
   kernels: KernelService;
   limits: ProfileLimits;
   signal?: AbortSignal;
+  /** Told of the work as it is done; it must have the PROFILE_STAGES. */
+  progress?: ProgressMeter;
+  /** Keep each kernel task's rows in the second tier at once (background jobs: a retry resumes from them). */
+  saveEachTask?: boolean;
 }
 
 /** Numerical resolution beyond the request, for convergence studies; the defaults are what the service uses. */
@@ -123,13 +136,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
   const wl = wavelengthsNm(grid);
-  const media: Medium[] = [];
-  let waterSource = "";
-  for (let l = 0; l < grid.count; l++) {
-    const idx = waterIndex({ wavelengthNm: wl[l], ...request.water });
-    media.push({ wavelengthNm: wl[l], mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir });
-    waterSource = idx.source;
-  }
+  const { media, source: waterSource } = dropMedia(request.water, wl);
   if (/extrapolated/i.test(waterSource)) warnings.push(`water index extrapolated: ${waterSource}`);
 
   const distribution = toDistribution(request.drops);
@@ -199,8 +206,27 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const sun = sunlightFor(request, grid);
 
   const engines = Array.from(quadrature.radiiUm, engine);
+  const progress = deps.progress;
+  // The sum over drops and the sun's disc, per wavelength (lattice-profile.ts), and the colour of every output angle.
+  const spanSamples = span.last - span.first + 1;
+  const discSamples = Math.ceil(request.sun.discDeg / h) + 1;
+  const spectralNsPerWavelength = spanSamples * (quadrature.weights.filter((w) => w !== 0).length * COST_NS.sumSample + discSamples * COST_NS.discSample);
+  progress?.plan("spectral", grid.count * spectralNsPerWavelength);
+  progress?.plan("colour", grid.count * count * COST_NS.colourSample);
   const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows({ h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } }, deps.signal);
+  const rows = await deps.kernels.rows(
+    { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } },
+    deps.signal,
+    {
+      saveEachTask: deps.saveEachTask,
+      onRows: progress
+        ? (doneNs, totalNs, found) => {
+            progress.plan("kernels", totalNs);
+            progress.advance("kernels", doneNs, { found });
+          }
+        : undefined,
+    },
+  );
   const kernelMs = performance.now() - kernelStarted;
   const steps = latticeProfileSteps({
     angles,
@@ -213,7 +239,9 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     pathLengthM: request.pathLengthM,
   });
   let step = steps.next();
+  let wavelengthsDone = 0;
   while (!step.done) {
+    progress?.advance("spectral", ++wavelengthsDone * spectralNsPerWavelength);
     await new Promise<void>((resolve) => setImmediate(resolve));
     step = steps.next();
   }
@@ -222,6 +250,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   if (!(sunWhite.Y > 0)) {
     warnings.push("no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black");
   }
+  const eye = request.output.vision === "eye" ? sceneEyeAdaptation(sun.irradiance, request.sun.elevationDeg, request.output.adaptingLuminanceCdPerM2) : undefined;
   const colour = colourProfile(spectral, grid, {
     observer: request.observer,
     space: request.output.space,
@@ -230,8 +259,10 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     normalise: request.output.normalise,
     polariserDeg: request.polariserDeg,
     sunWhite,
+    eye,
   });
   const bows = findBows(spectral.anglesDeg, colour.luminance);
+  progress?.complete("colour");
 
   const engineRanges = summariseEngines(quadrature.radiiUm, engine);
   if (request.method === "airy" && quadrature.radiiUm[0] < AUTO_AIRY_FROM_RADIUS_UM) {
@@ -244,7 +275,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     warnings.push("with the sun above about 42° the primary bow lies below the horizon for an observer on flat ground");
   }
 
-  const meta = {
+  const meta: ProfileMeta = {
     method: { requested: request.method, engines: engineRanges },
     shape: shapePlan.meta,
     units: {
@@ -268,6 +299,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     sun: { scale: sun.scaleNote, attenuated: sun.attenuated },
     water: waterSource,
     colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
+    vision: visionMeta(eye),
     mieTermAngles: spectral.mieTermAngles,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
     kernel: {
@@ -283,21 +315,13 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     sources: profileSources(request),
     warnings,
   };
-  return { request, sunWhite, grid, spectral, colour, bows, meta };
+  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta };
 }
 
 function rgbUnits(request: ProfileRequest): string {
   const encoded = ["srgb", "display-p3", "rec2020"].includes(request.output.space);
   if (encoded) return `${request.output.space}, encoded (transfer function applied), 1 = the peak's luminance`;
   return request.output.normalise === "peak" ? `${request.output.space}, linear, relative to the peak` : `${request.output.space}, linear, cd/m²`;
-}
-
-interface EngineRange {
-  engine: DropEngine;
-  fromUm: number;
-  toUm: number;
-  nodes: number;
-  estimatedError?: string;
 }
 
 function summariseEngines(radiiUm: Float64Array, engine: (r: number) => DropEngine): EngineRange[] {

@@ -2,7 +2,7 @@
 
 import type { ScatterRequest } from "../../schemas/scatter.js";
 import { angleCount, angleSamples } from "../../schemas/angles.js";
-import { waterIndex } from "../../lib/water/water-index.js";
+import { dropMedia } from "../../lib/water/drop-medium.js";
 import { mieCoefficients } from "../../lib/mie/coefficients.js";
 import { mieAmplitudes } from "../../lib/mie/amplitudes.js";
 import { mieEfficiencies } from "../../lib/mie/efficiencies.js";
@@ -11,6 +11,7 @@ import { debyeCoefficients } from "../../lib/mie/debye.js";
 import type { MieCoefficients } from "../../lib/mie/types.js";
 import { airyBowIntensity } from "../../lib/rays/airy-bow.js";
 import { geometricIntensity } from "../../lib/rays/geometric-intensity.js";
+import type { ScatterResponse } from "../../schemas/responses/optics-response.js";
 
 export const DEFAULT_AIRY_ORDERS = [2, 3];
 export const DEFAULT_GEOMETRIC_ORDERS = [0, 1, 2, 3, 4, 5, 6];
@@ -33,9 +34,9 @@ function medium(body: ScatterRequest): Medium {
     };
   }
   const water = body.water ?? { temperatureC: 20, salinityPsu: 0 };
-  const idx = waterIndex({ wavelengthNm: body.wavelengthNm, ...water });
-  const nAir = idx.n / idx.nRelativeToAir;
-  return { mRe: idx.nRelativeToAir, mIm: idx.k, mediumWavelengthNm: body.wavelengthNm / nAir, source: idx.source };
+  const { media, source } = dropMedia(water, [body.wavelengthNm]);
+  const { mRe, mIm, nAir } = media[0];
+  return { mRe, mIm, mediumWavelengthNm: body.wavelengthNm / nAir, source };
 }
 
 export function scatterCost(body: ScatterRequest): { terms: number; angles: number; termAngles: number } {
@@ -46,14 +47,14 @@ export function scatterCost(body: ScatterRequest): { terms: number; angles: numb
   return { terms, angles, termAngles: terms * angles };
 }
 
-export function computeScatter(body: ScatterRequest) {
+export function computeScatter(body: ScatterRequest): ScatterResponse {
   const started = performance.now();
   const m = medium(body);
   const x = (2 * Math.PI * body.radiusUm * 1000) / m.mediumWavelengthNm;
   const thetaDeg = angleSamples(body.scatteringAngles);
   let perpendicular: Float64Array;
   let parallel: Float64Array;
-  let extra: Record<string, unknown> = {};
+  let extra: Pick<ScatterResponse, "qExt" | "qSca" | "qBack" | "g" | "debyeOrder" | "terms" | "orders"> = {};
   const warnings: string[] = [];
 
   if (body.method === "mie" || body.method === "debye") {

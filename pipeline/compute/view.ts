@@ -4,28 +4,28 @@
 import sharp from "sharp";
 import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
 import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../../schemas/view.js";
-import { computeProfile, toDistribution, type ProfileLimits, type ProfileResult } from "./profile.js";
+import { computeProfile, type ProfileLimits, type ProfileResult } from "./profile.js";
 import type { KernelService } from "../kernels/kernel-service.js";
+import type { ProgressMeter } from "../progress/progress-meter.js";
 import { parseOrThrow } from "../requests/parse-request.js";
 import { ClientError } from "../requests/client-error.js";
 import { luminanceReciprocal, spectraToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { renderXyz } from "../../lib/colour/render.js";
 import { encodeLinear, outputSpace, type OutputSpaceId } from "../../lib/colour/output-spaces.js";
 import { LUMINOUS_EFFICACY_LM_PER_W } from "../../lib/bow/colour-profile.js";
-import { latticeRadiusQuadrature } from "../../lib/drops/lattice-quadrature.js";
-import { waterIndex } from "../../lib/water/water-index.js";
 import { type Camera, cameraBasis, cameraRayField, centralPixelDeg, fieldOfViewDeg, focalPxFromFov, focalPxFromLens } from "../../lib/view/camera.js";
 import { skyRayField } from "../../lib/view/sky-map.js";
 import type { RayField } from "../../lib/view/ray-field.js";
 import { type Vec3, azimuthElevationOf, directionFromAzimuthElevation } from "../../lib/view/vectors.js";
 import { angleRangeDeg, renderLayer, type Layer, type ProfileColours } from "../../lib/view/layer.js";
-import { extinctionEfficiency, opticalThickness } from "../../lib/bow/extinction.js";
-import { spaceChromaticities } from "../encoders/space-chromaticities.js";
+import { curtainTransmittance } from "../../lib/bow/extinction.js";
+import { spacePrimaries } from "../../lib/colour/primaries.js";
 import { contentHash } from "../requests/content-hash.js";
 import { ditheredCode8 } from "../../lib/view/dither.js";
 import { encodeExr, type ExrChromaticities } from "../encoders/exr.js";
 import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { withSpaceColourChunks } from "../encoders/png-strip.js";
+import type { CameraDescription, MapDescription, OverlayManifest } from "../../schemas/responses/overlay-response.js";
 
 /** The window that holds both bows (primary ≈ 42°, secondary ≈ 51°: Descartes angles, docs/checks.md); "peak" scales to its brightest sample. */
 const BOW_WINDOW_DEG = { fromDeg: 30, toDeg: 60 } as const;
@@ -33,19 +33,18 @@ const BOW_WINDOW_DEG = { fromDeg: 30, toDeg: 60 } as const;
 const MAX_PROFILE_STEP_DEG = 0.1;
 /** The profile endpoint's limit on samples per request (schemas/profile.ts). */
 const MAX_PROFILE_SAMPLES = 4001;
-/** Near the peak of the photopic efficiency V(λ), 555 nm (CIE 015:2018): one wavelength stands for the grey curtain. */
-const CURTAIN_WAVELENGTH_NM = 555;
 /** Above this optical depth single scattering overstates the bow by more than e^(−1/2) ≈ 40 % (Beer–Lambert). */
 const SINGLE_SCATTERING_TAU = 1;
 /** Camera used when neither horizontalFovDeg nor focalLengthMm is given. */
 const DEFAULT_HORIZONTAL_FOV_DEG = 90;
 
-/** Published chromaticities of each linear output space's primaries and white, as EXR and Radiance want them. */
-
 export interface ViewDeps {
   kernels: KernelService;
   limits: ProfileLimits;
   signal?: AbortSignal;
+  /** As for profiles (ProfileDeps): told of the profile's work; must have the PROFILE_STAGES. */
+  progress?: ProgressMeter;
+  saveEachTask?: boolean;
 }
 
 type Output = ViewRequest["output"];
@@ -67,7 +66,7 @@ interface Scene {
   scenario: ViewScenario;
   output: Output;
   sunPosition: { azimuthDeg: number; elevationDeg: number };
-  description: Record<string, unknown>;
+  description: CameraDescription | MapDescription;
   normalisedRequest: unknown;
 }
 
@@ -111,7 +110,7 @@ function viewScene(body: ViewRequest): Scene {
     const b = (body.polariserDeg * Math.PI) / 180;
     polariserAxis = [0, 1, 2].map((k) => Math.cos(b) * basis.right[k] + Math.sin(b) * basis.up[k]) as Vec3;
   }
-  const description = {
+  const description: CameraDescription = {
     kind: "camera",
     projection: camera.projection,
     mapping:
@@ -191,19 +190,9 @@ function profileRequestFor(scene: Scene, angles: { fromDeg: number; toDeg: numbe
     ...scene.scenario,
     sun: { ...scene.scenario.sun, elevationDeg: scene.sunPosition.elevationDeg },
     angles,
-    output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute" },
+    output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute", vision: scene.output.vision, adaptingLuminanceCdPerM2: scene.output.adaptingLuminanceCdPerM2 },
   };
-  try {
-    return parseOrThrow(profileRequestSchema, body, "body");
-  } catch (err) {
-    if (err instanceof ClientError && typeof err.details.field === "string") {
-      throw new ClientError(err.code, err.message.replace(`'${err.details.field}'`, `'scenario.${err.details.field}'`), {
-        ...err.details,
-        field: `scenario.${err.details.field}`,
-      });
-    }
-    throw err;
-  }
+  return parseOrThrow(profileRequestSchema, body, "body", ["scenario"]);
 }
 
 function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg: number; seen: { minDeg: number; maxDeg: number } | null } {
@@ -276,18 +265,6 @@ function profileColours(result: ProfileResult, request: ProfileRequest, output: 
   return { colours, scaling, outOfGamut, sunWhite };
 }
 
-function curtainOf(scenario: ViewScenario, pathLengthM: number) {
-  const quadrature = latticeRadiusQuadrature(toDistribution(scenario.drops));
-  const idx = waterIndex({ wavelengthNm: CURTAIN_WAVELENGTH_NM, ...scenario.water });
-  const medium = { wavelengthNm: CURTAIN_WAVELENGTH_NM, mRe: idx.nRelativeToAir, mIm: idx.k, nAir: idx.n / idx.nRelativeToAir };
-  const tau = opticalThickness(quadrature.radiiUm, quadrature.weights, medium, pathLengthM);
-  const k = (2 * Math.PI * medium.nAir) / (CURTAIN_WAVELENGTH_NM * 1e-3);
-  const qExt = Array.from(quadrature.radiiUm, (r) => extinctionEfficiency(medium.mRe, medium.mIm, k * r));
-  // No drops at all (every bin empty): no efficiency range to report, an empty one rather than ±Infinity.
-  const qExtRange = qExt.length > 0 ? [Math.min(...qExt), Math.max(...qExt)] : [];
-  return { opticalDepth: tau, transmittance: Math.exp(-tau), qExtRange, wavelengthNm: CURTAIN_WAVELENGTH_NM };
-}
-
 export interface PreparedOverlay {
   scene: Scene;
   hash: string;
@@ -295,7 +272,7 @@ export interface PreparedOverlay {
   colours: ProfileColours;
   /** Alpha of every pixel that sees rain, or undefined for the additive layer. */
   alpha: number | undefined;
-  manifest: Record<string, unknown>;
+  manifest: OverlayManifest;
 }
 
 export type OverlayFormat = ImageQuery["format"];
@@ -318,9 +295,9 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
   const profile = await computeProfile(request, deps, {});
   const space = renderSpaceFor(format, scene.output);
   const { colours, scaling, outOfGamut } = profileColours(profile, request, scene.output, space);
-  const curtain = curtainOf(scene.scenario, request.pathLengthM);
+  const curtain = curtainTransmittance(profile.quadrature, request.water, request.pathLengthM);
   const alpha = scene.layer === "premultiplied" ? 1 - curtain.transmittance : undefined;
-  const warnings = [...((profile.meta.warnings as string[]) ?? [])];
+  const warnings = [...profile.meta.warnings];
   if (curtain.opticalDepth > SINGLE_SCATTERING_TAU) {
     warnings.push(
       `the rain curtain's optical depth is ${curtain.opticalDepth.toFixed(2)}: the single-scattering bow radiance is too high (multiple scattering and extinction inside the curtain are not modelled); shorten pathLengthM`,
@@ -329,11 +306,14 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
   if (!angles.seen) warnings.push("no pixel sees rain (all below the horizon or beyond maxAngleDeg): the layer is empty");
   const hash = overlayHash(scene.endpoint, scene.normalisedRequest);
   const antisolar = azimuthElevationOf(scene.antisolar);
-  const chroma = spaceChromaticities(space);
-  const manifest: Record<string, unknown> = {
-    endpoint: `/v1/${scene.endpoint}`,
-    frame: worldFrameNote(),
-    [scene.endpoint === "view" ? "camera" : "map"]: scene.description,
+  const chroma = spacePrimaries(space);
+  // The camera (views) or the map (sky maps) follows the frame: the key order is the JSON's.
+  const described =
+    scene.description.kind === "camera"
+      ? { endpoint: "/v1/view" as const, frame: worldFrameNote(), camera: scene.description }
+      : { endpoint: "/v1/sky" as const, frame: worldFrameNote(), map: scene.description };
+  const manifest: OverlayManifest = {
+    ...described,
     sun: { ...scene.sunPosition, direction: scene.sunDirection },
     antisolarPoint: { azimuthDeg: antisolar.azimuthDeg, elevationDeg: antisolar.elevationDeg, direction: scene.antisolar },
     ground: scene.ground ? "flat ground: pixels whose ray points below the horizon (z < 0) are empty (RGB and alpha 0)" : "no ground: the bows continue below the horizon",
@@ -389,12 +369,13 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
       radii: profile.meta.radii,
       sun: profile.meta.sun,
       water: profile.meta.water,
+      vision: profile.meta.vision,
     },
     hash,
     cache: profile.meta.cache,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
     sources: [
-      ...((profile.meta.sources as string[]) ?? []),
+      ...profile.meta.sources,
       "Beer–Lambert transmittance of the rain curtain; extinction paradox (van de Hulst 1957 §8.22)",
       `output chromaticities: ${chroma.source}`,
       ...(format === "png" ? ["IEC 61966-2-1 sRGB transfer; Bayer 1973 ordered dither"] : []),
@@ -464,13 +445,13 @@ async function encodePng(layer: Layer, bitDepth: 8 | 16, space: OutputSpaceId): 
 export interface OverlayFile {
   body: Buffer;
   contentType: string;
-  manifest: Record<string, unknown>;
+  manifest: OverlayManifest & { clampedComponents?: number };
 }
 
 export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): Promise<OverlayFile> {
   const layer = renderPrepared(p);
   const space = renderSpaceFor(format, p.scene.output);
-  const chroma = spaceChromaticities(space);
+  const chroma = spacePrimaries(space);
   const manifest = p.manifest;
   switch (format) {
     case "exr":
@@ -484,7 +465,7 @@ export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): 
           compression: "zip",
           chromaticities: { red: chroma.red, green: chroma.green, blue: chroma.blue, white: chroma.white },
           attributes: {
-            comments: `antisolar bow layer (${p.scene.layer}); linear ${space}; ${(manifest.scale as { meaning: string }).meaning}`,
+            comments: `antisolar bow layer (${p.scene.layer}); linear ${space}; ${manifest.scale.meaning}`,
             "antisolar:hash": p.hash,
           },
         }),

@@ -34,6 +34,11 @@ export interface Config extends JobConfig {
   workerMemoryMb: number;
   /** Rounds of a default-profile-like kernel task each worker thread runs at start (lib/bow/warm-up.ts); 0: none. */
   workerWarmUpRounds: number;
+  /**
+   * SIGTERM → exit at most this long, ms: below the 30 s most container platforms wait before SIGKILL. Work still in
+   * hand shortly before the end is given back (jobs) or aborted (requests).
+   */
+  shutdownGraceMs: number;
 }
 
 export function loadConfig(env: NodeJS.ProcessEnv): Config {
@@ -54,6 +59,7 @@ export function loadConfig(env: NodeJS.ProcessEnv): Config {
     requestTimeoutMs: positiveFromEnv(env, "REQUEST_TIMEOUT_MS", 120_000),
     workerMemoryMb: positiveFromEnv(env, "WORKER_MEMORY_MB", 2048),
     workerWarmUpRounds: env.WORKER_WARM_UP_ROUNDS === "0" ? 0 : positiveFromEnv(env, "WORKER_WARM_UP_ROUNDS", 12),
+    shutdownGraceMs: positiveFromEnv(env, "SHUTDOWN_GRACE_MS", 20_000),
     ...loadJobConfig(env),
   };
 }

@@ -8,6 +8,7 @@ import type { DiskStore } from "../kernels/disk-store.js";
 import { ByteLru } from "../kernels/byte-lru.js";
 import type { RenderOutput } from "../render/render-output.js";
 import type { RendererRegistry } from "./renderers.js";
+import { throttledProgress } from "../progress/throttled-progress.js";
 import {
   decodeOutput,
   encodeOutput,
@@ -15,6 +16,7 @@ import {
   isAbort,
   renderJob,
   risingProgress,
+  roundedSeconds,
   terminalStates,
   workerName,
   type JobBackend,
@@ -153,6 +155,11 @@ export class EmbeddedJobBackend implements JobBackend {
     Object.assign(record, { state: "running", startedAt: new Date().toISOString(), worker: workerName(), attempts: record.attempts + 1 });
     record.progress = { fraction: 0, stage: "starting" };
     this.changed(id);
+    const progress = throttledProgress(({ fraction, stage, secondsLeft }) => {
+      if (!stillRunning() || !risingProgress(record.progress, fraction)) return;
+      record.progress = { fraction, stage, secondsLeft: roundedSeconds(secondsLeft) };
+      this.changed(id);
+    });
     try {
       // An identical job may have finished while this one waited.
       const earlier = await this.result(spec.hash);
@@ -161,16 +168,13 @@ export class EmbeddedJobBackend implements JobBackend {
           kernels: this.options.kernels,
           maxTermAngles: this.options.maxTermAngles,
           signal: controller.signal,
-          onProgress: (fraction, stage) => {
-            if (!stillRunning() || !risingProgress(record.progress, fraction)) return;
-            record.progress = { fraction, stage };
-            this.changed(id);
-          },
+          onProgress: progress.listener,
+          saveEachTask: true,
         });
         await this.store(spec.hash, output);
       } else record.reused = true;
       if (stillRunning()) {
-        Object.assign(record, { state: "done", finishedAt: new Date().toISOString(), progress: { fraction: 1, stage: "done" } });
+        Object.assign(record, { state: "done", finishedAt: new Date().toISOString(), progress: { fraction: 1, stage: "done", secondsLeft: 0 } });
       }
     } catch (error) {
       if (stillRunning()) {
@@ -183,6 +187,7 @@ export class EmbeddedJobBackend implements JobBackend {
         }
       }
     } finally {
+      progress.stop();
       this.controllers.delete(id);
       this.changed(id);
     }

@@ -1,7 +1,8 @@
 import { ClientError } from "../requests/client-error.js";
+import type { jobErrorCodes } from "../../schemas/responses/error-response.js";
 
 /** Errors of the job endpoints whose status has no code in pipeline/requests/client-error.ts's catalogue yet. */
-export type JobErrorCode = "job-not-finished" | "job-failed" | "job-cancelled" | "result-expired" | "not-ready";
+export type JobErrorCode = (typeof jobErrorCodes)[number];
 
 const statusByCode: Record<JobErrorCode, number> = {
   "job-not-finished": 409,

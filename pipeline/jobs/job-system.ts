@@ -16,7 +16,10 @@ export interface JobSystem {
   registry: RendererRegistry;
   /** Aborted when the process shuts down: event streams end then. */
   closing: AbortSignal;
-  close(): Promise<void>;
+  /** Ends the event streams (the first step of a shutdown, so that they do not hold the server open). */
+  endStreams(): void;
+  /** A job this process runs itself is given back to the queue at giveBackAt (ms since the epoch) if still running. */
+  close(giveBackAt?: number): Promise<void>;
 }
 
 export async function createJobSystem(
@@ -42,6 +45,7 @@ export async function createJobSystem(
       backend,
       registry,
       closing: closing.signal,
+      endStreams: () => closing.abort(),
       close: async () => {
         closing.abort();
         await backend.close();
@@ -57,9 +61,10 @@ export async function createJobSystem(
     backend,
     registry,
     closing: closing.signal,
-    close: async () => {
+    endStreams: () => closing.abort(),
+    close: async (giveBackAt?: number) => {
       closing.abort();
-      await worker?.close();
+      await worker?.close(giveBackAt);
       await backend.close();
     },
   };

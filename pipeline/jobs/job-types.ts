@@ -8,8 +8,9 @@ import type { RendererRegistry } from "./renderers.js";
 import { ClientError } from "../requests/client-error.js";
 import { KERNEL_VERSION } from "../kernels/kernel-service.js";
 import { packageVersion } from "../config/resources.js";
+import type { JobRecord, JobState } from "../../schemas/responses/job-response.js";
 
-export type JobState = "queued" | "running" | "done" | "failed" | "cancelled";
+export type { JobRecord, JobState } from "../../schemas/responses/job-response.js";
 export const terminalStates: readonly JobState[] = ["done", "failed", "cancelled"];
 
 /** A validated submission: the raw body and query as sent (each worker re-parses them) and their content hash. */
@@ -18,25 +19,6 @@ export interface JobSpec {
   body: unknown;
   query: unknown;
   hash: string;
-}
-
-export interface JobRecord {
-  id: string;
-  endpoint: string;
-  state: JobState;
-  progress: { fraction: number; stage: string };
-  /** Content hash of endpoint, normalised body and query: identical requests share a result. */
-  hash: string;
-  /** True when the result was already there and nothing was rendered. */
-  reused: boolean;
-  createdAt: string;
-  startedAt?: string;
-  finishedAt?: string;
-  /** Times a worker started the job (above 1 after a worker died and the job was retried). */
-  attempts: number;
-  /** host:pid of the process that ran it last. */
-  worker?: string;
-  error?: string;
 }
 
 export interface JobBackend {
@@ -83,6 +65,11 @@ export function risingProgress(current: { fraction: number }, fraction: number):
   return Number.isFinite(fraction) && fraction > current.fraction;
 }
 
+/** Seconds left to a tenth of a second (finer is noise), or null. */
+export function roundedSeconds(seconds: number | null): number | null {
+  return seconds === null || !Number.isFinite(seconds) ? null : Math.round(seconds * 10) / 10;
+}
+
 export function isAbort(error: unknown, signal: AbortSignal): boolean {
   return signal.aborted || (error instanceof Error && (error.name === "AbortError" || /abort/i.test(error.message)));
 }
@@ -98,9 +85,9 @@ export function renderJob(registry: RendererRegistry, spec: JobSpec, deps: Rende
   return renderer.render(body, query, {
     ...deps,
     // Stages between kernel computations are checkpoints too: a cancelled job stops at the next one.
-    onProgress: (fraction, stage) => {
+    onProgress: (update) => {
       deps.signal?.throwIfAborted();
-      deps.onProgress?.(fraction, stage);
+      deps.onProgress?.(update);
     },
   });
 }

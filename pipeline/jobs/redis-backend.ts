@@ -1,13 +1,15 @@
 // Scale-out jobs: a BullMQ queue in Redis; job records (hashes) and results (binary values with a TTL) in Redis,
 // so that any API process answers for any job. Workers (pipeline/jobs/worker-main.ts) take jobs off the queue.
 
-import { randomUUID } from "node:crypto";
 import { Queue } from "bullmq";
 import { Redis } from "ioredis";
 import type { RenderOutput } from "../render/render-output.js";
 import type { JobConfig } from "./job-config.js";
 import { redisKeys, transitionScript } from "./redis-keys.js";
 import { JobError } from "./job-errors.js";
+import { ClientError } from "../requests/client-error.js";
+import { idTimeMs, timeOrderedId } from "./job-id.js";
+import { closeRedis, reconnectDelayMs, within } from "../redis/connection.js";
 import { decodeOutput, type JobBackend, type JobRecord, type JobSpec, type JobState } from "./job-types.js";
 
 export interface QueuedJob {
@@ -20,7 +22,11 @@ export function parseRecord(fields: Record<string, string>): JobRecord | undefin
     id: fields.id,
     endpoint: fields.endpoint,
     state: fields.state as JobState,
-    progress: { fraction: Number(fields.fraction ?? 0), stage: fields.stage ?? "" },
+    progress: {
+      fraction: Number(fields.fraction ?? 0),
+      stage: fields.stage ?? "",
+      secondsLeft: fields.secondsLeft ? Number(fields.secondsLeft) : fields.state === "done" ? 0 : null,
+    },
     hash: fields.hash,
     reused: fields.reused === "1",
     createdAt: fields.createdAt,
@@ -32,13 +38,32 @@ export function parseRecord(fields: Record<string, string>): JobRecord | undefin
   };
 }
 
-/** A Redis outage is a 503 with Retry-After (readiness takes the process out meanwhile), not a 500. */
-async function guarded<T>(work: Promise<T>): Promise<T> {
+/** Longest a job request waits for Redis before it is answered 503 (our choice: an answer within a second). */
+export const JOB_STORE_DEADLINE_MS = 800;
+/** What the 503 tells clients to wait: about the time Redis needs to restart and load its append-only file. */
+const RETRY_AFTER_S = 5;
+
+function storeAway(): JobError {
+  return new JobError("not-ready", "the job store (Redis) does not answer; retry shortly", { retryAfterS: RETRY_AFTER_S });
+}
+
+/**
+ * A Redis outage is a 503 with Retry-After within JOB_STORE_DEADLINE_MS (readiness takes the process out
+ * meanwhile), not a 500 and not a hang: at once while the connection is down, else when Redis is too slow.
+ */
+async function guarded<T>(redis: Redis, work: () => Promise<T>): Promise<T> {
+  if (redis.status !== "ready") throw storeAway();
+  let timer: ReturnType<typeof setTimeout> | undefined;
+  const deadline = new Promise<never>((_, reject) => {
+    timer = setTimeout(() => reject(storeAway()), JOB_STORE_DEADLINE_MS);
+  });
   try {
-    return await work;
+    return await Promise.race([work(), deadline]);
   } catch (error) {
-    if (error instanceof JobError) throw error;
-    throw new JobError("not-ready", "the job store (Redis) does not answer; retry shortly", { retryAfterS: 5 });
+    if (error instanceof ClientError) throw error;
+    throw storeAway();
+  } finally {
+    clearTimeout(timer);
   }
 }
 
@@ -54,24 +79,26 @@ export class RedisJobBackend implements JobBackend {
   constructor(private readonly config: JobConfig) {
     this.keys = redisKeys(config.redisPrefix);
     // Fail fast while Redis is away: a request gets an error, not a hang (readiness takes the pod out meanwhile).
-    this.redis = new Redis(config.redisUrl, { maxRetriesPerRequest: 1, enableOfflineQueue: true, lazyConnect: false });
-    this.subscriber = new Redis(config.redisUrl, { maxRetriesPerRequest: null });
+    this.redis = new Redis(config.redisUrl, { maxRetriesPerRequest: 1, enableOfflineQueue: true, lazyConnect: false, retryStrategy: reconnectDelayMs });
+    this.subscriber = new Redis(config.redisUrl, { maxRetriesPerRequest: null, retryStrategy: reconnectDelayMs });
+    // The time this Redis's data set began, as far as jobs can tell: set once, kept while Redis keeps its data.
+    this.redis.on("ready", () => void this.redis.set(this.keys.dataSince, new Date().toISOString(), "NX").catch(() => undefined));
     this.redis.on("error", () => undefined);
     this.subscriber.on("error", () => undefined);
     this.subscriber.on("pmessage", (_pattern: string, channel: string) => {
       const id = channel.slice(channel.lastIndexOf(":") + 1);
       for (const listener of this.watchers.get(id) ?? []) listener();
     });
-    this.queue = new Queue<QueuedJob>(this.keys.queue, { connection: { url: config.redisUrl }, prefix: this.keys.bullPrefix });
+    this.queue = new Queue<QueuedJob>(this.keys.queue, { connection: { url: config.redisUrl, retryStrategy: reconnectDelayMs }, prefix: this.keys.bullPrefix });
     this.queue.on("error", () => undefined);
   }
 
   submit(spec: JobSpec): Promise<JobRecord> {
-    return guarded(this.submitNow(spec));
+    return guarded(this.redis, () => this.submitNow(spec));
   }
 
   private async submitNow(spec: JobSpec): Promise<JobRecord> {
-    const id = randomUUID();
+    const id = timeOrderedId();
     const now = new Date().toISOString();
     const reused = (await this.redis.exists(this.keys.result(spec.hash))) === 1;
     const fields: Record<string, string> = {
@@ -87,7 +114,12 @@ export class RedisJobBackend implements JobBackend {
       spec: JSON.stringify(spec),
       ...(reused ? { finishedAt: now } : {}),
     };
-    await this.redis.multi().hset(this.keys.record(id), fields).expire(this.keys.record(id), this.config.jobResultTtlS).exec();
+    await this.redis
+      .multi()
+      .set(this.keys.dataSince, now, "NX")
+      .hset(this.keys.record(id), fields)
+      .expire(this.keys.record(id), this.config.jobResultTtlS)
+      .exec();
     if (!reused) {
       await this.queue.add("render", { id }, {
         jobId: id,
@@ -100,15 +132,31 @@ export class RedisJobBackend implements JobBackend {
   }
 
   get(id: string): Promise<JobRecord | undefined> {
-    return guarded(this.getNow(id));
+    return guarded(this.redis, () => this.getNow(id));
   }
 
   private async getNow(id: string): Promise<JobRecord | undefined> {
-    return parseRecord(await this.redis.hgetall(this.keys.record(id)));
+    const record = parseRecord(await this.redis.hgetall(this.keys.record(id)));
+    if (!record && (await this.lost(id))) {
+      throw new ClientError(
+        "not-found",
+        `job '${id}' was lost by the job queue: Redis restarted without its data after the job was queued (see deploy/README.md, persistence); submit it again`,
+        { field: "id", lost: true },
+      );
+    }
+    return record;
+  }
+
+  /** A job of ours whose record is missing though it has not expired, and that is older than Redis's data set. */
+  private async lost(id: string): Promise<boolean> {
+    const createdMs = idTimeMs(id);
+    if (createdMs === undefined || createdMs < Date.now() - this.config.jobResultTtlS * 1000) return false;
+    const since = await this.redis.get(this.keys.dataSince);
+    return since !== null && createdMs < Date.parse(since);
   }
 
   result(hash: string): Promise<RenderOutput | undefined> {
-    return guarded(this.resultNow(hash));
+    return guarded(this.redis, () => this.resultNow(hash));
   }
 
   private async resultNow(hash: string): Promise<RenderOutput | undefined> {
@@ -117,7 +165,7 @@ export class RedisJobBackend implements JobBackend {
   }
 
   cancel(id: string): Promise<JobRecord | undefined> {
-    return guarded(this.cancelNow(id));
+    return guarded(this.redis, () => this.cancelNow(id));
   }
 
   private async cancelNow(id: string): Promise<JobRecord | undefined> {
@@ -157,9 +205,10 @@ export class RedisJobBackend implements JobBackend {
     }
   }
 
+  /** Bounded whether or not Redis answers: each connection gets a second to close cleanly, then is dropped. */
   async close(): Promise<void> {
-    await this.queue.close().catch(() => undefined);
+    if ((await within(this.queue.close().then(() => true), 1000)) !== true) await within(this.queue.disconnect(), 100);
     this.subscriber.disconnect();
-    await this.redis.quit().catch(() => undefined);
+    await closeRedis(this.redis);
   }
 }

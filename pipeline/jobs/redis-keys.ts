@@ -7,6 +7,8 @@ export function redisKeys(prefix: string) {
     events: (id: string) => `${prefix}:events:${id}`,
     eventsPattern: `${prefix}:events:*`,
     cancel: `${prefix}:cancel`,
+    /** When this Redis's data set began (set once): records of older jobs missing from it were lost with Redis's data. */
+    dataSince: `${prefix}:since`,
     queue: "jobs",
     bullPrefix: `${prefix}:bull`,
   };
@@ -28,12 +30,15 @@ redis.call('PUBLISH', ARGV[2], ARGV[1])
 return ARGV[1]
 `;
 
-/** KEYS[1] record; ARGV: fraction, stage, events channel. Only a running job's progress moves, and only up. */
+/**
+ * KEYS[1] record; ARGV: fraction, stage, events channel, seconds left ("" for none). Only a running job's progress
+ * moves, and only up (a retried attempt is heard again once it passes where the last one got).
+ */
 export const progressScript = `
 if redis.call('HGET', KEYS[1], 'state') ~= 'running' then return 0 end
 local f = tonumber(redis.call('HGET', KEYS[1], 'fraction') or '0')
 if tonumber(ARGV[1]) <= f then return 0 end
-redis.call('HSET', KEYS[1], 'fraction', ARGV[1], 'stage', ARGV[2])
+redis.call('HSET', KEYS[1], 'fraction', ARGV[1], 'stage', ARGV[2], 'secondsLeft', ARGV[4])
 redis.call('PUBLISH', ARGV[3], 'progress')
 return 1
 `;

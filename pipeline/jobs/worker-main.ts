@@ -5,6 +5,8 @@ import { loadConfig } from "../config/config.js";
 import { createKernelRuntime } from "../kernels/runtime.js";
 import { builtInRenderers } from "./renderers.js";
 import { startRedisWorker } from "./redis-worker.js";
+import { exitOnSignals } from "../process/shutdown.js";
+import { within } from "../redis/connection.js";
 
 const config = loadConfig(process.env);
 if (!config.redisUrl) {
@@ -17,16 +19,15 @@ const runtime = createKernelRuntime(config);
 const worker = await startRedisWorker({ config, registry: builtInRenderers, kernels: runtime.kernels, maxTermAngles: config.jobMaxTermAngles, log });
 log({ msg: "worker ready", concurrency: config.jobConcurrency, threads: runtime.pool.threads });
 
-let stopping = false;
-const shutdown = async (signal: string) => {
-  if (stopping) return;
-  stopping = true;
-  // BullMQ's close waits for the jobs in hand; a second signal (or the orchestrator's kill) cuts it short, and the
-  // lock then lapses so that another worker retries the job.
-  log({ msg: "shutting down; finishing jobs in hand", signal });
-  await worker.close();
-  await runtime.close();
-  process.exit(0);
-};
-process.on("SIGINT", () => void shutdown("SIGINT"));
-process.on("SIGTERM", () => void shutdown("SIGTERM"));
+// The job in hand finishes if it can within the grace, else it goes back to the queue; a second signal exits at once
+// (the job's lease then lapses, and another worker retries it).
+exitOnSignals({
+  graceMs: config.shutdownGraceMs,
+  log,
+  stop: async ({ abandonAt, exitAt }) => {
+    await worker.close(abandonAt);
+    log({ msg: "queue closed; stopping kernel threads" });
+    // Ahead of the hard exit: an orderly end exits with 0.
+    await within(runtime.close(), exitAt - Date.now() - 250);
+  },
+});

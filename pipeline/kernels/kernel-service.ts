@@ -2,14 +2,17 @@
 // (content-addressed packs), then computation in worker threads. Concurrent requests for the same kernel row
 // share one computation. A pack holds the rows of many drop radii for one wavelength, engine, step and block.
 
+import { simdArithmetic } from "../../lib/mie/simd-amplitudes.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { setMaxListeners } from "node:events";
 import { ByteLru } from "./byte-lru.js";
 import type { DiskStore } from "./disk-store.js";
-import type { KernelTask, KernelTaskResult, Medium } from "./kernel-types.js";
+import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
+import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 import { shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import { kernelRowCostNs } from "../progress/work-costs.js";
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
 export const KERNEL_VERSION = 4;
@@ -18,7 +21,7 @@ export type KernelCompute = (task: KernelTask, signal?: AbortSignal) => Promise<
 
 export interface KernelRequest {
   h: number;
-  media: Medium[];
+  media: DropMedium[];
   radiiUm: Float64Array;
   engines: DropEngine[];
   /** Per radius: Lorenz–Mie rows averaged over the node's radius cell (undefined: the node's own size). */
@@ -28,6 +31,20 @@ export interface KernelRequest {
   blocks: number[];
   /** Lattice indices (inclusive) the caller reads: rows need to be computed only there. */
   within: { first: number; last: number };
+}
+
+/** What a caller may ask of rows() besides the rows: to hear of them as they come, to keep each task's rows at once. */
+export interface KernelWatch {
+  /**
+   * The rows found or computed so far and all the request needs, in estimated nanoseconds of wall time
+   * (work-costs.ts over the pool's threads); found: rows read from memory, disk or Redis rather than computed.
+   */
+  onRows?: (doneNs: number, totalNs: number, found: boolean) => void;
+  /**
+   * Store each task's rows in the second tier (disk or Redis) as soon as the task ends, not after the whole
+   * request: a background job whose worker dies resumes from them.
+   */
+  saveEachTask?: boolean;
 }
 
 export interface KernelStats {
@@ -96,8 +113,9 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
 }
 
 /** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
-function packKey(m: Medium, variant: string, h: number, block: number): string {
-  return `v${KERNEL_VERSION}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
+function packKey(m: DropMedium, variant: string, h: number, block: number): string {
+  // Rows of the fused-arithmetic kernels (relaxed SIMD) differ from exact ones in the last bits: kept apart.
+  return `v${KERNEL_VERSION}${simdArithmetic === "fused" ? "f" : ""}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
 }
 
 export class KernelService {
@@ -112,7 +130,15 @@ export class KernelService {
   private writes: Promise<void> = Promise.resolve();
   private queuedWrites = 0;
 
-  constructor(private readonly options: { memoryBudgetBytes: number; disk?: Pick<DiskStore, "read" | "write">; compute: KernelCompute }) {
+  constructor(
+    private readonly options: {
+      memoryBudgetBytes: number;
+      disk?: Pick<DiskStore, "read" | "write">;
+      compute: KernelCompute;
+      /** Tasks that run at once (the pool's threads): the wall time of the rows is their cost over this. */
+      parallelism?: number;
+    },
+  ) {
     this.memory = new ByteLru(options.memoryBudgetBytes);
   }
 
@@ -123,7 +149,7 @@ export class KernelService {
     this.memory.set(pack, entry);
   }
 
-  async rows(request: KernelRequest, signal?: AbortSignal): Promise<KernelRows> {
+  async rows(request: KernelRequest, signal?: AbortSignal, watch: KernelWatch = {}): Promise<KernelRows> {
     const { h, media, radiiUm, engines, blocks, within } = request;
     const averages = request.averages ?? [];
     const shapes = request.shapes ?? [];
@@ -159,6 +185,21 @@ export class KernelService {
       return missing;
     };
 
+    // Progress: each row's estimated cost; rows found count at once, computed ones as their task ends.
+    const threads = Math.max(1, this.options.parallelism ?? 1);
+    const cost = (l: number, i: number, bi: number) => {
+      const x = (2 * Math.PI * media[l].nAir * radiiUm[i] * 1000) / media[l].wavelengthNm;
+      return kernelRowCostNs(engines[i], x, need[bi].last - need[bi].first + 1, averages[i]?.samples ?? 1) / threads;
+    };
+    const costOf = (list: [number, number, number][]) => list.reduce((sum, [l, i, bi]) => sum + cost(l, i, bi), 0);
+    let totalNs = 0;
+    if (watch.onRows) for (let l = 0; l < media.length; l++) for (let i = 0; i < radiiUm.length; i++) for (let bi = 0; bi < blocks.length; bi++) totalNs += cost(l, i, bi);
+    let doneNs = 0;
+    const done = (ns: number, found: boolean) => {
+      doneNs += ns;
+      watch.onRows?.(doneNs, totalNs, found);
+    };
+
     let missing = lookMemory();
     stats.memoryHits = media.length * radiiUm.length * blocks.length - missing.length;
     if (missing.length && this.options.disk) {
@@ -168,6 +209,8 @@ export class KernelService {
       missing = lookMemory();
       stats.diskHits = before - missing.length;
     }
+    // Everything found in memory, on disk or in Redis counts at once, in one report.
+    if (watch.onRows) done(totalNs - costOf(missing), true);
 
     // Rows another request is computing already are awaited, not computed twice. In-flight rows point at the
     // task that computes them (one promise per task, not per row: a cold profile has ~50,000 rows).
@@ -176,7 +219,12 @@ export class KernelService {
     for (const [l, i, bi] of missing) {
       const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
       if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
-        waits.push(pending.task.then((result) => void found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block])));
+        waits.push(
+          pending.task.then((result) => {
+            found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block]);
+            if (watch.onRows) done(cost(l, i, bi), false);
+          }),
+        );
         continue;
       }
       let byRadius = toCompute.get(l);
@@ -213,16 +261,21 @@ export class KernelService {
           rows.set(radiiUm[i], { task: computing, item, block, within });
         });
       });
+      const taskNs = watch.onRows ? indices.reduce((sum, i) => sum + byRadius.get(i)!.reduce((s, bi) => s + cost(l, i, bi), 0), 0) : 0;
       const task = computing
         .then((result) => {
           stats.mieTermAngles += result.mieTermAngles;
+          const saved: [string, Map<number, Float64Array>][] = [];
           for (const [pack, { bi, rows: list }] of byPack) {
             const rows = list.map(([radiusUm, item, block]): [number, Float64Array] => [radiusUm, result.rows[item][block]]);
             this.remember(pack, rows);
             for (const [radiusUm, row] of rows) found[l][bi].set(radiusUm, row);
             stats.computed += rows.length;
-            if (this.options.disk) toSave.push([pack, new Map(rows)]);
+            if (this.options.disk) saved.push([pack, new Map(rows)]);
           }
+          if (watch.saveEachTask) this.queueWrites(saved);
+          else toSave.push(...saved);
+          if (watch.onRows) done(taskNs, false);
         })
         .catch((error: unknown) => {
           stop.abort(error);
@@ -251,7 +304,7 @@ export class KernelService {
     const borrowed = await borrowedSettled;
     if (borrowed.some((r) => r.status === "rejected")) {
       signal?.throwIfAborted();
-      return this.rows(request, signal);
+      return this.rows(request, signal, watch);
     }
     const blockIndex = new Map(blocks.map((b, bi) => [b, bi]));
     return {

@@ -1,14 +1,8 @@
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import type { CellAverage } from "../../lib/bow/drop-rows.js";
 import type { ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import type { DropMedium } from "../../lib/water/drop-medium.js";
 
-/** Optical constants of the drop material at one wavelength, all a kernel row depends on besides size and angles. */
-export interface Medium {
-  wavelengthNm: number;
-  mRe: number;
-  mIm: number;
-  nAir: number;
-}
 
 export interface KernelTaskItem {
   radiusUm: number;
@@ -22,7 +16,7 @@ export interface KernelTaskItem {
 
 /** One wavelength, several drops, each over some lattice blocks: the unit of work sent to a worker. */
 export interface KernelTask {
-  medium: Medium;
+  medium: DropMedium;
   h: number;
   items: KernelTaskItem[];
   /** Lattice indices (inclusive) needed; the blocks' other samples are not computed. */

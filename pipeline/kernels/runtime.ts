@@ -22,16 +22,15 @@ export function createKernelRuntime(
   const folder = cacheFolder(config.cacheDir);
   // With REDIS_URL the second tier is Redis, shared by every API and worker process.
   const redis = config.redisUrl ? kernelRedis(config.redisUrl) : undefined;
+  const disk = folder ? new DiskStore(join(folder, "kernels")) : undefined;
   const kernels = new KernelService({
     // Profile answers, view answers and finished jobs keep a sixteenth of the budget each (routes/profile.ts,
     // routes/view.ts, jobs/job-system.ts); kernels take the rest.
     memoryBudgetBytes: (config.cacheBudgetMb * 2 ** 20 * 13) / 16,
-    disk: redis
-      ? new RedisKernelStore(redis, config.redisPrefix ?? "antisolar", KERNEL_TTL_S)
-      : folder
-        ? new DiskStore(join(folder, "kernels"))
-        : undefined,
+    // With both, the local folder stands in for Redis while Redis is away.
+    disk: redis ? new RedisKernelStore(redis, config.redisPrefix ?? "antisolar", KERNEL_TTL_S, disk) : disk,
     compute: pool.compute,
+    parallelism: pool.threads,
   });
   return {
     kernels,

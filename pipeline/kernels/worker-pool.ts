@@ -51,11 +51,17 @@ export function createWorkerPool(
   };
 }
 
-/** The same computation on the calling thread (tests and the CLI, where blocking is fine). */
+/**
+ * The same computation on the calling thread (tests, WORKERS=0), each task in a turn of the event loop of its own,
+ * so that the tasks done before it are reported (progress) before it blocks the thread.
+ */
 export function createInlinePool(): KernelPool {
   return {
     threads: 0,
-    compute: async (task: KernelTask) => kernelRows(task),
+    compute: async (task: KernelTask) => {
+      await new Promise<void>((resolve) => setImmediate(resolve));
+      return kernelRows(task);
+    },
     close: async () => undefined,
   };
 }

@@ -2,17 +2,20 @@ import sharp from "sharp";
 import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
 import { sizeMapRowBody, type SizeMapRequest } from "../../schemas/figures.js";
 import { computeProfile, type ProfileResult } from "../compute/profile.js";
+import { profileProgress } from "./profile-render.js";
 import { contentHash } from "../requests/content-hash.js";
 import { chromaticityFigureSources, chromaticitySvg } from "../../lib/figures/chromaticity-figure.js";
 import { SIZE_MAP_SOURCES, sizeMapRaster, sizeMapSvg, logSpacedRadii, type SizeMapData } from "../../lib/figures/size-map-figure.js";
 import { scenarioSentence } from "../../lib/figures/figure-input.js";
 import { ClientError } from "../requests/client-error.js";
 import { headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
+import { ProgressMeter } from "../progress/progress-meter.js";
+import { resolveProfileRequest, resolveSizeMapRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
 
 export const SVG_CONTENT_TYPE = "image/svg+xml; charset=utf-8";
 
 function sourcesOf(result: ProfileResult): string[] {
-  return Array.isArray(result.meta.sources) ? result.meta.sources.map(String) : [];
+  return result.meta.sources;
 }
 
 /** The provenance every render carries (README, Using it): content hash and published sources, as headers. */
@@ -20,20 +23,22 @@ export function figureHeaders(hash: string, sources: readonly string[]): Record<
   return { "x-antisolar-hash": hash, "x-antisolar-sources": headerSafe(JSON.stringify(sources)) };
 }
 
-export async function renderChromaticityFigure(body: ProfileRequest, deps: RenderDeps): Promise<RenderOutput> {
-  deps.onProgress?.(0, "kernels");
-  const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal });
-  deps.onProgress?.(1, "done");
+export async function renderChromaticityFigure(request: ProfileRequest, deps: RenderDeps): Promise<RenderOutput> {
+  const resolved = resolveProfileRequest(request);
+  const body = resolved.body;
+  // Drawing the figure costs about what the JSON answer does (one point per angle).
+  const progress = profileProgress(body, "json", deps);
+  const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask });
   const sources = [...chromaticityFigureSources(body.observer), ...sourcesOf(result)];
-  return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(chromaticitySvg(result), "utf8"), headers: figureHeaders(String(result.meta.hash), sources) };
+  progress.done();
+  return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(chromaticitySvg(result), "utf8"), headers: { ...figureHeaders(result.meta.hash, sources), ...sourcePositionHeaders(resolved.sourcePosition) } };
 }
 
 /** Engines over all rows, merged where neighbouring rows used the same one. */
 function mergedEngines(results: ProfileResult[]): { engine: string; fromUm: number; toUm: number }[] {
   const out: { engine: string; fromUm: number; toUm: number }[] = [];
   for (const r of results) {
-    const engines = (r.meta.method as { engines: { engine: string; fromUm: number; toUm: number }[] }).engines;
-    for (const e of engines) {
+    for (const e of r.meta.method.engines) {
       const last = out[out.length - 1];
       if (last && last.engine === e.engine) last.toUm = e.toUm;
       else out.push({ ...e });
@@ -49,13 +54,16 @@ async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ ra
   const abort = new AbortController();
   const stop = () => abort.abort();
   deps.signal?.addEventListener("abort", stop);
+  // One stage per row, of equal cost (the rows differ only in drop size); they end in any order, so they count as rows done.
+  const rowsDone = new ProgressMeter(Array.from(radiiUm, (_, k) => `row ${k + 1}`), deps.onProgress);
+  radiiUm.forEach((_, k) => rowsDone.plan(`row ${k + 1}`, 1));
   let done = 0;
   try {
     const results = await Promise.all(
       Array.from(radiiUm, async (radiusUm) => {
         try {
           const result = await computeProfile(profileRequestSchema.parse(sizeMapRowBody(body, radiusUm)), { kernels: deps.kernels, limits, signal: abort.signal });
-          deps.onProgress?.(++done / radiiUm.length, "rows");
+          rowsDone.complete(`row ${++done}`);
           return result;
         } catch (err) {
           abort.abort();
@@ -78,8 +86,10 @@ async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ ra
   }
 }
 
-export async function renderSizeMap(body: SizeMapRequest, format: "svg" | "png", deps: RenderDeps): Promise<RenderOutput> {
-  const hash = contentHash(body, "figure/size-map");
+export async function renderSizeMap(request: SizeMapRequest, format: "svg" | "png", deps: RenderDeps): Promise<RenderOutput> {
+  const resolved = resolveSizeMapRequest(request);
+  const body = resolved.body;
+  const hash = contentHash(request, "figure/size-map");
   const { radiiUm, results } = await sizeMapRows(body, deps);
   const anglesDeg = results[0].spectral.anglesDeg;
   const srgb = new Float64Array(radiiUm.length * anglesDeg.length * 3);
@@ -94,7 +104,7 @@ export async function renderSizeMap(body: SizeMapRequest, format: "svg" | "png",
     hash,
     sources,
   };
-  if (format === "svg") return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(sizeMapSvg(map), "utf8"), headers: figureHeaders(hash, [...SIZE_MAP_SOURCES, ...sources]) };
+  if (format === "svg") return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(sizeMapSvg(map), "utf8"), headers: { ...figureHeaders(hash, [...SIZE_MAP_SOURCES, ...sources]), ...sourcePositionHeaders(resolved.sourcePosition) } };
   const raster = sizeMapRaster(map);
   const png = await sharp(raster.pixels, { raw: { width: raster.width, height: raster.height, channels: 3 } }).png().toBuffer();
   const axes = {
@@ -103,6 +113,6 @@ export async function renderSizeMap(body: SizeMapRequest, format: "svg" | "png",
     normalisation: "each row's peak luminance = 1",
     space: "srgb",
   };
-  return { contentType: "image/png", body: png, headers: { ...figureHeaders(hash, [...SIZE_MAP_SOURCES, ...sources]), "x-antisolar-axes": headerSafe(JSON.stringify(axes)) } };
+  return { contentType: "image/png", body: png, headers: { ...figureHeaders(hash, [...SIZE_MAP_SOURCES, ...sources]), ...sourcePositionHeaders(resolved.sourcePosition), "x-antisolar-axes": headerSafe(JSON.stringify(axes)) } };
 }
 

@@ -1,4 +1,5 @@
 import type { KernelService } from "../kernels/kernel-service.js";
+import type { ProgressListener } from "../progress/progress-meter.js";
 
 /** A finished render: the bytes a client receives, with their type and the headers that describe them. */
 export interface RenderOutput {
@@ -12,8 +13,10 @@ export interface RenderDeps {
   /** Largest Mie cost allowed (terms × angles); Infinity for background jobs. */
   maxTermAngles: number;
   signal?: AbortSignal;
-  /** Progress as a fraction in [0, 1] with a stage name. */
-  onProgress?: (fraction: number, stage: string) => void;
+  /** Progress as it is measured (pipeline/progress/): fraction in [0, 1], never falling; stage; seconds left. */
+  onProgress?: ProgressListener;
+  /** Keep kernel rows in the second tier as each task ends (background jobs: a retried job resumes from them). */
+  saveEachTask?: boolean;
 }
 
 export function jsonOutput(value: unknown, headers: Record<string, string> = {}): RenderOutput {

@@ -1,29 +1,41 @@
 import type { ImageQuery, SkyRequest, ViewRequest } from "../../schemas/view.js";
 import { encodeOverlay, prepareSky, prepareView } from "../compute/view.js";
 import { headerSafe, jsonOutput, type RenderDeps, type RenderOutput } from "./render-output.js";
+import { PROFILE_STAGES } from "../compute/profile.js";
+import { ProgressMeter } from "../progress/progress-meter.js";
+import { COST_NS } from "../progress/work-costs.js";
+import { annotate, resolveOverlayRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
 
 /** A camera view or sky map, or its manifest, as a render output (for the routes and for jobs alike). */
 export async function renderOverlay(
   endpoint: "view" | "sky",
-  body: ViewRequest | SkyRequest,
+  request: ViewRequest | SkyRequest,
   query: ImageQuery,
   deps: RenderDeps,
 ): Promise<RenderOutput> {
-  const viewDeps = { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal };
-  deps.onProgress?.(0, "profile");
+  const resolved = resolveOverlayRequest(request);
+  const body = resolved.body;
+  const progress = new ProgressMeter([...PROFILE_STAGES, "pixels"], deps.onProgress);
+  if (query.part !== "manifest") {
+    const { widthPx, heightPx } = endpoint === "view" ? (body as ViewRequest).camera : (body as SkyRequest);
+    progress.plan("pixels", widthPx * heightPx * COST_NS.overlayPixel);
+  }
+  const viewDeps = { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask };
   const prepared = endpoint === "view" ? await prepareView(body as ViewRequest, query.format, viewDeps) : await prepareSky(body as SkyRequest, query.format, viewDeps);
-  const m = prepared.manifest as { hash: string; scale: { meaning: string; factor: number }; output: { space: string }; computeMs: number; warnings: string[] };
+  annotate(prepared.manifest as Record<string, unknown>, resolved);
+  const m = prepared.manifest;
   if (query.part === "manifest") {
-    deps.onProgress?.(1, "done");
+    progress.done();
     return jsonOutput(prepared.manifest, { "x-antisolar-hash": m.hash });
   }
-  deps.onProgress?.(0.5, "pixels");
   const file = await encodeOverlay(prepared, query.format);
-  deps.onProgress?.(1, "done");
+  progress.complete("pixels");
+  progress.done();
   return {
     contentType: file.contentType,
     body: file.body,
     headers: {
+      ...sourcePositionHeaders(resolved.sourcePosition),
       "x-antisolar-hash": m.hash,
       "x-antisolar-space": m.output.space,
       "x-antisolar-scale": headerSafe(`${m.scale.meaning}; factor ${m.scale.factor}`),

@@ -1,27 +1,22 @@
 // The catalogue of errors a client can see: a stable code, a status and the one JSON shape the README documents
 // ({ error, message, field, allowed, requestId }).
 
-export type ErrorCode =
-  | "invalid-request"
-  | "invalid-json"
-  | "unsupported-media-type"
-  | "body-too-large"
-  | "not-found"
-  | "too-costly"
-  | "not-acceptable"
-  | "rate-limited"
-  | "overloaded"
-  | "timeout"
-  | "client-closed"
-  | "internal";
+import type { ErrorBody, clientErrorCodes } from "../../schemas/responses/error-response.js";
+
+export type { ErrorBody };
+export type ErrorCode = (typeof clientErrorCodes)[number];
 
 const statusByCode: Record<ErrorCode, number> = {
   "invalid-request": 400,
   "invalid-json": 400,
   "unsupported-media-type": 415,
   "body-too-large": 413,
+  "headers-too-large": 431,
+  "uri-too-long": 414,
+  "request-timeout": 408,
   "not-found": 404,
   "too-costly": 422,
+  "source-below-horizon": 422,
   "not-acceptable": 406,
   "rate-limited": 429,
   overloaded: 503,
@@ -30,15 +25,6 @@ const statusByCode: Record<ErrorCode, number> = {
   "client-closed": 499,
   internal: 500,
 };
-
-export interface ErrorBody {
-  error: ErrorCode;
-  message: string;
-  field?: string;
-  allowed?: string;
-  requestId?: string;
-  [extra: string]: unknown;
-}
 
 /** An error whose message is meant for the client. */
 export class ClientError extends Error {

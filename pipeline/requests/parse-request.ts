@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { ClientError } from "./client-error.js";
+import { previewText, previewValue } from "./preview.js";
 import type { JsonSchemaNode } from "../../schemas/json-schema.js";
 
 type JsonSchema = JsonSchemaNode;
@@ -60,14 +61,24 @@ function describeRange(node: JsonSchema): string | undefined {
   return undefined;
 }
 
+/** drops.radii[3]; names a client sent are cut to a preview, and so is the whole path. */
 function formatPath(path: PropertyKey[]): string {
   let out = "";
-  for (const key of path) out += typeof key === "number" ? `[${key}]` : out ? `.${String(key)}` : String(key);
-  return out;
+  for (const key of path) {
+    // An empty name (a query string "?=1") still names something.
+    const name = key === "" ? '""' : previewText(String(key), 40);
+    out += typeof key === "number" ? `[${key}]` : out ? `.${name}` : name;
+    if (out.length > 160) break;
+  }
+  return previewText(out, 160);
 }
 
-/** Parses input with a zod schema, or throws a 400 that names the field and what it allows. */
-export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, where: "body" | "query"): z.output<S> {
+/**
+ * Parses input with a zod schema, or throws a 400 that names the field and what it allows. `prefix` is where the
+ * input sits inside the request (a job's `body`), so that the field is named from the request's root.
+ */
+export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, where: "body" | "query", prefix: readonly PropertyKey[] = []): z.output<S> {
+  if (where === "query") checkQueryValues(jsonSchemaOf(schema), input);
   const result = schema.safeParse(input);
   if (result.success) return result.data;
   const issue = result.error.issues[0];
@@ -77,22 +88,46 @@ export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, whe
   let message: string;
   if (issue.code === "unrecognized_keys") {
     const node = schemaAtPath(root, path, input);
-    const field = formatPath([...path, issue.keys[0]]);
+    const field = formatPath([...prefix, ...path, issue.keys[0]]);
     allowed = node?.properties ? `the fields ${Object.keys(node.properties).join(", ")}` : undefined;
     message = `${where} field '${field}' is not known${allowed ? `; allowed here are ${allowed}` : ""}`;
     path = [...path, issue.keys[0]];
   } else {
     const node = schemaAtPath(root, path, input);
     allowed = node ? describeRange(node) : undefined;
-    const field = formatPath(path) || "(root)";
+    const field = formatPath([...prefix, ...path]) || "(root)";
     const sent = valueAt(input, path);
-    const sentText = sent === undefined ? "missing" : truncate(JSON.stringify(sent) ?? String(sent));
-    message = `${where} field '${field}' is invalid (${issue.message}; sent ${sentText})${allowed ? `: allowed is ${allowed}` : ""}`;
+    // Never JSON.stringify what was sent: it may be large, or (from a query string) anything at all.
+    const sentText = sent === undefined ? "missing" : previewValue(sent);
+    message = `${where} field '${field}' is invalid (${previewText(issue.message, 200)}; sent ${sentText})${allowed ? `: allowed is ${allowed}` : ""}`;
   }
   throw new ClientError("invalid-request", message, {
-    field: formatPath(path) || undefined,
+    field: formatPath([...prefix, ...path]) || undefined,
     ...(allowed ? { allowed } : {}),
   });
+}
+
+/**
+ * Numbers in a query string are written as JSON writes numbers (RFC 8259 §6). z.coerce.number() calls Number(),
+ * which reads "0x10" as 16, "" as 0 and " 5 " as 5; those are refused here, before the schema coerces. A parameter
+ * given twice arrives as a list, refused here with a message that says so.
+ */
+const DECIMAL = /^-?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?$/;
+
+function checkQueryValues(root: JsonSchema, input: unknown): void {
+  if (!input || typeof input !== "object") return;
+  for (const [key, value] of Object.entries(input)) {
+    const node = Object.prototype.hasOwnProperty.call(root.properties ?? {}, key) ? root.properties![key] : undefined;
+    if (!node) continue; // an unknown name: the schema's strictness names it
+    const field = formatPath([key]);
+    const allowed = describeRange(node);
+    const refuse = (what: string) => {
+      throw new ClientError("invalid-request", `query field '${field}' ${what}${allowed ? `: allowed is ${allowed}` : ""}`, { field, ...(allowed ? { allowed } : {}) });
+    };
+    if (Array.isArray(value)) refuse(`is given ${value.length} times; give it once`);
+    const numeric = node.type === "number" || node.type === "integer";
+    if (numeric && typeof value === "string" && !DECIMAL.test(value)) refuse(`is not a decimal number (sent ${previewValue(value)})`);
+  }
 }
 
 function valueAt(input: unknown, path: PropertyKey[]): unknown {
@@ -102,8 +137,4 @@ function valueAt(input: unknown, path: PropertyKey[]): unknown {
     v = (v as Record<PropertyKey, unknown>)[key];
   }
   return v;
-}
-
-function truncate(text: string): string {
-  return text.length > 80 ? `${text.slice(0, 77)}...` : text;
 }

@@ -1,15 +1,11 @@
 import { readFileSync, readdirSync } from "node:fs";
 import { join } from "node:path";
 import { z } from "zod";
-import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
+import { profileRequestSchema } from "../../schemas/profile.js";
 import { repoPath } from "../config/resources.js";
+import type { Preset } from "../../schemas/responses/profile-response.js";
 
-export interface Preset {
-  name: string;
-  title: string;
-  description: string;
-  body: ProfileRequest;
-}
+export type { Preset } from "../../schemas/responses/profile-response.js";
 
 const presetFileSchema = z.object({ title: z.string(), description: z.string(), body: z.unknown() }).strict();
 

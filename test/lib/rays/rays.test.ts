@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { airyBowIntensity } from "../../../lib/rays/airy-bow.js";
 import { deviationCurvature, deviationRad, descartesRay } from "../../../lib/rays/descartes.js";
-import { fresnelReflectance } from "../../../lib/rays/fresnel.js";
+import { fresnelAmplitudes, fresnelReflectance } from "../../../lib/rays/fresnel.js";
 import { geometricIntensity, raysAtScatteringAngle } from "../../../lib/rays/geometric-intensity.js";
 import { waterIndex } from "../../../lib/water/water-index.js";
 
@@ -191,6 +191,18 @@ describe("geometric-optics intensity", () => {
     expect(tertiary.scatteringSign).toBe(-1);
     expect(raysAtScatteringAngle(n, 3, (tertiary.scatteringAngleDeg - 1) * DEG)).toHaveLength(3);
     expect(raysAtScatteringAngle(n, 3, (tertiary.scatteringAngleDeg + 1) * DEG)).toHaveLength(1);
+  });
+
+  // Born & Wolf 1999 §1.5.2 Eq. 21: r⊥ = −sin(i − t)/sin(i + t), r∥ = tan(i − t)/tan(i + t), so at normal incidence
+  // r⊥ = (1 − n)/(1 + n) and r∥ = (n − 1)/(n + 1); r∥ vanishes at Brewster's angle, tan i = n (§1.5.3).
+  it("signed amplitudes: ∓(n − 1)/(n + 1) at normal incidence, r∥ = 0 at Brewster's angle", () => {
+    const normal = fresnelAmplitudes(n, 0);
+    expect(normal.perpendicular).toBeCloseTo((1 - n) / (1 + n), 15);
+    expect(normal.parallel).toBeCloseTo((n - 1) / (n + 1), 15);
+    const brewster = fresnelAmplitudes(n, Math.sin(Math.atan(n)));
+    expect(Math.abs(brewster.parallel)).toBeLessThan(1e-15);
+    expect(brewster.perpendicular).toBeLessThan(0);
+    expect(fresnelReflectance(n, 0.3).perpendicular).toBe(fresnelAmplitudes(n, 0.3).perpendicular ** 2);
   });
 
   // Fresnel: energy is conserved over all orders, R + (1 − R)² Σ R^(p−1) = 1 (van de Hulst 1957 §12.21).

@@ -93,13 +93,13 @@ describe("flattened drops end to end: Fraser's (1983, J. Opt. Soc. Am. 73, 1626)
   });
 
   it("meta names the shape model, the axis ratios used and the place on the bow; spheres get a note for an arc position", async () => {
-    const shape = results.rainTop.meta.shape as Record<string, unknown>;
+    const shape = results.rainTop.meta.shape;
     expect(shape.model).toMatch(/Beard & Chuang 1987/);
     expect(shape.arcPositionDeg).toBe(0);
-    const radii = shape.flattenedRadii as { axisRatioFrom: number };
+    const radii = shape.flattenedRadii!;
     expect(radii.axisRatioFrom).toBeGreaterThan(0.92);
     expect(radii.axisRatioFrom).toBeLessThan(0.935);
-    const sphere = (await profileOf({ ...cheap, drops: drops(1000, { kind: "sphere" }), arcPositionDeg: 30 })).meta.shape as Record<string, unknown>;
+    const sphere = (await profileOf({ ...cheap, drops: drops(1000, { kind: "sphere" }), arcPositionDeg: 30 })).meta.shape;
     expect(sphere.model).toBe("sphere");
     expect(sphere.note).toMatch(/changes nothing/);
     expect(sphere.default).toMatch(/spheres unless/);

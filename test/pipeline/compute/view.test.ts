@@ -15,7 +15,10 @@ import { parseOrThrow } from "../../../pipeline/requests/parse-request.js";
 import { ClientError } from "../../../pipeline/requests/client-error.js";
 import { loadConfig } from "../../../pipeline/config/config.js";
 import { tangentTransmission } from "../../../lib/view/layer.js";
+import { computeLut } from "../../../pipeline/compute/lut.js";
+import { lutRequestSchema } from "../../../schemas/lut.js";
 import { extinctionEfficiency, opticalThickness } from "../../../lib/bow/extinction.js";
+import { viewManifestSchema } from "../../../schemas/responses/overlay-response.js";
 import { latticeRadiusQuadrature } from "../../../lib/drops/lattice-quadrature.js";
 
 const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: createInlinePool().compute });
@@ -93,7 +96,7 @@ describe("camera geometry (world x east, y north, z up; azimuth clockwise from n
   it("focal length and sensor width give the same camera as the field of view they imply", async () => {
     // 18 mm on a 36 mm sensor: tan(hfov/2) = 18/18 → hfov = 90° (similar triangles).
     const a = await prepareView(viewRequestSchema.parse({ scenario, sun, camera: { ...looking, focalLengthMm: 18, sensorWidthMm: 36 } }), "exr", deps);
-    const cam = a.manifest.camera as { focalPx: number; horizontalFovDeg: number };
+    const cam = viewManifestSchema.parse(a.manifest).camera;
     expect(cam.focalPx).toBeCloseTo(100.5, 9);
     expect(cam.horizontalFovDeg).toBeCloseTo(90, 9);
   });
@@ -202,23 +205,12 @@ describe("sky map (equirectangular: azimuth −180°..180° left to right with n
 });
 
 describe("rain curtain", () => {
-  it("Q_ext of a 1 mm drop is 2 within 0.5 % (extinction paradox, van de Hulst 1957 §8.22)", () => {
-    // x = 2π·1000/0.555 ≈ 11 300; the excess over 2 falls like x^(−2/3) (the edge term of Nussenzveig & Wiscombe 1980,
-    // Phys. Rev. Lett. 45, 1490), about 0.2 % here. m = 1.3335 is about water's index at 555 nm; the limit does not depend on it.
-    const q = extinctionEfficiency(1.3335, 0, (2 * Math.PI * 1000) / 0.555);
-    expect(Math.abs(q - 2)).toBeLessThan(0.01);
-  });
-
-  it("Marshall–Palmer 2 mm/h over 1 km: τ = s·Q·(π/4)·N0·2/Λ³ within 2 %", () => {
-    // Marshall & Palmer 1948: N(D) = N0 e^(−ΛD), N0 = 8000 m⁻³ mm⁻¹, Λ = 4.1 R^(−0.21) mm⁻¹; ∫ D² e^(−ΛD) dD = 2/Λ³.
-    // R = 2: Λ = 3.544 mm⁻¹, cross-section (π/4)·8000·2/Λ³ = 282.2 mm² m⁻³; with Q = 2 and s = 1000 m, τ = 0.564.
-    // 2 %: Q_ext of the smallest drops exceeds 2 by a few per cent, and the quadrature drops 1e-4 tails.
-    const lambda = 4.1 * 2 ** -0.21;
-    const expected = 1000 * 2 * (Math.PI / 4) * 8000 * (2 / lambda ** 3) * 1e-6;
-    expect(expected).toBeCloseTo(0.564, 3);
-    const q = latticeRadiusQuadrature({ kind: "marshall-palmer", rainRateMmPerH: 2 });
-    const tau = opticalThickness(q.radiiUm, q.weights, { wavelengthNm: 555, mRe: 1.3335, mIm: 0, nAir: 1 }, 1000);
-    expect(Math.abs(tau / expected - 1)).toBeLessThan(0.02);
+  it("a texture's alpha is the view's alpha for the same scenario: one curtain, at one wavelength", async () => {
+    const view = await prepareView(viewRequestSchema.parse({ scenario, camera: { widthPx: 32, heightPx: 18 } }), "exr", deps);
+    const lut = await computeLut(lutRequestSchema.parse({ scenario, sizes: { kind: "none" }, angles: { fromDeg: 38, toDeg: 54, texels: 8 } }), deps);
+    expect(view.alpha).toBeGreaterThan(0);
+    // The texture stores 32-bit floats.
+    expect(lut.rgba[3]).toBe(Math.fround(view.alpha!));
   });
 });
 

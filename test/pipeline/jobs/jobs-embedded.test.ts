@@ -129,7 +129,7 @@ describe("jobs in one process", () => {
     expect(submitted.status).toBe(202);
     expect(submitted.location).toBe(`/v1/jobs/${submitted.job.id}`);
     const seen = await until(submitted.job.id, (j) => j.state === "done");
-    expect(seen.at(-1)!.progress).toEqual({ fraction: 1, stage: "done" });
+    expect(seen.at(-1)!.progress).toEqual({ fraction: 1, stage: "done", secondsLeft: 0 });
 
     const result = await fetch(`${base}/v1/jobs/${submitted.job.id}/result`);
     expect(result.status).toBe(200);

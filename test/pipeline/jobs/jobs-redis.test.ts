@@ -34,6 +34,15 @@ const SLOW_LUT = {
   sizes: { kind: "radius", fromUm: 200, toUm: 3000, texels: 24 },
 };
 
+// Forty radius nodes of millimetre drops, each by Lorenz–Mie, 31 wavelengths: several seconds on one thread, one
+// kernel task per wavelength, so a worker killed part-way has kept some wavelengths' rows in Redis.
+const RESUMABLE_PROFILE = {
+  drops: { kind: "lognormal", medianRadiusUm: 800, geometricSd: 1.2, totalNumberPerM3: 1000 },
+  method: "mie",
+  mieSizesPerDecade: 64,
+  spectral: { fromNm: 400, toNm: 700, stepNm: 10 },
+};
+
 interface JobView {
   id: string;
   state: string;
@@ -178,12 +187,12 @@ beforeAll(async () => {
   apiA = `http://127.0.0.1:${portA}`;
   apiB = `http://127.0.0.1:${portB}`;
   for (const api of [apiA, apiB]) {
-    await waitFor(`${api}/readyz`, async () => ((await fetch(`${api}/readyz`).catch(() => undefined))?.status === 200 ? true : undefined));
+    await waitFor(`${api}/readyz`, async () => ((await fetch(`${api}/readyz`).catch(() => undefined))?.status === 200 ? true : undefined), 38_000);
   }
   for (const worker of children.filter((c) => c.name.startsWith("worker"))) {
     await waitFor(`${worker.name} to start`, () => (worker.lines.some((l) => l.includes('"msg":"worker ready"')) ? true : undefined));
   }
-}, 40_000);
+}, 90_000);
 
 afterAll(async () => {
   stopChildren();
@@ -246,6 +255,44 @@ describe.skipIf(skipWithout(redisAvailable))("jobs through Redis with two API pr
     expect(result.status).toBe(200);
     expect(((await result.json()) as { manifest: { height: number } }).manifest.height).toBe(10);
   }, 60_000);
+
+  it("a retried job resumes its progress from the kernel rows the dead worker kept, not from zero", async () => {
+    // The earlier test killed a worker: start another, so that two are alive.
+    const fresh = start("worker-3", "dist/pipeline/jobs/worker-main.js", {});
+    await waitFor("worker-3 to start", () => (fresh.lines.some((l) => l.includes('"msg":"worker ready"')) ? true : undefined), 30_000);
+    const alive = children.filter((c) => c.name.startsWith("worker") && c.process.exitCode === null && c.process.signalCode === null);
+    const submitted = await submit(apiA, "profile", RESUMABLE_PROFILE, "json");
+    const victim = await waitFor("a worker to start the job", () => alive.find((w) => logged(w, "job started", submitted.id)));
+    const reached = await waitFor("a quarter of the work", async () => {
+      const j = await job(apiA, submitted.id);
+      return j.progress.fraction >= 0.25 ? j.progress.fraction : undefined;
+    }, 90_000);
+    victim.process.kill("SIGKILL");
+    const retry = await waitFor("the retry's first progress", () => {
+      for (const w of alive.filter((c) => c !== victim)) {
+        const line = w.lines.find((l) => l.includes('"msg":"job progress"') && l.includes(submitted.id));
+        if (line) return JSON.parse(line) as { attempt: number; fraction: number };
+      }
+      return undefined;
+    }, 30_000);
+    expect(retry.attempt).toBe(2);
+    // Rows of tasks still running when the worker died are lost; those of finished tasks count at once.
+    expect(retry.fraction).toBeGreaterThan(0.5 * reached);
+    const done = await waitFor("the retried job", async () => {
+      const j = await job(apiB, submitted.id);
+      return j.state === "done" || j.state === "failed" ? j : undefined;
+    }, 120_000);
+    expect(done).toMatchObject({ state: "done", attempts: 2, progress: { fraction: 1, stage: "done", secondsLeft: 0 } });
+    // Kernel writes trail the answer (they never hold it up): let them land before the next test counts bytes.
+    let bytes = -1;
+    await waitFor("the kernel writes to end", async () => {
+      const now = await kernelBytes();
+      const still = now === bytes;
+      bytes = now;
+      await new Promise((r) => setTimeout(r, 1000));
+      return still ? true : undefined;
+    }, 60_000);
+  }, 300_000);
 
   it("cancels a running job through the other API process: the worker stops computing", async () => {
     const submitted = await submit(apiB, "lut", SLOW_LUT, "json");

@@ -1,0 +1,52 @@
+// A profile's progress is counted in its kernel rows and later stages: it rises in many steps, never falls, and
+// rows already cached count at once.
+import { describe, it, expect } from "vitest";
+import { KernelService } from "../../../pipeline/kernels/kernel-service.js";
+import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
+import { computeProfile, PROFILE_STAGES } from "../../../pipeline/compute/profile.js";
+import { profileRequestSchema } from "../../../schemas/profile.js";
+import { ProgressMeter, type ProgressUpdate } from "../../../pipeline/progress/progress-meter.js";
+
+// 16 wavelengths: one kernel task each (a task is one wavelength's rows).
+const body = profileRequestSchema.parse({
+  drops: { kind: "lognormal", medianRadiusUm: 10, geometricSd: 1.2, totalNumberPerM3: 1e6 },
+  angles: { fromDeg: 36, toDeg: 44, stepDeg: 0.2 },
+  spectral: { fromNm: 400, toNm: 700, stepNm: 20 },
+  mieSizesPerDecade: 64,
+  method: "mie",
+});
+
+async function run(kernels: KernelService) {
+  const updates: ProgressUpdate[] = [];
+  const progress = new ProgressMeter(PROFILE_STAGES, (u) => updates.push(u));
+  await computeProfile(body, { kernels, limits: { maxTermAngles: Infinity }, progress });
+  progress.done();
+  return updates;
+}
+
+describe("profile progress", () => {
+  const kernels = new KernelService({ memoryBudgetBytes: 2 ** 28, compute: createInlinePool().compute });
+
+  it("rises through the kernel rows, the spectral sum and colour, and never falls", async () => {
+    const updates = await run(kernels);
+    const fractions = updates.map((u) => u.fraction);
+    for (let k = 1; k < fractions.length; k++) expect(fractions[k]).toBeGreaterThanOrEqual(fractions[k - 1]);
+    const kernelFractions = new Set(updates.filter((u) => u.stage === "kernels").map((u) => u.fraction));
+    // One step per task (wavelength) at least: 16 tasks, plus the empty lookup.
+    expect(kernelFractions.size).toBeGreaterThanOrEqual(16);
+    expect(updates.map((u) => u.stage)).toEqual(expect.arrayContaining(["kernels", "spectral", "colour", "done"]));
+    expect(fractions.at(-1)).toBe(1);
+    // Kernels are nearly all of a cold full-Mie profile's cost.
+    const lastKernel = updates.filter((u) => u.stage === "kernels").at(-1)!.fraction;
+    expect(lastKernel).toBeGreaterThan(0.5);
+  });
+
+  it("counts rows found in the cache at once, so a repeat starts where the first run's kernels ended", async () => {
+    const updates = await run(kernels);
+    const first = updates[0];
+    expect(first.stage).toBe("kernels");
+    expect(first.fraction).toBeGreaterThan(0.5);
+    // Found rows are not work done here: no estimate of time left from them.
+    expect(first.secondsLeft).toBeNull();
+  });
+});
