@@ -3,7 +3,7 @@
 
 import type { ProfileRequest } from "../../schemas/profile.js";
 import type { ShapeMeta } from "../../schemas/responses/shape-meta.js";
-import { CANTING_SD_DEG } from "../../lib/drops/shape/canting.js";
+import { CANTING_SD_DEG, cantingNodesFive } from "../../lib/drops/shape/canting.js";
 import { AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import { outlineAxisRatio } from "../../lib/drops/shape/outline.js";
 import {
@@ -79,4 +79,21 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array): 
     warnings.push(`flattened drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm radius are served by Airy-type theory outside its measured validity`);
   }
   return { shapes, flattened: flattenedRadii.length > 0, meta, warnings };
+}
+
+/**
+ * Work of one flattened-drop row per angle bin, in the Lorenz–Mie term-angles the synchronous limit is counted in:
+ * a 600-bin scattering-plane context (4 orders × 8001 pupil rays, then the two bows' tables) took 2.4–5.4 s on
+ * this project's 2-core machine at load average 17–20 (about 0.1 core), so ≈ 0.4 s of one core; at the measured
+ * ~0.75e9 term-angles/s per core (AUTO_DENSITY_BUDGET_TERM_ANGLES) that is ≈ 3.75e8 per context, 6.25e5 per bin.
+ * An estimate until bench P4 measures it on a quiet machine.
+ */
+export const SHAPED_TERM_ANGLES_PER_BIN = 6.25e5;
+
+/** Term-angle equivalent of a plan's flattened rows: nodes × wavelengths × canting nodes × bins. */
+export function shapedCostTermAngles(plan: ShapePlan, wavelengths: number, bins: number): number {
+  const spec = plan.shapes.find((s) => s !== undefined);
+  if (!spec) return 0;
+  const nodes = plan.shapes.filter((s) => s !== undefined).length;
+  return nodes * wavelengths * cantingNodesFive(spec.cantingSdDeg).length * bins * SHAPED_TERM_ANGLES_PER_BIN;
 }

@@ -22,7 +22,7 @@ import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-de
 import type { CellAverage } from "../../lib/bow/cell-average.js";
 import type { WavelengthGrid } from "../../lib/spectra/grid.js";
 import { ClientError } from "../requests/client-error.js";
-import { planDropShapes } from "./drop-shape-plan.js";
+import { planDropShapes, shapedCostTermAngles } from "./drop-shape-plan.js";
 import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
 import { COST_NS } from "../progress/work-costs.js";
@@ -192,7 +192,8 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   }
 
   const blocks = blocksOf(span);
-  const cost = mieCost(averages);
+  // Flattened drops' rows are counted in Mie term-angles' worth of work (drop-shape-plan.ts).
+  const cost = mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1);
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",

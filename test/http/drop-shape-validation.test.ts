@@ -53,3 +53,12 @@ describe("views, sky overlays and lookup textures draw spheres so far: a flatten
     expect(res.body.message).toMatch(/\/v1\/profile/);
   });
 });
+
+describe("flattened drops over the synchronous budget", () => {
+  it("a full-spectrum flattened profile is a 422 too-costly that points to /v1/jobs", async () => {
+    const res = await post("/v1/profile", { drops: { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium" } } });
+    expect(res.status).toBe(422);
+    expect(res.body.error).toBe("too-costly");
+    expect(res.body.message).toMatch(/\/v1\/jobs/);
+  });
+});

@@ -283,5 +283,5 @@ describe("energy: a flattened, tilted, absorbing drop scatters all it intercepts
       area += (0.5 * lo * lo * 2 * Math.PI) / azimuths;
     }
     expect(Math.abs(area / expected - 1)).toBeLessThanOrEqual(1e-4);
-  });
+  }, 600_000);
 });
