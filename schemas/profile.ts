@@ -6,6 +6,7 @@ import { atmosphereSchema } from "./atmosphere.js";
 import { moonSchema } from "./moon.js";
 import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
 import { RADIUS_DENSITIES } from "../lib/bow/radius-density.js";
+import { arcPositionSchema, dropShapeSchema } from "./drop-shape.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 
@@ -19,12 +20,14 @@ export const dropsSchema = z
         kind: z.literal("monodisperse"),
         radiusUm: number(0.5, 3000, "Radius of every drop, µm").default(250),
         numberPerM3: number(0, 1e12, "Drops per m³").default(MONODISPERSE_NUMBER_PER_M3),
+        shape: dropShapeSchema.optional(),
       })
       .strict(),
     z
       .object({
         kind: z.literal("marshall-palmer"),
         rainRateMmPerH: number(0.1, 150, "Rain rate, mm/h (Marshall & Palmer 1948)").default(2),
+        shape: dropShapeSchema.optional(),
       })
       .strict(),
     z
@@ -33,6 +36,7 @@ export const dropsSchema = z
         medianVolumeDiameterMm: number(0.01, 6, "Median volume diameter D0, mm (Ulbrich 1983)").default(1),
         mu: number(-0.99, 20, "Shape μ of N(D) = N0 D^μ exp(−ΛD), Λ = (3.67 + μ)/D0").default(2),
         totalNumberPerM3: number(0, 1e12, "Total drops per m³").default(1000),
+        shape: dropShapeSchema.optional(),
       })
       .strict(),
     z
@@ -41,6 +45,7 @@ export const dropsSchema = z
         medianRadiusUm: number(0.5, 3000, "Median radius, µm").default(10),
         geometricSd: number(1.01, 4, "Geometric standard deviation σg").default(1.4),
         totalNumberPerM3: number(0, 1e12, "Total drops per m³ (fog: about 1e8)").default(1e8),
+        shape: dropShapeSchema.optional(),
       })
       .strict(),
     z
@@ -58,6 +63,7 @@ export const dropsSchema = z
           .min(1)
           .max(200)
           .describe("Bins in ascending radius; each spans half-way (geometrically) to its neighbours"),
+        shape: dropShapeSchema.optional(),
       })
       .strict(),
   ])
@@ -151,6 +157,7 @@ export const profileFieldsSchema = z
       .describe(
         "Drop sizes per decade of radius at which Lorenz–Mie rows are evaluated: the radius nodes stay 64 per decade, and each Mie node's row is the mean over sizes/64 radii across its cell, which averages the Mie ripple. auto: 64 when Mie-served drops carry under half the cross-section (rain), else enough for the ripple within the interactive budget; meta.radii.rule says what was chosen and why",
       ),
+    arcPositionDeg: arcPositionSchema,
     polariserDeg: number(-180, 180, "Linear polariser's axis to the bow's tangent, degrees (0 strengthens the bow)").optional(),
     pathLengthM: number(1, 100000, "Path length through the rain along the line of sight, m").default(1000),
     output: outputSchema.default({ space: "srgb", gamut: "css4", normalise: "peak", white: "sun", vision: "camera" }),
@@ -163,6 +170,8 @@ export interface ProfilePhysics {
   water: { salinityPsu: number };
   spectral: { fromNm: number; toNm: number };
   sun: { spectrum: z.output<typeof sunSpectrumSchema> };
+  /** The engine asked for, where the request has one. */
+  method?: string;
 }
 
 /** Rules across a profile's fields, checked wherever such physics is sent (profile, view and sky scenario, texture scenario, size map). */
@@ -182,6 +191,13 @@ export function checkProfilePhysics(b: ProfilePhysics, ctx: z.RefinementCtx): vo
     if (r.some((v, i) => i > 0 && v <= r[i - 1])) {
       ctx.addIssue({ code: "custom", path: ["drops", "bins"], message: "bins must be in strictly ascending radiusUm" });
     }
+  }
+  if (b.drops.shape && b.drops.shape.kind !== "sphere" && b.method === "mie") {
+    ctx.addIssue({
+      code: "custom",
+      path: ["drops", "shape"],
+      message: 'flattened drops are served by ray optics with Airy-type bows: use method "auto", "airy" or "geometric", or shape {"kind":"sphere"} with "mie"',
+    });
   }
 }
 

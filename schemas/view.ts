@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { checkProfilePhysics, profileRequestSchema, sunSchema } from "./profile.js";
+import { refuseFlattenedDrops } from "./drop-shape.js";
 import { placeAndMomentSchema } from "./place-and-time.js";
 import { moonPositionSchema } from "./moon.js";
 import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
@@ -20,6 +21,7 @@ export const viewScenarioSchema = z
   })
   .strict()
   .superRefine(checkProfilePhysics)
+  .superRefine(refuseFlattenedDrops("the camera view and sky overlay"))
   .prefault({})
   .describe("Drops, water, sunlight, observer, wavelengths, engine and path length, as in POST /v1/profile; angles are chosen to fit the image");
 

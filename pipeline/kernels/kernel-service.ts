@@ -12,6 +12,7 @@ import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
+import { shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
@@ -26,6 +27,8 @@ export interface KernelRequest {
   engines: DropEngine[];
   /** Per radius: Lorenz–Mie rows averaged over the node's radius cell (undefined: the node's own size). */
   averages?: (CellAverage | undefined)[];
+  /** Per radius: the drop's shape and place on the bow when it is not a sphere (undefined: a sphere). */
+  shapes?: (ShapedRowSpec | undefined)[];
   blocks: number[];
   /** Lattice indices (inclusive) the caller reads: rows need to be computed only there. */
   within: { first: number; last: number };
@@ -151,8 +154,9 @@ export class KernelService {
   async rows(request: KernelRequest, signal?: AbortSignal, watch: KernelWatch = {}): Promise<KernelRows> {
     const { h, media, radiiUm, engines, blocks, within } = request;
     const averages = request.averages ?? [];
-    // Rows of one engine with different cell averages are different rows: packs are per variant.
-    const variants = Array.from(radiiUm, (_, i) => rowVariant(engines[i], averages[i]));
+    const shapes = request.shapes ?? [];
+    // Rows of one engine with different cell averages or shapes are different rows: packs are per variant.
+    const variants = Array.from(radiiUm, (_, i) => shapedVariant(rowVariant(engines[i], averages[i]), shapes[i]));
     // The samples of each block the caller reads: k0..k1 in the block, first..last on the lattice.
     const need = blocks.map((b) => {
       const { first, count } = blockRange(b, h);
@@ -246,7 +250,7 @@ export class KernelService {
     const toSave: [string, Map<number, Float64Array>][] = [];
     for (const [l, byRadius] of toCompute) {
       const indices = [...byRadius.keys()];
-      const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], average: averages[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
+      const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], average: averages[i], shape: shapes[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
       const computing = this.options.compute({ medium: media[l], h, items, within }, stop.signal);
       computing.catch(() => undefined);
       // The task's rows grouped by the pack they belong to (one wavelength, so one block per pack).
