@@ -89,6 +89,13 @@ export const cameraSchema = z
     }
   });
 
+const waterSurfaceSchema = z
+  .discriminatedUnion("kind", [z.object({ kind: z.literal("calm") }).strict()])
+  .optional()
+  .describe(
+    "Calm water below the horizon in place of the ground: the sun's light reflected by it makes a reflection bow centred as far above the horizon as the antisolar point is below it, and the water shows the bows mirrored (Fresnel reflectance of water, both polarisations)",
+  );
+
 const maxAngleDeg = number(1, 180, "The rain curtain covers the sky out to this angle ψ from the antisolar point (default 90°: the shower lies opposite the sun); beyond it the layer is empty").default(90);
 
 export const viewRequestSchema = z
@@ -98,6 +105,7 @@ export const viewRequestSchema = z
     sun: sunPositionSchema,
     moon: moonPositionSchema.optional().describe("The moon as the light instead of the sun (leave sun out): position, phase, distance and atmosphere; scenario.sun's spectrum and disc are then the moon's"),
     ground: z.boolean().default(true).describe("true: flat ground hides everything below the horizon (z < 0)"),
+    waterSurface: waterSurfaceSchema,
     layer: layerSchema,
     polariserDeg: number(-180, 180, "Linear polariser's axis, degrees anticlockwise from the image's horizontal; omit for none").optional(),
     maxAngleDeg,
@@ -114,6 +122,7 @@ export const skyRequestSchema = z
     moon: moonPositionSchema.optional().describe("The moon as the light instead of the sun (leave sun out): position, phase, distance and atmosphere; scenario.sun's spectrum and disc are then the moon's"),
     polariserToTangentDeg: number(-180, 180, "A linear polariser held at this angle to the bow's tangent everywhere (as polariserDeg of /v1/profile); omit for none").optional(),
     ground: z.boolean().default(true).describe("true: the lower half (elevation < 0) is left empty"),
+    waterSurface: waterSurfaceSchema,
     layer: layerSchema,
     maxAngleDeg,
     output: viewOutputSchema,
@@ -121,6 +130,13 @@ export const skyRequestSchema = z
   .strict()
   .superRefine((s, ctx) => {
     if (s.widthPx !== 2 * s.heightPx) ctx.addIssue({ code: "custom", path: ["heightPx"], message: "an equirectangular map is twice as wide as high" });
+    if (s.waterSurface && s.polariserToTangentDeg !== undefined) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["polariserToTangentDeg"],
+        message: "a polariser at a fixed angle to the bow's tangent has no meaning on the water's mirrored bows; leave it out with waterSurface",
+      });
+    }
   });
 
 export const imageQuerySchema = z

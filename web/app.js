@@ -266,6 +266,7 @@ function drawSky() {
     sunElevationDeg: sourceElevationDeg(body, profile.meta),
     pitchDeg: Number($("pitch").value),
     hfovDeg: Number($("fov").value),
+    water: $("water").checked,
   });
   const { primaryDeg } = profile.bows;
   $("sky").setAttribute(
@@ -281,6 +282,7 @@ $("pitch").addEventListener("input", () => {
   drawSky();
 });
 $("fov").addEventListener("input", drawSky);
+$("water").addEventListener("change", drawSky);
 
 // ---------- exports ----------
 
@@ -328,6 +330,13 @@ const exportKinds = {
     body: (b) => lutBody(b),
     ext: "-lut.exr",
   },
+  "lut-ktx2": { label: "lookup texture (KTX2, RGBA16F, ACEScg)", url: () => "/v1/lut?format=ktx2", body: (b) => lutBody(b), ext: "-lut.ktx2" },
+  "lut-by-hour": {
+    label: "time-of-day texture (KTX2 array, 16 sun elevations 0°–45°)",
+    url: () => "/v1/lut?format=ktx2",
+    body: (b) => ({ ...lutBody(b, { keepSunElevation: false }), sunElevations: { fromDeg: 0, toDeg: 45, slices: 16 } }),
+    ext: "-lut-by-hour.ktx2",
+  },
   "lut-manifest": { label: "lookup texture manifest", url: () => "/v1/lut?part=manifest", body: (b) => lutBody(b), ext: "-lut-manifest.json" },
   "view-exr": {
     label: "camera view (OpenEXR, premultiplied RGBA)",
@@ -340,14 +349,15 @@ const exportKinds = {
         ...viewLight(b),
         output: { vision: b.output.vision },
         ...(polariserDeg === undefined ? {} : { polariserDeg }),
+        ...($("water").checked ? { waterSurface: { kind: "calm" } } : {}),
       };
     },
     ext: "-view.exr",
   },
 };
 
-function lutBody(b) {
-  const { scenario, angles } = scenarioOf(b, { keepSunElevation: true });
+function lutBody(b, { keepSunElevation } = { keepSunElevation: true }) {
+  const { scenario, angles } = scenarioOf(b, { keepSunElevation });
   if (b.polariserDeg !== undefined) scenario.polariserDeg = b.polariserDeg;
   return { scenario, sizes: { kind: "none" }, angles: { fromDeg: angles.fromDeg, toDeg: angles.toDeg, texels: 512, mapping: "bow-weighted" } };
 }
