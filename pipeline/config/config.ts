@@ -54,7 +54,8 @@ export function loadConfig(env: NodeJS.ProcessEnv): Config {
     cacheBudgetMb: positiveFromEnv(env, "CACHE_BUDGET_MB", 512),
     corsOrigins: (env.CORS_ORIGINS ?? "").split(",").map((o) => o.trim()).filter(Boolean),
     rateLimitPerMinute: env.RATE_LIMIT_PER_MINUTE === "0" ? 0 : positiveFromEnv(env, "RATE_LIMIT_PER_MINUTE", 1200),
-    maxEventLoopDelayMs: positiveFromEnv(env, "MAX_EVENT_LOOP_DELAY_MS", 1000),
+    // 0 turns the overload guard off (as RATE_LIMIT_PER_MINUTE=0 does the rate limit).
+    maxEventLoopDelayMs: env.MAX_EVENT_LOOP_DELAY_MS === "0" ? 0 : positiveFromEnv(env, "MAX_EVENT_LOOP_DELAY_MS", 1000),
     maxRssMb: positiveFromEnv(env, "MAX_RSS_MB", 4096),
     requestTimeoutMs: positiveFromEnv(env, "REQUEST_TIMEOUT_MS", 120_000),
     workerMemoryMb: positiveFromEnv(env, "WORKER_MEMORY_MB", 2048),
