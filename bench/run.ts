@@ -2,11 +2,12 @@
 // (P1–P3; --quick leaves out P3, which takes minutes) and warm HTTP requests in one run, prints the figures and
 // rewrites BENCHMARKS.md. --mie times the Mie kernel only and rewrites that section of BENCHMARKS.md.
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
+import { keptSections, writeMarkedSection } from "./sections.js";
+import { repoPath } from "../pipeline/config/resources.js";
 import { cpus, loadavg, totalmem } from "node:os";
 import { benchMie, MANY_DROPS, mieKernelName } from "./mie.js";
 import { benchProfile, P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
 import { benchHttp } from "./http.js";
-import { repoPath } from "../pipeline/config/resources.js";
 
 const quick = process.argv.includes("--quick");
 const mieOnly = process.argv.includes("--mie");
@@ -32,7 +33,6 @@ for (const r of mie) {
   );
 }
 const mieSection = [
-  "<!-- mie:start -->",
   "## Lorenz–Mie kernel beside compiled code, one core",
   "",
   `Measured ${date} on ${machine}; one-minute load average ${loadavg()[0].toFixed(2)} when this table was written` +
@@ -68,16 +68,9 @@ const mieSection = [
   "Earlier versions of this file set these times against other programs' whole-process times taken on another",
   "machine; such figures are not comparable with ours (other machine, process start and output included) and are",
   "no longer given. The compiled reference above runs on this machine, in this run, on the same inputs.",
-  "",
-  "<!-- mie:end -->",
-  "",
 ];
 if (mieOnly) {
-  // Rewrites the Mie section of BENCHMARKS.md only, between its markers.
-  const target = repoPath("BENCHMARKS.md");
-  const previous = readFileSync(target, "utf8");
-  writeFileSync(target, previous.replace(/<!-- mie:start -->[\s\S]*<!-- mie:end -->\n\n/, mieSection.join("\n") + "\n"));
-  console.log("rewrote the Mie section of BENCHMARKS.md");
+  writeMarkedSection("mie", mieSection);
   process.exit(0);
 }
 const profiles: ProfileBenchRow[] = [];
@@ -113,7 +106,10 @@ const lines = [
     (Math.max(loadBefore, loadAfter) > cpus().length ? " (above the core count: other processes shared the cores, so times are inflated)" : "") +
     `. Mie kernel: ${mieKernelName}.`,
   "",
+  "<!-- mie:start -->",
   ...mieSection,
+  "<!-- mie:end -->",
+  "",
   "## Whole profiles through the kernel cache (in-process: no HTTP)",
   "",
   "Worker threads as the service runs them (KernelService + createWorkerPool). Cold: an empty kernel cache, on threads",
@@ -150,12 +146,9 @@ const lines = [
   ),
   "",
 ];
-// bench/load.ts and bench/progress.ts keep their own sections between markers: carry them over unchanged.
+// Other benchmark scripts (bench/load.ts, bench/progress.ts, bench/time-of-day.ts, …) keep their own marked
+// sections: carry them over unchanged.
 const target = repoPath("BENCHMARKS.md");
-const previous = existsSync(target) ? readFileSync(target, "utf8") : "";
-for (const name of ["load", "progress"]) {
-  const kept = new RegExp(`<!-- ${name}:start -->[\\s\\S]*<!-- ${name}:end -->`).exec(previous);
-  if (kept) lines.push(kept[0], "");
-}
+for (const section of keptSections()) if (!section.startsWith("<!-- mie:start -->")) lines.push(section, "");
 writeFileSync(target, lines.join("\n"));
 console.log("wrote BENCHMARKS.md");

@@ -28,3 +28,12 @@ export function writeMarkedSection(name: string, lines: string[]): void {
   writeFileSync(file, next);
   console.log(`wrote the ${name} section of ${file}`);
 }
+
+const SECTION = /<!-- ([\w-]+):start -->[\s\S]*?<!-- \1:end -->/g;
+
+/** Every marked section of BENCHMARKS.md, in order: what bench/run.ts carries over when it rewrites the file. */
+export function keptSections(): string[] {
+  const file = join(dirname(repoPath("package.json")), "BENCHMARKS.md");
+  const text = existsSync(file) ? readFileSync(file, "utf8") : "";
+  return [...text.matchAll(SECTION)].map((m) => m[0]);
+}

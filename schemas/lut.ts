@@ -1,7 +1,12 @@
 import { z } from "zod";
-import { profileFieldsSchema } from "./profile.js";
+import { checkProfilePhysics, profileDefaults, profileFieldsSchema } from "./profile.js";
 
 const scenarioSchema = profileFieldsSchema.omit({ angles: true, output: true });
+
+/** Most sun-elevation slices in one time-of-day texture. */
+export const MAX_SUN_SLICES = 32;
+/** Most texels in a time-of-day texture: 8 MiB as RGBA16F (the largest single-elevation texture, 4096 × 256). */
+export const MAX_SLICED_TEXELS = 4096 * 256;
 
 export const lutSpaces = ["acescg", "srgb-linear", "xyz-d65"] as const;
 
@@ -10,6 +15,8 @@ export const lutRequestSchema = z
     scenario: scenarioSchema
       .partial()
       .strict()
+      // Fields left out are the profile's defaults; the rules across fields apply to the whole.
+      .superRefine((s, ctx) => checkProfilePhysics({ ...profileDefaults, ...s }, ctx))
       .default({})
       .describe("The profile request's physics (drops are used by the 1-D variant only; the size axis replaces them in 2-D)"),
     angles: z
@@ -48,9 +55,32 @@ export const lutRequestSchema = z
       .default({ kind: "radius", fromUm: 10, toUm: 2000, texels: 32, liquidWaterGPerM3: 0.1 })
       .describe("The texture's rows: log-spaced monodisperse radii, log-spaced Marshall–Palmer rain rates, or none (1-D: the scenario's drops)"),
     space: z.enum(lutSpaces).default("acescg").describe("Linear colour space of the texels"),
+    sunElevations: z
+      .object({
+        fromDeg: z.number().min(-1).max(90).describe("Sun elevation of the first slice, degrees"),
+        toDeg: z.number().min(-1).max(90).describe("Sun elevation of the last slice, degrees"),
+        slices: z.number().int().min(2).max(MAX_SUN_SLICES).describe(`Evenly spaced elevations, 2 to ${MAX_SUN_SLICES}`),
+      })
+      .strict()
+      .optional()
+      .describe("A time-of-day texture: one slice per sun elevation (KTX2 array layers, or slices stacked in one image)"),
   })
   .strict()
   .superRefine((b, ctx) => {
+    if (b.sunElevations) {
+      if (b.sunElevations.toDeg <= b.sunElevations.fromDeg) {
+        ctx.addIssue({ code: "custom", path: ["sunElevations", "toDeg"], message: "toDeg must exceed fromDeg" });
+      }
+      const rows = b.sizes.kind === "none" ? 1 : b.sizes.texels;
+      const texels = b.angles.texels * rows * b.sunElevations.slices;
+      if (texels > MAX_SLICED_TEXELS) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["sunElevations", "slices"],
+          message: `angle texels × size texels × slices = ${texels}, over the limit of ${MAX_SLICED_TEXELS.toLocaleString("en")} texels`,
+        });
+      }
+    }
     if (b.sizes.kind === "radius" && b.sizes.toUm <= b.sizes.fromUm) {
       ctx.addIssue({ code: "custom", path: ["sizes", "toUm"], message: "toUm must exceed fromUm" });
     }
@@ -63,9 +93,12 @@ export type LutRequest = z.infer<typeof lutRequestSchema>;
 
 export const lutQuerySchema = z
   .object({
-    format: z.enum(["exr", "hdr", "png16", "json"]).default("exr"),
+    format: z
+      .enum(["exr", "ktx2", "hdr", "png16", "json"])
+      .default("exr")
+      .describe("exr: OpenEXR, ZIP; ktx2: KTX 2.0 RGBA16F/RGBA32F for engines; hdr: Radiance RGBE; png16: scaled 16-bit PNG; json: texel values"),
     part: z.enum(["image", "manifest"]).default("image").describe("manifest: the JSON that maps texels to angle and size"),
-    pixelType: z.enum(["half", "float"]).default("half").describe("EXR sample type"),
+    pixelType: z.enum(["half", "float"]).default("half").describe("EXR and KTX2 sample type (KTX2: RGBA16F or RGBA32F)"),
   })
   .strict();
 

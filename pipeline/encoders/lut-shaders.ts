@@ -14,6 +14,10 @@ ${comment}   premultiplied over:     color = exposure * texel.rgb + (1.0 - texel
 ${comment} psiFromDeg/psiToDeg and bowWeighted come from the manifest's u axis; sizeV = (row + 0.5) / height.
 ${comment} Eye safety: never look at the sun, directly or through optics, when matching a plate shot near the sun.`;
 
+const timeOfDayUsage = (comment: string) => `${comment} Time-of-day textures (sunElevations): slices are array layers (KTX2); elevFromDeg, elevToDeg and slices come
+${comment} from the manifest's slices; the two slices nearest the sun's elevation are blended linearly. Where an engine has
+${comment} no array textures, the stacked image's v of slice k is (k + sizeV) / slices.`;
+
 export const shaderSnippets: Record<"glsl" | "hlsl" | "wgsl", string> = {
   glsl: `${usage("//")}
 const float ANTISOLAR_C = ${c};
@@ -30,13 +34,34 @@ float antisolarU(float psiDeg, float psiFromDeg, float psiToDeg, bool bowWeighte
 }
 
 // viewDir: from the eye into the scene; sunDir: from the scene towards the sun. Both world space.
+// The u of the view ray, outside [0, 1] where the texture has no data.
+float antisolarViewU(vec3 viewDir, vec3 sunDir, float psiFromDeg, float psiToDeg, bool bowWeighted) {
+  float cosPsi = clamp(dot(normalize(viewDir), -normalize(sunDir)), -1.0, 1.0);
+  return antisolarU(degrees(acos(cosPsi)), psiFromDeg, psiToDeg, bowWeighted);
+}
+
 vec4 antisolarSample(sampler2D lut, vec3 viewDir, vec3 sunDir, float sizeV,
                      float psiFromDeg, float psiToDeg, bool bowWeighted) {
-  float cosPsi = clamp(dot(normalize(viewDir), -normalize(sunDir)), -1.0, 1.0);
-  float psiDeg = degrees(acos(cosPsi));
-  float u = antisolarU(psiDeg, psiFromDeg, psiToDeg, bowWeighted);
+  float u = antisolarViewU(viewDir, sunDir, psiFromDeg, psiToDeg, bowWeighted);
   if (u < 0.0 || u > 1.0) return vec4(0.0);
   return texture(lut, vec2(u, sizeV));
+}
+
+${timeOfDayUsage("//")}
+float antisolarSlice(float sunElevationDeg, float elevFromDeg, float elevToDeg, float slices) {
+  return clamp((sunElevationDeg - elevFromDeg) / (elevToDeg - elevFromDeg), 0.0, 1.0) * (slices - 1.0);
+}
+
+vec4 antisolarSampleTimeOfDay(sampler2DArray lut, vec3 viewDir, vec3 sunDir, float sizeV,
+                              float psiFromDeg, float psiToDeg, bool bowWeighted,
+                              float sunElevationDeg, float elevFromDeg, float elevToDeg, float slices) {
+  float u = antisolarViewU(viewDir, sunDir, psiFromDeg, psiToDeg, bowWeighted);
+  if (u < 0.0 || u > 1.0) return vec4(0.0);
+  float s = antisolarSlice(sunElevationDeg, elevFromDeg, elevToDeg, slices);
+  float s0 = floor(s);
+  vec4 lower = texture(lut, vec3(u, sizeV, s0));
+  vec4 upper = texture(lut, vec3(u, sizeV, min(s0 + 1.0, slices - 1.0)));
+  return mix(lower, upper, s - s0);
 }
 `,
   hlsl: `${usage("//")}
@@ -53,13 +78,34 @@ float antisolarU(float psiDeg, float psiFromDeg, float psiToDeg, bool bowWeighte
 }
 
 // viewDir: from the eye into the scene; sunDir: from the scene towards the sun. Both world space.
+// The u of the view ray, outside [0, 1] where the texture has no data.
+float antisolarViewU(float3 viewDir, float3 sunDir, float psiFromDeg, float psiToDeg, bool bowWeighted) {
+  float cosPsi = clamp(dot(normalize(viewDir), -normalize(sunDir)), -1.0, 1.0);
+  return antisolarU(degrees(acos(cosPsi)), psiFromDeg, psiToDeg, bowWeighted);
+}
+
 float4 antisolarSample(Texture2D lut, SamplerState smp, float3 viewDir, float3 sunDir, float sizeV,
                        float psiFromDeg, float psiToDeg, bool bowWeighted) {
-  float cosPsi = clamp(dot(normalize(viewDir), -normalize(sunDir)), -1.0, 1.0);
-  float psiDeg = degrees(acos(cosPsi));
-  float u = antisolarU(psiDeg, psiFromDeg, psiToDeg, bowWeighted);
+  float u = antisolarViewU(viewDir, sunDir, psiFromDeg, psiToDeg, bowWeighted);
   if (u < 0.0 || u > 1.0) return float4(0.0, 0.0, 0.0, 0.0);
   return lut.SampleLevel(smp, float2(u, sizeV), 0);
+}
+
+${timeOfDayUsage("//")}
+float antisolarSlice(float sunElevationDeg, float elevFromDeg, float elevToDeg, float slices) {
+  return saturate((sunElevationDeg - elevFromDeg) / (elevToDeg - elevFromDeg)) * (slices - 1.0);
+}
+
+float4 antisolarSampleTimeOfDay(Texture2DArray lut, SamplerState smp, float3 viewDir, float3 sunDir, float sizeV,
+                                float psiFromDeg, float psiToDeg, bool bowWeighted,
+                                float sunElevationDeg, float elevFromDeg, float elevToDeg, float slices) {
+  float u = antisolarViewU(viewDir, sunDir, psiFromDeg, psiToDeg, bowWeighted);
+  if (u < 0.0 || u > 1.0) return float4(0.0, 0.0, 0.0, 0.0);
+  float s = antisolarSlice(sunElevationDeg, elevFromDeg, elevToDeg, slices);
+  float s0 = floor(s);
+  float4 lower = lut.SampleLevel(smp, float3(u, sizeV, s0), 0);
+  float4 upper = lut.SampleLevel(smp, float3(u, sizeV, min(s0 + 1.0, slices - 1.0)), 0);
+  return lerp(lower, upper, s - s0);
 }
 `,
   wgsl: `${usage("//")}
@@ -74,13 +120,34 @@ fn antisolarU(psiDeg: f32, psiFromDeg: f32, psiToDeg: f32, bowWeighted: bool) ->
 }
 
 // viewDir: from the eye into the scene; sunDir: from the scene towards the sun. Both world space.
+// The u of the view ray, outside [0, 1] where the texture has no data.
+fn antisolarViewU(viewDir: vec3<f32>, sunDir: vec3<f32>, psiFromDeg: f32, psiToDeg: f32, bowWeighted: bool) -> f32 {
+  let cosPsi = clamp(dot(normalize(viewDir), -normalize(sunDir)), -1.0, 1.0);
+  return antisolarU(degrees(acos(cosPsi)), psiFromDeg, psiToDeg, bowWeighted);
+}
+
 fn antisolarSample(lut: texture_2d<f32>, smp: sampler, viewDir: vec3<f32>, sunDir: vec3<f32>, sizeV: f32,
                    psiFromDeg: f32, psiToDeg: f32, bowWeighted: bool) -> vec4<f32> {
-  let cosPsi = clamp(dot(normalize(viewDir), -normalize(sunDir)), -1.0, 1.0);
-  let psiDeg = degrees(acos(cosPsi));
-  let u = antisolarU(psiDeg, psiFromDeg, psiToDeg, bowWeighted);
+  let u = antisolarViewU(viewDir, sunDir, psiFromDeg, psiToDeg, bowWeighted);
   if (u < 0.0 || u > 1.0) { return vec4<f32>(0.0); }
   return textureSampleLevel(lut, smp, vec2<f32>(u, sizeV), 0.0);
+}
+
+${timeOfDayUsage("//")}
+fn antisolarSlice(sunElevationDeg: f32, elevFromDeg: f32, elevToDeg: f32, slices: f32) -> f32 {
+  return clamp((sunElevationDeg - elevFromDeg) / (elevToDeg - elevFromDeg), 0.0, 1.0) * (slices - 1.0);
+}
+
+fn antisolarSampleTimeOfDay(lut: texture_2d_array<f32>, smp: sampler, viewDir: vec3<f32>, sunDir: vec3<f32>, sizeV: f32,
+                            psiFromDeg: f32, psiToDeg: f32, bowWeighted: bool,
+                            sunElevationDeg: f32, elevFromDeg: f32, elevToDeg: f32, slices: f32) -> vec4<f32> {
+  let u = antisolarViewU(viewDir, sunDir, psiFromDeg, psiToDeg, bowWeighted);
+  if (u < 0.0 || u > 1.0) { return vec4<f32>(0.0); }
+  let s = antisolarSlice(sunElevationDeg, elevFromDeg, elevToDeg, slices);
+  let s0 = floor(s);
+  let lower = textureSampleLevel(lut, smp, vec2<f32>(u, sizeV), i32(s0), 0.0);
+  let upper = textureSampleLevel(lut, smp, vec2<f32>(u, sizeV), i32(min(s0 + 1.0, slices - 1.0)), 0.0);
+  return mix(lower, upper, s - s0);
 }
 `,
 };

@@ -37,15 +37,36 @@ export const lutManifestSchema = z
     sources: z.array(z.string()),
     warnings: z.array(z.string()),
     computeMs: z.number(),
+    slices: z
+      .strictObject({
+        quantity: z.string(),
+        unit: z.literal("degree"),
+        fromDeg: z.number(),
+        toDeg: z.number(),
+        count: z.number().int(),
+        valuesDeg: z.array(z.number()),
+        mapping: z.string(),
+        layoutKtx2: z.string(),
+        layoutStacked: z.string(),
+        transmittance: z.string(),
+        sliceHashes: z.array(z.string()),
+      })
+      .optional()
+      .describe("time-of-day textures (sunElevations): the sun elevation of each slice and where the slices are"),
     ...lightSourceFields,
   })
   .describe("POST /v1/lut?part=manifest: how to sample the lookup texture");
 
+const texelRows = z.array(z.array(z.tuple([z.number(), z.number(), z.number(), z.number()])));
+
 export const lutJsonResponseSchema = z
-  .strictObject({
-    manifest: lutManifestSchema,
-    texels: z.array(z.array(z.tuple([z.number(), z.number(), z.number(), z.number()]))).describe("rows (top first) of RGBA texels"),
-  })
+  .union([
+    z.strictObject({ manifest: lutManifestSchema, texels: texelRows.describe("rows (top first) of RGBA texels") }),
+    z.strictObject({
+      manifest: lutManifestSchema,
+      slices: z.array(texelRows).describe("time-of-day textures: per sun elevation (manifest.slices), rows (top first) of RGBA texels"),
+    }),
+  ])
   .describe("POST /v1/lut?format=json: the manifest and the texels");
 
 export type LutManifest = z.infer<typeof lutManifestSchema>;
