@@ -249,10 +249,11 @@ async function run(): Promise<void> {
   const fiveHundreds = [...tally.byStatus].filter(([s]) => s >= 500 || s === 0).reduce((a, [, n]) => a + n, 0);
   const report = { tally, idle, busy, busyFailures, seconds, log: server.log, fiveHundreds, loadStart, loadEnd: loadavg()[0] };
   console.log(
-    `${tally.sent} hostile requests in ${seconds.toFixed(0)} s; statuses ${JSON.stringify(Object.fromEntries(tally.byStatus))}; ` +
+    `${tally.sent} hostile requests (seed ${SEED}) in ${seconds.toFixed(0)} s; statuses ${JSON.stringify(Object.fromEntries(tally.byStatus))}; ` +
       `largest answer ${tally.largestAnswer} B (${tally.largestAnswerKind}); log: ${server.log.lines} lines, longest ${server.log.longest} B; ` +
       `/healthz idle median ${idle.median.toFixed(1)} ms p99 ${idle.p99.toFixed(1)} ms (${idle.n}), under load median ${busy.median.toFixed(1)} ms p99 ${busy.p99.toFixed(1)} ms max ${busy.max.toFixed(1)} ms (${busy.n}, ${busyFailures} failed)`,
   );
+  console.log(`longest log line begins: ${server.log.longestText.slice(0, 200)}`);
   for (const failure of tally.failures) console.log(`  ${failure}`);
   if (OTHER_SERVER) console.log(`(against ${OTHER_SERVER}: BENCHMARKS.md left as it is)`);
   else writeSection(report);

@@ -50,10 +50,11 @@ export async function registerHardening(app: FastifyInstance, config: Config): P
     exposeStatusRoute: false,
     pressureHandler: (request: FastifyRequest, reply: FastifyReply, type: string) => {
       if (request.url === "/healthz") return; // liveness must answer even under load
-      reply
-        .status(503)
-        .header("retry-after", "5")
-        .send({ error: "overloaded", message: `the service is overloaded (${type}); retry in 5 s`, requestId: request.id });
+      // Rejected, not sent: under-pressure goes on to the route when the handler returns nothing, so a 503 sent
+      // here was followed by the route's own work (and fastify's "Reply was already sent"). A rejection is passed
+      // on as the request's error, answered by the error handler, and the route never runs.
+      reply.header("retry-after", "5");
+      return Promise.reject(new ClientError("overloaded", `the service is overloaded (${type}); retry in 5 s`));
     },
   });
 }
