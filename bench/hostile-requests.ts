@@ -15,6 +15,7 @@ import fc from "fast-check";
 import { repoPath } from "../pipeline/config/resources.js";
 import { hostileRequest, hostileTargets, MAX_ERROR_BYTES, HOSTILE_STATUSES, type HostileRequest } from "./hostile-inputs.js";
 import { LOG_LINE_BYTES } from "../http/plugins/bounded-logs.js";
+import { freePort } from "../test/helpers/free-port.js";
 
 const START = "<!-- hostile:start -->";
 const END = "<!-- hostile:end -->";
@@ -36,18 +37,6 @@ interface Server {
   child: ChildProcess;
   port: number;
   log: { lines: number; longest: number; longestText: string };
-}
-
-async function freePort(): Promise<number> {
-  const { createServer } = await import("node:net");
-  return new Promise((resolve, reject) => {
-    const probe = createServer();
-    probe.once("error", reject);
-    probe.listen(0, "127.0.0.1", () => {
-      const { port } = probe.address() as { port: number };
-      probe.close(() => resolve(port));
-    });
-  });
 }
 
 async function startServer(): Promise<Server> {
