@@ -38,7 +38,7 @@ export const sizeMapRequestSchema = z
       stepDeg: 0.25,
     }),
     spectral: spectralSchema(20, "Wavelength step, nm (coarser than a profile's default: a map runs one profile per row)"),
-    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
+    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto: exact Lorenz–Mie within a budget of Mie work, Airy theory only for the largest drops beyond it"),
     output: outputSchema
       .pick({ gamut: true, white: true })
       .default({ gamut: "css4", white: "sun" })

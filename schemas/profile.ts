@@ -144,7 +144,7 @@ export const profileFieldsSchema = z
       maxCount: 4001,
     }).default({ fromDeg: 30, toDeg: 60, stepDeg: 0.1 }),
     spectral: spectralSchema(10, "Wavelength step, nm"),
-    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
+    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto: exact Lorenz–Mie within a budget of Mie work, Airy theory only for the largest drops beyond it"),
     mieSizesPerDecade: z
       .literal(["auto", ...RADIUS_DENSITIES])
       .default("auto")

@@ -185,10 +185,13 @@ export class KernelService {
 
     // Progress: each row's estimated cost; rows found count at once, computed ones as their task ends.
     const threads = Math.max(1, this.options.parallelism ?? 1);
-    const cost = (l: number, i: number, bi: number) => {
-      const x = (2 * Math.PI * media[l].nAir * radiiUm[i] * 1000) / media[l].wavelengthNm;
-      return kernelRowCostNs(engines[i], x, need[bi].last - need[bi].first + 1, averages[i]?.samples ?? 1) / threads;
-    };
+    // Per wavelength and drop: the cost of one lattice sample of its row (the rows of one drop differ only in length).
+    const perSample = watch.onRows
+      ? media.map((m) =>
+          Array.from(radiiUm, (r, i) => kernelRowCostNs(engines[i], (2 * Math.PI * m.nAir * r * 1000) / m.wavelengthNm, 1, averages[i]?.samples ?? 1) / threads),
+        )
+      : [];
+    const cost = (l: number, i: number, bi: number) => perSample[l][i] * (need[bi].last - need[bi].first + 1);
     const costOf = (list: [number, number, number][]) => list.reduce((sum, [l, i, bi]) => sum + cost(l, i, bi), 0);
     let totalNs = 0;
     if (watch.onRows) for (let l = 0; l < media.length; l++) for (let i = 0; i < radiiUm.length; i++) for (let bi = 0; bi < blocks.length; bi++) totalNs += cost(l, i, bi);

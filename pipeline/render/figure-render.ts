@@ -30,7 +30,7 @@ export async function renderChromaticityFigure(request: ProfileRequest, deps: Re
   const progress = profileProgress(body, "json", deps);
   const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask });
   const sources = [...chromaticityFigureSources(body.observer), ...sourcesOf(result)];
-  progress.done();
+  progress?.done();
   return { contentType: SVG_CONTENT_TYPE, body: Buffer.from(chromaticitySvg(result), "utf8"), headers: { ...figureHeaders(result.meta.hash, sources), ...sourcePositionHeaders(resolved.sourcePosition) } };
 }
 
