@@ -33,6 +33,18 @@ export interface UniformBowTable {
   uniform: Uint8Array;
 }
 
+/** ẑ at each of the count + 1 bin edges (half-step index 2e) and whether a single ray reaches the edge (1). */
+export function binEdges(count: number, at: (halfStep: number) => { zHat: number; single: boolean }): { zHatEdges: Float64Array; singleEdge: Uint8Array } {
+  const zHatEdges = new Float64Array(count + 1);
+  const singleEdge = new Uint8Array(count + 1);
+  for (let e = 0; e <= count; e++) {
+    const edge = at(2 * e);
+    zHatEdges[e] = edge.zHat;
+    singleEdge[e] = edge.single ? 1 : 0;
+  }
+  return { zHatEdges, singleEdge };
+}
+
 /**
  * Signed field amplitudes t·r^k·t′ of a ray of order k at impact parameter b (Fresnel, Born & Wolf 1999 §1.5.2
  * Eq. 20–21; internal r′ = −r by Stokes' relations), times √b for the ring's width.
@@ -163,13 +175,7 @@ export function uniformBowTable(n: number, p: number, thetaDeg: Float64Array, st
     return rays.pair ? { zHat: zHatOfPair(n, k, rays.pair), rays, single: false } : { zHat: NaN, rays, single: true };
   };
 
-  const zHatEdges = new Float64Array(count + 1);
-  const singleEdge = new Uint8Array(count + 1);
-  for (let e = 0; e <= count; e++) {
-    const at = zHatAt(2 * e);
-    zHatEdges[e] = at.zHat;
-    singleEdge[e] = at.single ? 1 : 0;
-  }
+  const { zHatEdges, singleEdge } = binEdges(count, zHatAt);
   const uPerp = new Float64Array(count);
   const uPar = new Float64Array(count);
   const vPerp = new Float64Array(count);

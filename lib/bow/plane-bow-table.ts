@@ -13,7 +13,7 @@
 //   D = 4π·2^{1/3}·Ã′²·|s′|^{−1/3}/|Θ″|^{4/3}   (sphere: s′ = 1, Ã² = ε²b/sinΘ, lib/rays/airy-bow.ts).
 
 import type { PlaneRay, PlaneSweep, PlaneTracer } from "../rays/plane-sweep.js";
-import type { UniformBowTable } from "./airy-bins.js";
+import { binEdges, type UniformBowTable } from "./airy-bins.js";
 import { deviationRad, rainbowImpactParameter, scatteringAngleOfDeviation } from "../rays/descartes.js";
 
 const DEG = Math.PI / 180;
@@ -247,13 +247,7 @@ export function planeBowTable(
     if (inner === null || outer === null) return { zHat: Number.NaN, single: true, pair: null };
     return { zHat: Math.cbrt(0.75 * Math.abs(inner.path - outer.path)) ** 2, single: false, pair: [inner, outer] };
   };
-  const zHatEdges = new Float64Array(count + 1);
-  const singleEdge = new Uint8Array(count + 1);
-  for (let e = 0; e <= count; e++) {
-    const edge = at(2 * e);
-    zHatEdges[e] = edge.zHat;
-    singleEdge[e] = edge.single ? 1 : 0;
-  }
+  const { zHatEdges, singleEdge } = binEdges(count, at);
   const table: UniformBowTable = {
     zHatEdges,
     uPerp: new Float64Array(count),

@@ -20,21 +20,21 @@ export function skyPixelOf(azimuthDeg: number, elevationDeg: number, widthPx: nu
   return { xPx: ((wrapped + 180) / 360) * widthPx, yPx: ((90 - elevationDeg) / 180) * heightPx };
 }
 
+/** cos and sin of the angle at each pixel centre of a row or column, computed once per map. */
+function trigAtCentres(count: number, angleDegAt: (centrePx: number) => number): { cos: Float64Array; sin: Float64Array } {
+  const cos = new Float64Array(count);
+  const sin = new Float64Array(count);
+  for (let i = 0; i < count; i++) {
+    const rad = angleDegAt(i + 0.5) * RADIANS_PER_DEGREE;
+    cos[i] = Math.cos(rad);
+    sin[i] = Math.sin(rad);
+  }
+  return { cos, sin };
+}
+
 export function skyRayField(widthPx: number, heightPx: number): RayField {
-  const cosEl = new Float64Array(heightPx);
-  const sinEl = new Float64Array(heightPx);
-  for (let y = 0; y < heightPx; y++) {
-    const el = skyElevationDeg(y + 0.5, heightPx) * RADIANS_PER_DEGREE;
-    cosEl[y] = Math.cos(el);
-    sinEl[y] = Math.sin(el);
-  }
-  const sinAz = new Float64Array(widthPx);
-  const cosAz = new Float64Array(widthPx);
-  for (let x = 0; x < widthPx; x++) {
-    const az = skyAzimuthDeg(x + 0.5, widthPx) * RADIANS_PER_DEGREE;
-    sinAz[x] = Math.sin(az);
-    cosAz[x] = Math.cos(az);
-  }
+  const { cos: cosEl, sin: sinEl } = trigAtCentres(heightPx, (y) => skyElevationDeg(y, heightPx));
+  const { cos: cosAz, sin: sinAz } = trigAtCentres(widthPx, (x) => skyAzimuthDeg(x, widthPx));
   return {
     widthPx,
     heightPx,

@@ -18,12 +18,8 @@ const timeOfDayUsage = (comment: string) => `${comment} Time-of-day textures (su
 ${comment} from the manifest's slices; the two slices nearest the sun's elevation are blended linearly. Where an engine has
 ${comment} no array textures, the stacked image's v of slice k is (k + sizeV) / slices.`;
 
-export const shaderSnippets: Record<"glsl" | "hlsl" | "wgsl", string> = {
-  glsl: `${usage("//")}
-const float ANTISOLAR_C = ${c};
-const float ANTISOLAR_S = ${s};
-
-float antisolarAsinh(float x) { return log(x + sqrt(x * x + 1.0)); }
+/** The u mapping in GLSL and HLSL, which differ here only in the name of the 3-vector type. */
+const cLikeMapping = (vec3: "vec3" | "float3") => `float antisolarAsinh(float x) { return log(x + sqrt(x * x + 1.0)); }
 
 // u texture coordinate of the angle psiDeg (degrees).
 float antisolarU(float psiDeg, float psiFromDeg, float psiToDeg, bool bowWeighted) {
@@ -35,10 +31,17 @@ float antisolarU(float psiDeg, float psiFromDeg, float psiToDeg, bool bowWeighte
 
 // viewDir: from the eye into the scene; sunDir: from the scene towards the sun. Both world space.
 // The u of the view ray, outside [0, 1] where the texture has no data.
-float antisolarViewU(vec3 viewDir, vec3 sunDir, float psiFromDeg, float psiToDeg, bool bowWeighted) {
+float antisolarViewU(${vec3} viewDir, ${vec3} sunDir, float psiFromDeg, float psiToDeg, bool bowWeighted) {
   float cosPsi = clamp(dot(normalize(viewDir), -normalize(sunDir)), -1.0, 1.0);
   return antisolarU(degrees(acos(cosPsi)), psiFromDeg, psiToDeg, bowWeighted);
-}
+}`;
+
+export const shaderSnippets: Record<"glsl" | "hlsl" | "wgsl", string> = {
+  glsl: `${usage("//")}
+const float ANTISOLAR_C = ${c};
+const float ANTISOLAR_S = ${s};
+
+${cLikeMapping("vec3")}
 
 vec4 antisolarSample(sampler2D lut, vec3 viewDir, vec3 sunDir, float sizeV,
                      float psiFromDeg, float psiToDeg, bool bowWeighted) {
@@ -68,21 +71,7 @@ vec4 antisolarSampleTimeOfDay(sampler2DArray lut, vec3 viewDir, vec3 sunDir, flo
 static const float ANTISOLAR_C = ${c};
 static const float ANTISOLAR_S = ${s};
 
-float antisolarAsinh(float x) { return log(x + sqrt(x * x + 1.0)); }
-
-float antisolarU(float psiDeg, float psiFromDeg, float psiToDeg, bool bowWeighted) {
-  if (!bowWeighted) return (psiDeg - psiFromDeg) / (psiToDeg - psiFromDeg);
-  float a0 = antisolarAsinh((psiFromDeg - ANTISOLAR_C) / ANTISOLAR_S);
-  float a1 = antisolarAsinh((psiToDeg - ANTISOLAR_C) / ANTISOLAR_S);
-  return (antisolarAsinh((psiDeg - ANTISOLAR_C) / ANTISOLAR_S) - a0) / (a1 - a0);
-}
-
-// viewDir: from the eye into the scene; sunDir: from the scene towards the sun. Both world space.
-// The u of the view ray, outside [0, 1] where the texture has no data.
-float antisolarViewU(float3 viewDir, float3 sunDir, float psiFromDeg, float psiToDeg, bool bowWeighted) {
-  float cosPsi = clamp(dot(normalize(viewDir), -normalize(sunDir)), -1.0, 1.0);
-  return antisolarU(degrees(acos(cosPsi)), psiFromDeg, psiToDeg, bowWeighted);
-}
+${cLikeMapping("float3")}
 
 float4 antisolarSample(Texture2D lut, SamplerState smp, float3 viewDir, float3 sunDir, float sizeV,
                        float psiFromDeg, float psiToDeg, bool bowWeighted) {

@@ -1,10 +1,10 @@
 // The catalogue of errors a client can see: a stable code, a status and the one JSON shape the README documents
 // ({ error, message, field, allowed, requestId }).
 
-import type { ErrorBody, clientErrorCodes } from "../../schemas/responses/error-response.js";
+import type { ErrorBody, clientErrorCodes, jobErrorCodes } from "../../schemas/responses/error-response.js";
 
 export type { ErrorBody };
-export type ErrorCode = (typeof clientErrorCodes)[number];
+export type ErrorCode = (typeof clientErrorCodes)[number] | (typeof jobErrorCodes)[number];
 
 const statusByCode: Record<ErrorCode, number> = {
   "invalid-request": 400,
@@ -24,6 +24,12 @@ const statusByCode: Record<ErrorCode, number> = {
   // nginx's "client closed request": nobody reads it, but logs show why the work stopped.
   "client-closed": 499,
   internal: 500,
+  // The job endpoints' own (pipeline/jobs/job-errors.ts).
+  "job-not-finished": 409,
+  "job-failed": 409,
+  "job-cancelled": 409,
+  "result-expired": 410,
+  "not-ready": 503,
 };
 
 /** An error whose message is meant for the client. */
