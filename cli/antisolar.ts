@@ -17,6 +17,7 @@ import { encodeLut } from "../pipeline/render/lut-render.js";
 import { renderProfile, type ProfileFormat } from "../pipeline/render/profile-render.js";
 import type { RenderDeps } from "../pipeline/render/render-output.js";
 import type { Bows, ProfileResponse } from "../schemas/responses/profile-response.js";
+import { sequenceCommand } from "./sequence-command.js";
 import { createKernelRuntime } from "../pipeline/kernels/runtime.js";
 import { loadConfig } from "../pipeline/config/config.js";
 import { parseOrThrow } from "../pipeline/requests/parse-request.js";
@@ -29,6 +30,8 @@ ${EYE_SAFETY_CAUTION}
 
   antisolar bake <lut-request.json> -o <texture.exr|.ktx2|.hdr|.png|.json>  bake a lookup texture (+ <file>.manifest.json)
   antisolar render <profile-request.json> -o <profile.json|.png|.svg>  render a bow profile
+  antisolar sequence <job.json> -o <frames.tar>                         render a span of time as frames (the body of
+                                                                        POST /v1/jobs with "sequence"), tar + manifest.json
   antisolar serve                                                       start the HTTP service (PORT, HOST)
 
 Options:
@@ -39,6 +42,8 @@ Options:
 
 Request files use the same JSON as POST /v1/lut and POST /v1/profile; "-" reads standard input; {} gives defaults.
 The files are the bytes those endpoints answer for the same request, in the format the extension names.
+The light may be given by a moment and a place ("sun": {"at": {"utc", "latitudeDeg", "longitudeDeg"}}) or be the
+moon ("moon": {...}), and "output": {"vision": "eye"} renders for the eye at the scene's light level, as in the service.
 Environment: WORKERS, CACHE_DIR, CACHE_BUDGET_MB as for the service.`;
 
 /** The command line's options (node:util parseArgs); anything else is refused with the usage text. */
@@ -125,6 +130,19 @@ async function render(input: string | undefined, values: CliValues): Promise<voi
   });
 }
 
+/** A span of time as numbered frames in one tar archive, as a sequence job (POST /v1/jobs) makes it. */
+async function sequence(input: string | undefined, values: CliValues): Promise<void> {
+  const output = values.output;
+  if (!input || !output) throw new UsageError("sequence needs a job file and -o <file.tar>");
+  const job = await readJson(input);
+  const runtime = createKernelRuntime(oneShotConfig());
+  try {
+    console.log(await sequenceCommand(job, output, runtime.kernels));
+  } finally {
+    await runtime.close();
+  }
+}
+
 async function main(): Promise<void> {
   const { values, positionals } = parseArgs({ args: process.argv.slice(2), options: cliOptions, allowPositionals: true, strict: true });
   const [command, input, ...extra] = positionals;
@@ -138,6 +156,8 @@ async function main(): Promise<void> {
       return bake(input, values);
     case "render":
       return render(input, values);
+    case "sequence":
+      return sequence(input, values);
     case "serve":
       await import("../http/main.js");
       return;

@@ -25,6 +25,7 @@ import { jobRoutes } from "./routes/jobs.js";
 import { createJobSystem } from "../pipeline/jobs/job-system.js";
 import { loadConfig, type Config } from "../pipeline/config/config.js";
 import { deadlines } from "../pipeline/process/shutdown.js";
+import { within } from "../pipeline/redis/connection.js";
 
 export interface AppOptions {
   config?: Partial<Config>;
@@ -82,8 +83,11 @@ async function registerApp(app: FastifyInstance, { config }: AppPluginOptions): 
     jobs.endStreams();
   });
   app.addHook("onClose", async () => {
-    await jobs.close(deadlines(config.shutdownGraceMs, closeStartedAt).abandonAt);
-    await runtime.close();
+    const { abandonAt, exitAt } = deadlines(config.shutdownGraceMs, closeStartedAt);
+    await jobs.close(abandonAt);
+    app.log.info("job system closed; stopping kernel threads");
+    // Ahead of the hard exit: kernel packs still queued for the cache are dropped (they are only a cache).
+    await within(runtime.close(), exitAt - Date.now() - 250);
   });
   const routes: RouteSpec[] = [
     ...serviceRoutes(),

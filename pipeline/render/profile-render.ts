@@ -56,8 +56,12 @@ function describingHeaders(result: ProfileResult): Record<string, string> {
   };
 }
 
-/** A profile's progress: its own stages, then the encoding of the answer (planned before the work starts). */
-export function profileProgress(body: ProfileRequest, format: ProfileFormat, deps: RenderDeps): ProgressMeter {
+/**
+ * A profile's progress: its own stages, then the encoding of the answer (planned before the work starts). None
+ * when nobody listens (synchronous requests): then nothing is counted.
+ */
+export function profileProgress(body: ProfileRequest, format: ProfileFormat, deps: RenderDeps): ProgressMeter | undefined {
+  if (!deps.onProgress) return undefined;
   const meter = new ProgressMeter([...PROFILE_STAGES, "encoding"], deps.onProgress);
   meter.plan("encoding", angleCount(body.angles) * (format === "png" || format === "png16" ? COST_NS.pngAngle : COST_NS.jsonAngle));
   return meter;
@@ -70,8 +74,8 @@ export async function renderProfile(request: ProfileRequest, format: ProfileForm
   const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask });
   annotate(result.meta, resolved);
   const output = await encodeProfile(result, body, format, query);
-  progress.complete("encoding");
-  progress.done();
+  progress?.complete("encoding");
+  progress?.done();
   return output;
 }
 

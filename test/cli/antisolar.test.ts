@@ -60,6 +60,57 @@ describe("antisolar CLI", () => {
       rmSync(dir, { recursive: true, force: true });
     }
   });
+
+  it("renders the moon by place and time with its sourcePosition, and refuses a moment with the sun down (exit 1)", () => {
+    const dir = mkdtempSync(join(tmpdir(), "antisolar-cli-"));
+    try {
+      // An invented lake at 61.1° N 24.6° E; the full moon of 2026-03-03 stands about 31° high at 22:00 UTC.
+      const place = { latitudeDeg: 61.1, longitudeDeg: 24.6 };
+      const request = join(dir, "moon.json");
+      writeFileSync(request, JSON.stringify({ moon: { at: { utc: "2026-03-03T22:00:00Z", ...place } }, spectral: { fromNm: 380, toNm: 780, stepNm: 20 }, output: { vision: "eye" } }));
+      const rendered = run(["render", request, "-o", join(dir, "moon.json.out.json")], join(dir, "cache"));
+      expect(rendered.status, rendered.stderr).toBe(0);
+      const profile = JSON.parse(readFileSync(join(dir, "moon.json.out.json"), "utf8"));
+      expect(profile.meta.sourcePosition.source).toBe("moon");
+      expect(profile.meta.sourcePosition.elevationDeg).toBeGreaterThan(25);
+      expect(profile.meta.vision.mode).toBe("eye");
+
+      const night = join(dir, "night.json");
+      writeFileSync(night, JSON.stringify({ sun: { at: { utc: "2026-03-03T22:00:00Z", ...place } } }));
+      const refused = run(["render", night, "-o", join(dir, "night.out.json")], join(dir, "cache"));
+      expect(refused.status).toBe(1);
+      expect(refused.stderr).toMatch(/sun\.at\.utc/);
+      expect(refused.stderr).toMatch(/below the horizon/);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
+  it("renders a sequence to a tar archive of frames and a manifest", () => {
+    const dir = mkdtempSync(join(tmpdir(), "antisolar-cli-"));
+    try {
+      // An invented hillside at 47.2° N 8.4° E on a June evening: two frames 20 minutes apart.
+      const job = {
+        endpoint: "profile",
+        format: "png",
+        body: { sun: { at: { utc: "2026-06-21T18:00:00Z", latitudeDeg: 47.2, longitudeDeg: 8.4 } }, spectral: { fromNm: 400, toNm: 700, stepNm: 20 }, angles: { fromDeg: 36, toDeg: 56, stepDeg: 0.5 } },
+        sequence: { fromUtc: "2026-06-21T18:00:00Z", toUtc: "2026-06-21T18:20:00Z", frames: 2 },
+      };
+      const request = join(dir, "job.json");
+      writeFileSync(request, JSON.stringify(job));
+      const out = join(dir, "frames.tar");
+      const result = run(["sequence", request, "-o", out], join(dir, "cache"));
+      expect(result.status, result.stderr).toBe(0);
+      const tar = readFileSync(out);
+      // POSIX ustar: "ustar" at offset 257 of each 512-byte header; the first entry is the first frame.
+      expect(tar.subarray(257, 262).toString("latin1")).toBe("ustar");
+      expect(tar.subarray(0, 14).toString("latin1")).toBe("frame-0001.png");
+      expect(tar.includes(Buffer.from("frame-0002.png"))).toBe(true);
+      expect(tar.includes(Buffer.from("manifest.json"))).toBe(true);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
 });
 
 /** EXR header attributes (OpenEXR file layout: after magic and version, name\0 type\0 size value, ending with \0). */
