@@ -168,6 +168,17 @@ describe("one bake: the CLI writes what the routes answer", () => {
     expect({ ...manifest, computeMs: 0 }).toEqual({ ...routeManifest, computeMs: 0 });
   });
 
+  it("bake: a time-of-day texture as KTX2 is byte for byte POST /v1/lut's ?format=ktx2", async () => {
+    const body = { sizes: { kind: "none" }, angles: { texels: 16 }, scenario: { spectral: { fromNm: 400, toNm: 700, stepNm: 20 } }, sunElevations: { fromDeg: 5, toDeg: 25, slices: 2 } };
+    const request = join(dir, "slices.json");
+    writeFileSync(request, JSON.stringify(body));
+    const out = join(dir, "slices.ktx2");
+    expect(run(["bake", request, "-o", out], join(dir, "cache")).status).toBe(0);
+    const res = await app.inject({ method: "POST", url: "/v1/lut?format=ktx2", payload: body });
+    expect(res.statusCode).toBe(200);
+    expect(readFileSync(out).equals(res.rawPayload)).toBe(true);
+  });
+
   it("render: the PNG strip is byte for byte POST /v1/profile's ?format=png16&height=32", async () => {
     const body = { angles: { fromDeg: 38, toDeg: 54, stepDeg: 0.5 }, spectral: { fromNm: 400, toNm: 700, stepNm: 20 } };
     const request = join(dir, "profile.json");

@@ -124,6 +124,8 @@ describe("real answers validate against their schemas", () => {
       { sizes: { kind: "rain-rate", texels: 2 }, angles: { texels: 8 }, scenario: quick },
       { sizes: { kind: "radius", texels: 2, fromUm: 20, toUm: 400 }, angles: { texels: 8, mapping: "linear" }, scenario: quick, space: "xyz-d65" },
       { sizes: { kind: "none" }, angles: { texels: 8 }, scenario: quick },
+      // A time-of-day texture: its manifest lists the slices, and its JSON holds slices instead of texels.
+      { sizes: { kind: "none" }, angles: { texels: 8 }, scenario: quick, sunElevations: { fromDeg: 5, toDeg: 25, slices: 2 } },
     ];
     for (const body of bodies) {
       check(await app.inject({ method: "POST", url: "/v1/lut?part=manifest", payload: body }), "/v1/lut", "post", 200, "LutManifest");
