@@ -1,12 +1,12 @@
 // npm run bench [-- --quick | --mie]: times the Mie kernel (W1–W3, M) beside the compiled reference, whole profiles
-// (P1–P3; --quick leaves out P3, which takes minutes) and warm HTTP requests in one run, prints the figures and
+// (P1–P4; --quick leaves out P3 and P4, which take minutes) and warm HTTP requests in one run, prints the figures and
 // rewrites BENCHMARKS.md. --mie times the Mie kernel only and rewrites that section of BENCHMARKS.md.
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import { keptSections, writeMarkedSection } from "./sections.js";
 import { repoPath } from "../pipeline/config/resources.js";
 import { cpus, loadavg, totalmem } from "node:os";
 import { benchMie, MANY_DROPS, mieKernelName } from "./mie.js";
-import { benchProfile, P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
+import { benchProfile, P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3, P4, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
 import { benchHttp } from "./http.js";
 
 const quick = process.argv.includes("--quick");
@@ -74,7 +74,7 @@ if (mieOnly) {
   process.exit(0);
 }
 const profiles: ProfileBenchRow[] = [];
-for (const w of quick ? [P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE] : [P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3]) {
+for (const w of quick ? [P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE] : [P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3, P4]) {
   for (const r of await benchProfile(w, { first: w === P1 })) {
     profiles.push(r);
     console.log(
@@ -99,7 +99,7 @@ const p3Scaling = p3.length === 2 ? p3[0].coldMs / p3[1].coldMs : null;
 const lines = [
   "# Benchmarks",
   "",
-  "Written by `npm run bench` (bench/run.ts; `-- --quick` leaves out P3). Medians after warm-up, inside one Node process.",
+  "Written by `npm run bench` (bench/run.ts; `-- --quick` leaves out P3 and P4). Medians after warm-up, inside one Node process.",
   "Machines are noisy: compare ratios between rows of one run, not absolute times between runs.",
   "",
   `Machine: ${machine}. Date: ${date}. One-minute load average ${loadBefore.toFixed(2)} at the start, ${loadAfter.toFixed(2)} at the end` +

@@ -8,7 +8,7 @@ export type ProfileMethod = "auto" | "mie" | "airy" | "geometric";
 
 /**
  * Under "auto" no drop below this radius goes to Airy theory (uniform caustic form for the bows p = 2–6, ray optics
- * for p = 0, 1); above it, Lorenz–Mie as far as AUTO_MIE_BUDGET_TERM_ANGLES reaches (chooseAutoEngine). Measured with bench/auto-engine.ts (test/auto-engine.test.ts
+ * for p = 0, 1); above it, Lorenz–Mie as far as AUTO_MIE_BUDGET_TERM_ANGLES reaches (chooseAutoEngine). Measured with bench/auto-engine.ts (test/lib/bow/engine-choice.test.ts
  * re-checks 110 µm) against Mie for lognormal drops, σg = 1.1 and 1.2, D65 sun, after the sun's disc, ψ 30–60°:
  * from 100 µm up to 1 mm the mean CIEDE2000 error over ψ is ≤ 0.82 and ≤ 0.38 at both bows; at 60 µm the mean is
  * 1.07–1.19. ΔE ≤ 1 at every angle is reached at no radius: the worst sample stays at 1.2–2.0 (inner edge of

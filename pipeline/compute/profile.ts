@@ -22,6 +22,7 @@ import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-de
 import type { CellAverage } from "../../lib/bow/cell-average.js";
 import type { WavelengthGrid } from "../../lib/spectra/grid.js";
 import { ClientError } from "../requests/client-error.js";
+import { planDropShapes, shapedCostTermAngles } from "./drop-shape-plan.js";
 import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
 import { COST_NS } from "../progress/work-costs.js";
@@ -198,7 +199,11 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
       `drops above ${quadrature.maxRadiusUm} µm radius (${(100 * quadrature.crossSectionFractionAboveCap).toFixed(1)} % of the cross-section) are left out: such drops break up in nature`,
     );
   }
-  if (request.drops.kind !== "monodisperse") {
+  const shapePlan = planDropShapes(request, quadrature.radiiUm);
+  // The warnings about the sphere model are moot where flattened drops are modelled.
+  if (shapePlan.flattened) {
+    warnings.push(...shapePlan.warnings);
+  } else if (request.drops.kind !== "monodisperse") {
     const flattened = fractionOfCrossSectionAbove(distribution, FLATTENED_FROM_RADIUS_UM);
     if (flattened > 0.5) {
       warnings.push(
@@ -210,7 +215,8 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   }
 
   const blocks = blocksOf(span);
-  const cost = mieCost(averages);
+  // Flattened drops' rows are counted in Mie term-angles' worth of work (drop-shape-plan.ts).
+  const cost = mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1);
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",
@@ -233,7 +239,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   progress?.plan("colour", grid.count * count * COST_NS.colourSample);
   const kernelStarted = performance.now();
   const rows = await deps.kernels.rows(
-    { h, media, radiiUm: quadrature.radiiUm, engines, averages, blocks, within: { first: span.first, last: span.last } },
+    { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } },
     deps.signal,
     {
       saveEachTask: deps.saveEachTask,
@@ -295,6 +301,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
 
   const meta: ProfileMeta = {
     method: { requested: request.method, engines: engineRanges, ...(autoChoice ? { rule: autoChoice.rule } : {}) },
+    shape: shapePlan.meta,
     units: {
       anglesDeg: "degrees from the antisolar point",
       luminance: request.output.normalise === "peak" ? "relative: the brightest sample is 1" : "cd/m²",

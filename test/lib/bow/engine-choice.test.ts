@@ -1,7 +1,7 @@
 // The "airy" engine (uniform Airy theory for the bows, ray optics elsewhere) against full Lorenz–Mie theory, in
 // CIEDE2000 after the sun-disc convolution, for a narrow lognormal rain: the check behind AUTO_AIRY_FROM_RADIUS_UM.
 // The reference is the project's Mie engine, itself checked against Wiscombe 1980's published cases
-// (test/mie-wiscombe.test.ts) and a reference library (test/mie-reference.test.ts).
+// (test/lib/mie/wiscombe-miev0.test.ts) and a reference library (test/lib/mie/mpmath-reference.test.ts).
 // Colour difference: CIEDE2000 (Luo, Cui & Rigg 2001) via colorjs.io, on XYZ under a CIE D65 sun (the white),
 // both profiles divided by the Mie profile's peak Y, so a brightness error counts as well as a hue error.
 import { describe, it, expect } from "vitest";
