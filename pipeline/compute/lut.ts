@@ -6,6 +6,7 @@ import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
 import { computeProfile, requestHash, type ProfileDeps, type ProfileResult } from "./profile.js";
+import { AUTO_MIE_BUDGET_TERM_ANGLES } from "../../lib/bow/engine-choice.js";
 import type { LutManifest } from "../../schemas/responses/lut-response.js";
 import { ProgressMeter, type ProgressListener } from "../progress/progress-meter.js";
 
@@ -80,7 +81,8 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
       angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
       output: { ...profileDefaults.output, space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
     };
-    const profile = await computeProfile(body, deps);
+    // The rows share auto's Mie budget, so that a texture costs about what one profile does.
+    const profile = await computeProfile(body, deps, { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length });
     progress.complete(stageNames[j]);
     first ??= profile;
     for (const w of profile.meta.warnings) warnings.add(w);

@@ -115,7 +115,10 @@ export interface ProfileResolution {
   nodesPerDecade?: number;
   maxInternalStepDeg?: number;
   thinning?: readonly ThinningLevel[];
-  /** auto's Mie budget (AUTO_MIE_BUDGET_TERM_ANGLES): bench/auto-presets.ts measures the error at other budgets. */
+  /**
+   * auto's Mie budget (AUTO_MIE_BUDGET_TERM_ANGLES): answers made of several profiles (size maps, lookup textures)
+   * share it among their rows; bench/auto-presets.ts measures the error at other budgets.
+   */
   autoMieBudgetTermAngles?: number;
 }
 

@@ -2,6 +2,7 @@ import sharp from "sharp";
 import type { ProfileRequest } from "../../schemas/profile.js";
 import { sizeMapRowRequest, type SizeMapRequest } from "../../schemas/figures.js";
 import { computeProfile, type ProfileResult } from "../compute/profile.js";
+import { AUTO_MIE_BUDGET_TERM_ANGLES } from "../../lib/bow/engine-choice.js";
 import { profileProgress } from "./profile-render.js";
 import { contentHash } from "../requests/content-hash.js";
 import { chromaticityFigureSources, chromaticitySvg } from "../../lib/figures/chromaticity-figure.js";
@@ -62,7 +63,12 @@ async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ ra
     const results = await Promise.all(
       Array.from(radiiUm, async (radiusUm) => {
         try {
-          const result = await computeProfile(sizeMapRowRequest(body, radiusUm), { kernels: deps.kernels, limits, signal: abort.signal });
+          // The rows share auto's Mie budget as they share the cost limit.
+          const result = await computeProfile(
+            sizeMapRowRequest(body, radiusUm),
+            { kernels: deps.kernels, limits, signal: abort.signal },
+            { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / body.radiusSteps },
+          );
           rowsDone.complete(`row ${++done}`);
           return result;
         } catch (err) {
