@@ -63,6 +63,16 @@ export const P3: ProfileWorkload = {
   workers: [1, 2],
   warm: false,
 };
+/**
+ * Flattened drops (issue 13): one size, so one radius node, 41 wavelengths × 5 canting nodes of 3D ray tracing.
+ * A rain distribution multiplies this by its ~50 radius nodes above 150 µm and is not run here.
+ */
+export const P4: ProfileWorkload = {
+  name: "P4 flattened drops: 1 mm equilibrium drops (canting 7.5°), top of the bow, default wavelengths and angles",
+  body: { drops: { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium" } }, arcPositionDeg: 0 },
+  workers: [2],
+  warm: true,
+};
 
 async function once(body: unknown, kernels: KernelService): Promise<{ ms: number; mieTermAngles: number; cores: number }> {
   const request = profileRequestSchema.parse(body);
@@ -126,7 +136,7 @@ export async function benchProfile(w: ProfileWorkload, options: { first?: boolea
       fromDiskMs,
       warmMs,
       mieTermAngles: cold.mieTermAngles,
-      kernelBytes: kernels.memory.sizeBytes,
+      kernelBytes: kernels.memory.calculatedSize,
       coldCores: cold.cores,
     });
     await pool.close();

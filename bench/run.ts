@@ -1,12 +1,12 @@
 // npm run bench [-- --quick | --mie]: times the Mie kernel (W1–W3, M) beside the compiled reference, whole profiles
-// (P1–P3; --quick leaves out P3, which takes minutes) and warm HTTP requests in one run, prints the figures and
+// (P1–P4; --quick leaves out P3 and P4, which take minutes) and warm HTTP requests in one run, prints the figures and
 // rewrites BENCHMARKS.md. --mie times the Mie kernel only and rewrites that section of BENCHMARKS.md.
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
-import { keptSections } from "./sections.js";
+import { keptSections, writeMarkedSection } from "./sections.js";
 import { repoPath } from "../pipeline/config/resources.js";
 import { cpus, loadavg, totalmem } from "node:os";
 import { benchMie, MANY_DROPS, mieKernelName } from "./mie.js";
-import { benchProfile, P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
+import { benchProfile, P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3, P4, STARTED_WAIT_MS, type ProfileBenchRow } from "./profiles.js";
 import { benchHttp } from "./http.js";
 
 const quick = process.argv.includes("--quick");
@@ -33,7 +33,6 @@ for (const r of mie) {
   );
 }
 const mieSection = [
-  "<!-- mie:start -->",
   "## Lorenz–Mie kernel beside compiled code, one core",
   "",
   `Measured ${date} on ${machine}; one-minute load average ${loadavg()[0].toFixed(2)} when this table was written` +
@@ -69,20 +68,13 @@ const mieSection = [
   "Earlier versions of this file set these times against other programs' whole-process times taken on another",
   "machine; such figures are not comparable with ours (other machine, process start and output included) and are",
   "no longer given. The compiled reference above runs on this machine, in this run, on the same inputs.",
-  "",
-  "<!-- mie:end -->",
-  "",
 ];
 if (mieOnly) {
-  // Rewrites the Mie section of BENCHMARKS.md only, between its markers.
-  const target = repoPath("BENCHMARKS.md");
-  const previous = readFileSync(target, "utf8");
-  writeFileSync(target, previous.replace(/<!-- mie:start -->[\s\S]*<!-- mie:end -->\n\n/, mieSection.join("\n") + "\n"));
-  console.log("rewrote the Mie section of BENCHMARKS.md");
+  writeMarkedSection("mie", mieSection);
   process.exit(0);
 }
 const profiles: ProfileBenchRow[] = [];
-for (const w of quick ? [P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE] : [P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3]) {
+for (const w of quick ? [P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE] : [P1, P1_DISK, P1_MIE, P2, P2_ONE_SIZE, P3, P4]) {
   for (const r of await benchProfile(w, { first: w === P1 })) {
     profiles.push(r);
     console.log(
@@ -107,14 +99,17 @@ const p3Scaling = p3.length === 2 ? p3[0].coldMs / p3[1].coldMs : null;
 const lines = [
   "# Benchmarks",
   "",
-  "Written by `npm run bench` (bench/run.ts; `-- --quick` leaves out P3). Medians after warm-up, inside one Node process.",
+  "Written by `npm run bench` (bench/run.ts; `-- --quick` leaves out P3 and P4). Medians after warm-up, inside one Node process.",
   "Machines are noisy: compare ratios between rows of one run, not absolute times between runs.",
   "",
   `Machine: ${machine}. Date: ${date}. One-minute load average ${loadBefore.toFixed(2)} at the start, ${loadAfter.toFixed(2)} at the end` +
     (Math.max(loadBefore, loadAfter) > cpus().length ? " (above the core count: other processes shared the cores, so times are inflated)" : "") +
     `. Mie kernel: ${mieKernelName}.`,
   "",
+  "<!-- mie:start -->",
   ...mieSection,
+  "<!-- mie:end -->",
+  "",
   "## Whole profiles through the kernel cache (in-process: no HTTP)",
   "",
   "Worker threads as the service runs them (KernelService + createWorkerPool). Cold: an empty kernel cache, on threads",
@@ -154,6 +149,6 @@ const lines = [
 // Other benchmark scripts (bench/load.ts, bench/progress.ts, bench/time-of-day.ts, …) keep their own marked
 // sections: carry them over unchanged.
 const target = repoPath("BENCHMARKS.md");
-for (const section of keptSections()) lines.push(section, "");
+for (const section of keptSections()) if (!section.startsWith("<!-- mie:start -->")) lines.push(section, "");
 writeFileSync(target, lines.join("\n"));
 console.log("wrote BENCHMARKS.md");

@@ -65,7 +65,11 @@ export function renderDocsPage(openapi: OpenApiDocument): string {
           `<tr><td><code>${escapeHtml(p.name)}</code> (${p.in})</td><td>${escapeHtml(typeText(p.schema))}</td><td>${def}</td><td>${escapeHtml(p.description ?? p.schema.description ?? "")}</td></tr>`,
         );
       }
-      const body = op.requestBody?.content["application/json"].schema;
+      const json = op.requestBody?.content["application/json"];
+      const body = json?.schema;
+      const examples = Object.values(json?.examples ?? {})
+        .map((e) => `<p>${escapeHtml(e.summary)}</p><pre><code>${escapeHtml(JSON.stringify(e.value))}</code></pre>`)
+        .join("");
       if (body) fieldRows(body, "", rows);
       const responses = Object.entries(op.responses)
         .map(([status, r]) => `<li><strong>${status}</strong> ${escapeHtml(r.description)} <small>${escapeHtml(contentText(r))}</small></li>`)
@@ -75,7 +79,8 @@ export function renderDocsPage(openapi: OpenApiDocument): string {
 <h2><span class="method">${method.toUpperCase()}</span> <code>${escapeHtml(path)}</code></h2>
 <p>${escapeHtml(String(op.summary ?? ""))}</p>${op.description ? `<p>${escapeHtml(String(op.description))}</p>` : ""}
 ${rows.length ? `<table><thead><tr><th>field</th><th>type and range</th><th>default</th><th>meaning</th></tr></thead><tbody>${rows.join("")}</tbody></table>` : ""}
-<ul>${responses}</ul>
+<ul>${responses}</ul>${examples ? `
+<h3>Examples</h3>${examples}` : ""}
 </section>`);
     }
   }

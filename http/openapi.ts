@@ -22,7 +22,7 @@ export interface OpenApiOperation {
   description?: string;
   tags: string[];
   parameters?: OpenApiParameter[];
-  requestBody?: { required: boolean; content: { "application/json": { schema: JsonSchemaNode } } };
+  requestBody?: { required: boolean; content: { "application/json": { schema: JsonSchemaNode; examples?: Record<string, { summary: string; value: unknown }> } } };
   responses: Record<string, OpenApiResponse>;
 }
 
@@ -92,7 +92,7 @@ export function buildOpenApi(routes: RouteSpec[], version: string): OpenApiDocum
       tags: [route.tag],
       parameters: parameters.length ? parameters : undefined,
       requestBody: route.body
-        ? { required: false, content: { "application/json": { schema: toJsonSchema(route.body) } } }
+        ? { required: false, content: { "application/json": { schema: toJsonSchema(route.body), ...(route.examples ? { examples: route.examples } : {}) } } }
         : undefined,
       responses,
     };

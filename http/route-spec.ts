@@ -19,6 +19,8 @@ export interface RouteSpec<B extends z.ZodType = z.ZodType, Q extends z.ZodType 
   body?: B;
   query?: Q;
   responses: Record<number, ResponseSpec>;
+  /** Named example bodies for the OpenAPI document (invented places only). */
+  examples?: Record<string, { summary: string; value: unknown }>;
   handle: (input: { body: z.output<B>; query: z.output<Q>; request: FastifyRequest; reply: FastifyReply }) => Promise<unknown>;
 }
 

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { sequenceSchema } from "./sequence.js";
 
 /** POST /v1/jobs: which render, its body, and the options the synchronous endpoint takes in its query string. */
 export function jobRequestSchema(endpoints: readonly string[]) {
@@ -14,6 +15,9 @@ export function jobRequestSchema(endpoints: readonly string[]) {
         .record(z.string(), z.unknown())
         .default({})
         .describe("the endpoint's other query options as an object, e.g. {\"height\": 64} or {\"part\": \"manifest\"}"),
+      sequence: sequenceSchema
+        .optional()
+        .describe("a span of time instead of one moment (profile, view, sky, lut): one tar archive of numbered frames and manifest.json; the body's sun.at or moon.at gives the place"),
     })
     .strict();
 }

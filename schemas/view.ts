@@ -1,5 +1,6 @@
 import { z } from "zod";
-import { profileRequestSchema, sunSchema } from "./profile.js";
+import { checkProfilePhysics, profileRequestSchema, sunSchema } from "./profile.js";
+import { refuseFlattenedDrops } from "./drop-shape.js";
 import { placeAndMomentSchema } from "./place-and-time.js";
 import { moonPositionSchema } from "./moon.js";
 import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
@@ -19,6 +20,8 @@ export const viewScenarioSchema = z
     pathLengthM: profileFields.pathLengthM.describe("Path length through the rain along every line of sight, m (sets the bow's radiance and the curtain's opacity)"),
   })
   .strict()
+  .superRefine(checkProfilePhysics)
+  .superRefine(refuseFlattenedDrops("the camera view and sky overlay"))
   .prefault({})
   .describe("Drops, water, sunlight, observer, wavelengths, engine and path length, as in POST /v1/profile; angles are chosen to fit the image");
 
@@ -86,6 +89,13 @@ export const cameraSchema = z
     }
   });
 
+const waterSurfaceSchema = z
+  .discriminatedUnion("kind", [z.object({ kind: z.literal("calm") }).strict()])
+  .optional()
+  .describe(
+    "Calm water below the horizon in place of the ground: the sun's light reflected by it makes a reflection bow centred as far above the horizon as the antisolar point is below it, and the water shows the bows mirrored (Fresnel reflectance of water, both polarisations)",
+  );
+
 const maxAngleDeg = number(1, 180, "The rain curtain covers the sky out to this angle ψ from the antisolar point (default 90°: the shower lies opposite the sun); beyond it the layer is empty").default(90);
 
 export const viewRequestSchema = z
@@ -95,6 +105,7 @@ export const viewRequestSchema = z
     sun: sunPositionSchema,
     moon: moonPositionSchema.optional().describe("The moon as the light instead of the sun (leave sun out): position, phase, distance and atmosphere; scenario.sun's spectrum and disc are then the moon's"),
     ground: z.boolean().default(true).describe("true: flat ground hides everything below the horizon (z < 0)"),
+    waterSurface: waterSurfaceSchema,
     layer: layerSchema,
     polariserDeg: number(-180, 180, "Linear polariser's axis, degrees anticlockwise from the image's horizontal; omit for none").optional(),
     maxAngleDeg,
@@ -111,6 +122,7 @@ export const skyRequestSchema = z
     moon: moonPositionSchema.optional().describe("The moon as the light instead of the sun (leave sun out): position, phase, distance and atmosphere; scenario.sun's spectrum and disc are then the moon's"),
     polariserToTangentDeg: number(-180, 180, "A linear polariser held at this angle to the bow's tangent everywhere (as polariserDeg of /v1/profile); omit for none").optional(),
     ground: z.boolean().default(true).describe("true: the lower half (elevation < 0) is left empty"),
+    waterSurface: waterSurfaceSchema,
     layer: layerSchema,
     maxAngleDeg,
     output: viewOutputSchema,
@@ -118,6 +130,13 @@ export const skyRequestSchema = z
   .strict()
   .superRefine((s, ctx) => {
     if (s.widthPx !== 2 * s.heightPx) ctx.addIssue({ code: "custom", path: ["heightPx"], message: "an equirectangular map is twice as wide as high" });
+    if (s.waterSurface && s.polariserToTangentDeg !== undefined) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["polariserToTangentDeg"],
+        message: "a polariser at a fixed angle to the bow's tangent has no meaning on the water's mirrored bows; leave it out with waterSurface",
+      });
+    }
   });
 
 export const imageQuerySchema = z

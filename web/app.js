@@ -6,12 +6,14 @@ import { drawStrip } from "./strip.js";
 import { drawProfilePlot } from "./profile-plot.js";
 import { drawChromaticity } from "./chromaticity.js";
 import { drawSkyView } from "./sky-view.js";
+import { runAsJob, tooCostly } from "./job-runner.js";
 
 const $ = (id) => document.getElementById(id);
 const form = $("controls");
 const status = $("status");
 const elapsed = $("elapsed");
 const cancelButton = $("cancel");
+const jobBar = { progress: $("job-progress"), text: $("job-progress-text") };
 
 const state = {
   preview: null, // AbortController of the running preview
@@ -76,6 +78,16 @@ function updateVisibility() {
   [temperature.min, temperature.max] = spectrum === "cie-daylight" ? ["4000", "25000"] : ["1000", "50000"];
   $("polariser").disabled = !$("polariser-on").checked;
   $("elevation-value").textContent = `${$("elevation").value}°`;
+  const light = form.elements.namedItem("light").value;
+  const position = form.elements.namedItem("positionBy").value;
+  for (const el of form.querySelectorAll("[data-light], [data-position]")) {
+    el.hidden = (el.dataset.light !== undefined && el.dataset.light !== light) || (el.dataset.position !== undefined && el.dataset.position !== position);
+  }
+}
+
+/** The light's apparent elevation: as computed by the service for a place and time, else as given. */
+function sourceElevationDeg(body, meta) {
+  return meta?.sourcePosition?.elevationDeg ?? (body.moon ?? body.sun).elevationDeg ?? 10;
 }
 
 function fullBody() {
@@ -168,13 +180,19 @@ async function renderPreview(body) {
   const token = startBusy("Rendering the preview");
   const started = performance.now();
   try {
-    const res = await fetch("/v1/profile", {
+    let res = await fetch("/v1/profile", {
       method: "POST",
       headers: { "content-type": "application/json", accept: "application/json" },
       body: JSON.stringify(body),
       signal: controller.signal,
     });
-    const data = await res.json();
+    let data = await res.json();
+    if (tooCostly(res.status, data)) {
+      // Beyond the synchronous limit: the same render as a background job, with its progress bar.
+      announce("Rendering the preview as a background job (beyond the synchronous limit)…");
+      res = await runAsJob("profile", body, { format: "json" }, controller.signal, jobBar);
+      data = await res.json();
+    }
     if (!res.ok) {
       endBusy(token, `The service refused this preview: ${errorText(data)}`, true);
       return;
@@ -234,7 +252,7 @@ function showWarnings(profile, colours) {
 /** Until the tilt slider is moved, aim half-way up the highest bow so both arcs and the horizon are in view. */
 function autoPitch(body, profile) {
   const highestDeg = profile.bows.secondaryDeg ?? profile.bows.primaryDeg ?? 42;
-  const pitch = Math.round(Math.min(Math.max((highestDeg - body.sun.elevationDeg) / 2, 0), 60));
+  const pitch = Math.round(Math.min(Math.max((highestDeg - sourceElevationDeg(body, profile.meta)) / 2, 0), 60));
   $("pitch").value = String(pitch);
 }
 
@@ -245,15 +263,16 @@ function drawSky() {
   if (!state.last) return;
   const { body, profile, colours } = state.last;
   drawSkyView($("sky"), profile, colours, {
-    sunElevationDeg: body.sun.elevationDeg,
+    sunElevationDeg: sourceElevationDeg(body, profile.meta),
     pitchDeg: Number($("pitch").value),
     hfovDeg: Number($("fov").value),
+    water: $("water").checked,
   });
   const { primaryDeg } = profile.bows;
   $("sky").setAttribute(
     "aria-label",
     `Camera view facing away from the sun, tilted ${$("pitch").value}° up with a ${$("fov").value}° field of view; ` +
-      `the sun is ${body.sun.elevationDeg}° high behind the camera` +
+      `the ${body.moon ? "moon" : "sun"} is ${Number(sourceElevationDeg(body, profile.meta).toFixed(2))}° high behind the camera` +
       (primaryDeg !== null ? `, the primary bow is a circle of ${primaryDeg.toFixed(1)}° radius around the antisolar point.` : "."),
   );
 }
@@ -263,6 +282,7 @@ $("pitch").addEventListener("input", () => {
   drawSky();
 });
 $("fov").addEventListener("input", drawSky);
+$("water").addEventListener("change", drawSky);
 
 // ---------- exports ----------
 
@@ -281,10 +301,20 @@ function saveBlob(blob, fileName) {
 function scenarioOf(body, { keepSunElevation }) {
   const { angles, output, polariserDeg, ...scenario } = body;
   if (!keepSunElevation) {
-    const { elevationDeg, ...sun } = scenario.sun;
-    scenario.sun = sun;
+    // A view takes the light's position beside the scenario: the moon, or the sun's place and time, move out.
+    delete scenario.moon;
+    if (scenario.sun) {
+      const { elevationDeg, at, ...sun } = scenario.sun;
+      scenario.sun = sun;
+    }
   }
   return { scenario, angles, polariserDeg };
+}
+
+/** The light's position for POST /v1/view, looking south-ish as the page's sky does (azimuth 180°). */
+function viewLight(b) {
+  if (b.moon) return { moon: { ...b.moon, azimuthDeg: 180 } };
+  return { sun: b.sun.at ? { at: b.sun.at } : { azimuthDeg: 180, elevationDeg: b.sun.elevationDeg } };
 }
 
 /** Every export: which endpoint, with what body, to which file. */
@@ -300,6 +330,13 @@ const exportKinds = {
     body: (b) => lutBody(b),
     ext: "-lut.exr",
   },
+  "lut-ktx2": { label: "lookup texture (KTX2, RGBA16F, ACEScg)", url: () => "/v1/lut?format=ktx2", body: (b) => lutBody(b), ext: "-lut.ktx2" },
+  "lut-by-hour": {
+    label: "time-of-day texture (KTX2 array, 16 sun elevations 0°–45°)",
+    url: () => "/v1/lut?format=ktx2",
+    body: (b) => ({ ...lutBody(b, { keepSunElevation: false }), sunElevations: { fromDeg: 0, toDeg: 45, slices: 16 } }),
+    ext: "-lut-by-hour.ktx2",
+  },
   "lut-manifest": { label: "lookup texture manifest", url: () => "/v1/lut?part=manifest", body: (b) => lutBody(b), ext: "-lut-manifest.json" },
   "view-exr": {
     label: "camera view (OpenEXR, premultiplied RGBA)",
@@ -309,16 +346,18 @@ const exportKinds = {
       return {
         scenario,
         camera: { horizontalFovDeg: Number($("fov").value), pitchDeg: Number($("pitch").value), widthPx: 1280, heightPx: 720 },
-        sun: { azimuthDeg: 180, elevationDeg: b.sun.elevationDeg },
+        ...viewLight(b),
+        output: { vision: b.output.vision },
         ...(polariserDeg === undefined ? {} : { polariserDeg }),
+        ...($("water").checked ? { waterSurface: { kind: "calm" } } : {}),
       };
     },
     ext: "-view.exr",
   },
 };
 
-function lutBody(b) {
-  const { scenario, angles } = scenarioOf(b, { keepSunElevation: true });
+function lutBody(b, { keepSunElevation } = { keepSunElevation: true }) {
+  const { scenario, angles } = scenarioOf(b, { keepSunElevation });
   if (b.polariserDeg !== undefined) scenario.polariserDeg = b.polariserDeg;
   return { scenario, sizes: { kind: "none" }, angles: { fromDeg: angles.fromDeg, toDeg: angles.toDeg, texels: 512, mapping: "bow-weighted" } };
 }
@@ -335,12 +374,21 @@ async function download(format) {
   state.downloads.add(controller);
   const token = startBusy(`Rendering the ${kind.label} at ${fullBody().spectral.stepNm} nm`);
   try {
-    const res = await fetch(kind.url(), {
+    let res = await fetch(kind.url(), {
       method: "POST",
       headers: { "content-type": "application/json" },
       body: JSON.stringify(body),
       signal: controller.signal,
     });
+    if (res.status === 422) {
+      const refusal = await res.clone().json().catch(() => null);
+      if (tooCostly(res.status, refusal)) {
+        const url = new URL(kind.url(), location.origin);
+        // /v1/profile → profile, /v1/figure/chromaticity → figure-chromaticity: the job endpoints' names.
+        const endpoint = url.pathname.slice("/v1/".length).replace("/", "-");
+        res = await runAsJob(endpoint, body, Object.fromEntries(url.searchParams), controller.signal, jobBar);
+      }
+    }
     if (!res.ok) {
       endBusy(token, `The service refused the export: ${errorText(await res.json().catch(() => null))}`, true);
       return;

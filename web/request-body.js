@@ -10,7 +10,7 @@ const DEFAULTS = {
   method: "auto",
   mieSizesPerDecade: "auto",
   pathLengthM: 1000,
-  output: { space: "srgb", gamut: "css4", normalise: "peak", white: "sun" },
+  output: { space: "srgb", gamut: "css4", normalise: "peak", white: "sun", vision: "camera" },
 };
 
 const DROP_FIELDS = {
@@ -46,7 +46,17 @@ export function writeForm(form, body) {
   setValue(form, "salinityPsu", water.salinityPsu);
 
   const sun = { ...DEFAULTS.sun, ...body.sun };
-  setValue(form, "elevationDeg", sun.elevationDeg);
+  const source = body.moon ?? sun;
+  setValue(form, "light", body.moon ? "moon" : "sun");
+  setValue(form, "positionBy", source.at ? "place-and-time" : "elevation");
+  setValue(form, "elevationDeg", source.elevationDeg ?? DEFAULTS.sun.elevationDeg);
+  if (source.at) {
+    // The form's moment is UTC to the minute: "2026-06-21T18:30".
+    setValue(form, "moment", new Date(source.at.utc).toISOString().slice(0, 16));
+    setValue(form, "latitudeDeg", source.at.latitudeDeg);
+    setValue(form, "longitudeDeg", source.at.longitudeDeg);
+  }
+  setValue(form, "phaseAngleDeg", body.moon?.phaseAngleDeg ?? 0);
   const spectrum = sun.spectrum;
   setValue(form, "spectrum", spectrum.kind === "astm-g173" ? `astm-g173:${spectrum.column ?? "extraterrestrial"}` : spectrum.kind);
   if (spectrum.kind === "blackbody") setValue(form, "temperatureK", spectrum.temperatureK ?? 5772);
@@ -58,7 +68,7 @@ export function writeForm(form, body) {
   setValue(form, "mieSizesPerDecade", body.mieSizesPerDecade ?? DEFAULTS.mieSizesPerDecade);
   setValue(form, "observer", body.observer ?? DEFAULTS.observer);
   const output = { ...DEFAULTS.output, ...body.output };
-  for (const name of ["space", "gamut", "normalise", "white"]) setValue(form, name, output[name]);
+  for (const name of ["space", "gamut", "normalise", "white", "vision"]) setValue(form, name, output[name]);
   field(form, "polariserOn").checked = body.polariserDeg !== undefined;
   setValue(form, "polariserDeg", body.polariserDeg ?? 0);
 
@@ -100,18 +110,28 @@ function spectrumFromForm(form) {
   return { kind: choice };
 }
 
+/** The light's position: its elevation, or a moment (UTC) and a place. */
+function positionFromForm(form) {
+  if (field(form, "positionBy").value === "elevation") return { elevationDeg: numberOf(form, "elevationDeg") };
+  return { at: { utc: `${field(form, "moment").value}:00Z`, latitudeDeg: numberOf(form, "latitudeDeg"), longitudeDeg: numberOf(form, "longitudeDeg") } };
+}
+
+/** The light: the sun with its spectrum and disc, or the moon (whose spectrum, brightness and disc the service computes). */
+function lightFromForm(form) {
+  const position = positionFromForm(form);
+  if (field(form, "light").value === "moon") {
+    return { moon: position.at ? position : { ...position, phaseAngleDeg: numberOf(form, "phaseAngleDeg") } };
+  }
+  return { sun: { spectrum: spectrumFromForm(form), ...position, discDeg: numberOf(form, "discDeg"), limbDarkening: field(form, "limbDarkening").value } };
+}
+
 /** Reads the whole request body (every field explicit, so a copied command says what it renders). */
 export function readForm(form, stepNm) {
   const salty = numberOf(form, "salinityPsu") > 0;
   const body = {
     drops: dropsFromForm(form),
     water: { temperatureC: numberOf(form, "temperatureC"), salinityPsu: numberOf(form, "salinityPsu") },
-    sun: {
-      spectrum: spectrumFromForm(form),
-      elevationDeg: numberOf(form, "elevationDeg"),
-      discDeg: numberOf(form, "discDeg"),
-      limbDarkening: field(form, "limbDarkening").value,
-    },
+    ...lightFromForm(form),
     observer: field(form, "observer").value,
     angles: { fromDeg: numberOf(form, "fromDeg"), toDeg: numberOf(form, "toDeg"), stepDeg: numberOf(form, "stepDeg") },
     // Sea water has a refractive index from 400 to 700 nm only (Quan & Fry 1995), so the range narrows with salt.
@@ -124,6 +144,7 @@ export function readForm(form, stepNm) {
       gamut: field(form, "gamut").value,
       normalise: field(form, "normalise").value,
       white: field(form, "white").value,
+      vision: field(form, "vision").value,
     },
   };
   if (field(form, "polariserOn").checked) body.polariserDeg = numberOf(form, "polariserDeg");
@@ -174,7 +195,7 @@ function typicalRadiusUm(drops) {
   return 0;
 }
 
-/** Radius from which "auto" switches to Airy theory: the service's measured threshold (lib/bow/engine-choice.ts). */
+/** Radius below which "auto" always uses Lorenz–Mie (lib/bow/engine-choice.ts); above it, Mie where affordable. */
 const AUTO_AIRY_FROM_RADIUS_UM = 100;
 
 /** A plain-language cost note for the body about to be sent, using the last measured render time. */

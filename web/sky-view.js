@@ -30,7 +30,26 @@ function projectDirection([x, y, z], view) {
   return [((x / cz / view.tanH + 1) / 2) * view.width, ((1 - cy / cz / view.tanV) / 2) * view.height];
 }
 
-export function drawSkyView(canvas, profile, colours, { sunElevationDeg, pitchDeg, hfovDeg }) {
+/** Index of water for the sketch (IAPWS R9-97 at 589 nm, 20 °C: 1.3330, from memory). */
+const WATER_INDEX = 1.333;
+
+/** Unpolarised Fresnel reflectance of calm water at this angle of incidence (Born & Wolf 1999 §1.5.2). */
+function waterReflectance(incidence) {
+  const t = Math.asin(Math.sin(incidence) / WATER_INDEX);
+  if (incidence < 1e-6) return ((WATER_INDEX - 1) / (WATER_INDEX + 1)) ** 2;
+  const s = Math.sin(incidence - t) / Math.sin(incidence + t);
+  const p = Math.tan(incidence - t) / Math.tan(incidence + t);
+  return (s * s + p * p) / 2;
+}
+
+/** The bow's linear colour along unit direction d about centre c (nearest computed ψ). */
+function bowAt(d, c, angles, colours, channel) {
+  const cosPsi = d[0] * c[0] + d[1] * c[1] + d[2] * c[2];
+  const i = nearestSample(angles, Math.acos(Math.min(Math.max(cosPsi, -1), 1)) / RAD);
+  return colours.linear[3 * i + channel];
+}
+
+export function drawSkyView(canvas, profile, colours, { sunElevationDeg, pitchDeg, hfovDeg, water = false }) {
   const { width, height } = canvas;
   const ctx = canvas.getContext("2d");
   const tanH = Math.tan((hfovDeg / 2) * RAD);
@@ -38,6 +57,10 @@ export function drawSkyView(canvas, profile, colours, { sunElevationDeg, pitchDe
   const antisolar = [0, -Math.sin(sunElevationDeg * RAD), Math.cos(sunElevationDeg * RAD)];
   const image = ctx.createImageData(width, height);
   const angles = profile.anglesDeg;
+  // With water: the sunlight it reflects lights the rain from below the horizon (the reflection bow, about the
+  // antisolar point mirrored in the horizon), and the water mirrors the sky. Unpolarised in this sketch.
+  const mirroredAntisolar = [0, -antisolar[1], antisolar[2]];
+  const sunReflectance = waterReflectance((90 - sunElevationDeg) * RAD);
 
   for (let py = 0; py < height; py++) {
     for (let px = 0; px < width; px++) {
@@ -49,6 +72,18 @@ export function drawSkyView(canvas, profile, colours, { sunElevationDeg, pitchDe
       const t = above ? Math.sqrt(d[1]) : 0;
       const gain = above ? BOW_GAIN : BOW_GAIN_BELOW_HORIZON;
       const at = 4 * (py * width + px);
+      if (water) {
+        const up = above ? d : [d[0], -d[1], d[2]];
+        const r = above ? 1 : waterReflectance(Math.PI / 2 - Math.asin(Math.min(1, up[1])));
+        const tUp = Math.sqrt(up[1]);
+        for (let c = 0; c < 3; c++) {
+          const sky = SKY_HORIZON[c] + (SKY_ZENITH[c] - SKY_HORIZON[c]) * tUp;
+          const bows = bowAt(up, antisolar, angles, colours, c) + sunReflectance * bowAt(up, mirroredAntisolar, angles, colours, c);
+          image.data[at + c] = Math.round(255 * encodeSrgb(r * (sky + BOW_GAIN * bows) + (above ? 0 : (1 - r) * GROUND[c])));
+        }
+        image.data[at + 3] = 255;
+        continue;
+      }
       for (let c = 0; c < 3; c++) {
         const base = above ? SKY_HORIZON[c] + (SKY_ZENITH[c] - SKY_HORIZON[c]) * t : GROUND[c];
         image.data[at + c] = Math.round(255 * encodeSrgb(base + gain * colours.linear[3 * i + c]));

@@ -26,7 +26,7 @@ export function figureRoutes(config: Config, kernels: KernelService): RouteSpec[
       responses: {
         200: { description: "the figure", contentTypes: ["image/svg+xml"] },
         400: { description: "a field out of range" },
-        422: { description: "valid, but costlier than the synchronous budget" },
+        422: { description: "valid, but costlier than the synchronous budget (too-costly), or the light source is below the horizon at the moment given (source-below-horizon)" },
       },
       handle: async ({ body, reply }) => sendOutput(reply, await renderChromaticityFigure(body, depsFor(reply)), "miss"),
     }),
@@ -45,7 +45,7 @@ export function figureRoutes(config: Config, kernels: KernelService): RouteSpec[
       responses: {
         200: { description: "the figure", contentTypes: ["image/svg+xml", "image/png"] },
         400: { description: "a field out of range" },
-        422: { description: "valid, but costlier than the synchronous budget" },
+        422: { description: "valid, but costlier than the synchronous budget (too-costly), or the light source is below the horizon at the moment given (source-below-horizon)" },
       },
       handle: async ({ body, query, reply }) => sendOutput(reply, await renderSizeMap(body, query.format ?? "svg", depsFor(reply)), "miss"),
     }),

@@ -6,6 +6,7 @@ import type { FastifyReply, FastifyRequest } from "fastify";
 import { defineRoute, type RouteSpec } from "../route-spec.js";
 import { jobRequestSchema, type JobRequest } from "../../schemas/jobs.js";
 import { parseOrThrow } from "../../pipeline/requests/parse-request.js";
+import { asSequenceJob } from "../../pipeline/sequence/sequence-job.js";
 import { ClientError } from "../../pipeline/requests/client-error.js";
 import { sendOutput } from "../send-output.js";
 import type { JobSystem } from "../../pipeline/jobs/job-system.js";
@@ -65,7 +66,8 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
         503: { description: "the job store (Redis) does not answer: answered within a second, with Retry-After" },
       },
       handle: async ({ body, reply }) => {
-        const job = body as JobRequest;
+        const request = body as JobRequest;
+        const job = request.sequence ? { ...request, ...asSequenceJob(request, registry), format: undefined } : request;
         const renderer = registry[job.endpoint];
         const rawQuery = { ...job.query };
         if (job.format !== undefined) {
@@ -102,7 +104,7 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
       tag: "jobs",
       summary: "A job's progress as server-sent events, ending with one final event",
       description:
-        "Each event's data is the job as GET /v1/jobs/:id gives it. `event: progress` while queued or running; the stream ends " +
+        "Each event's data is the job as GET /v1/jobs/:id gives it (schema `Job` in components.schemas). `event: progress` while queued or running; the stream ends " +
         "with `event: done`, `event: failed` or `event: cancelled`.",
       responses: { 200: { description: "the event stream", contentTypes: ["text/event-stream"] }, 404: { description: "no such job" } },
       handle: async ({ request, reply }) => streamEvents(await find(idOf(request)), reply),

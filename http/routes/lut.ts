@@ -23,7 +23,7 @@ export function lutRoutes(config: Config, kernels: KernelService): RouteSpec[] {
       responses: {
         200: { description: "the texture or its manifest", contentTypes: ["image/x-exr", "image/ktx2", "image/vnd.radiance", "image/png", "application/json"], json: ["LutManifest", "LutJson"] },
         400: { description: "a field out of range" },
-        422: { description: "valid, but costlier than the synchronous budget" },
+        422: { description: "valid, but costlier than the synchronous budget (too-costly), or the light source is below the horizon at the moment given (source-below-horizon)" },
       },
       handle: async ({ body, query, reply }) =>
         sendOutput(reply, await renderLut(body, query, { kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(reply) }), "miss"),

@@ -7,6 +7,7 @@ import { requestHash } from "../../pipeline/compute/profile.js";
 import { renderProfile, type ProfileFormat } from "../../pipeline/render/profile-render.js";
 import { asCacheHit, type RenderOutput } from "../../pipeline/render/render-output.js";
 import { sendOutput } from "../send-output.js";
+import { profileExamples } from "./source-examples.js";
 import { ClientError } from "../../pipeline/requests/client-error.js";
 import { clientSignal } from "../plugins/hardening.js";
 import type { Config } from "../../pipeline/config/config.js";
@@ -37,11 +38,12 @@ export function profileRoutes(config: Config, presets: Map<string, Preset>, kern
         "one pixel column per angle sample, with an ICC profile (and cICP where the space has code points). " +
         "`?format=svg` or `Accept: image/svg+xml`: a labelled figure of luminance and polarisation against ψ over the colour strip.",
       body: profileRequestSchema,
+      examples: profileExamples,
       query: stripQuerySchema,
       responses: {
         200: { description: "the profile", contentTypes: ["application/json", "image/png", "image/svg+xml"], json: "Profile" },
         400: { description: "a field out of range" },
-        422: { description: "valid, but costlier than the synchronous budget" },
+        422: { description: "valid, but costlier than the synchronous budget (too-costly), or the light source is below the horizon at the moment given (source-below-horizon)" },
       },
       handle: async ({ body, query, request, reply }) => {
         const format = chooseFormat(query, request);

@@ -5,6 +5,7 @@ import { overlayHash } from "../../pipeline/compute/view.js";
 import { renderOverlay } from "../../pipeline/render/view-render.js";
 import { asCacheHit, type RenderOutput } from "../../pipeline/render/render-output.js";
 import { sendOutput } from "../send-output.js";
+import { viewExamples } from "./source-examples.js";
 import { clientSignal } from "../plugins/hardening.js";
 import type { Config } from "../../pipeline/config/config.js";
 import type { KernelService } from "../../pipeline/kernels/kernel-service.js";
@@ -14,7 +15,7 @@ function responses(manifest: "ViewManifest" | "SkyManifest") {
   return {
     200: { description: "the layer, or its JSON manifest with ?part=manifest", contentTypes: ["image/x-exr", "image/vnd.radiance", "image/png", "application/json"], json: manifest },
     400: { description: "a field out of range" },
-    422: { description: "valid, but costlier than the synchronous budget" },
+    422: { description: "valid, but costlier than the synchronous budget (too-costly), or the light source is below the horizon at the moment given (source-below-horizon)" },
   };
 }
 
@@ -45,6 +46,7 @@ export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] 
         "90° wide, looking at the antisolar azimuth 15° up, sun 12° high behind the camera. Default EXR (half, ZIP, RGBA premultiplied); " +
         "?format=hdr|png16|png; ?part=manifest for the JSON sidecar (camera, mapping, scale, hash, sources).",
       body: viewRequestSchema,
+      examples: viewExamples,
       query: imageQuerySchema,
       responses: responses("ViewManifest"),
       handle: async ({ body, query, reply }) => answer("view", body, query, reply),

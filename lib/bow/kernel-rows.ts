@@ -6,11 +6,12 @@ import { blockRange } from "./kernel-grid.js";
 import { rowVariant } from "./cell-average.js";
 import { dropRow, dropRowContext, mieRows, type CellAverage } from "./drop-rows.js";
 import type { DropMedium } from "../water/drop-medium.js";
+import { shapedDropRow, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
 
 export interface KernelRowsInput {
   medium: DropMedium;
   h: number;
-  items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage }[];
+  items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage; shape?: ShapedRowSpec }[];
   /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
   within?: { first: number; last: number };
 }
@@ -38,7 +39,8 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
     const { first, count } = blockRange(b, h);
     positions.set(b, Int32Array.from({ length: count }, (_, k) => (first + k >= lo && first + k <= hi ? hi - (first + k) : -1)));
   }
-  const ctx = dropRowContext(medium, thetaDeg, h, new Set(items.map((it) => it.engine)));
+  // Drops that are not spheres have their own engine (shaped-rows.ts): the sphere engines' tables are not built for them.
+  const ctx = dropRowContext(medium, thetaDeg, h, new Set(items.filter((it) => !it.shape).map((it) => it.engine)));
   const perDrop = 1 / (2 * ctx.waveNumberPerM * ctx.waveNumberPerM);
   const perp = new Float64Array(nTheta);
   const par = new Float64Array(nTheta);
@@ -46,7 +48,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   // one allocation instead of one per drop (garbage collection fell from 17 % to 11 % of a default-profile task).
   const packRows = new Map<string, { buffer: Float64Array; used: number }>();
   // An averaged Lorenz–Mie row is not the single-size row of the same engine: its own buffer (and cache pack).
-  const variants = items.map((item) => rowVariant(item.engine, item.average));
+  const variants = items.map((item) => shapedVariant(rowVariant(item.engine, item.average), item.shape));
   for (const [index, item] of items.entries()) {
     for (const b of item.blocks) {
       const key = `${variants[index]}|${b}`;
@@ -60,13 +62,14 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
     entry.used = 0;
   }
   // Lorenz–Mie drops all at once (the angular functions shared among them), the other engines drop by drop.
-  const mieIndices = items.flatMap((item, index) => (item.engine === "mie" ? [index] : []));
+  const mieIndices = items.flatMap((item, index) => (item.engine === "mie" && !item.shape ? [index] : []));
   const mie = mieRows(ctx, mieIndices.map((i) => items[i]));
   const mieRowOf = new Map(mieIndices.map((item, k) => [item, mie.rows[k]]));
   let mieTermAngles = mie.termAngles;
   const rows = items.map((item, index) => {
     const computed = mieRowOf.get(index);
-    if (computed) {
+    if (item.shape) shapedDropRow(item.shape, ctx.mRe, ctx.waveNumberPerM * item.radiusUm * 1e-6, item.radiusUm, thetaDeg, h, perp, par);
+    else if (computed) {
       perp.set(computed.perp);
       par.set(computed.par);
     } else mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);

@@ -14,6 +14,27 @@ export const SHAPED_RAY_ORDERS = [0, 1] as const;
 export const SHAPED_BOW_ORDERS = [2, 3] as const;
 /** Pupil samples on each side of the axis per order: as lib/bow/ray-bins.ts's SEGMENTS for spheres (error ~ segment²). */
 export const SHAPED_HALF_SEGMENTS = 4000;
+/**
+ * A coarse look first (64 samples a side): an order whose light stays more than LOOK_MARGIN_DEG away from the grid
+ * is not swept (the primary's window never sees the transmitted light, Θ < 83° for spheres). 10° is more than Θ
+ * turns between the last coarse sample (b = 0.9997, incidence 88.6°) and grazing (about 2·1.4° per chord for spheres).
+ */
+const LOOK_HALF_SEGMENTS = 64;
+const LOOK_MARGIN_DEG = 10;
+
+/** Whether any light of the coarse sweep lands within LOOK_MARGIN_DEG of the grid in this half-plane. */
+function reachesGrid(tracer: PlaneTracer, p: number, side: 1 | -1, thetaDeg: Float64Array, stepDeg: number): boolean {
+  const look = sweepPlane(tracer, p, LOOK_HALF_SEGMENTS);
+  const lo = (thetaDeg[0] - stepDeg / 2 - LOOK_MARGIN_DEG) * DEG;
+  const hi = (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + LOOK_MARGIN_DEG) * DEG;
+  for (let s = 0; s < look.u.length; s++) {
+    const theta = side * look.thetaSigned[s];
+    if (look.ok[s] && theta >= lo && theta <= hi) return true;
+  }
+  return false;
+}
+
+const DEG = Math.PI / 180;
 
 export interface ShapedPlaneContext {
   /** What scales as x²: ray optics of the orders without a bow, and of the bow orders where their table does not serve. */
@@ -47,10 +68,13 @@ export function shapedPlaneContext(
   const tracer = new PlaneTracer({ ...setup, maxOrder, absorptionPerRadius: 0 }, plane);
   const count = thetaDeg.length;
   const raysPerX2: RayBins = { perpendicular: new Float64Array(count), parallel: new Float64Array(count) };
-  for (const p of rayOrders) planeRayBins(sweepPlane(tracer, p, halfSegments), side, thetaDeg, stepDeg, undefined, raysPerX2);
+  for (const p of rayOrders) {
+    if (reachesGrid(tracer, p, side, thetaDeg, stepDeg)) planeRayBins(sweepPlane(tracer, p, halfSegments), side, thetaDeg, stepDeg, undefined, raysPerX2);
+  }
   const bowTables: UniformBowTable[] = [];
   const folds: ShapedPlaneContext["folds"] = [];
   for (const p of bowOrders) {
+    if (!reachesGrid(tracer, p, side, thetaDeg, stepDeg)) continue;
     const sweep = sweepPlane(tracer, p, halfSegments);
     const bow = planeBowTable(tracer, sweep, side, thetaDeg, stepDeg);
     if (bow === null) {

@@ -3,6 +3,7 @@
 // pixel needs, apart from the polariser, which also needs the bow's local tangent.
 
 import type { RayField } from "./ray-field.js";
+import { PolarisedLight, addBowParts, addReflectionBow, mirroredInHorizon, reflectOffWater, sensed, type WaterSurface } from "./water-reflection.js";
 import { type Vec3, RADIANS_PER_DEGREE } from "./vectors.js";
 
 /** Linear colours (3 per sample) on evenly spaced angles ψ = fromDeg + i·stepDeg. */
@@ -32,6 +33,8 @@ export interface LayerInput {
   polariserAxis?: Vec3;
   /** Instead of an axis: a polariser at a fixed angle to the bow's tangent, given as its cos² (Malus's law). */
   polariserTangentCos2?: number;
+  /** Calm water below the horizon (in place of the ground): the reflection bow, and the bows mirrored in it. */
+  water?: WaterSurface;
 }
 
 export interface Layer {
@@ -100,9 +103,18 @@ export function renderLayer(input: LayerInput): Layer {
   const last = colours.count - 1;
   // Half a part in a million of a step: ψ at the profile's ends still counts as inside after round-off.
   const slack = 1e-6;
+  const water = input.water;
+  const sky = new PolarisedLight(4);
+  const mirrored = new PolarisedLight(8);
+  const reflected = new Float64Array(3);
   for (let y = 0; y < heightPx; y++) {
     for (let x = 0; x < widthPx; x++) {
-      if (!rays.ray(x, y, d) || (ground && d[2] < 0)) continue;
+      if (!rays.ray(x, y, d)) continue;
+      if (water && d[2] < 0) {
+        waterPixel(input, water, d, reflected, sky, mirrored, data, (y * widthPx + x) * channels);
+        continue;
+      }
+      if (ground && d[2] < 0) continue;
       const psi = angleFromAntisolarDeg(d, antisolar);
       if (psi > maxAngleDeg) continue;
       const at = (y * widthPx + x) * channels;
@@ -127,7 +139,42 @@ export function renderLayer(input: LayerInput): Layer {
         const c = colours.total;
         for (let k = 0; k < 3; k++) data[at + k] = w0 * c[3 * i0 + k] + w1 * c[3 * i1 + k];
       }
+      if (water) {
+        sky.clear();
+        addReflectionBow(sky, colours, d, water, angleFromAntisolarDeg(d, water.reflectedAntisolar));
+        sensed(sky, d, polariserAxis, data, at);
+      }
     }
   }
   return { widthPx, heightPx, channels, data };
+}
+
+/**
+ * A pixel whose ray meets the water: the sky's light from the mirrored direction (the bow and the reflection bow,
+ * where rain is seen there), reflected by the water. Its alpha is the curtain's opacity times the water's
+ * reflectance: the curtain dims the reflected part of the water's light, not the light from below the surface.
+ */
+function waterPixel(
+  input: LayerInput,
+  water: WaterSurface,
+  d: Float64Array,
+  up: Float64Array,
+  sky: PolarisedLight,
+  mirrored: PolarisedLight,
+  data: Float32Array,
+  at: number,
+): void {
+  const m = mirroredInHorizon(d);
+  up[0] = m[0];
+  up[1] = m[1];
+  up[2] = m[2];
+  const psi = angleFromAntisolarDeg(up, input.antisolar);
+  if (psi > input.maxAngleDeg) return;
+  sky.clear();
+  addBowParts(sky, input.colours, up, input.antisolar, psi, 1, 1);
+  addReflectionBow(sky, input.colours, up, water, angleFromAntisolarDeg(up, water.reflectedAntisolar));
+  mirrored.clear();
+  const reflectance = reflectOffWater(sky, mirrored, d, water.refractiveIndex);
+  sensed(mirrored, d, input.polariserAxis, data, at);
+  if (input.alpha !== undefined) data[at + 3] = input.alpha * reflectance;
 }

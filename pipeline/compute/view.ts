@@ -2,12 +2,11 @@
 // linear colours per profile sample, spread over the pixels by lib/view, and written as EXR, Radiance HDR or PNG.
 
 import sharp from "sharp";
-import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
+import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../../schemas/view.js";
 import { computeProfile, type ProfileLimits, type ProfileResult } from "./profile.js";
 import type { KernelService } from "../kernels/kernel-service.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
-import { parseOrThrow } from "../requests/parse-request.js";
 import { ClientError } from "../requests/client-error.js";
 import { luminanceReciprocal, spectraToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { renderXyz } from "../../lib/colour/render.js";
@@ -17,7 +16,7 @@ import { type Camera, cameraBasis, cameraRayField, centralPixelDeg, fieldOfViewD
 import { skyRayField } from "../../lib/view/sky-map.js";
 import type { RayField } from "../../lib/view/ray-field.js";
 import { type Vec3, azimuthElevationOf, directionFromAzimuthElevation } from "../../lib/view/vectors.js";
-import { angleRangeDeg, renderLayer, type Layer, type ProfileColours } from "../../lib/view/layer.js";
+import { angleFromAntisolarDeg, angleRangeDeg, renderLayer, type Layer, type ProfileColours } from "../../lib/view/layer.js";
 import { curtainTransmittance } from "../../lib/bow/extinction.js";
 import { spacePrimaries } from "../../lib/colour/primaries.js";
 import { contentHash } from "../requests/content-hash.js";
@@ -26,6 +25,9 @@ import { encodeExr, type ExrChromaticities } from "../encoders/exr.js";
 import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { withSpaceColourChunks } from "../encoders/png-strip.js";
 import type { CameraDescription, MapDescription, OverlayManifest } from "../../schemas/responses/overlay-response.js";
+import { waterAngleRangeDeg, waterSurfaceFor, type WaterSurface } from "../../lib/view/water-reflection.js";
+import { dropMedium } from "../../lib/water/drop-medium.js";
+import { CURTAIN_WAVELENGTH_NM } from "../../lib/bow/extinction.js";
 
 /** The window that holds both bows (primary ≈ 42°, secondary ≈ 51°: Descartes angles, docs/checks.md); "peak" scales to its brightest sample. */
 const BOW_WINDOW_DEG = { fromDeg: 30, toDeg: 60 } as const;
@@ -68,6 +70,17 @@ interface Scene {
   sunPosition: { azimuthDeg: number; elevationDeg: number };
   description: CameraDescription | MapDescription;
   normalisedRequest: unknown;
+  /** Calm water below the horizon, or none. */
+  water?: WaterSurface;
+}
+
+/**
+ * The water surface of a scene that asked for one: its index (the scenario's water at 555 nm, the peak of V(λ),
+ * CIE 015:2018, as for the curtain) and the reflectances of the sunlight.
+ */
+function waterOf(kind: { kind: "calm" } | undefined, scenario: ViewScenario, sunDirection: Vec3, antisolar: Vec3): WaterSurface | undefined {
+  if (!kind) return undefined;
+  return waterSurfaceFor(sunDirection, antisolar, dropMedium(scenario.water, CURTAIN_WAVELENGTH_NM).mRe);
 }
 
 export function overlayHash(endpoint: string, request: unknown): string {
@@ -137,11 +150,13 @@ function viewScene(body: ViewRequest): Scene {
             convention: "transmission axis at this angle anticlockwise from the image's horizontal; per pixel the field along the bow's tangent passes with cos²α, the radial field with sin²α (Malus)",
           },
   };
+  const antisolar: Vec3 = [-sunDirection[0], -sunDirection[1], -sunDirection[2]];
   return {
     endpoint: "view",
     rays: cameraRayField(camera),
     sunDirection,
-    antisolar: [-sunDirection[0], -sunDirection[1], -sunDirection[2]],
+    antisolar,
+    water: waterOf(body.waterSurface, body.scenario, sunDirection, antisolar),
     ground: body.ground,
     layer: body.layer,
     maxAngleDeg: body.maxAngleDeg,
@@ -157,11 +172,13 @@ function viewScene(body: ViewRequest): Scene {
 
 function skyScene(body: SkyRequest): Scene {
   const sunDirection = directionFromAzimuthElevation(body.sun.azimuthDeg, body.sun.elevationDeg);
+  const antisolar: Vec3 = [-sunDirection[0], -sunDirection[1], -sunDirection[2]];
   return {
     endpoint: "sky",
     rays: skyRayField(body.widthPx, body.heightPx),
     sunDirection,
-    antisolar: [-sunDirection[0], -sunDirection[1], -sunDirection[2]],
+    antisolar,
+    water: waterOf(body.waterSurface, body.scenario, sunDirection, antisolar),
     ground: body.ground,
     layer: body.layer,
     maxAngleDeg: body.maxAngleDeg,
@@ -184,19 +201,24 @@ function skyScene(body: SkyRequest): Scene {
   };
 }
 
-/** Merges the view's choices into the scenario and validates it as a profile request; errors name the scenario field. */
+/** The validated scenario with the view's choices: the profile request the image is made from. */
 function profileRequestFor(scene: Scene, angles: { fromDeg: number; toDeg: number; stepDeg: number }): ProfileRequest {
-  const body = {
+  return {
+    ...profileDefaults,
     ...scene.scenario,
     sun: { ...scene.scenario.sun, elevationDeg: scene.sunPosition.elevationDeg },
     angles,
     output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute", vision: scene.output.vision, adaptingLuminanceCdPerM2: scene.output.adaptingLuminanceCdPerM2 },
   };
-  return parseOrThrow(profileRequestSchema, body, "body", ["scenario"]);
 }
 
 function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg: number; seen: { minDeg: number; maxDeg: number } | null } {
-  const seen = angleRangeDeg(scene.rays, scene.antisolar, scene.ground, scene.maxAngleDeg);
+  // With water the lower half shows the water, not the ground; the reflection bow and the mirrored bows add angles.
+  let seen = angleRangeDeg(scene.rays, scene.antisolar, scene.ground || scene.water !== undefined, scene.maxAngleDeg);
+  if (scene.water) {
+    const fromWater = waterAngleRangeDeg(scene.rays, scene.antisolar, scene.water, scene.maxAngleDeg, angleFromAntisolarDeg);
+    if (fromWater) seen = seen ? { minDeg: Math.min(seen.minDeg, fromWater.minDeg), maxDeg: Math.max(seen.maxDeg, fromWater.maxDeg) } : fromWater;
+  }
   let lo: number = BOW_WINDOW_DEG.fromDeg;
   let hi: number = BOW_WINDOW_DEG.toDeg;
   if (seen) {
@@ -316,7 +338,12 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
     ...described,
     sun: { ...scene.sunPosition, direction: scene.sunDirection },
     antisolarPoint: { azimuthDeg: antisolar.azimuthDeg, elevationDeg: antisolar.elevationDeg, direction: scene.antisolar },
-    ground: scene.ground ? "flat ground: pixels whose ray points below the horizon (z < 0) are empty (RGB and alpha 0)" : "no ground: the bows continue below the horizon",
+    ground: scene.water
+      ? "calm water below the horizon: pixels whose ray points below it (z < 0) show the sky's bows mirrored, times the water's Fresnel reflectance"
+      : scene.ground
+        ? "flat ground: pixels whose ray points below the horizon (z < 0) are empty (RGB and alpha 0)"
+        : "no ground: the bows continue below the horizon",
+    ...(scene.water ? { waterSurface: waterManifest(scene.water) } : {}),
     layer: {
       kind: scene.layer,
       channels: scene.layer === "premultiplied" ? "RGBA" : "RGB",
@@ -385,6 +412,22 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
   return { scene, hash, profile, colours, alpha, manifest };
 }
 
+function waterManifest(w: WaterSurface) {
+  const centre = azimuthElevationOf(w.reflectedAntisolar);
+  return {
+    kind: "calm" as const,
+    refractiveIndex: w.refractiveIndex,
+    reflectionBowCentre: { azimuthDeg: centre.azimuthDeg, elevationDeg: centre.elevationDeg, direction: w.reflectedAntisolar },
+    sunReflectance: { s: w.sunRs, p: w.sunRp, unpolarised: (w.sunRs + w.sunRp) / 2 },
+    model:
+      "a level mirror: the sunlight it reflects (Fresnel reflectances Rs, Rp at incidence 90° − sun elevation; Born & Wolf 1999 §1.5.2) lights the " +
+      "rain from below the horizon and makes a reflection bow about the antisolar point mirrored in the horizon, each polarisation scattered as " +
+      "such; pixels below the horizon show the sky mirrored, each polarisation reflected with its own reflectance; alpha there is the curtain's " +
+      "opacity times the water's reflectance (the curtain dims the reflected light, not the light from below the surface); the extra path " +
+      "of the reflected light through the air is left out",
+  };
+}
+
 export function renderPrepared(p: PreparedOverlay): Layer {
   return renderLayer({
     rays: p.scene.rays,
@@ -395,6 +438,7 @@ export function renderPrepared(p: PreparedOverlay): Layer {
     alpha: p.alpha,
     polariserAxis: p.scene.polariserAxis,
     polariserTangentCos2: p.scene.polariserTangentCos2,
+    water: p.scene.water,
   });
 }
 

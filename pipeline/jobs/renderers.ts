@@ -1,7 +1,6 @@
 // The renders a job can run, one entry per endpoint: the same schemas and render functions as the synchronous
 // routes, so that a job's result is byte for byte the synchronous answer.
 
-import type { z } from "zod";
 import { profileRequestSchema } from "../../schemas/profile.js";
 import { stripQuerySchema } from "../../schemas/formats.js";
 import { lutQuerySchema, lutRequestSchema } from "../../schemas/lut.js";
@@ -12,6 +11,9 @@ import { sizeMapQuerySchema, sizeMapRequestSchema, svgQuerySchema } from "../../
 import { renderOverlay } from "../render/view-render.js";
 import { renderChromaticityFigure, renderSizeMap } from "../render/figure-render.js";
 import type { RenderDeps, RenderOutput } from "../render/render-output.js";
+import { z } from "zod";
+import { sequenceJobBodySchema } from "../../schemas/sequence.js";
+import { renderSequence } from "../sequence/render-sequence.js";
 
 export interface JobRenderer {
   body: z.ZodType;
@@ -43,3 +45,10 @@ export const builtInRenderers: RendererRegistry = {
   "figure-chromaticity": defineRenderer({ body: profileRequestSchema, query: svgQuerySchema, render: (body, _query, deps) => renderChromaticityFigure(body, deps) }),
   "figure-size-map": defineRenderer({ body: sizeMapRequestSchema, query: sizeMapQuerySchema, render: (body, query, deps) => renderSizeMap(body, query.format ?? "svg", deps) }),
 };
+
+// A span of time (POST /v1/jobs with `sequence`): each frame by the renderers above, packed into one tar archive.
+builtInRenderers.sequence = defineRenderer({
+  body: sequenceJobBodySchema,
+  query: z.object({}).strict(),
+  render: (body, _query, deps) => renderSequence(body, builtInRenderers, deps),
+});

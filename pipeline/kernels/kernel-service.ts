@@ -5,12 +5,14 @@
 import { simdArithmetic } from "../../lib/mie/simd-amplitudes.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { setMaxListeners } from "node:events";
-import { ByteLru } from "./byte-lru.js";
+import type { LRUCache } from "lru-cache";
+import { byteBoundedCache } from "./byte-bounded-cache.js";
 import type { DiskStore } from "./disk-store.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
+import { shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
@@ -25,6 +27,8 @@ export interface KernelRequest {
   engines: DropEngine[];
   /** Per radius: Lorenz–Mie rows averaged over the node's radius cell (undefined: the node's own size). */
   averages?: (CellAverage | undefined)[];
+  /** Per radius: the drop's shape and place on the bow when it is not a sphere (undefined: a sphere). */
+  shapes?: (ShapedRowSpec | undefined)[];
   blocks: number[];
   /** Lattice indices (inclusive) the caller reads: rows need to be computed only there. */
   within: { first: number; last: number };
@@ -116,7 +120,7 @@ function packKey(m: DropMedium, variant: string, h: number, block: number): stri
 }
 
 export class KernelService {
-  readonly memory: ByteLru<Pack>;
+  readonly memory: LRUCache<string, Pack>;
   /** Rows being computed: pack key → radius → the task computing it and where the row sits in its result. */
   private readonly inflight = new Map<string, Map<number, InflightRow>>();
   private readonly packLoads = new Map<string, Promise<void>>();
@@ -136,21 +140,23 @@ export class KernelService {
       parallelism?: number;
     },
   ) {
-    this.memory = new ByteLru(options.memoryBudgetBytes);
+    this.memory = byteBoundedCache(options.memoryBudgetBytes);
   }
 
   /** Adds rows (radius → row) to a pack in memory: one cache update per pack, not per row. */
   private remember(pack: string, rows: Iterable<[number, Float64Array]>): void {
-    const entry = this.memory.take(pack) ?? new Pack();
+    const entry = this.memory.get(pack) ?? new Pack();
     for (const [radiusUm, row] of rows) entry.add(radiusUm, row);
+    // Set again so that the cache counts the pack's new size.
     this.memory.set(pack, entry);
   }
 
   async rows(request: KernelRequest, signal?: AbortSignal, watch: KernelWatch = {}): Promise<KernelRows> {
     const { h, media, radiiUm, engines, blocks, within } = request;
     const averages = request.averages ?? [];
-    // Rows of one engine with different cell averages are different rows: packs are per variant.
-    const variants = Array.from(radiiUm, (_, i) => rowVariant(engines[i], averages[i]));
+    const shapes = request.shapes ?? [];
+    // Rows of one engine with different cell averages or shapes are different rows: packs are per variant.
+    const variants = Array.from(radiiUm, (_, i) => shapedVariant(rowVariant(engines[i], averages[i]), shapes[i]));
     // The samples of each block the caller reads: k0..k1 in the block, first..last on the lattice.
     const need = blocks.map((b) => {
       const { first, count } = blockRange(b, h);
@@ -183,10 +189,13 @@ export class KernelService {
 
     // Progress: each row's estimated cost; rows found count at once, computed ones as their task ends.
     const threads = Math.max(1, this.options.parallelism ?? 1);
-    const cost = (l: number, i: number, bi: number) => {
-      const x = (2 * Math.PI * media[l].nAir * radiiUm[i] * 1000) / media[l].wavelengthNm;
-      return kernelRowCostNs(engines[i], x, need[bi].last - need[bi].first + 1, averages[i]?.samples ?? 1) / threads;
-    };
+    // Per wavelength and drop: the cost of one lattice sample of its row (the rows of one drop differ only in length).
+    const perSample = watch.onRows
+      ? media.map((m) =>
+          Array.from(radiiUm, (r, i) => kernelRowCostNs(engines[i], (2 * Math.PI * m.nAir * r * 1000) / m.wavelengthNm, 1, averages[i]?.samples ?? 1) / threads),
+        )
+      : [];
+    const cost = (l: number, i: number, bi: number) => perSample[l][i] * (need[bi].last - need[bi].first + 1);
     const costOf = (list: [number, number, number][]) => list.reduce((sum, [l, i, bi]) => sum + cost(l, i, bi), 0);
     let totalNs = 0;
     if (watch.onRows) for (let l = 0; l < media.length; l++) for (let i = 0; i < radiiUm.length; i++) for (let bi = 0; bi < blocks.length; bi++) totalNs += cost(l, i, bi);
@@ -241,7 +250,7 @@ export class KernelService {
     const toSave: [string, Map<number, Float64Array>][] = [];
     for (const [l, byRadius] of toCompute) {
       const indices = [...byRadius.keys()];
-      const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], average: averages[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
+      const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], average: averages[i], shape: shapes[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
       const computing = this.options.compute({ medium: media[l], h, items, within }, stop.signal);
       computing.catch(() => undefined);
       // The task's rows grouped by the pack they belong to (one wavelength, so one block per pack).

@@ -1,5 +1,6 @@
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import type { CellAverage } from "../../lib/bow/drop-rows.js";
+import type { ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import type { DropMedium } from "../../lib/water/drop-medium.js";
 
 
@@ -9,6 +10,8 @@ export interface KernelTaskItem {
   blocks: number[];
   /** Lorenz–Mie rows only: the row is the mean over sizes spread across the node's radius cell. */
   average?: CellAverage;
+  /** Drops that are not spheres: shape, canting and place on the bow (lib/bow/shaped-rows.ts); engine is then ignored. */
+  shape?: ShapedRowSpec;
 }
 
 /** One wavelength, several drops, each over some lattice blocks: the unit of work sent to a worker. */

@@ -73,7 +73,7 @@ export function positionAt(source: LightSource, at: PlaceAndMomentInput, field: 
     const where = `${at.latitudeDeg}°, ${at.longitudeDeg}°`;
     const depth = `${(-p.elevationDeg).toFixed(2)}° below the horizon`;
     if (at.belowHorizon !== "black") {
-      throw new ClientError("source-below-horizon", `at ${meta.utc} the ${source} is ${depth} at ${where}: there is no bow to render`, {
+      throw new ClientError("source-below-horizon", `body field '${field}.at.utc': at ${meta.utc} the ${source} is ${depth} at ${where}, so there is no bow to render`, {
         field: `${field}.at.utc`,
         allowed: `a moment when the ${source} is above the horizon there, or ${field}.at.belowHorizon "black" for a black result`,
         elevationDeg: meta.elevationDeg,

@@ -39,6 +39,16 @@ const overlayFields = {
   sun: z.strictObject(position),
   antisolarPoint: z.strictObject(position),
   ground: z.string(),
+  waterSurface: z
+    .strictObject({
+      kind: z.literal("calm"),
+      refractiveIndex: z.number(),
+      reflectionBowCentre: z.strictObject(position),
+      sunReflectance: z.strictObject({ s: z.number(), p: z.number(), unpolarised: z.number() }),
+      model: z.string(),
+    })
+    .optional()
+    .describe("the water below the horizon and the reflection bow's centre, when waterSurface was asked for"),
   layer: z.strictObject({
     kind: layerSchema.unwrap(),
     channels: z.enum(["RGBA", "RGB"]),

@@ -1,6 +1,7 @@
 import { lightSourceFields, visionMetaSchema } from "./light-source-response.js";
 import { z } from "zod";
 import { outputSchema, profileMethods, profileRequestSchema } from "../profile.js";
+import { shapeMetaSchema } from "./shape-meta.js";
 
 const rgbTriple = z.tuple([z.number(), z.number(), z.number()]);
 
@@ -23,6 +24,7 @@ export const methodSummarySchema = z
   .strictObject({
     requested: z.enum(profileMethods),
     engines: z.array(engineRangeSchema).describe("which engine served which drop radii"),
+    rule: z.string().optional().describe('method "auto": why it chose these engines (its Mie budget) and their measured error against full Mie'),
   })
   .describe("the engine asked for and those used");
 
@@ -48,6 +50,7 @@ export const sunSummarySchema = z.strictObject({ scale: z.string(), attenuated: 
 export const profileMetaSchema = z
   .strictObject({
     method: methodSummarySchema,
+    shape: shapeMetaSchema,
     units: z.strictObject({ anglesDeg: z.string(), luminance: z.string(), xyz: z.string(), spectralRadiance: z.string(), rgb: z.string() }),
     normalisation: outputSchema.shape.normalise.unwrap(),
     peakLuminanceCdPerM2: z.number(),

@@ -47,7 +47,7 @@ describe("static files of the page", () => {
   it("state the service's own auto switch radius and offer every mieSizesPerDecade the schema allows", () => {
     const page = readFileSync(fileURLToPath(new URL("../../web/index.html", import.meta.url)), "utf8");
     const script = readFileSync(fileURLToPath(new URL("../../web/request-body.js", import.meta.url)), "utf8");
-    expect(page).toContain(`Auto: Mie below ${AUTO_AIRY_FROM_RADIUS_UM} µm, else Airy`);
+    expect(page).toContain(`Auto: exact Mie where affordable (always below ${AUTO_AIRY_FROM_RADIUS_UM} µm), else Airy`);
     expect(script).toContain(`const AUTO_AIRY_FROM_RADIUS_UM = ${AUTO_AIRY_FROM_RADIUS_UM};`);
     const select = /<select id="mie-sizes" name="mieSizesPerDecade">([\s\S]*?)<\/select>/.exec(page)![1];
     const offered = [...select.matchAll(/value="([^"]+)"/g)].map((m) => (m[1] === "auto" ? "auto" : Number(m[1])));
@@ -321,6 +321,50 @@ describe("the explorer page in chromium", () => {
     expect(new Set(aborted)).toEqual(new Set(["net::ERR_ABORTED"]));
     profileDelayMs = 0;
 
+    expect(problems).toEqual([]);
+    await context.close();
+  });
+
+  it("place and time, the moon as the light and the eye's view: the requests carry them, the answers are shown", { timeout: 120_000 }, async () => {
+    const context = await browser.newContext({ viewport: { width: 1440, height: 1000 } });
+    const page = await context.newPage();
+    const problems: string[] = [];
+    page.on("pageerror", (e) => problems.push(`page error: ${e.message}`));
+    const bodies: { sun?: { at?: { utc: string } }; moon?: { at?: { utc: string } }; output: { vision: string } }[] = [];
+    page.on("request", (r) => {
+      if (r.url().endsWith("/v1/profile") && r.method() === "POST") bodies.push(JSON.parse(r.postData() ?? "{}"));
+    });
+    await page.goto(`${base}/?preset=garden-sprinkler`);
+    await waitForRender(page, 0);
+    // The place-and-time fields and the moon's phase appear only when chosen.
+    expect(await page.isVisible("#moment")).toBe(false);
+    expect(await page.isVisible("#phase")).toBe(false);
+
+    // The page's own example, an invented town at 47.2° N 8.4° E on 2026-06-21 at 18:30 UTC: the sun is up.
+    let n = await renders(page);
+    await page.selectOption("#position-by", "place-and-time");
+    await waitForRender(page, n);
+    expect(bodies.at(-1)!.sun!.at!.utc).toBe("2026-06-21T18:30:00Z");
+    expect(await page.getAttribute("#sky", "aria-label")).toMatch(/the sun is [\d.]+° high/);
+
+    // The moon, at an hour it stands high (2026-03-03 00:00 UTC, an invented place at 46.5° N 7.9° E), seen by eye.
+    n = await renders(page);
+    await page.selectOption("#light", "moon");
+    await page.fill("#moment", "2026-03-03T00:00");
+    await page.fill("#latitude", "46.5");
+    await page.fill("#longitude", "7.9");
+    await page.selectOption("#vision", "eye");
+    await waitForRender(page, n);
+    const last = bodies.at(-1)!;
+    expect(last.moon!.at!.utc).toBe("2026-03-03T00:00:00Z");
+    expect(last.sun).toBeUndefined();
+    expect(last.output.vision).toBe("eye");
+    expect(await page.getAttribute("#sky", "aria-label")).toMatch(/the moon is 51\.\d+° high/);
+
+    // A moment with the moon down: the service's 422 is shown, naming the field.
+    await page.fill("#moment", "2026-03-03T11:00");
+    await page.waitForFunction(() => /below the horizon/.test(document.getElementById("status")?.textContent ?? ""), null, { timeout: 30_000 });
+    expect(await page.textContent("#status")).toMatch(/moon\.at\.utc/);
     expect(problems).toEqual([]);
     await context.close();
   });

@@ -32,8 +32,9 @@ export const SHAPE_TABLE_MAX_DIAMETER_MM = SHAPE_TABLE_DIAMETERS_MM[SHAPE_TABLE_
 
 /**
  * c_0 … c_10 for an equal-volume diameter: linear in D between the tabulated diameters; below 1 mm the 1 mm row
- * scaled by (D/1 mm)², as the distortion of a small drop grows with its Weber number ∝ D·v², v ∝ D there
- * (Pruppacher & Klett 1997 §10.3.2, from memory); the table's own 1 → 1.5 mm rows grow by 2.3–2.6 ≈ 1.5².
+ * scaled by (D/1 mm)³, as the distortion of a small drop follows its Weber number ρv²D/σ with a fall speed v
+ * roughly ∝ D there: the axis ratios Pruppacher & Pitter (1971, J. Atmos. Sci. 28, 86) measured between 0.34 and
+ * 1.06 mm give 1 − q growing as D^2.8–3.1 (fixtures/drop-shapes, test/lib/drops/shape.test.ts).
  */
 export function equilibriumShapeCoefficients(diameterMm: number): Float64Array {
   const d = SHAPE_TABLE_DIAMETERS_MM;
@@ -42,7 +43,7 @@ export function equilibriumShapeCoefficients(diameterMm: number): Float64Array {
   }
   const out = new Float64Array(11);
   if (diameterMm <= d[0]) {
-    const scale = (diameterMm / d[0]) ** 2;
+    const scale = (diameterMm / d[0]) ** 3;
     SHAPE_TABLE_COEFFICIENTS_E4[0].forEach((c, n) => (out[n] = c * 1e-4 * scale));
     return out;
   }

@@ -63,10 +63,21 @@ describe("Beard & Chuang (1987) equilibrium raindrop shapes", () => {
     }
   });
 
-  it("small drops are spheres in the limit; the coefficients grow as D² below 1 mm", () => {
+  it("up to 1.24 mm diameter the flattening follows Pruppacher & Pitter's (1971) measured axis ratios within 0.0025", () => {
+    const small = JSON.parse(readFileSync(new URL("../../../fixtures/drop-shapes/pruppacher-pitter-1971-axis-ratios.json", import.meta.url), "utf8")) as {
+      radiusMm: number[];
+      axisRatio: number[];
+    };
+    // 0.0025: the spread of their wind-tunnel photographs' axis ratios (from memory); measured worst 0.0016 (0.62 mm).
+    small.radiusMm.forEach((r, i) => {
+      expect(Math.abs(outlineAxisRatio(equilibriumOutline(r * 1000)) - small.axisRatio[i])).toBeLessThanOrEqual(0.0025);
+    });
+  });
+
+  it("small drops are spheres in the limit; the coefficients grow as D³ below 1 mm", () => {
     const c1 = equilibriumShapeCoefficients(1);
     const cHalf = equilibriumShapeCoefficients(0.5);
-    cHalf.forEach((c, n) => expect(c).toBeCloseTo(c1[n] / 4, 12));
+    cHalf.forEach((c, n) => expect(c).toBeCloseTo(c1[n] / 8, 12));
     expect(outlineAxisRatio(equilibriumOutline(100))).toBeGreaterThan(0.999);
     expect(() => equilibriumShapeCoefficients(9.5)).toThrow(RangeError);
   });

@@ -1,0 +1,99 @@
+// Which drops of a profile request are served as flattened drops, with what shape and at which place on the bow,
+// and what the response's meta says about it.
+
+import type { ProfileRequest } from "../../schemas/profile.js";
+import type { ShapeMeta } from "../../schemas/responses/shape-meta.js";
+import { CANTING_SD_DEG, cantingNodesFive } from "../../lib/drops/shape/canting.js";
+import { AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
+import { outlineAxisRatio } from "../../lib/drops/shape/outline.js";
+import {
+  ARC_POSITION_STEP_DEG,
+  EQUILIBRIUM_NOTE,
+  FLATTENED_FROM_RADIUS_UM,
+  outlineFor,
+  quantiseSpec,
+  SUN_ELEVATION_STEP_DEG,
+  type ShapedRowSpec,
+} from "../../lib/bow/shaped-rows.js";
+
+/** Where along the bow a profile of flattened drops is taken when the request does not say: its side. */
+export const DEFAULT_ARC_POSITION_DEG = 90;
+
+export interface ShapePlan {
+  /** Per radius node: the flattened drop's spec, or undefined for a sphere. */
+  shapes: (ShapedRowSpec | undefined)[];
+  flattened: boolean;
+  meta: ShapeMeta;
+  warnings: string[];
+}
+
+const ENGINE =
+  "3D ray tracing through the drop (Fresnel coefficients for both polarisations, orders 0–3) with the primary and secondary bows in the uniform Airy form per scattering plane (Chester, Friedman & Ursell 1957; Berry & Mount 1972), phases and amplitudes from the traced rays";
+const ACCURACY =
+  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts)";
+const DEFAULT_NOTE =
+  "spheres unless drops.shape says otherwise: flattened drops cost seconds per drop size and wavelength (BENCHMARKS.md), beyond the 1.5 s goal of a cold default profile; ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
+
+export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array): ShapePlan {
+  const shape = request.drops.shape ?? { kind: "sphere" as const };
+  if (shape.kind === "sphere") {
+    const meta: ShapeMeta = { model: "sphere", default: DEFAULT_NOTE };
+    if (request.arcPositionDeg !== undefined) {
+      meta.note = `arcPositionDeg ${request.arcPositionDeg} changes nothing for spherical drops: their bow is the same all along the arc`;
+    }
+    return { shapes: Array.from(radiiUm, () => undefined), flattened: false, meta, warnings: [] };
+  }
+  const arcPositionDeg = request.arcPositionDeg ?? DEFAULT_ARC_POSITION_DEG;
+  const spec = quantiseSpec({
+    kind: shape.kind,
+    axisRatio: shape.kind === "spheroid" ? shape.axisRatio : undefined,
+    cantingSdDeg: shape.cantingSdDeg,
+    sunElevationDeg: request.sun.elevationDeg,
+    arcPositionDeg,
+    rayOnly: request.method === "geometric",
+  });
+  const shapes = Array.from(radiiUm, (r) => (shape.kind === "spheroid" || r >= FLATTENED_FROM_RADIUS_UM ? spec : undefined));
+  const flattenedRadii = Array.from(radiiUm).filter((_, i) => shapes[i] !== undefined);
+  const ratios = flattenedRadii.length
+    ? [flattenedRadii[0], flattenedRadii[flattenedRadii.length - 1]].map((r) => Math.round(outlineAxisRatio(outlineFor(spec, r)) * 1e4) / 1e4)
+    : [];
+  const meta: ShapeMeta = {
+    model: shape.kind === "equilibrium" ? "equilibrium (Beard & Chuang 1987; Chuang & Beard 1990 Table 1 coefficients)" : `spheroid, axis ratio ${shape.axisRatio}`,
+    engine: ENGINE,
+    accuracy: ACCURACY,
+    flattenedRadii: flattenedRadii.length
+      ? { fromUm: flattenedRadii[0], toUm: flattenedRadii[flattenedRadii.length - 1], nodes: flattenedRadii.length, axisRatioFrom: ratios[0], axisRatioTo: ratios[1] }
+      : null,
+    cantingSdDeg: shape.cantingSdDeg,
+    cantingSource: `default ${CANTING_SD_DEG}°: Huang, Bringi & Thurai 2008 measured 7–8°; averaged with a 5-point rule exact to degree 3`,
+    arcPositionDeg: spec.arcPositionDeg,
+    sunElevationDeg: spec.sunElevationDeg,
+    quantisation: `kernel rows are keyed on the sun's elevation to ${SUN_ELEVATION_STEP_DEG}° and the arc position to ${ARC_POSITION_STEP_DEG}°`,
+    default: DEFAULT_NOTE,
+  };
+  if (shape.kind === "equilibrium") meta.spheres = EQUILIBRIUM_NOTE;
+  if (request.arcPositionDeg === undefined) meta.note = `no arcPositionDeg given: the profile is taken at the side of the bow (${DEFAULT_ARC_POSITION_DEG}°)`;
+  const warnings: string[] = [];
+  // Airy-type bows need large drops: the sphere engine's own limit (lib/bow/engine-choice.ts) holds here too.
+  if (flattenedRadii.length && flattenedRadii[0] < AUTO_AIRY_FROM_RADIUS_UM) {
+    warnings.push(`flattened drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm radius are served by Airy-type theory outside its measured validity`);
+  }
+  return { shapes, flattened: flattenedRadii.length > 0, meta, warnings };
+}
+
+/**
+ * Work of one flattened-drop row per angle bin, in the Lorenz–Mie term-angles the synchronous limit is counted in:
+ * a 600-bin scattering-plane context (4 orders × 8001 pupil rays, then the two bows' tables) took 2.4–5.4 s on
+ * this project's 2-core machine at load average 17–20 (about 0.1 core), so ≈ 0.4 s of one core; at the measured
+ * ~0.75e9 term-angles/s per core (AUTO_DENSITY_BUDGET_TERM_ANGLES) that is ≈ 3.75e8 per context, 6.25e5 per bin.
+ * An estimate until bench P4 measures it on a quiet machine.
+ */
+export const SHAPED_TERM_ANGLES_PER_BIN = 6.25e5;
+
+/** Term-angle equivalent of a plan's flattened rows: nodes × wavelengths × canting nodes × bins. */
+export function shapedCostTermAngles(plan: ShapePlan, wavelengths: number, bins: number): number {
+  const spec = plan.shapes.find((s) => s !== undefined);
+  if (!spec) return 0;
+  const nodes = plan.shapes.filter((s) => s !== undefined).length;
+  return nodes * wavelengths * cantingNodesFive(spec.cantingSdDeg).length * bins * SHAPED_TERM_ANGLES_PER_BIN;
+}

@@ -1,0 +1,51 @@
+import { describe, expect, it } from "vitest";
+import { planDropShapes, shapedCostTermAngles } from "../../../pipeline/compute/drop-shape-plan.js";
+import { profileRequestSchema } from "../../../schemas/profile.js";
+import { loadConfig } from "../../../pipeline/config/config.js";
+
+const radii = Float64Array.from([50, 120, 150, 400, 1000, 2500]);
+
+describe("which drops are flattened, where on the bow, and at what cost", () => {
+  it("equilibrium: from 150 µm radius up, at the arc position and sun elevation rounded to the rows' steps", () => {
+    const request = profileRequestSchema.parse({
+      drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "equilibrium" } },
+      arcPositionDeg: 33.3,
+      sun: { elevationDeg: 12.6 },
+    });
+    const plan = planDropShapes(request, radii);
+    expect(plan.shapes.map((s) => s !== undefined)).toEqual([false, false, true, true, true, true]);
+    expect(plan.shapes[2]).toMatchObject({ kind: "equilibrium", arcPositionDeg: 33.5, sunElevationDeg: 12.5, cantingSdDeg: 7.5, rayOnly: false });
+    expect(plan.meta.flattenedRadii).toMatchObject({ fromUm: 150, toUm: 2500, nodes: 4 });
+    // Axis ratios of the model at 0.3 mm and 5 mm diameter (Beard & Chuang 1987 Table 1: 0.708 at 5 mm).
+    expect(plan.meta.flattenedRadii!.axisRatioFrom).toBeGreaterThan(0.999);
+    expect(Math.abs(plan.meta.flattenedRadii!.axisRatioTo - 0.708)).toBeLessThan(0.01);
+  });
+
+  it("spheroid: every size; geometric method: ray optics only; no arc position: the side, with a note", () => {
+    const request = profileRequestSchema.parse({
+      drops: { kind: "monodisperse", radiusUm: 800, shape: { kind: "spheroid", axisRatio: 0.85 } },
+      method: "geometric",
+    });
+    const plan = planDropShapes(request, radii);
+    expect(plan.shapes.every((s) => s?.kind === "spheroid" && s.axisRatio === 0.85 && s.rayOnly && s.arcPositionDeg === 90)).toBe(true);
+    expect(plan.meta.note).toMatch(/side/);
+    expect(plan.warnings.join(" ")).toMatch(/below 100 µm/);
+  });
+
+  it("spheres: no flattened rows, and an arc position is noted as changing nothing", () => {
+    const plan = planDropShapes(profileRequestSchema.parse({ arcPositionDeg: 10 }), radii);
+    expect(plan.flattened).toBe(false);
+    expect(plan.shapes.every((s) => s === undefined)).toBe(true);
+    expect(plan.meta.note).toMatch(/changes nothing/);
+    expect(shapedCostTermAngles(plan, 41, 600)).toBe(0);
+  });
+
+  it("the README's synchronous example fits the default synchronous budget; the full spectrum does not", () => {
+    const budget = loadConfig({}).maxProfileTermAngles;
+    const drops = { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium" } };
+    const plan = planDropShapes(profileRequestSchema.parse({ drops, arcPositionDeg: 0 }), Float64Array.from([1000]));
+    // ψ 38–44° at 0.05° plus the sun's disc: about 132 lattice points; 500–600 nm in 20 nm steps: 6 wavelengths.
+    expect(shapedCostTermAngles(plan, 6, 132)).toBeLessThan(budget);
+    expect(shapedCostTermAngles(plan, 41, 612)).toBeGreaterThan(budget);
+  });
+});

@@ -1,0 +1,66 @@
+// Kernel rows of flattened drops are cached like every kernel row, keyed on what they depend on: the shape, the
+// canting, the sun's elevation and the arc position (each rounded as lib/bow/shaped-rows.ts says), on disk too.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { mkdtemp, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { KernelService, type KernelCompute } from "../../../pipeline/kernels/kernel-service.js";
+import { DiskStore } from "../../../pipeline/kernels/disk-store.js";
+import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
+import { computeProfile } from "../../../pipeline/compute/profile.js";
+import { profileRequestSchema } from "../../../schemas/profile.js";
+
+const limits = { maxTermAngles: Infinity };
+// One drop size, no canting, two wavelengths and a narrow window: a few seconds of ray tracing per profile.
+const body = (arcPositionDeg: number, sunElevationDeg = 10) =>
+  profileRequestSchema.parse({
+    drops: { kind: "monodisperse", radiusUm: 600, shape: { kind: "equilibrium", cantingSdDeg: 0 } },
+    arcPositionDeg,
+    sun: { elevationDeg: sunElevationDeg },
+    angles: { fromDeg: 40, toDeg: 42, stepDeg: 0.05 },
+    spectral: { fromNm: 540, toNm: 560, stepNm: 20 },
+  });
+
+let folder: string;
+beforeAll(async () => {
+  folder = await mkdtemp(join(tmpdir(), "antisolar-shaped-"));
+});
+afterAll(async () => rm(folder, { recursive: true, force: true }));
+
+describe("kernel rows of flattened drops", () => {
+  it("are computed once, found again in memory and on disk, and kept apart by arc position and sun elevation", async () => {
+    let tasks = 0;
+    const inline = createInlinePool().compute;
+    const compute: KernelCompute = (task, signal) => {
+      tasks++;
+      return inline(task, signal);
+    };
+    const disk = new DiskStore(folder);
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 28, compute, disk });
+    const first = await computeProfile(body(0), { kernels, limits });
+    expect(first.meta.kernel.computed).toBeGreaterThan(0);
+    const computedTasks = tasks;
+
+    // The same request, and one whose arc position rounds to the same 0.5° step: memory hits only.
+    for (const arc of [0, 0.2]) {
+      const again = await computeProfile(body(arc), { kernels, limits });
+      expect(again.meta.kernel.computed).toBe(0);
+      expect(Array.from(again.spectral.perpendicular)).toEqual(Array.from(first.spectral.perpendicular));
+    }
+    expect(tasks).toBe(computedTasks);
+
+    // Another place on the bow, or another sun: other rows.
+    const side = await computeProfile(body(90), { kernels, limits });
+    expect(side.meta.kernel.computed).toBeGreaterThan(0);
+    const higherSun = await computeProfile(body(0, 20), { kernels, limits });
+    expect(higherSun.meta.kernel.computed).toBeGreaterThan(0);
+
+    // A new service on the same disk (as after a restart) reads the rows back.
+    await kernels.flush();
+    const restarted = new KernelService({ memoryBudgetBytes: 2 ** 28, compute, disk: new DiskStore(folder) });
+    const fromDisk = await computeProfile(body(0), { kernels: restarted, limits });
+    expect(fromDisk.meta.kernel.computed).toBe(0);
+    expect(fromDisk.meta.kernel.diskHits).toBeGreaterThan(0);
+    expect(Array.from(fromDisk.spectral.perpendicular)).toEqual(Array.from(first.spectral.perpendicular));
+  }, 600_000);
+});
