@@ -78,9 +78,15 @@ async function registerApp(app: FastifyInstance, { config }: AppPluginOptions): 
   // On close: event streams end first (they would hold the server open), then, once requests in flight have ended,
   // a job this process runs itself (JOBS_IN_PROCESS) finishes or goes back to the queue before the grace is over.
   let closeStartedAt = Date.now();
+  let closing = false;
   app.addHook("preClose", async () => {
+    closing = true;
     closeStartedAt = Date.now();
     jobs.endStreams();
+  });
+  // An answer finished while closing ends its connection too: a kept-alive one would hold the server open.
+  app.addHook("onSend", async (_request, reply) => {
+    if (closing) reply.header("connection", "close");
   });
   app.addHook("onClose", async () => {
     const { abandonAt, exitAt } = deadlines(config.shutdownGraceMs, closeStartedAt);
