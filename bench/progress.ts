@@ -1,11 +1,12 @@
 // npm run bench:progress: (1) the costs progress is weighted by (pipeline/progress/work-costs.ts), measured on one
 // core; (2) a cold full-Mie shower (P3) on 2 worker threads with and without a progress listener, alternating, in
 // one run; (3) the estimate of time left when the fraction first reaches 50 % against the time that was actually
-// left. Prints the figures and writes them into BENCHMARKS.md between <!-- progress:start --> and <!-- progress:end -->.
+// left; (4) what counting costs by itself on a warm cache. Prints the figures and writes them into BENCHMARKS.md
+// between <!-- progress:start --> and <!-- progress:end --> (`-- --counting-only`: only (4), printed).
 import { performance } from "node:perf_hooks";
 import { kernelRows, type KernelRowsInput } from "../lib/bow/kernel-rows.js";
 import { blocksOf, latticeSpan, KERNEL_STEPS_DEG } from "../lib/bow/kernel-grid.js";
-import { waterIndex } from "../lib/water/water-index.js";
+import { dropMedium } from "../lib/water/drop-medium.js";
 import type { DropEngine } from "../lib/bow/volume-scattering.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { viewRequestSchema } from "../schemas/view.js";
@@ -26,9 +27,8 @@ const samples = SPAN.last - SPAN.first + 1;
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)];
 
 function task(engine: DropEngine, radiiUm: number[]): KernelRowsInput {
-  const water = waterIndex({ wavelengthNm: 550, temperatureC: 15, salinityPsu: 0 });
   return {
-    medium: { wavelengthNm: 550, mRe: water.nRelativeToAir, mIm: water.k, nAir: water.n / water.nRelativeToAir },
+    medium: dropMedium({ temperatureC: 15, salinityPsu: 0 }, 550),
     h: SPAN.h,
     items: radiiUm.map((radiusUm) => ({ radiusUm, engine, blocks: blocksOf(SPAN) })),
     within: { first: SPAN.first, last: SPAN.last },
@@ -130,6 +130,8 @@ async function workCosts() {
 interface ShowerRun {
   ms: number;
   updates: ProgressUpdate[];
+  /** Largest difference between the fraction reported and the share of the run's time gone by then (0: perfectly even). */
+  unevenness: number;
   /** Estimate of seconds left when the fraction first reached 50 %, and the seconds that were actually left. */
   atHalf: { estimateS: number | null; actualS: number } | null;
 }
@@ -137,20 +139,47 @@ interface ShowerRun {
 async function coldShower(pool: ReturnType<typeof createWorkerPool>, listen: boolean): Promise<ShowerRun> {
   const kernels = new KernelService({ memoryBudgetBytes: 2 ** 31, compute: pool.compute, parallelism: pool.threads });
   const updates: ProgressUpdate[] = [];
+  const times: number[] = [];
   let half: { at: number; estimateS: number | null } | null = null;
   const t0 = performance.now();
   const progress = listen
     ? new ProgressMeter(PROFILE_STAGES, (u) => {
         updates.push(u);
+        times.push(performance.now());
         if (!half && u.fraction >= 0.5) half = { at: performance.now(), estimateS: u.secondsLeft };
       })
     : undefined;
   await computeProfile(profileRequestSchema.parse(P3.body), { kernels, limits: { maxTermAngles: Infinity }, progress });
   const end = performance.now();
   const h = half as { at: number; estimateS: number | null } | null;
-  return { ms: end - t0, updates, atHalf: h ? { estimateS: h.estimateS, actualS: (end - h.at) / 1000 } : null };
+  const unevenness = Math.max(0, ...updates.map((u, k) => Math.abs(u.fraction - (times[k] - t0) / (end - t0))));
+  return { ms: end - t0, updates, unevenness, atHalf: h ? { estimateS: h.estimateS, actualS: (end - h.at) / 1000 } : null };
 }
 
+/**
+ * What counting costs by itself: the rows of a P3 request read from a warm cache (no computing), with and without
+ * a progress listener — every row's cost estimate and every report, nothing else. Medians of 9, alternating.
+ */
+async function bookkeeping(): Promise<{ withoutMs: number; withMs: number; rows: number }> {
+  const kernels = new KernelService({ memoryBudgetBytes: 2 ** 31, compute: createInlinePool().compute });
+  const request = profileRequestSchema.parse({ ...P3.body, method: "auto" });
+  const first = await computeProfile(request, { kernels, limits: { maxTermAngles: Infinity } });
+  const kernel = first.meta.kernel as { rows: number };
+  const without: number[] = [];
+  const withListener: number[] = [];
+  for (let r = 0; r < 9; r++) {
+    for (const listen of [false, true]) {
+      const t0 = performance.now();
+      await computeProfile(request, { kernels, limits: { maxTermAngles: Infinity }, progress: listen ? new ProgressMeter(PROFILE_STAGES, () => undefined) : undefined });
+      (listen ? withListener : without).push(performance.now() - t0);
+    }
+  }
+  return { withoutMs: median(without), withMs: median(withListener), rows: kernel.rows };
+}
+
+const counting = await bookkeeping();
+console.log(`warm P3 drops (auto), ${counting.rows} rows: without a listener ${counting.withoutMs.toFixed(1)} ms, with ${counting.withMs.toFixed(1)} ms`);
+if (process.argv.includes("--counting-only")) process.exit(0);
 const costs = await workCosts();
 for (const [name, ns] of Object.entries(costs)) console.log(`${name}: ${ns.toPrecision(3)} ns (in use: ${COST_NS[name as keyof typeof COST_NS]})`);
 
@@ -191,12 +220,15 @@ writeMarkedSection("progress", [
   "P3 (Marshall–Palmer 25 mm/h, full Mie) cold on 2 worker threads, alternating without and with a progress listener",
   "(pipeline/progress/progress-meter.ts; the listener keeps every update):",
   "",
-  "| run | without listener (ms) | with listener (ms) | updates | distinct fractions | time left estimated at 50 % (s) | actually left (s) |",
-  "|---|---|---|---|---|---|---|",
+  "| run | without listener (ms) | with listener (ms) | updates | distinct fractions | largest gap between fraction and time share | time left estimated at 50 % (s) | actually left (s) |",
+  "|---|---|---|---|---|---|---|---|",
   ...withListener.map(
     (r, k) =>
-      `| ${k + 1} | ${without[k].toFixed(0)} | ${r.ms.toFixed(0)} | ${r.updates.length} | ${distinct[k]} | ${r.atHalf?.estimateS?.toFixed(2) ?? "–"} | ${r.atHalf?.actualS.toFixed(2) ?? "–"} |`,
+      `| ${k + 1} | ${without[k].toFixed(0)} | ${r.ms.toFixed(0)} | ${r.updates.length} | ${distinct[k]} | ${r.unevenness.toFixed(3)} | ${r.atHalf?.estimateS?.toFixed(2) ?? "–"} | ${r.atHalf?.actualS.toFixed(2) ?? "–"} |`,
   ),
   "",
   `Median with a listener against without: ${(100 * (withMs / withoutMs - 1)).toFixed(1)} %.`,
+  "",
+  `What counting costs by itself (every row's cost estimate and report, no computing): P3's drops under auto read from a warm`,
+  `cache, ${counting.rows} rows, median of 9 alternating: without a listener ${counting.withoutMs.toFixed(1)} ms, with ${counting.withMs.toFixed(1)} ms.`,
 ]);

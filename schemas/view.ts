@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { profileRequestSchema, sunSchema } from "./profile.js";
+import { checkProfilePhysics, profileRequestSchema, sunSchema } from "./profile.js";
 import { placeAndMomentSchema } from "./place-and-time.js";
 import { moonPositionSchema } from "./moon.js";
 import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
@@ -19,6 +19,7 @@ export const viewScenarioSchema = z
     pathLengthM: profileFields.pathLengthM.describe("Path length through the rain along every line of sight, m (sets the bow's radiance and the curtain's opacity)"),
   })
   .strict()
+  .superRefine(checkProfilePhysics)
   .prefault({})
   .describe("Drops, water, sunlight, observer, wavelengths, engine and path length, as in POST /v1/profile; angles are chosen to fit the image");
 

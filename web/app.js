@@ -6,12 +6,14 @@ import { drawStrip } from "./strip.js";
 import { drawProfilePlot } from "./profile-plot.js";
 import { drawChromaticity } from "./chromaticity.js";
 import { drawSkyView } from "./sky-view.js";
+import { runAsJob, tooCostly } from "./job-runner.js";
 
 const $ = (id) => document.getElementById(id);
 const form = $("controls");
 const status = $("status");
 const elapsed = $("elapsed");
 const cancelButton = $("cancel");
+const jobBar = { progress: $("job-progress"), text: $("job-progress-text") };
 
 const state = {
   preview: null, // AbortController of the running preview
@@ -180,13 +182,19 @@ async function renderPreview(body) {
   const token = startBusy("Rendering the preview");
   const started = performance.now();
   try {
-    const res = await fetch("/v1/profile", {
+    let res = await fetch("/v1/profile", {
       method: "POST",
       headers: { "content-type": "application/json", accept: "application/json" },
       body: JSON.stringify(body),
       signal: controller.signal,
     });
-    const data = await res.json();
+    let data = await res.json();
+    if (tooCostly(res.status, data)) {
+      // Beyond the synchronous limit: the same render as a background job, with its progress bar.
+      announce("Rendering the preview as a background job (beyond the synchronous limit)…");
+      res = await runAsJob("profile", body, { format: "json" }, controller.signal, jobBar);
+      data = await res.json();
+    }
     if (!res.ok) {
       endBusy(token, `The service refused this preview: ${errorText(data)}`, true);
       return;
@@ -358,12 +366,21 @@ async function download(format) {
   state.downloads.add(controller);
   const token = startBusy(`Rendering the ${kind.label} at ${fullBody().spectral.stepNm} nm`);
   try {
-    const res = await fetch(kind.url(), {
+    let res = await fetch(kind.url(), {
       method: "POST",
       headers: { "content-type": "application/json" },
       body: JSON.stringify(body),
       signal: controller.signal,
     });
+    if (res.status === 422) {
+      const refusal = await res.clone().json().catch(() => null);
+      if (tooCostly(res.status, refusal)) {
+        const url = new URL(kind.url(), location.origin);
+        // /v1/profile → profile, /v1/figure/chromaticity → figure-chromaticity: the job endpoints' names.
+        const endpoint = url.pathname.slice("/v1/".length).replace("/", "-");
+        res = await runAsJob(endpoint, body, Object.fromEntries(url.searchParams), controller.signal, jobBar);
+      }
+    }
     if (!res.ok) {
       endBusy(token, `The service refused the export: ${errorText(await res.json().catch(() => null))}`, true);
       return;

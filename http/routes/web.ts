@@ -20,6 +20,7 @@ const WEB_FILES: ReadonlyMap<string, string> = new Map([
   ["profile-plot.js", "text/javascript; charset=utf-8"],
   ["chromaticity.js", "text/javascript; charset=utf-8"],
   ["sky-view.js", "text/javascript; charset=utf-8"],
+  ["job-runner.js", "text/javascript; charset=utf-8"],
   ["icon.svg", "image/svg+xml"],
 ]);
 

@@ -5,7 +5,8 @@
 import { simdArithmetic } from "../../lib/mie/simd-amplitudes.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { setMaxListeners } from "node:events";
-import { ByteLru } from "./byte-lru.js";
+import type { LRUCache } from "lru-cache";
+import { byteBoundedCache } from "./byte-bounded-cache.js";
 import type { DiskStore } from "./disk-store.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 import type { DropMedium } from "../../lib/water/drop-medium.js";
@@ -116,7 +117,7 @@ function packKey(m: DropMedium, variant: string, h: number, block: number): stri
 }
 
 export class KernelService {
-  readonly memory: ByteLru<Pack>;
+  readonly memory: LRUCache<string, Pack>;
   /** Rows being computed: pack key → radius → the task computing it and where the row sits in its result. */
   private readonly inflight = new Map<string, Map<number, InflightRow>>();
   private readonly packLoads = new Map<string, Promise<void>>();
@@ -136,13 +137,14 @@ export class KernelService {
       parallelism?: number;
     },
   ) {
-    this.memory = new ByteLru(options.memoryBudgetBytes);
+    this.memory = byteBoundedCache(options.memoryBudgetBytes);
   }
 
   /** Adds rows (radius → row) to a pack in memory: one cache update per pack, not per row. */
   private remember(pack: string, rows: Iterable<[number, Float64Array]>): void {
-    const entry = this.memory.take(pack) ?? new Pack();
+    const entry = this.memory.get(pack) ?? new Pack();
     for (const [radiusUm, row] of rows) entry.add(radiusUm, row);
+    // Set again so that the cache counts the pack's new size.
     this.memory.set(pack, entry);
   }
 
@@ -183,10 +185,13 @@ export class KernelService {
 
     // Progress: each row's estimated cost; rows found count at once, computed ones as their task ends.
     const threads = Math.max(1, this.options.parallelism ?? 1);
-    const cost = (l: number, i: number, bi: number) => {
-      const x = (2 * Math.PI * media[l].nAir * radiiUm[i] * 1000) / media[l].wavelengthNm;
-      return kernelRowCostNs(engines[i], x, need[bi].last - need[bi].first + 1, averages[i]?.samples ?? 1) / threads;
-    };
+    // Per wavelength and drop: the cost of one lattice sample of its row (the rows of one drop differ only in length).
+    const perSample = watch.onRows
+      ? media.map((m) =>
+          Array.from(radiiUm, (r, i) => kernelRowCostNs(engines[i], (2 * Math.PI * m.nAir * r * 1000) / m.wavelengthNm, 1, averages[i]?.samples ?? 1) / threads),
+        )
+      : [];
+    const cost = (l: number, i: number, bi: number) => perSample[l][i] * (need[bi].last - need[bi].first + 1);
     const costOf = (list: [number, number, number][]) => list.reduce((sum, [l, i, bi]) => sum + cost(l, i, bi), 0);
     let totalNs = 0;
     if (watch.onRows) for (let l = 0; l < media.length; l++) for (let i = 0; i < radiiUm.length; i++) for (let bi = 0; bi < blocks.length; bi++) totalNs += cost(l, i, bi);

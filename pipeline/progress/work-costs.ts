@@ -8,7 +8,7 @@ import { mieTermCount } from "../../lib/mie/termCount.js";
 
 export const COST_NS = {
   /** One Lorenz–Mie term at one angle (coefficients and amplitudes together). */
-  mieTermAngle: 7.5,
+  mieTermAngle: 4.7,
   /** One sample of an Airy-engine row (uniform bow formula for the bows, ray optics for the rest). */
   airySample: 4600,
   /** One sample of a ray-optics row. */

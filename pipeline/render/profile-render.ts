@@ -10,7 +10,6 @@ import { jsonOutput, headerSafe, type RenderDeps, type RenderOutput } from "./re
 import { profileSvg } from "../../lib/figures/profile-figure.js";
 import type { ProfileResponse } from "../../schemas/responses/profile-response.js";
 import { annotate, resolveProfileRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
-import type { SourcePositionMeta } from "../sky/source-position.js";
 
 export type StripQuery = z.output<typeof stripQuerySchema>;
 export type ProfileFormat = "json" | "png" | "png16" | "svg";
@@ -48,7 +47,7 @@ export function profileJson(result: ProfileResult): ProfileResponse {
 
 function describingHeaders(result: ProfileResult): Record<string, string> {
   return {
-    ...sourcePositionHeaders(result.meta.sourcePosition as SourcePositionMeta | undefined),
+    ...sourcePositionHeaders(result.meta.sourcePosition),
     "x-antisolar-hash": result.meta.hash,
     "x-antisolar-space": result.request.output.space,
     "x-antisolar-compute-ms": String(result.meta.computeMs),
@@ -57,8 +56,12 @@ function describingHeaders(result: ProfileResult): Record<string, string> {
   };
 }
 
-/** A profile's progress: its own stages, then the encoding of the answer (planned before the work starts). */
-export function profileProgress(body: ProfileRequest, format: ProfileFormat, deps: RenderDeps): ProgressMeter {
+/**
+ * A profile's progress: its own stages, then the encoding of the answer (planned before the work starts). None
+ * when nobody listens (synchronous requests): then nothing is counted.
+ */
+export function profileProgress(body: ProfileRequest, format: ProfileFormat, deps: RenderDeps): ProgressMeter | undefined {
+  if (!deps.onProgress) return undefined;
   const meter = new ProgressMeter([...PROFILE_STAGES, "encoding"], deps.onProgress);
   meter.plan("encoding", angleCount(body.angles) * (format === "png" || format === "png16" ? COST_NS.pngAngle : COST_NS.jsonAngle));
   return meter;
@@ -71,8 +74,8 @@ export async function renderProfile(request: ProfileRequest, format: ProfileForm
   const result = await computeProfile(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask });
   annotate(result.meta, resolved);
   const output = await encodeProfile(result, body, format, query);
-  progress.complete("encoding");
-  progress.done();
+  progress?.complete("encoding");
+  progress?.done();
   return output;
 }
 

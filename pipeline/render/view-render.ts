@@ -15,22 +15,23 @@ export async function renderOverlay(
 ): Promise<RenderOutput> {
   const resolved = resolveOverlayRequest(request);
   const body = resolved.body;
-  const progress = new ProgressMeter([...PROFILE_STAGES, "pixels"], deps.onProgress);
-  if (query.part !== "manifest") {
+  // Counted only when somebody listens (a job), as for profiles.
+  const progress = deps.onProgress ? new ProgressMeter([...PROFILE_STAGES, "pixels"], deps.onProgress) : undefined;
+  if (progress && query.part !== "manifest") {
     const { widthPx, heightPx } = endpoint === "view" ? (body as ViewRequest).camera : (body as SkyRequest);
     progress.plan("pixels", widthPx * heightPx * COST_NS.overlayPixel);
   }
   const viewDeps = { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask };
   const prepared = endpoint === "view" ? await prepareView(body as ViewRequest, query.format, viewDeps) : await prepareSky(body as SkyRequest, query.format, viewDeps);
-  annotate(prepared.manifest as Record<string, unknown>, resolved);
+  annotate(prepared.manifest, resolved);
   const m = prepared.manifest;
   if (query.part === "manifest") {
-    progress.done();
+    progress?.done();
     return jsonOutput(prepared.manifest, { "x-antisolar-hash": m.hash });
   }
   const file = await encodeOverlay(prepared, query.format);
-  progress.complete("pixels");
-  progress.done();
+  progress?.complete("pixels");
+  progress?.done();
   return {
     contentType: file.contentType,
     body: file.body,

@@ -6,6 +6,10 @@ import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
 import { computeProfile, PROFILE_STAGES } from "../../../pipeline/compute/profile.js";
 import { profileRequestSchema } from "../../../schemas/profile.js";
 import { ProgressMeter, type ProgressUpdate } from "../../../pipeline/progress/progress-meter.js";
+import { renderOverlay } from "../../../pipeline/render/view-render.js";
+import { renderProfile } from "../../../pipeline/render/profile-render.js";
+import { imageQuerySchema, viewRequestSchema } from "../../../schemas/view.js";
+import { stripQuerySchema } from "../../../schemas/formats.js";
 
 // 16 wavelengths: one kernel task each (a task is one wavelength's rows).
 const body = profileRequestSchema.parse({
@@ -48,5 +52,28 @@ describe("profile progress", () => {
     expect(first.fraction).toBeGreaterThan(0.5);
     // Found rows are not work done here: no estimate of time left from them.
     expect(first.secondsLeft).toBeNull();
+  });
+
+  it("a camera view counts its pixels after the profile, and a synchronous render (no listener) counts nothing", async () => {
+    const updates: ProgressUpdate[] = [];
+    const view = viewRequestSchema.parse({
+      scenario: { drops: { kind: "monodisperse", radiusUm: 300 }, spectral: { fromNm: 400, toNm: 700, stepNm: 20 } },
+      camera: { widthPx: 64, heightPx: 36 },
+    });
+    await renderOverlay("view", view, imageQuerySchema.parse({ format: "png" }), { kernels, maxTermAngles: Infinity, onProgress: (u) => updates.push(u) });
+    const stages = updates.map((u) => u.stage);
+    expect(stages.indexOf("pixels")).toBeGreaterThan(stages.lastIndexOf("kernels"));
+    expect(updates.at(-1)!.fraction).toBe(1);
+    for (let k = 1; k < updates.length; k++) expect(updates[k].fraction).toBeGreaterThanOrEqual(updates[k - 1].fraction);
+    // Without a listener the kernel service is asked for no report at all.
+    let watched = false;
+    const spy = new KernelService({ memoryBudgetBytes: 2 ** 26, compute: createInlinePool().compute });
+    const rows = spy.rows.bind(spy);
+    spy.rows = (request, signal, watch) => {
+      watched ||= Boolean(watch?.onRows);
+      return rows(request, signal, watch);
+    };
+    await renderProfile(body, "json", stripQuerySchema.parse({}), { kernels: spy, maxTermAngles: Infinity });
+    expect(watched).toBe(false);
   });
 });
