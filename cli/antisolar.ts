@@ -130,17 +130,12 @@ async function render(input: string | undefined, values: CliValues): Promise<voi
   });
 }
 
-/** A span of time as numbered frames in one tar archive, as a sequence job (POST /v1/jobs) makes it. */
+/** A span of time: the body of POST /v1/jobs with "sequence", rendered here (cli/sequence-command.ts). */
 async function sequence(input: string | undefined, values: CliValues): Promise<void> {
   const output = values.output;
   if (!input || !output) throw new UsageError("sequence needs a job file and -o <file.tar>");
   const job = await readJson(input);
-  const runtime = createKernelRuntime(oneShotConfig());
-  try {
-    console.log(await sequenceCommand(job, output, runtime.kernels));
-  } finally {
-    await runtime.close();
-  }
+  await withKernels(async (deps) => console.log(await sequenceCommand(job, output, deps.kernels)));
 }
 
 async function main(): Promise<void> {

@@ -78,6 +78,8 @@ function updateVisibility() {
   [temperature.min, temperature.max] = spectrum === "cie-daylight" ? ["4000", "25000"] : ["1000", "50000"];
   $("polariser").disabled = !$("polariser-on").checked;
   $("elevation-value").textContent = `${$("elevation").value}°`;
+  const scrub = Number($("scrub").value);
+  $("scrub-value").textContent = scrub === 0 ? "±0 h" : `${scrub > 0 ? "+" : "−"}${Math.floor(Math.abs(scrub) / 60)} h ${String(Math.abs(scrub) % 60).padStart(2, "0")} min`;
   const light = form.elements.namedItem("light").value;
   const position = form.elements.namedItem("positionBy").value;
   for (const el of form.querySelectorAll("[data-light], [data-position]")) {

@@ -53,6 +53,7 @@ export function writeForm(form, body) {
   if (source.at) {
     // The form's moment is UTC to the minute: "2026-06-21T18:30".
     setValue(form, "moment", new Date(source.at.utc).toISOString().slice(0, 16));
+    setValue(form, "scrubMinutes", 0);
     setValue(form, "latitudeDeg", source.at.latitudeDeg);
     setValue(form, "longitudeDeg", source.at.longitudeDeg);
   }
@@ -113,7 +114,12 @@ function spectrumFromForm(form) {
 /** The light's position: its elevation, or a moment (UTC) and a place. */
 function positionFromForm(form) {
   if (field(form, "positionBy").value === "elevation") return { elevationDeg: numberOf(form, "elevationDeg") };
-  return { at: { utc: `${field(form, "moment").value}:00Z`, latitudeDeg: numberOf(form, "latitudeDeg"), longitudeDeg: numberOf(form, "longitudeDeg") } };
+  // The scrubber shifts the moment by whole minutes from the date-time field (a preview of a sequence's frames).
+  const base = Date.parse(`${field(form, "moment").value}:00Z`);
+  const shifted = base + numberOf(form, "scrubMinutes") * 60_000;
+  // An unfinished date-time stays as typed: the form's validity check stops it before it is sent.
+  const utc = Number.isFinite(shifted) ? new Date(shifted).toISOString().replace(".000Z", "Z") : `${field(form, "moment").value}:00Z`;
+  return { at: { utc, latitudeDeg: numberOf(form, "latitudeDeg"), longitudeDeg: numberOf(form, "longitudeDeg") } };
 }
 
 /** The light: the sun with its spectrum and disc, or the moon (whose spectrum, brightness and disc the service computes). */

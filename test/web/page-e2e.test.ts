@@ -346,6 +346,17 @@ describe("the explorer page in chromium", () => {
     await waitForRender(page, n);
     expect(bodies.at(-1)!.sun!.at!.utc).toBe("2026-06-21T18:30:00Z");
     expect(await page.getAttribute("#sky", "aria-label")).toMatch(/the sun is [\d.]+° high/);
+    const evening = Number(/the sun is ([\d.]+)° high/.exec((await page.getAttribute("#sky", "aria-label")) ?? "")![1]);
+
+    // The scrubber moves the moment as a sequence's frames would: an hour earlier the sun stands higher.
+    n = await renders(page);
+    await page.fill("#scrub", "-60");
+    await waitForRender(page, n);
+    expect(bodies.at(-1)!.sun!.at!.utc).toBe("2026-06-21T17:30:00Z");
+    expect(await page.textContent("#scrub-value")).toBe("−1 h 00 min");
+    const earlier = Number(/the sun is ([\d.]+)° high/.exec((await page.getAttribute("#sky", "aria-label")) ?? "")![1]);
+    expect(earlier).toBeGreaterThan(evening);
+    await page.fill("#scrub", "0");
 
     // The moon, at an hour it stands high (2026-03-03 00:00 UTC, an invented place at 46.5° N 7.9° E), seen by eye.
     n = await renders(page);
