@@ -130,6 +130,11 @@ const duplicateKeys = fc
     return { label: "duplicate-key", text: `{"${key}":1,"${twin}":2}` };
   });
 
+/** "__proto__" (also spelled with escapes) becomes the prototype when an object is copied. */
+const protoKey = fc
+  .constantFrom('{"__proto__":{"x":1}}', '{"\\u005f_proto__":{}}', '{"a":1,"__proto__":null}')
+  .map((text) => ({ label: "proto-key", text }));
+
 const badCodePoint = fc
   .oneof(
     fc.integer({ min: 0xd800, max: 0xdfff }).map((c) => `\\u${c.toString(16)}`),
@@ -139,7 +144,7 @@ const badCodePoint = fc
   .chain((s) => fc.constantFrom({ label: "bad-unicode-value", text: `"${s}"` }, { label: "bad-unicode-key", text: `{"${s}":0}` }));
 
 /** A hostile value for any place in a body. */
-export const hostileValue = fc.oneof(deep, wideArray, wideObject, longString, longKey, hugeNumber, duplicateKeys, badCodePoint);
+export const hostileValue = fc.oneof(deep, wideArray, wideObject, longString, longKey, hugeNumber, duplicateKeys, protoKey, badCodePoint);
 
 /** JSON text of an object holding `fragment` at `path`: {"a":{"b":[FRAGMENT]}}. */
 export function placeAt(path: FieldPath, fragment: string): string {

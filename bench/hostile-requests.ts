@@ -4,7 +4,8 @@
 // by kind of hostility, the largest answer, the longest log line the server wrote, and /healthz latency while idle
 // and while under the hostile load, in the same run. Writes the figures into BENCHMARKS.md between
 // <!-- hostile:start --> and <!-- hostile:end -->; exits 1 when any answer was a 5xx or larger than the bound.
-// Options: --requests N (default 12,000), --seed S (default fixed; "random" for a new one).
+// Options: --requests N (default 12,000), --seed S (default fixed; "random" for a new one), --server PATH (another
+// build's dist/http/main.js, e.g. of an older commit, for comparison: figures are printed, BENCHMARKS.md is left alone).
 import { spawn, type ChildProcess } from "node:child_process";
 import { connect } from "node:net";
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
@@ -15,6 +16,7 @@ import fc from "fast-check";
 import { repoPath } from "../pipeline/config/resources.js";
 import { hostileRequest, hostileTargets, MAX_ERROR_BYTES, HOSTILE_STATUSES, type HostileRequest } from "./hostile-inputs.js";
 import { LOG_LINE_BYTES } from "../http/plugins/bounded-logs.js";
+import { freePort } from "../test/helpers/free-port.js";
 
 const START = "<!-- hostile:start -->";
 const END = "<!-- hostile:end -->";
@@ -30,6 +32,7 @@ const argument = (name: string) => {
   return at >= 0 ? process.argv[at + 1] : undefined;
 };
 const TOTAL = Number(argument("--requests") ?? 12_000);
+const OTHER_SERVER = argument("--server");
 const SEED = argument("--seed") === "random" ? Math.floor(Math.random() * 2 ** 31) : Number(argument("--seed") ?? 20261203);
 
 interface Server {
@@ -38,21 +41,9 @@ interface Server {
   log: { lines: number; longest: number; longestText: string };
 }
 
-async function freePort(): Promise<number> {
-  const { createServer } = await import("node:net");
-  return new Promise((resolve, reject) => {
-    const probe = createServer();
-    probe.once("error", reject);
-    probe.listen(0, "127.0.0.1", () => {
-      const { port } = probe.address() as { port: number };
-      probe.close(() => resolve(port));
-    });
-  });
-}
-
 async function startServer(): Promise<Server> {
   const port = await freePort();
-  const main = fileURLToPath(new URL("../http/main.js", import.meta.url));
+  const main = OTHER_SERVER ?? fileURLToPath(new URL("../http/main.js", import.meta.url));
   // As deployed, but without the per-client rate limit (every request here comes from one address) and without a disk cache.
   const env = { ...process.env, PORT: String(port), HOST: "127.0.0.1", RATE_LIMIT_PER_MINUTE: "0", CACHE_DIR: "", LOG_LEVEL: "info" };
   const child = spawn(process.execPath, [main], { env, stdio: ["ignore", "pipe", "inherit"] });
@@ -126,6 +117,7 @@ interface Tally {
   sent: number;
   byStatus: Map<number, number>;
   byKind: Map<string, Map<number, number>>;
+  inJobByKind: Map<string, number>;
   largestAnswer: number;
   largestAnswerKind: string;
   notJson: number;
@@ -146,8 +138,9 @@ function count(tally: Tally, kind: string, status: number, bytes: number, json: 
   if ((status >= 500 || bytes > MAX_ERROR_BYTES || !json || !HOSTILE_STATUSES.includes(status)) && tally.failures.length < 20) tally.failures.push(`${status} ${bytes} B: ${what}`);
 }
 
-/** "deep-array@drops.radii" → "deep-array"; "job-body:long-key@x" → "job-body:long-key". */
-const kindOf = (label: string) => label.split("@")[0];
+/** "deep-array@drops.radii" → "deep-array"; "job-body:long-key@x" → "long-key" (counted as inside a job too). */
+const kindOf = (label: string) => label.split("@")[0].replace(/^job-(body|query):/, "");
+const inJob = (label: string) => /^job-(body|query):/.test(label);
 
 async function sendOne(base: string, req: HostileRequest, tally: Tally): Promise<void> {
   const what = `${req.label} ${req.method} ${req.url.slice(0, 120)} ${req.payload?.subarray(0, 120).toString("latin1") ?? ""}`;
@@ -167,6 +160,7 @@ async function sendOne(base: string, req: HostileRequest, tally: Tally): Promise
       json = false;
     }
     count(tally, kindOf(req.label), res.status, body.length, json, what);
+    if (inJob(req.label)) tally.inJobByKind.set(kindOf(req.label), (tally.inJobByKind.get(kindOf(req.label)) ?? 0) + 1);
   } catch (error) {
     count(tally, kindOf(req.label), 0, 0, false, `${what}: ${(error as Error).message}`);
   }
@@ -194,17 +188,27 @@ function rawRequest(port: number, bytes: string): Promise<{ status: number; byte
   });
 }
 
+/** The service's OpenAPI document; retried while a freshly started server still answers 503 (workers warming up). */
+async function openApiOf(base: string): Promise<Parameters<typeof hostileTargets>[0]> {
+  for (let attempt = 0; ; attempt++) {
+    const res = await fetch(`${base}/openapi.json`);
+    if (res.ok) return (await res.json()) as Parameters<typeof hostileTargets>[0];
+    if (attempt >= 60) throw new Error(`/openapi.json answered ${res.status}`);
+    await new Promise((r) => setTimeout(r, 1000));
+  }
+}
+
 async function run(): Promise<void> {
   const server = await startServer();
   const base = `http://127.0.0.1:${server.port}`;
-  const tally: Tally = { sent: 0, byStatus: new Map(), byKind: new Map(), largestAnswer: 0, largestAnswerKind: "", notJson: 0, failures: [] };
+  const tally: Tally = { sent: 0, byStatus: new Map(), byKind: new Map(), inJobByKind: new Map(), largestAnswer: 0, largestAnswerKind: "", notJson: 0, failures: [] };
   const loadStart = loadavg()[0];
   let idle: ReturnType<typeof summary>;
   let busy: ReturnType<typeof summary>;
   let busyFailures = 0;
   let seconds = 0;
   try {
-    const targets = hostileTargets((await (await fetch(`${base}/openapi.json`)).json()) as Parameters<typeof hostileTargets>[0]);
+    const targets = hostileTargets(await openApiOf(base));
     const arbitrary = hostileRequest(targets);
 
     const stopIdle = pollHealth(base);
@@ -250,7 +254,8 @@ async function run(): Promise<void> {
       `/healthz idle median ${idle.median.toFixed(1)} ms p99 ${idle.p99.toFixed(1)} ms (${idle.n}), under load median ${busy.median.toFixed(1)} ms p99 ${busy.p99.toFixed(1)} ms max ${busy.max.toFixed(1)} ms (${busy.n}, ${busyFailures} failed)`,
   );
   for (const failure of tally.failures) console.log(`  ${failure}`);
-  writeSection(report);
+  if (OTHER_SERVER) console.log(`(against ${OTHER_SERVER}: BENCHMARKS.md left as it is)`);
+  else writeSection(report);
   const bad = fiveHundreds > 0 || tally.largestAnswer > MAX_ERROR_BYTES || tally.notJson > 0 || server.log.longest > LOG_LINE_BYTES;
   if (bad) console.log("FAILED: a 5xx, an answer over the bound, an answer not in the error shape, or a log line over the bound");
   process.exitCode = bad ? 1 : 0;
@@ -291,11 +296,11 @@ function writeSection(r: {
     `| idle | ${r.idle.n} | ${ms(r.idle.median)} | ${ms(r.idle.p99)} | ${ms(r.idle.max)} | 0 |`,
     `| during the hostile requests | ${r.busy.n} | ${ms(r.busy.median)} | ${ms(r.busy.p99)} | ${ms(r.busy.max)} | ${r.busyFailures} |`,
     "",
-    "| kind of hostility | sent | statuses |",
-    "| --- | ---: | --- |",
+    "| kind of hostility | sent | of which inside a job's body or query | statuses |",
+    "| --- | ---: | ---: | --- |",
     ...[...r.tally.byKind]
       .sort(([a], [b]) => (a < b ? -1 : 1))
-      .map(([kind, m]) => `| ${kind} | ${[...m.values()].reduce((a, b) => a + b, 0)} | ${statuses(m)} |`),
+      .map(([kind, m]) => `| ${kind} | ${[...m.values()].reduce((a, b) => a + b, 0)} | ${r.tally.inJobByKind.get(kind) ?? 0} | ${statuses(m)} |`),
     END,
   ].join("\n");
   const text = existsSync(file) ? readFileSync(file, "utf8") : "";

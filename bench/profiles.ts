@@ -136,7 +136,7 @@ export async function benchProfile(w: ProfileWorkload, options: { first?: boolea
       fromDiskMs,
       warmMs,
       mieTermAngles: cold.mieTermAngles,
-      kernelBytes: kernels.memory.sizeBytes,
+      kernelBytes: kernels.memory.calculatedSize,
       coldCores: cold.cores,
     });
     await pool.close();

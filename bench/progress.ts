@@ -5,7 +5,7 @@
 import { performance } from "node:perf_hooks";
 import { kernelRows, type KernelRowsInput } from "../lib/bow/kernel-rows.js";
 import { blocksOf, latticeSpan, KERNEL_STEPS_DEG } from "../lib/bow/kernel-grid.js";
-import { waterIndex } from "../lib/water/water-index.js";
+import { dropMedium } from "../lib/water/drop-medium.js";
 import type { DropEngine } from "../lib/bow/volume-scattering.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { viewRequestSchema } from "../schemas/view.js";
@@ -26,9 +26,8 @@ const samples = SPAN.last - SPAN.first + 1;
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)];
 
 function task(engine: DropEngine, radiiUm: number[]): KernelRowsInput {
-  const water = waterIndex({ wavelengthNm: 550, temperatureC: 15, salinityPsu: 0 });
   return {
-    medium: { wavelengthNm: 550, mRe: water.nRelativeToAir, mIm: water.k, nAir: water.n / water.nRelativeToAir },
+    medium: dropMedium({ temperatureC: 15, salinityPsu: 0 }, 550),
     h: SPAN.h,
     items: radiiUm.map((radiusUm) => ({ radiusUm, engine, blocks: blocksOf(SPAN) })),
     within: { first: SPAN.first, last: SPAN.last },

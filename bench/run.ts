@@ -2,7 +2,7 @@
 // (P1–P4; --quick leaves out P3 and P4, which take minutes) and warm HTTP requests in one run, prints the figures and
 // rewrites BENCHMARKS.md. --mie times the Mie kernel only and rewrites that section of BENCHMARKS.md.
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
-import { keptSections } from "./sections.js";
+import { keptSections, writeMarkedSection } from "./sections.js";
 import { repoPath } from "../pipeline/config/resources.js";
 import { cpus, loadavg, totalmem } from "node:os";
 import { benchMie, MANY_DROPS, mieKernelName } from "./mie.js";
@@ -33,7 +33,6 @@ for (const r of mie) {
   );
 }
 const mieSection = [
-  "<!-- mie:start -->",
   "## Lorenz–Mie kernel beside compiled code, one core",
   "",
   `Measured ${date} on ${machine}; one-minute load average ${loadavg()[0].toFixed(2)} when this table was written` +
@@ -69,16 +68,9 @@ const mieSection = [
   "Earlier versions of this file set these times against other programs' whole-process times taken on another",
   "machine; such figures are not comparable with ours (other machine, process start and output included) and are",
   "no longer given. The compiled reference above runs on this machine, in this run, on the same inputs.",
-  "",
-  "<!-- mie:end -->",
-  "",
 ];
 if (mieOnly) {
-  // Rewrites the Mie section of BENCHMARKS.md only, between its markers.
-  const target = repoPath("BENCHMARKS.md");
-  const previous = readFileSync(target, "utf8");
-  writeFileSync(target, previous.replace(/<!-- mie:start -->[\s\S]*<!-- mie:end -->\n\n/, mieSection.join("\n") + "\n"));
-  console.log("rewrote the Mie section of BENCHMARKS.md");
+  writeMarkedSection("mie", mieSection);
   process.exit(0);
 }
 const profiles: ProfileBenchRow[] = [];
@@ -114,7 +106,10 @@ const lines = [
     (Math.max(loadBefore, loadAfter) > cpus().length ? " (above the core count: other processes shared the cores, so times are inflated)" : "") +
     `. Mie kernel: ${mieKernelName}.`,
   "",
+  "<!-- mie:start -->",
   ...mieSection,
+  "<!-- mie:end -->",
+  "",
   "## Whole profiles through the kernel cache (in-process: no HTTP)",
   "",
   "Worker threads as the service runs them (KernelService + createWorkerPool). Cold: an empty kernel cache, on threads",
@@ -154,6 +149,6 @@ const lines = [
 // Other benchmark scripts (bench/load.ts, bench/progress.ts, bench/time-of-day.ts, …) keep their own marked
 // sections: carry them over unchanged.
 const target = repoPath("BENCHMARKS.md");
-for (const section of keptSections()) lines.push(section, "");
+for (const section of keptSections()) if (!section.startsWith("<!-- mie:start -->")) lines.push(section, "");
 writeFileSync(target, lines.join("\n"));
 console.log("wrote BENCHMARKS.md");

@@ -1,23 +1,22 @@
 #!/usr/bin/env node
 // antisolar's command line: bake lookup textures and render profiles without running a server, or serve.
-//   antisolar bake <lut-request.json> -o <file.exr|.hdr|.png|.json>
-//   antisolar render <profile-request.json> -o <file.json|.png>
+//   antisolar bake <lut-request.json> -o <file.exr|.ktx2|.hdr|.png|.json>
+//   antisolar render <profile-request.json> -o <file.json|.png|.svg>
 //   antisolar serve
 import { readFile, writeFile } from "node:fs/promises";
 import { extname } from "node:path";
+import { parseArgs } from "node:util";
 import { z } from "zod";
-import { lutRequestSchema } from "../schemas/lut.js";
+import { lutQuerySchema, lutRequestSchema } from "../schemas/lut.js";
 import { profileRequestSchema } from "../schemas/profile.js";
-import { computeLut } from "../pipeline/compute/lut.js";
-import { computeProfile, PROFILE_STAGES } from "../pipeline/compute/profile.js";
-import { ProgressMeter } from "../pipeline/progress/progress-meter.js";
+import { stripQuerySchema } from "../schemas/formats.js";
+import { computeSlicedLut } from "../pipeline/compute/lut-time-of-day.js";
+import { resolveLutRequest } from "../pipeline/sky/resolve-source.js";
 import { progressBar } from "./progress-bar.js";
-import { profileJson } from "../pipeline/render/profile-render.js";
-import { annotate, resolveLutRequest, resolveProfileRequest } from "../pipeline/sky/resolve-source.js";
-import { encodeExr } from "../pipeline/encoders/exr.js";
-import { encodeRadianceHdr } from "../pipeline/encoders/radiance-hdr.js";
-import { encodePngImage, encodePngStrip } from "../pipeline/encoders/png-strip.js";
-import { spacePrimaries } from "../lib/colour/primaries.js";
+import { encodeLut } from "../pipeline/render/lut-render.js";
+import { renderProfile, type ProfileFormat } from "../pipeline/render/profile-render.js";
+import type { RenderDeps } from "../pipeline/render/render-output.js";
+import type { Bows, ProfileResponse } from "../schemas/responses/profile-response.js";
 import { createKernelRuntime } from "../pipeline/kernels/runtime.js";
 import { loadConfig } from "../pipeline/config/config.js";
 import { parseOrThrow } from "../pipeline/requests/parse-request.js";
@@ -28,17 +27,37 @@ const usage = `antisolar — physically based rainbows
 
 ${EYE_SAFETY_CAUTION}
 
-  antisolar bake <lut-request.json> -o <texture.exr|.hdr|.png|.json>   bake a lookup texture (+ <file>.manifest.json)
-  antisolar render <profile-request.json> -o <profile.json|.png>       render a bow profile
+  antisolar bake <lut-request.json> -o <texture.exr|.ktx2|.hdr|.png|.json>  bake a lookup texture (+ <file>.manifest.json)
+  antisolar render <profile-request.json> -o <profile.json|.png|.svg>  render a bow profile
   antisolar serve                                                       start the HTTP service (PORT, HOST)
 
+Options:
+  -o, --output <file>         the file to write; its extension picks the format
+      --pixel-type half|float  bake: the EXR or KTX2 sample type (default half)
+      --height <px>           render: the PNG strip's height (default 32)
+  -h, --help                  this text
+
 Request files use the same JSON as POST /v1/lut and POST /v1/profile; "-" reads standard input; {} gives defaults.
+The files are the bytes those endpoints answer for the same request, in the format the extension names.
 Environment: WORKERS, CACHE_DIR, CACHE_BUDGET_MB as for the service.`;
 
-function argument(args: string[], flag: string): string | undefined {
-  const i = args.indexOf(flag);
-  return i >= 0 ? args[i + 1] : undefined;
-}
+/** The command line's options (node:util parseArgs); anything else is refused with the usage text. */
+const cliOptions = {
+  output: { type: "string", short: "o" },
+  "pixel-type": { type: "string" },
+  height: { type: "string" },
+  help: { type: "boolean", short: "h" },
+} as const;
+
+type CliValues = ReturnType<typeof parseArgs<{ options: typeof cliOptions; allowPositionals: true }>>["values"];
+
+/** A mistake in the command line itself: the message is followed by the usage text. */
+class UsageError extends Error {}
+
+/** Output extensions of `bake`, as ?format= of POST /v1/lut. */
+const LUT_FORMATS: Readonly<Record<string, z.output<typeof lutQuerySchema>["format"]>> = { ".exr": "exr", ".ktx2": "ktx2", ".hdr": "hdr", ".png": "png16", ".json": "json" };
+/** Output extensions of `render`, as ?format= of POST /v1/profile. */
+const PROFILE_FORMATS: Readonly<Record<string, ProfileFormat>> = { ".json": "json", ".png": "png16", ".svg": "svg" };
 
 async function readJson(path: string): Promise<unknown> {
   const text = path === "-" ? await new Promise<string>((resolve) => {
@@ -54,95 +73,87 @@ function oneShotConfig() {
   return { ...loadConfig(process.env), workerWarmUpRounds: 0 };
 }
 
-async function bake(args: string[]): Promise<void> {
-  const input = args[0];
-  const output = argument(args, "-o");
-  if (!input || !output) throw new Error(`bake needs a request file and -o <file>\n\n${usage}`);
-  const resolved = resolveLutRequest(parseOrThrow(lutRequestSchema, await readJson(input), "body"));
-  const request = resolved.body;
+/** Runs one command's work on its own kernel threads, closed when it ends. */
+async function withKernels<T>(work: (deps: RenderDeps) => Promise<T>): Promise<T> {
   const runtime = createKernelRuntime(oneShotConfig());
   try {
-    const lut = await computeLut(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity } }, progressBar("baking"));
-    annotate(lut.manifest, resolved);
-    const ext = extname(output).toLowerCase();
-    let file: Buffer;
-    if (ext === ".exr") {
-      file = encodeExr({ width: lut.width, height: lut.height, channels: ["R", "G", "B", "A"], data: lut.rgba, pixelType: "half", compression: "zip",
-        chromaticities: request.space === "xyz-d65" ? undefined : spacePrimaries(request.space), attributes: { "antisolar:space": request.space, "antisolar:hash": String(lut.manifest.hash) } });
-    } else if (ext === ".hdr") {
-      const rgb = new Float32Array(lut.width * lut.height * 3);
-      for (let p = 0; p < lut.width * lut.height; p++) rgb.set(lut.rgba.subarray(4 * p, 4 * p + 3), 3 * p);
-      const c = spacePrimaries(request.space);
-      file = encodeRadianceHdr({ width: lut.width, height: lut.height, data: rgb, primaries: [c.red, c.green, c.blue, c.white] });
-    } else if (ext === ".png") {
-      let peak = 0;
-      lut.rgba.forEach((v, k) => (peak = k % 4 === 3 ? peak : Math.max(peak, v)));
-      const scaled = Float32Array.from(lut.rgba, (v, k) => (k % 4 === 3 ? v : peak > 0 ? v / peak : 0));
-      file = (await encodePngImage({ width: lut.width, height: lut.height, channels: 4, values: scaled, bitDepth: 16, space: request.space })).png;
-      (lut.manifest as typeof lut.manifest & { pngScale?: string }).pngScale = `RGB were divided by ${peak} to fit PNG's 0..1`;
-    } else if (ext === ".json") {
-      file = Buffer.from(JSON.stringify({ manifest: lut.manifest, rgba: Array.from(lut.rgba) }));
-    } else {
-      throw new Error(`unknown output type '${ext}': use .exr, .hdr, .png or .json`);
-    }
-    await writeFile(output, file);
-    await writeFile(`${output}.manifest.json`, JSON.stringify(lut.manifest, null, 2));
-    console.log(`wrote ${output} (${lut.width}×${lut.height}) and ${output}.manifest.json`);
+    return await work({ kernels: runtime.kernels, maxTermAngles: Infinity });
   } finally {
     await runtime.close();
   }
 }
 
-async function render(args: string[]): Promise<void> {
-  const input = args[0];
-  const output = argument(args, "-o");
-  if (!input || !output) throw new Error(`render needs a request file and -o <file>\n\n${usage}`);
-  const resolved = resolveProfileRequest(parseOrThrow(profileRequestSchema, await readJson(input), "body"));
-  const request = resolved.body;
-  const runtime = createKernelRuntime(oneShotConfig());
-  try {
-    const bar = progressBar("rendering");
-    const progress = new ProgressMeter(PROFILE_STAGES, bar);
-    const result = await computeProfile(request, { kernels: runtime.kernels, limits: { maxTermAngles: Infinity }, progress });
-    annotate(result.meta, resolved);
-    progress.done();
-    const ext = extname(output).toLowerCase();
-    if (ext === ".png") {
-      await writeFile(output, (await encodePngStrip({ values: result.colour.rgb, height: 32, bitDepth: 16, space: request.output.space })).png);
-    } else if (ext === ".json") {
-      await writeFile(output, JSON.stringify(profileJson(result)));
-    } else {
-      throw new Error(`unknown output type '${ext}': use .json or .png`);
-    }
-    console.log(`wrote ${output}: primary ${result.bows.primaryDeg ?? "none"}°, secondary ${result.bows.secondaryDeg ?? "none"}°`);
-  } finally {
-    await runtime.close();
-  }
+/** The file the extension names, or a clear refusal listing those there are. */
+function formatFor<F>(output: string, formats: Readonly<Record<string, F>>): F {
+  const ext = extname(output).toLowerCase();
+  const format = formats[ext];
+  if (format === undefined) throw new UsageError(`unknown output type '${ext}': use ${Object.keys(formats).join(", ")}`);
+  return format;
+}
+
+/** The LUT as POST /v1/lut encodes it (pipeline/render/lut-render.ts), plus its manifest beside it. */
+async function bake(input: string | undefined, values: CliValues): Promise<void> {
+  const output = values.output;
+  if (!input || !output) throw new UsageError("bake needs a request file and -o <file>");
+  const query = parseOrThrow(lutQuerySchema, { format: formatFor(output, LUT_FORMATS), pixelType: values["pixel-type"] }, "query");
+  const resolved = resolveLutRequest(parseOrThrow(lutRequestSchema, await readJson(input), "body"));
+  await withKernels(async (deps) => {
+    const lut = await computeSlicedLut(resolved.body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles } }, progressBar("baking"));
+    const file = await encodeLut(lut, resolved, query);
+    // PNG holds 0..1: the route states the divisor in a header, the CLI in the manifest beside the file.
+    const scale = file.headers["x-antisolar-scale"];
+    const manifest = scale === undefined ? lut.manifest : { ...lut.manifest, pngScale: `RGB were divided by ${scale} to fit PNG's 0..1` };
+    await writeFile(output, file.body);
+    await writeFile(`${output}.manifest.json`, JSON.stringify(manifest, null, 2));
+    console.log(`wrote ${output} (${lut.width}×${lut.height}) and ${output}.manifest.json`);
+  });
+}
+
+/** The profile as POST /v1/profile renders it (pipeline/render/profile-render.ts). */
+async function render(input: string | undefined, values: CliValues): Promise<void> {
+  const output = values.output;
+  if (!input || !output) throw new UsageError("render needs a request file and -o <file>");
+  const format = formatFor(output, PROFILE_FORMATS);
+  const query = parseOrThrow(stripQuerySchema, { height: values.height }, "query");
+  const request = parseOrThrow(profileRequestSchema, await readJson(input), "body");
+  await withKernels(async (deps) => {
+    const file = await renderProfile(request, format, query, { ...deps, onProgress: progressBar("rendering") });
+    await writeFile(output, file.body);
+    // The images carry the bows in a header, the JSON in its body.
+    const bows: Bows = format === "json" ? (JSON.parse(file.body.toString("utf8")) as ProfileResponse).bows : (JSON.parse(file.headers["x-antisolar-bows"]) as Bows);
+    console.log(`wrote ${output}: primary ${bows.primaryDeg ?? "none"}°, secondary ${bows.secondaryDeg ?? "none"}°`);
+  });
 }
 
 async function main(): Promise<void> {
-  const [command, ...args] = process.argv.slice(2);
+  const { values, positionals } = parseArgs({ args: process.argv.slice(2), options: cliOptions, allowPositionals: true, strict: true });
+  const [command, input, ...extra] = positionals;
+  if (values.help || command === undefined || command === "help") {
+    console.log(usage);
+    return;
+  }
+  if (extra.length > 0) throw new UsageError(`unexpected argument '${extra[0]}'`);
   switch (command) {
     case "bake":
-      return bake(args);
+      return bake(input, values);
     case "render":
-      return render(args);
+      return render(input, values);
     case "serve":
       await import("../http/main.js");
       return;
-    case undefined:
-    case "help":
-    case "--help":
-    case "-h":
-      console.log(usage);
-      return;
     default:
-      throw new Error(`unknown command '${command}'\n\n${usage}`);
+      throw new UsageError(`unknown command '${command}'`);
   }
 }
 
+/** parseArgs reports an unknown option or a missing value as a TypeError with an ERR_PARSE_ARGS_* code. */
+function isParseArgsError(error: unknown): error is Error {
+  return error instanceof Error && String((error as NodeJS.ErrnoException).code ?? "").startsWith("ERR_PARSE_ARGS");
+}
+
 main().catch((error: unknown) => {
-  if (error instanceof ClientError) console.error(`antisolar: ${error.message}`);
+  if (error instanceof UsageError || isParseArgsError(error)) console.error(`antisolar: ${error.message}\n\n${usage}`);
+  else if (error instanceof ClientError) console.error(`antisolar: ${error.message}`);
   else if (error instanceof z.ZodError || error instanceof SyntaxError) console.error(`antisolar: ${error.message}`);
   else console.error(`antisolar: ${error instanceof Error ? error.message : String(error)}`);
   process.exitCode = 1;

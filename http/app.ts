@@ -1,4 +1,5 @@
-import Fastify, { type FastifyInstance, type FastifyError } from "fastify";
+import Fastify, { type FastifyInstance, type FastifyError, type FastifyServerOptions } from "fastify";
+import fastifyPlugin from "fastify-plugin";
 import { packageVersion } from "../pipeline/config/resources.js";
 import { ClientError } from "../pipeline/requests/client-error.js";
 import { buildOpenApi } from "./openapi.js";
@@ -24,23 +25,47 @@ import { jobRoutes } from "./routes/jobs.js";
 import { createJobSystem } from "../pipeline/jobs/job-system.js";
 import { loadConfig, type Config } from "../pipeline/config/config.js";
 import { deadlines } from "../pipeline/process/shutdown.js";
+import { within } from "../pipeline/redis/connection.js";
 
 export interface AppOptions {
   config?: Partial<Config>;
   logger?: boolean;
 }
 
-/** Builds the application; http/main.ts only listens. Tests call buildApp() and inject requests. */
-export async function buildApp(options: AppOptions = {}): Promise<FastifyInstance> {
-  const config = { ...loadConfig(process.env), ...options.config };
-  const app = Fastify({
-    logger: options.logger ? boundedLogger(config.logLevel) : false,
+export interface AppPluginOptions {
+  config: Config;
+}
+
+/** The instance options the app expects (body limit, time limit, request ids) for a configuration. */
+export function appServerOptions(config: Config, logger = false): FastifyServerOptions {
+  return {
+    logger: logger ? boundedLogger(config.logLevel) : false,
     ...frameworkErrorOptions(),
     bodyLimit: config.bodyLimitBytes,
     requestTimeout: config.requestTimeoutMs,
     genReqId: () => crypto.randomUUID(),
-  });
+  };
+}
 
+/**
+ * Builds a ready-to-listen instance: Fastify with appServerOptions, and the app plugin on it. http/main.ts only
+ * listens; tests call buildApp() and inject requests or listen on a free port.
+ */
+export async function buildApp(options: AppOptions = {}): Promise<FastifyInstance> {
+  const config = { ...loadConfig(process.env), ...options.config };
+  const app = Fastify(appServerOptions(config, options.logger));
+  await app.register(antisolarApp, { config });
+  return app;
+}
+
+/**
+ * The whole service as a fastify plugin: hardening, the routes with their OpenAPI document and docs page, the
+ * explorer page, the job system, and the error and not-found handlers. It is not encapsulated (fastify-plugin), so
+ * its hooks and handlers apply to the instance it is registered on.
+ */
+export const antisolarApp = fastifyPlugin(registerApp, { name: "antisolar", fastify: "5.x" });
+
+async function registerApp(app: FastifyInstance, { config }: AppPluginOptions): Promise<void> {
   await registerHardening(app, config);
   registerRefusedBodyDrain(app);
   registerJsonBody(app);
@@ -58,8 +83,11 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     jobs.endStreams();
   });
   app.addHook("onClose", async () => {
-    await jobs.close(deadlines(config.shutdownGraceMs, closeStartedAt).abandonAt);
-    await runtime.close();
+    const { abandonAt, exitAt } = deadlines(config.shutdownGraceMs, closeStartedAt);
+    await jobs.close(abandonAt);
+    app.log.info("job system closed; stopping kernel threads");
+    // Ahead of the hard exit: kernel packs still queued for the cache are dropped (they are only a cache).
+    await within(runtime.close(), exitAt - Date.now() - 250);
   });
   const routes: RouteSpec[] = [
     ...serviceRoutes(),
@@ -110,8 +138,6 @@ export async function buildApp(options: AppOptions = {}): Promise<FastifyInstanc
     request.log.error({ err: error }, "unhandled error");
     reply.status(500).send({ error: "internal", message: "internal error; report the requestId", requestId: request.id });
   });
-
-  return app;
 }
 
 function mapFastifyError(error: FastifyError): ClientError | undefined {

@@ -2,7 +2,7 @@ import { z } from "zod";
 import { angleRangeSchema } from "./angles.js";
 import { waterSchema } from "./water.js";
 import { moonSchema } from "./moon.js";
-import { defaultSun, outputSchema, profileMethods, profileRequestSchema, sunSchema } from "./profile.js";
+import { checkProfilePhysics, defaultSun, MONODISPERSE_NUMBER_PER_M3, outputSchema, profileDefaults, profileMethods, spectralSchema, sunSchema, type ProfileRequest } from "./profile.js";
 
 export const svgQuerySchema = z
   .object({ format: z.enum(["svg"]).optional().describe("Output file: svg (the only one for this figure)") })
@@ -37,15 +37,8 @@ export const sizeMapRequestSchema = z
       toDeg: 60,
       stepDeg: 0.25,
     }),
-    spectral: z
-      .object({
-        fromNm: number(360, 830, "First wavelength (vacuum), nm").default(380),
-        toNm: number(360, 830, "Last wavelength (vacuum), nm").default(780),
-        stepNm: number(1, 20, "Wavelength step, nm (coarser than a profile's default: a map runs one profile per row)").default(20),
-      })
-      .strict()
-      .default({ fromNm: 380, toNm: 780, stepNm: 20 }),
-    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
+    spectral: spectralSchema(20, "Wavelength step, nm (coarser than a profile's default: a map runs one profile per row)"),
+    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto: exact Lorenz–Mie within a budget of Mie work, Airy theory only for the largest drops beyond it"),
     output: outputSchema
       .pick({ gamut: true, white: true })
       .default({ gamut: "css4", white: "sun" })
@@ -54,19 +47,17 @@ export const sizeMapRequestSchema = z
   .strict()
   .superRefine((b, ctx) => {
     if (b.radiusToUm <= b.radiusFromUm) ctx.addIssue({ code: "custom", path: ["radiusToUm"], message: `radiusToUm must exceed radiusFromUm (${b.radiusFromUm})` });
-    // Every row is a profile request: its own cross-field rules (salt water's band, spectral steps, tables) apply.
-    const row = profileRequestSchema.safeParse(sizeMapRowBody(b, b.radiusFromUm));
-    if (!row.success) {
-      for (const issue of row.error.issues) ctx.addIssue({ code: "custom", path: issue.path as (string | number)[], message: issue.message });
-    }
+    // Every row is a profile: its rules across fields (salt water's band, tables) apply.
+    checkProfilePhysics(sizeMapRowRequest(b, b.radiusFromUm), ctx);
   });
 
 export type SizeMapRequest = z.infer<typeof sizeMapRequestSchema>;
 
-/** The profile request of one row of a size map. */
-export function sizeMapRowBody(b: Omit<SizeMapRequest, "radiusFromUm" | "radiusToUm" | "radiusSteps">, radiusUm: number) {
+/** The profile request of one row of a size map, built from the validated map request. */
+export function sizeMapRowRequest(b: Omit<SizeMapRequest, "radiusFromUm" | "radiusToUm" | "radiusSteps">, radiusUm: number): ProfileRequest {
   return {
-    drops: { kind: "monodisperse" as const, radiusUm },
+    ...profileDefaults,
+    drops: { kind: "monodisperse", radiusUm, numberPerM3: MONODISPERSE_NUMBER_PER_M3 },
     water: b.water,
     sun: b.sun,
     moon: b.moon,
@@ -74,6 +65,6 @@ export function sizeMapRowBody(b: Omit<SizeMapRequest, "radiusFromUm" | "radiusT
     angles: b.angles,
     spectral: b.spectral,
     method: b.method,
-    output: { space: "srgb" as const, gamut: b.output.gamut, normalise: "peak" as const, white: b.output.white },
+    output: { ...profileDefaults.output, space: "srgb", gamut: b.output.gamut, normalise: "peak", white: b.output.white },
   };
 }

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { profileFieldsSchema } from "./profile.js";
+import { checkProfilePhysics, profileDefaults, profileFieldsSchema } from "./profile.js";
 import { refuseFlattenedDrops } from "./drop-shape.js";
 
 const scenarioSchema = profileFieldsSchema.omit({ angles: true, output: true });
@@ -17,6 +17,8 @@ export const lutRequestSchema = z
       .partial()
       .strict()
       .superRefine(refuseFlattenedDrops("the lookup texture"))
+      // Fields left out are the profile's defaults; the rules across fields apply to the whole.
+      .superRefine((s, ctx) => checkProfilePhysics({ ...profileDefaults, ...s }, ctx))
       .default({})
       .describe("The profile request's physics (drops are used by the 1-D variant only; the size axis replaces them in 2-D)"),
     angles: z

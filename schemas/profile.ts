@@ -10,13 +10,16 @@ import { arcPositionSchema, dropShapeSchema } from "./drop-shape.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 
+/** Drops per m³ of a monodisperse request that gives none (a size map's rows too). */
+export const MONODISPERSE_NUMBER_PER_M3 = 1000;
+
 export const dropsSchema = z
   .discriminatedUnion("kind", [
     z
       .object({
         kind: z.literal("monodisperse"),
         radiusUm: number(0.5, 3000, "Radius of every drop, µm").default(250),
-        numberPerM3: number(0, 1e12, "Drops per m³").default(1000),
+        numberPerM3: number(0, 1e12, "Drops per m³").default(MONODISPERSE_NUMBER_PER_M3),
         shape: dropShapeSchema.optional(),
       })
       .strict(),
@@ -112,6 +115,24 @@ export const outputSchema = z
 /** The sun every defaulted request gets: the sun schema's own field defaults (zod's .default skips inner defaults). */
 export const defaultSun = sunSchema.parse({});
 
+/** Vacuum wavelengths from fromNm to toNm in whole steps; the default step and its description differ by request. */
+export function spectralSchema(defaultStepNm: number, stepDescription: string) {
+  return z
+    .object({
+      fromNm: number(360, 830, "First wavelength (vacuum), nm").default(380),
+      toNm: number(360, 830, "Last wavelength (vacuum), nm").default(780),
+      stepNm: number(1, 20, stepDescription).default(defaultStepNm),
+    })
+    .strict()
+    .default({ fromNm: 380, toNm: 780, stepNm: defaultStepNm })
+    .superRefine((s, ctx) => {
+      if (s.toNm <= s.fromNm) ctx.addIssue({ code: "custom", path: ["toNm"], message: "toNm must exceed fromNm" });
+      else if (Math.abs((s.toNm - s.fromNm) / s.stepNm - Math.round((s.toNm - s.fromNm) / s.stepNm)) > 1e-9) {
+        ctx.addIssue({ code: "custom", path: ["stepNm"], message: "toNm − fromNm must be a whole number of steps" });
+      }
+    });
+}
+
 export const profileMethods = ["auto", "mie", "airy", "geometric"] as const;
 
 export const profileFieldsSchema = z
@@ -128,21 +149,8 @@ export const profileFieldsSchema = z
       stepDeg: 0.1,
       maxCount: 4001,
     }).default({ fromDeg: 30, toDeg: 60, stepDeg: 0.1 }),
-    spectral: z
-      .object({
-        fromNm: number(360, 830, "First wavelength (vacuum), nm").default(380),
-        toNm: number(360, 830, "Last wavelength (vacuum), nm").default(780),
-        stepNm: number(1, 20, "Wavelength step, nm").default(10),
-      })
-      .strict()
-      .default({ fromNm: 380, toNm: 780, stepNm: 10 })
-      .superRefine((s, ctx) => {
-        if (s.toNm <= s.fromNm) ctx.addIssue({ code: "custom", path: ["toNm"], message: "toNm must exceed fromNm" });
-        else if (Math.abs((s.toNm - s.fromNm) / s.stepNm - Math.round((s.toNm - s.fromNm) / s.stepNm)) > 1e-9) {
-          ctx.addIssue({ code: "custom", path: ["stepNm"], message: "toNm − fromNm must be a whole number of steps" });
-        }
-      }),
-    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto picks per drop size"),
+    spectral: spectralSchema(10, "Wavelength step, nm"),
+    method: z.enum(profileMethods).default("auto").describe("Single-drop engine; auto: exact Lorenz–Mie within a budget of Mie work, Airy theory only for the largest drops beyond it"),
     mieSizesPerDecade: z
       .literal(["auto", ...RADIUS_DENSITIES])
       .default("auto")
@@ -156,30 +164,46 @@ export const profileFieldsSchema = z
   })
   .strict();
 
+/** The physics every request that computes a profile shares, for the rules that span its fields. */
+export interface ProfilePhysics {
+  drops: z.output<typeof dropsSchema>;
+  water: { salinityPsu: number };
+  spectral: { fromNm: number; toNm: number };
+  sun: { spectrum: z.output<typeof sunSpectrumSchema> };
+}
+
+/** Rules across a profile's fields, checked wherever such physics is sent (profile, view and sky scenario, texture scenario, size map). */
+export function checkProfilePhysics(b: ProfilePhysics, ctx: z.RefinementCtx): void {
+  if (b.water.salinityPsu > 0 && (b.spectral.fromNm < 400 || b.spectral.toNm > 700)) {
+    ctx.addIssue({
+      code: "custom",
+      path: ["spectral", "fromNm"],
+      message: "salt water (Quan & Fry 1995) is defined from 400 to 700 nm: set spectral to 400–700 nm",
+    });
+  }
+  if (b.sun.spectrum.kind === "table" && b.sun.spectrum.wavelengthsNm.length !== b.sun.spectrum.values.length) {
+    ctx.addIssue({ code: "custom", path: ["sun", "spectrum", "values"], message: "values must have one entry per wavelength" });
+  }
+  if (b.drops.kind === "histogram") {
+    const r = b.drops.bins.map((bin) => bin.radiusUm);
+    if (r.some((v, i) => i > 0 && v <= r[i - 1])) {
+      ctx.addIssue({ code: "custom", path: ["drops", "bins"], message: "bins must be in strictly ascending radiusUm" });
+    }
+  }
+}
+
 export const profileRequestSchema = profileFieldsSchema.superRefine((b, ctx) => {
-    if (b.water.salinityPsu > 0 && (b.spectral.fromNm < 400 || b.spectral.toNm > 700)) {
-      ctx.addIssue({
-        code: "custom",
-        path: ["spectral", "fromNm"],
-        message: "salt water (Quan & Fry 1995) is defined from 400 to 700 nm: set spectral to 400–700 nm",
-      });
-    }
-    if (b.sun.spectrum.kind === "table" && b.sun.spectrum.wavelengthsNm.length !== b.sun.spectrum.values.length) {
-      ctx.addIssue({ code: "custom", path: ["sun", "spectrum", "values"], message: "values must have one entry per wavelength" });
-    }
-    if (b.drops.shape && b.drops.shape.kind !== "sphere" && b.method === "mie") {
-      ctx.addIssue({
-        code: "custom",
-        path: ["drops", "shape"],
-        message: 'flattened drops are served by ray optics with Airy-type bows: use method "auto", "airy" or "geometric", or shape {"kind":"sphere"} with "mie"',
-      });
-    }
-    if (b.drops.kind === "histogram") {
-      const r = b.drops.bins.map((bin) => bin.radiusUm);
-      if (r.some((v, i) => i > 0 && v <= r[i - 1])) {
-        ctx.addIssue({ code: "custom", path: ["drops", "bins"], message: "bins must be in strictly ascending radiusUm" });
-      }
-    }
-  });
+  checkProfilePhysics(b, ctx);
+  if (b.drops.shape && b.drops.shape.kind !== "sphere" && b.method === "mie") {
+    ctx.addIssue({
+      code: "custom",
+      path: ["drops", "shape"],
+      message: 'flattened drops are served by ray optics with Airy-type bows: use method "auto", "airy" or "geometric", or shape {"kind":"sphere"} with "mie"',
+    });
+  }
+});
 
 export type ProfileRequest = z.infer<typeof profileRequestSchema>;
+
+/** The request `{}` stands for: the base on which textures, views and size maps build their profiles' requests. */
+export const profileDefaults: ProfileRequest = profileRequestSchema.parse({});

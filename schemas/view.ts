@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { profileRequestSchema, sunSchema } from "./profile.js";
+import { checkProfilePhysics, profileRequestSchema, sunSchema } from "./profile.js";
 import { refuseFlattenedDrops } from "./drop-shape.js";
 import { placeAndMomentSchema } from "./place-and-time.js";
 import { moonPositionSchema } from "./moon.js";
@@ -21,6 +21,7 @@ export const viewScenarioSchema = z
   })
   .strict()
   .superRefine(refuseFlattenedDrops("the camera view and sky overlay"))
+  .superRefine(checkProfilePhysics)
   .prefault({})
   .describe("Drops, water, sunlight, observer, wavelengths, engine and path length, as in POST /v1/profile; angles are chosen to fit the image");
 

@@ -174,7 +174,7 @@ function typicalRadiusUm(drops) {
   return 0;
 }
 
-/** Radius from which "auto" switches to Airy theory: the service's measured threshold (lib/bow/engine-choice.ts). */
+/** Radius below which "auto" always uses Lorenz–Mie (lib/bow/engine-choice.ts); above it, Mie where affordable. */
 const AUTO_AIRY_FROM_RADIUS_UM = 100;
 
 /** A plain-language cost note for the body about to be sent, using the last measured render time. */

@@ -62,6 +62,7 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
       responses: {
         202: { description: "queued (or done at once when the same result is kept)", json: "Job" },
         400: { description: "an unknown endpoint, or a field of the body or query out of range" },
+        503: { description: "the job store (Redis) does not answer: answered within a second, with Retry-After" },
       },
       handle: async ({ body, reply }) => {
         const job = body as JobRequest;
@@ -88,7 +89,11 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
         "progress.fraction runs from 0 to 1 and never falls: the work done (kernel rows found or computed, then spectral sum, colour, " +
         "encoding), weighted by measured cost. progress.stage names the step; progress.secondsLeft estimates the time left from the " +
         "rate so far, (1 − f)·elapsed / (f − f₀), null until there is one. Updated within 0.5 s of a change, at once for each 1 %.",
-      responses: { 200: { description: "the job", json: "Job" }, 404: { description: "no such job" } },
+      responses: {
+        200: { description: "the job", json: "Job" },
+        404: { description: "no such job; `lost: true` when the queue lost it (Redis restarted without its data): submit it again" },
+        503: { description: "the job store (Redis) does not answer; Retry-After says when to ask again" },
+      },
       handle: async ({ request }) => jobView(await find(idOf(request))),
     }),
     defineRoute({
@@ -97,7 +102,7 @@ export function jobRoutes(jobs: JobSystem): RouteSpec[] {
       tag: "jobs",
       summary: "A job's progress as server-sent events, ending with one final event",
       description:
-        "Each event's data is the job as GET /v1/jobs/:id gives it. `event: progress` while queued or running; the stream ends " +
+        "Each event's data is the job as GET /v1/jobs/:id gives it (schema `Job` in components.schemas). `event: progress` while queued or running; the stream ends " +
         "with `event: done`, `event: failed` or `event: cancelled`.",
       responses: { 200: { description: "the event stream", contentTypes: ["text/event-stream"] }, 404: { description: "no such job" } },
       handle: async ({ request, reply }) => streamEvents(await find(idOf(request)), reply),

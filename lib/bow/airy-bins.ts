@@ -67,7 +67,7 @@ interface RaysAtAngle {
 /**
  * Segments of the tabulated Θ(b); roots are then polished by Newton steps kept inside their segment (quadratic
  * convergence from a linear guess in a segment of ≤ π/2000 in b: 6 steps reach rounding error (quadratic convergence: Press et al. 2007 §9.4);
- * checked against 64-step bisection, which gave ΔE identical to 1e-8 in test/auto-engine.test.ts's case).
+ * checked against 64-step bisection, which gave ΔE identical to 1e-8 in test/lib/bow/engine-choice.test.ts's case).
  */
 const RAY_TABLE_SEGMENTS = 1000;
 const NEWTON_STEPS = 6;

@@ -7,8 +7,8 @@ import { cellSampleRadiusUm, type CellAverage } from "./cell-average.js";
 export type ProfileMethod = "auto" | "mie" | "airy" | "geometric";
 
 /**
- * Drops at or above this radius go to Airy theory (uniform caustic form for the bows p = 2–6, ray optics for
- * p = 0, 1) under "auto"; smaller ones to Lorenz–Mie. Measured with bench/auto-engine.ts (test/auto-engine.test.ts
+ * Under "auto" no drop below this radius goes to Airy theory (uniform caustic form for the bows p = 2–6, ray optics
+ * for p = 0, 1); above it, Lorenz–Mie as far as AUTO_MIE_BUDGET_TERM_ANGLES reaches (chooseAutoEngine). Measured with bench/auto-engine.ts (test/lib/bow/engine-choice.test.ts
  * re-checks 110 µm) against Mie for lognormal drops, σg = 1.1 and 1.2, D65 sun, after the sun's disc, ψ 30–60°:
  * from 100 µm up to 1 mm the mean CIEDE2000 error over ψ is ≤ 0.82 and ≤ 0.38 at both bows; at 60 µm the mean is
  * 1.07–1.19. ΔE ≤ 1 at every angle is reached at no radius: the worst sample stays at 1.2–2.0 (inner edge of
@@ -29,6 +29,60 @@ export function estimatedEngineError(engine: DropEngine, fromUm: number): string
   return "ray optics: no supernumeraries or diffraction; not measured against Mie";
 }
 
+/**
+ * Mie term-angles "auto" spends on exact Lorenz–Mie before it hands large drops to Airy theory: the same budget as the
+ * Mie ripple averaging (pipeline/compute/profile.ts AUTO_DENSITY_BUDGET_TERM_ANGLES), ~1.5 s of two workers at the
+ * many-drops kernel's measured rate (BENCHMARKS.md). A constant, so a request's result is the same on every server.
+ */
+export const AUTO_MIE_BUDGET_TERM_ANGLES = 2.5e9;
+
+/**
+ * auto against full Lorenz–Mie on the service's presets and its default profile at AUTO_MIE_BUDGET_TERM_ANGLES
+ * (bench/auto-presets.ts; fixtures/auto-engine/presets-vs-mie.json): CIEDE2000 per sample over ψ 30–60°, XYZ scaled
+ * by the Mie peak Y. Every preset is within worst 1.0 and mean 0.3 except the worst sample of the 25 mm/h downpour.
+ */
+export const AUTO_MEASURED_ON_PRESETS = { worstDeltaE: 1.07, meanDeltaE: 0.3 } as const;
+
+export interface AutoChoice {
+  /** Drops at or above this radius go to Airy theory; Infinity: every drop by Lorenz–Mie. */
+  airyFromUm: number;
+  rule: string;
+}
+
+/**
+ * Cost-aware "auto": every drop by exact Lorenz–Mie when that costs at most the budget (Mie term-angles, one size per
+ * radius node); otherwise Mie below the largest node radius whose Mie drops fit the budget, Airy theory from there,
+ * and never Airy below AUTO_AIRY_FROM_RADIUS_UM, where it strays from Mie. nodeCost[i]: the Mie term-angles of node
+ * radiiUm[i] (radii ascending).
+ */
+export function chooseAutoEngine(radiiUm: Float64Array, nodeCost: ArrayLike<number>, budgetTermAngles = AUTO_MIE_BUDGET_TERM_ANGLES): AutoChoice {
+  // below[i]: the Mie cost of the nodes below radiiUm[i].
+  const below = new Float64Array(radiiUm.length + 1);
+  for (let i = 0; i < radiiUm.length; i++) below[i + 1] = below[i] + nodeCost[i];
+  const all = below[radiiUm.length];
+  const budget = `${budgetTermAngles.toExponential(1)} Mie term-angles`;
+  if (all <= budgetTermAngles) {
+    return { airyFromUm: Infinity, rule: `auto: exact Lorenz–Mie for every drop (${all.toExponential(2)} Mie term-angles, within the budget of ${budget})` };
+  }
+  let airyFromUm = AUTO_AIRY_FROM_RADIUS_UM;
+  radiiUm.forEach((r, i) => {
+    if (r > airyFromUm && below[i] <= budgetTermAngles) airyFromUm = r;
+  });
+  return {
+    airyFromUm,
+    rule:
+      `auto: exact Lorenz–Mie for every drop would cost ${all.toExponential(2)} Mie term-angles, above the budget of ${budget}; ` +
+      `Mie below ${airyFromUm.toFixed(0)} µm (the largest radius within the budget, never below ${AUTO_AIRY_FROM_RADIUS_UM} µm), Airy theory from there; ` +
+      `measured against full Mie on the presets (ψ 30–60°): worst ΔE2000 ${AUTO_MEASURED_ON_PRESETS.worstDeltaE}, mean ≤ ${AUTO_MEASURED_ON_PRESETS.meanDeltaE}`,
+  };
+}
+
+/** The engine of each radius under a cost-aware auto choice. */
+export function autoEngine(choice: AutoChoice): (radiusUm: number) => DropEngine {
+  return (r) => (r < choice.airyFromUm ? "mie" : "airy");
+}
+
+/** The engine per radius; "auto" here is the fixed switch at AUTO_AIRY_FROM_RADIUS_UM (profiles use chooseAutoEngine). */
 export function engineChooser(method: ProfileMethod): (radiusUm: number) => DropEngine {
   switch (method) {
     case "mie":

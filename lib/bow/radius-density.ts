@@ -3,7 +3,7 @@
 // parameter x = 2πr/λ with a quasi-period below one (resonance spacing ≈ arctan(√(m²−1))/√(m²−1) ≈ 0.82 at
 // m = 1.333: Chýlek 1976, J. Opt. Soc. Am. 66, 285, from memory); a size distribution averages the ripple away only
 // when its sizes are closer than that in x. Rain's light comes from drops the Airy engine serves, whose rows do not
-// ripple, so 64 per decade converge (ΔE2000 0.05–0.1, test/profile-convergence.test.ts); fog's do not.
+// ripple, so 64 per decade converge (ΔE2000 0.05–0.1, test/pipeline/compute/profile-convergence.test.ts); fog's do not.
 
 import type { DropEngine } from "./volume-scattering.js";
 import type { RadiusQuadrature } from "../drops/quadrature.js";
@@ -19,7 +19,7 @@ export const AUTO_MAX_DENSITY = 512;
  * Largest x step between neighbouring Mie sizes that "auto" accepts. Measured with plain lattice nodes at each
  * density (fog, lognormal 10 µm σg 1.4, full Mie, ψ 20–60° by 0.2°, 380–780 nm by 10 nm; worst ΔE2000 against 2048
  * nodes per decade, x at the cross-section median radius and 550 nm): Δx 4.5 → 2.4, 1.1 → 1.6, 0.57 → 0.72,
- * 0.28 → 0.20. test/mie-ripple-convergence.test.ts measures the cell means against dense nodes.
+ * 0.28 → 0.20. test/pipeline/compute/mie-ripple-convergence.test.ts measures the cell means against dense nodes.
  */
 export const MAX_RIPPLE_STEP_X = 0.6;
 

@@ -21,7 +21,7 @@ import { allocateCoefficients, assertSphereInput, type MieCoefficients } from ".
  *   R11 = −(ξ1(z)/ξ2(z)) (κL1(z) − L1(x)) / (κL2(z) − L1(x))
  *   T21 T12 = −4κ / [ξ1(x) ξ2(z) (L1(x) − κL2(z))]²
  * (derived by matching the fields at the single surface; same content as Hovenac & Lock 1992 §2,
- * equation numbers not checked. Checked in test/debye-series.test.ts: the sum over p reproduces B&H
+ * equation numbers not checked. Checked in test/lib/mie/debye.test.ts: the sum over p reproduces B&H
  * eq. 4.53 to ≤ 2e-12, and a lossless surface conserves flux.)
  */
 export interface DebyeModeCoefficients {

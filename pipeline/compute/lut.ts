@@ -2,7 +2,7 @@
 // radiance in a linear space, with the rain curtain's opacity 1 − T in alpha.
 
 import type { LutRequest } from "../../schemas/lut.js";
-import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
+import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
 import { computeProfile, requestHash, type ProfileDeps, type ProfileResult } from "./profile.js";
@@ -40,7 +40,7 @@ function rowDrops(request: LutRequest): { label: string; value: number; drops: P
       drops: { kind: "marshall-palmer" as const, rainRateMmPerH },
     }));
   }
-  const drops = request.scenario.drops ?? profileRequestSchema.parse({}).drops;
+  const drops = request.scenario.drops ?? profileDefaults.drops;
   return [{ label: "scenario", value: 0, drops }];
 }
 
@@ -73,12 +73,13 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
   for (const name of stageNames) progress.plan(name, 1);
 
   for (let j = 0; j < rows.length; j++) {
-    const body = profileRequestSchema.parse({
+    const body: ProfileRequest = {
+      ...profileDefaults,
       ...request.scenario,
       drops: rows[j].drops,
       angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
-      output: { space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
-    });
+      output: { ...profileDefaults.output, space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
+    };
     const profile = await computeProfile(body, deps);
     progress.complete(stageNames[j]);
     first ??= profile;

@@ -16,7 +16,7 @@ import { blocksOf, kernelStepFor } from "../../lib/bow/kernel-grid.js";
 import type { KernelService } from "../kernels/kernel-service.js";
 import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
-import { engineChooser, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
+import { autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-density.js";
 import type { CellAverage } from "../../lib/bow/cell-average.js";
@@ -115,6 +115,8 @@ export interface ProfileResolution {
   nodesPerDecade?: number;
   maxInternalStepDeg?: number;
   thinning?: readonly ThinningLevel[];
+  /** auto's Mie budget (AUTO_MIE_BUDGET_TERM_ANGLES): bench/auto-presets.ts measures the error at other budgets. */
+  autoMieBudgetTermAngles?: number;
 }
 
 /**
@@ -130,6 +132,23 @@ function radiusDensityFor(request: ProfileRequest, resolution: ProfileResolution
   return chooseRadiusDensity(auto);
 }
 
+/** Cost-aware auto (lib/bow/engine-choice.ts): exact Mie where it fits the budget, Airy only for drops beyond it. */
+function chooseAutoFor(radiiUm: Float64Array, wl: Float64Array, span: { first: number; last: number }, resolution: ProfileResolution): AutoChoice {
+  // Kernel tasks compute only the span's lattice points, so that is what the cost counts (one size per node).
+  const nodeCost = Array.from(radiiUm, (r) => estimateMieTermAngles(Float64Array.of(r), wl, span.last - span.first + 1, () => "mie"));
+  return chooseAutoEngine(radiiUm, nodeCost, resolution.autoMieBudgetTermAngles);
+}
+
+/** What "auto" chooses for a request, without computing it (null for the other methods). */
+export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolution = {}): AutoChoice | null {
+  if (request.method !== "auto") return null;
+  const wl = wavelengthsNm(makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm));
+  const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
+  const span = profileSpan({ fromDeg: request.angles.fromDeg, stepDeg: request.angles.stepDeg, count: angleCount(request.angles) }, request.sun.discDeg, h);
+  const quadrature = latticeRadiusQuadrature(toDistribution(request.drops), { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
+  return chooseAutoFor(quadrature.radiiUm, wl, span, resolution);
+}
+
 export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
   const { limits } = deps;
   const started = performance.now();
@@ -140,12 +159,13 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   if (/extrapolated/i.test(waterSource)) warnings.push(`water index extrapolated: ${waterSource}`);
 
   const distribution = toDistribution(request.drops);
-  const engine = engineChooser(request.method);
   const count = angleCount(request.angles);
   const angles = { fromDeg: request.angles.fromDeg, stepDeg: request.angles.stepDeg, count };
   const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
   const span = profileSpan(angles, request.sun.discDeg, h);
   const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
+  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature.radiiUm, wl, span, resolution) : null;
+  const engine = autoChoice ? autoEngine(autoChoice) : engineChooser(request.method);
   // Lorenz–Mie rows averaged over each node's radius cell at sizesPerDecade (cell-average.ts, radius-density.ts).
   const averagesAt = (sizesPerDecade: number) => {
     const samples = Math.round(sizesPerDecade / quadrature.nodesPerDecade);
@@ -277,7 +297,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   }
 
   const meta: ProfileMeta = {
-    method: { requested: request.method, engines: engineRanges },
+    method: { requested: request.method, engines: engineRanges, ...(autoChoice ? { rule: autoChoice.rule } : {}) },
     shape: shapePlan.meta,
     units: {
       anglesDeg: "degrees from the antisolar point",

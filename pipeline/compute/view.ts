@@ -2,12 +2,11 @@
 // linear colours per profile sample, spread over the pixels by lib/view, and written as EXR, Radiance HDR or PNG.
 
 import sharp from "sharp";
-import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
+import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../../schemas/view.js";
 import { computeProfile, type ProfileLimits, type ProfileResult } from "./profile.js";
 import type { KernelService } from "../kernels/kernel-service.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
-import { parseOrThrow } from "../requests/parse-request.js";
 import { ClientError } from "../requests/client-error.js";
 import { luminanceReciprocal, spectraToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { renderXyz } from "../../lib/colour/render.js";
@@ -184,15 +183,15 @@ function skyScene(body: SkyRequest): Scene {
   };
 }
 
-/** Merges the view's choices into the scenario and validates it as a profile request; errors name the scenario field. */
+/** The validated scenario with the view's choices: the profile request the image is made from. */
 function profileRequestFor(scene: Scene, angles: { fromDeg: number; toDeg: number; stepDeg: number }): ProfileRequest {
-  const body = {
+  return {
+    ...profileDefaults,
     ...scene.scenario,
     sun: { ...scene.scenario.sun, elevationDeg: scene.sunPosition.elevationDeg },
     angles,
     output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute", vision: scene.output.vision, adaptingLuminanceCdPerM2: scene.output.adaptingLuminanceCdPerM2 },
   };
-  return parseOrThrow(profileRequestSchema, body, "body", ["scenario"]);
 }
 
 function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg: number; seen: { minDeg: number; maxDeg: number } | null } {

@@ -5,7 +5,8 @@ import { EventEmitter } from "node:events";
 import { randomUUID } from "node:crypto";
 import type { KernelService } from "../kernels/kernel-service.js";
 import type { DiskStore } from "../kernels/disk-store.js";
-import { ByteLru } from "../kernels/byte-lru.js";
+import type { LRUCache } from "lru-cache";
+import { byteBoundedCache } from "../kernels/byte-bounded-cache.js";
 import type { RenderOutput } from "../render/render-output.js";
 import type { RendererRegistry } from "./renderers.js";
 import { throttledProgress } from "../progress/throttled-progress.js";
@@ -52,11 +53,11 @@ export class EmbeddedJobBackend implements JobBackend {
   private readonly running = new Set<Promise<void>>();
   private readonly waiting: string[] = [];
   private readonly events = new EventEmitter();
-  private readonly memory: ByteLru<Payload>;
+  private readonly memory: LRUCache<string, Payload>;
   private closed = false;
 
   constructor(private readonly options: EmbeddedOptions) {
-    this.memory = new ByteLru(options.memoryBudgetBytes);
+    this.memory = byteBoundedCache(options.memoryBudgetBytes);
     this.events.setMaxListeners(0);
   }
 

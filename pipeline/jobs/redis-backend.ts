@@ -207,7 +207,8 @@ export class RedisJobBackend implements JobBackend {
 
   /** Bounded whether or not Redis answers: each connection gets a second to close cleanly, then is dropped. */
   async close(): Promise<void> {
-    if ((await within(this.queue.close().then(() => true), 1000)) !== true) await within(this.queue.disconnect(), 100);
+    const closed = this.redis.status === "ready" && (await within(this.queue.close().then(() => true), 1000));
+    if (!closed) await within(this.queue.disconnect(), 100);
     this.subscriber.disconnect();
     await closeRedis(this.redis);
   }

@@ -169,6 +169,8 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
           // Jobs in hand end by the give-back (and its two bounded commands); BullMQ's close then waits for Redis to
           // answer, so it gets a moment only while Redis is connected, and the sockets are dropped after.
           await within(drained(), giveBackAt + 2 * STOPPING_COMMAND_MS - Date.now());
+          // Still in hand (a finished render waiting for Redis to store its result): retried once its lease lapses.
+          for (const id of inHand.keys()) log({ msg: "job left to its lease", id });
           const closed = redis.status === "ready" && (await within(closing, 2 * STOPPING_COMMAND_MS));
           if (!closed) await within(worker.disconnect(), STOPPING_COMMAND_MS);
         }

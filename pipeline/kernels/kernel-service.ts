@@ -5,7 +5,8 @@
 import { simdArithmetic } from "../../lib/mie/simd-amplitudes.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { setMaxListeners } from "node:events";
-import { ByteLru } from "./byte-lru.js";
+import type { LRUCache } from "lru-cache";
+import { byteBoundedCache } from "./byte-bounded-cache.js";
 import type { DiskStore } from "./disk-store.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 import type { DropMedium } from "../../lib/water/drop-medium.js";
@@ -119,7 +120,7 @@ function packKey(m: DropMedium, variant: string, h: number, block: number): stri
 }
 
 export class KernelService {
-  readonly memory: ByteLru<Pack>;
+  readonly memory: LRUCache<string, Pack>;
   /** Rows being computed: pack key → radius → the task computing it and where the row sits in its result. */
   private readonly inflight = new Map<string, Map<number, InflightRow>>();
   private readonly packLoads = new Map<string, Promise<void>>();
@@ -139,13 +140,14 @@ export class KernelService {
       parallelism?: number;
     },
   ) {
-    this.memory = new ByteLru(options.memoryBudgetBytes);
+    this.memory = byteBoundedCache(options.memoryBudgetBytes);
   }
 
   /** Adds rows (radius → row) to a pack in memory: one cache update per pack, not per row. */
   private remember(pack: string, rows: Iterable<[number, Float64Array]>): void {
-    const entry = this.memory.take(pack) ?? new Pack();
+    const entry = this.memory.get(pack) ?? new Pack();
     for (const [radiusUm, row] of rows) entry.add(radiusUm, row);
+    // Set again so that the cache counts the pack's new size.
     this.memory.set(pack, entry);
   }
 

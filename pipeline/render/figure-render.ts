@@ -1,6 +1,6 @@
 import sharp from "sharp";
-import { profileRequestSchema, type ProfileRequest } from "../../schemas/profile.js";
-import { sizeMapRowBody, type SizeMapRequest } from "../../schemas/figures.js";
+import type { ProfileRequest } from "../../schemas/profile.js";
+import { sizeMapRowRequest, type SizeMapRequest } from "../../schemas/figures.js";
 import { computeProfile, type ProfileResult } from "../compute/profile.js";
 import { profileProgress } from "./profile-render.js";
 import { contentHash } from "../requests/content-hash.js";
@@ -62,7 +62,7 @@ async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ ra
     const results = await Promise.all(
       Array.from(radiiUm, async (radiusUm) => {
         try {
-          const result = await computeProfile(profileRequestSchema.parse(sizeMapRowBody(body, radiusUm)), { kernels: deps.kernels, limits, signal: abort.signal });
+          const result = await computeProfile(sizeMapRowRequest(body, radiusUm), { kernels: deps.kernels, limits, signal: abort.signal });
           rowsDone.complete(`row ${++done}`);
           return result;
         } catch (err) {

@@ -7,7 +7,7 @@ import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { encodePngImage } from "../encoders/png-strip.js";
 import { spacePrimaries } from "../../lib/colour/primaries.js";
 import { jsonOutput, type RenderDeps, type RenderOutput } from "./render-output.js";
-import { annotate, resolveLutRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
+import { annotate, resolveLutRequest, sourcePositionHeaders, type Resolved } from "../sky/resolve-source.js";
 
 export type LutQuery = z.output<typeof lutQuerySchema>;
 
@@ -19,10 +19,18 @@ function rgbOnly(lut: SlicedLut): Float32Array {
 
 export async function renderLut(request: LutRequest, query: LutQuery, deps: RenderDeps): Promise<RenderOutput> {
   const resolved = resolveLutRequest(request);
+  const lut = await computeSlicedLut(resolved.body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal }, deps.onProgress);
+  return encodeLut(lut, resolved, query);
+}
+
+/**
+ * A computed texture as the file (or manifest) the query asks for: the one encoding of POST /v1/lut and
+ * `antisolar bake`. The manifest takes the resolved source's position, moonlight and warnings.
+ */
+export async function encodeLut(lut: SlicedLut, resolved: Resolved<LutRequest>, query: LutQuery): Promise<RenderOutput> {
   const body = resolved.body;
-  const lut = await computeSlicedLut(body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal }, deps.onProgress);
   const { manifest } = lut;
-  annotate(manifest as Record<string, unknown>, resolved);
+  annotate(manifest, resolved);
   const headers = { ...sourcePositionHeaders(resolved.sourcePosition), "x-antisolar-hash": manifest.hash };
   if (query.part === "manifest") return jsonOutput(manifest, headers);
   // Files without layers hold a time-of-day texture's slices stacked top to bottom (the manifest states it).

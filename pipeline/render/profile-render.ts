@@ -10,7 +10,6 @@ import { jsonOutput, headerSafe, type RenderDeps, type RenderOutput } from "./re
 import { profileSvg } from "../../lib/figures/profile-figure.js";
 import type { ProfileResponse } from "../../schemas/responses/profile-response.js";
 import { annotate, resolveProfileRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
-import type { SourcePositionMeta } from "../sky/source-position.js";
 
 export type StripQuery = z.output<typeof stripQuerySchema>;
 export type ProfileFormat = "json" | "png" | "png16" | "svg";
@@ -48,7 +47,7 @@ export function profileJson(result: ProfileResult): ProfileResponse {
 
 function describingHeaders(result: ProfileResult): Record<string, string> {
   return {
-    ...sourcePositionHeaders(result.meta.sourcePosition as SourcePositionMeta | undefined),
+    ...sourcePositionHeaders(result.meta.sourcePosition),
     "x-antisolar-hash": result.meta.hash,
     "x-antisolar-space": result.request.output.space,
     "x-antisolar-compute-ms": String(result.meta.computeMs),

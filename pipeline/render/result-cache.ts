@@ -1,4 +1,5 @@
-import { ByteLru } from "../kernels/byte-lru.js";
+import type { LRUCache } from "lru-cache";
+import { byteBoundedCache } from "../kernels/byte-bounded-cache.js";
 
 interface Entry {
   value: unknown;
@@ -7,9 +8,9 @@ interface Entry {
 
 /** Finished responses by the content hash of their normalised request and output options. */
 export class ResultCache {
-  private readonly lru: ByteLru<Entry>;
+  private readonly lru: LRUCache<string, Entry>;
   constructor(budgetBytes: number) {
-    this.lru = new ByteLru(budgetBytes);
+    this.lru = byteBoundedCache(budgetBytes);
   }
 
   get<T>(key: string): T | undefined {

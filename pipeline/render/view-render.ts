@@ -22,7 +22,7 @@ export async function renderOverlay(
   }
   const viewDeps = { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask };
   const prepared = endpoint === "view" ? await prepareView(body as ViewRequest, query.format, viewDeps) : await prepareSky(body as SkyRequest, query.format, viewDeps);
-  annotate(prepared.manifest as Record<string, unknown>, resolved);
+  annotate(prepared.manifest, resolved);
   const m = prepared.manifest;
   if (query.part === "manifest") {
     progress.done();

@@ -124,6 +124,9 @@ export function checkJsonText(text: string, limits: JsonBodyLimits = JSON_BODY_L
         throw invalidJson(`body field '${pathOf(frames, isKey ? value : undefined)}' holds ${bad}; JSON text must be Unicode scalar values (RFC 7493 §2.1)`, "Unicode text without lone surrogates or noncharacters");
       }
       if (isKey) {
+        // JSON.parse keeps "__proto__" as a plain member, but the first object spread or record copy (zod's
+        // z.record among them) turns it into the prototype: a job's body {"__proto__": {...}} was dropped unchecked.
+        if (value === "__proto__") refuse("is named __proto__", "member names other than __proto__", value);
         top.keys ??= new Set();
         if (top.keys.has(value)) refuse("appears twice in one object", "each member name once per object (RFC 7493 §2.3)", value);
         if (++top.count > limits.maxMembers) refuse(`is one member more than ${limits.maxMembers}`, `at most ${limits.maxMembers} members in an object`, value);

@@ -78,7 +78,7 @@ function formatPath(path: PropertyKey[]): string {
  * input sits inside the request (a job's `body`), so that the field is named from the request's root.
  */
 export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, where: "body" | "query", prefix: readonly PropertyKey[] = []): z.output<S> {
-  if (where === "query") checkQueryValues(jsonSchemaOf(schema), input);
+  checkNumbersAsText(jsonSchemaOf(schema), input, where, prefix);
   const result = schema.safeParse(input);
   if (result.success) return result.data;
   const issue = result.error.issues[0];
@@ -108,25 +108,26 @@ export function parseOrThrow<S extends z.ZodType>(schema: S, input: unknown, whe
 }
 
 /**
- * Numbers in a query string are written as JSON writes numbers (RFC 8259 §6). z.coerce.number() calls Number(),
- * which reads "0x10" as 16, "" as 0 and " 5 " as 5; those are refused here, before the schema coerces. A parameter
- * given twice arrives as a list, refused here with a message that says so.
+ * Numbers sent as text (a query string, or a job's query object) are written as JSON writes numbers (RFC 8259 §6).
+ * z.coerce.number() calls Number(), which reads "0x10" as 16, "" as 0 and " 5 " as 5; those are refused here,
+ * before the schema coerces. A number given as a list (a query parameter given twice) is refused here too, with a
+ * message that says so. Only the top level is read: query schemas are flat.
  */
 const DECIMAL = /^-?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?$/;
 
-function checkQueryValues(root: JsonSchema, input: unknown): void {
-  if (!input || typeof input !== "object") return;
+function checkNumbersAsText(root: JsonSchema, input: unknown, where: "body" | "query", prefix: readonly PropertyKey[]): void {
+  if (!input || typeof input !== "object" || Array.isArray(input)) return;
+  const properties = root.properties ?? {};
   for (const [key, value] of Object.entries(input)) {
-    const node = Object.prototype.hasOwnProperty.call(root.properties ?? {}, key) ? root.properties![key] : undefined;
-    if (!node) continue; // an unknown name: the schema's strictness names it
-    const field = formatPath([key]);
+    const node = Object.prototype.hasOwnProperty.call(properties, key) ? properties[key] : undefined;
+    if (!node || (node.type !== "number" && node.type !== "integer")) continue;
+    const field = formatPath([...prefix, key]);
     const allowed = describeRange(node);
     const refuse = (what: string) => {
-      throw new ClientError("invalid-request", `query field '${field}' ${what}${allowed ? `: allowed is ${allowed}` : ""}`, { field, ...(allowed ? { allowed } : {}) });
+      throw new ClientError("invalid-request", `${where} field '${field}' ${what}${allowed ? `: allowed is ${allowed}` : ""}`, { field, ...(allowed ? { allowed } : {}) });
     };
-    if (Array.isArray(value)) refuse(`is given ${value.length} times; give it once`);
-    const numeric = node.type === "number" || node.type === "integer";
-    if (numeric && typeof value === "string" && !DECIMAL.test(value)) refuse(`is not a decimal number (sent ${previewValue(value)})`);
+    if (Array.isArray(value)) refuse(where === "query" && prefix.length === 0 ? `is given ${value.length} times; give it once` : `is a list of ${value.length} values; give one number`);
+    if (typeof value === "string" && !DECIMAL.test(value)) refuse(`is not a decimal number (sent ${previewValue(value)})`);
   }
 }
 

@@ -11,6 +11,14 @@ import { defaultSun } from "../../schemas/profile.js";
 import { sunPositionSchema } from "../../schemas/view.js";
 import { ClientError } from "../requests/client-error.js";
 
+/** The part of a profile's meta or a manifest (schemas/responses/) that a resolved source adds to. */
+export interface SourceAnnotated {
+  sources: string[];
+  warnings: string[];
+  sourcePosition?: SourcePositionMeta;
+  moonlight?: MoonlightMeta;
+}
+
 export interface Resolved<T> {
   body: T;
   /** Set when the request gave a moment and a place. */
@@ -94,16 +102,13 @@ export function resolveOverlayRequest<T extends ViewRequest | SkyRequest>(body: 
 }
 
 /** Adds what was resolved to an answer's meta or manifest object. */
-export function annotate(target: Record<string, unknown>, resolved: Resolved<unknown>): void {
+export function annotate(target: SourceAnnotated, resolved: Resolved<unknown>): void {
   if (resolved.sourcePosition) target.sourcePosition = resolved.sourcePosition;
   if (resolved.moonlight) {
     target.moonlight = resolved.moonlight;
-    if (Array.isArray(target.sources)) target.sources = [...target.sources, ...resolved.moonlight.sources];
+    target.sources = [...target.sources, ...resolved.moonlight.sources];
   }
-  if (resolved.warnings.length > 0) {
-    const existing = Array.isArray(target.warnings) ? (target.warnings as string[]) : [];
-    target.warnings = [...resolved.warnings, ...existing];
-  }
+  if (resolved.warnings.length > 0) target.warnings = [...resolved.warnings, ...target.warnings];
 }
 
 /** The position as a header for answers that are not JSON. */

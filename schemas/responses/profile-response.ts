@@ -24,6 +24,7 @@ export const methodSummarySchema = z
   .strictObject({
     requested: z.enum(profileMethods),
     engines: z.array(engineRangeSchema).describe("which engine served which drop radii"),
+    rule: z.string().optional().describe('method "auto": why it chose these engines (its Mie budget) and their measured error against full Mie'),
   })
   .describe("the engine asked for and those used");
 

@@ -1,10 +1,12 @@
 // The baking CLI uses the same schemas and core as the service (it runs the built dist/, which npm test builds).
-import { describe, it, expect } from "vitest";
+import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { execFileSync } from "node:child_process";
 import { mkdtempSync, writeFileSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
+import type { FastifyInstance } from "fastify";
+import { buildApp } from "../../http/app.js";
 
 const cli = fileURLToPath(new URL("../../dist/cli/antisolar.js", import.meta.url));
 
@@ -57,5 +59,82 @@ describe("antisolar CLI", () => {
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }
+  });
+});
+
+/** EXR header attributes (OpenEXR file layout: after magic and version, name\0 type\0 size value, ending with \0). */
+function exrAttributes(file: Buffer): Map<string, { type: string; value: Buffer }> {
+  const out = new Map<string, { type: string; value: Buffer }>();
+  let at = 8;
+  const text = () => {
+    const end = file.indexOf(0, at);
+    const s = file.toString("latin1", at, end);
+    at = end + 1;
+    return s;
+  };
+  for (;;) {
+    const name = text();
+    if (name === "") return out;
+    const type = text();
+    const size = file.readInt32LE(at);
+    out.set(name, { type, value: file.subarray(at + 4, at + 4 + size) });
+    at += 4 + size;
+  }
+}
+
+describe("one bake: the CLI writes what the routes answer", () => {
+  let app: FastifyInstance;
+  let dir: string;
+  beforeAll(async () => {
+    app = await buildApp({ config: { cacheDir: "", rateLimitPerMinute: 0, workers: 1, maxEventLoopDelayMs: 0 } });
+    dir = mkdtempSync(join(tmpdir(), "antisolar-cli-"));
+  });
+  afterAll(async () => {
+    await app.close();
+    rmSync(dir, { recursive: true, force: true });
+  });
+
+  it("bake: the EXR is byte for byte POST /v1/lut's, with every attribute (comments, hash, space, chromaticities)", async () => {
+    const body = { sizes: { kind: "radius", texels: 2, fromUm: 50, toUm: 500 }, angles: { texels: 16 }, scenario: { spectral: { fromNm: 400, toNm: 700, stepNm: 20 } } };
+    const request = join(dir, "lut.json");
+    writeFileSync(request, JSON.stringify(body));
+    const out = join(dir, "bow.exr");
+    expect(run(["bake", request, "--output", out], join(dir, "cache")).status).toBe(0);
+    const cli = readFileSync(out);
+    const res = await app.inject({ method: "POST", url: "/v1/lut?format=exr", payload: body });
+    expect(res.statusCode).toBe(200);
+    const route = res.rawPayload;
+    const cliAttributes = exrAttributes(cli);
+    const routeAttributes = exrAttributes(route);
+    expect([...cliAttributes.keys()].sort()).toEqual([...routeAttributes.keys()].sort());
+    for (const name of ["comments", "antisolar:hash", "antisolar:space", "chromaticities"]) {
+      expect(cliAttributes.get(name)?.value.equals(routeAttributes.get(name)!.value), name).toBe(true);
+    }
+    expect(cli.equals(route)).toBe(true);
+    // The manifest beside it is the route's ?part=manifest, but for the time each took.
+    const manifest = JSON.parse(readFileSync(`${out}.manifest.json`, "utf8"));
+    const routeManifest = (await app.inject({ method: "POST", url: "/v1/lut?part=manifest", payload: body })).json();
+    expect({ ...manifest, computeMs: 0 }).toEqual({ ...routeManifest, computeMs: 0 });
+  });
+
+  it("render: the PNG strip is byte for byte POST /v1/profile's ?format=png16&height=32", async () => {
+    const body = { angles: { fromDeg: 38, toDeg: 54, stepDeg: 0.5 }, spectral: { fromNm: 400, toNm: 700, stepNm: 20 } };
+    const request = join(dir, "profile.json");
+    writeFileSync(request, JSON.stringify(body));
+    const out = join(dir, "strip.png");
+    expect(run(["render", request, "-o", out, "--height", "32"], join(dir, "cache")).status).toBe(0);
+    const res = await app.inject({ method: "POST", url: "/v1/profile?format=png16&height=32", payload: body });
+    expect(res.statusCode).toBe(200);
+    expect(readFileSync(out).equals(res.rawPayload)).toBe(true);
+  });
+
+  it("refuses an unknown option or output type with the usage text, exit code 1", () => {
+    const unknown = run(["bake", "x.json", "-o", "x.exr", "--colour", "red"], join(dir, "cache"));
+    expect(unknown.status).toBe(1);
+    expect(unknown.stderr).toMatch(/--colour/);
+    expect(unknown.stderr).toMatch(/antisolar bake <lut-request.json>/);
+    const type = run(["bake", "x.json", "-o", "x.tiff"], join(dir, "cache"));
+    expect(type.status).toBe(1);
+    expect(type.stderr).toMatch(/\.tiff.*\.exr, \.ktx2, \.hdr, \.png, \.json/);
   });
 });

@@ -16,7 +16,7 @@ beforeAll(async () => {
 });
 afterAll(async () => app.close());
 
-// A cheap scenario for the HTTP checks: the physics itself is tested in bow-profile.test.ts.
+// A cheap scenario for the HTTP checks: the physics itself is tested in test/pipeline/compute/profile-bows.test.ts.
 const quick = { angles: { fromDeg: 36, toDeg: 56, stepDeg: 0.25 }, spectral: { fromNm: 380, toNm: 780, stepNm: 20 } };
 
 function pngBuffer(res: request.Response): Buffer {

@@ -31,8 +31,10 @@ let app: FastifyInstance;
 let paths: Set<string>;
 
 beforeAll(async () => {
-  // Back-pressure is tested in hardening.test.ts; here a busy test machine must not turn answers into 503s.
-  app = await buildApp({ config: { cacheDir: "", rateLimitPerMinute: 0, workers: 2, maxEventLoopDelayMs: 600_000, maxRssMb: 1_000_000 } });
+  // Back-pressure is tested in hardening.test.ts; here a busy test machine must not turn answers into 503s. 0 turns
+  // the event-loop check off: a high limit is not enough, as under-pressure reads a sampling interval without a
+  // single sample (a starved loop on a loaded machine) as an infinite delay.
+  app = await buildApp({ config: { cacheDir: "", rateLimitPerMinute: 0, workers: 2, maxEventLoopDelayMs: 0, maxRssMb: 1_000_000 } });
   await app.ready();
   const openapi = (await app.inject({ method: "GET", url: "/openapi.json" })).json() as { paths: Record<string, unknown> };
   paths = new Set(Object.keys(openapi.paths));
@@ -539,6 +541,12 @@ describe("property: invalid requests give 4xx in the common error shape naming t
       { url: "/v1/lut", body: { angles: { fromDeg: 50, toDeg: 40 } }, field: "angles.toDeg" },
       { url: "/v1/lut", body: { sizes: { kind: "radius", fromUm: 500, toUm: 100 } }, field: "sizes.toUm" },
       { url: "/v1/lut", body: { sizes: { kind: "radius", texels: 100000 } }, field: "sizes.texels" },
+      // The rules across a profile's fields hold wherever its physics is sent (a texture's scenario once gave a 500).
+      { url: "/v1/lut", body: { scenario: { water: { temperatureC: 15, salinityPsu: 35 } } }, field: "scenario.spectral.fromNm" },
+      { url: "/v1/view", body: { scenario: { water: { salinityPsu: 35 } } }, field: "scenario.spectral.fromNm" },
+      { url: "/v1/sky", body: { scenario: { sun: { spectrum: { kind: "table", wavelengthsNm: [400, 500, 600], values: [1, 2] } } }, widthPx: 8, heightPx: 4 }, field: "scenario.sun.spectrum.values" },
+      { url: "/v1/figure/size-map", body: { water: { salinityPsu: 35 } }, field: "spectral.fromNm" },
+      { url: "/v1/figure/size-map", body: { spectral: { fromNm: 400, toNm: 700, stepNm: 7 } }, field: "spectral.stepNm" },
     );
     await fc.assert(
       fc.asyncProperty(absurd, async ({ url, body, field }) => expectClientError({ method: "POST", url, payload: JSON.stringify(body) }, 400, field)),

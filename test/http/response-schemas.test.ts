@@ -100,6 +100,25 @@ describe("real answers validate against their schemas", () => {
     for (const { name } of list.presets) check(await app.inject({ url: `/v1/presets/${name}` }), "/v1/presets/{name}", "get", 200, "Preset");
   });
 
+  it("a light given by moment and place, or the moon: sourcePosition and moonlight in meta and manifests", async () => {
+    // The worked example of Reda & Andreas 2004 (NREL/TP-560-34302, Table A5.1): Golden, Colorado, 17 October 2003.
+    const at = { utc: "2003-10-17T12:30:30-07:00", latitudeDeg: 39.742476, longitudeDeg: -105.1786, heightM: 1830.14, pressureHpa: 820, temperatureC: 11 };
+    const moon = { elevationDeg: 10, phaseAngleDeg: 0 };
+    const angles = { fromDeg: 36, toDeg: 56, stepDeg: 0.5 };
+    const profiles = [
+      check(await app.inject({ method: "POST", url: "/v1/profile", payload: { ...quick, angles, sun: { at } } }), "/v1/profile", "post", 200, "Profile"),
+      check(await app.inject({ method: "POST", url: "/v1/profile", payload: { ...quick, angles, moon } }), "/v1/profile", "post", 200, "Profile"),
+    ] as { meta: { sourcePosition?: unknown; moonlight?: unknown } }[];
+    expect(profiles[0].meta.sourcePosition).toBeDefined();
+    expect(profiles[1].meta.moonlight).toBeDefined();
+    const lut = { sizes: { kind: "rain-rate", texels: 2 }, angles: { texels: 8 }, scenario: { ...quick, moon } };
+    const manifest = check(await app.inject({ method: "POST", url: "/v1/lut?part=manifest", payload: lut }), "/v1/lut", "post", 200, "LutManifest") as { moonlight?: unknown };
+    expect(manifest.moonlight).toBeDefined();
+    const view = { sun: { at }, camera: { widthPx: 16, heightPx: 8 }, scenario: quick };
+    const overlay = check(await app.inject({ method: "POST", url: "/v1/view?part=manifest", payload: view }), "/v1/view", "post", 200, "ViewManifest") as { sourcePosition?: unknown };
+    expect(overlay.sourcePosition).toBeDefined();
+  });
+
   it("textures: /v1/lut's manifest and JSON texture, both angle mappings and all row kinds", async () => {
     const bodies = [
       { sizes: { kind: "rain-rate", texels: 2 }, angles: { texels: 8 }, scenario: quick },

@@ -47,7 +47,7 @@ describe("static files of the page", () => {
   it("state the service's own auto switch radius and offer every mieSizesPerDecade the schema allows", () => {
     const page = readFileSync(fileURLToPath(new URL("../../web/index.html", import.meta.url)), "utf8");
     const script = readFileSync(fileURLToPath(new URL("../../web/request-body.js", import.meta.url)), "utf8");
-    expect(page).toContain(`Auto: Mie below ${AUTO_AIRY_FROM_RADIUS_UM} µm, else Airy`);
+    expect(page).toContain(`Auto: exact Mie where affordable (always below ${AUTO_AIRY_FROM_RADIUS_UM} µm), else Airy`);
     expect(script).toContain(`const AUTO_AIRY_FROM_RADIUS_UM = ${AUTO_AIRY_FROM_RADIUS_UM};`);
     const select = /<select id="mie-sizes" name="mieSizesPerDecade">([\s\S]*?)<\/select>/.exec(page)![1];
     const offered = [...select.matchAll(/value="([^"]+)"/g)].map((m) => (m[1] === "auto" ? "auto" : Number(m[1])));

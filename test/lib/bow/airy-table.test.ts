@@ -11,7 +11,7 @@ const reference = JSON.parse(readFileSync(new URL("../../../fixtures/airy/airy-r
 };
 
 describe("tabulated Airy function of the bow bins", () => {
-  // Same tolerance as lib/special/airy.ts in test/airy.test.ts: 1e-10 relative + 1e-12 absolute.
+  // Same tolerance as lib/special/airy.ts in test/lib/special/airy.test.ts: 1e-10 relative + 1e-12 absolute.
   it(`matches scipy at ${reference.x.length} points on −200 ≤ x ≤ 20 to 1e-10 relative + 1e-12 absolute`, () => {
     let worst = 0;
     reference.x.forEach((x, j) => {

@@ -1,12 +1,12 @@
 // The "airy" engine (uniform Airy theory for the bows, ray optics elsewhere) against full Lorenz–Mie theory, in
 // CIEDE2000 after the sun-disc convolution, for a narrow lognormal rain: the check behind AUTO_AIRY_FROM_RADIUS_UM.
 // The reference is the project's Mie engine, itself checked against Wiscombe 1980's published cases
-// (test/mie-wiscombe.test.ts) and a reference library (test/mie-reference.test.ts).
+// (test/lib/mie/wiscombe-miev0.test.ts) and a reference library (test/lib/mie/mpmath-reference.test.ts).
 // Colour difference: CIEDE2000 (Luo, Cui & Rigg 2001) via colorjs.io, on XYZ under a CIE D65 sun (the white),
 // both profiles divided by the Mie profile's peak Y, so a brightness error counts as well as a hue error.
 import { describe, it, expect } from "vitest";
 import { compareAiryWithMie } from "../../../bench/auto-engine.js";
-import { AUTO_AIRY_FROM_RADIUS_UM, engineChooser } from "../../../lib/bow/engine-choice.js";
+import { AUTO_AIRY_FROM_RADIUS_UM, autoEngine, chooseAutoEngine, engineChooser } from "../../../lib/bow/engine-choice.js";
 
 // Reduced grid: ψ 36–56° (both bows, the supernumeraries, Alexander's band) by 0.2°, 380–780 nm by 20 nm, and
 // 192 radius nodes per decade (~62 nodes), enough to wash out most fringes of single sizes (the bench uses 384).
@@ -38,5 +38,29 @@ describe("auto engine switch: Airy against Mie for narrow lognormal rain (σg = 
     // Measured mean 1.56 and 2.21 at the secondary: Airy theory misplaces small drops' supernumeraries.
     expect(res.meanDeltaE).toBeGreaterThan(1);
     expect(res.secondary!.deltaE).toBeGreaterThan(1);
+  });
+});
+
+describe("cost-aware auto: exact Mie within the budget, Airy only beyond it", () => {
+  const radiiUm = Float64Array.from([20, 50, 90, 120, 200, 400, 800]);
+  // Arbitrary costs per node (Mie term-angles), growing with the radius as the series length does.
+  const nodeCost = [1, 2, 3, 4, 5, 6, 7];
+
+  it("serves every drop by Lorenz–Mie when all of them fit the budget", () => {
+    const choice = chooseAutoEngine(radiiUm, nodeCost, 28);
+    expect(choice.airyFromUm).toBe(Infinity);
+    expect(radiiUm.every((r) => autoEngine(choice)(r) === "mie")).toBe(true);
+    expect(choice.rule).toMatch(/exact Lorenz–Mie for every drop/);
+  });
+
+  it("otherwise moves the switch to the largest radius whose smaller drops fit, never below the accuracy floor", () => {
+    // Nodes below 400 µm cost 1+2+3+4+5 = 15; below 800 µm, 21.
+    expect(chooseAutoEngine(radiiUm, nodeCost, 15).airyFromUm).toBe(400);
+    expect(chooseAutoEngine(radiiUm, nodeCost, 20.9).airyFromUm).toBe(400);
+    expect(chooseAutoEngine(radiiUm, nodeCost, 21).airyFromUm).toBe(800);
+    expect(chooseAutoEngine(radiiUm, nodeCost, 1).airyFromUm).toBe(AUTO_AIRY_FROM_RADIUS_UM);
+    const choice = chooseAutoEngine(radiiUm, nodeCost, 15);
+    expect(Array.from(radiiUm, autoEngine(choice))).toEqual(["mie", "mie", "mie", "mie", "mie", "airy", "airy"]);
+    expect(choice.rule).toMatch(/Mie below 400 µm/);
   });
 });

@@ -130,7 +130,7 @@ describe("XML check used below", () => {
   });
 });
 
-// Cheap scenarios: the figures are checked here, the physics in bow-profile.test.ts.
+// Cheap scenarios: the figures are checked here, the physics in test/pipeline/compute/profile-bows.test.ts.
 const showerBody = { angles: { fromDeg: 30, toDeg: 60, stepDeg: 0.2 }, spectral: { fromNm: 380, toNm: 780, stepNm: 20 } };
 
 let shower: ProfileResult;

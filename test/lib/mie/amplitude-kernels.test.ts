@@ -18,7 +18,7 @@ interface RefCase {
 }
 const ref = JSON.parse(readFileSync(new URL("../../../fixtures/mie/mie-reference.json", import.meta.url), "utf8")) as { cases: RefCase[] };
 
-// The product's accuracy goal for complex amplitudes, relative to |S| (as test/mie-reference.test.ts).
+// The product's accuracy goal for complex amplitudes, relative to |S| (as test/lib/mie/mpmath-reference.test.ts).
 const REL_AMPLITUDE = 1e-9;
 
 const coefficientsFor = (c: RefCase) => (c.perfectConductor ? mieCoefficientsPerfectConductor(c.x) : mieCoefficients(c.mRe!, c.mIm!, c.x));

@@ -20,7 +20,7 @@ const REL_S = 5e-6;
 // Case 1 (x = 0.099 < 0.1): MIEV0 switches to its small-sphere series for a perfect conductor at x ≤ 0.1 (MIEV0
 // source: IF (PERFCT .AND. XX .LE. 0.1) CALL SMALL1), which
 // differs from the exact series by 5.2e-5 in Qext; the exact value is checked to 1e-12 against mpmath in
-// test/mie-reference.test.ts. Tolerance here 1e-4.
+// test/lib/mie/mpmath-reference.test.ts. Tolerance here 1e-4.
 const REL_SMALL_SERIES = 1e-4;
 
 const cases = new Map<string, Record<string, string>[]>();

@@ -198,7 +198,7 @@ describe("sky map (equirectangular: azimuth −180°..180° left to right with n
       for (let i = 0; i < data.length; i += 3) best = Math.max(best, luminance(data, i));
       return best;
     };
-    // The bow is ≥ 80 % tangentially polarised (test/bow-profile.test.ts): crossed, its brightest point keeps < 30 %.
+    // The bow is ≥ 80 % tangentially polarised (test/pipeline/compute/profile-bows.test.ts): crossed, its brightest point keeps < 30 %.
     expect(brightest(crossed.data)).toBeLessThan(0.3 * brightest(open.data));
     expect(brightest(crossed.data)).toBeGreaterThan(0);
   });

@@ -17,6 +17,13 @@ async function synchronous(d: Deployment, endpoint: string, body: unknown, forma
   return bytes(`${d.base}/v1/${endpoint}?format=${format}`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body) });
 }
 
+/** The LUT's manifest says how long the computation took: everything else must be the same. */
+function withoutTime(payload: Buffer) {
+  const lut = JSON.parse(payload.toString("utf8")) as { manifest: { computeMs?: number } };
+  delete lut.manifest.computeMs;
+  return lut;
+}
+
 describe.skipIf(skipWithout(redisServerPresent))("a Redis crash with the append-only file", () => {
   let d: Deployment;
   beforeAll(async () => {
@@ -42,12 +49,6 @@ describe.skipIf(skipWithout(redisServerPresent))("a Redis crash with the append-
     expect((await jobOf(d, long.id))?.attempts).toBe(1);
     for (const job of [long, ...queued]) expect(d.workers[0].events("job done", job.id)).toHaveLength(1);
 
-    // The LUT's manifest says how long the computation took: everything else must be the same.
-    const withoutTime = (payload: Buffer) => {
-      const lut = JSON.parse(payload.toString("utf8")) as { manifest: { computeMs?: number } };
-      delete lut.manifest.computeMs;
-      return lut;
-    };
     const longResult = withoutTime(await bytes(`${d.base}/v1/jobs/${long.id}/result`));
     expect(longResult).toEqual(withoutTime(await synchronous(d, "lut", LONG_LUT, "json")));
     for (const [k, job] of queued.entries()) {
@@ -88,4 +89,30 @@ describe.skipIf(skipWithout(redisServerPresent))("a Redis crash without persiste
     const after = await submit(d, "profile", smallProfile(34), "png");
     expect((await finished(d, after.id, 60_000)).state).toBe("done");
   }, 150_000);
+});
+
+describe.skipIf(skipWithout(redisServerPresent))("a Redis outage longer than the job's lease", () => {
+  let d: Deployment;
+  beforeAll(async () => {
+    d = await deploy({ appendOnly: true, workers: 1, env: { JOB_LOCK_MS: "2000", JOB_STALLED_INTERVAL_MS: "500" } });
+  }, 60_000);
+  afterAll(async () => d?.dispose());
+
+  it("ends the job done once with the synchronous answer though its lease lapsed meanwhile", async () => {
+    const job = await submit(d, "lut", LONG_LUT, "json");
+    await running(d, job.id);
+    await d.redis.kill();
+    // Twice the lease: the lock's expiry time passes while Redis is away, and counts when it is back.
+    await new Promise((r) => setTimeout(r, 4000));
+    await d.redis.start();
+    const end = await finished(d, job.id, 120_000);
+    expect(end.state).toBe("done");
+    const result = withoutTime(await bytes(`${d.base}/v1/jobs/${job.id}/result`));
+    expect(result).toEqual(withoutTime(await synchronous(d, "lut", LONG_LUT, "json")));
+    // Done once: nothing runs the job again after it is done.
+    await new Promise((r) => setTimeout(r, 1500));
+    expect(await jobOf(d, job.id)).toMatchObject({ state: "done", attempts: end.attempts });
+    // Rendered to the end once: a run that the stalled-job check started again finds the job done and skips it.
+    expect(d.workers[0].events("job done", job.id)).toHaveLength(1);
+  }, 180_000);
 });

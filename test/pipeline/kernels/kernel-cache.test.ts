@@ -128,7 +128,7 @@ describe("kernel cache", () => {
   it("the memory cache stays within its byte budget", async () => {
     const kernels = new KernelService({ memoryBudgetBytes: 200_000, compute: createInlinePool().compute });
     await computeProfile(body, { kernels, limits });
-    expect(kernels.memory.sizeBytes).toBeLessThanOrEqual(200_000);
+    expect(kernels.memory.calculatedSize).toBeLessThanOrEqual(200_000);
   });
 });
 

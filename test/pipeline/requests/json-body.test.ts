@@ -93,6 +93,12 @@ describe("I-JSON rules", () => {
     expect(parseJsonBody('{"a":{"a":1},"b":{"a":2}}')).toEqual({ a: { a: 1 }, b: { a: 2 } });
   });
 
+  it("refuses the member name __proto__, however spelled, at any depth", () => {
+    expect(refusal('{"__proto__":{}}').details.field).toBe("__proto__");
+    expect(refusal('{"body":{"\\u005f_proto__":{"drops":1}}}').details).toMatchObject({ field: "body.__proto__", allowed: "member names other than __proto__" });
+    expect(parseJsonBody('{"constructor":{"prototype":1}}')).toEqual({ constructor: { prototype: 1 } });
+  });
+
   it("refuses lone surrogates and noncharacters in values and names, and takes a proper pair", () => {
     for (const s of ["\\ud800", "x\\udc00", "\\udbff\\u0041", "\\ufdd0", "\\uffff", "\\ud83f\\udfff"]) {
       expect(refusal(`{"s":"${s}"}`).code).toBe("invalid-json");
