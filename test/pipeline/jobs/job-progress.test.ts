@@ -29,7 +29,7 @@ let base: string;
 
 beforeAll(async () => {
   folder = await mkdtemp(join(tmpdir(), "antisolar-job-progress-"));
-  const config = { maxEventLoopDelayMs: 600_000, rateLimitPerMinute: 0, cacheDir: folder, workers: 1, redisUrl: "", jobsInProcess: false, jobConcurrency: 1, jobMaxTermAngles: Infinity };
+  const config = { maxEventLoopDelayMs: 0, rateLimitPerMinute: 0, cacheDir: folder, workers: 1, redisUrl: "", jobsInProcess: false, jobConcurrency: 1, jobMaxTermAngles: Infinity };
   app = await buildApp({ config: config as Partial<Config> });
   base = await app.listen({ port: 0, host: "127.0.0.1" });
 });
