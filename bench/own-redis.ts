@@ -37,6 +37,8 @@ export async function ownRedis(options: { appendOnly: boolean }): Promise<OwnRed
     port,
     folder,
     async start() {
+      // One server per port: a second start while one runs would fail to bind and lose track of the first.
+      if (running()) throw new Error(`redis-server on port ${port} is already running`);
       server = spawn("redis-server", ["--bind", "127.0.0.1", "--port", String(port), "--dir", folder, "--save", "", ...persistence], { stdio: "ignore" });
       const probe = new Redis(url, { lazyConnect: true, maxRetriesPerRequest: 0, retryStrategy: () => 50 });
       probe.on("error", () => undefined);
