@@ -78,6 +78,12 @@ interface Scene {
  * The water surface of a scene that asked for one: its index (the scenario's water at 555 nm, the peak of V(λ),
  * CIE 015:2018, as for the curtain) and the reflectances of the sunlight.
  */
+/** The sun's direction, the antisolar point opposite it, and the water surface when one was asked for. */
+function lightOf(body: ViewRequest | SkyRequest, sunDirection: Vec3): Pick<Scene, "sunDirection" | "antisolar" | "water"> {
+  const antisolar: Vec3 = [-sunDirection[0], -sunDirection[1], -sunDirection[2]];
+  return { sunDirection, antisolar, water: waterOf(body.waterSurface, body.scenario, sunDirection, antisolar) };
+}
+
 function waterOf(kind: { kind: "calm" } | undefined, scenario: ViewScenario, sunDirection: Vec3, antisolar: Vec3): WaterSurface | undefined {
   if (!kind) return undefined;
   return waterSurfaceFor(sunDirection, antisolar, dropMedium(scenario.water, CURTAIN_WAVELENGTH_NM).mRe);
@@ -150,13 +156,10 @@ function viewScene(body: ViewRequest): Scene {
             convention: "transmission axis at this angle anticlockwise from the image's horizontal; per pixel the field along the bow's tangent passes with cos²α, the radial field with sin²α (Malus)",
           },
   };
-  const antisolar: Vec3 = [-sunDirection[0], -sunDirection[1], -sunDirection[2]];
   return {
     endpoint: "view",
     rays: cameraRayField(camera),
-    sunDirection,
-    antisolar,
-    water: waterOf(body.waterSurface, body.scenario, sunDirection, antisolar),
+    ...lightOf(body, sunDirection),
     ground: body.ground,
     layer: body.layer,
     maxAngleDeg: body.maxAngleDeg,
@@ -172,13 +175,10 @@ function viewScene(body: ViewRequest): Scene {
 
 function skyScene(body: SkyRequest): Scene {
   const sunDirection = directionFromAzimuthElevation(body.sun.azimuthDeg, body.sun.elevationDeg);
-  const antisolar: Vec3 = [-sunDirection[0], -sunDirection[1], -sunDirection[2]];
   return {
     endpoint: "sky",
     rays: skyRayField(body.widthPx, body.heightPx),
-    sunDirection,
-    antisolar,
-    water: waterOf(body.waterSurface, body.scenario, sunDirection, antisolar),
+    ...lightOf(body, sunDirection),
     ground: body.ground,
     layer: body.layer,
     maxAngleDeg: body.maxAngleDeg,
