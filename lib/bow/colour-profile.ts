@@ -56,8 +56,7 @@ export function colourProfile(spectral: SpectralProfile, grid: WavelengthGrid, o
   const count = spectral.anglesDeg.length;
   const nl = grid.count;
   const radiance = new Float64Array(count * nl);
-  const cos2 = options.polariserDeg === undefined ? 1 : Math.cos((options.polariserDeg * Math.PI) / 180) ** 2;
-  const sin2 = options.polariserDeg === undefined ? 1 : 1 - cos2;
+  const { cos2, sin2 } = polariserWeights(options.polariserDeg);
   for (let k = 0; k < radiance.length; k++) {
     radiance[k] = cos2 * spectral.perpendicular[k] + sin2 * spectral.parallel[k];
   }
@@ -70,9 +69,7 @@ export function colourProfile(spectral: SpectralProfile, grid: WavelengthGrid, o
     polarisation[i] = a + b > 0 ? (a - b) / (a + b) : 0;
   }
 
-  const xyzAbsolute = spectraToXyz(grid, radiance, options.observer);
-  for (let k = 0; k < xyzAbsolute.length; k++) xyzAbsolute[k] *= LUMINOUS_EFFICACY_LM_PER_W;
-  if (options.eye) applyEyeToXyz(xyzAbsolute, scotopicOf(grid, radiance), options.eye);
+  const xyzAbsolute = absoluteXyz(radiance, grid, options);
   const luminanceCdPerM2 = new Float64Array(count);
   let peak = 0;
   for (let i = 0; i < count; i++) {
@@ -105,4 +102,29 @@ export function colourProfile(spectral: SpectralProfile, grid: WavelengthGrid, o
     whiteAdaptation: rendered.whiteAdaptation,
     spaceAdaptation: rendered.spaceAdaptation,
   };
+}
+
+/** Malus's law weights of the tangential (cos²α) and radial (sin²α) fields; both 1 without a polariser. */
+export function polariserWeights(polariserDeg: number | undefined): { cos2: number; sin2: number } {
+  const cos2 = polariserDeg === undefined ? 1 : Math.cos((polariserDeg * Math.PI) / 180) ** 2;
+  return { cos2, sin2: polariserDeg === undefined ? 1 : 1 - cos2 };
+}
+
+/** XYZ with Y in cd/m² of radiance spectra (K_m · CIE 015:2018 Eq. 7.1), through the eye at low light where asked. */
+function absoluteXyz(radiance: Float64Array, grid: WavelengthGrid, options: ColourOptions): Float64Array {
+  const xyz = spectraToXyz(grid, radiance, options.observer);
+  for (let k = 0; k < xyz.length; k++) xyz[k] *= LUMINOUS_EFFICACY_LM_PER_W;
+  if (options.eye) applyEyeToXyz(xyz, scotopicOf(grid, radiance), options.eye);
+  return xyz;
+}
+
+/**
+ * The output space's values alone, for physical normalisation in a linear space (lookup textures): the same
+ * numbers as colourProfile's rgb for the same radiance, without the polarisation and luminance it also gives.
+ */
+export function linearRgbOfRadiance(radiance: Float64Array, grid: WavelengthGrid, options: ColourOptions): Float64Array {
+  if (options.normalise !== "physical" || options.space === "srgb" || options.space === "display-p3" || options.space === "rec2020") {
+    throw new RangeError("linearRgbOfRadiance: physical values in a linear space only");
+  }
+  return renderXyz(absoluteXyz(radiance, grid, options), { space: options.space, gamut: options.gamut, white: options.white, sunWhite: options.sunWhite }).values;
 }

@@ -11,10 +11,11 @@ import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lat
 import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { directSunlight } from "../../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
-import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
-import { blocksOf, kernelStepFor } from "../../lib/bow/kernel-grid.js";
-import type { KernelService } from "../kernels/kernel-service.js";
-import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
+import { latticeUnitProfileSteps, sunlitProfile, sunlitRadiance, discKernels, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
+import { blocksOf, kernelStepFor, type LatticeSpan } from "../../lib/bow/kernel-grid.js";
+import type { KernelRequest, KernelRows, KernelService } from "../kernels/kernel-service.js";
+import type { DiscKernel } from "../../lib/sun/disc.js";
+import { colourProfile, linearRgbOfRadiance, polariserWeights, type ColourOptions, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
 import { autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
@@ -152,8 +153,31 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
   return chooseAutoFor(quadrature.radiiUm, wl, span, resolution);
 }
 
-export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
-  const { limits } = deps;
+/**
+ * Everything a profile decides from its request before any kernel row: wavelengths, drops on their radius nodes,
+ * engines, the lattice span and the kernel request. Nothing here depends on the sun's spectrum or elevation
+ * except the flattened drops' shape plan (sphere rows never do).
+ */
+export interface ProfilePlan {
+  request: ProfileRequest;
+  started: number;
+  grid: WavelengthGrid;
+  waterSource: string;
+  quadrature: RadiusQuadrature;
+  angles: { fromDeg: number; stepDeg: number; count: number };
+  span: LatticeSpan;
+  autoChoice: AutoChoice | null;
+  engine: (radiusUm: number) => DropEngine;
+  density: DensityChoice;
+  shapePlan: ReturnType<typeof planDropShapes>;
+  kernelRequest: KernelRequest;
+  /** Estimated cost of the spectral sum (drops and disc) at one wavelength, ns (work-costs.ts). */
+  spectralNsPerWavelength: number;
+  warnings: string[];
+}
+
+/** Plans a profile; throws the "too-costly" ClientError when its kernels exceed the limits. */
+export function planProfile(request: ProfileRequest, limits: ProfileLimits, resolution: ProfileResolution = {}): ProfilePlan {
   const started = performance.now();
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
@@ -226,78 +250,130 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
       { cost, limit: limits.maxTermAngles, jobs: "/v1/jobs" },
     );
   }
-
-  const sun = sunlightFor(request, grid);
-
   const engines = Array.from(quadrature.radiiUm, engine);
-  const progress = deps.progress;
-  // The sum over drops and the sun's disc, per wavelength (lattice-profile.ts), and the colour of every output angle.
+  const kernelRequest: KernelRequest = { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } };
+  // The sum over drops and the sun's disc, per wavelength (lattice-profile.ts).
   const spanSamples = span.last - span.first + 1;
   const discSamples = Math.ceil(request.sun.discDeg / h) + 1;
   const spectralNsPerWavelength = spanSamples * (quadrature.weights.filter((w) => w !== 0).length * COST_NS.sumSample + discSamples * COST_NS.discSample);
-  progress?.plan("spectral", grid.count * spectralNsPerWavelength);
-  progress?.plan("colour", grid.count * count * COST_NS.colourSample);
-  const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows(
-    { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } },
-    deps.signal,
-    {
-      saveEachTask: deps.saveEachTask,
-      onRows: progress
-        ? (doneNs, totalNs, found) => {
-            progress.plan("kernels", totalNs);
-            progress.advance("kernels", doneNs, { found });
-          }
-        : undefined,
-    },
-  );
-  const kernelMs = performance.now() - kernelStarted;
-  const steps = latticeProfileSteps({
-    angles,
+  return { request, started, grid, waterSource, quadrature, angles, span, autoChoice, engine, density, shapePlan, kernelRequest, spectralNsPerWavelength, warnings };
+}
+
+/** What the spectral pass shares: the disc's kernels per wavelength, the output samples wanted (all by default). */
+export interface SpectralPassOptions {
+  disc?: (wavelengthIndex: number) => DiscKernel;
+  samples?: Int32Array;
+  /** Told of each wavelength done, with the cost of the pass so far in ns. */
+  onWavelength?: (doneNs: number) => void;
+}
+
+/**
+ * The profile per unit sunlight and path (lattice-profile.ts, latticeUnitProfileSteps), one wavelength per turn of
+ * the event loop: the sum over drops and the sun's disc, the bulk of a warm profile's time.
+ */
+export async function unitSpectralProfile(plan: ProfilePlan, rows: KernelRows, options: SpectralPassOptions = {}): Promise<SpectralProfile> {
+  const { span, kernelRequest, quadrature, request, grid } = plan;
+  const steps = latticeUnitProfileSteps({
+    angles: plan.angles,
     grid,
     span,
-    beta: (l, out) => accumulateBlocks(span, blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
-    sunIrradiance: sun.irradiance.values,
-    discDiameterDeg: request.sun.discDeg,
-    limbDarkening: request.sun.limbDarkening,
-    pathLengthM: request.pathLengthM,
+    beta: (l, out) => accumulateBlocks(span, kernelRequest.blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
+    disc: options.disc ?? discKernels(grid, request.sun.discDeg, span.h, request.sun.limbDarkening),
+    samples: options.samples,
   });
   let step = steps.next();
   let wavelengthsDone = 0;
   while (!step.done) {
-    progress?.advance("spectral", ++wavelengthsDone * spectralNsPerWavelength);
+    options.onWavelength?.(++wavelengthsDone * plan.spectralNsPerWavelength);
     await new Promise<void>((resolve) => setImmediate(resolve));
     step = steps.next();
   }
-  const spectral: SpectralProfile = { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
-  const sunWhite = spectrumToXyz(sun.irradiance, request.observer);
-  if (!(sunWhite.Y > 0)) {
-    warnings.push("no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black");
-  }
-  const eye = request.output.vision === "eye" ? sceneEyeAdaptation(sun.irradiance, request.sun.elevationDeg, request.output.adaptingLuminanceCdPerM2) : undefined;
-  const colour = colourProfile(spectral, grid, {
+  return { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
+}
+
+/** The sunlight on the rain for a plan under `sun` (the plan's own, or another elevation's), and what follows from it alone. */
+export function sunLightFor(plan: ProfilePlan, sun: ProfileRequest["sun"] = plan.request.sun) {
+  const request = { ...plan.request, sun };
+  const sunlight = sunlightFor(request, plan.grid);
+  const sunWhite = spectrumToXyz(sunlight.irradiance, request.observer);
+  const eye = request.output.vision === "eye" ? sceneEyeAdaptation(sunlight.irradiance, sun.elevationDeg, request.output.adaptingLuminanceCdPerM2) : undefined;
+  const noSunlight = sunWhite.Y > 0 ? undefined : "no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black";
+  return { sunlight, sunWhite, eye, noSunlight, elevationDeg: sun.elevationDeg };
+}
+
+export type SunLight = ReturnType<typeof sunLightFor>;
+
+function colourOptions(plan: ProfilePlan, light: SunLight): ColourOptions {
+  const { request } = plan;
+  return {
     observer: request.observer,
     space: request.output.space,
     gamut: request.output.gamut,
     white: request.output.white,
     normalise: request.output.normalise,
     polariserDeg: request.polariserDeg,
-    sunWhite,
-    eye,
-  });
-  const bows = findBows(spectral.anglesDeg, colour.luminance);
-  progress?.complete("colour");
+    sunWhite: light.sunWhite,
+    eye: light.eye,
+  };
+}
 
-  const engineRanges = summariseEngines(quadrature.radiiUm, engine);
+/** A profile's spectral radiance and colour: the unit profile lit by `light`. */
+export function sunlitColour(plan: ProfilePlan, unit: SpectralProfile, light: SunLight) {
+  const spectral = sunlitProfile(unit, light.sunlight.irradiance.values, plan.request.pathLengthM);
+  return { spectral, colour: colourProfile(spectral, plan.grid, colourOptions(plan, light)) };
+}
+
+/** The output space's values alone of the unit profile lit by `light` (physical, linear spaces: lookup textures); the same numbers as sunlitColour's rgb. */
+export function sunlitLinearRgb(plan: ProfilePlan, unit: SpectralProfile, light: SunLight): Float64Array {
+  const { cos2, sin2 } = polariserWeights(plan.request.polariserDeg);
+  const radiance = sunlitRadiance(unit, light.sunlight.irradiance.values, plan.request.pathLengthM, cos2, sin2);
+  return linearRgbOfRadiance(radiance, plan.grid, colourOptions(plan, light));
+}
+
+
+/** A profile's warnings: the plan's, the sunlight's, the engines', then the sun's elevation. */
+export function profileWarnings(plan: ProfilePlan, sun: SunLight): string[] {
+  const { request, quadrature } = plan;
+  const warnings = [...plan.warnings];
+  if (sun.noSunlight) warnings.push(sun.noSunlight);
   if (request.method === "airy" && quadrature.radiiUm[0] < AUTO_AIRY_FROM_RADIUS_UM) {
     warnings.push(`Airy theory used for drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm, outside its measured validity; use "auto" or "mie"`);
   }
   if (request.method === "geometric") {
     warnings.push("ray optics has no supernumeraries and no diffraction; bows are sharper than in nature");
   }
-  if (request.sun.elevationDeg > 42) {
+  if (sun.elevationDeg > 42) {
     warnings.push("with the sun above about 42° the primary bow lies below the horizon for an observer on flat ground");
   }
+  return warnings;
+}
+
+export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
+  const plan = planProfile(request, deps.limits, resolution);
+  const { grid, quadrature, span, engine, autoChoice, density, shapePlan } = plan;
+  const progress = deps.progress;
+  progress?.plan("spectral", grid.count * plan.spectralNsPerWavelength);
+  progress?.plan("colour", grid.count * plan.angles.count * COST_NS.colourSample);
+  const kernelStarted = performance.now();
+  const rows = await deps.kernels.rows(plan.kernelRequest, deps.signal, {
+    saveEachTask: deps.saveEachTask,
+    onRows: progress
+      ? (doneNs, totalNs, found) => {
+          progress.plan("kernels", totalNs);
+          progress.advance("kernels", doneNs, { found });
+        }
+      : undefined,
+  });
+  const kernelMs = performance.now() - kernelStarted;
+  const unit = await unitSpectralProfile(plan, rows, { onWavelength: progress ? (ns) => progress.advance("spectral", ns) : undefined });
+  const light = sunLightFor(plan);
+  const { spectral, colour } = sunlitColour(plan, unit, light);
+  const { sunlight: sun, sunWhite, eye } = light;
+  const bows = findBows(spectral.anglesDeg, colour.luminance);
+  progress?.complete("colour");
+
+  const warnings = profileWarnings(plan, light);
+  const engineRanges = summariseEngines(quadrature.radiiUm, engine);
 
   const meta: ProfileMeta = {
     method: { requested: request.method, engines: engineRanges, ...(autoChoice ? { rule: autoChoice.rule } : {}) },
@@ -321,13 +397,13 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
       rule: density.rule,
     },
     sun: { scale: sun.scaleNote, attenuated: sun.attenuated },
-    water: waterSource,
+    water: plan.waterSource,
     colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
     vision: visionMeta(eye),
     mieTermAngles: spectral.mieTermAngles,
-    computeMs: Math.round((performance.now() - started) * 10) / 10,
+    computeMs: Math.round((performance.now() - plan.started) * 10) / 10,
     kernel: {
-      angleStepDeg: h,
+      angleStepDeg: span.h,
       rows: rows.stats.memoryHits + rows.stats.diskHits + rows.stats.computed,
       memoryHits: rows.stats.memoryHits,
       diskHits: rows.stats.diskHits,
@@ -362,7 +438,7 @@ function summariseEngines(radiiUm: Float64Array, engine: (r: number) => DropEngi
   return out;
 }
 
-function profileSources(request: ProfileRequest): string[] {
+export function profileSources(request: ProfileRequest): string[] {
   const s = [
     "IAPWS R9-97 (Harvey, Gallagher & Levelt Sengers 1998) with Kell 1975 density; Ciddor 1996 air index",
     "Lorenz–Mie theory (Bohren & Huffman 1983; Wiscombe 1980)",
