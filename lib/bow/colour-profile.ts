@@ -3,7 +3,7 @@
 
 import type { WavelengthGrid } from "../spectra/grid.js";
 import { spectraToXyz, chromaticities, luminanceReciprocal, type Xyz } from "../colour/tristimulus.js";
-import type { Observer } from "../colour/observers.js";
+import { colourMatchingFunctions, type Observer } from "../colour/observers.js";
 import { renderXyz, type WhiteHandling } from "../colour/render.js";
 import type { OutputSpaceId } from "../colour/output-spaces.js";
 import type { GamutMethod } from "../colour/gamut.js";
@@ -119,12 +119,48 @@ function absoluteXyz(radiance: Float64Array, grid: WavelengthGrid, options: Colo
 }
 
 /**
- * The output space's values alone, for physical normalisation in a linear space (lookup textures): the same
- * numbers as colourProfile's rgb for the same radiance, without the polarisation and luminance it also gives.
+ * Per-wavelength weights of the colour sum of light scattered under one sunlight: K_m·Δλ·E(λ)·s·x̄(λ), likewise ȳ, z̄
+ * (CIE 015:2018 Eq. 7.1, K_m §7.1), so that XYZ in cd/m² of a unit profile (radiance per unit sunlight and path)
+ * is one dot product per sample. The light enters linearly, wavelength by wavelength (van de Hulst 1957 §1.2).
  */
-export function linearRgbOfRadiance(radiance: Float64Array, grid: WavelengthGrid, options: ColourOptions): Float64Array {
-  if (options.normalise !== "physical" || options.space === "srgb" || options.space === "display-p3" || options.space === "rec2020") {
-    throw new RangeError("linearRgbOfRadiance: physical values in a linear space only");
+export function sunlitXyzWeights(grid: WavelengthGrid, observer: Observer, sunIrradiance: Float64Array, pathLengthM: number): Float64Array[] {
+  const cmf = colourMatchingFunctions(observer, grid);
+  return [cmf.xBar.values, cmf.yBar.values, cmf.zBar.values].map((bar) =>
+    Float64Array.from(bar, (v, l) => LUMINOUS_EFFICACY_LM_PER_W * grid.stepNm * sunIrradiance[l] * pathLengthM * v),
+  );
+}
+
+/** Interleaved XYZ (cd/m²) of unit spectra (sample s, wavelength l at s·count + l) under sunlitXyzWeights. */
+export function weightedXyz(unitSpectra: Float64Array, weights: readonly Float64Array[]): Float64Array {
+  const [wx, wy, wz] = weights;
+  const nl = wx.length;
+  const samples = unitSpectra.length / nl;
+  const out = new Float64Array(3 * samples);
+  for (let s = 0; s < samples; s++) {
+    let X = 0;
+    let Y = 0;
+    let Z = 0;
+    const base = s * nl;
+    for (let l = 0; l < nl; l++) {
+      const v = unitSpectra[base + l];
+      X += v * wx[l];
+      Y += v * wy[l];
+      Z += v * wz[l];
+    }
+    out[3 * s] = X;
+    out[3 * s + 1] = Y;
+    out[3 * s + 2] = Z;
   }
-  return renderXyz(absoluteXyz(radiance, grid, options), { space: options.space, gamut: options.gamut, white: options.white, sunWhite: options.sunWhite }).values;
+  return out;
+}
+
+/**
+ * The output space's values of absolute XYZ (cd/m²) for physical normalisation in a linear space (lookup textures),
+ * rendered as colourProfile renders its rgb.
+ */
+export function linearRgbOfXyz(xyzAbsolute: Float64Array, options: Omit<ColourOptions, "observer" | "polariserDeg">): Float64Array {
+  if (options.normalise !== "physical" || options.eye || options.space === "srgb" || options.space === "display-p3" || options.space === "rec2020") {
+    throw new RangeError("linearRgbOfXyz: physical values in a linear space, colorimetric vision only");
+  }
+  return renderXyz(xyzAbsolute, { space: options.space, gamut: options.gamut, white: options.white, sunWhite: options.sunWhite }).values;
 }

@@ -149,18 +149,12 @@ export function sunlitProfile(unit: SpectralProfile, sunIrradiance: Float64Array
   return { anglesDeg: unit.anglesDeg, perpendicular, parallel, mieTermAngles: unit.mieTermAngles };
 }
 
-/**
- * Only the radiance seen through a polariser (Malus weights cos2, sin2; both 1 without one), I = cos2·L⊥ + sin2·L∥,
- * of the unit profile lit as by sunlitProfile: the same numbers as sunlitProfile then colourProfile's sum.
- */
-export function sunlitRadiance(unit: SpectralProfile, sunIrradiance: Float64Array, pathLengthM: number, cos2: number, sin2: number): Float64Array {
-  const nl = sunIrradiance.length;
-  const scale = Float64Array.from(sunIrradiance, (e) => e * pathLengthM);
-  const radiance = new Float64Array(unit.perpendicular.length);
-  for (let o = 0; o < radiance.length; o += nl) {
-    for (let l = 0; l < nl; l++) radiance[o + l] = cos2 * (scale[l] * unit.perpendicular[o + l]) + sin2 * (scale[l] * unit.parallel[o + l]);
-  }
-  return radiance;
+/** The unit profile seen through a polariser (Malus weights cos2, sin2; both 1 without one): cos2·⊥ + sin2·∥. */
+export function polarisedUnitRadiance(unit: SpectralProfile, cos2: number, sin2: number): Float64Array {
+  const { perpendicular, parallel } = unit;
+  const out = new Float64Array(perpendicular.length);
+  for (let k = 0; k < out.length; k++) out[k] = cos2 * perpendicular[k] + sin2 * parallel[k];
+  return out;
 }
 
 /**

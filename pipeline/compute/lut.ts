@@ -5,9 +5,9 @@ import type { LutRequest } from "../../schemas/lut.js";
 import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
-import { planProfile, profileSources, profileWarnings, requestHash, sunLightFor, sunlitLinearRgb, unitSpectralProfile, type ProfileDeps } from "./profile.js";
+import { planProfile, profileSources, profileWarnings, requestHash, sunColourWeights, sunLightFor, sunlitLinearRgb, unitRadianceFor, unitSpectralProfile, type ProfileDeps } from "./profile.js";
 import { sharedKernelRows } from "../kernels/shared-rows.js";
-import { discKernels, type SpectralProfile } from "../../lib/bow/lattice-profile.js";
+import { discKernels } from "../../lib/bow/lattice-profile.js";
 import { COST_NS } from "../progress/work-costs.js";
 import { AUTO_MIE_BUDGET_TERM_ANGLES } from "../../lib/bow/engine-choice.js";
 import type { LutManifest } from "../../schemas/responses/lut-response.js";
@@ -133,10 +133,11 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
   // Every row shares the grid, the lattice and the sun's disc, so the disc's kernels are made once.
   const first = plans[0];
   const disc = discKernels(first.grid, first.request.sun.discDeg, first.span.h, first.request.sun.limbDarkening);
-  const units: SpectralProfile[] = [];
+  const units: Float64Array[] = [];
   const rowNs = nl * first.spectralNsPerWavelength * (reads.samples.length / first.angles.count);
   for (let j = 0; j < rows.length; j++) {
-    units.push(await unitSpectralProfile(plans[j], kernelRows[j], { disc, samples: reads.samples, onWavelength: (ns) => progress.advance("spectral", j * rowNs + ns * (reads.samples.length / first.angles.count)) }));
+    const unit = await unitSpectralProfile(plans[j], kernelRows[j], { disc, samples: reads.samples, onWavelength: (ns) => progress.advance("spectral", j * rowNs + ns * (reads.samples.length / first.angles.count)) });
+    units.push(unitRadianceFor(plans[j], unit));
   }
   progress.complete("spectral");
   const transmittance = plans.map((p) => curtainTransmittance(p.quadrature, p.request.water, p.request.pathLengthM).transmittance);
@@ -149,9 +150,10 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
     const warnings = new Set<string>();
     // One sun for every row (the rows differ in their drops only).
     const light = sunLightFor(plans[0], bodyOf(r, 0).sun);
+    const weights = sunColourWeights(plans[0], light);
     for (let j = 0; j < rows.length; j++) {
       for (const w of profileWarnings(plans[j], light)) warnings.add(w);
-      const rgb = sunlitLinearRgb(plans[j], units[j], light);
+      const rgb = sunlitLinearRgb(plans[j], units[j], weights, light);
       for (let i = 0; i < width; i++) {
         const k = reads.lower[i];
         const f = reads.fraction[i];

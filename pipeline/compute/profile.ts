@@ -11,11 +11,11 @@ import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lat
 import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { directSunlight } from "../../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
-import { latticeUnitProfileSteps, sunlitProfile, sunlitRadiance, discKernels, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
+import { latticeUnitProfileSteps, sunlitProfile, polarisedUnitRadiance, discKernels, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
 import { blocksOf, kernelStepFor, type LatticeSpan } from "../../lib/bow/kernel-grid.js";
 import type { KernelRequest, KernelRows, KernelService } from "../kernels/kernel-service.js";
 import type { DiscKernel } from "../../lib/sun/disc.js";
-import { colourProfile, linearRgbOfRadiance, polariserWeights, type ColourOptions, type ColourProfile } from "../../lib/bow/colour-profile.js";
+import { colourProfile, linearRgbOfXyz, polariserWeights, sunlitXyzWeights, weightedXyz, type ColourOptions, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
 import { autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
@@ -323,13 +323,23 @@ export function sunlitColour(plan: ProfilePlan, unit: SpectralProfile, light: Su
   return { spectral, colour: colourProfile(spectral, plan.grid, colourOptions(plan, light)) };
 }
 
-/** The output space's values alone of the unit profile lit by `light` (physical, linear spaces: lookup textures); the same numbers as sunlitColour's rgb. */
-export function sunlitLinearRgb(plan: ProfilePlan, unit: SpectralProfile, light: SunLight): Float64Array {
+/**
+ * The colour sums of many unit profiles under one sun, as lookup textures take them (physical values in a linear
+ * space): per sun the weights K_m·Δλ·E(λ)·s·x̄(λ)… once, per row the polarised unit radiance once, then one dot
+ * product per sample and sun. The order of operations differs from sunlitColour's by rounding only (≈ 1e-16).
+ */
+export function unitRadianceFor(plan: ProfilePlan, unit: SpectralProfile): Float64Array {
   const { cos2, sin2 } = polariserWeights(plan.request.polariserDeg);
-  const radiance = sunlitRadiance(unit, light.sunlight.irradiance.values, plan.request.pathLengthM, cos2, sin2);
-  return linearRgbOfRadiance(radiance, plan.grid, colourOptions(plan, light));
+  return polarisedUnitRadiance(unit, cos2, sin2);
 }
 
+export function sunColourWeights(plan: ProfilePlan, light: SunLight): Float64Array[] {
+  return sunlitXyzWeights(plan.grid, plan.request.observer, light.sunlight.irradiance.values, plan.request.pathLengthM);
+}
+
+export function sunlitLinearRgb(plan: ProfilePlan, unitRadiance: Float64Array, weights: readonly Float64Array[], light: SunLight): Float64Array {
+  return linearRgbOfXyz(weightedXyz(unitRadiance, weights), colourOptions(plan, light));
+}
 
 /** A profile's warnings: the plan's, the sunlight's, the engines', then the sun's elevation. */
 export function profileWarnings(plan: ProfilePlan, sun: SunLight): string[] {
