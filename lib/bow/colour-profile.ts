@@ -2,7 +2,7 @@
 // normalisation, and the output space.
 
 import type { WavelengthGrid } from "../spectra/grid.js";
-import { spectraToXyz, chromaticities, luminanceReciprocal, type Xyz } from "../colour/tristimulus.js";
+import { spectraToXyz, weightedSums, chromaticities, luminanceReciprocal, type Xyz } from "../colour/tristimulus.js";
 import { colourMatchingFunctions, type Observer } from "../colour/observers.js";
 import { renderXyz, type WhiteHandling } from "../colour/render.js";
 import type { OutputSpaceId } from "../colour/output-spaces.js";
@@ -132,26 +132,7 @@ export function sunlitXyzWeights(grid: WavelengthGrid, observer: Observer, sunIr
 
 /** Interleaved XYZ (cd/m²) of unit spectra (sample s, wavelength l at s·count + l) under sunlitXyzWeights. */
 export function weightedXyz(unitSpectra: Float64Array, weights: readonly Float64Array[]): Float64Array {
-  const [wx, wy, wz] = weights;
-  const nl = wx.length;
-  const samples = unitSpectra.length / nl;
-  const out = new Float64Array(3 * samples);
-  for (let s = 0; s < samples; s++) {
-    let X = 0;
-    let Y = 0;
-    let Z = 0;
-    const base = s * nl;
-    for (let l = 0; l < nl; l++) {
-      const v = unitSpectra[base + l];
-      X += v * wx[l];
-      Y += v * wy[l];
-      Z += v * wz[l];
-    }
-    out[3 * s] = X;
-    out[3 * s + 1] = Y;
-    out[3 * s + 2] = Z;
-  }
-  return out;
+  return weightedSums(unitSpectra, weights, 1);
 }
 
 /**
