@@ -345,6 +345,8 @@ const exportKinds = {
     url: () => "/v1/view?format=exr",
     body: (b) => {
       const { scenario, polariserDeg } = scenarioOf(b, { keepSunElevation: false });
+      // The view chooses its own Lorenz–Mie density ("auto"): its scenario has no mieSizesPerDecade.
+      delete scenario.mieSizesPerDecade;
       return {
         scenario,
         camera: { horizontalFovDeg: Number($("fov").value), pitchDeg: Number($("pitch").value), widthPx: 1280, heightPx: 720 },

@@ -33,7 +33,9 @@ afterAll(async () => {
 async function downloadVia(page: Page, button: string, path: string): Promise<{ request: Request; bytes: Buffer; fileName: string }> {
   const [request, download] = await Promise.all([
     page.waitForRequest((r) => r.url().includes(path) && r.method() === "POST", { timeout: 120_000 }),
-    page.waitForEvent("download", { timeout: 120_000 }),
+    page.waitForEvent("download", { timeout: 120_000 }).catch(async (error: Error) => {
+      throw new Error(`${error.message}; the page says: ${await page.textContent("#status")}`);
+    }),
     page.click(button),
   ]);
   const file = fileURLToPath(new URL(download.suggestedFilename(), ARTIFACTS));
