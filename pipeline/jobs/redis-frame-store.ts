@@ -13,7 +13,13 @@ import type { RenderOutput } from "../render/render-output.js";
  */
 export const MAX_KEPT_FRAME_BYTES = 256 * 2 ** 20;
 
-export function redisFrameStore(redis: Redis, key: string, ttlS: number, log: (event: Record<string, unknown>) => void = () => undefined): FrameStore {
+export function redisFrameStore(
+  redis: Redis,
+  key: string,
+  ttlS: number,
+  log: (event: Record<string, unknown>) => void = () => undefined,
+  maxBytes = MAX_KEPT_FRAME_BYTES,
+): FrameStore {
   let bytes = 0;
   return {
     async kept() {
@@ -30,7 +36,7 @@ export function redisFrameStore(redis: Redis, key: string, ttlS: number, log: (e
     },
     async keep(index, output) {
       const sealed = sealFrame(output);
-      if (bytes + sealed.length > MAX_KEPT_FRAME_BYTES) return;
+      if (bytes + sealed.length > maxBytes) return;
       bytes += sealed.length;
       await redis.multi().hset(key, String(index), sealed).expire(key, ttlS).exec();
       log({ msg: "frame kept", index });
