@@ -3,15 +3,15 @@
 // primary lies up to several degrees from its side), and a plain blend of two profiles whose peaks lie apart draws
 // two faint bows instead of one moving bow. So the blend keeps the bows aligned: ψ is warped piecewise linearly
 // so that each node's primary and secondary peaks land where the pixel's own peaks lie, at positions interpolated
-// linearly in arc position (displacement interpolation, our choice; its error is measured in
-// test/pipeline/compute/flattened-view.test.ts and stated in docs/views.md).
+// linearly in arc position (displacement interpolation, our choice; its error is measured by
+// bench/arc-interpolation.ts and stated in pipeline/compute/arc-nodes.ts).
 
 import type { ProfileColours } from "./layer.js";
 
 /**
  * Peaks of two neighbouring nodes further apart than this are taken for different features (a peak search that
  * found another maximum at one of them), and are not aligned. The bow of 2 mm drops moves by at most 0.22° per
- * degree of arc (lib/bow/shaped-rows.ts), 2.2° between nodes 10° apart.
+ * degree of arc (lib/bow/shaped-rows.ts), 1.1° between nodes 5° apart.
  */
 export const MAX_ALIGNED_SHIFT_DEG = 3;
 

@@ -42,7 +42,7 @@ function bowDirection(psiDeg: number, alphaDeg: number): number[] {
 /** A narrow camera whose centre pixel (odd size: pixel 15's centre is the principal point) looks at ψ, α on the bow. */
 function cameraAt(psiDeg: number, alphaDeg: number) {
   const { azimuthDeg, elevationDeg } = azimuthElevationOf(bowDirection(psiDeg, alphaDeg));
-  return { yawDeg: azimuthDeg, pitchDeg: elevationDeg, widthPx: 31, heightPx: 31, horizontalFovDeg: 8 };
+  return { yawDeg: azimuthDeg, pitchDeg: elevationDeg, widthPx: 31, heightPx: 31, horizontalFovDeg: 4 };
 }
 
 interface Shot {
@@ -98,8 +98,8 @@ describe("a camera view of 2 mm flattened drops (equilibrium shapes, canting 7.5
   }, 1_200_000);
 
   it("the manifest states the arc nodes the pixels blend between, and the shape", () => {
-    expect(top.prepared.manifest.arcPositions?.nodesDeg).toEqual([0, 10]);
-    expect(side.prepared.manifest.arcPositions?.nodesDeg).toEqual([80, 90, 100]);
+    expect(top.prepared.manifest.arcPositions?.nodesDeg).toEqual([0, 5]);
+    expect(side.prepared.manifest.arcPositions?.nodesDeg).toEqual([85, 90, 95]);
     expect(side.prepared.manifest.arcPositions?.interpolation).toMatch(/warped/);
     expect(side.prepared.manifest.profile.shape?.model).toMatch(/Beard & Chuang 1987/);
     expect(side.prepared.manifest.profile.shape?.arcPositionDeg).toBe(90);
