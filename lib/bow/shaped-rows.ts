@@ -39,10 +39,16 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
   };
 }
 
+/**
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (2: bow pairs read
+ * off the sweep, rows move by ≤ 2e-3 relative), so that only these rows are recomputed, not every kernel row.
+ */
+export const SHAPED_ENGINE_VERSION = 2;
+
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
   const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : "eq";
-  return `shape:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}`;
+  return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}`;
 }
 
 /** A kernel row variant (rowVariant) with the shape of a drop that is not a sphere appended: its rows are other rows. */
