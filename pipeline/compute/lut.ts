@@ -5,10 +5,11 @@ import type { LutRequest } from "../../schemas/lut.js";
 import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
-import { planProfile, profileSources, profileWarnings, requestHash, sunColourWeights, sunLightFor, sunlitLinearRgb, unitRadianceFor, unitSpectralProfile, type ProfileDeps } from "./profile.js";
+import { planProfile, refuseTooCostly, profileSources, profileWarnings, requestHash, sunColourWeights, sunLightFor, sunlitLinearRgb, unitRadianceFor, unitSpectralProfile, type ProfileDeps } from "./profile.js";
 import { sharedKernelRows } from "../kernels/shared-rows.js";
 import { discKernels } from "../../lib/bow/lattice-profile.js";
 import { COST_NS } from "../progress/work-costs.js";
+import { laterWorkNs } from "../progress/profile-work.js";
 import { AUTO_MIE_BUDGET_TERM_ANGLES } from "../../lib/bow/engine-choice.js";
 import type { LutManifest } from "../../schemas/responses/lut-response.js";
 import { ProgressMeter, type ProgressListener } from "../progress/progress-meter.js";
@@ -111,10 +112,15 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
     output: { ...profileDefaults.output, space: r.space, gamut: "clip", normalise: "physical", white: "sun" },
   });
   // The rows share auto's Mie budget, so that a texture costs about what one profile does.
-  const plans = rows.map((_, j) => planProfile(bodyOf(request, j), deps.limits, { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length }));
+  const plans = rows.map((_, j) => planProfile(bodyOf(request, j), { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length }));
+  for (const plan of plans) refuseTooCostly(plan, deps.limits);
   const reads = texelReads(texelPsi, plans[0].angles);
   const nl = plans[0].grid.count;
-  progress.plan("spectral", rows.length * nl * plans[0].spectralNsPerWavelength * (reads.samples.length / plans[0].angles.count));
+  // The spectral pass computes only the samples the texels read: its estimated cost scales with their share.
+  const share = reads.samples.length / plans[0].angles.count;
+  const rowNs = plans.map((p) => laterWorkNs(p.request, p).spectralNs * share);
+  const rowsBeforeNs = rowNs.map((_, j) => rowNs.slice(0, j).reduce((a, b) => a + b, 0));
+  progress.plan("spectral", rowNs.reduce((a, b) => a + b, 0));
   for (const stage of sunStages) progress.plan(stage, rows.length * reads.samples.length * nl * COST_NS.colourSample);
 
   const kernelRows = await sharedKernelRows(
@@ -129,17 +135,14 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
       },
     },
   );
-  progress.complete("kernels");
   // Every row shares the grid, the lattice and the sun's disc, so the disc's kernels are made once.
   const first = plans[0];
   const disc = discKernels(first.grid, first.request.sun.discDeg, first.span.h, first.request.sun.limbDarkening);
   const units: Float64Array[] = [];
-  const rowNs = nl * first.spectralNsPerWavelength * (reads.samples.length / first.angles.count);
   for (let j = 0; j < rows.length; j++) {
-    const unit = await unitSpectralProfile(plans[j], kernelRows[j], { disc, samples: reads.samples, onWavelength: (ns) => progress.advance("spectral", j * rowNs + ns * (reads.samples.length / first.angles.count)) });
+    const unit = await unitSpectralProfile(plans[j], kernelRows[j], { disc, samples: reads.samples, onWavelength: (ns) => progress.advance("spectral", rowsBeforeNs[j] + ns * share) });
     units.push(unitRadianceFor(plans[j], unit));
   }
-  progress.complete("spectral");
   const transmittance = plans.map((p) => curtainTransmittance(p.quadrature, p.request.water, p.request.pathLengthM).transmittance);
 
   const luts: Lut[] = [];

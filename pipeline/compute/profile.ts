@@ -26,7 +26,7 @@ import { ClientError } from "../requests/client-error.js";
 import { planDropShapes, shapedCostTermAngles } from "./drop-shape-plan.js";
 import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
-import { COST_NS } from "../progress/work-costs.js";
+import { laterWorkNs } from "../progress/profile-work.js";
 
 /** The stages of a profile's progress, in order (a render adds its encoding after them: PROFILE_RENDER_STAGES). */
 export const PROFILE_STAGES = ["kernels", "spectral", "colour"] as const;
@@ -154,31 +154,12 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
 }
 
 /**
- * Everything a profile decides from its request before any kernel row: wavelengths, drops on their radius nodes,
- * engines, the lattice span and the kernel request. Nothing here depends on the sun's spectrum or elevation
- * except the flattened drops' shape plan (sphere rows never do).
+ * Everything about a profile that is known before any work: wavelengths, drops on their radius nodes, engines,
+ * Lorenz–Mie averaging, shapes, the lattice span, the kernel request and the estimated cost. computeProfile runs it
+ * first; answers made of several profiles (lookup textures, size maps) run it for each of their rows. Nothing here
+ * depends on the sun's spectrum or elevation except the flattened drops' shape plan (sphere rows never do).
  */
-export interface ProfilePlan {
-  request: ProfileRequest;
-  started: number;
-  grid: WavelengthGrid;
-  waterSource: string;
-  quadrature: RadiusQuadrature;
-  angles: { fromDeg: number; stepDeg: number; count: number };
-  span: LatticeSpan;
-  autoChoice: AutoChoice | null;
-  engine: (radiusUm: number) => DropEngine;
-  density: DensityChoice;
-  shapePlan: ReturnType<typeof planDropShapes>;
-  kernelRequest: KernelRequest;
-  /** Estimated cost of the spectral sum (drops and disc) at one wavelength, ns (work-costs.ts). */
-  spectralNsPerWavelength: number;
-  warnings: string[];
-}
-
-/** Plans a profile; throws the "too-costly" ClientError when its kernels exceed the limits. */
-export function planProfile(request: ProfileRequest, limits: ProfileLimits, resolution: ProfileResolution = {}): ProfilePlan {
-  const started = performance.now();
+export function planProfile(request: ProfileRequest, resolution: ProfileResolution = {}) {
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
   const wl = wavelengthsNm(grid);
@@ -241,6 +222,16 @@ export function planProfile(request: ProfileRequest, limits: ProfileLimits, reso
   const blocks = blocksOf(span);
   // Flattened drops' rows are counted in Mie term-angles' worth of work (drop-shape-plan.ts).
   const cost = mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1);
+  const engines = Array.from(quadrature.radiiUm, engine);
+  const kernelRequest: KernelRequest = { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } };
+  return { request, warnings, grid, wl, media, waterSource, distribution, count, angles, h, span, quadrature, autoChoice, engine, density, averages, shapePlan, blocks, cost, kernelRequest };
+}
+
+export type ProfilePlan = ReturnType<typeof planProfile>;
+
+/** The "too-costly" ClientError where a plan's kernels exceed the synchronous limit. */
+export function refuseTooCostly(plan: ProfilePlan, limits: ProfileLimits): void {
+  const { cost, density, quadrature } = plan;
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",
@@ -250,13 +241,6 @@ export function planProfile(request: ProfileRequest, limits: ProfileLimits, reso
       { cost, limit: limits.maxTermAngles, jobs: "/v1/jobs" },
     );
   }
-  const engines = Array.from(quadrature.radiiUm, engine);
-  const kernelRequest: KernelRequest = { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } };
-  // The sum over drops and the sun's disc, per wavelength (lattice-profile.ts).
-  const spanSamples = span.last - span.first + 1;
-  const discSamples = Math.ceil(request.sun.discDeg / h) + 1;
-  const spectralNsPerWavelength = spanSamples * (quadrature.weights.filter((w) => w !== 0).length * COST_NS.sumSample + discSamples * COST_NS.discSample);
-  return { request, started, grid, waterSource, quadrature, angles, span, autoChoice, engine, density, shapePlan, kernelRequest, spectralNsPerWavelength, warnings };
 }
 
 /** What the spectral pass shares: the disc's kernels per wavelength, the output samples wanted (all by default). */
@@ -273,6 +257,7 @@ export interface SpectralPassOptions {
  */
 export async function unitSpectralProfile(plan: ProfilePlan, rows: KernelRows, options: SpectralPassOptions = {}): Promise<SpectralProfile> {
   const { span, kernelRequest, quadrature, request, grid } = plan;
+  const perWavelengthNs = options.onWavelength ? laterWorkNs(request, plan).spectralNsPerWavelength : 0;
   const steps = latticeUnitProfileSteps({
     angles: plan.angles,
     grid,
@@ -284,7 +269,7 @@ export async function unitSpectralProfile(plan: ProfilePlan, rows: KernelRows, o
   let step = steps.next();
   let wavelengthsDone = 0;
   while (!step.done) {
-    options.onWavelength?.(++wavelengthsDone * plan.spectralNsPerWavelength);
+    options.onWavelength?.(++wavelengthsDone * perWavelengthNs);
     await new Promise<void>((resolve) => setImmediate(resolve));
     step = steps.next();
   }
@@ -359,11 +344,16 @@ export function profileWarnings(plan: ProfilePlan, sun: SunLight): string[] {
 }
 
 export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
-  const plan = planProfile(request, deps.limits, resolution);
+  const started = performance.now();
+  const plan = planProfile(request, resolution);
+  refuseTooCostly(plan, deps.limits);
   const { grid, quadrature, span, engine, autoChoice, density, shapePlan } = plan;
   const progress = deps.progress;
-  progress?.plan("spectral", grid.count * plan.spectralNsPerWavelength);
-  progress?.plan("colour", grid.count * plan.angles.count * COST_NS.colourSample);
+  const later = progress ? laterWorkNs(request, plan) : undefined;
+  if (later) {
+    progress?.plan("spectral", later.spectralNs);
+    progress?.plan("colour", later.colourNs);
+  }
   const kernelStarted = performance.now();
   const rows = await deps.kernels.rows(plan.kernelRequest, deps.signal, {
     saveEachTask: deps.saveEachTask,
@@ -411,7 +401,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
     vision: visionMeta(eye),
     mieTermAngles: spectral.mieTermAngles,
-    computeMs: Math.round((performance.now() - plan.started) * 10) / 10,
+    computeMs: Math.round((performance.now() - started) * 10) / 10,
     kernel: {
       angleStepDeg: span.h,
       rows: rows.stats.memoryHits + rows.stats.diskHits + rows.stats.computed,
