@@ -283,6 +283,8 @@ export class KernelService {
       const taskNs = watch.onRows ? indices.reduce((sum, i) => sum + byRadius.get(i)!.reduce((s, bi) => s + cost(l, i, bi), 0), 0) : 0;
       const task = computing
         .then((result) => {
+          // A task that ends after its request was cancelled keeps nothing: a cancelled job stops adding kernels.
+          if (stop.signal.aborted) return;
           stats.mieTermAngles += result.mieTermAngles;
           const saved: [string, Map<number, Float64Array>][] = [];
           for (const [pack, { bi, rows: list }] of byPack) {
@@ -312,6 +314,8 @@ export class KernelService {
     }
     try {
       await Promise.all(tasks);
+      // Tasks that ended after a cancellation kept nothing (above): the request ends with its signal's reason.
+      stop.signal.throwIfAborted();
     } catch (error) {
       await Promise.allSettled(tasks);
       throw error;
