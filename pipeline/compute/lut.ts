@@ -5,7 +5,9 @@ import type { LutRequest } from "../../schemas/lut.js";
 import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
-import { computeProfile, requestHash, type ProfileDeps, type ProfileResult } from "./profile.js";
+import { computeProfile, requestHash, type ProfileDeps, type ProfileLayers, type ProfileResult } from "./profile.js";
+import { ORDER_LAYERS } from "../../lib/bow/scattering-orders.js";
+import { orderLayersManifest } from "./order-layers.js";
 import { AUTO_MIE_BUDGET_TERM_ANGLES } from "../../lib/bow/engine-choice.js";
 import type { LutManifest } from "../../schemas/responses/lut-response.js";
 import { ProgressMeter, type ProgressListener } from "../progress/progress-meter.js";
@@ -19,6 +21,8 @@ export interface Lut {
   /** RGBA per texel, row-major from the top row (row j = size j, ascending). */
   rgba: Float32Array;
   manifest: LutManifest;
+  /** layers "by-order": each named order's RGB per texel (ORDER_LAYERS' order), with the whole texture's colour handling. */
+  orders?: Float32Array[];
 }
 
 function rowDrops(request: LutRequest): { label: string; value: number; drops: ProfileRequest["drops"] }[] {
@@ -55,7 +59,7 @@ function profileStepDeg(request: LutRequest): number {
   return Math.max(0.002, Math.min(0.1, finest / 2));
 }
 
-export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener): Promise<Lut> {
+export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener, layers: ProfileLayers = "combined"): Promise<Lut> {
   const started = performance.now();
   const texelPsi = texelAngles(request.angles);
   const step = profileStepDeg(request);
@@ -65,6 +69,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
   const width = request.angles.texels;
   const height = rows.length;
   const rgba = new Float32Array(width * height * 4);
+  const orders = layers === "by-order" ? ORDER_LAYERS.map(() => new Float32Array(width * height * 3)) : undefined;
   const warnings = new Set<string>();
   let first: ProfileResult | undefined;
   const transmittance: number[] = [];
@@ -82,7 +87,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
       output: { ...profileDefaults.output, space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
     };
     // The rows share auto's Mie budget, so that a texture costs about what one profile does.
-    const profile = await computeProfile(body, deps, { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length });
+    const profile = await computeProfile(body, deps, { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length }, layers);
     progress.complete(stageNames[j]);
     first ??= profile;
     for (const w of profile.meta.warnings) warnings.add(w);
@@ -96,6 +101,10 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
       const o = 4 * (j * width + i);
       for (let c = 0; c < 3; c++) rgba[o + c] = profile.colour.rgb[3 * k + c] * (1 - f) + profile.colour.rgb[3 * (k + 1) + c] * f;
       rgba[o + 3] = 1 - t;
+      // Each order sampled as the whole is.
+      profile.orders?.forEach(({ colour }, p) => {
+        for (let c = 0; c < 3; c++) orders![p][3 * (j * width + i) + c] = colour.rgb[3 * k + c] * (1 - f) + colour.rgb[3 * (k + 1) + c] * f;
+      });
     }
   }
 
@@ -136,6 +145,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     sources: first?.meta.sources ?? [],
     warnings: [...warnings],
     computeMs: Math.round(performance.now() - started),
+    ...(orders ? { layers: orderLayersManifest(["R", "G", "B", "A"]) } : {}),
   };
-  return { width, height, rgba, manifest };
+  return { width, height, rgba, manifest, ...(orders ? { orders } : {}) };
 }

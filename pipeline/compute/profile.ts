@@ -13,7 +13,8 @@ import { directSunlight } from "../../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
 import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
 import { blocksOf, kernelStepFor } from "../../lib/bow/kernel-grid.js";
-import type { KernelService } from "../kernels/kernel-service.js";
+import type { KernelRows, KernelService, KernelStats } from "../kernels/kernel-service.js";
+import { ORDER_LAYERS, type OrderLayerName } from "../../lib/bow/scattering-orders.js";
 import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
 import { autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
@@ -35,6 +36,17 @@ import { visionMeta } from "./vision-meta.js";
 /** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
 const FLATTENED_FROM_RADIUS_UM = 1000;
 
+/** One scattering order's share of a profile (lib/bow/scattering-orders.ts), from the same drops, sun and options. */
+export interface OrderProfile {
+  name: OrderLayerName;
+  order: number;
+  spectral: SpectralProfile;
+  colour: ColourProfile;
+}
+
+/** combined: the whole light only; by-order: also each named scattering order's profile (ProfileResult.orders). */
+export type ProfileLayers = "combined" | "by-order";
+
 export interface ProfileResult {
   request: ProfileRequest;
   /** XYZ of the direct sunlight on the rain (any scale): the white under white = "sun". */
@@ -46,6 +58,8 @@ export interface ProfileResult {
   colour: ColourProfile;
   bows: Bows;
   meta: ProfileMeta;
+  /** With layers "by-order": the named orders, in ORDER_LAYERS' order (the remainder is the whole minus their sum). */
+  orders?: OrderProfile[];
 }
 
 export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribution {
@@ -152,8 +166,9 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
   return chooseAutoFor(quadrature.radiiUm, wl, span, resolution);
 }
 
-export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
+export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}, layers: ProfileLayers = "combined"): Promise<ProfileResult> {
   const { limits } = deps;
+  const byOrder = layers === "by-order";
   const started = performance.now();
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
@@ -216,7 +231,8 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
 
   const blocks = blocksOf(span);
   // Flattened drops' rows are counted in Mie term-angles' worth of work (drop-shape-plan.ts).
-  const cost = mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1);
+  // By order, each named order's rows cost about what the whole rows do (Debye coefficients, the same amplitude sums).
+  const cost = (mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1)) * (byOrder ? 1 + ORDER_LAYERS.length : 1);
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",
@@ -235,47 +251,59 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const spanSamples = span.last - span.first + 1;
   const discSamples = Math.ceil(request.sun.discDeg / h) + 1;
   const spectralNsPerWavelength = spanSamples * (quadrature.weights.filter((w) => w !== 0).length * COST_NS.sumSample + discSamples * COST_NS.discSample);
-  progress?.plan("spectral", grid.count * spectralNsPerWavelength);
-  progress?.plan("colour", grid.count * count * COST_NS.colourSample);
+  const profilesToSum = byOrder ? 1 + ORDER_LAYERS.length : 1;
+  progress?.plan("spectral", profilesToSum * grid.count * spectralNsPerWavelength);
+  progress?.plan("colour", profilesToSum * grid.count * count * COST_NS.colourSample);
   const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows(
-    { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } },
-    deps.signal,
-    {
-      saveEachTask: deps.saveEachTask,
-      onRows: progress
-        ? (doneNs, totalNs, found) => {
-            progress.plan("kernels", totalNs);
-            progress.advance("kernels", doneNs, { found });
-          }
-        : undefined,
-    },
+  // The whole rows and, by order, each named order's rows (kept apart in the cache: orderVariant), all at once.
+  const requestedOrders: (number | undefined)[] = [undefined, ...(byOrder ? ORDER_LAYERS.map((layer) => layer.order) : [])];
+  const tallies = requestedOrders.map(() => ({ doneNs: 0, totalNs: 0 }));
+  const [rows, ...orderRows] = await Promise.all(
+    requestedOrders.map((order, t) =>
+      deps.kernels.rows(
+        { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last }, ...(order === undefined ? {} : { order }) },
+        deps.signal,
+        {
+          saveEachTask: deps.saveEachTask,
+          onRows: progress
+            ? (doneNs, totalNs, found) => {
+                tallies[t] = { doneNs, totalNs };
+                progress.plan("kernels", tallies.reduce((sum, x) => sum + x.totalNs, 0));
+                progress.advance("kernels", tallies.reduce((sum, x) => sum + x.doneNs, 0), { found });
+              }
+            : undefined,
+        },
+      ),
+    ),
   );
   const kernelMs = performance.now() - kernelStarted;
-  const steps = latticeProfileSteps({
-    angles,
-    grid,
-    span,
-    beta: (l, out) => accumulateBlocks(span, blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
-    sunIrradiance: sun.irradiance.values,
-    discDiameterDeg: request.sun.discDeg,
-    limbDarkening: request.sun.limbDarkening,
-    pathLengthM: request.pathLengthM,
-  });
-  let step = steps.next();
   let wavelengthsDone = 0;
-  while (!step.done) {
-    progress?.advance("spectral", ++wavelengthsDone * spectralNsPerWavelength);
-    await new Promise<void>((resolve) => setImmediate(resolve));
-    step = steps.next();
-  }
-  const spectral: SpectralProfile = { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
+  const spectralOf = async (from: KernelRows): Promise<SpectralProfile> => {
+    const steps = latticeProfileSteps({
+      angles,
+      grid,
+      span,
+      beta: (l, out) => accumulateBlocks(span, blocks, quadrature.weights, (i, b) => from.get(l, i, b), out),
+      sunIrradiance: sun.irradiance.values,
+      discDiameterDeg: request.sun.discDeg,
+      limbDarkening: request.sun.limbDarkening,
+      pathLengthM: request.pathLengthM,
+    });
+    let step = steps.next();
+    while (!step.done) {
+      progress?.advance("spectral", ++wavelengthsDone * spectralNsPerWavelength);
+      await new Promise<void>((resolve) => setImmediate(resolve));
+      step = steps.next();
+    }
+    return { ...step.value, mieTermAngles: from.stats.mieTermAngles };
+  };
+  const spectral = await spectralOf(rows);
   const sunWhite = spectrumToXyz(sun.irradiance, request.observer);
   if (!(sunWhite.Y > 0)) {
     warnings.push("no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black");
   }
   const eye = request.output.vision === "eye" ? sceneEyeAdaptation(sun.irradiance, request.sun.elevationDeg, request.output.adaptingLuminanceCdPerM2) : undefined;
-  const colour = colourProfile(spectral, grid, {
+  const colourOptions = {
     observer: request.observer,
     space: request.output.space,
     gamut: request.output.gamut,
@@ -284,7 +312,15 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     polariserDeg: request.polariserDeg,
     sunWhite,
     eye,
-  });
+  };
+  const colour = colourProfile(spectral, grid, colourOptions);
+  const orders: OrderProfile[] = [];
+  for (const [k, layer] of ORDER_LAYERS.entries()) {
+    if (!byOrder) break;
+    const orderSpectral = await spectralOf(orderRows[k]);
+    orders.push({ name: layer.name, order: layer.order, spectral: orderSpectral, colour: colourProfile(orderSpectral, grid, colourOptions) });
+  }
+  const stats = sumStats([rows, ...orderRows].map((r) => r.stats));
   const bows = findBows(spectral.anglesDeg, colour.luminance);
   progress?.complete("colour");
 
@@ -324,22 +360,32 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     water: waterSource,
     colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
     vision: visionMeta(eye),
-    mieTermAngles: spectral.mieTermAngles,
+    mieTermAngles: stats.mieTermAngles,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
     kernel: {
       angleStepDeg: h,
-      rows: rows.stats.memoryHits + rows.stats.diskHits + rows.stats.computed,
-      memoryHits: rows.stats.memoryHits,
-      diskHits: rows.stats.diskHits,
-      computed: rows.stats.computed,
+      rows: stats.memoryHits + stats.diskHits + stats.computed,
+      memoryHits: stats.memoryHits,
+      diskHits: stats.diskHits,
+      computed: stats.computed,
       ms: Math.round(kernelMs * 10) / 10,
     },
-    cache: rows.stats.computed === 0 ? "hit" : "miss",
+    cache: stats.computed === 0 ? "hit" : "miss",
     hash: requestHash(request),
     sources: profileSources(request),
     warnings,
   };
-  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta };
+  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta, ...(byOrder ? { orders } : {}) };
+}
+
+/** The kernel statistics of several row requests together (the whole rows and each order's). */
+function sumStats(all: KernelStats[]): KernelStats {
+  return all.reduce((sum, s) => ({
+    memoryHits: sum.memoryHits + s.memoryHits,
+    diskHits: sum.diskHits + s.diskHits,
+    computed: sum.computed + s.computed,
+    mieTermAngles: sum.mieTermAngles + s.mieTermAngles,
+  }));
 }
 
 function rgbUnits(request: ProfileRequest): string {

@@ -4,7 +4,9 @@
 import sharp from "sharp";
 import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../../schemas/view.js";
-import { computeProfile, type ProfileLimits, type ProfileResult } from "./profile.js";
+import { computeProfile, type ProfileLayers, type ProfileLimits, type ProfileResult } from "./profile.js";
+import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
+import { MAX_LAYERED_PIXELS, orderLayersManifest, withOrderLayers } from "./order-layers.js";
 import type { KernelService } from "../kernels/kernel-service.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
 import { ClientError } from "../requests/client-error.js";
@@ -284,7 +286,13 @@ function profileColours(result: ProfileResult, request: ProfileRequest, output: 
     perpendicular: render(perp, false),
     parallel: render(par, false),
   };
-  return { colours, scaling, outOfGamut, sunWhite };
+  // Each order with the whole profile's scale, white and gamut handling, so that the layers compare and add up.
+  const orderColours = (s: SpectralProfile): ProfileColours => {
+    const [p, q] = [toCd(s.perpendicular), toCd(s.parallel)];
+    return { ...colours, total: render(p.map((v, k) => v + q[k]), false), perpendicular: render(p, false), parallel: render(q, false) };
+  };
+  const orders = result.orders?.map((o) => orderColours(o.spectral));
+  return { colours, scaling, outOfGamut, sunWhite, orders };
 }
 
 export interface PreparedOverlay {
@@ -292,6 +300,8 @@ export interface PreparedOverlay {
   hash: string;
   profile: ProfileResult;
   colours: ProfileColours;
+  /** layers "by-order": each named order's colours (ORDER_LAYERS' order), drawn as the whole layer is. */
+  orderColours?: ProfileColours[];
   /** Alpha of every pixel that sees rain, or undefined for the additive layer. */
   alpha: number | undefined;
   manifest: OverlayManifest;
@@ -304,7 +314,14 @@ export function renderSpaceFor(format: OverlayFormat, output: Output): LinearSpa
   return format === "png" ? "srgb-linear" : output.space;
 }
 
-async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Promise<PreparedOverlay> {
+async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps, layers: ProfileLayers): Promise<PreparedOverlay> {
+  const pixels = scene.rays.widthPx * scene.rays.heightPx;
+  if (layers === "by-order" && pixels > MAX_LAYERED_PIXELS) {
+    throw new ClientError("invalid-request", `query field 'layers' "by-order" is for images up to ${MAX_LAYERED_PIXELS.toLocaleString("en")} pixels; this one has ${pixels.toLocaleString("en")}: ask fewer pixels or layers "combined"`, {
+      field: "layers",
+      allowed: `combined, or by-order up to ${MAX_LAYERED_PIXELS} pixels`,
+    });
+  }
   if (format === "hdr" && scene.layer === "premultiplied") {
     throw new ClientError("invalid-request", "format hdr has no alpha channel: ask for layer \"additive\" or format exr", {
       field: "layer",
@@ -314,9 +331,9 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
   const started = performance.now();
   const angles = profileAngles(scene);
   const request = profileRequestFor(scene, { fromDeg: angles.fromDeg, toDeg: angles.toDeg, stepDeg: angles.stepDeg });
-  const profile = await computeProfile(request, deps, {});
+  const profile = await computeProfile(request, deps, {}, layers);
   const space = renderSpaceFor(format, scene.output);
-  const { colours, scaling, outOfGamut } = profileColours(profile, request, scene.output, space);
+  const { colours, scaling, outOfGamut, orders } = profileColours(profile, request, scene.output, space);
   const curtain = curtainTransmittance(profile.quadrature, request.water, request.pathLengthM);
   const alpha = scene.layer === "premultiplied" ? 1 - curtain.transmittance : undefined;
   const warnings = [...profile.meta.warnings];
@@ -326,6 +343,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
     );
   }
   if (!angles.seen) warnings.push("no pixel sees rain (all below the horizon or beyond maxAngleDeg): the layer is empty");
+  if (layers === "by-order" && !angles.seen) warnings.push("layers by-order: every layer is empty, as no pixel sees rain");
   const hash = overlayHash(scene.endpoint, scene.normalisedRequest);
   const antisolar = azimuthElevationOf(scene.antisolar);
   const chroma = spacePrimaries(space);
@@ -398,6 +416,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
       water: profile.meta.water,
       vision: profile.meta.vision,
     },
+    ...(layers === "by-order" ? { layers: orderLayersManifest(scene.layer === "premultiplied" ? ["R", "G", "B", "A"] : ["R", "G", "B"]) } : {}),
     hash,
     cache: profile.meta.cache,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
@@ -409,7 +428,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
     ],
     warnings,
   };
-  return { scene, hash, profile, colours, alpha, manifest };
+  return { scene, hash, profile, colours, alpha, manifest, ...(orders ? { orderColours: orders } : {}) };
 }
 
 function waterManifest(w: WaterSurface) {
@@ -429,17 +448,32 @@ function waterManifest(w: WaterSurface) {
 }
 
 export function renderPrepared(p: PreparedOverlay): Layer {
+  return renderWith(p, p.colours, p.alpha);
+}
+
+/** The scene's pixels from the given colours; alpha undefined draws RGB only. */
+function renderWith(p: PreparedOverlay, colours: ProfileColours, alpha: number | undefined): Layer {
   return renderLayer({
     rays: p.scene.rays,
     antisolar: p.scene.antisolar,
-    colours: p.colours,
+    colours,
     ground: p.scene.ground,
     maxAngleDeg: p.scene.maxAngleDeg,
-    alpha: p.alpha,
+    alpha,
     polariserAxis: p.scene.polariserAxis,
     polariserTangentCos2: p.scene.polariserTangentCos2,
     water: p.scene.water,
   });
+}
+
+/**
+ * The combined layer with each order drawn the same way (same pixels, polariser and water; RGB only) and the
+ * remainder: the channels of a multi-layer EXR (order-layers.ts).
+ */
+export function renderPreparedByOrder(p: PreparedOverlay, layer: Layer): { channels: string[]; data: Float32Array } {
+  const whole = layer.channels === 4 ? ["R", "G", "B", "A"] : ["R", "G", "B"];
+  const parts = (p.orderColours ?? []).map((colours) => renderWith(p, colours, undefined).data);
+  return withOrderLayers(layer.data, whole, parts, layer.widthPx * layer.heightPx);
 }
 
 let srgbTable: Float32Array | undefined;
@@ -498,13 +532,14 @@ export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): 
   const chroma = spacePrimaries(space);
   const manifest = p.manifest;
   switch (format) {
-    case "exr":
+    case "exr": {
+      const layered = p.orderColours ? renderPreparedByOrder(p, layer) : undefined;
       return {
         body: encodeExr({
           width: layer.widthPx,
           height: layer.heightPx,
-          channels: layer.channels === 4 ? ["R", "G", "B", "A"] : ["R", "G", "B"],
-          data: layer.data,
+          channels: layered?.channels ?? (layer.channels === 4 ? ["R", "G", "B", "A"] : ["R", "G", "B"]),
+          data: layered?.data ?? layer.data,
           pixelType: "half",
           compression: "zip",
           chromaticities: { red: chroma.red, green: chroma.green, blue: chroma.blue, white: chroma.white },
@@ -516,6 +551,7 @@ export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): 
         contentType: "image/x-exr",
         manifest,
       };
+    }
     case "hdr":
       return {
         body: encodeRadianceHdr({
@@ -535,10 +571,10 @@ export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): 
   }
 }
 
-export function prepareView(body: ViewRequest, format: OverlayFormat, deps: ViewDeps): Promise<PreparedOverlay> {
-  return prepare(viewScene(body), format, deps);
+export function prepareView(body: ViewRequest, format: OverlayFormat, deps: ViewDeps, layers: ProfileLayers = "combined"): Promise<PreparedOverlay> {
+  return prepare(viewScene(body), format, deps, layers);
 }
 
-export function prepareSky(body: SkyRequest, format: OverlayFormat, deps: ViewDeps): Promise<PreparedOverlay> {
-  return prepare(skyScene(body), format, deps);
+export function prepareSky(body: SkyRequest, format: OverlayFormat, deps: ViewDeps, layers: ProfileLayers = "combined"): Promise<PreparedOverlay> {
+  return prepare(skyScene(body), format, deps, layers);
 }

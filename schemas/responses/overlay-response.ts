@@ -1,5 +1,6 @@
 import { lightSourceFields, visionMetaSchema } from "./light-source-response.js";
 import { z } from "zod";
+import { orderLayersManifestSchema } from "./order-layers-response.js";
 import { cameraSchema, layerSchema, viewOutputSchema, imageQuerySchema } from "../view.js";
 import { bowsSchema, methodSummarySchema, radiiSummarySchema, sunSummarySchema, wavelengthsSummarySchema } from "./profile-response.js";
 
@@ -94,6 +95,7 @@ const overlayFields = {
     water: z.string(),
     vision: visionMetaSchema.optional(),
   }),
+  layers: orderLayersManifestSchema.optional(),
   hash: z.string(),
   cache: z.enum(["hit", "miss"]),
   computeMs: z.number(),
