@@ -17,7 +17,7 @@ import type { KernelRows, KernelService, KernelStats } from "../kernels/kernel-s
 import { ORDER_LAYERS, type OrderLayerName } from "../../lib/bow/scattering-orders.js";
 import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
-import { autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
+import { AUTO_MIE_BUDGET_TERM_ANGLES, autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-density.js";
 import type { CellAverage } from "../../lib/bow/cell-average.js";
@@ -182,7 +182,11 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
   const span = profileSpan(angles, request.sun.discDeg, h);
   const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
-  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature.radiiUm, wl, span, resolution) : null;
+  // By order the whole rows and each named order's rows cost alike: auto's budgets are shared among them, so that a
+  // layered answer costs about what the combined one does (auto may then leave more drops to the Airy engine).
+  const budgetShare = byOrder ? 1 / (1 + ORDER_LAYERS.length) : 1;
+  const autoResolution = byOrder ? { ...resolution, autoMieBudgetTermAngles: (resolution.autoMieBudgetTermAngles ?? AUTO_MIE_BUDGET_TERM_ANGLES) * budgetShare } : resolution;
+  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature.radiiUm, wl, span, autoResolution) : null;
   const engine = autoChoice ? autoEngine(autoChoice) : engineChooser(request.method);
   // Lorenz–Mie rows averaged over each node's radius cell at sizesPerDecade (cell-average.ts, radius-density.ts).
   const averagesAt = (sizesPerDecade: number) => {
@@ -201,7 +205,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     cost: (d) => mieCost(averagesAt(d)),
     // A constant, not the server's limit: the result for a request (and its content hash) is the same on every
     // server, synchronous or as a job; the limit only decides whether it may run synchronously.
-    budgetTermAngles: AUTO_DENSITY_BUDGET_TERM_ANGLES,
+    budgetTermAngles: AUTO_DENSITY_BUDGET_TERM_ANGLES * budgetShare,
   });
   if (density.cappedFrom) {
     warnings.push(
