@@ -98,10 +98,14 @@ describe("layers by scattering order (?layers=by-order): multi-layer OpenEXR", (
     expect(exr.channels.every((c) => c.pixelType === 1)).toBe(true);
     expect(worstSumExcess(values)).toBeLessThanOrEqual(0);
 
-    // Alexander's dark band between Descartes' primary and secondary angles for water at 555 nm (n = 1.3355,
-    // IAPWS R9-97 from memory to 3 decimals: the band's middle moves by < 0.05° over ±0.002 in n).
-    const primaryDeg = descartesPsiDeg(1.3355, 1);
-    const secondaryDeg = descartesPsiDeg(1.3355, 2);
+    // Alexander's dark band between Descartes' primary and secondary angles for water at 550 nm, n = 1.334683
+    // (IAPWS R9-97 at 20 °C, table in docs/checks.md); over the visible n spans 1.3305–1.3436 and the band's
+    // middle moves by under 0.15°, well inside the ±1° window.
+    const primaryDeg = descartesPsiDeg(1.334683, 1);
+    const secondaryDeg = descartesPsiDeg(1.334683, 2);
+    // Descartes' angles of that table: 41.834° and 51.331°.
+    expect(primaryDeg).toBeCloseTo(41.834, 2);
+    expect(secondaryDeg).toBeCloseTo(51.331, 2);
     const middle = (primaryDeg + secondaryDeg) / 2;
     const psi = skyPsiDeg(240, 120, manifest.antisolarPoint.direction);
     let peakPrimary = 0;
