@@ -26,7 +26,7 @@ import { ClientError } from "../requests/client-error.js";
 import { planDropShapes, shapedCostTermAngles } from "./drop-shape-plan.js";
 import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
-import { COST_NS } from "../progress/work-costs.js";
+import { laterWorkNs } from "../progress/profile-work.js";
 
 /** The stages of a profile's progress, in order (a render adds its encoding after them: PROFILE_RENDER_STAGES). */
 export const PROFILE_STAGES = ["kernels", "spectral", "colour"] as const;
@@ -166,10 +166,13 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
   return chooseAutoFor(quadrature.radiiUm, wl, span, resolution);
 }
 
-export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}, layers: ProfileLayers = "combined"): Promise<ProfileResult> {
-  const { limits } = deps;
+/**
+ * Everything about a profile that is known before any work: wavelengths, drops on their radius nodes, engines,
+ * Lorenz–Mie averaging, shapes, the lattice span and the estimated cost. computeProfile runs it first; answers made
+ * of several profiles (lookup textures, size maps) run it for each of their rows to weigh their progress.
+ */
+export function planProfile(request: ProfileRequest, resolution: ProfileResolution = {}, layers: ProfileLayers = "combined") {
   const byOrder = layers === "by-order";
-  const started = performance.now();
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
   const wl = wavelengthsNm(grid);
@@ -236,7 +239,18 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const blocks = blocksOf(span);
   // Flattened drops' rows are counted in Mie term-angles' worth of work (drop-shape-plan.ts).
   // By order, each named order's rows cost about what the whole rows do (Debye coefficients, the same amplitude sums).
-  const cost = (mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1)) * (byOrder ? 1 + ORDER_LAYERS.length : 1);
+  const profilesToSum = byOrder ? 1 + ORDER_LAYERS.length : 1;
+  const cost = (mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1)) * profilesToSum;
+  return { warnings, grid, wl, media, waterSource, distribution, count, angles, h, span, quadrature, autoChoice, engine, density, averages, shapePlan, blocks, cost, byOrder, profilesToSum };
+}
+
+export type ProfilePlan = ReturnType<typeof planProfile>;
+
+export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}, layers: ProfileLayers = "combined"): Promise<ProfileResult> {
+  const { limits } = deps;
+  const started = performance.now();
+  const plan = planProfile(request, resolution, layers);
+  const { warnings, grid, media, waterSource, count, angles, h, span, quadrature, autoChoice, engine, density, shapePlan, blocks, cost, averages, byOrder, profilesToSum } = plan;
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",
@@ -251,13 +265,12 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
 
   const engines = Array.from(quadrature.radiiUm, engine);
   const progress = deps.progress;
-  // The sum over drops and the sun's disc, per wavelength (lattice-profile.ts), and the colour of every output angle.
-  const spanSamples = span.last - span.first + 1;
-  const discSamples = Math.ceil(request.sun.discDeg / h) + 1;
-  const spectralNsPerWavelength = spanSamples * (quadrature.weights.filter((w) => w !== 0).length * COST_NS.sumSample + discSamples * COST_NS.discSample);
-  const profilesToSum = byOrder ? 1 + ORDER_LAYERS.length : 1;
-  progress?.plan("spectral", profilesToSum * grid.count * spectralNsPerWavelength);
-  progress?.plan("colour", profilesToSum * grid.count * count * COST_NS.colourSample);
+  // By order the sum over drops and the colour run once for the whole and once per named order.
+  const later = progress ? laterWorkNs(request, plan) : undefined;
+  if (later) {
+    progress?.plan("spectral", profilesToSum * later.spectralNs);
+    progress?.plan("colour", profilesToSum * later.colourNs);
+  }
   const kernelStarted = performance.now();
   // The whole rows and, by order, each named order's rows (kept apart in the cache: orderVariant), all at once.
   const requestedOrders: (number | undefined)[] = [undefined, ...(byOrder ? ORDER_LAYERS.map((layer) => layer.order) : [])];
@@ -295,7 +308,8 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     });
     let step = steps.next();
     while (!step.done) {
-      progress?.advance("spectral", ++wavelengthsDone * spectralNsPerWavelength);
+      wavelengthsDone++;
+      if (later) progress?.advance("spectral", wavelengthsDone * later.spectralNsPerWavelength);
       await new Promise<void>((resolve) => setImmediate(resolve));
       step = steps.next();
     }

@@ -227,6 +227,11 @@ describe("layers: refused where they cannot be carried", () => {
     await expect(renderLut(request, lutQuerySchema.parse({ layers: "by-order" }), { kernels, maxTermAngles: Infinity })).rejects.toMatchObject({ status: 400, details: { field: "layers" }, message: expect.stringMatching(/sunElevations/) });
   });
 
+  it("flattened drops by order are a 400 naming `layers` (the order rows are for spheres), before any computing", async () => {
+    const body = viewRequestSchema.parse({ scenario: { drops: { kind: "monodisperse", radiusUm: 1500, numberPerM3: 100, shape: { kind: "equilibrium" } } }, camera: { widthPx: 16, heightPx: 9 } });
+    await expect(prepareView(body, "exr", deps, "by-order")).rejects.toMatchObject({ status: 400, details: { field: "layers" }, message: expect.stringMatching(/scenario\.drops\.shape/) });
+  });
+
   it("an image above the layered pixel limit is a 400 naming `layers`, before any computing", async () => {
     const body = skyRequestSchema.parse({ widthPx: 4096, heightPx: 2048 });
     await expect(prepareSky(body, "exr", deps, "by-order")).rejects.toMatchObject({ status: 400, details: { field: "layers" } });
