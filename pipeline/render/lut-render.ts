@@ -11,6 +11,8 @@ import { annotate, resolveLutRequest, sourcePositionHeaders, type Resolved } fro
 import { computeLut } from "../compute/lut.js";
 import { withOrderLayers } from "../compute/order-layers.js";
 import { ClientError } from "../requests/client-error.js";
+import type { ProfileDeps } from "../compute/profile.js";
+import type { ProgressListener } from "../progress/progress-meter.js";
 
 export type LutQuery = z.output<typeof lutQuerySchema>;
 
@@ -22,19 +24,24 @@ function rgbOnly(lut: SlicedLut): Float32Array {
 
 export async function renderLut(request: LutRequest, query: LutQuery, deps: RenderDeps): Promise<RenderOutput> {
   const resolved = resolveLutRequest(request);
-  const profileDeps = { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal };
-  if (query.layers === "by-order") {
-    if (resolved.body.sunElevations) {
-      throw new ClientError("invalid-request", `query field 'layers' "by-order" and body field 'sunElevations' do not go together: a time-of-day texture is written with layers "combined"; ask one elevation for the layers`, {
-        field: "layers",
-        allowed: "combined (with sunElevations)",
-      });
-    }
-    const lut = await computeLut(resolved.body, profileDeps, deps.onProgress, "by-order");
-    return encodeLut({ ...lut, slices: 1 }, resolved, query);
-  }
-  const lut = await computeSlicedLut(resolved.body, profileDeps, deps.onProgress);
+  const lut = await computeLutForQuery(resolved.body, query, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal }, deps.onProgress);
   return encodeLut(lut, resolved, query);
+}
+
+/**
+ * The texture a query asks for: time-of-day slices when the body has sunElevations, the layers by scattering
+ * order with layers "by-order" (one elevation only: both together are a 400 naming `layers`). POST /v1/lut and
+ * `antisolar bake` alike.
+ */
+export async function computeLutForQuery(body: LutRequest, query: LutQuery, deps: ProfileDeps, onProgress?: ProgressListener): Promise<SlicedLut & { orders?: Float32Array[] }> {
+  if (query.layers !== "by-order") return computeSlicedLut(body, deps, onProgress);
+  if (body.sunElevations) {
+    throw new ClientError("invalid-request", `query field 'layers' "by-order" and body field 'sunElevations' do not go together: a time-of-day texture is written with layers "combined"; ask one elevation for the layers`, {
+      field: "layers",
+      allowed: "combined (with sunElevations)",
+    });
+  }
+  return { ...(await computeLut(body, deps, onProgress, "by-order")), slices: 1 };
 }
 
 /**
