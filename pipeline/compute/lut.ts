@@ -5,7 +5,9 @@ import type { LutRequest } from "../../schemas/lut.js";
 import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
-import { planProfile, refuseTooCostly, profileSources, profileWarnings, requestHash, sunColourWeights, sunLightFor, sunlitLinearRgb, unitRadianceFor, unitSpectralProfile, type ProfileDeps } from "./profile.js";
+import { planProfile, refuseTooCostly, profileSources, profileWarnings, requestHash, sunColourWeights, sunLightFor, sunlitLinearRgb, unitRadianceFor, unitSpectralProfile, type ProfileDeps, type ProfileLayers } from "./profile.js";
+import { ORDER_LAYERS } from "../../lib/bow/scattering-orders.js";
+import { orderLayersManifest } from "./order-layers.js";
 import { sharedKernelRows } from "../kernels/shared-rows.js";
 import { discKernels } from "../../lib/bow/lattice-profile.js";
 import { COST_NS } from "../progress/work-costs.js";
@@ -22,6 +24,8 @@ export interface Lut {
   height: number;
   /** RGBA per texel, row-major from the top row (row j = size j, ascending). */
   rgba: Float32Array;
+  /** layers "by-order": each named order's RGB per texel (ORDER_LAYERS' order), with the whole texture's colour handling. */
+  orders?: Float32Array[];
   manifest: LutManifest;
 }
 
@@ -94,7 +98,7 @@ export function lutStages(sunStages: readonly string[]): string[] {
  * re-weights them by its own spectrum and takes the colour sums. A single texture is the case of one sun, so a
  * time-of-day slice and the single-elevation texture at its elevation come from the same operations, to the bit.
  */
-export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps: ProfileDeps, progress: ProgressMeter, sunStages: readonly string[]): Promise<Lut[]> {
+export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps: ProfileDeps, progress: ProgressMeter, sunStages: readonly string[], layers: ProfileLayers = "combined"): Promise<Lut[]> {
   const started = performance.now();
   const request = requests[0];
   const texelPsi = texelAngles(request.angles);
@@ -112,7 +116,7 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
     output: { ...profileDefaults.output, space: r.space, gamut: "clip", normalise: "physical", white: "sun" },
   });
   // The rows share auto's Mie budget, so that a texture costs about what one profile does.
-  const plans = rows.map((_, j) => planProfile(bodyOf(request, j), { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length }));
+  const plans = rows.map((_, j) => planProfile(bodyOf(request, j), { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length }, layers));
   for (const plan of plans) refuseTooCostly(plan, deps.limits);
   const reads = texelReads(texelPsi, plans[0].angles);
   const nl = plans[0].grid.count;
@@ -143,6 +147,14 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
     const unit = await unitSpectralProfile(plans[j], kernelRows[j], { disc, samples: reads.samples, onWavelength: (ns) => progress.advance("spectral", rowsBeforeNs[j] + ns * share) });
     units.push(unitRadianceFor(plans[j], unit));
   }
+  // By order: each named order's rows (cached apart, lib/bow/scattering-orders.ts) through the same spectral pass.
+  const orderUnits: Float64Array[][] = [];
+  for (const { order } of layers === "by-order" ? ORDER_LAYERS : []) {
+    const orderRows = await sharedKernelRows(deps.kernels, plans.map((p) => ({ ...p.kernelRequest, order })), deps.signal, { saveEachTask: deps.saveEachTask });
+    const perRow: Float64Array[] = [];
+    for (let j = 0; j < rows.length; j++) perRow.push(unitRadianceFor(plans[j], await unitSpectralProfile(plans[j], orderRows[j], { disc, samples: reads.samples })));
+    orderUnits.push(perRow);
+  }
   const transmittance = plans.map((p) => curtainTransmittance(p.quadrature, p.request.water, p.request.pathLengthM).transmittance);
 
   const luts: Lut[] = [];
@@ -150,6 +162,7 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
     // Between suns, other requests may run.
     if (s > 0) await new Promise<void>((resolve) => setImmediate(resolve));
     const rgba = new Float32Array(width * height * 4);
+    const orders = orderUnits.map(() => new Float32Array(width * height * 3));
     const warnings = new Set<string>();
     // One sun for every row (the rows differ in their drops only).
     const light = sunLightFor(plans[0], bodyOf(r, 0).sun);
@@ -164,17 +177,28 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
         for (let c = 0; c < 3; c++) rgba[o + c] = rgb[3 * k + c] * (1 - f) + rgb[3 * (k + 1) + c] * f;
         rgba[o + 3] = 1 - transmittance[j];
       }
+      // Each order sampled as the whole is.
+      orderUnits.forEach((units, p) => {
+        const orderRgb = sunlitLinearRgb(plans[j], units[j], weights, light);
+        for (let i = 0; i < width; i++) {
+          const k = reads.lower[i];
+          const f = reads.fraction[i];
+          for (let c = 0; c < 3; c++) orders[p][3 * (j * width + i) + c] = orderRgb[3 * k + c] * (1 - f) + orderRgb[3 * (k + 1) + c] * f;
+        }
+      });
       progress.advance(sunStages[s], (j + 1) * reads.samples.length * nl * COST_NS.colourSample);
     }
-    luts.push({ width, height, rgba, manifest: lutManifest(r, rows, texelPsi, transmittance, [...warnings], plans[0].request, started) });
+    const manifest = lutManifest(r, rows, texelPsi, transmittance, [...warnings], plans[0].request, started);
+    if (orders.length) luts.push({ width, height, rgba, manifest: { ...manifest, layers: orderLayersManifest(["R", "G", "B", "A"]) }, orders });
+    else luts.push({ width, height, rgba, manifest });
   }
   return luts;
 }
 
-export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener): Promise<Lut> {
+export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener, layers: ProfileLayers = "combined"): Promise<Lut> {
   const stages = lutStages(["colour"]);
   const progress = new ProgressMeter(stages, onProgress);
-  const [lut] = await computeLutsAcrossSun([request], deps, progress, ["colour"]);
+  const [lut] = await computeLutsAcrossSun([request], deps, progress, ["colour"], layers);
   progress.done();
   return lut;
 }

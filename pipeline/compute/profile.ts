@@ -13,11 +13,12 @@ import { directSunlight } from "../../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
 import { latticeUnitProfileSteps, sunlitProfile, polarisedUnitRadiance, discKernels, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
 import { blocksOf, kernelStepFor, type LatticeSpan } from "../../lib/bow/kernel-grid.js";
-import type { KernelRequest, KernelRows, KernelService } from "../kernels/kernel-service.js";
+import type { KernelRequest, KernelRows, KernelService, KernelStats } from "../kernels/kernel-service.js";
+import { ORDER_LAYERS, type OrderLayerName } from "../../lib/bow/scattering-orders.js";
 import type { DiscKernel } from "../../lib/sun/disc.js";
 import { colourProfile, linearRgbOfXyz, polariserWeights, sunlitXyzWeights, weightedXyz, type ColourOptions, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
-import { autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
+import { AUTO_MIE_BUDGET_TERM_ANGLES, autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-density.js";
 import type { CellAverage } from "../../lib/bow/cell-average.js";
@@ -36,6 +37,17 @@ import { visionMeta } from "./vision-meta.js";
 /** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
 const FLATTENED_FROM_RADIUS_UM = 1000;
 
+/** One scattering order's share of a profile (lib/bow/scattering-orders.ts), from the same drops, sun and options. */
+export interface OrderProfile {
+  name: OrderLayerName;
+  order: number;
+  spectral: SpectralProfile;
+  colour: ColourProfile;
+}
+
+/** combined: the whole light only; by-order: also each named scattering order's profile (ProfileResult.orders). */
+export type ProfileLayers = "combined" | "by-order";
+
 export interface ProfileResult {
   request: ProfileRequest;
   /** XYZ of the direct sunlight on the rain (any scale): the white under white = "sun". */
@@ -47,6 +59,8 @@ export interface ProfileResult {
   colour: ColourProfile;
   bows: Bows;
   meta: ProfileMeta;
+  /** With layers "by-order": the named orders, in ORDER_LAYERS' order (the remainder is the whole minus their sum). */
+  orders?: OrderProfile[];
 }
 
 export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribution {
@@ -159,7 +173,8 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
  * first; answers made of several profiles (lookup textures, size maps) run it for each of their rows. Nothing here
  * depends on the sun's spectrum or elevation except the flattened drops' shape plan (sphere rows never do).
  */
-export function planProfile(request: ProfileRequest, resolution: ProfileResolution = {}) {
+export function planProfile(request: ProfileRequest, resolution: ProfileResolution = {}, layers: ProfileLayers = "combined") {
+  const byOrder = layers === "by-order";
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
   const wl = wavelengthsNm(grid);
@@ -172,7 +187,11 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
   const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
   const span = profileSpan(angles, request.sun.discDeg, h);
   const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
-  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature.radiiUm, wl, span, resolution) : null;
+  // By order the whole rows and each named order's rows cost alike: auto's budgets are shared among them, so that a
+  // layered answer costs about what the combined one does (auto may then leave more drops to the Airy engine).
+  const budgetShare = byOrder ? 1 / (1 + ORDER_LAYERS.length) : 1;
+  const autoResolution = byOrder ? { ...resolution, autoMieBudgetTermAngles: (resolution.autoMieBudgetTermAngles ?? AUTO_MIE_BUDGET_TERM_ANGLES) * budgetShare } : resolution;
+  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature.radiiUm, wl, span, autoResolution) : null;
   const engine = autoChoice ? autoEngine(autoChoice) : engineChooser(request.method);
   // Lorenz–Mie rows averaged over each node's radius cell at sizesPerDecade (cell-average.ts, radius-density.ts).
   const averagesAt = (sizesPerDecade: number) => {
@@ -191,7 +210,7 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
     cost: (d) => mieCost(averagesAt(d)),
     // A constant, not the server's limit: the result for a request (and its content hash) is the same on every
     // server, synchronous or as a job; the limit only decides whether it may run synchronously.
-    budgetTermAngles: AUTO_DENSITY_BUDGET_TERM_ANGLES,
+    budgetTermAngles: AUTO_DENSITY_BUDGET_TERM_ANGLES * budgetShare,
   });
   if (density.cappedFrom) {
     warnings.push(
@@ -221,10 +240,12 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
 
   const blocks = blocksOf(span);
   // Flattened drops' rows are counted in Mie term-angles' worth of work (drop-shape-plan.ts).
-  const cost = mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1);
+  // By order, each named order's rows cost about what the whole rows do (Debye coefficients, the same amplitude sums).
+  const profilesToSum = byOrder ? 1 + ORDER_LAYERS.length : 1;
+  const cost = (mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1)) * profilesToSum;
   const engines = Array.from(quadrature.radiiUm, engine);
   const kernelRequest: KernelRequest = { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } };
-  return { request, warnings, grid, wl, media, waterSource, distribution, count, angles, h, span, quadrature, autoChoice, engine, density, averages, shapePlan, blocks, cost, kernelRequest };
+  return { request, warnings, grid, wl, media, waterSource, distribution, count, angles, h, span, quadrature, autoChoice, engine, density, averages, shapePlan, blocks, cost, kernelRequest, byOrder, profilesToSum };
 }
 
 export type ProfilePlan = ReturnType<typeof planProfile>;
@@ -343,31 +364,50 @@ export function profileWarnings(plan: ProfilePlan, sun: SunLight): string[] {
   return warnings;
 }
 
-export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
+export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}, layers: ProfileLayers = "combined"): Promise<ProfileResult> {
   const started = performance.now();
-  const plan = planProfile(request, resolution);
+  const plan = planProfile(request, resolution, layers);
   refuseTooCostly(plan, deps.limits);
-  const { grid, quadrature, span, engine, autoChoice, density, shapePlan } = plan;
+  const { grid, quadrature, span, engine, autoChoice, density, shapePlan, byOrder, profilesToSum } = plan;
   const progress = deps.progress;
+  // By order the sum over drops and the colour run once for the whole and once per named order.
   const later = progress ? laterWorkNs(request, plan) : undefined;
   if (later) {
-    progress?.plan("spectral", later.spectralNs);
-    progress?.plan("colour", later.colourNs);
+    progress?.plan("spectral", profilesToSum * later.spectralNs);
+    progress?.plan("colour", profilesToSum * later.colourNs);
   }
   const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows(plan.kernelRequest, deps.signal, {
-    saveEachTask: deps.saveEachTask,
-    onRows: progress
-      ? (doneNs, totalNs, found) => {
-          progress.plan("kernels", totalNs);
-          progress.advance("kernels", doneNs, { found });
-        }
-      : undefined,
-  });
+  // The whole rows and, by order, each named order's rows (kept apart in the cache: orderVariant), all at once.
+  const requestedOrders: (number | undefined)[] = [undefined, ...(byOrder ? ORDER_LAYERS.map((layer) => layer.order) : [])];
+  const tallies = requestedOrders.map(() => ({ doneNs: 0, totalNs: 0 }));
+  const [rows, ...orderRows] = await Promise.all(
+    requestedOrders.map((order, t) =>
+      deps.kernels.rows(order === undefined ? plan.kernelRequest : { ...plan.kernelRequest, order }, deps.signal, {
+        saveEachTask: deps.saveEachTask,
+        onRows: progress
+          ? (doneNs, totalNs, found) => {
+              tallies[t] = { doneNs, totalNs };
+              progress.plan("kernels", tallies.reduce((sum, x) => sum + x.totalNs, 0));
+              progress.advance("kernels", tallies.reduce((sum, x) => sum + x.doneNs, 0), { found });
+            }
+          : undefined,
+      }),
+    ),
+  );
   const kernelMs = performance.now() - kernelStarted;
   const unit = await unitSpectralProfile(plan, rows, { onWavelength: progress ? (ns) => progress.advance("spectral", ns) : undefined });
   const light = sunLightFor(plan);
   const { spectral, colour } = sunlitColour(plan, unit, light);
+  // Each named order through the same sum, sunlight and colour (its unit profile after the whole one's in the progress).
+  const orders: OrderProfile[] = [];
+  for (const [k, layer] of ORDER_LAYERS.entries()) {
+    if (!byOrder) break;
+    const done = (k + 1) * (later?.spectralNs ?? 0);
+    const orderUnit = await unitSpectralProfile(plan, orderRows[k], { onWavelength: progress ? (ns) => progress.advance("spectral", done + ns) : undefined });
+    const lit = sunlitColour(plan, orderUnit, light);
+    orders.push({ name: layer.name, order: layer.order, spectral: lit.spectral, colour: lit.colour });
+  }
+  const stats = sumStats([rows, ...orderRows].map((r) => r.stats));
   const { sunlight: sun, sunWhite, eye } = light;
   const bows = findBows(spectral.anglesDeg, colour.luminance);
   progress?.complete("colour");
@@ -400,22 +440,32 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
     water: plan.waterSource,
     colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
     vision: visionMeta(eye),
-    mieTermAngles: spectral.mieTermAngles,
+    mieTermAngles: stats.mieTermAngles,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
     kernel: {
       angleStepDeg: span.h,
-      rows: rows.stats.memoryHits + rows.stats.diskHits + rows.stats.computed,
-      memoryHits: rows.stats.memoryHits,
-      diskHits: rows.stats.diskHits,
-      computed: rows.stats.computed,
+      rows: stats.memoryHits + stats.diskHits + stats.computed,
+      memoryHits: stats.memoryHits,
+      diskHits: stats.diskHits,
+      computed: stats.computed,
       ms: Math.round(kernelMs * 10) / 10,
     },
-    cache: rows.stats.computed === 0 ? "hit" : "miss",
+    cache: stats.computed === 0 ? "hit" : "miss",
     hash: requestHash(request),
     sources: profileSources(request),
     warnings,
   };
-  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta };
+  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta, ...(byOrder ? { orders } : {}) };
+}
+
+/** The kernel statistics of several row requests together (the whole rows and each order's). */
+function sumStats(all: KernelStats[]): KernelStats {
+  return all.reduce((sum, s) => ({
+    memoryHits: sum.memoryHits + s.memoryHits,
+    diskHits: sum.diskHits + s.diskHits,
+    computed: sum.computed + s.computed,
+    mieTermAngles: sum.mieTermAngles + s.mieTermAngles,
+  }));
 }
 
 function rgbUnits(request: ProfileRequest): string {
