@@ -83,7 +83,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
   for (let j = 0; j < rows.length; j++) {
     const body = rowBody(j);
     const part = progress?.part(j);
-    const profile = await computeProfile(body, { ...deps, progress: part }, resolution);
+    const profile = await computeProfile(body, { ...deps, progress: part }, resolution, progress?.plans[j]);
     part?.done();
     first ??= profile;
     for (const w of profile.meta.warnings) warnings.add(w);

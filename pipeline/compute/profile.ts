@@ -225,10 +225,15 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
 
 export type ProfilePlan = ReturnType<typeof planProfile>;
 
-export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
+/** plan: planProfile(request, resolution) when the caller has it already (rows weighed for their progress). */
+export async function computeProfile(
+  request: ProfileRequest,
+  deps: ProfileDeps,
+  resolution: ProfileResolution = {},
+  plan: ProfilePlan = planProfile(request, resolution),
+): Promise<ProfileResult> {
   const { limits } = deps;
   const started = performance.now();
-  const plan = planProfile(request, resolution);
   const { warnings, grid, media, waterSource, count, angles, h, span, quadrature, autoChoice, engine, density, shapePlan, blocks, cost, averages } = plan;
   if (cost > limits.maxTermAngles) {
     throw new ClientError(

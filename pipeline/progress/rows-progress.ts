@@ -4,7 +4,7 @@
 // one. Rows whose kernel rows an earlier row computes (rain rates share radius nodes) are weighed without them.
 
 import type { ProfileRequest } from "../../schemas/profile.js";
-import { planProfile, PROFILE_STAGES, type ProfileResolution } from "../compute/profile.js";
+import { planProfile, PROFILE_STAGES, type ProfilePlan, type ProfileResolution } from "../compute/profile.js";
 import { ProgressMeter, type ProgressListener } from "./progress-meter.js";
 import { profileWorkNs } from "./profile-work.js";
 
@@ -14,6 +14,8 @@ export interface RowsProgress {
   part(j: number): ProgressMeter;
   /** Each row's estimated cost, as planned. */
   costsNs: number[];
+  /** Each row's profile plan (planProfile), for computeProfile not to make it again. */
+  plans: ProfilePlan[];
 }
 
 /** rowOf(j): row j's profile request and resolution; threads: the kernel service's parallelism. */
@@ -26,11 +28,11 @@ export function rowsProgress(
   const names = Array.from({ length: count }, (_, j) => `row ${j + 1} of ${count}`);
   const meter = new ProgressMeter(names, listener);
   const seen = new Set<string>();
+  const plans = names.map((_, j) => planProfile(...rowOf(j)));
   const costsNs = names.map((name, j) => {
-    const [body, resolution] = rowOf(j);
-    const ns = profileWorkNs(body, planProfile(body, resolution), threads, seen);
+    const ns = profileWorkNs(rowOf(j)[0], plans[j], threads, seen);
     meter.plan(name, ns);
     return ns;
   });
-  return { meter, part: (j) => meter.part(names[j], PROFILE_STAGES), costsNs };
+  return { meter, part: (j) => meter.part(names[j], PROFILE_STAGES), costsNs, plans };
 }

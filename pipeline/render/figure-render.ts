@@ -66,7 +66,7 @@ async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ ra
       Array.from(radiiUm, async (radiusUm, k) => {
         try {
           const part = progress?.part(k);
-          const result = await computeProfile(sizeMapRowRequest(body, radiusUm), { kernels: deps.kernels, limits, signal: abort.signal, progress: part }, resolution);
+          const result = await computeProfile(sizeMapRowRequest(body, radiusUm), { kernels: deps.kernels, limits, signal: abort.signal, progress: part }, resolution, progress?.plans[k]);
           part?.done();
           return result;
         } catch (err) {

@@ -10,6 +10,8 @@ import { profileRequestSchema } from "../../../schemas/profile.js";
 import { stripQuerySchema } from "../../../schemas/formats.js";
 import { renderLut } from "../../../pipeline/render/lut-render.js";
 import { renderProfile } from "../../../pipeline/render/profile-render.js";
+import { renderSizeMap } from "../../../pipeline/render/figure-render.js";
+import { sizeMapRequestSchema } from "../../../schemas/figures.js";
 import type { ProgressUpdate } from "../../../pipeline/progress/progress-meter.js";
 import { COST_NS } from "../../../pipeline/progress/work-costs.js";
 
@@ -82,6 +84,32 @@ describe("progress weighed by the work", () => {
     const engineShares = computed.map((c) => c / computed.reduce((a, b) => a + b, 0));
     for (let j = 0; j < 3; j++) expect(Math.abs(shares[j] - engineShares[j])).toBeLessThan(0.05);
     expect(shares[0]).toBeGreaterThan(shares[1]);
+  });
+
+  it("a size map's rows, computed side by side, each fill their own share and never complete one another", async () => {
+    const { kernels } = watchedKernels();
+    const updates: ProgressUpdate[] = [];
+    const body = sizeMapRequestSchema.parse({
+      radiusFromUm: 100,
+      radiusToUm: 1000,
+      radiusSteps: 3,
+      method: "mie",
+      angles: { fromDeg: 38, toDeg: 44, stepDeg: 0.25 },
+      spectral: { fromNm: 500, toNm: 580, stepNm: 20 },
+    });
+    await renderSizeMap(body, "svg", { kernels, maxTermAngles: Infinity, onProgress: (u) => updates.push(u) });
+    for (let k = 1; k < updates.length; k++) expect(updates[k].fraction).toBeGreaterThanOrEqual(updates[k - 1].fraction);
+    // Each row reports while it works (one step per wavelength task at least), and the 1 mm row, about ten times
+    // the 100 µm row's Lorenz–Mie work (Wiscombe 1980's term count grows with the size parameter), moves the
+    // fraction most: the largest single rise is the 1 mm row's.
+    expect(new Set(updates.map((u) => u.fraction.toFixed(4))).size).toBeGreaterThanOrEqual(3 * 5);
+    let largest = { rise: 0, stage: "" };
+    for (let k = 1; k < updates.length; k++) {
+      const rise = updates[k].fraction - updates[k - 1].fraction;
+      if (rise > largest.rise) largest = { rise, stage: updates[k].stage };
+    }
+    expect(largest.stage).toBe("row 3 of 3");
+    expect(updates.at(-1)!.fraction).toBe(0.999);
   });
 
   it("a flattened-drop profile job is weighed by its scattering planes: the kernels are nearly all of it, one even step per wavelength", async () => {
