@@ -6,7 +6,7 @@ import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
 import { computeProfile, requestHash, type ProfileDeps, type ProfileResult } from "./profile.js";
-import { rowsProgress } from "../progress/rows-progress.js";
+import { rowNames, rowsProgress } from "../progress/rows-progress.js";
 import { AUTO_MIE_BUDGET_TERM_ANGLES } from "../../lib/bow/engine-choice.js";
 import type { LutManifest } from "../../schemas/responses/lut-response.js";
 import type { ProgressListener } from "../progress/progress-meter.js";
@@ -78,7 +78,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
     output: { ...profileDefaults.output, space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
   });
-  const progress = onProgress ? rowsProgress(rows.length, (j) => [rowBody(j), resolution], deps.kernels.parallelism, onProgress) : undefined;
+  const progress = onProgress ? rowsProgress(rowNames(rows.length), (j) => [rowBody(j), resolution], deps.kernels.parallelism, onProgress) : undefined;
 
   for (let j = 0; j < rows.length; j++) {
     const body = rowBody(j);

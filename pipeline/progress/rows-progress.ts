@@ -18,21 +18,31 @@ export interface RowsProgress {
   plans: ProfilePlan[];
 }
 
-/** rowOf(j): row j's profile request and resolution; threads: the kernel service's parallelism. */
+/** The stage names of rows in a texture or size map: "row 1 of 24", … */
+export function rowNames(count: number): string[] {
+  return Array.from({ length: count }, (_, j) => `row ${j + 1} of ${count}`);
+}
+
+/**
+ * names: one stage per row; rowOf(j): row j's profile request and resolution; threads: the kernel service's
+ * parallelism; into: the listener of a meter made here, or a stage of a meter that the rows fill together (the
+ * profiles a view takes along the arc fill its "kernels" stage).
+ */
 export function rowsProgress(
-  count: number,
+  names: readonly string[],
   rowOf: (j: number) => [ProfileRequest, ProfileResolution],
   threads: number,
-  listener: ProgressListener,
+  into: ProgressListener | { meter: ProgressMeter; stage: string },
 ): RowsProgress {
-  const names = Array.from({ length: count }, (_, j) => `row ${j + 1} of ${count}`);
-  const meter = new ProgressMeter(names, listener);
-  const seen = new Set<string>();
   const plans = names.map((_, j) => planProfile(...rowOf(j)));
-  const costsNs = names.map((name, j) => {
-    const ns = profileWorkNs(rowOf(j)[0], plans[j], threads, seen);
-    meter.plan(name, ns);
-    return ns;
-  });
+  const seen = new Set<string>();
+  const costsNs = names.map((_, j) => profileWorkNs(rowOf(j)[0], plans[j], threads, seen));
+  let meter: ProgressMeter;
+  if (typeof into === "function") meter = new ProgressMeter(names, into);
+  else {
+    into.meter.plan(into.stage, costsNs.reduce((a, b) => a + b, 0));
+    meter = into.meter.part(into.stage, names);
+  }
+  names.forEach((name, j) => meter.plan(name, costsNs[j]));
   return { meter, part: (j) => meter.part(names[j], PROFILE_STAGES), costsNs, plans };
 }

@@ -12,6 +12,8 @@ import { renderLut } from "../../../pipeline/render/lut-render.js";
 import { renderProfile } from "../../../pipeline/render/profile-render.js";
 import { renderSizeMap } from "../../../pipeline/render/figure-render.js";
 import { sizeMapRequestSchema } from "../../../schemas/figures.js";
+import { renderOverlay } from "../../../pipeline/render/view-render.js";
+import { imageQuerySchema, viewRequestSchema } from "../../../schemas/view.js";
 import type { ProgressUpdate } from "../../../pipeline/progress/progress-meter.js";
 import { COST_NS } from "../../../pipeline/progress/work-costs.js";
 
@@ -134,5 +136,31 @@ describe("progress weighed by the work", () => {
     // A plane costs tenths of a second, the sum over drops and the colour of 121 angles far less: were the flattened
     // rows priced as the sphere's Airy rows, the kernels would be a few per cent of the fraction.
     expect(kernelSteps.at(-1)!).toBeGreaterThan(0.95);
+  });
+
+  it("a view of flattened drops counts every profile it takes along the arc, not only the first", async () => {
+    const { kernels, calls } = watchedKernels();
+    const updates: ProgressUpdate[] = [];
+    // The side of the bow (arc positions about 90°) in a narrow camera: a few arc nodes 5° apart, each one upright
+    // 2 mm drop (one plane) at two wavelengths, so two kernel tasks per node.
+    const body = viewRequestSchema.parse({
+      scenario: {
+        drops: { kind: "monodisperse", radiusUm: 2000, numberPerM3: 1000, shape: { kind: "equilibrium", cantingSdDeg: 0 } },
+        spectral: { fromNm: 540, toNm: 560, stepNm: 20 },
+      },
+      sun: { azimuthDeg: 240, elevationDeg: 10 },
+      camera: { yawDeg: 98, pitchDeg: 10, widthPx: 24, heightPx: 16, horizontalFovDeg: 12 },
+      ground: false,
+    });
+    await renderOverlay("view", body, imageQuerySchema.parse({ format: "png" }), { kernels, maxTermAngles: Infinity, onProgress: (u) => updates.push(u) });
+    expectRising(updates);
+    const nodes = calls.length;
+    expect(nodes).toBeGreaterThanOrEqual(2);
+    // Every node's two tasks raise the fraction: the profiles fill the view's kernel stage one after another.
+    const rising = new Set(updates.filter((u) => u.stage === "kernels").map((u) => u.fraction.toFixed(6)));
+    expect(rising.size).toBeGreaterThanOrEqual(2 * nodes);
+    // The pixels come after all the nodes' work, which is nearly all of it (planes cost tenths of a second).
+    const beforePixels = updates.filter((u) => u.stage !== "pixels" && u.stage !== "done").at(-1)!.fraction;
+    expect(beforePixels).toBeGreaterThan(0.9);
   });
 });
