@@ -16,6 +16,9 @@ import { renderOverlay } from "../../../pipeline/render/view-render.js";
 import { imageQuerySchema, viewRequestSchema } from "../../../schemas/view.js";
 import type { ProgressUpdate } from "../../../pipeline/progress/progress-meter.js";
 import { COST_NS } from "../../../pipeline/progress/work-costs.js";
+import { kernelWorkNs } from "../../../pipeline/progress/profile-work.js";
+import { computeProfile, planProfile, PROFILE_STAGES } from "../../../pipeline/compute/profile.js";
+import { ProgressMeter } from "../../../pipeline/progress/progress-meter.js";
 
 /** A kernel service that keeps the engines' statistics of every rows() call (one call per profile, in order). */
 function watchedKernels(): { kernels: KernelService; calls: KernelStats[] } {
@@ -162,5 +165,23 @@ describe("progress weighed by the work", () => {
     // The pixels come after all the nodes' work, which is nearly all of it (planes cost tenths of a second).
     const beforePixels = updates.filter((u) => u.stage !== "pixels" && u.stage !== "done").at(-1)!.fraction;
     expect(beforePixels).toBeGreaterThan(0.9);
+  });
+
+  it("a row is weighed with the kernel cost its profile's kernel service then counts (averaged Mie, Airy, flattened rows)", async () => {
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 28, compute: createInlinePool().compute, parallelism: 2 });
+    const bodies = [
+      // Lorenz–Mie averaged over each node's cell, and Airy above auto's budget.
+      { drops: { kind: "lognormal", medianRadiusUm: 20, geometricSd: 1.3, totalNumberPerM3: 1e6 }, mieSizesPerDecade: 64, method: "mie" },
+      { drops: { kind: "lognormal", medianRadiusUm: 400, geometricSd: 1.2, totalNumberPerM3: 1e3 }, method: "airy" },
+      { drops: { kind: "monodisperse", radiusUm: 2000, numberPerM3: 1000, shape: { kind: "equilibrium", cantingSdDeg: 0 } } },
+    ].map((b) => profileRequestSchema.parse({ ...b, spectral: { fromNm: 540, toNm: 560, stepNm: 20 }, angles: { fromDeg: 40, toDeg: 43, stepDeg: 0.1 } }));
+    for (const body of bodies) {
+      let counted = 0;
+      const rows = kernels.rows.bind(kernels);
+      kernels.rows = (request, signal, watch) => rows(request, signal, { ...watch, onRows: (done, total, found) => ((counted = total), watch?.onRows?.(done, total, found)) });
+      await computeProfile(body, { kernels, limits: { maxTermAngles: Infinity }, progress: new ProgressMeter(PROFILE_STAGES, undefined) });
+      expect(counted).toBeGreaterThan(0);
+      expect(kernelWorkNs(planProfile(body), kernels.parallelism) / counted).toBeCloseTo(1, 9);
+    }
   });
 });
