@@ -11,10 +11,11 @@ import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lat
 import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { directSunlight } from "../../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
-import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
-import { blocksOf, kernelStepFor } from "../../lib/bow/kernel-grid.js";
-import type { KernelService } from "../kernels/kernel-service.js";
-import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
+import { latticeUnitProfileSteps, sunlitProfile, polarisedUnitRadiance, discKernels, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
+import { blocksOf, kernelStepFor, type LatticeSpan } from "../../lib/bow/kernel-grid.js";
+import type { KernelRequest, KernelRows, KernelService } from "../kernels/kernel-service.js";
+import type { DiscKernel } from "../../lib/sun/disc.js";
+import { colourProfile, linearRgbOfXyz, polariserWeights, sunlitXyzWeights, weightedXyz, type ColourOptions, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
 import { autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
@@ -154,8 +155,9 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
 
 /**
  * Everything about a profile that is known before any work: wavelengths, drops on their radius nodes, engines,
- * Lorenz–Mie averaging, shapes, the lattice span and the estimated cost. computeProfile runs it first; answers made
- * of several profiles (lookup textures, size maps) run it for each of their rows to weigh their progress.
+ * Lorenz–Mie averaging, shapes, the lattice span, the kernel request and the estimated cost. computeProfile runs it
+ * first; answers made of several profiles (lookup textures, size maps) run it for each of their rows. Nothing here
+ * depends on the sun's spectrum or elevation except the flattened drops' shape plan (sphere rows never do).
  */
 export function planProfile(request: ProfileRequest, resolution: ProfileResolution = {}) {
   const warnings: string[] = [];
@@ -220,21 +222,16 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
   const blocks = blocksOf(span);
   // Flattened drops' rows are counted in Mie term-angles' worth of work (drop-shape-plan.ts).
   const cost = mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1);
-  return { warnings, grid, wl, media, waterSource, distribution, count, angles, h, span, quadrature, autoChoice, engine, density, averages, shapePlan, blocks, cost };
+  const engines = Array.from(quadrature.radiiUm, engine);
+  const kernelRequest: KernelRequest = { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } };
+  return { request, warnings, grid, wl, media, waterSource, distribution, count, angles, h, span, quadrature, autoChoice, engine, density, averages, shapePlan, blocks, cost, kernelRequest };
 }
 
 export type ProfilePlan = ReturnType<typeof planProfile>;
 
-/** plan: planProfile(request, resolution) when the caller has it already (rows weighed for their progress). */
-export async function computeProfile(
-  request: ProfileRequest,
-  deps: ProfileDeps,
-  resolution: ProfileResolution = {},
-  plan: ProfilePlan = planProfile(request, resolution),
-): Promise<ProfileResult> {
-  const { limits } = deps;
-  const started = performance.now();
-  const { warnings, grid, media, waterSource, count, angles, h, span, quadrature, autoChoice, engine, density, shapePlan, blocks, cost, averages } = plan;
+/** The "too-costly" ClientError where a plan's kernels exceed the synchronous limit. */
+export function refuseTooCostly(plan: ProfilePlan, limits: ProfileLimits): void {
+  const { cost, density, quadrature } = plan;
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",
@@ -244,10 +241,118 @@ export async function computeProfile(
       { cost, limit: limits.maxTermAngles, jobs: "/v1/jobs" },
     );
   }
+}
 
-  const sun = sunlightFor(request, grid);
+/** What the spectral pass shares: the disc's kernels per wavelength, the output samples wanted (all by default). */
+export interface SpectralPassOptions {
+  disc?: (wavelengthIndex: number) => DiscKernel;
+  samples?: Int32Array;
+  /** Told of each wavelength done, with the cost of the pass so far in ns. */
+  onWavelength?: (doneNs: number) => void;
+}
 
-  const engines = Array.from(quadrature.radiiUm, engine);
+/**
+ * The profile per unit sunlight and path (lattice-profile.ts, latticeUnitProfileSteps), one wavelength per turn of
+ * the event loop: the sum over drops and the sun's disc, the bulk of a warm profile's time.
+ */
+export async function unitSpectralProfile(plan: ProfilePlan, rows: KernelRows, options: SpectralPassOptions = {}): Promise<SpectralProfile> {
+  const { span, kernelRequest, quadrature, request, grid } = plan;
+  const perWavelengthNs = options.onWavelength ? laterWorkNs(request, plan).spectralNsPerWavelength : 0;
+  const steps = latticeUnitProfileSteps({
+    angles: plan.angles,
+    grid,
+    span,
+    beta: (l, out) => accumulateBlocks(span, kernelRequest.blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
+    disc: options.disc ?? discKernels(grid, request.sun.discDeg, span.h, request.sun.limbDarkening),
+    samples: options.samples,
+  });
+  let step = steps.next();
+  let wavelengthsDone = 0;
+  while (!step.done) {
+    options.onWavelength?.(++wavelengthsDone * perWavelengthNs);
+    await new Promise<void>((resolve) => setImmediate(resolve));
+    step = steps.next();
+  }
+  return { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
+}
+
+/** The sunlight on the rain for a plan under `sun` (the plan's own, or another elevation's), and what follows from it alone. */
+export function sunLightFor(plan: ProfilePlan, sun: ProfileRequest["sun"] = plan.request.sun) {
+  const request = { ...plan.request, sun };
+  const sunlight = sunlightFor(request, plan.grid);
+  const sunWhite = spectrumToXyz(sunlight.irradiance, request.observer);
+  const eye = request.output.vision === "eye" ? sceneEyeAdaptation(sunlight.irradiance, sun.elevationDeg, request.output.adaptingLuminanceCdPerM2) : undefined;
+  const noSunlight = sunWhite.Y > 0 ? undefined : "no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black";
+  return { sunlight, sunWhite, eye, noSunlight, elevationDeg: sun.elevationDeg };
+}
+
+export type SunLight = ReturnType<typeof sunLightFor>;
+
+function colourOptions(plan: ProfilePlan, light: SunLight): ColourOptions {
+  const { request } = plan;
+  return {
+    observer: request.observer,
+    space: request.output.space,
+    gamut: request.output.gamut,
+    white: request.output.white,
+    normalise: request.output.normalise,
+    polariserDeg: request.polariserDeg,
+    sunWhite: light.sunWhite,
+    eye: light.eye,
+  };
+}
+
+/** A profile's spectral radiance and colour: the unit profile lit by `light`. */
+export function sunlitColour(plan: ProfilePlan, unit: SpectralProfile, light: SunLight) {
+  const spectral = sunlitProfile(unit, light.sunlight.irradiance.values, plan.request.pathLengthM);
+  return { spectral, colour: colourProfile(spectral, plan.grid, colourOptions(plan, light)) };
+}
+
+/**
+ * The colour sums of many unit profiles under one sun, as lookup textures take them (physical values in a linear
+ * space): per sun the weights K_m·Δλ·E(λ)·s·x̄(λ)… once, per row the polarised unit radiance once, then one dot
+ * product per sample and sun. The order of operations differs from sunlitColour's by rounding only (≈ 1e-16).
+ */
+export function unitRadianceFor(plan: ProfilePlan, unit: SpectralProfile): Float64Array {
+  const { cos2, sin2 } = polariserWeights(plan.request.polariserDeg);
+  return polarisedUnitRadiance(unit, cos2, sin2);
+}
+
+export function sunColourWeights(plan: ProfilePlan, light: SunLight): Float64Array[] {
+  return sunlitXyzWeights(plan.grid, plan.request.observer, light.sunlight.irradiance.values, plan.request.pathLengthM);
+}
+
+export function sunlitLinearRgb(plan: ProfilePlan, unitRadiance: Float64Array, weights: readonly Float64Array[], light: SunLight): Float64Array {
+  return linearRgbOfXyz(weightedXyz(unitRadiance, weights), colourOptions(plan, light));
+}
+
+/** A profile's warnings: the plan's, the sunlight's, the engines', then the sun's elevation. */
+export function profileWarnings(plan: ProfilePlan, sun: SunLight): string[] {
+  const { request, quadrature } = plan;
+  const warnings = [...plan.warnings];
+  if (sun.noSunlight) warnings.push(sun.noSunlight);
+  if (request.method === "airy" && quadrature.radiiUm[0] < AUTO_AIRY_FROM_RADIUS_UM) {
+    warnings.push(`Airy theory used for drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm, outside its measured validity; use "auto" or "mie"`);
+  }
+  if (request.method === "geometric") {
+    warnings.push("ray optics has no supernumeraries and no diffraction; bows are sharper than in nature");
+  }
+  if (sun.elevationDeg > 42) {
+    warnings.push("with the sun above about 42° the primary bow lies below the horizon for an observer on flat ground");
+  }
+  return warnings;
+}
+
+/** plan: planProfile(request, resolution) when the caller has it already (rows weighed for their progress). */
+export async function computeProfile(
+  request: ProfileRequest,
+  deps: ProfileDeps,
+  resolution: ProfileResolution = {},
+  plan: ProfilePlan = planProfile(request, resolution),
+): Promise<ProfileResult> {
+  const started = performance.now();
+  refuseTooCostly(plan, deps.limits);
+  const { grid, quadrature, span, engine, autoChoice, density, shapePlan } = plan;
   const progress = deps.progress;
   const later = progress ? laterWorkNs(request, plan) : undefined;
   if (later) {
@@ -255,67 +360,25 @@ export async function computeProfile(
     progress?.plan("colour", later.colourNs);
   }
   const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows(
-    { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } },
-    deps.signal,
-    {
-      saveEachTask: deps.saveEachTask,
-      onRows: progress
-        ? (doneNs, totalNs, found) => {
-            progress.plan("kernels", totalNs);
-            progress.advance("kernels", doneNs, { found });
-          }
-        : undefined,
-    },
-  );
+  const rows = await deps.kernels.rows(plan.kernelRequest, deps.signal, {
+    saveEachTask: deps.saveEachTask,
+    onRows: progress
+      ? (doneNs, totalNs, found) => {
+          progress.plan("kernels", totalNs);
+          progress.advance("kernels", doneNs, { found });
+        }
+      : undefined,
+  });
   const kernelMs = performance.now() - kernelStarted;
-  const steps = latticeProfileSteps({
-    angles,
-    grid,
-    span,
-    beta: (l, out) => accumulateBlocks(span, blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
-    sunIrradiance: sun.irradiance.values,
-    discDiameterDeg: request.sun.discDeg,
-    limbDarkening: request.sun.limbDarkening,
-    pathLengthM: request.pathLengthM,
-  });
-  let step = steps.next();
-  let wavelengthsDone = 0;
-  while (!step.done) {
-    wavelengthsDone++;
-    if (later) progress?.advance("spectral", wavelengthsDone * later.spectralNsPerWavelength);
-    await new Promise<void>((resolve) => setImmediate(resolve));
-    step = steps.next();
-  }
-  const spectral: SpectralProfile = { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
-  const sunWhite = spectrumToXyz(sun.irradiance, request.observer);
-  if (!(sunWhite.Y > 0)) {
-    warnings.push("no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black");
-  }
-  const eye = request.output.vision === "eye" ? sceneEyeAdaptation(sun.irradiance, request.sun.elevationDeg, request.output.adaptingLuminanceCdPerM2) : undefined;
-  const colour = colourProfile(spectral, grid, {
-    observer: request.observer,
-    space: request.output.space,
-    gamut: request.output.gamut,
-    white: request.output.white,
-    normalise: request.output.normalise,
-    polariserDeg: request.polariserDeg,
-    sunWhite,
-    eye,
-  });
+  const unit = await unitSpectralProfile(plan, rows, { onWavelength: progress ? (ns) => progress.advance("spectral", ns) : undefined });
+  const light = sunLightFor(plan);
+  const { spectral, colour } = sunlitColour(plan, unit, light);
+  const { sunlight: sun, sunWhite, eye } = light;
   const bows = findBows(spectral.anglesDeg, colour.luminance);
   progress?.complete("colour");
 
+  const warnings = profileWarnings(plan, light);
   const engineRanges = summariseEngines(quadrature.radiiUm, engine);
-  if (request.method === "airy" && quadrature.radiiUm[0] < AUTO_AIRY_FROM_RADIUS_UM) {
-    warnings.push(`Airy theory used for drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm, outside its measured validity; use "auto" or "mie"`);
-  }
-  if (request.method === "geometric") {
-    warnings.push("ray optics has no supernumeraries and no diffraction; bows are sharper than in nature");
-  }
-  if (request.sun.elevationDeg > 42) {
-    warnings.push("with the sun above about 42° the primary bow lies below the horizon for an observer on flat ground");
-  }
 
   const meta: ProfileMeta = {
     method: { requested: request.method, engines: engineRanges, ...(autoChoice ? { rule: autoChoice.rule } : {}) },
@@ -339,13 +402,13 @@ export async function computeProfile(
       rule: density.rule,
     },
     sun: { scale: sun.scaleNote, attenuated: sun.attenuated },
-    water: waterSource,
+    water: plan.waterSource,
     colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
     vision: visionMeta(eye),
     mieTermAngles: spectral.mieTermAngles,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
     kernel: {
-      angleStepDeg: h,
+      angleStepDeg: span.h,
       rows: rows.stats.memoryHits + rows.stats.diskHits + rows.stats.computed,
       memoryHits: rows.stats.memoryHits,
       diskHits: rows.stats.diskHits,
@@ -380,7 +443,7 @@ function summariseEngines(radiiUm: Float64Array, engine: (r: number) => DropEngi
   return out;
 }
 
-function profileSources(request: ProfileRequest): string[] {
+export function profileSources(request: ProfileRequest): string[] {
   const s = [
     "IAPWS R9-97 (Harvey, Gallagher & Levelt Sengers 1998) with Kell 1975 density; Ciddor 1996 air index",
     "Lorenz–Mie theory (Bohren & Huffman 1983; Wiscombe 1980)",
