@@ -364,9 +364,15 @@ export function profileWarnings(plan: ProfilePlan, sun: SunLight): string[] {
   return warnings;
 }
 
-export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}, layers: ProfileLayers = "combined"): Promise<ProfileResult> {
+/** plan: planProfile(request, resolution, layers) when the caller has it already (rows weighed for their progress). */
+export async function computeProfile(
+  request: ProfileRequest,
+  deps: ProfileDeps,
+  resolution: ProfileResolution = {},
+  layers: ProfileLayers = "combined",
+  plan: ProfilePlan = planProfile(request, resolution, layers),
+): Promise<ProfileResult> {
   const started = performance.now();
-  const plan = planProfile(request, resolution, layers);
   refuseTooCostly(plan, deps.limits);
   const { grid, quadrature, span, engine, autoChoice, density, shapePlan, byOrder, profilesToSum } = plan;
   const progress = deps.progress;

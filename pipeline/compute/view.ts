@@ -9,6 +9,7 @@ import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
 import { MAX_LAYERED_PIXELS, orderLayersManifest, withOrderLayers } from "./order-layers.js";
 import type { KernelService } from "../kernels/kernel-service.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
+import { rowsProgress } from "../progress/rows-progress.js";
 import { ClientError } from "../requests/client-error.js";
 import { luminanceReciprocal, spectraToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { renderXyz } from "../../lib/colour/render.js";
@@ -501,10 +502,16 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps, laye
  */
 async function arcProfiles(scene: Scene, grid: { fromDeg: number; toDeg: number; stepDeg: number }, nodes: number[], deps: ViewDeps): Promise<ProfileResult[]> {
   const share: ViewDeps = { ...deps, limits: { maxTermAngles: deps.limits.maxTermAngles / nodes.length } };
+  const bodies = nodes.map((node) => profileRequestFor(scene, grid, node));
+  // The profiles along the arc fill the view's kernel stage together, each by its own cost (rows-progress.ts).
+  const names = nodes.map((node, k) => `arc node ${k + 1} of ${nodes.length} (${node}°)`);
+  const progress = deps.progress ? rowsProgress(names, (k) => [bodies[k], {}], deps.kernels.parallelism, { meter: deps.progress, stage: "kernels" }) : undefined;
   const out: ProfileResult[] = [];
-  for (const node of nodes) {
+  for (const [k, body] of bodies.entries()) {
     try {
-      out.push(await computeProfile(profileRequestFor(scene, grid, node), share, {}));
+      const part = progress?.part(k);
+      out.push(await computeProfile(body, { ...share, progress: part }, {}, "combined", progress?.plans[k]));
+      part?.done();
     } catch (e) {
       if (e instanceof ClientError && e.code === "too-costly") {
         const cost = Number(e.details.cost) * nodes.length;

@@ -9,7 +9,7 @@ import { rowVariant } from "../../lib/bow/cell-average.js";
 import { shapedVariant } from "../../lib/bow/shaped-rows.js";
 import { COST_NS, kernelRowCostNs } from "./work-costs.js";
 
-/** Size parameter x = 2π·n_air·r / λ of a drop in air (Bohren & Huffman 1983, §4.4), λ the vacuum wavelength. */
+/** Size parameter x = 2π·n_air·r / λ of a drop in air (Bohren & Huffman 1983, ch. 4), λ the vacuum wavelength. */
 export function sizeParameter(medium: DropMedium, radiusUm: number): number {
   return (2 * Math.PI * medium.nAir * radiusUm * 1000) / medium.wavelengthNm;
 }

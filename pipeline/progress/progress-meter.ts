@@ -79,11 +79,7 @@ export class ProgressMeter {
     if (!options.found) this.working = true;
     else if (!this.working) this.rateStart = { atMs: this.now(), fraction: this.reported };
     this.emit();
-    if (this.onWork) {
-      const { cost, done } = this.sums();
-      const toWork = cost - this.foundNs;
-      this.onWork(toWork > 0 ? Math.min(1, Math.max(0, (done - this.foundNs) / toWork)) : 0);
-    }
+    this.tellWork();
   }
 
   /**
@@ -103,6 +99,15 @@ export class ProgressMeter {
     this.reported = Math.max(this.reported, Math.min(BEFORE_DONE, this.estimate()));
     this.working = true;
     this.emit();
+    this.tellWork();
+  }
+
+  /** A part tells the meter it is part of what share of its own work is done (parts may hold parts). */
+  private tellWork(): void {
+    if (!this.onWork) return;
+    const { cost, done } = this.sums();
+    const toWork = cost - this.foundNs;
+    this.onWork(toWork > 0 ? Math.min(1, Math.max(0, (done - this.foundNs) / toWork)) : 0);
   }
 
   /** Marks a stage complete (its whole estimated cost done). */

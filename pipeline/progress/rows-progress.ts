@@ -4,7 +4,7 @@
 // one. Rows whose kernel rows an earlier row computes (rain rates share radius nodes) are weighed without them.
 
 import type { ProfileRequest } from "../../schemas/profile.js";
-import { planProfile, PROFILE_STAGES, type ProfileResolution } from "../compute/profile.js";
+import { planProfile, PROFILE_STAGES, type ProfilePlan, type ProfileResolution } from "../compute/profile.js";
 import { ProgressMeter, type ProgressListener } from "./progress-meter.js";
 import { profileWorkNs } from "./profile-work.js";
 
@@ -14,23 +14,35 @@ export interface RowsProgress {
   part(j: number): ProgressMeter;
   /** Each row's estimated cost, as planned. */
   costsNs: number[];
+  /** Each row's profile plan (planProfile), for computeProfile not to make it again. */
+  plans: ProfilePlan[];
 }
 
-/** rowOf(j): row j's profile request and resolution; threads: the kernel service's parallelism. */
+/** The stage names of rows in a texture or size map: "row 1 of 24", … */
+export function rowNames(count: number): string[] {
+  return Array.from({ length: count }, (_, j) => `row ${j + 1} of ${count}`);
+}
+
+/**
+ * names: one stage per row; rowOf(j): row j's profile request and resolution; threads: the kernel service's
+ * parallelism; into: the listener of a meter made here, or a stage of a meter that the rows fill together (the
+ * profiles a view takes along the arc fill its "kernels" stage).
+ */
 export function rowsProgress(
-  count: number,
+  names: readonly string[],
   rowOf: (j: number) => [ProfileRequest, ProfileResolution],
   threads: number,
-  listener: ProgressListener,
+  into: ProgressListener | { meter: ProgressMeter; stage: string },
 ): RowsProgress {
-  const names = Array.from({ length: count }, (_, j) => `row ${j + 1} of ${count}`);
-  const meter = new ProgressMeter(names, listener);
+  const plans = names.map((_, j) => planProfile(...rowOf(j)));
   const seen = new Set<string>();
-  const costsNs = names.map((name, j) => {
-    const [body, resolution] = rowOf(j);
-    const ns = profileWorkNs(body, planProfile(body, resolution), threads, seen);
-    meter.plan(name, ns);
-    return ns;
-  });
-  return { meter, part: (j) => meter.part(names[j], PROFILE_STAGES), costsNs };
+  const costsNs = names.map((_, j) => profileWorkNs(rowOf(j)[0], plans[j], threads, seen));
+  let meter: ProgressMeter;
+  if (typeof into === "function") meter = new ProgressMeter(names, into);
+  else {
+    into.meter.plan(into.stage, costsNs.reduce((a, b) => a + b, 0));
+    meter = into.meter.part(into.stage, names);
+  }
+  names.forEach((name, j) => meter.plan(name, costsNs[j]));
+  return { meter, part: (j) => meter.part(names[j], PROFILE_STAGES), costsNs, plans };
 }

@@ -18,15 +18,16 @@ export const COST_NS = {
   raySample: 105,
   /**
    * A flattened drop's row is one scattering plane per canting node (lib/bow/shaped-rows.ts): the plane's trace and
-   * bow tables, whatever its length… Not yet measured on a quiet machine: bench/progress.ts's piece (one plane of a
-   * 2 mm equilibrium drop at 550 nm over ψ 29.7–60.3° at 0.05° and 0.01°, 615 and 3063 bins, a straight line through
-   * the two) run on the loaded shared machine (2026-12-03 09:10 UTC), each time between two Airy timings and scaled
-   * by the Airy sample's quiet ÷ loaded time: medians of five rounds (the rounds spread 2× either way). Ray-optics
-   * planes (method "geometric") build no bow tables and are priced as these, an overestimate.
+   * bow tables, whatever its length… Not yet measured on a quiet machine: bench/progress.ts's piece (one plane of an
+   * equilibrium drop about 2 mm at 550 nm over ψ 29.7–60.3° at 0.05° and 0.01°, a straight line through the two)
+   * run on the loaded shared machine (2026-12-03 10:10 UTC, after the flattened-drop speed-up of that morning), each
+   * time between two Airy timings and scaled by the Airy sample's quiet ÷ loaded time: medians of five rounds, which
+   * spread 2× and more either way. Ray-optics planes (method "geometric") build no bow tables and are priced as
+   * these, an overestimate; so are the later drops of a spheroid task, which reuse the first drop's planes.
    */
   shapedPlane: 3.7e8,
   /** …and each angle bin of that plane. */
-  shapedPlaneSample: 3.1e5,
+  shapedPlaneSample: 6e4,
   /** Σ over drops: one drop's row at one wavelength and one lattice sample. */
   sumSample: 11,
   /** The sun's disc: one lattice sample at one wavelength, per sample of the disc's kernel. */
@@ -62,8 +63,9 @@ export interface WeightDrift {
 
 /** Each measured piece against its weight in use (bench/progress.ts prints and records these). */
 export function weightDrift(measuredNs: Partial<Record<WorkPiece, number>>, inUse: Record<WorkPiece, number> = COST_NS): WeightDrift[] {
-  const entries = Object.entries(measuredNs).filter((e): e is [WorkPiece, number] => e[0] in inUse && Number.isFinite(e[1]) && e[1]! > 0);
-  const ratios = entries.map(([piece, ns]) => ns / inUse[piece]).sort((a, b) => a - b);
+  const entries = Object.entries(measuredNs).filter((e): e is [WorkPiece, number] => e[0] in inUse && Number.isFinite(e[1]) && e[1]! >= 0);
+  // The scale is the median over the pieces measured above zero (a fit that found no cost is flagged, not a scale).
+  const ratios = entries.filter(([, ns]) => ns > 0).map(([piece, ns]) => ns / inUse[piece]).sort((a, b) => a - b);
   const m = ratios.length;
   const scale = m === 0 ? 1 : m % 2 === 1 ? ratios[(m - 1) / 2] : Math.sqrt(ratios[m / 2 - 1] * ratios[m / 2]);
   const beyond = (r: number) => r > WEIGHT_DRIFT_LIMIT || r < 1 / WEIGHT_DRIFT_LIMIT;

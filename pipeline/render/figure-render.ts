@@ -10,7 +10,7 @@ import { SIZE_MAP_SOURCES, sizeMapRaster, sizeMapSvg, logSpacedRadii, type SizeM
 import { scenarioSentence } from "../../lib/figures/figure-input.js";
 import { ClientError } from "../requests/client-error.js";
 import { headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
-import { rowsProgress } from "../progress/rows-progress.js";
+import { rowNames, rowsProgress } from "../progress/rows-progress.js";
 import { resolveProfileRequest, resolveSizeMapRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
 
 export const SVG_CONTENT_TYPE = "image/svg+xml; charset=utf-8";
@@ -59,14 +59,14 @@ async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ ra
   const resolution = { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / body.radiusSteps };
   // Each row weighs its own cost (a size map's large drops cost more than its small ones); rows run side by side.
   const progress = deps.onProgress
-    ? rowsProgress(radiiUm.length, (k) => [sizeMapRowRequest(body, radiiUm[k]), resolution], deps.kernels.parallelism, deps.onProgress)
+    ? rowsProgress(rowNames(radiiUm.length), (k) => [sizeMapRowRequest(body, radiiUm[k]), resolution], deps.kernels.parallelism, deps.onProgress)
     : undefined;
   try {
     const results = await Promise.all(
       Array.from(radiiUm, async (radiusUm, k) => {
         try {
           const part = progress?.part(k);
-          const result = await computeProfile(sizeMapRowRequest(body, radiusUm), { kernels: deps.kernels, limits, signal: abort.signal, progress: part }, resolution);
+          const result = await computeProfile(sizeMapRowRequest(body, radiusUm), { kernels: deps.kernels, limits, signal: abort.signal, progress: part }, resolution, "combined", progress?.plans[k]);
           part?.done();
           return result;
         } catch (err) {

@@ -10,8 +10,15 @@ import { profileRequestSchema } from "../../../schemas/profile.js";
 import { stripQuerySchema } from "../../../schemas/formats.js";
 import { renderLut } from "../../../pipeline/render/lut-render.js";
 import { renderProfile } from "../../../pipeline/render/profile-render.js";
+import { renderSizeMap } from "../../../pipeline/render/figure-render.js";
+import { sizeMapRequestSchema } from "../../../schemas/figures.js";
+import { renderOverlay } from "../../../pipeline/render/view-render.js";
+import { imageQuerySchema, viewRequestSchema } from "../../../schemas/view.js";
 import type { ProgressUpdate } from "../../../pipeline/progress/progress-meter.js";
 import { COST_NS } from "../../../pipeline/progress/work-costs.js";
+import { kernelWorkNs } from "../../../pipeline/progress/profile-work.js";
+import { computeProfile, planProfile, PROFILE_STAGES } from "../../../pipeline/compute/profile.js";
+import { ProgressMeter } from "../../../pipeline/progress/progress-meter.js";
 
 /** A kernel service that keeps the engines' statistics of every rows() call (one call per profile, in order). */
 function watchedKernels(): { kernels: KernelService; calls: KernelStats[] } {
@@ -98,6 +105,32 @@ describe("progress weighed by the work", () => {
     for (const step of steps) expect(step).toBeCloseTo(steps[0], 9);
   });
 
+  it("a size map's rows, computed side by side, each fill their own share and never complete one another", async () => {
+    const { kernels } = watchedKernels();
+    const updates: ProgressUpdate[] = [];
+    const body = sizeMapRequestSchema.parse({
+      radiusFromUm: 100,
+      radiusToUm: 1000,
+      radiusSteps: 3,
+      method: "mie",
+      angles: { fromDeg: 38, toDeg: 44, stepDeg: 0.25 },
+      spectral: { fromNm: 500, toNm: 580, stepNm: 20 },
+    });
+    await renderSizeMap(body, "svg", { kernels, maxTermAngles: Infinity, onProgress: (u) => updates.push(u) });
+    for (let k = 1; k < updates.length; k++) expect(updates[k].fraction).toBeGreaterThanOrEqual(updates[k - 1].fraction);
+    // Each row reports while it works (one step per wavelength task at least), and the 1 mm row, about ten times
+    // the 100 µm row's Lorenz–Mie work (Wiscombe 1980's term count grows with the size parameter), moves the
+    // fraction most: the largest single rise is the 1 mm row's.
+    expect(new Set(updates.map((u) => u.fraction.toFixed(4))).size).toBeGreaterThanOrEqual(3 * 5);
+    let largest = { rise: 0, stage: "" };
+    for (let k = 1; k < updates.length; k++) {
+      const rise = updates[k].fraction - updates[k - 1].fraction;
+      if (rise > largest.rise) largest = { rise, stage: updates[k].stage };
+    }
+    expect(largest.stage).toBe("row 3 of 3");
+    expect(updates.at(-1)!.fraction).toBe(0.999);
+  });
+
   it("a flattened-drop profile job is weighed by its scattering planes: the kernels are nearly all of it, one even step per wavelength", async () => {
     const { kernels } = watchedKernels();
     const updates: ProgressUpdate[] = [];
@@ -120,5 +153,49 @@ describe("progress weighed by the work", () => {
     // A plane costs tenths of a second, the sum over drops and the colour of 121 angles far less: were the flattened
     // rows priced as the sphere's Airy rows, the kernels would be a few per cent of the fraction.
     expect(kernelSteps.at(-1)!).toBeGreaterThan(0.95);
+  });
+
+  it("a view of flattened drops counts every profile it takes along the arc, not only the first", async () => {
+    const { kernels, calls } = watchedKernels();
+    const updates: ProgressUpdate[] = [];
+    // The side of the bow (arc positions about 90°) in a narrow camera: a few arc nodes 5° apart, each one upright
+    // 2 mm drop (one plane) at two wavelengths, so two kernel tasks per node.
+    const body = viewRequestSchema.parse({
+      scenario: {
+        drops: { kind: "monodisperse", radiusUm: 2000, numberPerM3: 1000, shape: { kind: "equilibrium", cantingSdDeg: 0 } },
+        spectral: { fromNm: 540, toNm: 560, stepNm: 20 },
+      },
+      sun: { azimuthDeg: 240, elevationDeg: 10 },
+      camera: { yawDeg: 98, pitchDeg: 10, widthPx: 24, heightPx: 16, horizontalFovDeg: 12 },
+      ground: false,
+    });
+    await renderOverlay("view", body, imageQuerySchema.parse({ format: "png" }), { kernels, maxTermAngles: Infinity, onProgress: (u) => updates.push(u) });
+    expectRising(updates);
+    const nodes = calls.length;
+    expect(nodes).toBeGreaterThanOrEqual(2);
+    // Every node's two tasks raise the fraction: the profiles fill the view's kernel stage one after another.
+    const rising = new Set(updates.filter((u) => u.stage === "kernels").map((u) => u.fraction.toFixed(6)));
+    expect(rising.size).toBeGreaterThanOrEqual(2 * nodes);
+    // The pixels come after all the nodes' work, which is nearly all of it (planes cost tenths of a second).
+    const beforePixels = updates.filter((u) => u.stage !== "pixels" && u.stage !== "done").at(-1)!.fraction;
+    expect(beforePixels).toBeGreaterThan(0.9);
+  });
+
+  it("a row is weighed with the kernel cost its profile's kernel service then counts (averaged Mie, Airy, flattened rows)", async () => {
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 28, compute: createInlinePool().compute, parallelism: 2 });
+    const bodies = [
+      // Lorenz–Mie averaged over each node's cell, and Airy above auto's budget.
+      { drops: { kind: "lognormal", medianRadiusUm: 20, geometricSd: 1.3, totalNumberPerM3: 1e6 }, mieSizesPerDecade: 64, method: "mie" },
+      { drops: { kind: "lognormal", medianRadiusUm: 400, geometricSd: 1.2, totalNumberPerM3: 1e3 }, method: "airy" },
+      { drops: { kind: "monodisperse", radiusUm: 2000, numberPerM3: 1000, shape: { kind: "equilibrium", cantingSdDeg: 0 } } },
+    ].map((b) => profileRequestSchema.parse({ ...b, spectral: { fromNm: 540, toNm: 560, stepNm: 20 }, angles: { fromDeg: 40, toDeg: 43, stepDeg: 0.1 } }));
+    for (const body of bodies) {
+      let counted = 0;
+      const rows = kernels.rows.bind(kernels);
+      kernels.rows = (request, signal, watch) => rows(request, signal, { ...watch, onRows: (done, total, found) => ((counted = total), watch?.onRows?.(done, total, found)) });
+      await computeProfile(body, { kernels, limits: { maxTermAngles: Infinity }, progress: new ProgressMeter(PROFILE_STAGES, undefined) });
+      expect(counted).toBeGreaterThan(0);
+      expect(kernelWorkNs(planProfile(body), kernels.parallelism) / counted).toBeCloseTo(1, 9);
+    }
   });
 });

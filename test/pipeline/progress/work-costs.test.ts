@@ -40,4 +40,10 @@ describe("work costs", () => {
     expect(json).toMatchObject({ stale: false, uneven: false });
     expect(drift.filter((d) => d.stale).map((d) => d.piece)).toEqual(["colourSample"]);
   });
+
+  it("flags a piece measured at zero (a fit that found no cost) without letting it set the scale", () => {
+    const drift = weightDrift({ ...COST_NS, shapedPlaneSample: 0 });
+    expect(drift.find((d) => d.piece === "shapedPlaneSample")).toMatchObject({ ratio: 0, stale: true, uneven: true });
+    expect(drift.filter((d) => d.stale).length).toBe(1);
+  });
 });
