@@ -1,10 +1,11 @@
 // Time-of-day lookup textures: one texture slice per sun elevation, so that an engine whose sun moves samples the
 // bows of the hour (the sun's reddening through the air mass changes the bows' colours and brightness).
-// Each slice is the single-elevation texture at its elevation, computed by the same code.
+// Each slice is the single-elevation texture at its elevation, computed by the same code (lut.ts,
+// computeLutsAcrossSun): the slices share the kernels and the spectral sums and differ in the sunlight only.
 
 import type { LutRequest } from "../../schemas/lut.js";
 import { defaultSun } from "../../schemas/profile.js";
-import { computeLut, type Lut } from "./lut.js";
+import { computeLut, computeLutsAcrossSun, lutStages, type Lut } from "./lut.js";
 import { ProgressMeter, type ProgressListener } from "../progress/progress-meter.js";
 import { requestHash, type ProfileDeps } from "./profile.js";
 
@@ -38,19 +39,15 @@ export async function computeSlicedLut(request: LutRequest, deps: ProfileDeps, o
   }
   const started = performance.now();
   const elevations = sliceElevationsDeg(range);
-  const slices: Lut[] = [];
-  // Slices weigh the same in the progress (the first one also computes the kernels the others reuse, so the
-  // fraction runs slower at first; the time left is estimated from the rate so far).
-  const stageNames = elevations.map((e, k) => `slice ${k + 1} of ${elevations.length} (sun at ${Number(e.toFixed(2))}°)`);
-  const progress = new ProgressMeter(stageNames, onProgress);
-  for (const name of stageNames) progress.plan(name, 1);
-  for (let k = 0; k < elevations.length; k++) {
-    const slice = await computeLut(sliceRequest(request, elevations[k]), deps, ({ fraction }) => {
-      if (fraction < 1) progress.advance(stageNames[k], fraction);
-    });
-    progress.complete(stageNames[k]);
-    slices.push(slice);
-  }
+  // Progress weighs the real work: the kernels and spectral sums all slices share, then each slice's colour sums.
+  const sunStages = elevations.map((e, k) => `slice ${k + 1} of ${elevations.length} (sun at ${Number(e.toFixed(2))}°)`);
+  const progress = new ProgressMeter(lutStages(sunStages), onProgress);
+  const slices = await computeLutsAcrossSun(
+    elevations.map((e) => sliceRequest(request, e)),
+    deps,
+    progress,
+    sunStages,
+  );
   const { width, height } = slices[0];
   const rgba = new Float32Array(width * height * 4 * slices.length);
   slices.forEach((slice, k) => rgba.set(slice.rgba, k * width * height * 4));
