@@ -15,7 +15,10 @@ export const EQUILIBRIUM_NOTE =
 /**
  * Sun elevation and arc position are rounded to these steps for the kernel rows and their cache keys. Measured
  * on 2 mm drops (axis ratio 0.93, sun 10°): the fold angles move by 0.22° per degree of arc position at arc 45°
- * (most) and by 0.24° per degree of sun elevation, so half a step moves them by at most 0.055° and 0.03°.
+ * (most) and by 0.24° per degree of sun elevation, so half a step moves them by at most 0.055° and 0.03°. In colour
+ * (bench/shape-colour.ts, BENCHMARKS.md): one step moves a profile of 2 mm drops at arc 45° by ΔE2000 up to 15 (sun)
+ * and 29 (arc) at the bow's sharp edge, 1.1 and 1.9 on average: half a step is then ~7 and ~14 at worst, so a
+ * worst of 0.5 would need steps 15–30× finer (the mean, ~2×).
  */
 export const SUN_ELEVATION_STEP_DEG = 0.25;
 export const ARC_POSITION_STEP_DEG = 0.5;
