@@ -86,6 +86,8 @@ function updateVisibility() {
   for (const el of form.querySelectorAll("[data-light], [data-position]")) {
     el.hidden = (el.dataset.light !== undefined && el.dataset.light !== light) || (el.dataset.position !== undefined && el.dataset.position !== position);
   }
+  // A sequence is a span of time: it needs the position by place and time.
+  $("sequence-render").disabled = position !== "place-and-time";
 }
 
 /** The light's apparent elevation: as computed by the service for a place and time, else as given. */
@@ -432,17 +434,21 @@ $("copy-curl").addEventListener("click", async () => {
 
 // ---------- sequence preview ----------
 
-/** Frames of the last sequence preview (object URLs, freed when the next one arrives). */
+/** Frames of the last sequence preview (decoded images, closed when the next one arrives). */
 let sequenceFrames = [];
 
 function showSequenceFrame() {
   const k = Number($("sequence-scrub").value);
   const frame = sequenceFrames[k];
   if (!frame) return;
-  $("sequence-frame").src = frame.url;
+  const canvas = $("sequence-frame");
+  const ctx = canvas.getContext("2d");
+  ctx.clearRect(0, 0, canvas.width, canvas.height);
+  ctx.drawImage(frame.bitmap, 0, 0, canvas.width, canvas.height);
+  canvas.dataset.frame = String(k);
   const elevation = frame.elevationDeg === null ? "" : `, ${light()} ${frame.elevationDeg.toFixed(1)}° high`;
   $("sequence-scrub-value").textContent = `frame ${k + 1} of ${sequenceFrames.length}: ${frame.utc.slice(0, 16).replace("T", " ")} UTC${elevation}`;
-  $("sequence-frame").alt = `Camera view at ${frame.utc}${elevation}`;
+  canvas.setAttribute("aria-label", `Camera view at ${frame.utc}${elevation}`);
 }
 
 function light() {
@@ -473,7 +479,7 @@ async function renderSequence() {
   const token = startBusy(`Rendering ${frames} frames as a background job`);
   try {
     const rendered = await renderSequencePreview({ viewBody: viewBody(b, viewLightAt, 320, 180), fromUtc, toUtc, frames, signal: controller.signal, bar: jobBar });
-    for (const f of sequenceFrames) URL.revokeObjectURL(f.url);
+    for (const f of sequenceFrames) f.bitmap.close();
     sequenceFrames = rendered;
     $("sequence-scrub").max = String(rendered.length - 1);
     $("sequence-scrub").value = "0";
