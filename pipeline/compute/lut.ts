@@ -5,7 +5,7 @@ import type { LutRequest } from "../../schemas/lut.js";
 import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
-import { planProfile, refuseTooCostly, profileSources, profileWarnings, requestHash, sunColourWeights, sunLightFor, sunlitLinearRgb, unitRadianceFor, unitSpectralProfile, type ProfileDeps, type ProfileLayers } from "./profile.js";
+import { planProfile, refuseTooCostly, profileSources, profileWarnings, requestHash, sunColourWeights, sunLightFor, sunlitLinearRgb, sunlitXyz, unitRadianceFor, unitSpectralProfile, type ProfileDeps, type ProfileLayers } from "./profile.js";
 import { ORDER_LAYERS } from "../../lib/bow/scattering-orders.js";
 import { orderLayersManifest } from "./order-layers.js";
 import { sharedKernelRows } from "../kernels/shared-rows.js";
@@ -167,9 +167,15 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
     // One sun for every row (the rows differ in their drops only).
     const light = sunLightFor(plans[0], bodyOf(r, 0).sun);
     const weights = sunColourWeights(plans[0], light);
+    // Every row's colour in one pass through the output space (the sun's white adaptation is made once per sun):
+    // the rows share the observer, space and white, and differ in their drops only.
+    const samples = reads.samples.length;
+    const xyz = new Float64Array(3 * samples * rows.length);
+    for (let j = 0; j < rows.length; j++) xyz.set(sunlitXyz(units[j], weights), 3 * samples * j);
+    const rgbAll = sunlitLinearRgb(plans[0], xyz, light);
     for (let j = 0; j < rows.length; j++) {
       for (const w of profileWarnings(plans[j], light)) warnings.add(w);
-      const rgb = sunlitLinearRgb(plans[j], units[j], weights, light);
+      const rgb = rgbAll.subarray(3 * samples * j, 3 * samples * (j + 1));
       for (let i = 0; i < width; i++) {
         const k = reads.lower[i];
         const f = reads.fraction[i];
@@ -178,8 +184,8 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
         rgba[o + 3] = 1 - transmittance[j];
       }
       // Each order sampled as the whole is.
-      orderUnits.forEach((units, p) => {
-        const orderRgb = sunlitLinearRgb(plans[j], units[j], weights, light);
+      orderUnits.forEach((orderUnit, p) => {
+        const orderRgb = sunlitLinearRgb(plans[j], sunlitXyz(orderUnit[j], weights), light);
         for (let i = 0; i < width; i++) {
           const k = reads.lower[i];
           const f = reads.fraction[i];

@@ -343,8 +343,14 @@ export function sunColourWeights(plan: ProfilePlan, light: SunLight): Float64Arr
   return sunlitXyzWeights(plan.grid, plan.request.observer, light.sunlight.irradiance.values, plan.request.pathLengthM);
 }
 
-export function sunlitLinearRgb(plan: ProfilePlan, unitRadiance: Float64Array, weights: readonly Float64Array[], light: SunLight): Float64Array {
-  return linearRgbOfXyz(weightedXyz(unitRadiance, weights), colourOptions(plan, light));
+/** Absolute XYZ (cd/m²) of a row's polarised unit radiance under one sun's colour weights. */
+export function sunlitXyz(unitRadiance: Float64Array, weights: readonly Float64Array[]): Float64Array {
+  return weightedXyz(unitRadiance, weights);
+}
+
+/** The output space's values of XYZ from sunlitXyz (any number of rows at once: the white's adaptation is made once). */
+export function sunlitLinearRgb(plan: ProfilePlan, xyzAbsolute: Float64Array, light: SunLight): Float64Array {
+  return linearRgbOfXyz(xyzAbsolute, colourOptions(plan, light));
 }
 
 /** A profile's warnings: the plan's, the sunlight's, the engines', then the sun's elevation. */
