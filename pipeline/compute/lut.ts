@@ -81,8 +81,9 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
       angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
       output: { ...profileDefaults.output, space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
     };
-    // The rows share auto's Mie budget, so that a texture costs about what one profile does.
-    const profile = await computeProfile(body, deps, { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length });
+    // The rows share auto's Mie budget, so that a texture costs about what one profile does (without the share rule,
+    // which would let every row's Mie work grow past its part of the budget).
+    const profile = await computeProfile(body, deps, { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length, autoMaxAiryShare: 1 });
     progress.complete(stageNames[j]);
     first ??= profile;
     for (const w of profile.meta.warnings) warnings.add(w);

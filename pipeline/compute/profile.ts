@@ -120,6 +120,8 @@ export interface ProfileResolution {
    * share it among their rows; bench/auto-presets.ts measures the error at other budgets.
    */
   autoMieBudgetTermAngles?: number;
+  /** auto's AUTO_MAX_AIRY_SHARE; answers whose rows share the budget set 1, or the share rule multiplies their cost. */
+  autoMaxAiryShare?: number;
 }
 
 /**
@@ -136,10 +138,12 @@ function radiusDensityFor(request: ProfileRequest, resolution: ProfileResolution
 }
 
 /** Cost-aware auto (lib/bow/engine-choice.ts): exact Mie where it fits the budget, Airy only for drops beyond it. */
-function chooseAutoFor(radiiUm: Float64Array, wl: Float64Array, span: { first: number; last: number }, resolution: ProfileResolution): AutoChoice {
+function chooseAutoFor(quadrature: RadiusQuadrature, wl: Float64Array, span: { first: number; last: number }, resolution: ProfileResolution): AutoChoice {
+  const { radiiUm, weights } = quadrature;
   // Kernel tasks compute only the span's lattice points, so that is what the cost counts (one size per node).
   const nodeCost = Array.from(radiiUm, (r) => estimateMieTermAngles(Float64Array.of(r), wl, span.last - span.first + 1, () => "mie"));
-  return chooseAutoEngine(radiiUm, nodeCost, resolution.autoMieBudgetTermAngles);
+  const crossSection = Array.from(radiiUm, (r, i) => weights[i] * r * r);
+  return chooseAutoEngine(radiiUm, nodeCost, crossSection, resolution.autoMieBudgetTermAngles, resolution.autoMaxAiryShare);
 }
 
 /** What "auto" chooses for a request, without computing it (null for the other methods). */
@@ -149,7 +153,7 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
   const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
   const span = profileSpan({ fromDeg: request.angles.fromDeg, stepDeg: request.angles.stepDeg, count: angleCount(request.angles) }, request.sun.discDeg, h);
   const quadrature = latticeRadiusQuadrature(toDistribution(request.drops), { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
-  return chooseAutoFor(quadrature.radiiUm, wl, span, resolution);
+  return chooseAutoFor(quadrature, wl, span, resolution);
 }
 
 export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
@@ -167,7 +171,7 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
   const span = profileSpan(angles, request.sun.discDeg, h);
   const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
-  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature.radiiUm, wl, span, resolution) : null;
+  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature, wl, span, resolution) : null;
   const engine = autoChoice ? autoEngine(autoChoice) : engineChooser(request.method);
   // Lorenz–Mie rows averaged over each node's radius cell at sizesPerDecade (cell-average.ts, radius-density.ts).
   const averagesAt = (sizesPerDecade: number) => {
