@@ -38,18 +38,37 @@ export const arcPositionSchema = number(
   "Where along the bow the profile is taken: angle around the antisolar point from the bow's highest point (0 = top, 90 = level with the antisolar point, 180 = lowest)",
 ).optional();
 
+/** True for a drop shape that is not a sphere. */
+export function isFlattened(shape: DropShape | undefined): boolean {
+  return shape !== undefined && shape.kind !== "sphere";
+}
+
 /**
- * For endpoints that draw the bow all along its arc (views, sky overlays, lookup textures): their per-pixel arc
- * positions are not served yet, so a flattened shape there is an unsupported combination, refused at the edge.
+ * For endpoints that draw the bow all along its arc but do not serve flattened drops there yet (lookup textures):
+ * a flattened shape there is an unsupported combination, refused at the edge.
  */
 export function refuseFlattenedDrops(endpoint: string) {
   return (scenario: { drops?: { shape?: DropShape } }, ctx: z.RefinementCtx): void => {
-    if (scenario.drops?.shape && scenario.drops.shape.kind !== "sphere") {
+    if (isFlattened(scenario.drops?.shape)) {
       ctx.addIssue({
         code: "custom",
         path: ["drops", "shape"],
-        message: `${endpoint} draws drops as spheres so far: flattened drops (drops.shape "${scenario.drops.shape.kind}") are served by POST /v1/profile with arcPositionDeg; use shape {"kind":"sphere"} here`,
+        message: `${endpoint} draws drops as spheres so far: flattened drops (drops.shape "${scenario.drops!.shape!.kind}") are served by POST /v1/profile with arcPositionDeg and by POST /v1/view and /v1/sky; use shape {"kind":"sphere"} here`,
       });
     }
   };
+}
+
+/**
+ * Views and sky maps draw flattened drops, but not with calm water: its reflection bow is lit from below the
+ * horizon, which for flattened drops is another set of profiles (the sun's elevation mirrored), not served yet.
+ */
+export function refuseFlattenedDropsOnWater(body: { scenario: { drops: { shape?: DropShape } }; waterSurface?: unknown }, ctx: z.RefinementCtx): void {
+  if (body.waterSurface !== undefined && isFlattened(body.scenario.drops.shape)) {
+    ctx.addIssue({
+      code: "custom",
+      path: ["waterSurface"],
+      message: `calm water is drawn with spherical drops only: leave waterSurface out with drops.shape "${body.scenario.drops.shape!.kind}", or use shape {"kind":"sphere"}`,
+    });
+  }
 }

@@ -2,6 +2,7 @@ import { z } from "zod";
 import { angleRangeSchema } from "./angles.js";
 import { waterSchema } from "./water.js";
 import { moonSchema } from "./moon.js";
+import { arcPositionSchema, dropShapeSchema } from "./drop-shape.js";
 import { checkProfilePhysics, defaultSun, MONODISPERSE_NUMBER_PER_M3, outputSchema, profileDefaults, profileMethods, spectralSchema, sunSchema, type ProfileRequest } from "./profile.js";
 
 export const svgQuerySchema = z
@@ -28,6 +29,10 @@ export const sizeMapRequestSchema = z
     radiusFromUm: number(0.5, 3000, "Smallest drop radius (bottom row), µm").default(10),
     radiusToUm: number(0.5, 3000, "Largest drop radius (top row), µm").default(2000),
     radiusSteps: z.number().int().min(2).max(SIZE_MAP_MAX_RADII).default(24).describe("Rows: radii log-spaced from radiusFromUm to radiusToUm"),
+    shape: dropShapeSchema.optional().describe("Drop shape of every row, as drops.shape of POST /v1/profile (default: spheres); flattened drops make the map depend on arcPositionDeg"),
+    arcPositionDeg: arcPositionSchema.describe(
+      "With flattened drops: where along the bow the map is taken, degrees around the antisolar point from the bow's highest point (0 = top, 90 = side, 180 = lowest); default 90",
+    ),
     water: waterSchema.default({ temperatureC: 15, salinityPsu: 0 }),
     sun: sunSchema.default(defaultSun),
     moon: moonSchema.optional().describe("The moon as the light instead of the sun, as in POST /v1/profile"),
@@ -57,7 +62,8 @@ export type SizeMapRequest = z.infer<typeof sizeMapRequestSchema>;
 export function sizeMapRowRequest(b: Omit<SizeMapRequest, "radiusFromUm" | "radiusToUm" | "radiusSteps">, radiusUm: number): ProfileRequest {
   return {
     ...profileDefaults,
-    drops: { kind: "monodisperse", radiusUm, numberPerM3: MONODISPERSE_NUMBER_PER_M3 },
+    drops: { kind: "monodisperse", radiusUm, numberPerM3: MONODISPERSE_NUMBER_PER_M3, ...(b.shape ? { shape: b.shape } : {}) },
+    ...(b.arcPositionDeg !== undefined ? { arcPositionDeg: b.arcPositionDeg } : {}),
     water: b.water,
     sun: b.sun,
     moon: b.moon,

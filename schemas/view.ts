@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { checkProfilePhysics, profileRequestSchema, sunSchema } from "./profile.js";
-import { refuseFlattenedDrops } from "./drop-shape.js";
+import { refuseFlattenedDropsOnWater } from "./drop-shape.js";
 import { placeAndMomentSchema } from "./place-and-time.js";
 import { moonPositionSchema } from "./moon.js";
 import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
@@ -21,7 +21,6 @@ export const viewScenarioSchema = z
   })
   .strict()
   .superRefine(checkProfilePhysics)
-  .superRefine(refuseFlattenedDrops("the camera view and sky overlay"))
   .prefault({})
   .describe("Drops, water, sunlight, observer, wavelengths, engine and path length, as in POST /v1/profile; angles are chosen to fit the image");
 
@@ -111,7 +110,8 @@ export const viewRequestSchema = z
     maxAngleDeg,
     output: viewOutputSchema,
   })
-  .strict();
+  .strict()
+  .superRefine(refuseFlattenedDropsOnWater);
 
 export const skyRequestSchema = z
   .object({
@@ -128,6 +128,7 @@ export const skyRequestSchema = z
     output: viewOutputSchema,
   })
   .strict()
+  .superRefine(refuseFlattenedDropsOnWater)
   .superRefine((s, ctx) => {
     if (s.widthPx !== 2 * s.heightPx) ctx.addIssue({ code: "custom", path: ["heightPx"], message: "an equirectangular map is twice as wide as high" });
     if (s.waterSurface && s.polariserToTangentDeg !== undefined) {

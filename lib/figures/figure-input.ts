@@ -21,6 +21,8 @@ export interface FigureRequest {
   };
   observer: Observer;
   method: string;
+  /** Where along the bow (flattened drops): 0° top, 90° side, 180° lowest point. */
+  arcPositionDeg?: number;
   output: { space: OutputSpaceId; gamut: GamutMethod; normalise: string; white: WhiteHandling };
 }
 
@@ -105,6 +107,7 @@ export function scenarioSentence(request: FigureRequest, meta: Record<string, un
   const engines = [describeEngines(meta), describeAveraging(meta)].filter((s) => s !== "").join(", ");
   const parts = [
     includeDrops ? `drops ${describeDrops(request.drops)}` : "",
+    describeShape(request),
     `sun ${n3(request.sun.elevationDeg)}° high (${describeSpectrum(request.sun.spectrum)}, disc ${n3(request.sun.discDeg)}°)`,
     `water ${n3(request.water.temperatureC)} °C, ${n3(request.water.salinityPsu)} PSU`,
     `method ${request.method}${engines ? ` (${engines})` : ""}`,
@@ -113,6 +116,16 @@ export function scenarioSentence(request: FigureRequest, meta: Record<string, un
     `white ${request.output.white}`,
   ].filter((s) => s !== "");
   return `Scenario: ${parts.join("; ")}.`;
+}
+
+/** The drops' shape when they are not spheres, and the place on the bow it was taken at; "" for spheres. */
+export function describeShape(request: Pick<FigureRequest, "drops" | "arcPositionDeg">): string {
+  const shape = request.drops.shape as { kind: string; axisRatio?: number; cantingSdDeg?: number } | undefined;
+  if (!shape || shape.kind === "sphere") return "";
+  const kind = shape.kind === "equilibrium" ? "equilibrium shapes (Beard & Chuang 1987)" : `spheroids of axis ratio ${n3(shape.axisRatio)}`;
+  const arc = request.arcPositionDeg ?? 90;
+  const where = arc === 0 ? " (top of the bow)" : arc === 90 ? " (side)" : arc === 180 ? " (lowest point)" : "";
+  return `flattened drops: ${kind}, canting σ ${n3(shape.cantingSdDeg)}°, at arc position ${n3(arc)}°${where}`;
 }
 
 /**

@@ -5,6 +5,8 @@
 import type { RayField } from "./ray-field.js";
 import { PolarisedLight, addBowParts, addReflectionBow, mirroredInHorizon, reflectOffWater, sensed, type WaterSurface } from "./water-reflection.js";
 import { type Vec3, RADIANS_PER_DEGREE } from "./vectors.js";
+import { arcPositionDeg } from "./arc-position.js";
+import { ArcBlender, type ArcSlices } from "./arc-slices.js";
 
 /** Linear colours (3 per sample) on evenly spaced angles ψ = fromDeg + i·stepDeg. */
 export interface ProfileColours {
@@ -35,6 +37,11 @@ export interface LayerInput {
   polariserTangentCos2?: number;
   /** Calm water below the horizon (in place of the ground): the reflection bow, and the bows mirrored in it. */
   water?: WaterSurface;
+  /**
+   * A bow that changes along its arc (flattened drops): profiles at arc positions, blended per pixel (arc-slices.ts);
+   * `colours` is then one of them, for the ψ grid. Not with water (its reflection bow needs other profiles).
+   */
+  arc?: ArcSlices;
 }
 
 export interface Layer {
@@ -53,8 +60,17 @@ export function angleFromAntisolarDeg(d: ArrayLike<number>, a: ArrayLike<number>
   return Math.atan2(Math.hypot(cx, cy, cz), a[0] * d[0] + a[1] * d[1] + a[2] * d[2]) / RADIANS_PER_DEGREE;
 }
 
-/** Smallest and largest ψ (up to maxAngleDeg) over the pixels that see rain; null when none does. */
-export function angleRangeDeg(rays: RayField, antisolar: Vec3, ground: boolean, maxAngleDeg = 180): { minDeg: number; maxDeg: number } | null {
+/**
+ * Smallest and largest ψ (up to maxAngleDeg) over the pixels that see rain; null when none does. onSeen is told of
+ * each such pixel's ray and ψ (the ray's array is reused).
+ */
+export function angleRangeDeg(
+  rays: RayField,
+  antisolar: Vec3,
+  ground: boolean,
+  maxAngleDeg = 180,
+  onSeen?: (d: Float64Array, psiDeg: number) => void,
+): { minDeg: number; maxDeg: number } | null {
   const d = new Float64Array(3);
   let minDeg = Infinity;
   let maxDeg = -Infinity;
@@ -63,6 +79,7 @@ export function angleRangeDeg(rays: RayField, antisolar: Vec3, ground: boolean, 
       if (!rays.ray(x, y, d) || (ground && d[2] < 0)) continue;
       const psi = angleFromAntisolarDeg(d, antisolar);
       if (psi > maxAngleDeg) continue;
+      onSeen?.(d, psi);
       if (psi < minDeg) minDeg = psi;
       if (psi > maxDeg) maxDeg = psi;
     }
@@ -107,6 +124,8 @@ export function renderLayer(input: LayerInput): Layer {
   const sky = new PolarisedLight(4);
   const mirrored = new PolarisedLight(8);
   const reflected = new Float64Array(3);
+  if (input.arc && water) throw new Error("renderLayer: a bow that changes along its arc is not drawn with water");
+  const arc = input.arc ? new ArcBlender(input.arc) : undefined;
   for (let y = 0; y < heightPx; y++) {
     for (let x = 0; x < widthPx; x++) {
       if (!rays.ray(x, y, d)) continue;
@@ -121,24 +140,12 @@ export function renderLayer(input: LayerInput): Layer {
       if (alpha !== undefined) data[at + 3] = alpha;
       const t = (psi - colours.fromDeg) / colours.stepDeg;
       if (t < -slack || t > last + slack) continue;
-      const i0 = Math.min(Math.max(Math.floor(t), 0), Math.max(last - 1, 0));
-      const i1 = Math.min(i0 + 1, last);
-      const w1 = Math.min(Math.max(t - i0, 0), 1);
-      const w0 = 1 - w1;
-      if (polarised) {
-        const c2 = polariserAxis ? tangentTransmission(d, antisolar, polariserAxis) : input.polariserTangentCos2!;
-        const s2 = 1 - c2;
-        const a = colours.perpendicular;
-        const b = colours.parallel;
-        for (let k = 0; k < 3; k++) {
-          const perp = w0 * a[3 * i0 + k] + w1 * a[3 * i1 + k];
-          const par = w0 * b[3 * i0 + k] + w1 * b[3 * i1 + k];
-          data[at + k] = c2 * perp + s2 * par;
-        }
-      } else {
-        const c = colours.total;
-        for (let k = 0; k < 3; k++) data[at + k] = w0 * c[3 * i0 + k] + w1 * c[3 * i1 + k];
-      }
+      const c2 = !polarised ? undefined : polariserAxis ? tangentTransmission(d, antisolar, polariserAxis) : input.polariserTangentCos2!;
+      if (arc) {
+        const s = arc.at(arcPositionDeg(d, antisolar), psi);
+        addSample(arc.arc.slices[s.k0], s.psi0Deg, s.w0, c2, data, at);
+        if (s.w1 > 0) addSample(arc.arc.slices[s.k1], s.psi1Deg, s.w1, c2, data, at);
+      } else addSample(colours, psi, 1, c2, data, at);
       if (water) {
         sky.clear();
         addReflectionBow(sky, colours, d, water, angleFromAntisolarDeg(d, water.reflectedAntisolar));
@@ -147,6 +154,32 @@ export function renderLayer(input: LayerInput): Layer {
     }
   }
   return { widthPx, heightPx, channels, data };
+}
+
+/**
+ * Adds weight × the colour at ψ (linear in ψ between samples, clamped to the grid) to the pixel at `at`: the
+ * total, or with a polariser c2 × the tangential part + (1 − c2) × the radial part (Malus's law).
+ */
+function addSample(colours: ProfileColours, psiDeg: number, weight: number, c2: number | undefined, data: Float32Array, at: number): void {
+  const last = colours.count - 1;
+  const t = (psiDeg - colours.fromDeg) / colours.stepDeg;
+  const i0 = Math.min(Math.max(Math.floor(t), 0), Math.max(last - 1, 0));
+  const i1 = Math.min(i0 + 1, last);
+  const w1 = Math.min(Math.max(t - i0, 0), 1);
+  const w0 = 1 - w1;
+  if (c2 !== undefined) {
+    const s2 = 1 - c2;
+    const a = colours.perpendicular;
+    const b = colours.parallel;
+    for (let k = 0; k < 3; k++) {
+      const perp = w0 * a[3 * i0 + k] + w1 * a[3 * i1 + k];
+      const par = w0 * b[3 * i0 + k] + w1 * b[3 * i1 + k];
+      data[at + k] += weight * (c2 * perp + s2 * par);
+    }
+  } else {
+    const c = colours.total;
+    for (let k = 0; k < 3; k++) data[at + k] += weight * (w0 * c[3 * i0 + k] + w1 * c[3 * i1 + k]);
+  }
 }
 
 /**

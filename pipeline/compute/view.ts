@@ -17,6 +17,9 @@ import { skyRayField } from "../../lib/view/sky-map.js";
 import type { RayField } from "../../lib/view/ray-field.js";
 import { type Vec3, azimuthElevationOf, directionFromAzimuthElevation } from "../../lib/view/vectors.js";
 import { angleFromAntisolarDeg, angleRangeDeg, renderLayer, type Layer, type ProfileColours } from "../../lib/view/layer.js";
+import { arcPositionDeg } from "../../lib/view/arc-position.js";
+import type { ArcSlices } from "../../lib/view/arc-slices.js";
+import { arcNodesDeg, ARC_NODE_STEP_DEG, ARC_INTERPOLATION, ARC_TOLERANCE } from "./arc-nodes.js";
 import { curtainTransmittance } from "../../lib/bow/extinction.js";
 import { spacePrimaries } from "../../lib/colour/primaries.js";
 import { contentHash } from "../requests/content-hash.js";
@@ -72,6 +75,8 @@ interface Scene {
   normalisedRequest: unknown;
   /** Calm water below the horizon, or none. */
   water?: WaterSurface;
+  /** Flattened drops (scenario.drops.shape not a sphere): the bow changes along its arc. */
+  flattened: boolean;
 }
 
 /**
@@ -79,9 +84,14 @@ interface Scene {
  * CIE 015:2018, as for the curtain) and the reflectances of the sunlight.
  */
 /** The sun's direction, the antisolar point opposite it, and the water surface when one was asked for. */
-function lightOf(body: ViewRequest | SkyRequest, sunDirection: Vec3): Pick<Scene, "sunDirection" | "antisolar" | "water"> {
+function lightOf(body: ViewRequest | SkyRequest, sunDirection: Vec3): Pick<Scene, "sunDirection" | "antisolar" | "water" | "flattened"> {
   const antisolar: Vec3 = [-sunDirection[0], -sunDirection[1], -sunDirection[2]];
-  return { sunDirection, antisolar, water: waterOf(body.waterSurface, body.scenario, sunDirection, antisolar) };
+  return {
+    sunDirection,
+    antisolar,
+    water: waterOf(body.waterSurface, body.scenario, sunDirection, antisolar),
+    flattened: body.scenario.drops.shape !== undefined && body.scenario.drops.shape.kind !== "sphere",
+  };
 }
 
 function waterOf(kind: { kind: "calm" } | undefined, scenario: ViewScenario, sunDirection: Vec3, antisolar: Vec3): WaterSurface | undefined {
@@ -202,19 +212,34 @@ function skyScene(body: SkyRequest): Scene {
 }
 
 /** The validated scenario with the view's choices: the profile request the image is made from. */
-function profileRequestFor(scene: Scene, angles: { fromDeg: number; toDeg: number; stepDeg: number }): ProfileRequest {
+function profileRequestFor(scene: Scene, angles: { fromDeg: number; toDeg: number; stepDeg: number }, arcPositionDeg?: number): ProfileRequest {
   return {
     ...profileDefaults,
     ...scene.scenario,
     sun: { ...scene.scenario.sun, elevationDeg: scene.sunPosition.elevationDeg },
     angles,
+    ...(arcPositionDeg === undefined ? {} : { arcPositionDeg }),
     output: { space: "xyz-d65", gamut: "clip", normalise: "physical", white: "absolute", vision: scene.output.vision, adaptingLuminanceCdPerM2: scene.output.adaptingLuminanceCdPerM2 },
   };
 }
 
-function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg: number; seen: { minDeg: number; maxDeg: number } | null } {
+interface SeenRange {
+  minDeg: number;
+  maxDeg: number;
+}
+
+function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg: number; seen: SeenRange | null; arcSeen: SeenRange | null } {
+  // Arc positions matter only for flattened drops (no water with them: schemas/view.ts).
+  const arc = { minDeg: Infinity, maxDeg: -Infinity };
+  const onSeen = scene.flattened
+    ? (d: Float64Array) => {
+        const a = arcPositionDeg(d, scene.antisolar);
+        arc.minDeg = Math.min(arc.minDeg, a);
+        arc.maxDeg = Math.max(arc.maxDeg, a);
+      }
+    : undefined;
   // With water the lower half shows the water, not the ground; the reflection bow and the mirrored bows add angles.
-  let seen = angleRangeDeg(scene.rays, scene.antisolar, scene.ground || scene.water !== undefined, scene.maxAngleDeg);
+  let seen = angleRangeDeg(scene.rays, scene.antisolar, scene.ground || scene.water !== undefined, scene.maxAngleDeg, onSeen);
   if (scene.water) {
     const fromWater = waterAngleRangeDeg(scene.rays, scene.antisolar, scene.water, scene.maxAngleDeg, angleFromAntisolarDeg);
     if (fromWater) seen = seen ? { minDeg: Math.min(seen.minDeg, fromWater.minDeg), maxDeg: Math.max(seen.maxDeg, fromWater.maxDeg) } : fromWater;
@@ -231,7 +256,7 @@ function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg:
   hi = Math.min(180, hi + pad);
   step = Math.max(step, (hi - lo) / (MAX_PROFILE_SAMPLES - 1));
   const count = Math.ceil((hi - lo) / step - 1e-9) + 1;
-  return { fromDeg: lo, toDeg: lo + (count - 1) * step, stepDeg: step, seen };
+  return { fromDeg: lo, toDeg: lo + (count - 1) * step, stepDeg: step, seen, arcSeen: arc.minDeg <= arc.maxDeg ? arc : null };
 }
 
 
@@ -242,27 +267,34 @@ interface Scaling {
   meaning: string;
 }
 
-/** Linear colours per profile sample in `space`, scaled so that 1 is the reference luminance; gamut mapped per sample. */
-function profileColours(result: ProfileResult, request: ProfileRequest, output: Output, space: LinearSpace) {
-  const { grid, spectral } = result;
+/**
+ * Linear colours per profile sample in `space`, scaled so that 1 is the reference luminance; gamut mapped per
+ * sample. Several profiles (one per arc position, all on one ψ grid) share one scale: the brightest of them all.
+ */
+function profileColours(results: ProfileResult[], request: ProfileRequest, output: Output, space: LinearSpace) {
+  const { grid, spectral } = results[0];
   const n = spectral.anglesDeg.length;
   const toCd = (spectra: Float64Array) => spectraToXyz(grid, spectra, request.observer).map((v) => v * LUMINOUS_EFFICACY_LM_PER_W);
-  const perp = toCd(spectral.perpendicular);
-  const par = toCd(spectral.parallel);
-  const total = perp.map((v, k) => v + par[k]);
+  const parts = results.map((r) => {
+    const perp = toCd(r.spectral.perpendicular);
+    const par = toCd(r.spectral.parallel);
+    return { perp, par, total: perp.map((v, k) => v + par[k]) };
+  });
   let peakAll = 0;
   let peakBow = 0;
-  for (let i = 0; i < n; i++) {
-    const y = total[3 * i + 1];
-    peakAll = Math.max(peakAll, y);
-    const psi = spectral.anglesDeg[i];
-    if (psi >= BOW_WINDOW_DEG.fromDeg && psi <= BOW_WINDOW_DEG.toDeg) peakBow = Math.max(peakBow, y);
+  for (const { total } of parts) {
+    for (let i = 0; i < n; i++) {
+      const y = total[3 * i + 1];
+      peakAll = Math.max(peakAll, y);
+      const psi = spectral.anglesDeg[i];
+      if (psi >= BOW_WINDOW_DEG.fromDeg && psi <= BOW_WINDOW_DEG.toDeg) peakBow = Math.max(peakBow, y);
+    }
   }
   const scaling: Scaling =
     output.normalise === "peak"
       ? { referenceCdPerM2: peakBow, peakBowCdPerM2: peakBow, meaning: "pixel luminance 1 = the brightest point of the bows (ψ 30°–60°)" }
       : { referenceCdPerM2: output.referenceCdPerM2, peakBowCdPerM2: peakBow, meaning: `pixel luminance 1 = ${output.referenceCdPerM2} cd/m²` };
-  const sunWhite = result.sunWhite;
+  const sunWhite = results[0].sunWhite;
   // Gamut mapping wants white at Y = 1: map relative to the profile's peak, then scale to the reference.
   const relative = luminanceReciprocal(peakAll);
   // peakAll / reference, 0 where either is no light (never Infinity, whose product with 0 is NaN).
@@ -276,14 +308,16 @@ function profileColours(result: ProfileResult, request: ProfileRequest, output: 
     if (count) for (const flag of r.outOfGamut) outOfGamut += flag;
     return r.linear.map((v) => v * back);
   };
-  const colours: ProfileColours = {
-    fromDeg: spectral.anglesDeg[0],
-    stepDeg: n > 1 ? spectral.anglesDeg[1] - spectral.anglesDeg[0] : 1,
-    count: n,
-    total: render(total, true),
-    perpendicular: render(perp, false),
-    parallel: render(par, false),
-  };
+  const colours = parts.map(
+    ({ perp, par, total }): ProfileColours => ({
+      fromDeg: spectral.anglesDeg[0],
+      stepDeg: n > 1 ? spectral.anglesDeg[1] - spectral.anglesDeg[0] : 1,
+      count: n,
+      total: render(total, true),
+      perpendicular: render(perp, false),
+      parallel: render(par, false),
+    }),
+  );
   return { colours, scaling, outOfGamut, sunWhite };
 }
 
@@ -292,6 +326,8 @@ export interface PreparedOverlay {
   hash: string;
   profile: ProfileResult;
   colours: ProfileColours;
+  /** Flattened drops: the profiles' colours at arc positions, blended per pixel; undefined for spheres. */
+  arc?: ArcSlices;
   /** Alpha of every pixel that sees rain, or undefined for the additive layer. */
   alpha: number | undefined;
   manifest: OverlayManifest;
@@ -313,10 +349,17 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
   }
   const started = performance.now();
   const angles = profileAngles(scene);
-  const request = profileRequestFor(scene, { fromDeg: angles.fromDeg, toDeg: angles.toDeg, stepDeg: angles.stepDeg });
-  const profile = await computeProfile(request, deps, {});
+  const grid = { fromDeg: angles.fromDeg, toDeg: angles.toDeg, stepDeg: angles.stepDeg };
+  const request = profileRequestFor(scene, grid);
+  const nodes = scene.flattened && angles.arcSeen ? arcNodesDeg(angles.arcSeen) : undefined;
+  const profiles = nodes ? await arcProfiles(scene, grid, nodes, deps) : [await computeProfile(request, deps, {})];
+  // The manifest describes the node nearest the side of the bow (90°), or the one profile.
+  const base = nodes ? nearestIndex(nodes, 90) : 0;
+  const profile = profiles[base];
   const space = renderSpaceFor(format, scene.output);
-  const { colours, scaling, outOfGamut } = profileColours(profile, request, scene.output, space);
+  const { colours: allColours, scaling, outOfGamut } = profileColours(profiles, request, scene.output, space);
+  const colours = allColours[base];
+  const arc: ArcSlices | undefined = nodes ? { nodesDeg: Float64Array.from(nodes), slices: allColours, bows: profiles.map((p) => p.bows) } : undefined;
   const curtain = curtainTransmittance(profile.quadrature, request.water, request.pathLengthM);
   const alpha = scene.layer === "premultiplied" ? 1 - curtain.transmittance : undefined;
   const warnings = [...profile.meta.warnings];
@@ -397,7 +440,22 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
       sun: profile.meta.sun,
       water: profile.meta.water,
       vision: profile.meta.vision,
+      shape: profile.meta.shape,
     },
+    ...(nodes
+      ? {
+          arcPositions: {
+            quantity: "angle around the antisolar point from the bow's highest point (0°) to its lowest (180°), left and right alike",
+            nodesDeg: nodes,
+            seenDeg: angles.arcSeen,
+            stepDeg: ARC_NODE_STEP_DEG,
+            interpolation: ARC_INTERPOLATION,
+            tolerance: ARC_TOLERANCE,
+            bows: nodes.map((a, k) => ({ arcPositionDeg: a, ...profiles[k].bows })),
+            profileHashes: profiles.map((p) => p.meta.hash),
+          },
+        }
+      : {}),
     hash,
     cache: profile.meta.cache,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
@@ -409,7 +467,39 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
     ],
     warnings,
   };
-  return { scene, hash, profile, colours, alpha, manifest };
+  return { scene, hash, profile, colours, arc, alpha, manifest };
+}
+
+/**
+ * The profiles of a bow of flattened drops at each arc node, on one ψ grid. They share the synchronous limit: each
+ * may spend its share, so the view as a whole is refused (422, to /v1/jobs) when their sum is over it.
+ */
+async function arcProfiles(scene: Scene, grid: { fromDeg: number; toDeg: number; stepDeg: number }, nodes: number[], deps: ViewDeps): Promise<ProfileResult[]> {
+  const share: ViewDeps = { ...deps, limits: { maxTermAngles: deps.limits.maxTermAngles / nodes.length } };
+  const out: ProfileResult[] = [];
+  for (const node of nodes) {
+    try {
+      out.push(await computeProfile(profileRequestFor(scene, grid, node), share, {}));
+    } catch (e) {
+      if (e instanceof ClientError && e.code === "too-costly") {
+        const cost = Number(e.details.cost) * nodes.length;
+        throw new ClientError(
+          "too-costly",
+          `this ${scene.endpoint === "view" ? "view" : "sky map"} of flattened drops needs ${nodes.length} profiles along the arc (every ${ARC_NODE_STEP_DEG}°), about ${cost.toExponential(2)} Mie term-angles' worth; ` +
+            `the synchronous limit is ${deps.limits.maxTermAngles.toExponential(2)}. Submit it as a background job (POST /v1/jobs), or use fewer wavelengths, a smaller image or drops.shape "sphere"`,
+          { cost, limit: deps.limits.maxTermAngles, jobs: "/v1/jobs" },
+        );
+      }
+      throw e;
+    }
+  }
+  return out;
+}
+
+function nearestIndex(values: number[], target: number): number {
+  let best = 0;
+  for (let i = 1; i < values.length; i++) if (Math.abs(values[i] - target) < Math.abs(values[best] - target)) best = i;
+  return best;
 }
 
 function waterManifest(w: WaterSurface) {
@@ -439,6 +529,7 @@ export function renderPrepared(p: PreparedOverlay): Layer {
     polariserAxis: p.scene.polariserAxis,
     polariserTangentCos2: p.scene.polariserTangentCos2,
     water: p.scene.water,
+    arc: p.arc,
   });
 }
 

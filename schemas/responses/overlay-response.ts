@@ -1,6 +1,7 @@
 import { lightSourceFields, visionMetaSchema } from "./light-source-response.js";
 import { z } from "zod";
 import { cameraSchema, layerSchema, viewOutputSchema, imageQuerySchema } from "../view.js";
+import { shapeMetaSchema } from "./shape-meta.js";
 import { bowsSchema, methodSummarySchema, radiiSummarySchema, sunSummarySchema, wavelengthsSummarySchema } from "./profile-response.js";
 
 const vec3 = z.tuple([z.number(), z.number(), z.number()]).describe("unit vector in the world frame (x east, y north, z up)");
@@ -93,7 +94,21 @@ const overlayFields = {
     sun: sunSummarySchema,
     water: z.string(),
     vision: visionMetaSchema.optional(),
+    shape: shapeMetaSchema.optional().describe("the drop shape; with flattened drops the profile described here is the arc node nearest the bow's side"),
   }),
+  arcPositions: z
+    .strictObject({
+      quantity: z.string(),
+      nodesDeg: z.array(z.number()).describe("arc positions of the profiles the pixels blend between, degrees"),
+      seenDeg: z.strictObject({ minDeg: z.number(), maxDeg: z.number() }).nullable().describe("arc positions the pixels see"),
+      stepDeg: z.number(),
+      interpolation: z.string(),
+      tolerance: z.string(),
+      bows: z.array(z.strictObject({ arcPositionDeg: z.number(), primaryDeg: z.number().nullable(), secondaryDeg: z.number().nullable() })),
+      profileHashes: z.array(z.string()),
+    })
+    .optional()
+    .describe("flattened drops only: the bow changes along its arc; the profiles at these arc positions and how pixels blend them"),
   hash: z.string(),
   cache: z.enum(["hit", "miss"]),
   computeMs: z.number(),

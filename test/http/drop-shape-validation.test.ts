@@ -41,16 +41,16 @@ describe("POST /v1/profile: drop shapes and arc positions outside what the servi
   });
 });
 
-describe("views, sky overlays and lookup textures draw spheres so far: a flattened shape there is a 400 naming it", () => {
+describe("flattened drops where they are not served: a 400 naming the field", () => {
   it.each([
-    ["/v1/view", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "equilibrium" } } } }, "scenario.drops.shape"],
-    ["/v1/sky", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "equilibrium" } } } }, "scenario.drops.shape"],
-    ["/v1/lut", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "spheroid", axisRatio: 0.8 } } } }, "scenario.drops.shape"],
-  ])("%s", async (path, body, field) => {
+    ["/v1/view", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "equilibrium" } } }, waterSurface: { kind: "calm" } }, "waterSurface", /sphere/],
+    ["/v1/sky", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "equilibrium" } } }, waterSurface: { kind: "calm" } }, "waterSurface", /sphere/],
+    ["/v1/lut", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "spheroid", axisRatio: 0.8 } } } }, "scenario.drops.shape", /\/v1\/profile/],
+  ])("%s", async (path, body, field, message) => {
     const res = await post(path, body);
     expect(res.status).toBe(400);
     expect(res.body.field).toBe(field);
-    expect(res.body.message).toMatch(/\/v1\/profile/);
+    expect(res.body.message).toMatch(message);
   });
 });
 
@@ -59,6 +59,14 @@ describe("flattened drops over the synchronous budget", () => {
     const res = await post("/v1/profile", { drops: { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium" } } });
     expect(res.status).toBe(422);
     expect(res.body.error).toBe("too-costly");
+    expect(res.body.message).toMatch(/\/v1\/jobs/);
+  });
+
+  it("so is a camera view of flattened drops over the full spectrum: its profiles along the arc are counted together", async () => {
+    const res = await post("/v1/view", { scenario: { drops: { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium" } } } });
+    expect(res.status).toBe(422);
+    expect(res.body.error).toBe("too-costly");
+    expect(res.body.message).toMatch(/profiles along the arc/);
     expect(res.body.message).toMatch(/\/v1\/jobs/);
   });
 });
