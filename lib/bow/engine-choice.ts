@@ -47,6 +47,13 @@ export const AUTO_MIE_BUDGET_TERM_ANGLES = 1.5e9;
 export const AUTO_MAX_AIRY_SHARE = 0.6;
 
 /**
+ * How far past the budget the share rule may take the Mie work: a few times the budget, so that a request the budget
+ * alone kept cheap stays within the service's synchronous limits (one drop size carries all its cross-section, and
+ * a single large drop at fine angle steps would otherwise always go to Mie). The downpour needed 2.3 times.
+ */
+export const AUTO_SHARE_COST_FACTOR = 4;
+
+/**
  * auto against full Lorenz–Mie on the service's presets and its default profile at AUTO_MIE_BUDGET_TERM_ANGLES and
  * AUTO_MAX_AIRY_SHARE (bench/auto-presets.ts; fixtures/auto-engine/presets-vs-mie.json): CIEDE2000 per sample over
  * ψ 30–60°, XYZ scaled by the Mie peak Y, the largest worst and mean over the presets, rounded up.
@@ -62,7 +69,8 @@ export interface AutoChoice {
 /**
  * Cost-aware "auto": every drop by exact Lorenz–Mie when that costs at most the budget (Mie term-angles, one size per
  * radius node); otherwise Mie below the largest node radius whose Mie drops fit the budget, moved up while the drops
- * from there on carry more than maxAiryShare of the cross-section, Airy theory from there; never Airy below
+ * from there on carry more than maxAiryShare of the cross-section (while the Mie work stays within
+ * AUTO_SHARE_COST_FACTOR times the budget), Airy theory from there; never Airy below
  * AUTO_AIRY_FROM_RADIUS_UM, where it strays from Mie. nodeCost[i]: the Mie term-angles of node radiiUm[i] (radii
  * ascending); nodeCrossSection[i]: its w r² (any unit); maxAiryShare 1 leaves the budget alone in charge (answers
  * whose rows share one budget, whose cost the share rule would multiply by the row count).
@@ -89,17 +97,22 @@ export function chooseAutoEngine(
     if (r > airyFromUm && below[i] <= budgetTermAngles) airyFromUm = r;
   });
   const byBudget = airyFromUm;
-  // The first node at or above the budget's switch from which on Airy carries at most the share (none: all Mie);
-  // the budget's switch stays where its first Airy node already does.
-  const first = radiiUm.findIndex((r, i) => r >= byBudget && fromHere[i] <= maxAiryShare * fromHere[0]);
+  // The first node at or above the budget's switch from which on Airy carries at most the share, or whose Mie work
+  // would pass the ceiling (none: all Mie); the budget's switch stays where its first Airy node already does.
+  const ceiling = AUTO_SHARE_COST_FACTOR * budgetTermAngles;
+  const first = radiiUm.findIndex((r, i) => r >= byBudget && (fromHere[i] <= maxAiryShare * fromHere[0] || below[i + 1] > ceiling));
   if (first !== radiiUm.findIndex((r) => r >= byBudget)) airyFromUm = first < 0 ? Infinity : radiiUm[first];
   const measured = `measured against full Mie on the presets (ψ 30–60°): worst ΔE2000 ${AUTO_MEASURED_ON_PRESETS.worstDeltaE}, mean ≤ ${AUTO_MEASURED_ON_PRESETS.meanDeltaE}`;
   const share = `${(100 * maxAiryShare).toFixed(0)} % of the drops' cross-section`;
   const mieCost = first < 0 ? all : below[first];
+  const airyShare = first < 0 ? 0 : fromHere[first] / fromHere[0];
+  const past = `past the budget's ${byBudget.toFixed(0)} µm`;
   const why =
     airyFromUm === byBudget
       ? `the largest radius within the budget, never below ${AUTO_AIRY_FROM_RADIUS_UM} µm`
-      : `past the budget's ${byBudget.toFixed(0)} µm, so that Airy theory serves at most ${share}: ${mieCost.toExponential(2)} Mie term-angles`;
+      : airyShare <= maxAiryShare
+        ? `${past}, so that Airy theory serves at most ${share}: ${mieCost.toExponential(2)} Mie term-angles`
+        : `${past}, as far as ${AUTO_SHARE_COST_FACTOR} times the budget reaches: Airy theory still serves ${(100 * airyShare).toFixed(0)} % of the drops' cross-section`;
   return {
     airyFromUm,
     rule:

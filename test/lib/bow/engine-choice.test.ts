@@ -6,7 +6,7 @@
 // both profiles divided by the Mie profile's peak Y, so a brightness error counts as well as a hue error.
 import { describe, it, expect } from "vitest";
 import { compareAiryWithMie } from "../../../bench/auto-engine.js";
-import { AUTO_AIRY_FROM_RADIUS_UM, autoEngine, chooseAutoEngine, engineChooser } from "../../../lib/bow/engine-choice.js";
+import { AUTO_AIRY_FROM_RADIUS_UM, AUTO_SHARE_COST_FACTOR, autoEngine, chooseAutoEngine, engineChooser } from "../../../lib/bow/engine-choice.js";
 
 // Reduced grid: ψ 36–56° (both bows, the supernumeraries, Alexander's band) by 0.2°, 380–780 nm by 20 nm, and
 // 192 radius nodes per decade (~62 nodes), enough to wash out most fringes of single sizes (the bench uses 384).
@@ -75,6 +75,11 @@ describe("cost-aware auto: exact Mie within the budget, Airy only beyond it", ()
     // Never below the budget's switch, and never below a share none of the nodes reaches: all Mie.
     expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 21, 0.6).airyFromUm).toBe(800);
     expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.1).airyFromUm).toBe(Infinity);
+    // The share rule's Mie work stops at AUTO_SHARE_COST_FACTOR times the budget: with budget 3 (switch at the 100 µm floor), at 12: the nodes below 400 µm cost 15.
+    expect(AUTO_SHARE_COST_FACTOR).toBe(4);
+    const capped = chooseAutoEngine(radiiUm, nodeCost, largeDrops, 3, 0.6);
+    expect(capped.airyFromUm).toBe(200);
+    expect(capped.rule).toMatch(/Mie below 200 µm \(past the budget's 100 µm, as far as 4 times the budget reaches: Airy theory still serves 75 % of the drops' cross-section\)/);
     // Share 1: the budget alone (answers whose rows share it).
     expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 1).airyFromUm).toBe(200);
     const choice = chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.6);
