@@ -71,15 +71,15 @@ describe("cost-aware auto: exact Mie within the budget, Airy only beyond it", ()
     const largeDrops = [5, 5, 5, 10, 30, 25, 20];
     expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.6).airyFromUm).toBe(400);
     expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.45).airyFromUm).toBe(400);
-    expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.4).airyFromUm).toBe(800);
+    expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 14, 0.4).airyFromUm).toBe(800);
     // Never below the budget's switch, and never below a share none of the nodes reaches: all Mie.
     expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 21, 0.6).airyFromUm).toBe(800);
-    expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.1).airyFromUm).toBe(Infinity);
-    // The share rule's Mie work stops at AUTO_SHARE_COST_FACTOR times the budget: with budget 3 (switch at the 100 µm floor), at 12: the nodes below 400 µm cost 15.
-    expect(AUTO_SHARE_COST_FACTOR).toBe(4);
-    const capped = chooseAutoEngine(radiiUm, nodeCost, largeDrops, 3, 0.6);
+    expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 14, 0.1).airyFromUm).toBe(Infinity);
+    // The share rule's Mie work stops at AUTO_SHARE_COST_FACTOR times the budget: with budget 6 (switch at 120 µm), at 12: the nodes below 400 µm cost 15.
+    expect(AUTO_SHARE_COST_FACTOR).toBe(2);
+    const capped = chooseAutoEngine(radiiUm, nodeCost, largeDrops, 6, 0.6);
     expect(capped.airyFromUm).toBe(200);
-    expect(capped.rule).toMatch(/Mie below 200 µm \(past the budget's 100 µm, as far as 4 times the budget reaches: Airy theory still serves 75 % of the drops' cross-section\)/);
+    expect(capped.rule).toMatch(/Mie below 200 µm \(past the budget's 120 µm, as far as 2 times the budget reaches: Airy theory still serves 75 % of the drops' cross-section\)/);
     // Share 1: the budget alone (answers whose rows share it).
     expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 1).airyFromUm).toBe(200);
     const choice = chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.6);
