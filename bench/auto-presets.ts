@@ -3,7 +3,7 @@
 // computed once; auto at each budget then reuses its Mie rows from the kernel cache (only the Airy rows are new).
 // Colour difference: CIEDE2000 (Luo, Cui & Rigg 2001, via colorjs.io) per sample on CIE 1931 XYZ of the radiance,
 // both profiles divided by the Mie profile's peak Y, so a brightness error counts as well as a hue error.
-// node dist/bench/auto-presets.js [budgets, comma-separated] [--write]
+// node dist/bench/auto-presets.js [budgets, comma-separated] [--only=preset,…] [--write]
 // --write (at the service's budget only) rewrites fixtures/auto-engine/presets-vs-mie.json, which
 // test/pipeline/compute/auto-presets.test.ts reads: the measured error of auto's choice on each preset.
 
@@ -21,7 +21,7 @@ import { createWorkerPool } from "../pipeline/kernels/worker-pool.js";
 import { loadPresets } from "../pipeline/requests/presets.js";
 import { spectraToXyz } from "../lib/colour/tristimulus.js";
 import { deltaE2000 } from "../lib/colour/delta-e.js";
-import { AUTO_MIE_BUDGET_TERM_ANGLES } from "../lib/bow/engine-choice.js";
+import { AUTO_MAX_AIRY_SHARE, AUTO_MIE_BUDGET_TERM_ANGLES } from "../lib/bow/engine-choice.js";
 
 export interface AutoPresetRow {
   preset: string;
@@ -42,10 +42,12 @@ export function xyzOf(r: ProfileResult): Float64Array {
   return spectraToXyz(r.grid, perpendicular.map((v, k) => v + parallel[k]), r.request.observer);
 }
 
-export async function benchAutoPresets(budgets: number[] = [AUTO_MIE_BUDGET_TERM_ANGLES], workers = 2): Promise<AutoPresetRow[]> {
+export async function benchAutoPresets(budgets: number[] = [AUTO_MIE_BUDGET_TERM_ANGLES], workers = 2, only?: string[]): Promise<AutoPresetRow[]> {
   const pool = createWorkerPool(workers);
   const rows: AutoPresetRow[] = [];
-  const presets = [{ id: "default", body: {} as Record<string, unknown> }, ...[...loadPresets().values()].map((p) => ({ id: p.name, body: p.body as unknown as Record<string, unknown> }))];
+  const presets = [{ id: "default", body: {} as Record<string, unknown> }, ...[...loadPresets().values()].map((p) => ({ id: p.name, body: p.body as unknown as Record<string, unknown> }))].filter(
+    (p) => !only || only.includes(p.id),
+  );
   try {
     for (const p of presets) {
       const kernels = new KernelService({ memoryBudgetBytes: 2 ** 32, compute: pool.compute });
@@ -94,7 +96,9 @@ export async function benchAutoPresets(budgets: number[] = [AUTO_MIE_BUDGET_TERM
 if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
   const write = process.argv.includes("--write");
   const list = process.argv.slice(2).find((a) => !a.startsWith("--"));
-  const rows = await benchAutoPresets(write || !list ? [AUTO_MIE_BUDGET_TERM_ANGLES] : list.split(",").map(Number));
+  // --write measures every preset: the fixture must cover them all.
+  const only = write ? undefined : process.argv.find((a) => a.startsWith("--only="))?.slice("--only=".length).split(",");
+  const rows = await benchAutoPresets(write || !list ? [AUTO_MIE_BUDGET_TERM_ANGLES] : list.split(",").map(Number), 2, only);
   if (write) {
     const fixture = {
       source: "bench/auto-presets.ts --write: auto against method mie on every preset and the default profile, ψ 30–60°, CIEDE2000 per sample on XYZ scaled by the Mie peak Y",
@@ -114,7 +118,7 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
       "",
       `Written by \`node dist/bench/auto-presets.js --write\` (bench/auto-presets.ts), ${fixture.measured}; ${cpus()[0]?.model ?? "unknown CPU"}, ${cpus().length} cores, Node ${process.version};`,
       `load average ${loadavg()[0].toFixed(1)} at the end (times are wall times on a shared machine). auto's Mie budget ${AUTO_MIE_BUDGET_TERM_ANGLES.toExponential(1)} term-angles`,
-      "(lib/bow/engine-choice.ts). CIEDE2000 per sample over ψ 30–60° (the preset's own range within it), XYZ of both profiles",
+      `and at most ${100 * AUTO_MAX_AIRY_SHARE} % of the cross-section left to Airy theory (lib/bow/engine-choice.ts). CIEDE2000 per sample over ψ 30–60° (the preset's own range within it), XYZ of both profiles`,
       "scaled by the Mie profile's peak Y. Full Mie: method \"mie\" on 2 worker threads, cold.",
       "",
       "| preset | auto: Airy from (µm) | worst ΔE2000 | at ψ (°) | mean ΔE2000 | full-Mie term-angles | full Mie cold (s) |",

@@ -30,18 +30,38 @@ export function estimatedEngineError(engine: DropEngine, fromUm: number): string
 }
 
 /**
- * Mie term-angles "auto" spends on exact Lorenz–Mie before it hands large drops to Airy theory: the same budget as the
- * Mie ripple averaging (pipeline/compute/profile.ts AUTO_DENSITY_BUDGET_TERM_ANGLES), ~1.5 s of two workers at the
- * many-drops kernel's measured rate (BENCHMARKS.md). A constant, so a request's result is the same on every server.
+ * Mie term-angles "auto" spends on exact Lorenz–Mie before it hands large drops to Airy theory (~0.6 s of two
+ * workers at the many-drops kernel's rate in BENCHMARKS.md). With AUTO_MAX_AIRY_SHARE, the least budget measured to
+ * keep every preset but the 25 mm/h downpour within the accuracy goal (worst ΔE2000 ≤ 1.0, mean ≤ 0.3;
+ * bench/auto-presets.ts): by the budget alone the default profile (Mie below 255 µm) gave worst 0.81, mean 0.287;
+ * the downpour needs 3.5e9 (0.94), above the synchronous limit the share rule stops at (1.02 there).
+ * A constant, so a request's result is the same on every server.
  */
-export const AUTO_MIE_BUDGET_TERM_ANGLES = 2.5e9;
+export const AUTO_MIE_BUDGET_TERM_ANGLES = 1.5e9;
 
 /**
- * auto against full Lorenz–Mie on the service's presets and its default profile at AUTO_MIE_BUDGET_TERM_ANGLES
- * (bench/auto-presets.ts; fixtures/auto-engine/presets-vs-mie.json): CIEDE2000 per sample over ψ 30–60°, XYZ scaled
- * by the Mie peak Y. Every preset is within worst 1.0 and mean 0.3 except the worst sample of the 25 mm/h downpour.
+ * The largest share of the drops' geometric cross-section (Σ w r², the bow's light) "auto" leaves to Airy theory:
+ * where the budget's switch would leave more, Mie goes on to the radius that leaves this share, past the budget, as
+ * Airy's error grows with the light it carries. Measured with bench/auto-presets.ts on the 25 mm/h downpour, Airy
+ * from 437 µm (73 % of the cross-section): worst ΔE2000 1.07; from 505 µm (66 %) 1.02; from 562 µm (60 %) 0.94. The
+ * ceiling AUTO_SHARE_COST_FACTOR stops the downpour at 505 µm.
  */
-export const AUTO_MEASURED_ON_PRESETS = { worstDeltaE: 1.07, meanDeltaE: 0.3 } as const;
+export const AUTO_MAX_AIRY_SHARE = 0.6;
+
+/**
+ * How far past the budget the share rule may take the Mie work: twice the budget, 3e9 term-angles, the service's
+ * default synchronous limit for a profile (MAX_PROFILE_TERM_ANGLES, pipeline/config/config.ts), so that auto never
+ * turns a request the budget alone kept synchronous into a 422 (one drop size carries all its cross-section, and
+ * sky views ask for wide angle ranges). The 25 mm/h downpour would have liked 2.3 times (3.41e9).
+ */
+export const AUTO_SHARE_COST_FACTOR = 2;
+
+/**
+ * auto against full Lorenz–Mie on the service's presets and its default profile at AUTO_MIE_BUDGET_TERM_ANGLES and
+ * AUTO_MAX_AIRY_SHARE (bench/auto-presets.ts; fixtures/auto-engine/presets-vs-mie.json): CIEDE2000 per sample over
+ * ψ 30–60°, XYZ scaled by the Mie peak Y, the largest worst and mean over the presets, rounded up.
+ */
+export const AUTO_MEASURED_ON_PRESETS = { worstDeltaE: 1.03, meanDeltaE: 0.27 } as const;
 
 export interface AutoChoice {
   /** Drops at or above this radius go to Airy theory; Infinity: every drop by Lorenz–Mie. */
@@ -51,14 +71,25 @@ export interface AutoChoice {
 
 /**
  * Cost-aware "auto": every drop by exact Lorenz–Mie when that costs at most the budget (Mie term-angles, one size per
- * radius node); otherwise Mie below the largest node radius whose Mie drops fit the budget, Airy theory from there,
- * and never Airy below AUTO_AIRY_FROM_RADIUS_UM, where it strays from Mie. nodeCost[i]: the Mie term-angles of node
- * radiiUm[i] (radii ascending).
+ * radius node); otherwise Mie below the largest node radius whose Mie drops fit the budget, moved up while the drops
+ * from there on carry more than maxAiryShare of the cross-section (while the Mie work stays within
+ * AUTO_SHARE_COST_FACTOR times the budget), Airy theory from there; never Airy below
+ * AUTO_AIRY_FROM_RADIUS_UM, where it strays from Mie. nodeCost[i]: the Mie term-angles of node radiiUm[i] (radii
+ * ascending); nodeCrossSection[i]: its w r² (any unit); maxAiryShare 1 leaves the budget alone in charge (answers
+ * whose rows share one budget, whose cost the share rule would multiply by the row count).
  */
-export function chooseAutoEngine(radiiUm: Float64Array, nodeCost: ArrayLike<number>, budgetTermAngles = AUTO_MIE_BUDGET_TERM_ANGLES): AutoChoice {
-  // below[i]: the Mie cost of the nodes below radiiUm[i].
+export function chooseAutoEngine(
+  radiiUm: Float64Array,
+  nodeCost: ArrayLike<number>,
+  nodeCrossSection: ArrayLike<number>,
+  budgetTermAngles = AUTO_MIE_BUDGET_TERM_ANGLES,
+  maxAiryShare = AUTO_MAX_AIRY_SHARE,
+): AutoChoice {
+  // below[i]: the Mie cost of the nodes below radiiUm[i]; fromHere[i]: the cross-section of node i and those above.
   const below = new Float64Array(radiiUm.length + 1);
   for (let i = 0; i < radiiUm.length; i++) below[i + 1] = below[i] + nodeCost[i];
+  const fromHere = new Float64Array(radiiUm.length + 1);
+  for (let i = radiiUm.length - 1; i >= 0; i--) fromHere[i] = fromHere[i + 1] + nodeCrossSection[i];
   const all = below[radiiUm.length];
   const budget = `${budgetTermAngles.toExponential(1)} Mie term-angles`;
   if (all <= budgetTermAngles) {
@@ -68,12 +99,29 @@ export function chooseAutoEngine(radiiUm: Float64Array, nodeCost: ArrayLike<numb
   radiiUm.forEach((r, i) => {
     if (r > airyFromUm && below[i] <= budgetTermAngles) airyFromUm = r;
   });
+  const byBudget = airyFromUm;
+  // The first node at or above the budget's switch from which on Airy carries at most the share, or whose Mie work
+  // would pass the ceiling (none: all Mie); the budget's switch stays where its first Airy node already does.
+  const ceiling = AUTO_SHARE_COST_FACTOR * budgetTermAngles;
+  const first = radiiUm.findIndex((r, i) => r >= byBudget && (fromHere[i] <= maxAiryShare * fromHere[0] || below[i + 1] > ceiling));
+  if (first !== radiiUm.findIndex((r) => r >= byBudget)) airyFromUm = first < 0 ? Infinity : radiiUm[first];
+  const measured = `measured against full Mie on the presets (ψ 30–60°): worst ΔE2000 ${AUTO_MEASURED_ON_PRESETS.worstDeltaE}, mean ≤ ${AUTO_MEASURED_ON_PRESETS.meanDeltaE}`;
+  const share = `${(100 * maxAiryShare).toFixed(0)} % of the drops' cross-section`;
+  const mieCost = first < 0 ? all : below[first];
+  const airyShare = first < 0 ? 0 : fromHere[first] / fromHere[0];
+  const past = `past the budget's ${byBudget.toFixed(0)} µm`;
+  const why =
+    airyFromUm === byBudget
+      ? `the largest radius within the budget, never below ${AUTO_AIRY_FROM_RADIUS_UM} µm`
+      : airyShare <= maxAiryShare
+        ? `${past}, so that Airy theory serves at most ${share}: ${mieCost.toExponential(2)} Mie term-angles`
+        : `${past}, as far as ${AUTO_SHARE_COST_FACTOR} times the budget reaches: Airy theory still serves ${(100 * airyShare).toFixed(0)} % of the drops' cross-section`;
   return {
     airyFromUm,
     rule:
       `auto: exact Lorenz–Mie for every drop would cost ${all.toExponential(2)} Mie term-angles, above the budget of ${budget}; ` +
-      `Mie below ${airyFromUm.toFixed(0)} µm (the largest radius within the budget, never below ${AUTO_AIRY_FROM_RADIUS_UM} µm), Airy theory from there; ` +
-      `measured against full Mie on the presets (ψ 30–60°): worst ΔE2000 ${AUTO_MEASURED_ON_PRESETS.worstDeltaE}, mean ≤ ${AUTO_MEASURED_ON_PRESETS.meanDeltaE}`,
+      (Number.isFinite(airyFromUm) ? `Mie below ${airyFromUm.toFixed(0)} µm (${why}), Airy theory from there; ` : `Mie for every drop (${why}); `) +
+      measured,
   };
 }
 

@@ -115,8 +115,10 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
     angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
     output: { ...profileDefaults.output, space: r.space, gamut: "clip", normalise: "physical", white: "sun" },
   });
-  // The rows share auto's Mie budget, so that a texture costs about what one profile does.
-  const plans = rows.map((_, j) => planProfile(bodyOf(request, j), { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length }, layers));
+  // The rows share auto's Mie budget, so that a texture costs about what one profile does (without the share rule,
+  // which would let every row's Mie work grow past its part of the budget).
+  const resolution = { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length, autoMaxAiryShare: 1 };
+  const plans = rows.map((_, j) => planProfile(bodyOf(request, j), resolution, layers));
   for (const plan of plans) refuseTooCostly(plan, deps.limits);
   const reads = texelReads(texelPsi, plans[0].angles);
   const nl = plans[0].grid.count;

@@ -135,6 +135,8 @@ export interface ProfileResolution {
    * share it among their rows; bench/auto-presets.ts measures the error at other budgets.
    */
   autoMieBudgetTermAngles?: number;
+  /** auto's AUTO_MAX_AIRY_SHARE; answers whose rows share the budget set 1, or the share rule multiplies their cost. */
+  autoMaxAiryShare?: number;
 }
 
 /**
@@ -151,10 +153,12 @@ function radiusDensityFor(request: ProfileRequest, resolution: ProfileResolution
 }
 
 /** Cost-aware auto (lib/bow/engine-choice.ts): exact Mie where it fits the budget, Airy only for drops beyond it. */
-function chooseAutoFor(radiiUm: Float64Array, wl: Float64Array, span: { first: number; last: number }, resolution: ProfileResolution): AutoChoice {
+function chooseAutoFor(quadrature: RadiusQuadrature, wl: Float64Array, span: { first: number; last: number }, resolution: ProfileResolution): AutoChoice {
+  const { radiiUm, weights } = quadrature;
   // Kernel tasks compute only the span's lattice points, so that is what the cost counts (one size per node).
   const nodeCost = Array.from(radiiUm, (r) => estimateMieTermAngles(Float64Array.of(r), wl, span.last - span.first + 1, () => "mie"));
-  return chooseAutoEngine(radiiUm, nodeCost, resolution.autoMieBudgetTermAngles);
+  const crossSection = Array.from(radiiUm, (r, i) => weights[i] * r * r);
+  return chooseAutoEngine(radiiUm, nodeCost, crossSection, resolution.autoMieBudgetTermAngles, resolution.autoMaxAiryShare);
 }
 
 /** What "auto" chooses for a request, without computing it (null for the other methods). */
@@ -164,7 +168,7 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
   const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
   const span = profileSpan({ fromDeg: request.angles.fromDeg, stepDeg: request.angles.stepDeg, count: angleCount(request.angles) }, request.sun.discDeg, h);
   const quadrature = latticeRadiusQuadrature(toDistribution(request.drops), { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
-  return chooseAutoFor(quadrature.radiiUm, wl, span, resolution);
+  return chooseAutoFor(quadrature, wl, span, resolution);
 }
 
 /**
@@ -191,7 +195,7 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
   // layered answer costs about what the combined one does (auto may then leave more drops to the Airy engine).
   const budgetShare = byOrder ? 1 / (1 + ORDER_LAYERS.length) : 1;
   const autoResolution = byOrder ? { ...resolution, autoMieBudgetTermAngles: (resolution.autoMieBudgetTermAngles ?? AUTO_MIE_BUDGET_TERM_ANGLES) * budgetShare } : resolution;
-  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature.radiiUm, wl, span, autoResolution) : null;
+  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature, wl, span, autoResolution) : null;
   const engine = autoChoice ? autoEngine(autoChoice) : engineChooser(request.method);
   // Lorenz–Mie rows averaged over each node's radius cell at sizesPerDecade (cell-average.ts, radius-density.ts).
   const averagesAt = (sizesPerDecade: number) => {

@@ -55,8 +55,9 @@ async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ ra
   const abort = new AbortController();
   const stop = () => abort.abort();
   deps.signal?.addEventListener("abort", stop);
-  // The rows share auto's Mie budget as they share the cost limit.
-  const resolution = { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / body.radiusSteps };
+  // The rows share auto's Mie budget as they share the cost limit (without the share rule: one drop size carries all
+  // of its row's cross-section, so that rule would give every row Mie whatever its part of the budget).
+  const resolution = { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / body.radiusSteps, autoMaxAiryShare: 1 };
   // Each row weighs its own cost (a size map's large drops cost more than its small ones); rows run side by side.
   const progress = deps.onProgress
     ? rowsProgress(rowNames(radiiUm.length), (k) => [sizeMapRowRequest(body, radiiUm[k]), resolution], deps.kernels.parallelism, deps.onProgress)

@@ -6,7 +6,7 @@
 // both profiles divided by the Mie profile's peak Y, so a brightness error counts as well as a hue error.
 import { describe, it, expect } from "vitest";
 import { compareAiryWithMie } from "../../../bench/auto-engine.js";
-import { AUTO_AIRY_FROM_RADIUS_UM, autoEngine, chooseAutoEngine, engineChooser } from "../../../lib/bow/engine-choice.js";
+import { AUTO_AIRY_FROM_RADIUS_UM, AUTO_SHARE_COST_FACTOR, autoEngine, chooseAutoEngine, engineChooser } from "../../../lib/bow/engine-choice.js";
 
 // Reduced grid: ψ 36–56° (both bows, the supernumeraries, Alexander's band) by 0.2°, 380–780 nm by 20 nm, and
 // 192 radius nodes per decade (~62 nodes), enough to wash out most fringes of single sizes (the bench uses 384).
@@ -45,9 +45,11 @@ describe("cost-aware auto: exact Mie within the budget, Airy only beyond it", ()
   const radiiUm = Float64Array.from([20, 50, 90, 120, 200, 400, 800]);
   // Arbitrary costs per node (Mie term-angles), growing with the radius as the series length does.
   const nodeCost = [1, 2, 3, 4, 5, 6, 7];
+  // Cross-sections that leave little to the large drops, so that the share rule does not move the switch.
+  const smallDrops = [10, 10, 10, 10, 10, 1, 1];
 
   it("serves every drop by Lorenz–Mie when all of them fit the budget", () => {
-    const choice = chooseAutoEngine(radiiUm, nodeCost, 28);
+    const choice = chooseAutoEngine(radiiUm, nodeCost, smallDrops, 28);
     expect(choice.airyFromUm).toBe(Infinity);
     expect(radiiUm.every((r) => autoEngine(choice)(r) === "mie")).toBe(true);
     expect(choice.rule).toMatch(/exact Lorenz–Mie for every drop/);
@@ -55,12 +57,32 @@ describe("cost-aware auto: exact Mie within the budget, Airy only beyond it", ()
 
   it("otherwise moves the switch to the largest radius whose smaller drops fit, never below the accuracy floor", () => {
     // Nodes below 400 µm cost 1+2+3+4+5 = 15; below 800 µm, 21.
-    expect(chooseAutoEngine(radiiUm, nodeCost, 15).airyFromUm).toBe(400);
-    expect(chooseAutoEngine(radiiUm, nodeCost, 20.9).airyFromUm).toBe(400);
-    expect(chooseAutoEngine(radiiUm, nodeCost, 21).airyFromUm).toBe(800);
-    expect(chooseAutoEngine(radiiUm, nodeCost, 1).airyFromUm).toBe(AUTO_AIRY_FROM_RADIUS_UM);
-    const choice = chooseAutoEngine(radiiUm, nodeCost, 15);
+    expect(chooseAutoEngine(radiiUm, nodeCost, smallDrops, 15).airyFromUm).toBe(400);
+    expect(chooseAutoEngine(radiiUm, nodeCost, smallDrops, 20.9).airyFromUm).toBe(400);
+    expect(chooseAutoEngine(radiiUm, nodeCost, smallDrops, 21).airyFromUm).toBe(800);
+    expect(chooseAutoEngine(radiiUm, nodeCost, smallDrops, 1).airyFromUm).toBe(AUTO_AIRY_FROM_RADIUS_UM);
+    const choice = chooseAutoEngine(radiiUm, nodeCost, smallDrops, 15);
     expect(Array.from(radiiUm, autoEngine(choice))).toEqual(["mie", "mie", "mie", "mie", "mie", "airy", "airy"]);
-    expect(choice.rule).toMatch(/Mie below 400 µm/);
+    expect(choice.rule).toMatch(/Mie below 400 µm \(the largest radius within the budget/);
+  });
+
+  it("goes past the budget while the drops left to Airy theory would carry more than the share of the cross-section", () => {
+    // Total 100: from 200 µm on the drops carry 75, from 400 µm 45, from 800 µm 20.
+    const largeDrops = [5, 5, 5, 10, 30, 25, 20];
+    expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.6).airyFromUm).toBe(400);
+    expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.45).airyFromUm).toBe(400);
+    expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 14, 0.4).airyFromUm).toBe(800);
+    // Never below the budget's switch, and never below a share none of the nodes reaches: all Mie.
+    expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 21, 0.6).airyFromUm).toBe(800);
+    expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 14, 0.1).airyFromUm).toBe(Infinity);
+    // The share rule's Mie work stops at AUTO_SHARE_COST_FACTOR times the budget: with budget 6 (switch at 120 µm), at 12: the nodes below 400 µm cost 15.
+    expect(AUTO_SHARE_COST_FACTOR).toBe(2);
+    const capped = chooseAutoEngine(radiiUm, nodeCost, largeDrops, 6, 0.6);
+    expect(capped.airyFromUm).toBe(200);
+    expect(capped.rule).toMatch(/Mie below 200 µm \(past the budget's 120 µm, as far as 2 times the budget reaches: Airy theory still serves 75 % of the drops' cross-section\)/);
+    // Share 1: the budget alone (answers whose rows share it).
+    expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 1).airyFromUm).toBe(200);
+    const choice = chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.6);
+    expect(choice.rule).toMatch(/Mie below 400 µm \(past the budget's 200 µm, so that Airy theory serves at most 60 % of the drops' cross-section: 1\.50e\+1 Mie term-angles\)/);
   });
 });
