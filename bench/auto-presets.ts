@@ -37,7 +37,7 @@ export interface AutoPresetRow {
   mieColdMs: number;
 }
 
-function xyzOf(r: ProfileResult): Float64Array {
+export function xyzOf(r: ProfileResult): Float64Array {
   const { perpendicular, parallel } = r.spectral;
   return spectraToXyz(r.grid, perpendicular.map((v, k) => v + parallel[k]), r.request.observer);
 }

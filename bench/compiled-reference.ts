@@ -21,8 +21,18 @@ export interface CompiledReference {
   run(input: { mRe: number; mIm: number; fromDeg: number; toDeg: number; stepDeg: number; sizeParameters: number[]; reps: number }): CompiledTiming;
 }
 
+/** What the compiler may use on this machine: all of it (AVX-512 or AVX2 lanes, fused multiply-add). */
+export const NATIVE_FLAGS = ["-O3", "-march=native"];
+
+/**
+ * The instruction set WebAssembly SIMD gets on x64 under Node 20: 2 × f64 lanes (128-bit), multiply and add
+ * rounded apart (no fused multiply-add without relaxed SIMD), AVX's three-operand encoding (which V8 emits). The
+ * same C loop built so isolates what the wider lanes and fused multiply-add give the native build.
+ */
+export const SAME_WIDTH_FLAGS = [...NATIVE_FLAGS, "-mno-avx512f", "-mno-avx2", "-mno-fma", "-mprefer-vector-width=128"];
+
 /** The built reference, or a note why there is none (no C compiler, or the build failed). */
-export function buildCompiledReference(): CompiledReference | { missing: string } {
+export function buildCompiledReference(flags: readonly string[] = NATIVE_FLAGS): CompiledReference | { missing: string } {
   let compiler: string;
   try {
     compiler = execFileSync("cc", ["--version"], { encoding: "utf8" }).split("\n")[0];
@@ -31,12 +41,12 @@ export function buildCompiledReference(): CompiledReference | { missing: string 
   }
   const binary = join(mkdtempSync(join(tmpdir(), "antisolar-mie-ref-")), "mie-reference");
   try {
-    execFileSync("cc", ["-O3", "-march=native", "-o", binary, repoPath("bench/reference/mie-reference.c"), "-lm"], { stdio: "pipe" });
+    execFileSync("cc", [...flags, "-o", binary, repoPath("bench/reference/mie-reference.c"), "-lm"], { stdio: "pipe" });
   } catch (error) {
-    return { missing: `\`cc -O3 -march=native\` failed (${(error as Error).message.split("\n")[0]}): the compiled reference was not run` };
+    return { missing: `\`cc ${flags.join(" ")}\` failed (${(error as Error).message.split("\n")[0]}): the compiled reference was not run` };
   }
   return {
-    compiler: `${compiler}, -O3 -march=native`,
+    compiler: `${compiler}, ${flags.join(" ")}`,
     run({ mRe, mIm, fromDeg, toDeg, stepDeg, sizeParameters, reps }) {
       const args = [mRe, mIm, fromDeg, toDeg, stepDeg, reps, ...sizeParameters].map(String);
       const [totalMs, coefficientsMs, amplitudesMs, checksum] = execFileSync(binary, args, { encoding: "utf8" }).trim().split(/\s+/).map(Number);

@@ -5,7 +5,7 @@ import { simdAmplitudesAvailable, simdArithmetic } from "../lib/mie/simd-amplitu
 import { mieTermCount } from "../lib/mie/termCount.js";
 import { mieAmplitudesManyDrops } from "../lib/mie/many-drops.js";
 import { allocateAmplitudes } from "../lib/mie/types.js";
-import { buildCompiledReference, type CompiledReference } from "./compiled-reference.js";
+import { buildCompiledReference, SAME_WIDTH_FLAGS, type CompiledReference } from "./compiled-reference.js";
 import { timeIt } from "./timing.js";
 
 export interface MieWorkload {
@@ -72,6 +72,8 @@ export interface MieBenchRow {
     coefficientSpeed: number;
     /** |Σ ours − Σ compiled| / Σ compiled of Σ |S1|² + |S2|² over drops and angles. */
     checksumRelDiff: number;
+    /** The same C built for WebAssembly SIMD's instruction set (SAME_WIDTH_FLAGS): its amplitude time, and it ÷ ours. */
+    sameWidth: null | { amplitudesMs: number; amplitudeSpeed: number };
   };
 }
 
@@ -139,7 +141,7 @@ function manyDropsChecksum(w: MieWorkload, cosT: Float64Array): number {
  * Ours and the compiled reference in alternating rounds (ours, compiled, ours, …), each round the median of a few
  * passes; the figures are medians over the rounds, so that a burst of load from other processes hits both sides.
  */
-export function benchMie(workloads: MieWorkload[] = mieWorkloads, rounds = 5): { rows: MieBenchRow[]; compiler: string } {
+export function benchMie(workloads: MieWorkload[] = mieWorkloads, rounds = 5): { rows: MieBenchRow[]; compiler: string; sameWidthCompiler: string | null } {
   // V8 runs WebAssembly from its baseline compiler until the function has run a while: warm it up first, as a
   // running service has, so that the first row is not the only one timed on baseline code.
   const warmUp = mieCoefficients(1.333, 0, 3000);
@@ -147,6 +149,8 @@ export function benchMie(workloads: MieWorkload[] = mieWorkloads, rounds = 5): {
   for (let i = 0; i < 5; i++) mieAmplitudes(warmUp, warmUpCos);
   const reference = buildCompiledReference();
   const compiledRef: CompiledReference | null = "missing" in reference ? null : reference;
+  const narrow = compiledRef && buildCompiledReference(SAME_WIDTH_FLAGS);
+  const sameWidthRef: CompiledReference | null = narrow && !("missing" in narrow) ? narrow : null;
   const rows = workloads.map((w): MieBenchRow => {
     const cosT = cosines(w);
     const angles = cosT.length;
@@ -154,6 +158,7 @@ export function benchMie(workloads: MieWorkload[] = mieWorkloads, rounds = 5): {
     const passes = 3;
     const ours: { coefficientsMs: number; amplitudesMs: number }[] = [];
     const compiled: { coefficientsMs: number; amplitudesMs: number }[] = [];
+    const sameWidth: number[] = [];
     const speeds: number[] = [];
     let checksum = 0;
     let compiledChecksum = 0;
@@ -169,6 +174,7 @@ export function benchMie(workloads: MieWorkload[] = mieWorkloads, rounds = 5): {
         compiled.push(c);
         speeds.push(c.totalMs / (o.coefficientsMs + o.amplitudesMs));
       }
+      if (sameWidthRef) sameWidth.push(sameWidthRef.run({ ...w, reps: passes }).amplitudesMs);
     }
     const coefficientsMs = median(ours.map((o) => o.coefficientsMs));
     const amplitudesMs = median(ours.map((o) => o.amplitudesMs));
@@ -193,11 +199,12 @@ export function benchMie(workloads: MieWorkload[] = mieWorkloads, rounds = 5): {
             amplitudeSpeed: cAmplitudesMs / amplitudesMs,
             coefficientSpeed: cCoefficientsMs / coefficientsMs,
             checksumRelDiff: Math.abs(checksum - compiledChecksum) / compiledChecksum,
+            sameWidth: sameWidthRef ? { amplitudesMs: median(sameWidth), amplitudeSpeed: median(sameWidth) / amplitudesMs } : null,
           }
         : null,
     };
   });
-  return { rows, compiler: compiledRef ? compiledRef.compiler : (reference as { missing: string }).missing };
+  return { rows, compiler: compiledRef ? compiledRef.compiler : (reference as { missing: string }).missing, sameWidthCompiler: sameWidthRef?.compiler ?? null };
 }
 
 export const mieKernelName = simdAmplitudesAvailable

@@ -7,6 +7,7 @@ import { drawProfilePlot } from "./profile-plot.js";
 import { drawChromaticity } from "./chromaticity.js";
 import { drawSkyView } from "./sky-view.js";
 import { runAsJob, tooCostly } from "./job-runner.js";
+import { renderSequencePreview } from "./sequence-preview.js";
 
 const $ = (id) => document.getElementById(id);
 const form = $("controls");
@@ -343,20 +344,25 @@ const exportKinds = {
   "view-exr": {
     label: "camera view (OpenEXR, premultiplied RGBA)",
     url: () => "/v1/view?format=exr",
-    body: (b) => {
-      const { scenario, polariserDeg } = scenarioOf(b, { keepSunElevation: false });
-      return {
-        scenario,
-        camera: { horizontalFovDeg: Number($("fov").value), pitchDeg: Number($("pitch").value), widthPx: 1280, heightPx: 720 },
-        ...viewLight(b),
-        output: { vision: b.output.vision },
-        ...(polariserDeg === undefined ? {} : { polariserDeg }),
-        ...($("water").checked ? { waterSurface: { kind: "calm" } } : {}),
-      };
-    },
+    body: (b) => viewBody(b, viewLight(b), 1280, 720),
     ext: "-view.exr",
   },
 };
+
+/** POST /v1/view's body for the page's scene, camera (tilt, field of view, water) and the given light. */
+function viewBody(b, light, widthPx, heightPx) {
+  const { scenario, polariserDeg } = scenarioOf(b, { keepSunElevation: false });
+  // A view's scenario has no Lorenz–Mie size density of its own (the service chooses it): sent, it is a 400.
+  const { mieSizesPerDecade, ...viewScenario } = scenario;
+  return {
+    scenario: viewScenario,
+    camera: { horizontalFovDeg: Number($("fov").value), pitchDeg: Number($("pitch").value), widthPx, heightPx },
+    ...light,
+    output: { vision: b.output.vision },
+    ...(polariserDeg === undefined ? {} : { polariserDeg }),
+    ...($("water").checked ? { waterSurface: { kind: "calm" } } : {}),
+  };
+}
 
 function lutBody(b, { keepSunElevation } = { keepSunElevation: true }) {
   const { scenario, angles } = scenarioOf(b, { keepSunElevation });
@@ -423,6 +429,67 @@ $("copy-curl").addEventListener("click", async () => {
     announce("Copying was not allowed here: the command is selected, press Ctrl+C (⌘C) to copy it.");
   }
 });
+
+// ---------- sequence preview ----------
+
+/** Frames of the last sequence preview (object URLs, freed when the next one arrives). */
+let sequenceFrames = [];
+
+function showSequenceFrame() {
+  const k = Number($("sequence-scrub").value);
+  const frame = sequenceFrames[k];
+  if (!frame) return;
+  $("sequence-frame").src = frame.url;
+  const elevation = frame.elevationDeg === null ? "" : `, ${light()} ${frame.elevationDeg.toFixed(1)}° high`;
+  $("sequence-scrub-value").textContent = `frame ${k + 1} of ${sequenceFrames.length}: ${frame.utc.slice(0, 16).replace("T", " ")} UTC${elevation}`;
+  $("sequence-frame").alt = `Camera view at ${frame.utc}${elevation}`;
+}
+
+function light() {
+  return form.elements.namedItem("light").value === "moon" ? "moon" : "sun";
+}
+
+async function renderSequence() {
+  const invalid = firstInvalid(form) ?? firstInvalid($("sequence-settings"));
+  if (invalid) {
+    announce(`Not sent: ${invalid.message}`);
+    return;
+  }
+  // The preview's spectral step: a preview of the frames, not the export.
+  const b = readForm(form, PREVIEW_STEP_NM);
+  const at = (b.moon ?? b.sun).at;
+  if (!at) {
+    announce("A sequence needs the light's position by place and time.");
+    return;
+  }
+  const fromMs = Date.parse(`${$("moment").value}:00Z`);
+  const fromUtc = new Date(fromMs).toISOString();
+  const toUtc = new Date(fromMs + Number($("sequence-hours").value) * 3_600_000).toISOString();
+  const frames = Number($("sequence-frames").value);
+  const position = { at: { ...at, utc: fromUtc } };
+  const viewLightAt = b.moon ? { moon: position } : { sun: position };
+  const controller = new AbortController();
+  state.downloads.add(controller);
+  const token = startBusy(`Rendering ${frames} frames as a background job`);
+  try {
+    const rendered = await renderSequencePreview({ viewBody: viewBody(b, viewLightAt, 320, 180), fromUtc, toUtc, frames, signal: controller.signal, bar: jobBar });
+    for (const f of sequenceFrames) URL.revokeObjectURL(f.url);
+    sequenceFrames = rendered;
+    $("sequence-scrub").max = String(rendered.length - 1);
+    $("sequence-scrub").value = "0";
+    $("sequence-viewer").hidden = false;
+    $("sequence-viewer").dataset.frames = String(rendered.length);
+    showSequenceFrame();
+    endBusy(token, `Sequence ready: ${rendered.length} frames from ${fromUtc.slice(0, 16)} to ${toUtc.slice(0, 16)} UTC; drag the slider to move through them.`);
+  } catch (error) {
+    endBusy(token, error.name === "AbortError" ? "Sequence stopped." : `The sequence failed: ${error.message}`, error.name !== "AbortError");
+  } finally {
+    state.downloads.delete(controller);
+  }
+}
+
+$("sequence-render").addEventListener("click", renderSequence);
+$("sequence-scrub").addEventListener("input", showSequenceFrame);
 
 // ---------- start ----------
 

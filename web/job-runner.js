@@ -16,13 +16,14 @@ export function tooCostly(status, error) {
 
 /**
  * Runs endpoint (profile, lut, view, figure-chromaticity …) with body and query as a job; resolves with the
- * result's Response. bar: { progress (a <progress>), text (an element) }.
+ * result's Response. bar: { progress (a <progress>), text (an element) }. extra: more fields of the job, such as
+ * { sequence } for a span of time.
  */
-export async function runAsJob(endpoint, body, query, signal, bar) {
+export async function runAsJob(endpoint, body, query, signal, bar, extra = {}) {
   const submitted = await fetch("/v1/jobs", {
     method: "POST",
     headers: { "content-type": "application/json" },
-    body: JSON.stringify({ endpoint, body, query }),
+    body: JSON.stringify({ endpoint, body, query, ...extra }),
     signal,
   });
   const job = await submitted.json();

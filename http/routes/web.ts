@@ -21,6 +21,7 @@ const WEB_FILES: ReadonlyMap<string, string> = new Map([
   ["chromaticity.js", "text/javascript; charset=utf-8"],
   ["sky-view.js", "text/javascript; charset=utf-8"],
   ["job-runner.js", "text/javascript; charset=utf-8"],
+  ["sequence-preview.js", "text/javascript; charset=utf-8"],
   ["icon.svg", "image/svg+xml"],
 ]);
 
@@ -29,7 +30,8 @@ export const WEB_CONTENT_SECURITY_POLICY = [
   "default-src 'self'",
   "script-src 'self'",
   "style-src 'self'",
-  "img-src 'self'",
+  // blob: for the frames of a sequence preview, unpacked in the page from the job's archive.
+  "img-src 'self' blob:",
   "connect-src 'self'",
   "object-src 'none'",
   "base-uri 'none'",

@@ -3,8 +3,11 @@
 // non-spherical drops: the wavefront of each scattering plane is taken with its own caustic angle Θ_R and its own
 // cubic coefficient, as in Möbius (1910, Ann. Phys. 338, 1493, spheroids; from memory) and Können (1987, J. Opt.
 // Soc. Am. A 4, 810, flattened raindrops; from memory). Here nothing is expanded by hand: the two rays of the
-// fold are traced in 3D (lib/rays/plane-sweep.ts), their amplitudes come from the traced Jacobian and their
-// phase difference from the traced optical paths, so the sphere's table is reproduced exactly in the limit.
+// fold come from the rays traced in 3D (lib/rays/plane-sweep.ts), their amplitudes from the traced Jacobian and
+// their phase difference from the traced optical paths, so the sphere's table is reproduced in the limit. The
+// rays at each bin's angle, the fold and its derivatives are read off the sweep by cubic interpolation
+// (lib/rays/sweep-cubic.ts) rather than traced again: the sweep is dense enough that the interpolated ray, traced,
+// lands within 1e-9 rad of its angle (test/lib/bow/plane-bow-table.test.ts).
 //
 // With the fold parametrised by the pupil abscissa u: Θ(u) ≈ Θ_R ± ½Θ″(u − u_R)², the exit ray's offset s(u)
 // (Hamilton: dW/dΘ = ±s, Born & Wolf 1999 §3.1 characteristic function, from memory) and the amplitude per unit
@@ -12,22 +15,20 @@
 //   ξ per radian κ = |s′|^{2/3}(2/|Θ″|)^{1/3},  C = 4π·2^{−1/3}·Ã²·|s′|^{1/3}/|Θ″|^{2/3},
 //   D = 4π·2^{1/3}·Ã′²·|s′|^{−1/3}/|Θ″|^{4/3}   (sphere: s′ = 1, Ã² = ε²b/sinΘ, lib/rays/airy-bow.ts).
 
-import type { PlaneRay, PlaneSweep, PlaneTracer } from "../rays/plane-sweep.js";
+import type { PlaneSweep, PlaneTracer } from "../rays/plane-sweep.js";
+import { allocateCubic, applyCubic, cubicWeights, type CubicWeights } from "../rays/sweep-cubic.js";
 import { binEdges, type UniformBowTable } from "./airy-bins.js";
 import { deviationRad, rainbowImpactParameter, scatteringAngleOfDeviation } from "../rays/descartes.js";
 
 const DEG = Math.PI / 180;
 /** Golden-section steps for the rainbow ray: 0.618⁶⁰ of a sample spacing pins u_R far below rounding of Θ. */
 const GOLDEN_STEPS = 60;
-/** Step (units of a) of the differences for Θ″, s′ and Ã′ at the rainbow ray (error ~ step² ≈ 1e-6 relative). */
-const FOLD_STEP = 1e-3;
 /** Roots are refined until Θ is within this of the target (radians): a phase error x·s·1e-13 ≪ 1 for x < 1e6. */
 const ROOT_TOLERANCE_RAD = 1e-13;
 const ROOT_STEPS = 60;
 
 export interface PlaneFold {
   uR: number;
-  vR: number;
   thetaR: number;
   /** True when the lit side (two rays) is Θ > Θ_R. */
   litAbove: boolean;
@@ -36,9 +37,26 @@ export interface PlaneFold {
   outer: [number, number];
 }
 
+/** One ray of a bow's pair at a given angle, read off the sweep. */
+export interface FoldRay {
+  u: number;
+  /** Far-field optical path, units of a. */
+  path: number;
+  /** a/x = Ã/√|dΘ/du| for ⟂ and ∥ (single-ray |S|²/x² = |A|²/|∂(Θ,Y)/∂(u,v)| = Ã²/|dΘ/du| along the curve v*(u)). */
+  perp: number;
+  par: number;
+}
+
 /** Θ in the half-plane (radians, positive), NaN where the sample is not in it. */
 function sideTheta(sweep: PlaneSweep, side: 1 | -1): Float64Array {
   return sweep.thetaSigned.map((t, s) => (sweep.ok[s] && side * t > 0 ? side * t : Number.NaN));
+}
+
+const cubic: CubicWeights = allocateCubic();
+
+/** Interpolation weights at u over the fold's run of samples (both pieces: Θ(u) is smooth through the fold). */
+function weightsAt(sweep: PlaneSweep, fold: Pick<PlaneFold, "inner" | "outer">, u: number): CubicWeights {
+  return cubicWeights(sweep.u, fold.inner[0], fold.outer[1], u, cubic);
 }
 
 /**
@@ -46,7 +64,7 @@ function sideTheta(sweep: PlaneSweep, side: 1 | -1): Float64Array {
  * flattened or tilted drop can have further folds (near the backward direction, or where the sphere's bow splits),
  * whose light stays ray optics (bin means, finite); null if the order has no fold there.
  */
-export function findFold(tracer: PlaneTracer, sweep: PlaneSweep, side: 1 | -1, nearRad: number): PlaneFold | null {
+export function findFold(sweep: PlaneSweep, side: 1 | -1, nearRad: number): PlaneFold | null {
   const t = sideTheta(sweep, side);
   const joined = (s: number) => !Number.isNaN(t[s]) && !Number.isNaN(t[s + 1]) && Math.abs(t[s + 1] - t[s]) < Math.PI / 2;
   let best = -1;
@@ -56,16 +74,22 @@ export function findFold(tracer: PlaneTracer, sweep: PlaneSweep, side: 1 | -1, n
   }
   if (best < 0) return null;
   const isMin = t[best] < t[best - 1];
-  const p = sweep.order;
-  const thetaAt = (u: number) => {
-    const ray = tracer.planeRay(u, sweep.v[best], p);
-    return ray === null ? Number.NaN : side * ray.thetaSigned;
-  };
+  // The monotone pieces on each side, walking away from the fold until Θ turns again or the run breaks.
+  const direction = (s: number) => Math.sign(t[s + 1] - t[s]);
+  const leftDir = direction(best - 1);
+  let first = best - 1;
+  while (first - 1 >= 0 && joined(first - 1) && direction(first - 1) === leftDir) first--;
+  const rightDir = direction(best);
+  let last = best + 1;
+  while (last + 1 < t.length && joined(last) && direction(last) === rightDir) last++;
+  // The cubics need four samples.
+  if (last - first < 3) return null;
+  const run = { inner: [first, first] as [number, number], outer: [last, last] as [number, number] };
+  const score = (u: number) => (isMin ? 1 : -1) * side * applyCubic(weightsAt(sweep, run, u).value, cubic.first, sweep.thetaSigned);
   // Golden-section search for the extremum of Θ(u) between the neighbouring samples (Press et al. 2007 §10.2).
   let a = sweep.u[best - 1];
   let b = sweep.u[best + 1];
   const g = (Math.sqrt(5) - 1) / 2;
-  const score = (u: number) => (isMin ? thetaAt(u) : -thetaAt(u));
   let c = b - g * (b - a);
   let d = a + g * (b - a);
   let fc = score(c);
@@ -86,22 +110,11 @@ export function findFold(tracer: PlaneTracer, sweep: PlaneSweep, side: 1 | -1, n
     }
   }
   const uR = 0.5 * (a + b);
-  const ray = tracer.planeRay(uR, sweep.v[best], p);
-  if (ray === null) return null;
-  // The monotone pieces on each side, walking away from the fold until Θ turns again or the run breaks.
-  const direction = (s: number) => Math.sign(t[s + 1] - t[s]);
-  const leftDir = direction(best - 1);
-  let first = best - 1;
-  while (first - 1 >= 0 && joined(first - 1) && direction(first - 1) === leftDir) first--;
-  const rightDir = direction(best);
-  let last = best + 1;
-  while (last + 1 < t.length && joined(last) && direction(last) === rightDir) last++;
   // Sample `best` lies on one side of u_R; each piece keeps its own samples (u ascending with the index).
   const bestIsLeft = sweep.u[best] < uR;
   return {
     uR,
-    vR: ray.v,
-    thetaR: side * ray.thetaSigned,
+    thetaR: (isMin ? 1 : -1) * score(uR),
     litAbove: isMin,
     inner: [first, bestIsLeft ? best : best - 1],
     outer: [bestIsLeft ? best + 1 : best, last],
@@ -116,18 +129,15 @@ interface FoldConstants {
   dPar: number;
 }
 
-function foldConstants(tracer: PlaneTracer, fold: PlaneFold, p: number): FoldConstants | null {
-  const h = FOLD_STEP;
-  const rays = [fold.uR - h, fold.uR, fold.uR + h].map((u) => tracer.planeRay(u, fold.vR, p));
-  if (rays.some((r) => r === null)) return null;
-  const [lo, mid, hi] = rays as PlaneRay[];
-  const curvature = Math.abs((lo.thetaSigned + hi.thetaSigned - 2 * mid.thetaSigned) / (h * h));
-  const offsetSlope = Math.abs((hi.offset - lo.offset) / (2 * h));
-  const tilde = (r: PlaneRay, amp: number) => amp / Math.sqrt(Math.abs(r.yv));
-  const aPerp = tilde(mid, mid.ampPerp);
-  const aPar = tilde(mid, mid.ampPar);
-  const slopePerp = (tilde(hi, hi.ampPerp) - tilde(lo, lo.ampPerp)) / (2 * h);
-  const slopePar = (tilde(hi, hi.ampPar) - tilde(lo, lo.ampPar)) / (2 * h);
+function foldConstants(sweep: PlaneSweep, fold: PlaneFold): FoldConstants {
+  const w = weightsAt(sweep, fold, fold.uR);
+  const at = (weights: Float64Array, values: Float64Array) => applyCubic(weights, w.first, values);
+  const curvature = Math.abs(at(w.curvature, sweep.thetaSigned));
+  const offsetSlope = Math.abs(at(w.slope, sweep.offset));
+  const aPerp = at(w.value, sweep.perpAmp);
+  const aPar = at(w.value, sweep.parAmp);
+  const slopePerp = at(w.slope, sweep.perpAmp);
+  const slopePar = at(w.slope, sweep.parAmp);
   const cScale = (4 * Math.PI * 2 ** (-1 / 3) * offsetSlope ** (1 / 3)) / curvature ** (2 / 3);
   const dScale = (4 * Math.PI * 2 ** (1 / 3)) / (offsetSlope ** (1 / 3) * curvature ** (4 / 3));
   return {
@@ -139,63 +149,38 @@ function foldConstants(tracer: PlaneTracer, fold: PlaneFold, p: number): FoldCon
   };
 }
 
-/** The ray of the piece [first, last] (plus the fold's end) reaching Θ = target, refined; null if the piece does not reach it. */
-function rootInPiece(
-  tracer: PlaneTracer,
-  sweep: PlaneSweep,
-  side: 1 | -1,
-  fold: PlaneFold,
-  piece: [number, number],
-  atFoldEnd: "first" | "last",
-  target: number,
-): PlaneRay | null {
-  const p = sweep.order;
-  // Nodes of the piece in index order, with the fold itself at its end.
-  const us: number[] = [];
-  const vs: number[] = [];
-  const ts: number[] = [];
-  if (atFoldEnd === "first") {
-    us.push(fold.uR);
-    vs.push(fold.vR);
-    ts.push(fold.thetaR);
-  }
-  for (let s = piece[0]; s <= piece[1]; s++) {
-    us.push(sweep.u[s]);
-    vs.push(sweep.v[s]);
-    ts.push(side * sweep.thetaSigned[s]);
-  }
-  if (atFoldEnd === "last") {
-    us.push(fold.uR);
-    vs.push(fold.vR);
-    ts.push(fold.thetaR);
-  }
+/** The ray of the piece [first, last] (plus the fold's end) reaching Θ = target; null if the piece does not reach it. */
+function rootInPiece(sweep: PlaneSweep, side: 1 | -1, fold: PlaneFold, piece: [number, number], atFoldEnd: "first" | "last", target: number): FoldRay | null {
+  // Nodes of the piece in index order, with the fold itself at its end (read in place: pieces are long).
+  const count = piece[1] - piece[0] + 2;
+  const offset = atFoldEnd === "first" ? -1 : 0;
+  const isFold = (k: number) => (atFoldEnd === "first" ? k === 0 : k === count - 1);
+  const uAt = (k: number) => (isFold(k) ? fold.uR : sweep.u[piece[0] + k + offset]);
+  const tAt = (k: number) => (isFold(k) ? fold.thetaR : side * sweep.thetaSigned[piece[0] + k + offset]);
   // Θ is monotone along the piece: bisect the nodes for the bracketing pair.
-  const rising = ts[ts.length - 1] > ts[0];
-  const lowT = rising ? ts[0] : ts[ts.length - 1];
-  const highT = rising ? ts[ts.length - 1] : ts[0];
+  const rising = tAt(count - 1) > tAt(0);
+  const lowT = rising ? tAt(0) : tAt(count - 1);
+  const highT = rising ? tAt(count - 1) : tAt(0);
   if (!(target >= lowT && target <= highT)) return null;
   let i = 0;
-  let j = ts.length - 1;
+  let j = count - 1;
   while (j - i > 1) {
     const m = (i + j) >> 1;
-    if (ts[m] < target === rising) i = m;
+    if (tAt(m) < target === rising) i = m;
     else j = m;
   }
-  // Illinois regula falsi between the bracketing nodes (Press et al. 2007 §9.2).
-  let ua = us[i];
-  let fa = ts[i] - target;
-  let ub = us[j];
-  let fb = ts[j] - target;
-  let vGuess = vs[i];
+  const thetaAt = (u: number) => side * applyCubic(weightsAt(sweep, fold, u).value, cubic.first, sweep.thetaSigned);
+  // Illinois regula falsi between the bracketing nodes (Press et al. 2007 §9.2), on the interpolated Θ(u).
+  let ua = uAt(i);
+  let fa = tAt(i) - target;
+  let ub = uAt(j);
+  let fb = tAt(j) - target;
   let keep = 0;
   let u = ua;
   for (let it = 0; it < ROOT_STEPS; it++) {
     u = fb === fa ? 0.5 * (ua + ub) : ub - (fb * (ub - ua)) / (fb - fa);
     if (!(u > Math.min(ua, ub) && u < Math.max(ua, ub))) u = 0.5 * (ua + ub);
-    const ray = tracer.planeRay(u, vGuess, p);
-    if (ray === null) return null;
-    vGuess = ray.v;
-    const f = side * ray.thetaSigned - target;
+    const f = thetaAt(u) - target;
     if (Math.abs(f) < ROOT_TOLERANCE_RAD || Math.abs(ub - ua) < 1e-15) break;
     if (f * fb < 0) {
       ua = ub;
@@ -207,7 +192,21 @@ function rootInPiece(
     ub = u;
     fb = f;
   }
-  return tracer.planeRay(u, vGuess, p, true);
+  const w = weightsAt(sweep, fold, u);
+  const root = 1 / Math.sqrt(Math.abs(applyCubic(w.slope, w.first, sweep.thetaSigned)));
+  return {
+    u,
+    path: applyCubic(w.value, w.first, sweep.path),
+    perp: applyCubic(w.value, w.first, sweep.perpAmp, root),
+    par: applyCubic(w.value, w.first, sweep.parAmp, root),
+  };
+}
+
+/** The fold's two rays (inner piece, outer piece) at Θ = targetRad on its lit side; null where either piece ends first. */
+export function foldPair(sweep: PlaneSweep, side: 1 | -1, fold: PlaneFold, targetRad: number): [FoldRay, FoldRay] | null {
+  const inner = rootInPiece(sweep, side, fold, fold.inner, "last", targetRad);
+  const outer = rootInPiece(sweep, side, fold, fold.outer, "first", targetRad);
+  return inner === null || outer === null ? null : [inner, outer];
 }
 
 /**
@@ -216,7 +215,7 @@ function rootInPiece(
  * the order are the caller's, as ray optics). Null when the order has no fold in this half-plane.
  */
 export function planeBowTable(
-  tracer: PlaneTracer,
+  tracer: Pick<PlaneTracer, "setup">,
   sweep: PlaneSweep,
   side: 1 | -1,
   thetaDeg: Float64Array,
@@ -225,10 +224,9 @@ export function planeBowTable(
   const descartes = rainbowImpactParameter(tracer.setup.n, sweep.order - 1);
   if (descartes === null) return null;
   const nearRad = scatteringAngleOfDeviation(deviationRad(tracer.setup.n, sweep.order - 1, descartes)).angle;
-  const fold = findFold(tracer, sweep, side, nearRad);
+  const fold = findFold(sweep, side, nearRad);
   if (fold === null) return null;
-  const constants = foldConstants(tracer, fold, sweep.order);
-  if (constants === null) return null;
+  const constants = foldConstants(sweep, fold);
   const count = thetaDeg.length;
   const pairSegments = new Uint8Array(sweep.u.length);
   for (let s = fold.inner[0]; s < fold.outer[1]; s++) pairSegments[s] = 1;
@@ -236,16 +234,15 @@ export function planeBowTable(
   interface AtAngle {
     zHat: number;
     single: boolean;
-    pair: [PlaneRay, PlaneRay] | null;
+    pair: [FoldRay, FoldRay] | null;
   }
   const at = (m: number): AtAngle => {
     const target = (halfFirstDeg + (m * stepDeg) / 2) * DEG;
     const lit = (fold.litAbove ? 1 : -1) * (target - fold.thetaR);
     if (lit <= 0) return { zHat: -constants.kappa * -lit, single: false, pair: null };
-    const inner = rootInPiece(tracer, sweep, side, fold, fold.inner, "last", target);
-    const outer = rootInPiece(tracer, sweep, side, fold, fold.outer, "first", target);
-    if (inner === null || outer === null) return { zHat: Number.NaN, single: true, pair: null };
-    return { zHat: Math.cbrt(0.75 * Math.abs(inner.path - outer.path)) ** 2, single: false, pair: [inner, outer] };
+    const pair = foldPair(sweep, side, fold, target);
+    if (pair === null) return { zHat: Number.NaN, single: true, pair: null };
+    return { zHat: Math.cbrt(0.75 * Math.abs(pair[0].path - pair[1].path)) ** 2, single: false, pair };
   };
   const { zHatEdges, singleEdge } = binEdges(count, at);
   const table: UniformBowTable = {
@@ -270,15 +267,12 @@ export function planeBowTable(
       table.vPar[j] = constants.dPar;
       continue;
     }
-    // a_i/x = A_i/√|det_i| (single-ray |S|²/x² = |A|²/|∂(Θ,Y)/∂(u,v)|, lib/rays/plane-sweep.ts).
     const [r1, r2] = centre.pair;
-    const w1 = 1 / Math.sqrt(Math.abs(r1.det));
-    const w2 = 1 / Math.sqrt(Math.abs(r2.det));
     const z = centre.zHat;
-    const sumPerp = r1.ampPerp * w1 + r2.ampPerp * w2;
-    const difPerp = r1.ampPerp * w1 - r2.ampPerp * w2;
-    const sumPar = r1.ampPar * w1 + r2.ampPar * w2;
-    const difPar = r1.ampPar * w1 - r2.ampPar * w2;
+    const sumPerp = r1.perp + r2.perp;
+    const difPerp = r1.perp - r2.perp;
+    const sumPar = r1.par + r2.par;
+    const difPar = r1.par - r2.par;
     table.uPerp[j] = Math.PI * sumPerp * sumPerp * Math.sqrt(z);
     table.uPar[j] = Math.PI * sumPar * sumPar * Math.sqrt(z);
     table.vPerp[j] = (Math.PI * difPerp * difPerp) / Math.sqrt(z);

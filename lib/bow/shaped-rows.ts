@@ -5,7 +5,7 @@ import { cantingNodesFive } from "../drops/shape/canting.js";
 import { equilibriumOutline } from "../drops/shape/equilibrium-shape.js";
 import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
-import { shapedPlaneContext, shapedPlaneRow } from "./shaped-plane-rows.js";
+import { shapedPlaneContext, shapedPlaneRow, type ShapedPlaneContext } from "./shaped-plane-rows.js";
 
 /** Drops below this radius stay spheres under "equilibrium": see EQUILIBRIUM_NOTE. */
 export const FLATTENED_FROM_RADIUS_UM = 150;
@@ -39,10 +39,16 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
   };
 }
 
+/**
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (2: bow pairs read
+ * off the sweep, rows move by ≤ 2e-3 relative), so that only these rows are recomputed, not every kernel row.
+ */
+export const SHAPED_ENGINE_VERSION = 2;
+
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
   const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : "eq";
-  return `shape:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}`;
+  return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}`;
 }
 
 /** A kernel row variant (rowVariant) with the shape of a drop that is not a sphere appended: its rows are other rows. */
@@ -68,20 +74,38 @@ export function shapedDropRow(
   perp: Float64Array,
   par: Float64Array,
 ): void {
-  const outline = outlineFor(spec, radiusUm);
-  const plane = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
-  const options = spec.rayOnly ? { rayOrders: [0, 1, 2, 3], bowOrders: [] } : {};
+  const contexts = cantingContexts(spec, mRe, radiusUm, thetaDeg, stepDeg);
   const rowPerp = new Float64Array(perp.length);
   const rowPar = new Float64Array(par.length);
   perp.fill(0);
   par.fill(0);
-  for (const node of cantingNodesFive(spec.cantingSdDeg)) {
-    const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
-    const ctx = shapedPlaneContext({ outline, axis, n: mRe }, plane, 1, thetaDeg, stepDeg, options);
+  for (const { weight, ctx } of contexts) {
     shapedPlaneRow(ctx, x, rowPerp, rowPar);
     for (let j = 0; j < perp.length; j++) {
-      perp[j] += node.weight * rowPerp[j];
-      par[j] += node.weight * rowPar[j];
+      perp[j] += weight * rowPerp[j];
+      par[j] += weight * rowPar[j];
     }
   }
+}
+
+/**
+ * The last canting nodes' contexts: everything in them scales with x, so drops of one shape (a spheroid's fixed axis
+ * ratio, at every radius of a kernel task: one wavelength, one grid) share them. Equilibrium shapes change with the
+ * radius, which is then part of the key.
+ */
+let lastContexts: { key: string; contexts: { weight: number; ctx: ShapedPlaneContext }[] } | null = null;
+
+function cantingContexts(spec: ShapedRowSpec, mRe: number, radiusUm: number, thetaDeg: Float64Array, stepDeg: number) {
+  const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : `eq${radiusUm}`;
+  const key = `${shapedRowKey(spec)}|${shape}|${mRe}|${thetaDeg[0]}|${thetaDeg.length}|${stepDeg}`;
+  if (lastContexts?.key === key) return lastContexts.contexts;
+  const outline = outlineFor(spec, radiusUm);
+  const plane = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
+  const options = spec.rayOnly ? { rayOrders: [0, 1, 2, 3], bowOrders: [] } : {};
+  const contexts = cantingNodesFive(spec.cantingSdDeg).map((node) => ({
+    weight: node.weight,
+    ctx: shapedPlaneContext({ outline, axis: cantedAxis(node.tiltXDeg, node.tiltYDeg), n: mRe }, plane, 1, thetaDeg, stepDeg, options),
+  }));
+  lastContexts = { key, contexts };
+  return contexts;
 }

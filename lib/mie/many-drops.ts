@@ -18,6 +18,8 @@ interface Kernel {
 const PAGE_BYTES = 65536;
 const ANGLES_PER_BLOCK = 4;
 const CHUNK = wasmModules["many-drops"].constants.CHUNK;
+/** f64 values after the chunk table where the kernel keeps μ, π_{n−1}, π_n of its 2 vectors between chunks. */
+const RECURRENCE_STATE = 12;
 /**
  * Partial waves (summed over drops) packed per pass: 2^19 × 48 bytes = 24 MiB of WebAssembly memory per thread at
  * most, which the thread keeps (WebAssembly memory does not shrink); a pass with more drops would share the table
@@ -98,7 +100,7 @@ function runBatch(
   const dropsAt = ordersAt + 2 * nMax;
   const cosAt = dropsAt + 2 * Math.ceil(batch.length / 2);
   const tableAt = cosAt + blocks * ANGLES_PER_BLOCK;
-  const sumsAt = tableAt + 8 * CHUNK;
+  const sumsAt = tableAt + 8 * CHUNK + RECURRENCE_STATE;
   reserve(8 * (sumsAt + 16 * batch.length));
   const m = view();
   for (let i = 0; i < nMax; i++) {

@@ -46,6 +46,8 @@ export class PlaneTracer {
   readonly plane: ScatteringPlane;
   readonly normal: Vec3;
   private readonly trace: TraceOutput;
+  /** The setup cut at each order: a ray of order p is traced no further than its p-th chord (orders 0 and 2 cost less). */
+  private readonly upTo: DropTraceSetup[];
   private readonly launch: number;
   private readonly parIn: Vec3;
 
@@ -58,6 +60,7 @@ export class PlaneTracer {
     // Incident parallel basis e∥ = e⊥ × d_in (and e∥_out = e⊥ × d_out at the exit): the same handedness both sides.
     this.parIn = [nrm[1] * a[2] - nrm[2] * a[1], nrm[2] * a[0] - nrm[0] * a[2], nrm[0] * a[1] - nrm[1] * a[0]];
     this.trace = allocateTrace(setup.maxOrder);
+    this.upTo = Array.from({ length: setup.maxOrder + 1 }, (_, p) => ({ ...setup, maxOrder: p }));
     this.launch = 2 * setup.outline.maxRadius + 1;
   }
 
@@ -67,7 +70,7 @@ export class PlaneTracer {
     const { dIn, e } = this.plane;
     const n = this.normal;
     for (let c = 0; c < 3; c++) this.o[c] = u * e[c] + v * n[c] - this.launch * dIn[c];
-    traceDrop(this.setup, this.o, dIn, n, this.parIn, this.trace);
+    traceDrop(this.upTo[p], this.o, dIn, n, this.parIn, this.trace);
     return this.trace.hit && this.trace.orders[p * ORDER_STRIDE + AT.valid] === 1;
   }
 
@@ -188,6 +191,12 @@ export interface PlaneSweep {
   /** |A_j|²/|∂Y/∂v|: power per unit u and unit Y, ⟂ and ∥. */
   perpPerU: Float64Array;
   parPerU: Float64Array;
+  /** The same as signed amplitudes Ã = A/√|∂Y/∂v| (the sign kept for the interference of a bow's two rays). */
+  perpAmp: Float64Array;
+  parAmp: Float64Array;
+  /** Far-field optical path W and exit offset (PlaneRay's path and offset). */
+  path: Float64Array;
+  offset: Float64Array;
   v: Float64Array;
 }
 
@@ -200,6 +209,10 @@ export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number)
     thetaSigned: new Float64Array(count),
     perpPerU: new Float64Array(count),
     parPerU: new Float64Array(count),
+    perpAmp: new Float64Array(count),
+    parAmp: new Float64Array(count),
+    path: new Float64Array(count),
+    offset: new Float64Array(count),
     v: new Float64Array(count),
   };
   for (const sign of [1, -1] as const) {
@@ -216,8 +229,13 @@ export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number)
       sweep.ok[index] = 1;
       sweep.thetaSigned[index] = ray.thetaSigned;
       sweep.v[index] = ray.v;
-      sweep.perpPerU[index] = (ray.ampPerp * ray.ampPerp) / Math.abs(ray.yv);
-      sweep.parPerU[index] = (ray.ampPar * ray.ampPar) / Math.abs(ray.yv);
+      const root = Math.sqrt(Math.abs(ray.yv));
+      sweep.perpAmp[index] = ray.ampPerp / root;
+      sweep.parAmp[index] = ray.ampPar / root;
+      sweep.perpPerU[index] = sweep.perpAmp[index] ** 2;
+      sweep.parPerU[index] = sweep.parAmp[index] ** 2;
+      sweep.path[index] = ray.path;
+      sweep.offset[index] = ray.offset;
     }
   }
   return sweep;

@@ -6,9 +6,10 @@ import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
 import { computeProfile, requestHash, type ProfileDeps, type ProfileResult } from "./profile.js";
+import { rowsProgress } from "../progress/rows-progress.js";
 import { AUTO_MIE_BUDGET_TERM_ANGLES } from "../../lib/bow/engine-choice.js";
 import type { LutManifest } from "../../schemas/responses/lut-response.js";
-import { ProgressMeter, type ProgressListener } from "../progress/progress-meter.js";
+import type { ProgressListener } from "../progress/progress-meter.js";
 
 /** Density of liquid water for the number density of a row at given liquid water content (common practice). */
 const WATER_DENSITY_G_PER_M3 = 1e6;
@@ -72,22 +73,22 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
   const warnings = new Set<string>();
   let first: ProfileResult | undefined;
   const transmittance: number[] = [];
-  // One stage per row, of equal cost: rows are counted as they are done.
-  const stageNames = rows.map((_, j) => `row ${j + 1} of ${rows.length}`);
-  const progress = new ProgressMeter(stageNames, onProgress);
-  for (const name of stageNames) progress.plan(name, 1);
+  // The rows share auto's Mie budget, so that a texture costs about what one profile does.
+  const resolution = { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length };
+  const rowBody = (j: number): ProfileRequest => ({
+    ...profileDefaults,
+    ...request.scenario,
+    drops: rows[j].drops,
+    angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
+    output: { ...profileDefaults.output, space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
+  });
+  const progress = onProgress ? rowsProgress(rows.length, (j) => [rowBody(j), resolution], deps.kernels.parallelism, onProgress) : undefined;
 
   for (let j = 0; j < rows.length; j++) {
-    const body: ProfileRequest = {
-      ...profileDefaults,
-      ...request.scenario,
-      drops: rows[j].drops,
-      angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
-      output: { ...profileDefaults.output, space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
-    };
-    // The rows share auto's Mie budget, so that a texture costs about what one profile does.
-    const profile = await computeProfile(body, deps, { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length });
-    progress.complete(stageNames[j]);
+    const body = rowBody(j);
+    const part = progress?.part(j);
+    const profile = await computeProfile(body, { ...deps, progress: part }, resolution);
+    part?.done();
     first ??= profile;
     for (const w of profile.meta.warnings) warnings.add(w);
     const t = curtainTransmittance(profile.quadrature, body.water, body.pathLengthM).transmittance;
@@ -103,7 +104,7 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     }
   }
 
-  progress.done();
+  progress?.meter.done();
   const mapping = request.angles.mapping;
   const manifest: LutManifest = {
     width,

@@ -25,7 +25,7 @@ import { ClientError } from "../requests/client-error.js";
 import { planDropShapes, shapedCostTermAngles } from "./drop-shape-plan.js";
 import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
-import { COST_NS } from "../progress/work-costs.js";
+import { laterWorkNs } from "../progress/profile-work.js";
 
 /** The stages of a profile's progress, in order (a render adds its encoding after them: PROFILE_RENDER_STAGES). */
 export const PROFILE_STAGES = ["kernels", "spectral", "colour"] as const;
@@ -152,9 +152,12 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
   return chooseAutoFor(quadrature.radiiUm, wl, span, resolution);
 }
 
-export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
-  const { limits } = deps;
-  const started = performance.now();
+/**
+ * Everything about a profile that is known before any work: wavelengths, drops on their radius nodes, engines,
+ * Lorenz–Mie averaging, shapes, the lattice span and the estimated cost. computeProfile runs it first; answers made
+ * of several profiles (lookup textures, size maps) run it for each of their rows to weigh their progress.
+ */
+export function planProfile(request: ProfileRequest, resolution: ProfileResolution = {}) {
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
   const wl = wavelengthsNm(grid);
@@ -217,6 +220,16 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   const blocks = blocksOf(span);
   // Flattened drops' rows are counted in Mie term-angles' worth of work (drop-shape-plan.ts).
   const cost = mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1);
+  return { warnings, grid, wl, media, waterSource, distribution, count, angles, h, span, quadrature, autoChoice, engine, density, averages, shapePlan, blocks, cost };
+}
+
+export type ProfilePlan = ReturnType<typeof planProfile>;
+
+export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
+  const { limits } = deps;
+  const started = performance.now();
+  const plan = planProfile(request, resolution);
+  const { warnings, grid, media, waterSource, count, angles, h, span, quadrature, autoChoice, engine, density, shapePlan, blocks, cost, averages } = plan;
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",
@@ -231,12 +244,11 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
 
   const engines = Array.from(quadrature.radiiUm, engine);
   const progress = deps.progress;
-  // The sum over drops and the sun's disc, per wavelength (lattice-profile.ts), and the colour of every output angle.
-  const spanSamples = span.last - span.first + 1;
-  const discSamples = Math.ceil(request.sun.discDeg / h) + 1;
-  const spectralNsPerWavelength = spanSamples * (quadrature.weights.filter((w) => w !== 0).length * COST_NS.sumSample + discSamples * COST_NS.discSample);
-  progress?.plan("spectral", grid.count * spectralNsPerWavelength);
-  progress?.plan("colour", grid.count * count * COST_NS.colourSample);
+  const later = progress ? laterWorkNs(request, plan) : undefined;
+  if (later) {
+    progress?.plan("spectral", later.spectralNs);
+    progress?.plan("colour", later.colourNs);
+  }
   const kernelStarted = performance.now();
   const rows = await deps.kernels.rows(
     { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } },
@@ -265,7 +277,8 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
   let step = steps.next();
   let wavelengthsDone = 0;
   while (!step.done) {
-    progress?.advance("spectral", ++wavelengthsDone * spectralNsPerWavelength);
+    wavelengthsDone++;
+    if (later) progress?.advance("spectral", wavelengthsDone * later.spectralNsPerWavelength);
     await new Promise<void>((resolve) => setImmediate(resolve));
     step = steps.next();
   }

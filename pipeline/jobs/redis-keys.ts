@@ -4,6 +4,8 @@ export function redisKeys(prefix: string) {
   return {
     record: (id: string) => `${prefix}:job:${id}`,
     result: (hash: string) => `${prefix}:result:${hash}`,
+    /** A sequence job's finished frames while it runs (pipeline/jobs/redis-frame-store.ts). */
+    frames: (hash: string) => `${prefix}:frames:${hash}`,
     events: (id: string) => `${prefix}:events:${id}`,
     eventsPattern: `${prefix}:events:*`,
     cancel: `${prefix}:cancel`,

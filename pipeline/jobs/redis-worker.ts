@@ -14,6 +14,8 @@ import { encodeOutput, failureMessage, isAbort, renderJob, roundedSeconds, worke
 import { throttledProgress } from "../progress/throttled-progress.js";
 import type { QueuedJob } from "./redis-backend.js";
 import { closeRedis, reconnectDelayMs, within } from "../redis/connection.js";
+import { redisFrameStore } from "./redis-frame-store.js";
+import { SEQUENCE_RENDERER } from "../sequence/sequence-job.js";
 
 export interface WorkerOptions {
   config: JobConfig;
@@ -95,6 +97,9 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
       const left = roundedSeconds(secondsLeft);
       redis.eval(progressScript, 1, keys.record(id), String(fraction), stage, keys.events(id), left === null ? "" : String(left)).catch(() => undefined);
     });
+    // A sequence keeps each frame as it finishes: a retry after this worker died renders only the missing ones.
+    const frames =
+      spec.endpoint === SEQUENCE_RENDERER ? redisFrameStore(redis, keys.frames(spec.hash), config.jobResultTtlS, (event) => log({ ...event, id })) : undefined;
     try {
       if ((await redis.exists(keys.result(spec.hash))) === 1) {
         await redis.hset(keys.record(id), "reused", "1");
@@ -105,8 +110,10 @@ export async function startRedisWorker(options: WorkerOptions): Promise<RunningW
           signal: abort,
           onProgress: progress.listener,
           saveEachTask: true,
+          frames,
         });
         await redis.set(keys.result(spec.hash), encodeOutput(output), "EX", config.jobResultTtlS);
+        await frames?.discard();
       }
       const final = await transition(id, "done", { finishedAt: new Date().toISOString(), fraction: "1", stage: "done", secondsLeft: "0" });
       // No record: Redis came back without its data (no persistence) while the job was being computed.

@@ -14,6 +14,7 @@ import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 import { shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
+import { sizeParameter } from "../progress/profile-work.js";
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
 export const KERNEL_VERSION = 4;
@@ -143,6 +144,11 @@ export class KernelService {
     this.memory = byteBoundedCache(options.memoryBudgetBytes);
   }
 
+  /** Kernel tasks that run at once: rows' wall time is their cost over this (progress estimates use it too). */
+  get parallelism(): number {
+    return Math.max(1, this.options.parallelism ?? 1);
+  }
+
   /** Adds rows (radius → row) to a pack in memory: one cache update per pack, not per row. */
   private remember(pack: string, rows: Iterable<[number, Float64Array]>): void {
     const entry = this.memory.get(pack) ?? new Pack();
@@ -187,18 +193,26 @@ export class KernelService {
       return missing;
     };
 
-    // Progress: each row's estimated cost; rows found count at once, computed ones as their task ends.
-    const threads = Math.max(1, this.options.parallelism ?? 1);
-    // Per wavelength and drop: the cost of one lattice sample of its row (the rows of one drop differ only in length).
+    // Progress: rows found count at once, computed ones as their task ends. Counting must cost next to nothing on a
+    // warm request (tens of thousands of rows found in memory): one estimate per drop and wavelength, sums per task,
+    // and the rows' lengths summed once, never a loop over every row.
+    const threads = this.parallelism;
+    // Per wavelength and drop: the cost of one lattice sample of its row (the rows of one drop differ only in length;
+    // a flattened drop's fixed cost per plane is spread over all the samples it is computed for).
+    const samplesOf = need.map((n) => n.last - n.first + 1);
+    const allSamples = samplesOf.reduce((a, b) => a + b, 0);
     const perSample = watch.onRows
       ? media.map((m) =>
-          Array.from(radiiUm, (r, i) => kernelRowCostNs(engines[i], (2 * Math.PI * m.nAir * r * 1000) / m.wavelengthNm, 1, averages[i]?.samples ?? 1) / threads),
+          Array.from(radiiUm, (r, i) => kernelRowCostNs(engines[i], sizeParameter(m, r), allSamples, averages[i]?.samples ?? 1, shapes[i]) / allSamples / threads),
         )
       : [];
-    const cost = (l: number, i: number, bi: number) => perSample[l][i] * (need[bi].last - need[bi].first + 1);
+    const cost = (l: number, i: number, bi: number) => perSample[l][i] * samplesOf[bi];
     const costOf = (list: [number, number, number][]) => list.reduce((sum, [l, i, bi]) => sum + cost(l, i, bi), 0);
     let totalNs = 0;
-    if (watch.onRows) for (let l = 0; l < media.length; l++) for (let i = 0; i < radiiUm.length; i++) for (let bi = 0; bi < blocks.length; bi++) totalNs += cost(l, i, bi);
+    if (watch.onRows) {
+      // Every drop asks for every block: the total is Σ over drops and wavelengths of the per-sample cost × all samples.
+      for (const row of perSample) for (const ns of row) totalNs += ns * allSamples;
+    }
     let doneNs = 0;
     const done = (ns: number, found: boolean) => {
       doneNs += ns;
@@ -215,7 +229,7 @@ export class KernelService {
       stats.diskHits = before - missing.length;
     }
     // Everything found in memory, on disk or in Redis counts at once, in one report.
-    if (watch.onRows) done(totalNs - costOf(missing), true);
+    if (watch.onRows) done(missing.length === 0 ? totalNs : totalNs - costOf(missing), true);
 
     // Rows another request is computing already are awaited, not computed twice. In-flight rows point at the
     // task that computes them (one promise per task, not per row: a cold profile has ~50,000 rows).

@@ -35,11 +35,15 @@ export class ProgressMeter {
   /** Where the rate is measured from: the start, or the last rows found in a cache before any work was done here. */
   private rateStart: { atMs: number; fraction: number };
   private working = false;
+  /** Estimated cost counted as found (rows read from a cache), not worked for here. */
+  private foundNs = 0;
 
   constructor(
     stageNames: readonly string[],
     private readonly listener: ProgressListener | undefined,
     private readonly now: () => number = () => performance.now(),
+    /** A part's link to the meter it is part of (part()): told the share of the part's own work done. */
+    private readonly onWork?: (workedFraction: number) => void,
   ) {
     this.stages = stageNames.map((name) => ({ name, costNs: 0, doneNs: 0 }));
     this.rateStart = { atMs: now(), fraction: 0 };
@@ -62,7 +66,9 @@ export class ProgressMeter {
    */
   advance(name: string, doneNs: number, options: { found?: boolean } = {}): void {
     const stage = this.stage(name);
+    const before = stage.doneNs;
     stage.doneNs = Math.min(stage.costNs, Math.max(stage.doneNs, doneNs));
+    if (options.found) this.foundNs += stage.doneNs - before;
     // Earlier stages are complete once a later one advances.
     for (const s of this.stages) {
       if (s === stage) break;
@@ -73,6 +79,30 @@ export class ProgressMeter {
     if (!options.found) this.working = true;
     else if (!this.working) this.rateStart = { atMs: this.now(), fraction: this.reported };
     this.emit();
+    if (this.onWork) {
+      const { cost, done } = this.sums();
+      const toWork = cost - this.foundNs;
+      this.onWork(toWork > 0 ? Math.min(1, Math.max(0, (done - this.foundNs) / toWork)) : 0);
+    }
+  }
+
+  /**
+   * A meter for one part of this render (a row of a lookup texture or of a size map) that fills the stage `name`,
+   * planned with the part's estimated cost, as the part's own work is done: the share of its cost that was worked
+   * for, not found in a cache (rows an earlier part computed were weighed with that part). Parts may run side by
+   * side: a part never completes the stages named before its own.
+   */
+  part(name: string, stageNames: readonly string[]): ProgressMeter {
+    const stage = this.stage(name);
+    return new ProgressMeter(stageNames, undefined, this.now, (workedFraction) => this.fill(stage, workedFraction * stage.costNs));
+  }
+
+  private fill(stage: Stage, doneNs: number): void {
+    stage.doneNs = Math.min(stage.costNs, Math.max(stage.doneNs, doneNs));
+    this.current = stage.name;
+    this.reported = Math.max(this.reported, Math.min(BEFORE_DONE, this.estimate()));
+    this.working = true;
+    this.emit();
   }
 
   /** Marks a stage complete (its whole estimated cost done). */
@@ -80,11 +110,12 @@ export class ProgressMeter {
     this.advance(name, this.stage(name).costNs, options);
   }
 
-  /** The render is finished: 1, nothing left. */
+  /** The render (or the part) is finished: 1, nothing left. */
   done(): void {
     this.reported = 1;
     this.current = "done";
     this.listener?.({ fraction: 1, stage: "done", secondsLeft: 0 });
+    this.onWork?.(1);
   }
 
   get fraction(): number {
@@ -110,13 +141,18 @@ export class ProgressMeter {
     return stage;
   }
 
-  private estimate(): number {
+  private sums(): { cost: number; done: number } {
     let cost = 0;
     let done = 0;
     for (const s of this.stages) {
       cost += s.costNs;
       done += s.doneNs;
     }
+    return { cost, done };
+  }
+
+  private estimate(): number {
+    const { cost, done } = this.sums();
     return cost > 0 ? done / cost : 0;
   }
 

@@ -1,34 +1,81 @@
 // What each piece of a render costs, in nanoseconds of one core, so that progress advances with the time the work
-// takes. Measured with bench/progress.ts (`npm run bench:progress`; medians on one core; machine, date and the
-// figures in BENCHMARKS.md, "Progress: weights and cost"), on a shared machine whose load slowed every piece
-// alike: only their ratios matter to the fraction (the time left is estimated from the measured rate, not from these).
+// takes. Measured with bench/progress.ts (`npm run bench:progress`; medians on one core) on a quiet machine:
+// 2026-12-03 08:58 UTC, AMD EPYC, 2 cores, Node 20.20.2 (BENCHMARKS.md, "Progress: weights and cost"), rounded to
+// two or three figures. Only their ratios matter to the fraction (the time left is estimated from the measured
+// rate, not from these); the benchmark flags a weight its new measurement puts more than 2× away.
 
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { mieTermCount } from "../../lib/mie/termCount.js";
+import { cantingNodesFive } from "../../lib/drops/shape/canting.js";
+import type { ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 
 export const COST_NS = {
   /** One Lorenz–Mie term at one angle (coefficients and amplitudes together). */
-  mieTermAngle: 4.7,
+  mieTermAngle: 1.15,
   /** One sample of an Airy-engine row (uniform bow formula for the bows, ray optics for the rest). */
-  airySample: 4600,
+  airySample: 370,
   /** One sample of a ray-optics row. */
-  raySample: 990,
+  raySample: 105,
+  /**
+   * A flattened drop's row is one scattering plane per canting node (lib/bow/shaped-rows.ts): the plane's trace and
+   * bow tables, whatever its length… Not yet measured on a quiet machine: bench/progress.ts's piece (one plane of a
+   * 2 mm equilibrium drop at 550 nm over ψ 29.7–60.3° at 0.05° and 0.01°, 615 and 3063 bins, a straight line through
+   * the two) run on the loaded shared machine (2026-12-03 09:10 UTC), each time between two Airy timings and scaled
+   * by the Airy sample's quiet ÷ loaded time: medians of five rounds (the rounds spread 2× either way). Ray-optics
+   * planes (method "geometric") build no bow tables and are priced as these, an overestimate.
+   */
+  shapedPlane: 3.7e8,
+  /** …and each angle bin of that plane. */
+  shapedPlaneSample: 3.1e5,
   /** Σ over drops: one drop's row at one wavelength and one lattice sample. */
-  sumSample: 93,
+  sumSample: 11,
   /** The sun's disc: one lattice sample at one wavelength, per sample of the disc's kernel. */
-  discSample: 93,
+  discSample: 11,
   /** Colour: one output angle at one wavelength. */
-  colourSample: 2100,
+  colourSample: 120,
   /** The JSON answer: one output angle. */
-  jsonAngle: 4900,
+  jsonAngle: 2900,
   /** A PNG strip: one output angle (a column of the strip). */
-  pngAngle: 9900,
+  pngAngle: 5200,
   /** A camera view or sky map: one pixel, shaded and encoded. */
-  overlayPixel: 1300,
+  overlayPixel: 360,
 } as const;
 
-/** Estimated cost of one kernel row over `samples` lattice points. */
-export function kernelRowCostNs(engine: DropEngine, sizeParameter: number, samples: number, averagedSizes = 1): number {
+export type WorkPiece = keyof typeof COST_NS;
+
+/** A measured weight more than this factor away from the one in use is flagged by the benchmark. */
+export const WEIGHT_DRIFT_LIMIT = 2;
+
+export interface WeightDrift {
+  piece: WorkPiece;
+  measuredNs: number;
+  inUseNs: number;
+  /** measured ÷ in use. */
+  ratio: number;
+  /** ratio ÷ the median ratio of all pieces: what moves the fraction's pace (a machine twice as fast moves none). */
+  relative: number;
+  /** The weight in use is stale: ratio beyond WEIGHT_DRIFT_LIMIT either way. */
+  stale: boolean;
+  /** The weight is out of proportion with the others: relative beyond WEIGHT_DRIFT_LIMIT either way. */
+  uneven: boolean;
+}
+
+/** Each measured piece against its weight in use (bench/progress.ts prints and records these). */
+export function weightDrift(measuredNs: Partial<Record<WorkPiece, number>>, inUse: Record<WorkPiece, number> = COST_NS): WeightDrift[] {
+  const entries = Object.entries(measuredNs).filter((e): e is [WorkPiece, number] => e[0] in inUse && Number.isFinite(e[1]) && e[1]! > 0);
+  const ratios = entries.map(([piece, ns]) => ns / inUse[piece]).sort((a, b) => a - b);
+  const m = ratios.length;
+  const scale = m === 0 ? 1 : m % 2 === 1 ? ratios[(m - 1) / 2] : Math.sqrt(ratios[m / 2 - 1] * ratios[m / 2]);
+  const beyond = (r: number) => r > WEIGHT_DRIFT_LIMIT || r < 1 / WEIGHT_DRIFT_LIMIT;
+  return entries.map(([piece, ns]) => {
+    const ratio = ns / inUse[piece];
+    return { piece, measuredNs: ns, inUseNs: inUse[piece], ratio, relative: ratio / scale, stale: beyond(ratio), uneven: beyond(ratio / scale) };
+  });
+}
+
+/** Estimated cost of one kernel row over `samples` lattice points (a flattened drop's: shape given). */
+export function kernelRowCostNs(engine: DropEngine, sizeParameter: number, samples: number, averagedSizes = 1, shape?: ShapedRowSpec): number {
+  if (shape) return cantingNodesFive(shape.cantingSdDeg).length * (COST_NS.shapedPlane + COST_NS.shapedPlaneSample * samples);
   if (engine === "mie") return COST_NS.mieTermAngle * mieTermCount(sizeParameter) * samples * averagedSizes;
   return (engine === "airy" ? COST_NS.airySample : COST_NS.raySample) * samples;
 }

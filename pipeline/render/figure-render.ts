@@ -10,7 +10,7 @@ import { SIZE_MAP_SOURCES, sizeMapRaster, sizeMapSvg, logSpacedRadii, type SizeM
 import { scenarioSentence } from "../../lib/figures/figure-input.js";
 import { ClientError } from "../requests/client-error.js";
 import { headerSafe, type RenderDeps, type RenderOutput } from "./render-output.js";
-import { ProgressMeter } from "../progress/progress-meter.js";
+import { rowsProgress } from "../progress/rows-progress.js";
 import { resolveProfileRequest, resolveSizeMapRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
 
 export const SVG_CONTENT_TYPE = "image/svg+xml; charset=utf-8";
@@ -55,21 +55,19 @@ async function sizeMapRows(body: SizeMapRequest, deps: RenderDeps): Promise<{ ra
   const abort = new AbortController();
   const stop = () => abort.abort();
   deps.signal?.addEventListener("abort", stop);
-  // One stage per row, of equal cost (the rows differ only in drop size); they end in any order, so they count as rows done.
-  const rowsDone = new ProgressMeter(Array.from(radiiUm, (_, k) => `row ${k + 1}`), deps.onProgress);
-  radiiUm.forEach((_, k) => rowsDone.plan(`row ${k + 1}`, 1));
-  let done = 0;
+  // The rows share auto's Mie budget as they share the cost limit.
+  const resolution = { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / body.radiusSteps };
+  // Each row weighs its own cost (a size map's large drops cost more than its small ones); rows run side by side.
+  const progress = deps.onProgress
+    ? rowsProgress(radiiUm.length, (k) => [sizeMapRowRequest(body, radiiUm[k]), resolution], deps.kernels.parallelism, deps.onProgress)
+    : undefined;
   try {
     const results = await Promise.all(
-      Array.from(radiiUm, async (radiusUm) => {
+      Array.from(radiiUm, async (radiusUm, k) => {
         try {
-          // The rows share auto's Mie budget as they share the cost limit.
-          const result = await computeProfile(
-            sizeMapRowRequest(body, radiusUm),
-            { kernels: deps.kernels, limits, signal: abort.signal },
-            { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / body.radiusSteps },
-          );
-          rowsDone.complete(`row ${++done}`);
+          const part = progress?.part(k);
+          const result = await computeProfile(sizeMapRowRequest(body, radiusUm), { kernels: deps.kernels, limits, signal: abort.signal, progress: part }, resolution);
+          part?.done();
           return result;
         } catch (err) {
           abort.abort();

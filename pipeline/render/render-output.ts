@@ -1,5 +1,6 @@
 import type { KernelService } from "../kernels/kernel-service.js";
 import type { ProgressListener } from "../progress/progress-meter.js";
+import type { FrameStore } from "../sequence/frame-store.js";
 
 /** A finished render: the bytes a client receives, with their type and the headers that describe them. */
 export interface RenderOutput {
@@ -17,6 +18,8 @@ export interface RenderDeps {
   onProgress?: ProgressListener;
   /** Keep kernel rows in the second tier as each task ends (background jobs: a retried job resumes from them). */
   saveEachTask?: boolean;
+  /** Sequences: where each finished frame is kept, so that a retried job renders only the frames still missing. */
+  frames?: FrameStore;
 }
 
 export function jsonOutput(value: unknown, headers: Record<string, string> = {}): RenderOutput {

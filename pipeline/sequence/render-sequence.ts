@@ -8,6 +8,7 @@ import type { RendererRegistry } from "../jobs/renderers.js";
 import type { RenderDeps, RenderOutput } from "../render/render-output.js";
 import { ClientError } from "../requests/client-error.js";
 import { parseOrThrow } from "../requests/parse-request.js";
+import { SequenceProgress } from "../progress/sequence-progress.js";
 
 type Json = Record<string, unknown>;
 
@@ -82,14 +83,20 @@ export async function renderSequence(job: SequenceJobBody, registry: RendererReg
   const files: { name: string; body: Buffer }[] = [];
   const frames: unknown[] = [];
   const digits = String(moments.length).length;
-  const started = performance.now();
+  const progress = new SequenceProgress(moments.length, deps.onProgress);
+  // Frames an earlier attempt of this job finished (its worker died): the same bytes as rendering them again.
+  const kept = (await deps.frames?.kept()) ?? new Map<number, RenderOutput>();
   for (let k = 0; k < moments.length; k++) {
     deps.signal?.throwIfAborted();
-    // Progress counts frames; the time left is the mean frame's time so far times the frames to go.
-    const secondsLeft = k === 0 ? null : ((performance.now() - started) / 1000 / k) * (moments.length - k);
-    deps.onProgress?.({ fraction: k / moments.length, stage: `frame ${k + 1} of ${moments.length}`, secondsLeft });
-    const body = parseOrThrow(renderer.body, frameBody(job, moments[k]), "body", ["body"]);
-    const output = await renderer.render(body, query, { ...deps, onProgress: undefined });
+    let output = kept.get(k);
+    if (output) progress.keptFrame(k);
+    else {
+      progress.start(k);
+      const body = parseOrThrow(renderer.body, frameBody(job, moments[k]), "body", ["body"]);
+      output = await renderer.render(body, query, { ...deps, frames: undefined, onProgress: (update) => progress.inner(update.fraction) });
+      progress.finish();
+      await deps.frames?.keep(k, output);
+    }
     const name = `frame-${String(k + 1).padStart(Math.max(4, digits), "0")}.${extensionOf(output.contentType)}`;
     files.push({ name, body: output.body });
     frames.push({ index: k, file: name, utc: moments[k], sourcePosition: positionOf(output), sha256: createHash("sha256").update(output.body).digest("hex") });
@@ -102,6 +109,6 @@ export async function renderSequence(job: SequenceJobBody, registry: RendererReg
     frames,
   };
   files.push({ name: "manifest.json", body: Buffer.from(JSON.stringify(manifest, null, 2)) });
-  deps.onProgress?.({ fraction: 1, stage: "done", secondsLeft: 0 });
+  progress.done();
   return { contentType: "application/x-tar", body: await tarOf(files), headers: { "x-antisolar-frames": String(moments.length) } };
 }

@@ -47,6 +47,31 @@ describe("POST /v1/jobs with a sequence", () => {
     expect(tar.includes(Buffer.from("manifest.json"))).toBe(true);
   });
 
+  it("streams progress counted in frames, rising, with the time left once a frame has been timed", { timeout: 120_000 }, async () => {
+    const submitted = await request(app.server)
+      .post("/v1/jobs")
+      .send({ endpoint: "profile", body: { ...body, angles: { ...body.angles, stepDeg: 0.25 } }, format: "png", sequence: { fromUtc: "2026-06-21T17:00:00Z", toUtc: "2026-06-21T18:00:00Z", frames: 5 } });
+    expect(submitted.status, submitted.text).toBe(202);
+    const stream = await request(app.server).get(`/v1/jobs/${submitted.body.id}/events`).buffer(true).parse((res, cb) => {
+      let text = "";
+      res.on("data", (c: Buffer) => (text += c.toString("utf8")));
+      res.on("end", () => cb(null, text));
+    });
+    const events = (stream.body as string)
+      .split("\n\n")
+      .map((block) => ({ event: /^event: (\w+)$/m.exec(block)?.[1], data: /^data: (.*)$/m.exec(block)?.[1] }))
+      .filter((e) => e.event && e.data)
+      .map((e) => ({ event: e.event!, job: JSON.parse(e.data!) as { progress: { fraction: number; stage: string; secondsLeft: number | null } } }));
+    expect(events.at(-1)!.event).toBe("done");
+    // Past the job's own first stages (queued, starting), every stage counts frames.
+    const progress = events.filter((e) => e.event === "progress" && !["queued", "starting"].includes(e.job.progress.stage)).map((e) => e.job.progress);
+    expect(progress.length).toBeGreaterThan(0);
+    for (const p of progress) expect(p.stage).toMatch(/^frame [1-5] of 5$/);
+    for (let k = 1; k < progress.length; k++) expect(progress[k].fraction).toBeGreaterThanOrEqual(progress[k - 1].fraction);
+    // After the first frame the latest frame's time stands for each frame to go.
+    expect(progress.some((p) => /^frame [2-5] of 5$/.test(p.stage) && typeof p.secondsLeft === "number")).toBe(true);
+  });
+
   it("refuses over 400 frames and a body without a place with 400s naming the field", async () => {
     const over = await request(app.server).post("/v1/jobs").send({ endpoint: "view", body, sequence: { fromUtc: "2026-06-21T18:00:00Z", toUtc: "2026-06-21T19:00:00Z", frames: 401 } });
     expect(over.status).toBe(400);

@@ -19,16 +19,18 @@
   (func (export "manyDrops") (param $orders i32) (param $nMax i32) (param $drops i32) (param $nDrops i32)
     (param $cosines i32) (param $table i32) (param $sums i32)
     (local $i0 i32) (local $i1 i32) (local $e i32) (local $d i32) (local $row i32) (local $k i32) (local $kEnd i32) (local $tp i32)
-    (local $o i32) (local $f v128) (local $n v128) (local $s v128) (local $t v128) (local $tau v128)
+    (local $o i32) (local $state i32) (local $f v128) (local $n v128) (local $s v128) (local $t v128) (local $tau v128)
     (local $sr v128) (local $si v128) (local $dr v128) (local $di v128) (local $pp v128) (local $pm v128)
     ;; for q in 0..1
     (local $mu{q} v128) (local $prev{q} v128) (local $cur{q} v128)
     (local $pr{q} v128) (local $pi{q} v128) (local $mr{q} v128) (local $mi{q} v128)
     ;; end for
+    ;; The recurrence state lives in memory between chunks, so that no register holds it through the drop loop.
+    (local.set $state (i32.add (local.get $table) (i32.const {64*CHUNK})))
     ;; for q in 0..1
-    (local.set $mu{q} (v128.load offset={16*q} align=8 (local.get $cosines)))
-    (local.set $prev{q} (f64x2.splat (f64.const 0)))
-    (local.set $cur{q} (f64x2.splat (f64.const 1)))
+    (v128.store offset={48*q} align=8 (local.get $state) (v128.load offset={16*q} align=8 (local.get $cosines)))
+    (v128.store offset={48*q+16} align=8 (local.get $state) (f64x2.splat (f64.const 0)))
+    (v128.store offset={48*q+32} align=8 (local.get $state) (f64x2.splat (f64.const 1)))
     ;; end for
     (memory.fill (local.get $sums) (i32.const 0) (i32.mul (local.get $nDrops) (i32.const 128)))
     (block $done
@@ -41,6 +43,11 @@
         (local.set $o (i32.add (local.get $orders) (i32.shl (local.get $i0) (i32.const 4))))
         (local.set $tp (local.get $table))
         (local.set $kEnd (i32.add (local.get $orders) (i32.shl (local.get $i1) (i32.const 4))))
+        ;; for q in 0..1
+        (local.set $mu{q} (v128.load offset={48*q} align=8 (local.get $state)))
+        (local.set $prev{q} (v128.load offset={48*q+16} align=8 (local.get $state)))
+        (local.set $cur{q} (v128.load offset={48*q+32} align=8 (local.get $state)))
+        ;; end for
         (loop $fill
           (local.set $f (v128.load64_splat offset=0 align=8 (local.get $o)))
           (local.set $n (v128.load64_splat offset=8 align=8 (local.get $o)))
@@ -56,6 +63,10 @@
           (local.set $tp (i32.add (local.get $tp) (i32.const 64)))
           (local.set $o (i32.add (local.get $o) (i32.const 16)))
           (br_if $fill (i32.lt_u (local.get $o) (local.get $kEnd))))
+        ;; for q in 0..1
+        (v128.store offset={48*q+16} align=8 (local.get $state) (local.get $prev{q}))
+        (v128.store offset={48*q+32} align=8 (local.get $state) (local.get $cur{q}))
+        ;; end for
         ;; Each drop's sums over the orders of the chunk it has (n ≤ its nTerms).
         (local.set $d (i32.const 0))
         (loop $drop

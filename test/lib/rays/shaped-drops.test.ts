@@ -115,7 +115,7 @@ describe("flattened drops: geometry that can be derived independently", () => {
       const sweep = sweepPlane(tracer, p, 1000);
       for (const side of [1, -1] as const) {
         const near = descartesRay(N_WATER, p - 1).scatteringAngleDeg;
-        const fold = findFold(tracer, sweep, side, near * DEG)!;
+        const fold = findFold(sweep, side, near * DEG)!;
         const reference = bowAngle2d(outline, sunDeg, p, side, near);
         // Both solve the same geometry by different means (3D implicit surface vs 2D parametric outline):
         // agreement to 1e-5° is far below anything visible.

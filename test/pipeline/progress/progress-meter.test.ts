@@ -70,3 +70,30 @@ describe("ProgressMeter", () => {
     expect(() => m.advance("pixels", 1)).toThrow(/no progress stage 'pixels'/);
   });
 });
+
+describe("ProgressMeter parts", () => {
+  it("fills a part's stage with the share of the part's own work done, not with rows it found", () => {
+    const { m, updates } = meter(["row 1", "row 2"]);
+    m.plan("row 1", 100);
+    m.plan("row 2", 300);
+    const part = m.part("row 2", ["kernels", "spectral"]);
+    part.plan("spectral", 50);
+    part.plan("kernels", 100);
+    // Half the kernels found in a cache: no work done for the row yet.
+    part.advance("kernels", 50, { found: true });
+    expect(m.fraction).toBe(0);
+    // 25 of the 100 left to work for: a quarter of row 2's 300.
+    part.advance("kernels", 75);
+    expect(m.fraction).toBeCloseTo(75 / 400, 12);
+    // Parts run side by side: row 2 does not complete row 1.
+    expect(updates.at(-1)!.stage).toBe("row 2");
+    part.done();
+    expect(m.fraction).toBeCloseTo(300 / 400, 12);
+    const first = m.part("row 1", ["kernels"]);
+    first.plan("kernels", 10);
+    first.advance("kernels", 5);
+    expect(m.fraction).toBeCloseTo(350 / 400, 12);
+    first.done();
+    expect(m.fraction).toBe(0.999);
+  });
+});

@@ -9,6 +9,28 @@ import { KernelService } from "../../../pipeline/kernels/kernel-service.js";
 import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
 import { ClientError } from "../../../pipeline/requests/client-error.js";
 import type { JobRequest } from "../../../schemas/jobs.js";
+import { openFrame, sealFrame, type FrameStore } from "../../../pipeline/sequence/frame-store.js";
+import type { RenderOutput } from "../../../pipeline/render/render-output.js";
+import type { RendererRegistry } from "../../../pipeline/jobs/renderers.js";
+
+/** Frames kept in memory, sealed as the Redis store keeps them; `renders` counts the frames rendered. */
+function memoryStore(held = new Map<number, Buffer>()): FrameStore & { held: Map<number, Buffer> } {
+  return {
+    held,
+    kept: async () => new Map([...held].flatMap(([k, sealed]): [number, RenderOutput][] => {
+      const output = openFrame(sealed);
+      return output ? [[k, output]] : [];
+    })),
+    keep: async (k, output) => void held.set(k, sealFrame(output)),
+    discard: async () => held.clear(),
+  };
+}
+
+function counting(registry: RendererRegistry, endpoint: string): { registry: RendererRegistry; renders: () => number } {
+  let renders = 0;
+  const inner = registry[endpoint];
+  return { registry: { ...registry, [endpoint]: { ...inner, render: (b, q, d) => (renders++, inner.render(b, q, d)) } }, renders: () => renders };
+}
 
 async function untar(archive: Buffer): Promise<Map<string, Buffer>> {
   const files = new Map<string, Buffer>();
@@ -49,7 +71,8 @@ describe("sequences", () => {
     const elevations = manifest.frames.map((f: { sourcePosition: { elevationDeg: number } }) => f.sourcePosition.elevationDeg);
     expect(elevations[0]).toBeGreaterThan(elevations[1]);
     expect(elevations[2]).toBeLessThan(0);
-    expect(progress).toEqual(["frame 1 of 3", "frame 2 of 3", "frame 3 of 3", "done"]);
+    // Each frame's own progress moves the fraction within it; the stage counts frames.
+    expect(progress.filter((stage, k) => stage !== progress[k - 1])).toEqual(["frame 1 of 3", "frame 2 of 3", "frame 3 of 3", "done"]);
     for (let k = 0; k < 3; k++) {
       const single = builtInRenderers.profile;
       const body = single.body.parse({ ...quick, sun: { at: { ...at, utc: frameMoments(job.body.sequence)[k], belowHorizon: "black" } } });
@@ -74,5 +97,36 @@ describe("sequences", () => {
     expect(fieldOf(make({ sequence: { fromUtc: "2026-06-21T18:00:00Z", toUtc: "2026-06-21T19:00:00Z", frames: 401 } }))).toBe("sequence.frames");
     expect(fieldOf(make({ sequence: { fromUtc: "2026-06-21T19:00:00Z", toUtc: "2026-06-21T18:00:00Z", frames: 3 } }))).toBe("sequence.toUtc");
     expect(fieldOf(make({ endpoint: "figure-size-map" }))).toBe("endpoint");
+  });
+
+  it("resumes from the frames an earlier attempt kept: renders only the missing ones, and the archive is byte-identical", { timeout: 120_000 }, async () => {
+    const job = asSequenceJob({ endpoint: "profile", body: quick, query: { format: "png", height: 4 }, sequence: { fromUtc: "2026-06-21T17:00:00Z", toUtc: "2026-06-21T18:00:00Z", frames: 4 } } as unknown as JobRequest, builtInRenderers);
+    const first = memoryStore();
+    const whole = counting(builtInRenderers, "profile");
+    const uninterrupted = await renderSequence(job.body, whole.registry, { ...deps, frames: first });
+    expect(whole.renders()).toBe(4);
+    expect([...first.held.keys()]).toEqual([0, 1, 2, 3]);
+
+    // An attempt that died after two frames: frames 0 and 1 kept; frame 2's bytes damaged in the store.
+    const damaged = Buffer.from(first.held.get(2)!);
+    damaged[damaged.length - 1] ^= 0xff;
+    const retry = memoryStore(new Map([[0, first.held.get(0)!], [1, first.held.get(1)!], [2, damaged]]));
+    const resumed = counting(builtInRenderers, "profile");
+    const stages: string[] = [];
+    const again = await renderSequence(job.body, resumed.registry, { ...deps, frames: retry, onProgress: (p) => stages.push(p.stage) });
+    // Frame 2 does not match its hash: rendered again, with frame 3.
+    expect(resumed.renders()).toBe(2);
+    expect(again.body.equals(uninterrupted.body)).toBe(true);
+    expect(stages[0]).toBe("frame 1 of 4");
+  });
+
+  it("a kept frame opens only with the hash it was sealed with", () => {
+    const output = { contentType: "image/png", body: Buffer.from([1, 2, 3]), headers: { "x-antisolar-hash": "h" } };
+    const sealed = sealFrame(output);
+    expect(openFrame(sealed)).toEqual(output);
+    const bad = Buffer.from(sealed);
+    bad[0] ^= 1;
+    expect(openFrame(bad)).toBeUndefined();
+    expect(openFrame(sealed.subarray(0, 10))).toBeUndefined();
   });
 });
