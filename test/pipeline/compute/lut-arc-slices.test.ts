@@ -10,6 +10,7 @@ import { computeProfile } from "../../../pipeline/compute/profile.js";
 import { KernelService } from "../../../pipeline/kernels/kernel-service.js";
 import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
 import { texelAngles } from "../../../lib/lut/texel-mapping.js";
+import { lutManifestSchema } from "../../../schemas/responses/lut-response.js";
 
 const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: createInlinePool().compute });
 const deps = { kernels, limits: { maxTermAngles: Infinity } };
@@ -36,6 +37,7 @@ describe("a lookup texture of flattened drops gains an arc-position axis", () =>
     expect(slices).toMatchObject({ fromDeg: 0, toDeg: 90, count: 3, valuesDeg: [0, 45, 90] });
     expect(slices.quantity).toMatch(/arc position/);
     expect(slices.mapping).toMatch(/antisolarArcDeg/);
+    expect(lutManifestSchema.safeParse(JSON.parse(JSON.stringify(lut.manifest))).error).toBeUndefined();
     const psi = texelAngles({ fromDeg: 34, toDeg: 46, texels: 16, mapping: "linear" });
     expect(psi).toHaveLength(16);
     // The texture's profile grid (pipeline/compute/lut.ts): the finest texel spacing halved, capped at 0.1°, padded by a step.
