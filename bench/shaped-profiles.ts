@@ -3,8 +3,9 @@
 // Measured: the default profile `{}` (spheres, the service's default), cold and warm; P4 (1 mm equilibrium drops, one
 // radius node), cold and warm. With --full also Marshall–Palmer 25 mm/h with equilibrium shapes, cold (~15,000 traced
 // scattering planes: most of an hour at today's speed). Without it, that row and the default with equilibrium shapes are
-// projected: their number of traced planes (flattened radius nodes × wavelengths × canting nodes) times P4's cold time
-// per plane, which includes everything around the tracing. Marked "projected", never as measured.
+// projected: their number of traced planes (flattened radius nodes × wavelengths × canting nodes) times P4's CPU time
+// per plane (cold wall time × cores busy, so everything around the tracing is in it, and other processes on the
+// machine are not), over the 2 worker threads. Marked "projected", never as measured.
 
 import { cpus, loadavg } from "node:os";
 import { benchProfile, P1, P4, type ProfileWorkload } from "./profiles.js";
@@ -44,14 +45,14 @@ for (const w of full ? [P1, P4, P5] : [P1, P4]) measured.push(...(await benchPro
 const loadAfter = loadavg()[0];
 
 const p4 = measured.find((r) => r.name === P4.name)!;
-const msPerPlane = p4.coldMs / tracedPlanes(P4.body);
+const cpuMsPerPlane = (p4.coldMs * p4.coldCores) / tracedPlanes(P4.body);
 const rows = measured.map((r) => {
   const planes = tracedPlanes([P1, P4, P5].find((w) => w.name === r.name)!.body);
   return `| ${r.name} | ${planes} | measured | ${r.coldMs.toFixed(0)} | ${r.coldCores.toFixed(2)} | ${r.warmMs === null ? "–" : r.warmMs.toFixed(1)} | ${(r.kernelBytes / 2 ** 20).toFixed(1)} |`;
 });
 for (const w of full ? [DEFAULT_SHAPED] : [DEFAULT_SHAPED, P5]) {
   const planes = tracedPlanes(w.body);
-  rows.push(`| ${w.name} | ${planes} | projected: planes × P4's ${msPerPlane.toFixed(0)} ms per plane | ${(planes * msPerPlane).toFixed(0)} | – | – | – |`);
+  rows.push(`| ${w.name} | ${planes} | projected: planes × P4's ${cpuMsPerPlane.toFixed(0)} CPU-ms per plane / 2 cores | ${((planes * cpuMsPerPlane) / 2).toFixed(0)} | – | – | – |`);
 }
 for (const r of rows) console.log(r);
 writeMarkedSection("shapes", [
@@ -62,7 +63,7 @@ writeMarkedSection("shapes", [
     (Math.max(loadBefore, loadAfter) > cpus().length ? " (above the core count: other processes shared the cores, so times are inflated)." : "."),
   "Cold and warm as in the table of whole profiles above (cold: empty kernel cache, threads warmed by another request; warm:",
   "median of 5 on the filled cache). Traced planes: flattened radius nodes × wavelengths × canting nodes, each one scattering",
-  "plane traced (lib/bow/shaped-plane-rows.ts). Projected rows are planes × P4's cold time per plane, not measured",
+  "plane traced (lib/bow/shaped-plane-rows.ts). Projected rows are planes × P4's CPU time per plane over 2 free cores, not measured",
   "(`-- --full` measures Marshall–Palmer 25 mm/h). Goals (issue 13): default cold ≤ 1.5 s, warm ≤ 20 ms; Marshall–Palmer",
   "25 mm/h with equilibrium shapes cold ≤ 3 s.",
   "",

@@ -44,7 +44,7 @@ const encodeMs = performance.now() - t0;
 await pool.close();
 const loadAfter = loadavg()[0];
 
-console.log(`time-of-day texture 256 × 32 × 16: cold ${coldMs.toFixed(0)} ms, warm ${warm[1].toFixed(0)} ms, KTX2 encode ${encodeMs.toFixed(1)} ms (${file.byteLength} bytes)`);
+console.log(`time-of-day texture 256 × 32 × 16: cold ${coldMs.toFixed(0)} ms, warm ${warm[1].toFixed(0)} ms, KTX2 encode ${encodeMs.toFixed(1)} ms (${file.byteLength} bytes); load ${loadBefore.toFixed(2)} → ${loadAfter.toFixed(2)}`);
 writeMarkedSection("textures", [
   "## Time-of-day lookup textures",
   "",
@@ -52,10 +52,12 @@ writeMarkedSection("textures", [
   `${loadBefore.toFixed(2)} at the start, ${loadAfter.toFixed(2)} at the end` +
     (Math.max(loadBefore, loadAfter) > cpus().length ? " (above the core count: other processes shared the cores, so times are inflated)." : "."),
   "Texture: ψ 30–60° in 256 bow-weighted texels × 32 radii 10 µm–2 mm × 16 sun elevations 0–45°. Cold: empty kernel cache,",
-  "threads warmed by another texture. Warm: the same texture again on the filled kernel cache (median of 3). The slices share",
-  "their kernels (scattering by a drop does not depend on the sun), so a slice after the first costs its colour sums only.",
+  "threads warmed by another texture. Warm: the same texture again on the filled kernel cache (median of 3). The rows ask for",
+  "their kernels in one request (one task per wavelength carries all 32 drops), each row's spectral sum with the sun's disc is",
+  "computed once per unit sunlight, and each slice only re-weights it by its own sunlight and takes the colour sums",
+  "(pipeline/compute/lut.ts, computeLutsAcrossSun). Cold/warm is the share of the time spent on kernels.",
   "",
-  "| texture | cold (ms) | warm (ms) | KTX2 RGBA16F encode (ms) | KTX2 bytes |",
-  "| --- | ---: | ---: | ---: | ---: |",
-  `| 256 × 32 × 16 slices | ${coldMs.toFixed(0)} | ${warm[1].toFixed(0)} | ${encodeMs.toFixed(1)} | ${file.byteLength} |`,
+  "| texture | cold (ms) | warm (ms) | cold / warm | KTX2 RGBA16F encode (ms) | KTX2 bytes |",
+  "| --- | ---: | ---: | ---: | ---: | ---: |",
+  `| 256 × 32 × 16 slices | ${coldMs.toFixed(0)} | ${warm[1].toFixed(0)} | ${(coldMs / warm[1]).toFixed(1)} | ${encodeMs.toFixed(1)} | ${file.byteLength} |`,
 ]);

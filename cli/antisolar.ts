@@ -10,10 +10,9 @@ import { z } from "zod";
 import { lutQuerySchema, lutRequestSchema } from "../schemas/lut.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { stripQuerySchema } from "../schemas/formats.js";
-import { computeSlicedLut } from "../pipeline/compute/lut-time-of-day.js";
 import { resolveLutRequest } from "../pipeline/sky/resolve-source.js";
 import { progressBar } from "./progress-bar.js";
-import { encodeLut } from "../pipeline/render/lut-render.js";
+import { computeLutForQuery, encodeLut } from "../pipeline/render/lut-render.js";
 import { renderProfile, type ProfileFormat } from "../pipeline/render/profile-render.js";
 import type { RenderDeps } from "../pipeline/render/render-output.js";
 import type { Bows, ProfileResponse } from "../schemas/responses/profile-response.js";
@@ -37,6 +36,7 @@ ${EYE_SAFETY_CAUTION}
 Options:
   -o, --output <file>         the file to write; its extension picks the format
       --pixel-type half|float  bake: the EXR or KTX2 sample type (default half)
+      --layers combined|by-order  bake: by-order adds the layers by scattering order to an EXR (reflection.R …)
       --height <px>           render: the PNG strip's height (default 32)
   -h, --help                  this text
 
@@ -50,6 +50,7 @@ Environment: WORKERS, CACHE_DIR, CACHE_BUDGET_MB as for the service.`;
 const cliOptions = {
   output: { type: "string", short: "o" },
   "pixel-type": { type: "string" },
+  layers: { type: "string" },
   height: { type: "string" },
   help: { type: "boolean", short: "h" },
 } as const;
@@ -100,10 +101,10 @@ function formatFor<F>(output: string, formats: Readonly<Record<string, F>>): F {
 async function bake(input: string | undefined, values: CliValues): Promise<void> {
   const output = values.output;
   if (!input || !output) throw new UsageError("bake needs a request file and -o <file>");
-  const query = parseOrThrow(lutQuerySchema, { format: formatFor(output, LUT_FORMATS), pixelType: values["pixel-type"] }, "query");
+  const query = parseOrThrow(lutQuerySchema, { format: formatFor(output, LUT_FORMATS), pixelType: values["pixel-type"], layers: values.layers }, "query");
   const resolved = resolveLutRequest(parseOrThrow(lutRequestSchema, await readJson(input), "body"));
   await withKernels(async (deps) => {
-    const lut = await computeSlicedLut(resolved.body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles } }, progressBar("baking"));
+    const lut = await computeLutForQuery(resolved.body, query, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles } }, progressBar("baking"));
     const file = await encodeLut(lut, resolved, query);
     // PNG holds 0..1: the route states the divisor in a header, the CLI in the manifest beside the file.
     const scale = file.headers["x-antisolar-scale"];

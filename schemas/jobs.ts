@@ -17,7 +17,7 @@ export function jobRequestSchema(endpoints: readonly string[]) {
         .describe("the endpoint's other query options as an object, e.g. {\"height\": 64} or {\"part\": \"manifest\"}"),
       sequence: sequenceSchema
         .optional()
-        .describe("a span of time instead of one moment (profile, view, sky, lut): one tar archive of numbered frames and manifest.json; the body's sun.at or moon.at gives the place"),
+        .describe("a span of time instead of one moment (profile, view, sky, lut): one tar archive of numbered frames and manifest.json; the body's sun.at or moon.at gives the place. Progress counts frames; with Redis, a job whose worker dies resumes from the frames already finished"),
     })
     .strict();
 }

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { checkProfilePhysics, profileDefaults, profileFieldsSchema } from "./profile.js";
 import { isFlattened } from "./drop-shape.js";
+import { checkLayersFormat, layersSchema } from "./layers.js";
 
 const scenarioSchema = profileFieldsSchema.omit({ angles: true, output: true });
 
@@ -142,7 +143,9 @@ export const lutQuerySchema = z
       .describe("exr: OpenEXR, ZIP; ktx2: KTX 2.0 RGBA16F/RGBA32F for engines; hdr: Radiance RGBE; png16: scaled 16-bit PNG; json: texel values"),
     part: z.enum(["image", "manifest"]).default("image").describe("manifest: the JSON that maps texels to angle and size"),
     pixelType: z.enum(["half", "float"]).default("half").describe("EXR and KTX2 sample type (KTX2: RGBA16F or RGBA32F)"),
+    layers: layersSchema,
   })
-  .strict();
+  .strict()
+  .superRefine(checkLayersFormat);
 
 export const shaderQuerySchema = z.object({ lang: z.enum(["glsl", "hlsl", "wgsl"]).default("glsl") }).strict();

@@ -4,6 +4,7 @@ import { refuseFlattenedDropsOnWater } from "./drop-shape.js";
 import { placeAndMomentSchema } from "./place-and-time.js";
 import { moonPositionSchema } from "./moon.js";
 import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
+import { checkLayersFormat, layersSchema } from "./layers.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 const profileFields = profileRequestSchema.shape;
@@ -144,8 +145,10 @@ export const imageQuerySchema = z
   .object({
     format: z.enum(["exr", "hdr", "png16", "png"]).default("exr").describe("exr: half float, ZIP; hdr: Radiance RGBE; png16: linear with ICC; png: 8-bit sRGB preview, ordered dither"),
     part: z.enum(["image", "manifest"]).default("image").describe("manifest: JSON sidecar (camera, mapping, scale, hash, sources) instead of the image"),
+    layers: layersSchema,
   })
-  .strict();
+  .strict()
+  .superRefine(checkLayersFormat);
 
 export type ViewRequest = z.infer<typeof viewRequestSchema>;
 export type SkyRequest = z.infer<typeof skyRequestSchema>;

@@ -89,6 +89,8 @@ function updateVisibility() {
   for (const el of form.querySelectorAll("[data-light], [data-position]")) {
     el.hidden = (el.dataset.light !== undefined && el.dataset.light !== light) || (el.dataset.position !== undefined && el.dataset.position !== position);
   }
+  // A sequence is a span of time: it needs the position by place and time.
+  $("sequence-render").disabled = position !== "place-and-time";
 }
 
 /** The light's apparent elevation: as computed by the service for a place and time, else as given. */
@@ -363,6 +365,16 @@ function viewLight(b) {
   return { sun: b.sun.at ? { at: b.sun.at } : { azimuthDeg: 180, elevationDeg: b.sun.elevationDeg } };
 }
 
+/** The EXR downloads' layer choice as a query: by scattering order adds the layers beside the combined channels. */
+function exrLayers() {
+  return $("exr-layers").value === "by-order" ? "&layers=by-order" : "";
+}
+
+/** Ending of an EXR file's name: which layers it holds. */
+function exrExt(kind) {
+  return `-${kind}${$("exr-layers").value === "by-order" ? "-by-order" : ""}.exr`;
+}
+
 /** Every export: which endpoint, with what body, to which file. */
 const exportKinds = {
   json: { label: "JSON profile", url: () => "/v1/profile?format=json", body: (b) => b, ext: ".json" },
@@ -372,9 +384,9 @@ const exportKinds = {
   chromaticity: { label: "chromaticity diagram (SVG)", url: () => "/v1/figure/chromaticity", body: (b) => b, ext: "-chromaticity.svg" },
   "lut-exr": {
     label: "lookup texture (OpenEXR, ACEScg)",
-    url: () => "/v1/lut?format=exr",
+    url: () => `/v1/lut?format=exr${exrLayers()}`,
     body: (b) => lutBody(b),
-    ext: "-lut.exr",
+    ext: () => exrExt("lut"),
   },
   "lut-ktx2": { label: "lookup texture (KTX2, RGBA16F, ACEScg)", url: () => "/v1/lut?format=ktx2", body: (b) => lutBody(b), ext: "-lut.ktx2" },
   "lut-by-hour": {
@@ -386,9 +398,19 @@ const exportKinds = {
   "lut-manifest": { label: "lookup texture manifest", url: () => "/v1/lut?part=manifest", body: (b) => lutBody(b), ext: "-lut-manifest.json" },
   "view-exr": {
     label: "camera view (OpenEXR, premultiplied RGBA)",
-    url: () => "/v1/view?format=exr",
+    url: () => `/v1/view?format=exr${exrLayers()}`,
     body: (b) => viewBody(b, viewLight(b), 1280, 720),
-    ext: "-view.exr",
+    ext: () => exrExt("view"),
+  },
+  "sky-exr": {
+    label: "sky map (OpenEXR, equirectangular, premultiplied RGBA)",
+    url: () => `/v1/sky?format=exr${exrLayers()}`,
+    body: (b) => {
+      // The view's scene without the camera: a sky map takes no camera and no image-plane polariser.
+      const { camera, polariserDeg, ...sky } = viewBody(b, viewLight(b), 2048, 1024);
+      return { ...sky, widthPx: 2048, heightPx: 1024 };
+    },
+    ext: () => exrExt("sky"),
   },
 };
 
@@ -447,7 +469,7 @@ async function download(format) {
     const blob = await res.blob();
     let hash = res.headers.get("x-antisolar-hash");
     if (format === "json") hash = JSON.parse(await blob.text()).meta.hash;
-    const fileName = `antisolar-${String(hash).slice(0, 10)}${kind.ext}`;
+    const fileName = `antisolar-${String(hash).slice(0, 10)}${typeof kind.ext === "function" ? kind.ext() : kind.ext}`;
     saveBlob(blob, fileName);
     endBusy(token, `Saved ${fileName} (${(blob.size / 1024).toFixed(1)} kB).`);
   } catch (error) {
@@ -475,17 +497,21 @@ $("copy-curl").addEventListener("click", async () => {
 
 // ---------- sequence preview ----------
 
-/** Frames of the last sequence preview (object URLs, freed when the next one arrives). */
+/** Frames of the last sequence preview (decoded images, closed when the next one arrives). */
 let sequenceFrames = [];
 
 function showSequenceFrame() {
   const k = Number($("sequence-scrub").value);
   const frame = sequenceFrames[k];
   if (!frame) return;
-  $("sequence-frame").src = frame.url;
+  const canvas = $("sequence-frame");
+  const ctx = canvas.getContext("2d");
+  ctx.clearRect(0, 0, canvas.width, canvas.height);
+  ctx.drawImage(frame.bitmap, 0, 0, canvas.width, canvas.height);
+  canvas.dataset.frame = String(k);
   const elevation = frame.elevationDeg === null ? "" : `, ${light()} ${frame.elevationDeg.toFixed(1)}° high`;
   $("sequence-scrub-value").textContent = `frame ${k + 1} of ${sequenceFrames.length}: ${frame.utc.slice(0, 16).replace("T", " ")} UTC${elevation}`;
-  $("sequence-frame").alt = `Camera view at ${frame.utc}${elevation}`;
+  canvas.setAttribute("aria-label", `Camera view at ${frame.utc}${elevation}`);
 }
 
 function light() {
@@ -516,7 +542,7 @@ async function renderSequence() {
   const token = startBusy(`Rendering ${frames} frames as a background job`);
   try {
     const rendered = await renderSequencePreview({ viewBody: viewBody(b, viewLightAt, 320, 180), fromUtc, toUtc, frames, signal: controller.signal, bar: jobBar });
-    for (const f of sequenceFrames) URL.revokeObjectURL(f.url);
+    for (const f of sequenceFrames) f.bitmap.close();
     sequenceFrames = rendered;
     $("sequence-scrub").max = String(rendered.length - 1);
     $("sequence-scrub").value = "0";

@@ -30,15 +30,18 @@ export function untar(buffer) {
 
 /**
  * Renders `frames` camera views of `viewBody` from fromUtc to toUtc as one job and resolves with the frames:
- * { url (an object URL of the PNG), utc, elevationDeg } in order. The caller revokes the URLs.
+ * { bitmap (the decoded PNG, for a canvas: no blob: URL, so the page's CSP stays same-origin), utc, elevationDeg }
+ * in order. The caller closes the bitmaps.
  */
 export async function renderSequencePreview({ viewBody, fromUtc, toUtc, frames, signal, bar }) {
   const res = await runAsJob("view", viewBody, { format: "png" }, signal, bar, { sequence: { fromUtc, toUtc, frames } });
   const files = untar(await res.arrayBuffer());
   const manifest = JSON.parse(new TextDecoder().decode(files.get("manifest.json")));
-  return manifest.frames.map((f) => ({
-    url: URL.createObjectURL(new Blob([files.get(f.file)], { type: "image/png" })),
-    utc: f.utc,
-    elevationDeg: f.sourcePosition?.elevationDeg ?? null,
-  }));
+  return Promise.all(
+    manifest.frames.map(async (f) => ({
+      bitmap: await createImageBitmap(new Blob([files.get(f.file)], { type: "image/png" })),
+      utc: f.utc,
+      elevationDeg: f.sourcePosition?.elevationDeg ?? null,
+    })),
+  );
 }

@@ -26,7 +26,7 @@ export function viewRoutes(config: Config, kernels: KernelService): RouteSpec[] 
 
   async function answer(endpoint: "view" | "sky", body: ViewRequest | SkyRequest, query: ImageQuery, reply: FastifyReply) {
     // The manifest depends on the format (space, quantising), so it is cached per format too.
-    const cacheKey = `${endpoint}|${overlayHash(endpoint, body)}|${query.format}|${query.part}`;
+    const cacheKey = `${endpoint}|${overlayHash(endpoint, body)}|${query.format}|${query.part}${query.layers === "by-order" ? "|by-order" : ""}`;
     const cached = results.get<RenderOutput>(cacheKey);
     if (cached) return sendOutput(reply, cached, "hit");
     const output = await renderOverlay(endpoint, body, query, { kernels, maxTermAngles: config.maxProfileTermAngles, signal: clientSignal(reply) });

@@ -30,8 +30,7 @@ export const WEB_CONTENT_SECURITY_POLICY = [
   "default-src 'self'",
   "script-src 'self'",
   "style-src 'self'",
-  // blob: for the frames of a sequence preview, unpacked in the page from the job's archive.
-  "img-src 'self' blob:",
+  "img-src 'self'",
   "connect-src 'self'",
   "object-src 'none'",
   "base-uri 'none'",

@@ -2,8 +2,8 @@
 // normalisation, and the output space.
 
 import type { WavelengthGrid } from "../spectra/grid.js";
-import { spectraToXyz, chromaticities, luminanceReciprocal, type Xyz } from "../colour/tristimulus.js";
-import type { Observer } from "../colour/observers.js";
+import { spectraToXyz, weightedSums, chromaticities, luminanceReciprocal, type Xyz } from "../colour/tristimulus.js";
+import { colourMatchingFunctions, type Observer } from "../colour/observers.js";
 import { renderXyz, type WhiteHandling } from "../colour/render.js";
 import type { OutputSpaceId } from "../colour/output-spaces.js";
 import type { GamutMethod } from "../colour/gamut.js";
@@ -56,8 +56,7 @@ export function colourProfile(spectral: SpectralProfile, grid: WavelengthGrid, o
   const count = spectral.anglesDeg.length;
   const nl = grid.count;
   const radiance = new Float64Array(count * nl);
-  const cos2 = options.polariserDeg === undefined ? 1 : Math.cos((options.polariserDeg * Math.PI) / 180) ** 2;
-  const sin2 = options.polariserDeg === undefined ? 1 : 1 - cos2;
+  const { cos2, sin2 } = polariserWeights(options.polariserDeg);
   for (let k = 0; k < radiance.length; k++) {
     radiance[k] = cos2 * spectral.perpendicular[k] + sin2 * spectral.parallel[k];
   }
@@ -70,9 +69,7 @@ export function colourProfile(spectral: SpectralProfile, grid: WavelengthGrid, o
     polarisation[i] = a + b > 0 ? (a - b) / (a + b) : 0;
   }
 
-  const xyzAbsolute = spectraToXyz(grid, radiance, options.observer);
-  for (let k = 0; k < xyzAbsolute.length; k++) xyzAbsolute[k] *= LUMINOUS_EFFICACY_LM_PER_W;
-  if (options.eye) applyEyeToXyz(xyzAbsolute, scotopicOf(grid, radiance), options.eye);
+  const xyzAbsolute = absoluteXyz(radiance, grid, options);
   const luminanceCdPerM2 = new Float64Array(count);
   let peak = 0;
   for (let i = 0; i < count; i++) {
@@ -105,4 +102,46 @@ export function colourProfile(spectral: SpectralProfile, grid: WavelengthGrid, o
     whiteAdaptation: rendered.whiteAdaptation,
     spaceAdaptation: rendered.spaceAdaptation,
   };
+}
+
+/** Malus's law weights of the tangential (cos²α) and radial (sin²α) fields; both 1 without a polariser. */
+export function polariserWeights(polariserDeg: number | undefined): { cos2: number; sin2: number } {
+  const cos2 = polariserDeg === undefined ? 1 : Math.cos((polariserDeg * Math.PI) / 180) ** 2;
+  return { cos2, sin2: polariserDeg === undefined ? 1 : 1 - cos2 };
+}
+
+/** XYZ with Y in cd/m² of radiance spectra (K_m · CIE 015:2018 Eq. 7.1), through the eye at low light where asked. */
+function absoluteXyz(radiance: Float64Array, grid: WavelengthGrid, options: ColourOptions): Float64Array {
+  const xyz = spectraToXyz(grid, radiance, options.observer);
+  for (let k = 0; k < xyz.length; k++) xyz[k] *= LUMINOUS_EFFICACY_LM_PER_W;
+  if (options.eye) applyEyeToXyz(xyz, scotopicOf(grid, radiance), options.eye);
+  return xyz;
+}
+
+/**
+ * Per-wavelength weights of the colour sum of light scattered under one sunlight: K_m·Δλ·E(λ)·s·x̄(λ), likewise ȳ, z̄
+ * (CIE 015:2018 Eq. 7.1, K_m §7.1), so that XYZ in cd/m² of a unit profile (radiance per unit sunlight and path)
+ * is one dot product per sample. The light enters linearly, wavelength by wavelength (van de Hulst 1957 §1.2).
+ */
+export function sunlitXyzWeights(grid: WavelengthGrid, observer: Observer, sunIrradiance: Float64Array, pathLengthM: number): Float64Array[] {
+  const cmf = colourMatchingFunctions(observer, grid);
+  return [cmf.xBar.values, cmf.yBar.values, cmf.zBar.values].map((bar) =>
+    Float64Array.from(bar, (v, l) => LUMINOUS_EFFICACY_LM_PER_W * grid.stepNm * sunIrradiance[l] * pathLengthM * v),
+  );
+}
+
+/** Interleaved XYZ (cd/m²) of unit spectra (sample s, wavelength l at s·count + l) under sunlitXyzWeights. */
+export function weightedXyz(unitSpectra: Float64Array, weights: readonly Float64Array[]): Float64Array {
+  return weightedSums(unitSpectra, weights, 1);
+}
+
+/**
+ * The output space's values of absolute XYZ (cd/m²) for physical normalisation in a linear space (lookup textures),
+ * rendered as colourProfile renders its rgb.
+ */
+export function linearRgbOfXyz(xyzAbsolute: Float64Array, options: Omit<ColourOptions, "observer" | "polariserDeg">): Float64Array {
+  if (options.normalise !== "physical" || options.eye || options.space === "srgb" || options.space === "display-p3" || options.space === "rec2020") {
+    throw new RangeError("linearRgbOfXyz: physical values in a linear space, colorimetric vision only");
+  }
+  return renderXyz(xyzAbsolute, { space: options.space, gamut: options.gamut, white: options.white, sunWhite: options.sunWhite }).values;
 }

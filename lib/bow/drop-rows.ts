@@ -3,6 +3,8 @@
 
 import { mieCoefficientsScratch } from "../mie/coefficients-scratch.js";
 import { mieAmplitudes } from "../mie/amplitudes.js";
+import { debyeCoefficients } from "../mie/debye.js";
+import type { MieCoefficients } from "../mie/types.js";
 import { mieAmplitudesManyDrops } from "../mie/many-drops.js";
 import { allocateAmplitudes, type MieAmplitudes } from "../mie/types.js";
 import { rayOpticsBins, type RayBins } from "./ray-bins.js";
@@ -25,24 +27,34 @@ export interface DropRowContext {
   /** Everything in the airy engine that scales as x²: orders 0, 1, and the bows' orders where they are ray optics. */
   raysAiryEngine: RayBins | null;
   bowTables: (UniformBowTable | null)[];
+  /** One Debye order p alone (scattering-orders.ts), or undefined for the whole drop. */
+  order?: number;
 }
 
-/** Θ ascending and evenly spaced by stepDeg (ray and Airy engines give bin means over each step). */
+/**
+ * Θ ascending and evenly spaced by stepDeg (ray and Airy engines give bin means over each step). With an order p,
+ * the rows hold that Debye order alone: the approximate engines keep only its rays (or its bow), Lorenz–Mie drops
+ * take the Debye coefficients of order p (lib/mie/debye.ts) in place of the whole a_n, b_n.
+ */
 export function dropRowContext(
   medium: DropMedium,
   thetaDeg: Float64Array,
   stepDeg: number,
   engines: ReadonlySet<DropEngine>,
+  order?: number,
 ): DropRowContext {
   const n = medium.mRe;
   const needsAiry = engines.has("airy");
   const airyOrders = AIRY_BOW_ORDERS as readonly number[];
-  const bowTables = AIRY_BOW_ORDERS.map((p) => (needsAiry ? uniformBowTable(n, p, thetaDeg, stepDeg) : null));
+  const kept = (p: number) => order === undefined || p === order;
+  const rayOrders = RAY_ORDERS.filter(kept);
+  const bowTables = AIRY_BOW_ORDERS.map((p) => (needsAiry && kept(p) ? uniformBowTable(n, p, thetaDeg, stepDeg) : null));
   let raysAiryEngine: RayBins | null = null;
   if (needsAiry) {
-    raysAiryEngine = rayOpticsBins(n, RAY_ORDERS.filter((p) => !airyOrders.includes(p)), thetaDeg, stepDeg);
+    raysAiryEngine = rayOpticsBins(n, rayOrders.filter((p) => !airyOrders.includes(p)), thetaDeg, stepDeg);
     const { perpendicular, parallel } = raysAiryEngine;
     AIRY_BOW_ORDERS.forEach((p, o) => {
+      if (!kept(p)) return;
       const table = bowTables[o]!;
       const uniformBins = table.uniform.reduce((sum, u) => sum + u, 0);
       if (uniformBins === 0) bowTables[o] = null;
@@ -62,10 +74,16 @@ export function dropRowContext(
     thetaDeg,
     cosTheta: thetaDeg.map((t) => Math.cos((t * Math.PI) / 180)),
     amplitudes: allocateAmplitudes(thetaDeg.length),
-    raysAll: engines.has("geometric") ? rayOpticsBins(n, RAY_ORDERS, thetaDeg, stepDeg) : null,
+    raysAll: engines.has("geometric") ? rayOpticsBins(n, rayOrders, thetaDeg, stepDeg) : null,
     raysAiryEngine,
     bowTables,
+    ...(order === undefined ? {} : { order }),
   };
+}
+
+/** a_n, b_n of a Lorenz–Mie drop: the whole (scratch buffer), or the context's Debye order alone. */
+function dropCoefficients(ctx: DropRowContext, x: number): MieCoefficients {
+  return ctx.order === undefined ? mieCoefficientsScratch(ctx.mRe, ctx.mIm, x) : debyeCoefficients(ctx.mRe, ctx.mIm, x, ctx.order);
 }
 
 /**
@@ -83,7 +101,7 @@ export function dropRow(ctx: DropRowContext, engine: DropEngine, radiusUm: numbe
     let termAngles = 0;
     for (let s = 0; s < samples; s++) {
       const xs = samples === 1 ? x : ctx.waveNumberPerM * cellSampleRadiusUm(radiusUm, average!, s) * 1e-6;
-      const c = mieCoefficientsScratch(ctx.mRe, ctx.mIm, xs);
+      const c = dropCoefficients(ctx, xs);
       const a = mieAmplitudes(c, ctx.cosTheta, ctx.amplitudes);
       for (let j = 0; j < nTheta; j++) {
         perp[j] += share * (a.s1Re[j] * a.s1Re[j] + a.s1Im[j] * a.s1Im[j]);
@@ -129,7 +147,7 @@ export function mieRows(ctx: DropRowContext, drops: readonly { radiusUm: number;
     mieAmplitudesManyDrops(
       pass.length,
       (d) => {
-        const c = mieCoefficientsScratch(ctx.mRe, ctx.mIm, pass[d].x);
+        const c = dropCoefficients(ctx, pass[d].x);
         termAngles += c.nTerms * nTheta;
         return c;
       },

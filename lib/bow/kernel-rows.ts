@@ -7,6 +7,7 @@ import { rowVariant } from "./cell-average.js";
 import { dropRow, dropRowContext, mieRows, type CellAverage } from "./drop-rows.js";
 import type { DropMedium } from "../water/drop-medium.js";
 import { shapedDropRow, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
+import { orderVariant } from "./scattering-orders.js";
 
 export interface KernelRowsInput {
   medium: DropMedium;
@@ -14,6 +15,8 @@ export interface KernelRowsInput {
   items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage; shape?: ShapedRowSpec }[];
   /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
   within?: { first: number; last: number };
+  /** One Debye order p alone for every drop (scattering-orders.ts), or undefined for the whole drops. */
+  order?: number;
 }
 
 /** A row's samples outside the computed range: never a kernel value, so "covered" is a NaN test. */
@@ -40,7 +43,8 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
     positions.set(b, Int32Array.from({ length: count }, (_, k) => (first + k >= lo && first + k <= hi ? hi - (first + k) : -1)));
   }
   // Drops that are not spheres have their own engine (shaped-rows.ts): the sphere engines' tables are not built for them.
-  const ctx = dropRowContext(medium, thetaDeg, h, new Set(items.filter((it) => !it.shape).map((it) => it.engine)));
+  if (input.order !== undefined && items.some((it) => it.shape)) throw new RangeError("rows by scattering order are for spheres only");
+  const ctx = dropRowContext(medium, thetaDeg, h, new Set(items.filter((it) => !it.shape).map((it) => it.engine)), input.order);
   const perDrop = 1 / (2 * ctx.waveNumberPerM * ctx.waveNumberPerM);
   const perp = new Float64Array(nTheta);
   const par = new Float64Array(nTheta);
@@ -48,7 +52,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   // one allocation instead of one per drop (garbage collection fell from 17 % to 11 % of a default-profile task).
   const packRows = new Map<string, { buffer: Float64Array; used: number }>();
   // An averaged Lorenz–Mie row is not the single-size row of the same engine: its own buffer (and cache pack).
-  const variants = items.map((item) => shapedVariant(rowVariant(item.engine, item.average), item.shape));
+  const variants = items.map((item) => orderVariant(shapedVariant(rowVariant(item.engine, item.average), item.shape), input.order));
   for (const [index, item] of items.entries()) {
     for (const b of item.blocks) {
       const key = `${variants[index]}|${b}`;

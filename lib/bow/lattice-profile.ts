@@ -4,7 +4,7 @@
 
 import type { WavelengthGrid } from "../spectra/grid.js";
 import { wavelengthsNm } from "../spectra/grid.js";
-import { sunDiscKernel, type LimbDarkening } from "../sun/disc.js";
+import { sunDiscKernel, type DiscKernel, type LimbDarkening } from "../sun/disc.js";
 import { BLOCK_SAMPLES, latticeSpan, type LatticeSpan } from "./kernel-grid.js";
 
 export interface SpectralProfile {
@@ -66,14 +66,22 @@ export interface LatticeProfileInput {
   grid: WavelengthGrid;
   span: LatticeSpan;
   beta: PopulationBeta;
-  sunIrradiance: Float64Array;
-  discDiameterDeg: number;
-  limbDarkening: LimbDarkening;
-  pathLengthM: number;
+  /** The sun disc's strip profile at wavelength index l (the same for every drop population: callers may share them). */
+  disc: (wavelengthIndex: number) => DiscKernel;
+  /** Indices (ascending) of the output angles wanted; all of them when left out. Each sample depends on its own neighbourhood only. */
+  samples?: Int32Array;
 }
 
-export function latticeProfile(input: LatticeProfileInput): SpectralProfile {
-  const steps = latticeProfileSteps(input);
+/** The disc kernels of a grid, made once per wavelength on first use (they depend on the disc, the lattice step and λ only). */
+export function discKernels(grid: WavelengthGrid, discDiameterDeg: number, h: number, limbDarkening: LimbDarkening): (wavelengthIndex: number) => DiscKernel {
+  const wl = wavelengthsNm(grid);
+  const made: DiscKernel[] = [];
+  return (l) => (made[l] ??= sunDiscKernel(discDiameterDeg, h, wl[l], limbDarkening));
+}
+
+/** The spectral radiance per unit sunlight and path, all at once (latticeUnitProfileSteps). */
+export function latticeUnitProfile(input: LatticeProfileInput): SpectralProfile {
+  const steps = latticeUnitProfileSteps(input);
   for (;;) {
     const step = steps.next();
     if (step.done) return step.value;
@@ -81,49 +89,98 @@ export function latticeProfile(input: LatticeProfileInput): SpectralProfile {
 }
 
 /**
- * The same, one wavelength per step: a caller on an event loop can let other work run between steps
- * (the sum over drops is the bulk of a warm profile's time).
+ * [D ∗ Σ_i w_i β_i](ψ) per wavelength, i.e. L/(E_sun·s): the part of the profile that does not depend on the
+ * sunlight, one wavelength per step, so that a caller on an event loop can let other work run between steps.
+ * sunlitProfile turns it into radiance for one sun spectrum: the sun enters linearly, wavelength by wavelength,
+ * so one such profile serves every sun elevation (time-of-day textures).
  */
-export function* latticeProfileSteps(input: LatticeProfileInput): Generator<void, SpectralProfile> {
+export function* latticeUnitProfileSteps(input: LatticeProfileInput): Generator<void, SpectralProfile> {
   const { angles, grid, span } = input;
   const { h, first, last } = span;
   const n = last - first + 1;
   const nl = grid.count;
-  const wl = wavelengthsNm(grid);
-  const anglesDeg = Float64Array.from({ length: angles.count }, (_, i) => angles.fromDeg + i * angles.stepDeg);
-  const perpendicular = new Float64Array(angles.count * nl);
-  const parallel = new Float64Array(angles.count * nl);
+  const wanted = input.samples ?? Int32Array.from({ length: angles.count }, (_, i) => i);
+  const count = wanted.length;
+  const anglesDeg = Float64Array.from(wanted, (i) => angles.fromDeg + i * angles.stepDeg);
+  // Linear interpolation between lattice points (the lattice step is never coarser than the output step): each
+  // output angle reads lattice points k and k + 1, the only ones the disc's convolution needs to fill.
+  const lower = new Int32Array(count);
+  const fraction = new Float64Array(count);
+  const needed = new Uint8Array(n);
+  for (let s = 0; s < count; s++) {
+    const position = anglesDeg[s] / h - first;
+    const k = Math.min(n - 2, Math.max(0, Math.floor(position)));
+    lower[s] = k;
+    fraction[s] = position - k;
+    needed[k] = 1;
+    needed[k + 1] = 1;
+  }
+  const perpendicular = new Float64Array(count * nl);
+  const parallel = new Float64Array(count * nl);
   const beta = new Float64Array(2 * n);
   const smoothed = new Float64Array(2 * n);
 
   for (let l = 0; l < nl; l++) {
     input.beta(l, beta);
-    const disc = sunDiscKernel(input.discDiameterDeg, h, wl[l], input.limbDarkening);
-    convolveOnLattice(beta, n, first, disc.weights, smoothed);
-    const scale = input.sunIrradiance[l] * input.pathLengthM;
-    for (let i = 0; i < angles.count; i++) {
-      // Linear interpolation between lattice points (the lattice step is never coarser than the output step).
-      const position = anglesDeg[i] / h - first;
-      const k = Math.min(n - 2, Math.max(0, Math.floor(position)));
-      const t = position - k;
-      perpendicular[i * nl + l] = scale * (smoothed[k] * (1 - t) + smoothed[k + 1] * t);
-      parallel[i * nl + l] = scale * (smoothed[n + k] * (1 - t) + smoothed[n + k + 1] * t);
+    convolveOnLattice(beta, n, first, input.disc(l).weights, needed, smoothed);
+    for (let s = 0; s < count; s++) {
+      const k = lower[s];
+      const t = fraction[s];
+      perpendicular[s * nl + l] = smoothed[k] * (1 - t) + smoothed[k + 1] * t;
+      parallel[s * nl + l] = smoothed[n + k] * (1 - t) + smoothed[n + k + 1] * t;
     }
     yield;
   }
   return { anglesDeg, perpendicular, parallel, mieTermAngles: 0 };
 }
 
+/** L = E_sun(λ)·s·unit (van de Hulst 1957 §1.2, single scattering): the unit profile lit by one sun spectrum. */
+export function sunlitProfile(unit: SpectralProfile, sunIrradiance: Float64Array, pathLengthM: number): SpectralProfile {
+  const nl = sunIrradiance.length;
+  const scale = Float64Array.from(sunIrradiance, (e) => e * pathLengthM);
+  const perpendicular = new Float64Array(unit.perpendicular.length);
+  const parallel = new Float64Array(unit.parallel.length);
+  for (let o = 0; o < perpendicular.length; o += nl) {
+    for (let l = 0; l < nl; l++) {
+      perpendicular[o + l] = scale[l] * unit.perpendicular[o + l];
+      parallel[o + l] = scale[l] * unit.parallel[o + l];
+    }
+  }
+  return { anglesDeg: unit.anglesDeg, perpendicular, parallel, mieTermAngles: unit.mieTermAngles };
+}
+
+/** The unit profile seen through a polariser (Malus weights cos2, sin2; both 1 without one): cos2·⊥ + sin2·∥. */
+export function polarisedUnitRadiance(unit: SpectralProfile, cos2: number, sin2: number): Float64Array {
+  const { perpendicular, parallel } = unit;
+  const out = new Float64Array(perpendicular.length);
+  for (let k = 0; k < out.length; k++) out[k] = cos2 * perpendicular[k] + sin2 * parallel[k];
+  return out;
+}
+
 /**
  * Convolves both halves of beta (⊥ then ∥, n points from lattice index `first`) with the disc's odd-length
- * kernel. Points before ψ = 0 mirror to |ψ| (the bow is a circle about the antisolar point); points past the
- * span's ends are left out and the weights renormalised.
+ * kernel, at the lattice points marked needed. Points before ψ = 0 mirror to |ψ| (the bow is a circle about the
+ * antisolar point); points past the span's ends are left out and the weights renormalised.
  */
-function convolveOnLattice(beta: Float64Array, n: number, first: number, weights: Float64Array, out: Float64Array): void {
+function convolveOnLattice(beta: Float64Array, n: number, first: number, weights: Float64Array, needed: Uint8Array, out: Float64Array): void {
   const half = (weights.length - 1) / 2;
+  // Inside [kLo, kHi] every tap falls within the span at a non-negative index: no mirror, no clipping, and the
+  // weights' sum (added in the same order as at the edges) is the norm.
+  const kLo = Math.max(half, half - first);
+  const kHi = n - 1 - half;
+  let fullNorm = 0;
+  for (let t = 0; t < weights.length; t++) fullNorm += weights[t];
   for (let part = 0; part < 2; part++) {
     const base = part * n;
     for (let k = 0; k < n; k++) {
+      if (!needed[k]) continue;
+      if (k >= kLo && k <= kHi) {
+        let sum = 0;
+        const from = base + k - half;
+        for (let t = 0; t < weights.length; t++) sum += weights[t] * beta[from + t];
+        out[base + k] = fullNorm > 0 ? sum / fullNorm : 0;
+        continue;
+      }
       let sum = 0;
       let norm = 0;
       for (let t = 0; t < weights.length; t++) {

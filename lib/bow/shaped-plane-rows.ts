@@ -2,7 +2,7 @@
 // prepared once per shape, orientation and wavelength and scales with the size parameter x as for spheres
 // (ray optics ∝ x², the bows through lib/bow/airy-bins.ts's addUniformBowBins).
 
-import { PlaneTracer, sweepPlane, type ScatteringPlane } from "../rays/plane-sweep.js";
+import { PlaneTracer, sweepPlane, type ScatteringPlane, type SweepWindow } from "../rays/plane-sweep.js";
 import type { DropTraceSetup } from "../rays/shape-tracer.js";
 import { addUniformBowBins, type UniformBowTable } from "./airy-bins.js";
 import { planeBowTable, type PlaneFold } from "./plane-bow-table.js";
@@ -22,16 +22,54 @@ export const SHAPED_HALF_SEGMENTS = 4000;
 const LOOK_HALF_SEGMENTS = 64;
 const LOOK_MARGIN_DEG = 10;
 
-/** Whether any light of the coarse sweep lands within LOOK_MARGIN_DEG of the grid in this half-plane. */
-function reachesGrid(tracer: PlaneTracer, p: number, side: 1 | -1, thetaDeg: Float64Array, stepDeg: number): boolean {
+/**
+ * Where the coarse sweep's light lands within LOOK_MARGIN_DEG of the grid in this half-plane: the part of the pupil the
+ * full sweep traces (null if none). A coarse cell is wanted when a ray at either end lands there, when its two rays
+ * span the grid, or where the order starts or stops leaving the drop (rim, total reflection), and so are its
+ * neighbours; the rest of the pupil sends its light of this order ≥ LOOK_MARGIN_DEG away from the grid.
+ */
+function lookWindow(tracer: PlaneTracer, p: number, side: 1 | -1, thetaDeg: Float64Array, stepDeg: number): SweepWindow | null {
   const look = sweepPlane(tracer, p, LOOK_HALF_SEGMENTS);
   const lo = (thetaDeg[0] - stepDeg / 2 - LOOK_MARGIN_DEG) * DEG;
   const hi = (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + LOOK_MARGIN_DEG) * DEG;
-  for (let s = 0; s < look.u.length; s++) {
-    const theta = side * look.thetaSigned[s];
-    if (look.ok[s] && theta >= lo && theta <= hi) return true;
+  const count = look.u.length;
+  const mark = new Uint8Array(count);
+  const theta = (s: number) => side * look.thetaSigned[s];
+  let any = false;
+  for (let s = 0; s < count; s++) {
+    if (look.ok[s] && theta(s) >= lo && theta(s) <= hi) {
+      mark[s] = 1;
+      any = true;
+    }
+    if (s + 1 < count && look.ok[s] !== look.ok[s + 1]) mark[s] = mark[s + 1] = 1;
+    if (s + 1 < count && look.ok[s] && look.ok[s + 1] && Math.min(theta(s), theta(s + 1)) <= lo && Math.max(theta(s), theta(s + 1)) >= hi) {
+      mark[s] = mark[s + 1] = 1;
+      any = true;
+    }
   }
-  return false;
+  if (!any) return null;
+  const wanted = Uint8Array.from(mark, (m, s) => (m || mark[s - 1] || mark[s + 1] ? 1 : 0));
+  const cellOf = (u: number) => {
+    let a = 0;
+    let b = count - 1;
+    while (b - a > 1) {
+      const m = (a + b) >> 1;
+      if (look.u[m] <= u) a = m;
+      else b = m;
+    }
+    return a;
+  };
+  return {
+    wants: (u) => {
+      const s = cellOf(u);
+      return wanted[s] === 1 || wanted[s + 1] === 1;
+    },
+    guess: (u) => {
+      const s = cellOf(u);
+      const near = Math.abs(look.u[s + 1] - u) < Math.abs(u - look.u[s]) ? s + 1 : s;
+      return look.ok[near] ? look.v[near] : look.ok[s] ? look.v[s] : look.v[s + 1];
+    },
+  };
 }
 
 const DEG = Math.PI / 180;
@@ -46,6 +84,8 @@ export interface ShapedPlaneContext {
 
 export interface ShapedPlaneOptions {
   halfSegments?: number;
+  /** False: sweep the whole pupil, not only where the coarse look sends light near the grid (for tests). */
+  windowed?: boolean;
   rayOrders?: readonly number[];
   bowOrders?: readonly number[];
 }
@@ -62,6 +102,7 @@ export function shapedPlaneContext(
   const rayOrders = options.rayOrders ?? SHAPED_RAY_ORDERS;
   const bowOrders = options.bowOrders ?? SHAPED_BOW_ORDERS;
   const halfSegments = options.halfSegments ?? SHAPED_HALF_SEGMENTS;
+  const windowed = options.windowed ?? true;
   const maxOrder = Math.max(...rayOrders, ...bowOrders);
   // Absorption is left out, as in the sphere engines (lib/rays/fresnel.ts pathTransmittance): it would break the
   // scaling with x; for water in the visible 2κx·(path ≈ 4a) stays below 1 % up to 3 mm drops (κ ≤ 3e-8).
@@ -69,13 +110,15 @@ export function shapedPlaneContext(
   const count = thetaDeg.length;
   const raysPerX2: RayBins = { perpendicular: new Float64Array(count), parallel: new Float64Array(count) };
   for (const p of rayOrders) {
-    if (reachesGrid(tracer, p, side, thetaDeg, stepDeg)) planeRayBins(sweepPlane(tracer, p, halfSegments), side, thetaDeg, stepDeg, undefined, raysPerX2);
+    const window = lookWindow(tracer, p, side, thetaDeg, stepDeg);
+    if (window) planeRayBins(sweepPlane(tracer, p, halfSegments, windowed ? window : undefined), side, thetaDeg, stepDeg, undefined, raysPerX2);
   }
   const bowTables: UniformBowTable[] = [];
   const folds: ShapedPlaneContext["folds"] = [];
   for (const p of bowOrders) {
-    if (!reachesGrid(tracer, p, side, thetaDeg, stepDeg)) continue;
-    const sweep = sweepPlane(tracer, p, halfSegments);
+    const window = lookWindow(tracer, p, side, thetaDeg, stepDeg);
+    if (!window) continue;
+    const sweep = sweepPlane(tracer, p, halfSegments, windowed ? window : undefined);
     const bow = planeBowTable(tracer, sweep, side, thetaDeg, stepDeg);
     if (bow === null) {
       planeRayBins(sweep, side, thetaDeg, stepDeg, undefined, raysPerX2);

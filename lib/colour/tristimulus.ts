@@ -37,11 +37,15 @@ export function spectrumToXyz(spectrum: Spectrum, observer: Observer): Xyz {
 export function spectraToXyz(grid: WavelengthGrid, spectra: Float64Array, observer: Observer): Float64Array {
   const n = grid.count;
   if (spectra.length % n !== 0) throw new RangeError(`spectra length ${spectra.length} is not a multiple of ${n}`);
-  const samples = spectra.length / n;
   const cmf = colourMatchingFunctions(observer, grid);
-  const xb = cmf.xBar.values;
-  const yb = cmf.yBar.values;
-  const zb = cmf.zBar.values;
+  return weightedSums(spectra, [cmf.xBar.values, cmf.yBar.values, cmf.zBar.values], grid.stepNm);
+}
+
+/** Interleaved (Σ v·wx, Σ v·wy, Σ v·wz)·factor of spectra stored row-major (sample s, entry i at s·count + i). */
+export function weightedSums(spectra: Float64Array, weights: readonly ArrayLike<number>[], factor: number): Float64Array {
+  const [xb, yb, zb] = weights;
+  const n = xb.length;
+  const samples = spectra.length / n;
   const out = new Float64Array(3 * samples);
   for (let s = 0; s < samples; s++) {
     let X = 0;
@@ -54,9 +58,9 @@ export function spectraToXyz(grid: WavelengthGrid, spectra: Float64Array, observ
       Y += v * yb[i];
       Z += v * zb[i];
     }
-    out[3 * s] = X * grid.stepNm;
-    out[3 * s + 1] = Y * grid.stepNm;
-    out[3 * s + 2] = Z * grid.stepNm;
+    out[3 * s] = X * factor;
+    out[3 * s + 1] = Y * factor;
+    out[3 * s + 2] = Z * factor;
   }
   return out;
 }

@@ -200,7 +200,15 @@ export interface PlaneSweep {
   v: Float64Array;
 }
 
-export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number): PlaneSweep {
+/** The part of the pupil a sweep traces, and where Newton's search restarts after a gap. */
+export interface SweepWindow {
+  wants(u: number): boolean;
+  /** A starting v at u after a gap (a ray found nearby). */
+  guess(u: number): number;
+}
+
+/** window: trace only the rays it wants (the others stay ok = 0). */
+export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number, window?: SweepWindow): PlaneSweep {
   const count = 2 * halfSegments + 1;
   const sweep: PlaneSweep = {
     order: p,
@@ -219,10 +227,19 @@ export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number)
     // The pupil's edge is found at v = 0; where the curve v*(u) bends, rays near the rim may miss and are skipped.
     const half = tracer.pupilHalfWidth(sign);
     let vGuess = 0;
+    let gap = false;
     for (let s = sign === 1 ? 0 : 1; s <= halfSegments; s++) {
       const index = halfSegments + sign * s;
       const u = sign * half * Math.sin((Math.PI * s) / (2 * halfSegments));
       sweep.u[index] = u;
+      if (window && !window.wants(u)) {
+        gap = true;
+        continue;
+      }
+      if (gap) {
+        vGuess = window!.guess(u);
+        gap = false;
+      }
       const ray = tracer.planeRay(u, vGuess, p);
       if (ray === null) continue;
       vGuess = ray.v;

@@ -1,12 +1,14 @@
-// Sliced lookup textures. Time of day: one slice per sun elevation, so that an engine whose sun moves samples the
-// bows of the hour (the sun's reddening through the air mass changes the bows' colours and brightness). Flattened
-// drops: one slice per arc position, so that a shader samples the bow of the place along the arc its view ray
-// meets. Each slice is the single texture at its elevation or arc position, computed by the same code.
+// Time-of-day lookup textures: one texture slice per sun elevation, so that an engine whose sun moves samples the
+// bows of the hour (the sun's reddening through the air mass changes the bows' colours and brightness).
+// Each slice is the single-elevation texture at its elevation, computed by the same code (lut.ts,
+// computeLutsAcrossSun): the slices share the kernels and the spectral sums and differ in the sunlight only.
+// Flattened drops: one slice per arc position, so that a shader samples the bow of the place along the arc its view
+// ray meets; each slice is the single texture at its arc position (its own kernel rows: nothing to share).
 
 import { DEFAULT_ARC_SLICES, type LutRequest } from "../../schemas/lut.js";
 import { isFlattened } from "../../schemas/drop-shape.js";
 import { defaultSun } from "../../schemas/profile.js";
-import { computeLut, type Lut } from "./lut.js";
+import { computeLut, computeLutsAcrossSun, lutStages, type Lut } from "./lut.js";
 import { ProgressMeter, type ProgressListener } from "../progress/progress-meter.js";
 import { requestHash, type ProfileDeps } from "./profile.js";
 
@@ -26,86 +28,94 @@ export function sliceElevationsDeg(range: { fromDeg: number; toDeg: number; slic
   return Array.from({ length: range.slices }, (_, k) => range.fromDeg + ((range.toDeg - range.fromDeg) * k) / (range.slices - 1));
 }
 
-/** What a texture is sliced by, and the request of each slice; undefined for a single texture. */
-interface SliceAxis {
-  range: { fromDeg: number; toDeg: number; slices: number };
-  quantity: string;
-  name: (valueDeg: number) => string;
-  request: (valueDeg: number) => LutRequest;
-  /** How a shader finds its slice (the manifest's mapping). */
-  sampling: string;
-  replaced?: string;
-}
-
-function sliceAxisOf(request: LutRequest): SliceAxis | undefined {
-  if (request.sunElevations) {
-    return {
-      range: request.sunElevations,
-      quantity: "the sun's elevation above the horizon",
-      name: (e) => `sun at ${Number(e.toFixed(2))}°`,
-      request: (e) => sliceRequest(request, e),
-      sampling: "blend the two nearest slices",
-      replaced: request.scenario.sun?.elevationDeg !== undefined ? "scenario.sun.elevationDeg is replaced by each slice's elevation (sunElevations)" : undefined,
-    };
-  }
-  if (!isFlattened(request.scenario.drops?.shape)) return undefined;
-  return {
-    range: request.arcPositions ?? DEFAULT_ARC_SLICES,
-    quantity: "the arc position: angle around the antisolar point from the bow's highest point (0°) to its lowest (180°), left and right alike",
-    name: (a) => `arc position ${Number(a.toFixed(2))}°`,
-    request: (a) => ({ ...request, scenario: { ...request.scenario, arcPositionDeg: a }, arcPositions: undefined }),
-    sampling:
-      "the view ray's arc position from antisolarArcDeg (the shader snippets: world up, sun and view directions); blend the two nearest slices linearly. A plain blend of slices 5° apart differs from the bow computed between them by 2–21 % of its light (bench/arc-interpolation.ts, 2 mm drops: the bow moves along the arc); finer slices shrink it",
-    replaced: request.scenario.arcPositionDeg !== undefined ? "scenario.arcPositionDeg is replaced by each slice's arc position" : undefined,
-  };
-}
-
 /** The request of slice k: the scenario's sun (or the default sun) at that slice's elevation. */
 export function sliceRequest(request: LutRequest, elevationDeg: number): LutRequest {
   const sun = { ...(request.scenario.sun ?? defaultSun), elevationDeg };
   return { ...request, scenario: { ...request.scenario, sun }, sunElevations: undefined };
 }
 
-export async function computeSlicedLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener): Promise<SlicedLut> {
-  const axis = sliceAxisOf(request);
-  if (!axis) {
-    const lut = await computeLut(request, deps, onProgress);
-    return { ...lut, slices: 1 };
-  }
-  const range = axis.range;
-  const started = performance.now();
-  const elevations = sliceElevationsDeg(range);
-  const slices: Lut[] = [];
-  // Slices weigh the same in the progress (the first one also computes the kernels the others reuse, so the
-  // fraction runs slower at first; the time left is estimated from the rate so far).
-  const stageNames = elevations.map((e, k) => `slice ${k + 1} of ${elevations.length} (${axis.name(e)})`);
+/** The slices of a texture of flattened drops, one per arc position, each the single texture there. */
+async function arcSlices(request: LutRequest, values: number[], deps: ProfileDeps, onProgress?: ProgressListener): Promise<Lut[]> {
+  const stageNames = values.map((a, k) => `slice ${k + 1} of ${values.length} (arc position ${Number(a.toFixed(2))}°)`);
   const progress = new ProgressMeter(stageNames, onProgress);
   for (const name of stageNames) progress.plan(name, 1);
-  // Arc slices each compute new (shaped) kernel rows: they share the synchronous limit.
-  const sliceDeps = request.sunElevations ? deps : { ...deps, limits: { maxTermAngles: deps.limits.maxTermAngles / elevations.length } };
-  for (let k = 0; k < elevations.length; k++) {
-    const slice = await computeLut(axis.request(elevations[k]), sliceDeps, ({ fraction }) => {
+  // Each slice computes its own (shaped) kernel rows: the slices share the synchronous limit.
+  const share = { ...deps, limits: { maxTermAngles: deps.limits.maxTermAngles / values.length } };
+  const slices: Lut[] = [];
+  for (let k = 0; k < values.length; k++) {
+    const slice = await computeLut({ ...request, scenario: { ...request.scenario, arcPositionDeg: values[k] }, arcPositions: undefined }, share, ({ fraction }) => {
       if (fraction < 1) progress.advance(stageNames[k], fraction);
     });
     progress.complete(stageNames[k]);
     slices.push(slice);
   }
+  progress.done();
+  return slices;
+}
+
+const ARC_SAMPLING =
+  "the view ray's arc position from antisolarArcDeg (the shader snippets: world up, sun and view directions); blend the two nearest slices linearly. A plain blend of slices 5° apart differs from the bow computed between them by 2–21 % of its light (bench/arc-interpolation.ts, 2 mm drops: the bow moves along the arc); finer slices shrink it";
+
+export async function computeSlicedLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener): Promise<SlicedLut> {
+  if (!request.sunElevations && isFlattened(request.scenario.drops?.shape)) return computeArcSlicedLut(request, deps, onProgress);
+  const range = request.sunElevations;
+  if (!range) {
+    const lut = await computeLut(request, deps, onProgress);
+    return { ...lut, slices: 1 };
+  }
+  const started = performance.now();
+  const elevations = sliceElevationsDeg(range);
+  // Progress weighs the real work: the kernels and spectral sums all slices share, then each slice's colour sums.
+  const sunStages = elevations.map((e, k) => `slice ${k + 1} of ${elevations.length} (sun at ${Number(e.toFixed(2))}°)`);
+  const progress = new ProgressMeter(lutStages(sunStages), onProgress);
+  const slices = await computeLutsAcrossSun(
+    elevations.map((e) => sliceRequest(request, e)),
+    deps,
+    progress,
+    sunStages,
+  );
+  const warnings = new Set(slices.flatMap((s) => s.manifest.warnings as string[]));
+  if (request.scenario.sun?.elevationDeg !== undefined) {
+    warnings.add("scenario.sun.elevationDeg is replaced by each slice's elevation (sunElevations)");
+  }
+  progress.done();
+  return stacked(request, slices, range, started, warnings, "the sun's elevation above the horizon", "blend the two nearest slices");
+}
+
+async function computeArcSlicedLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener): Promise<SlicedLut> {
+  const started = performance.now();
+  const range = request.arcPositions ?? DEFAULT_ARC_SLICES;
+  const slices = await arcSlices(request, sliceElevationsDeg(range), deps, onProgress);
+  const warnings = new Set(slices.flatMap((s) => s.manifest.warnings as string[]));
+  if (request.scenario.arcPositionDeg !== undefined) warnings.add("scenario.arcPositionDeg is replaced by each slice's arc position (arcPositions)");
+  const quantity = "the arc position: angle around the antisolar point from the bow's highest point (0°) to its lowest (180°), left and right alike";
+  return stacked(request, slices, range, started, warnings, quantity, ARC_SAMPLING);
+}
+
+/** The slices one after the other, and the manifest that says what they are and where they lie. */
+function stacked(
+  request: LutRequest,
+  slices: Lut[],
+  range: { fromDeg: number; toDeg: number; slices: number },
+  started: number,
+  warnings: Set<string>,
+  quantity: string,
+  sampling: string,
+): SlicedLut {
+  const elevations = sliceElevationsDeg(range);
   const { width, height } = slices[0];
   const rgba = new Float32Array(width * height * 4 * slices.length);
   slices.forEach((slice, k) => rgba.set(slice.rgba, k * width * height * 4));
-  const warnings = new Set(slices.flatMap((s) => s.manifest.warnings as string[]));
-  if (axis.replaced) warnings.add(axis.replaced);
-  progress.done();
   const manifest = {
     ...slices[0].manifest,
     slices: {
-      quantity: axis.quantity,
+      quantity,
       unit: "degree" as const,
       fromDeg: range.fromDeg,
       toDeg: range.toDeg,
       count: elevations.length,
       valuesDeg: elevations.map((e) => Number(e.toFixed(6))),
-      mapping: `linear: slice s = (value − fromDeg) / (toDeg − fromDeg) · (count − 1); ${axis.sampling}`,
+      mapping: `linear: slice s = (value − fromDeg) / (toDeg − fromDeg) · (count − 1); ${sampling}`,
       layoutKtx2: "array layer k holds slice k",
       layoutStacked: `slices stacked top to bottom in one image of ${height * elevations.length} rows: rows [k·${height}, (k+1)·${height}) hold slice k`,
       transmittance: "the rain curtain's transmittance does not depend on the sun or the arc position: v.transmittance holds for every slice",

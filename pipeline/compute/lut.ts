@@ -5,11 +5,16 @@ import type { LutRequest } from "../../schemas/lut.js";
 import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import { angleAtU, texelAngles, logAxisValues, BOW_WEIGHTED_CENTRE_DEG, BOW_WEIGHTED_SCALE_DEG } from "../../lib/lut/texel-mapping.js";
 import { CURTAIN_WAVELENGTH_NM, curtainTransmittance } from "../../lib/bow/extinction.js";
-import { computeProfile, requestHash, type ProfileDeps, type ProfileResult } from "./profile.js";
-import { rowsProgress } from "../progress/rows-progress.js";
+import { planProfile, refuseTooCostly, profileSources, profileWarnings, requestHash, sunColourWeights, sunLightFor, sunlitLinearRgb, unitRadianceFor, unitSpectralProfile, type ProfileDeps, type ProfileLayers } from "./profile.js";
+import { ORDER_LAYERS } from "../../lib/bow/scattering-orders.js";
+import { orderLayersManifest } from "./order-layers.js";
+import { sharedKernelRows } from "../kernels/shared-rows.js";
+import { discKernels } from "../../lib/bow/lattice-profile.js";
+import { COST_NS } from "../progress/work-costs.js";
+import { laterWorkNs } from "../progress/profile-work.js";
 import { AUTO_MIE_BUDGET_TERM_ANGLES } from "../../lib/bow/engine-choice.js";
 import type { LutManifest } from "../../schemas/responses/lut-response.js";
-import type { ProgressListener } from "../progress/progress-meter.js";
+import { ProgressMeter, type ProgressListener } from "../progress/progress-meter.js";
 
 /** Density of liquid water for the number density of a row at given liquid water content (common practice). */
 const WATER_DENSITY_G_PER_M3 = 1e6;
@@ -19,6 +24,8 @@ export interface Lut {
   height: number;
   /** RGBA per texel, row-major from the top row (row j = size j, ascending). */
   rgba: Float32Array;
+  /** layers "by-order": each named order's RGB per texel (ORDER_LAYERS' order), with the whole texture's colour handling. */
+  orders?: Float32Array[];
   manifest: LutManifest;
 }
 
@@ -60,8 +67,44 @@ function profileStepDeg(request: LutRequest): number {
   return Math.max(0.002, Math.min(0.1, finest / 2));
 }
 
-export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener): Promise<Lut> {
+/** Where each texel reads the profile: the two output samples about it and the weight of the upper one. */
+interface TexelReads {
+  /** The output samples any texel reads, ascending (the spectral pass computes only these). */
+  samples: Int32Array;
+  /** Per texel: the position in `samples` of the lower sample (the upper one follows it). */
+  lower: Int32Array;
+  fraction: Float64Array;
+}
+
+function texelReads(texelPsi: Float64Array, angles: { fromDeg: number; stepDeg: number; count: number }): TexelReads {
+  const k = new Int32Array(texelPsi.length);
+  const fraction = new Float64Array(texelPsi.length);
+  const wanted = new Set<number>();
+  texelPsi.forEach((psi, i) => {
+    const position = (psi - angles.fromDeg) / angles.stepDeg;
+    k[i] = Math.min(angles.count - 2, Math.max(0, Math.floor(position)));
+    fraction[i] = position - k[i];
+    wanted.add(k[i]).add(k[i] + 1);
+  });
+  const samples = Int32Array.from([...wanted].sort((x, y) => x - y));
+  const at = new Map(Array.from(samples, (s, j) => [s, j]));
+  return { samples, lower: k.map((s) => at.get(s)!), fraction };
+}
+
+/** The stages of a texture's progress: the shared kernels and spectral sums, then one colour stage per sun. */
+export function lutStages(sunStages: readonly string[]): string[] {
+  return ["kernels", "spectral", ...sunStages];
+}
+
+/**
+ * Textures of one scenario under several suns (requests that differ only in scenario.sun.elevationDeg): the
+ * kernels and the spectral sums per unit sunlight (sun disc included) are computed once per row, then each sun
+ * re-weights them by its own spectrum and takes the colour sums. A single texture is the case of one sun, so a
+ * time-of-day slice and the single-elevation texture at its elevation come from the same operations, to the bit.
+ */
+export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps: ProfileDeps, progress: ProgressMeter, sunStages: readonly string[], layers: ProfileLayers = "combined"): Promise<Lut[]> {
   const started = performance.now();
+  const request = requests[0];
   const texelPsi = texelAngles(request.angles);
   const step = profileStepDeg(request);
   const from = Math.max(0, request.angles.fromDeg - step);
@@ -69,44 +112,114 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
   const rows = rowDrops(request);
   const width = request.angles.texels;
   const height = rows.length;
-  const rgba = new Float32Array(width * height * 4);
-  const warnings = new Set<string>();
-  let first: ProfileResult | undefined;
-  const transmittance: number[] = [];
-  // The rows share auto's Mie budget, so that a texture costs about what one profile does.
-  const resolution = { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length };
-  const rowBody = (j: number): ProfileRequest => ({
+  const bodyOf = (r: LutRequest, j: number): ProfileRequest => ({
     ...profileDefaults,
-    ...request.scenario,
+    ...r.scenario,
     drops: rows[j].drops,
     angles: { fromDeg: from, toDeg: from + Math.ceil((to - from) / step) * step, stepDeg: step },
-    output: { ...profileDefaults.output, space: request.space, gamut: "clip", normalise: "physical", white: "sun" },
+    output: { ...profileDefaults.output, space: r.space, gamut: "clip", normalise: "physical", white: "sun" },
   });
-  const progress = onProgress ? rowsProgress(rows.length, (j) => [rowBody(j), resolution], deps.kernels.parallelism, onProgress) : undefined;
+  // The rows share auto's Mie budget, so that a texture costs about what one profile does.
+  const plans = rows.map((_, j) => planProfile(bodyOf(request, j), { autoMieBudgetTermAngles: AUTO_MIE_BUDGET_TERM_ANGLES / rows.length }, layers));
+  for (const plan of plans) refuseTooCostly(plan, deps.limits);
+  const reads = texelReads(texelPsi, plans[0].angles);
+  const nl = plans[0].grid.count;
+  // The spectral pass computes only the samples the texels read: its estimated cost scales with their share.
+  const share = reads.samples.length / plans[0].angles.count;
+  const rowNs = plans.map((p) => laterWorkNs(p.request, p).spectralNs * share);
+  const rowsBeforeNs = rowNs.map((_, j) => rowNs.slice(0, j).reduce((a, b) => a + b, 0));
+  progress.plan("spectral", rowNs.reduce((a, b) => a + b, 0));
+  for (const stage of sunStages) progress.plan(stage, rows.length * reads.samples.length * nl * COST_NS.colourSample);
 
+  const kernelRows = await sharedKernelRows(
+    deps.kernels,
+    plans.map((p) => p.kernelRequest),
+    deps.signal,
+    {
+      saveEachTask: deps.saveEachTask,
+      onRows: (doneNs, totalNs, found) => {
+        progress.plan("kernels", totalNs);
+        progress.advance("kernels", doneNs, { found });
+      },
+    },
+  );
+  // Every row shares the grid, the lattice and the sun's disc, so the disc's kernels are made once.
+  const first = plans[0];
+  const disc = discKernels(first.grid, first.request.sun.discDeg, first.span.h, first.request.sun.limbDarkening);
+  const units: Float64Array[] = [];
   for (let j = 0; j < rows.length; j++) {
-    const body = rowBody(j);
-    const part = progress?.part(j);
-    const profile = await computeProfile(body, { ...deps, progress: part }, resolution);
-    part?.done();
-    first ??= profile;
-    for (const w of profile.meta.warnings) warnings.add(w);
-    const t = curtainTransmittance(profile.quadrature, body.water, body.pathLengthM).transmittance;
-    transmittance.push(t);
-    const a = profile.spectral.anglesDeg;
-    for (let i = 0; i < width; i++) {
-      const position = (texelPsi[i] - a[0]) / body.angles.stepDeg;
-      const k = Math.min(a.length - 2, Math.max(0, Math.floor(position)));
-      const f = position - k;
-      const o = 4 * (j * width + i);
-      for (let c = 0; c < 3; c++) rgba[o + c] = profile.colour.rgb[3 * k + c] * (1 - f) + profile.colour.rgb[3 * (k + 1) + c] * f;
-      rgba[o + 3] = 1 - t;
-    }
+    const unit = await unitSpectralProfile(plans[j], kernelRows[j], { disc, samples: reads.samples, onWavelength: (ns) => progress.advance("spectral", rowsBeforeNs[j] + ns * share) });
+    units.push(unitRadianceFor(plans[j], unit));
   }
+  // By order: each named order's rows (cached apart, lib/bow/scattering-orders.ts) through the same spectral pass.
+  const orderUnits: Float64Array[][] = [];
+  for (const { order } of layers === "by-order" ? ORDER_LAYERS : []) {
+    const orderRows = await sharedKernelRows(deps.kernels, plans.map((p) => ({ ...p.kernelRequest, order })), deps.signal, { saveEachTask: deps.saveEachTask });
+    const perRow: Float64Array[] = [];
+    for (let j = 0; j < rows.length; j++) perRow.push(unitRadianceFor(plans[j], await unitSpectralProfile(plans[j], orderRows[j], { disc, samples: reads.samples })));
+    orderUnits.push(perRow);
+  }
+  const transmittance = plans.map((p) => curtainTransmittance(p.quadrature, p.request.water, p.request.pathLengthM).transmittance);
 
-  progress?.meter.done();
+  const luts: Lut[] = [];
+  for (const [s, r] of requests.entries()) {
+    // Between suns, other requests may run.
+    if (s > 0) await new Promise<void>((resolve) => setImmediate(resolve));
+    const rgba = new Float32Array(width * height * 4);
+    const orders = orderUnits.map(() => new Float32Array(width * height * 3));
+    const warnings = new Set<string>();
+    // One sun for every row (the rows differ in their drops only).
+    const light = sunLightFor(plans[0], bodyOf(r, 0).sun);
+    const weights = sunColourWeights(plans[0], light);
+    for (let j = 0; j < rows.length; j++) {
+      for (const w of profileWarnings(plans[j], light)) warnings.add(w);
+      const rgb = sunlitLinearRgb(plans[j], units[j], weights, light);
+      for (let i = 0; i < width; i++) {
+        const k = reads.lower[i];
+        const f = reads.fraction[i];
+        const o = 4 * (j * width + i);
+        for (let c = 0; c < 3; c++) rgba[o + c] = rgb[3 * k + c] * (1 - f) + rgb[3 * (k + 1) + c] * f;
+        rgba[o + 3] = 1 - transmittance[j];
+      }
+      // Each order sampled as the whole is.
+      orderUnits.forEach((units, p) => {
+        const orderRgb = sunlitLinearRgb(plans[j], units[j], weights, light);
+        for (let i = 0; i < width; i++) {
+          const k = reads.lower[i];
+          const f = reads.fraction[i];
+          for (let c = 0; c < 3; c++) orders[p][3 * (j * width + i) + c] = orderRgb[3 * k + c] * (1 - f) + orderRgb[3 * (k + 1) + c] * f;
+        }
+      });
+      progress.advance(sunStages[s], (j + 1) * reads.samples.length * nl * COST_NS.colourSample);
+    }
+    const manifest = lutManifest(r, rows, texelPsi, transmittance, [...warnings], plans[0].request, started);
+    if (orders.length) luts.push({ width, height, rgba, manifest: { ...manifest, layers: orderLayersManifest(["R", "G", "B", "A"]) }, orders });
+    else luts.push({ width, height, rgba, manifest });
+  }
+  return luts;
+}
+
+export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener, layers: ProfileLayers = "combined"): Promise<Lut> {
+  const stages = lutStages(["colour"]);
+  const progress = new ProgressMeter(stages, onProgress);
+  const [lut] = await computeLutsAcrossSun([request], deps, progress, ["colour"], layers);
+  progress.done();
+  return lut;
+}
+
+function lutManifest(
+  request: LutRequest,
+  rows: ReturnType<typeof rowDrops>,
+  texelPsi: Float64Array,
+  transmittance: number[],
+  warnings: string[],
+  firstBody: ProfileRequest,
+  started: number,
+): LutManifest {
+  const width = request.angles.texels;
+  const height = rows.length;
   const mapping = request.angles.mapping;
-  const manifest: LutManifest = {
+  return {
     width,
     height,
     channels: ["R", "G", "B", "A"],
@@ -138,9 +251,8 @@ export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgr
     additiveUse: "or add rgb to the plate's radiance and ignore alpha (thin rain)",
     scenario: request,
     hash: requestHash(request),
-    sources: first?.meta.sources ?? [],
-    warnings: [...warnings],
+    sources: profileSources(firstBody),
+    warnings,
     computeMs: Math.round(performance.now() - started),
   };
-  return { width, height, rgba, manifest };
 }

@@ -11,12 +11,14 @@ import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lat
 import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { directSunlight } from "../../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
-import { latticeProfileSteps, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
-import { blocksOf, kernelStepFor } from "../../lib/bow/kernel-grid.js";
-import type { KernelService } from "../kernels/kernel-service.js";
-import { colourProfile, type ColourProfile } from "../../lib/bow/colour-profile.js";
+import { latticeUnitProfileSteps, sunlitProfile, polarisedUnitRadiance, discKernels, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
+import { blocksOf, kernelStepFor, type LatticeSpan } from "../../lib/bow/kernel-grid.js";
+import type { KernelRequest, KernelRows, KernelService, KernelStats } from "../kernels/kernel-service.js";
+import { ORDER_LAYERS, type OrderLayerName } from "../../lib/bow/scattering-orders.js";
+import type { DiscKernel } from "../../lib/sun/disc.js";
+import { colourProfile, linearRgbOfXyz, polariserWeights, sunlitXyzWeights, weightedXyz, type ColourOptions, type ColourProfile } from "../../lib/bow/colour-profile.js";
 import { findBows } from "../../lib/bow/bow-peaks.js";
-import { autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
+import { AUTO_MIE_BUDGET_TERM_ANGLES, autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-density.js";
 import type { CellAverage } from "../../lib/bow/cell-average.js";
@@ -35,6 +37,17 @@ import { visionMeta } from "./vision-meta.js";
 /** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
 const FLATTENED_FROM_RADIUS_UM = 1000;
 
+/** One scattering order's share of a profile (lib/bow/scattering-orders.ts), from the same drops, sun and options. */
+export interface OrderProfile {
+  name: OrderLayerName;
+  order: number;
+  spectral: SpectralProfile;
+  colour: ColourProfile;
+}
+
+/** combined: the whole light only; by-order: also each named scattering order's profile (ProfileResult.orders). */
+export type ProfileLayers = "combined" | "by-order";
+
 export interface ProfileResult {
   request: ProfileRequest;
   /** XYZ of the direct sunlight on the rain (any scale): the white under white = "sun". */
@@ -46,6 +59,8 @@ export interface ProfileResult {
   colour: ColourProfile;
   bows: Bows;
   meta: ProfileMeta;
+  /** With layers "by-order": the named orders, in ORDER_LAYERS' order (the remainder is the whole minus their sum). */
+  orders?: OrderProfile[];
 }
 
 export function toDistribution(drops: ProfileRequest["drops"]): DropSizeDistribution {
@@ -154,10 +169,12 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
 
 /**
  * Everything about a profile that is known before any work: wavelengths, drops on their radius nodes, engines,
- * Lorenz–Mie averaging, shapes, the lattice span and the estimated cost. computeProfile runs it first; answers made
- * of several profiles (lookup textures, size maps) run it for each of their rows to weigh their progress.
+ * Lorenz–Mie averaging, shapes, the lattice span, the kernel request and the estimated cost. computeProfile runs it
+ * first; answers made of several profiles (lookup textures, size maps) run it for each of their rows. Nothing here
+ * depends on the sun's spectrum or elevation except the flattened drops' shape plan (sphere rows never do).
  */
-export function planProfile(request: ProfileRequest, resolution: ProfileResolution = {}) {
+export function planProfile(request: ProfileRequest, resolution: ProfileResolution = {}, layers: ProfileLayers = "combined") {
+  const byOrder = layers === "by-order";
   const warnings: string[] = [];
   const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
   const wl = wavelengthsNm(grid);
@@ -170,7 +187,11 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
   const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
   const span = profileSpan(angles, request.sun.discDeg, h);
   const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
-  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature.radiiUm, wl, span, resolution) : null;
+  // By order the whole rows and each named order's rows cost alike: auto's budgets are shared among them, so that a
+  // layered answer costs about what the combined one does (auto may then leave more drops to the Airy engine).
+  const budgetShare = byOrder ? 1 / (1 + ORDER_LAYERS.length) : 1;
+  const autoResolution = byOrder ? { ...resolution, autoMieBudgetTermAngles: (resolution.autoMieBudgetTermAngles ?? AUTO_MIE_BUDGET_TERM_ANGLES) * budgetShare } : resolution;
+  const autoChoice = request.method === "auto" ? chooseAutoFor(quadrature.radiiUm, wl, span, autoResolution) : null;
   const engine = autoChoice ? autoEngine(autoChoice) : engineChooser(request.method);
   // Lorenz–Mie rows averaged over each node's radius cell at sizesPerDecade (cell-average.ts, radius-density.ts).
   const averagesAt = (sizesPerDecade: number) => {
@@ -189,7 +210,7 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
     cost: (d) => mieCost(averagesAt(d)),
     // A constant, not the server's limit: the result for a request (and its content hash) is the same on every
     // server, synchronous or as a job; the limit only decides whether it may run synchronously.
-    budgetTermAngles: AUTO_DENSITY_BUDGET_TERM_ANGLES,
+    budgetTermAngles: AUTO_DENSITY_BUDGET_TERM_ANGLES * budgetShare,
   });
   if (density.cappedFrom) {
     warnings.push(
@@ -219,17 +240,19 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
 
   const blocks = blocksOf(span);
   // Flattened drops' rows are counted in Mie term-angles' worth of work (drop-shape-plan.ts).
-  const cost = mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1);
-  return { warnings, grid, wl, media, waterSource, distribution, count, angles, h, span, quadrature, autoChoice, engine, density, averages, shapePlan, blocks, cost };
+  // By order, each named order's rows cost about what the whole rows do (Debye coefficients, the same amplitude sums).
+  const profilesToSum = byOrder ? 1 + ORDER_LAYERS.length : 1;
+  const cost = (mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1)) * profilesToSum;
+  const engines = Array.from(quadrature.radiiUm, engine);
+  const kernelRequest: KernelRequest = { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } };
+  return { request, warnings, grid, wl, media, waterSource, distribution, count, angles, h, span, quadrature, autoChoice, engine, density, averages, shapePlan, blocks, cost, kernelRequest, byOrder, profilesToSum };
 }
 
 export type ProfilePlan = ReturnType<typeof planProfile>;
 
-export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}): Promise<ProfileResult> {
-  const { limits } = deps;
-  const started = performance.now();
-  const plan = planProfile(request, resolution);
-  const { warnings, grid, media, waterSource, count, angles, h, span, quadrature, autoChoice, engine, density, shapePlan, blocks, cost, averages } = plan;
+/** The "too-costly" ClientError where a plan's kernels exceed the synchronous limit. */
+export function refuseTooCostly(plan: ProfilePlan, limits: ProfileLimits): void {
+  const { cost, density, quadrature } = plan;
   if (cost > limits.maxTermAngles) {
     throw new ClientError(
       "too-costly",
@@ -239,78 +262,158 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
       { cost, limit: limits.maxTermAngles, jobs: "/v1/jobs" },
     );
   }
+}
 
-  const sun = sunlightFor(request, grid);
+/** What the spectral pass shares: the disc's kernels per wavelength, the output samples wanted (all by default). */
+export interface SpectralPassOptions {
+  disc?: (wavelengthIndex: number) => DiscKernel;
+  samples?: Int32Array;
+  /** Told of each wavelength done, with the cost of the pass so far in ns. */
+  onWavelength?: (doneNs: number) => void;
+}
 
-  const engines = Array.from(quadrature.radiiUm, engine);
-  const progress = deps.progress;
-  const later = progress ? laterWorkNs(request, plan) : undefined;
-  if (later) {
-    progress?.plan("spectral", later.spectralNs);
-    progress?.plan("colour", later.colourNs);
-  }
-  const kernelStarted = performance.now();
-  const rows = await deps.kernels.rows(
-    { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } },
-    deps.signal,
-    {
-      saveEachTask: deps.saveEachTask,
-      onRows: progress
-        ? (doneNs, totalNs, found) => {
-            progress.plan("kernels", totalNs);
-            progress.advance("kernels", doneNs, { found });
-          }
-        : undefined,
-    },
-  );
-  const kernelMs = performance.now() - kernelStarted;
-  const steps = latticeProfileSteps({
-    angles,
+/**
+ * The profile per unit sunlight and path (lattice-profile.ts, latticeUnitProfileSteps), one wavelength per turn of
+ * the event loop: the sum over drops and the sun's disc, the bulk of a warm profile's time.
+ */
+export async function unitSpectralProfile(plan: ProfilePlan, rows: KernelRows, options: SpectralPassOptions = {}): Promise<SpectralProfile> {
+  const { span, kernelRequest, quadrature, request, grid } = plan;
+  const perWavelengthNs = options.onWavelength ? laterWorkNs(request, plan).spectralNsPerWavelength : 0;
+  const steps = latticeUnitProfileSteps({
+    angles: plan.angles,
     grid,
     span,
-    beta: (l, out) => accumulateBlocks(span, blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
-    sunIrradiance: sun.irradiance.values,
-    discDiameterDeg: request.sun.discDeg,
-    limbDarkening: request.sun.limbDarkening,
-    pathLengthM: request.pathLengthM,
+    beta: (l, out) => accumulateBlocks(span, kernelRequest.blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
+    disc: options.disc ?? discKernels(grid, request.sun.discDeg, span.h, request.sun.limbDarkening),
+    samples: options.samples,
   });
   let step = steps.next();
   let wavelengthsDone = 0;
   while (!step.done) {
-    wavelengthsDone++;
-    if (later) progress?.advance("spectral", wavelengthsDone * later.spectralNsPerWavelength);
+    options.onWavelength?.(++wavelengthsDone * perWavelengthNs);
     await new Promise<void>((resolve) => setImmediate(resolve));
     step = steps.next();
   }
-  const spectral: SpectralProfile = { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
-  const sunWhite = spectrumToXyz(sun.irradiance, request.observer);
-  if (!(sunWhite.Y > 0)) {
-    warnings.push("no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black");
-  }
-  const eye = request.output.vision === "eye" ? sceneEyeAdaptation(sun.irradiance, request.sun.elevationDeg, request.output.adaptingLuminanceCdPerM2) : undefined;
-  const colour = colourProfile(spectral, grid, {
+  return { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
+}
+
+/** The sunlight on the rain for a plan under `sun` (the plan's own, or another elevation's), and what follows from it alone. */
+export function sunLightFor(plan: ProfilePlan, sun: ProfileRequest["sun"] = plan.request.sun) {
+  const request = { ...plan.request, sun };
+  const sunlight = sunlightFor(request, plan.grid);
+  const sunWhite = spectrumToXyz(sunlight.irradiance, request.observer);
+  const eye = request.output.vision === "eye" ? sceneEyeAdaptation(sunlight.irradiance, sun.elevationDeg, request.output.adaptingLuminanceCdPerM2) : undefined;
+  const noSunlight = sunWhite.Y > 0 ? undefined : "no direct sunlight reaches the drops in the visible (sun on the horizon through this atmosphere): the bow is black";
+  return { sunlight, sunWhite, eye, noSunlight, elevationDeg: sun.elevationDeg };
+}
+
+export type SunLight = ReturnType<typeof sunLightFor>;
+
+function colourOptions(plan: ProfilePlan, light: SunLight): ColourOptions {
+  const { request } = plan;
+  return {
     observer: request.observer,
     space: request.output.space,
     gamut: request.output.gamut,
     white: request.output.white,
     normalise: request.output.normalise,
     polariserDeg: request.polariserDeg,
-    sunWhite,
-    eye,
-  });
-  const bows = findBows(spectral.anglesDeg, colour.luminance);
-  progress?.complete("colour");
+    sunWhite: light.sunWhite,
+    eye: light.eye,
+  };
+}
 
-  const engineRanges = summariseEngines(quadrature.radiiUm, engine);
+/** A profile's spectral radiance and colour: the unit profile lit by `light`. */
+export function sunlitColour(plan: ProfilePlan, unit: SpectralProfile, light: SunLight) {
+  const spectral = sunlitProfile(unit, light.sunlight.irradiance.values, plan.request.pathLengthM);
+  return { spectral, colour: colourProfile(spectral, plan.grid, colourOptions(plan, light)) };
+}
+
+/**
+ * The colour sums of many unit profiles under one sun, as lookup textures take them (physical values in a linear
+ * space): per sun the weights K_m·Δλ·E(λ)·s·x̄(λ)… once, per row the polarised unit radiance once, then one dot
+ * product per sample and sun. The order of operations differs from sunlitColour's by rounding only (≈ 1e-16).
+ */
+export function unitRadianceFor(plan: ProfilePlan, unit: SpectralProfile): Float64Array {
+  const { cos2, sin2 } = polariserWeights(plan.request.polariserDeg);
+  return polarisedUnitRadiance(unit, cos2, sin2);
+}
+
+export function sunColourWeights(plan: ProfilePlan, light: SunLight): Float64Array[] {
+  return sunlitXyzWeights(plan.grid, plan.request.observer, light.sunlight.irradiance.values, plan.request.pathLengthM);
+}
+
+export function sunlitLinearRgb(plan: ProfilePlan, unitRadiance: Float64Array, weights: readonly Float64Array[], light: SunLight): Float64Array {
+  return linearRgbOfXyz(weightedXyz(unitRadiance, weights), colourOptions(plan, light));
+}
+
+/** A profile's warnings: the plan's, the sunlight's, the engines', then the sun's elevation. */
+export function profileWarnings(plan: ProfilePlan, sun: SunLight): string[] {
+  const { request, quadrature } = plan;
+  const warnings = [...plan.warnings];
+  if (sun.noSunlight) warnings.push(sun.noSunlight);
   if (request.method === "airy" && quadrature.radiiUm[0] < AUTO_AIRY_FROM_RADIUS_UM) {
     warnings.push(`Airy theory used for drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm, outside its measured validity; use "auto" or "mie"`);
   }
   if (request.method === "geometric") {
     warnings.push("ray optics has no supernumeraries and no diffraction; bows are sharper than in nature");
   }
-  if (request.sun.elevationDeg > 42) {
+  if (sun.elevationDeg > 42) {
     warnings.push("with the sun above about 42° the primary bow lies below the horizon for an observer on flat ground");
   }
+  return warnings;
+}
+
+export async function computeProfile(request: ProfileRequest, deps: ProfileDeps, resolution: ProfileResolution = {}, layers: ProfileLayers = "combined"): Promise<ProfileResult> {
+  const started = performance.now();
+  const plan = planProfile(request, resolution, layers);
+  refuseTooCostly(plan, deps.limits);
+  const { grid, quadrature, span, engine, autoChoice, density, shapePlan, byOrder, profilesToSum } = plan;
+  const progress = deps.progress;
+  // By order the sum over drops and the colour run once for the whole and once per named order.
+  const later = progress ? laterWorkNs(request, plan) : undefined;
+  if (later) {
+    progress?.plan("spectral", profilesToSum * later.spectralNs);
+    progress?.plan("colour", profilesToSum * later.colourNs);
+  }
+  const kernelStarted = performance.now();
+  // The whole rows and, by order, each named order's rows (kept apart in the cache: orderVariant), all at once.
+  const requestedOrders: (number | undefined)[] = [undefined, ...(byOrder ? ORDER_LAYERS.map((layer) => layer.order) : [])];
+  const tallies = requestedOrders.map(() => ({ doneNs: 0, totalNs: 0 }));
+  const [rows, ...orderRows] = await Promise.all(
+    requestedOrders.map((order, t) =>
+      deps.kernels.rows(order === undefined ? plan.kernelRequest : { ...plan.kernelRequest, order }, deps.signal, {
+        saveEachTask: deps.saveEachTask,
+        onRows: progress
+          ? (doneNs, totalNs, found) => {
+              tallies[t] = { doneNs, totalNs };
+              progress.plan("kernels", tallies.reduce((sum, x) => sum + x.totalNs, 0));
+              progress.advance("kernels", tallies.reduce((sum, x) => sum + x.doneNs, 0), { found });
+            }
+          : undefined,
+      }),
+    ),
+  );
+  const kernelMs = performance.now() - kernelStarted;
+  const unit = await unitSpectralProfile(plan, rows, { onWavelength: progress ? (ns) => progress.advance("spectral", ns) : undefined });
+  const light = sunLightFor(plan);
+  const { spectral, colour } = sunlitColour(plan, unit, light);
+  // Each named order through the same sum, sunlight and colour (its unit profile after the whole one's in the progress).
+  const orders: OrderProfile[] = [];
+  for (const [k, layer] of ORDER_LAYERS.entries()) {
+    if (!byOrder) break;
+    const done = (k + 1) * (later?.spectralNs ?? 0);
+    const orderUnit = await unitSpectralProfile(plan, orderRows[k], { onWavelength: progress ? (ns) => progress.advance("spectral", done + ns) : undefined });
+    const lit = sunlitColour(plan, orderUnit, light);
+    orders.push({ name: layer.name, order: layer.order, spectral: lit.spectral, colour: lit.colour });
+  }
+  const stats = sumStats([rows, ...orderRows].map((r) => r.stats));
+  const { sunlight: sun, sunWhite, eye } = light;
+  const bows = findBows(spectral.anglesDeg, colour.luminance);
+  progress?.complete("colour");
+
+  const warnings = profileWarnings(plan, light);
+  const engineRanges = summariseEngines(quadrature.radiiUm, engine);
 
   const meta: ProfileMeta = {
     method: { requested: request.method, engines: engineRanges, ...(autoChoice ? { rule: autoChoice.rule } : {}) },
@@ -334,25 +437,35 @@ export async function computeProfile(request: ProfileRequest, deps: ProfileDeps,
       rule: density.rule,
     },
     sun: { scale: sun.scaleNote, attenuated: sun.attenuated },
-    water: waterSource,
+    water: plan.waterSource,
     colour: { whiteAdaptation: colour.whiteAdaptation, spaceAdaptation: colour.spaceAdaptation },
     vision: visionMeta(eye),
-    mieTermAngles: spectral.mieTermAngles,
+    mieTermAngles: stats.mieTermAngles,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
     kernel: {
-      angleStepDeg: h,
-      rows: rows.stats.memoryHits + rows.stats.diskHits + rows.stats.computed,
-      memoryHits: rows.stats.memoryHits,
-      diskHits: rows.stats.diskHits,
-      computed: rows.stats.computed,
+      angleStepDeg: span.h,
+      rows: stats.memoryHits + stats.diskHits + stats.computed,
+      memoryHits: stats.memoryHits,
+      diskHits: stats.diskHits,
+      computed: stats.computed,
       ms: Math.round(kernelMs * 10) / 10,
     },
-    cache: rows.stats.computed === 0 ? "hit" : "miss",
+    cache: stats.computed === 0 ? "hit" : "miss",
     hash: requestHash(request),
     sources: profileSources(request),
     warnings,
   };
-  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta };
+  return { request, sunWhite, grid, quadrature, spectral, colour, bows, meta, ...(byOrder ? { orders } : {}) };
+}
+
+/** The kernel statistics of several row requests together (the whole rows and each order's). */
+function sumStats(all: KernelStats[]): KernelStats {
+  return all.reduce((sum, s) => ({
+    memoryHits: sum.memoryHits + s.memoryHits,
+    diskHits: sum.diskHits + s.diskHits,
+    computed: sum.computed + s.computed,
+    mieTermAngles: sum.mieTermAngles + s.mieTermAngles,
+  }));
 }
 
 function rgbUnits(request: ProfileRequest): string {
@@ -375,7 +488,7 @@ function summariseEngines(radiiUm: Float64Array, engine: (r: number) => DropEngi
   return out;
 }
 
-function profileSources(request: ProfileRequest): string[] {
+export function profileSources(request: ProfileRequest): string[] {
   const s = [
     "IAPWS R9-97 (Harvey, Gallagher & Levelt Sengers 1998) with Kell 1975 density; Ciddor 1996 air index",
     "Lorenz–Mie theory (Bohren & Huffman 1983; Wiscombe 1980)",

@@ -4,7 +4,9 @@
 import sharp from "sharp";
 import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../../schemas/view.js";
-import { computeProfile, type ProfileLimits, type ProfileResult } from "./profile.js";
+import { computeProfile, type ProfileLayers, type ProfileLimits, type ProfileResult } from "./profile.js";
+import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
+import { MAX_LAYERED_PIXELS, orderLayersManifest, withOrderLayers } from "./order-layers.js";
 import type { KernelService } from "../kernels/kernel-service.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
 import { ClientError } from "../requests/client-error.js";
@@ -319,7 +321,13 @@ function profileColours(results: ProfileResult[], request: ProfileRequest, outpu
       parallel: render(par, false),
     }),
   );
-  return { colours, scaling, outOfGamut, sunWhite };
+  // Layers by order (one profile, spheres): each order with the whole profile's scale, white and gamut handling,
+  // so that the layers compare and add up.
+  const orders = results[0].orders?.map(({ spectral: s }): ProfileColours => {
+    const [p, q] = [toCd(s.perpendicular), toCd(s.parallel)];
+    return { ...colours[0], total: render(p.map((v, k) => v + q[k]), false), perpendicular: render(p, false), parallel: render(q, false) };
+  });
+  return { colours, scaling, outOfGamut, sunWhite, orders };
 }
 
 export interface PreparedOverlay {
@@ -327,6 +335,8 @@ export interface PreparedOverlay {
   hash: string;
   profile: ProfileResult;
   colours: ProfileColours;
+  /** layers "by-order": each named order's colours (ORDER_LAYERS' order), drawn as the whole layer is. */
+  orderColours?: ProfileColours[];
   /** Flattened drops: the profiles' colours at arc positions, blended per pixel; undefined for spheres. */
   arc?: ArcSlices;
   /** Alpha of every pixel that sees rain, or undefined for the additive layer. */
@@ -341,7 +351,20 @@ export function renderSpaceFor(format: OverlayFormat, output: Output): LinearSpa
   return format === "png" ? "srgb-linear" : output.space;
 }
 
-async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Promise<PreparedOverlay> {
+async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps, layers: ProfileLayers): Promise<PreparedOverlay> {
+  const pixels = scene.rays.widthPx * scene.rays.heightPx;
+  if (layers === "by-order" && pixels > MAX_LAYERED_PIXELS) {
+    throw new ClientError("invalid-request", `query field 'layers' "by-order" is for images up to ${MAX_LAYERED_PIXELS.toLocaleString("en")} pixels; this one has ${pixels.toLocaleString("en")}: ask fewer pixels or layers "combined"`, {
+      field: "layers",
+      allowed: `combined, or by-order up to ${MAX_LAYERED_PIXELS} pixels`,
+    });
+  }
+  if (layers === "by-order" && scene.flattened) {
+    throw new ClientError("invalid-request", `query field 'layers' "by-order" is for spherical drops: with body field 'scenario.drops.shape' (flattened drops) ask layers "combined"`, {
+      field: "layers",
+      allowed: "combined (with flattened drops)",
+    });
+  }
   if (format === "hdr" && scene.layer === "premultiplied") {
     throw new ClientError("invalid-request", "format hdr has no alpha channel: ask for layer \"additive\" or format exr", {
       field: "layer",
@@ -353,12 +376,12 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
   const grid = { fromDeg: angles.fromDeg, toDeg: angles.toDeg, stepDeg: angles.stepDeg };
   const request = profileRequestFor(scene, grid);
   const nodes = scene.flattened && angles.arcSeen ? arcNodesDeg(angles.arcSeen) : undefined;
-  const profiles = nodes ? await arcProfiles(scene, grid, nodes, deps) : [await computeProfile(request, deps, {})];
+  const profiles = nodes ? await arcProfiles(scene, grid, nodes, deps) : [await computeProfile(request, deps, {}, layers)];
   // The manifest describes the node nearest the side of the bow (90°), or the one profile.
   const base = nodes ? nearestIndex(nodes, 90) : 0;
   const profile = profiles[base];
   const space = renderSpaceFor(format, scene.output);
-  const { colours: allColours, scaling, outOfGamut } = profileColours(profiles, request, scene.output, space);
+  const { colours: allColours, scaling, outOfGamut, orders } = profileColours(profiles, request, scene.output, space);
   const colours = allColours[base];
   const arc: ArcSlices | undefined = nodes ? { nodesDeg: Float64Array.from(nodes), slices: allColours, bows: profiles.map((p) => p.bows) } : undefined;
   const curtain = curtainTransmittance(profile.quadrature, request.water, request.pathLengthM);
@@ -370,6 +393,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
     );
   }
   if (!angles.seen) warnings.push("no pixel sees rain (all below the horizon or beyond maxAngleDeg): the layer is empty");
+  if (layers === "by-order" && !angles.seen) warnings.push("layers by-order: every layer is empty, as no pixel sees rain");
   const hash = overlayHash(scene.endpoint, scene.normalisedRequest);
   const antisolar = azimuthElevationOf(scene.antisolar);
   const chroma = spacePrimaries(space);
@@ -443,6 +467,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
       vision: profile.meta.vision,
       shape: profile.meta.shape,
     },
+    ...(layers === "by-order" ? { layers: orderLayersManifest(scene.layer === "premultiplied" ? ["R", "G", "B", "A"] : ["R", "G", "B"]) } : {}),
     ...(nodes
       ? {
           arcPositions: {
@@ -468,7 +493,7 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps): Pro
     ],
     warnings,
   };
-  return { scene, hash, profile, colours, arc, alpha, manifest };
+  return { scene, hash, profile, colours, arc, alpha, manifest, ...(orders ? { orderColours: orders } : {}) };
 }
 
 /**
@@ -520,18 +545,33 @@ function waterManifest(w: WaterSurface) {
 }
 
 export function renderPrepared(p: PreparedOverlay): Layer {
+  return renderWith(p, p.colours, p.alpha);
+}
+
+/** The scene's pixels from the given colours; alpha undefined draws RGB only. */
+function renderWith(p: PreparedOverlay, colours: ProfileColours, alpha: number | undefined): Layer {
   return renderLayer({
     rays: p.scene.rays,
     antisolar: p.scene.antisolar,
-    colours: p.colours,
+    colours,
     ground: p.scene.ground,
     maxAngleDeg: p.scene.maxAngleDeg,
-    alpha: p.alpha,
+    alpha,
     polariserAxis: p.scene.polariserAxis,
     polariserTangentCos2: p.scene.polariserTangentCos2,
     water: p.scene.water,
     arc: p.arc,
   });
+}
+
+/**
+ * The combined layer with each order drawn the same way (same pixels, polariser and water; RGB only) and the
+ * remainder: the channels of a multi-layer EXR (order-layers.ts).
+ */
+export function renderPreparedByOrder(p: PreparedOverlay, layer: Layer): { channels: string[]; data: Float32Array } {
+  const whole = layer.channels === 4 ? ["R", "G", "B", "A"] : ["R", "G", "B"];
+  const parts = (p.orderColours ?? []).map((colours) => renderWith(p, colours, undefined).data);
+  return withOrderLayers(layer.data, whole, parts, layer.widthPx * layer.heightPx);
 }
 
 let srgbTable: Float32Array | undefined;
@@ -590,13 +630,14 @@ export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): 
   const chroma = spacePrimaries(space);
   const manifest = p.manifest;
   switch (format) {
-    case "exr":
+    case "exr": {
+      const layered = p.orderColours ? renderPreparedByOrder(p, layer) : undefined;
       return {
         body: encodeExr({
           width: layer.widthPx,
           height: layer.heightPx,
-          channels: layer.channels === 4 ? ["R", "G", "B", "A"] : ["R", "G", "B"],
-          data: layer.data,
+          channels: layered?.channels ?? (layer.channels === 4 ? ["R", "G", "B", "A"] : ["R", "G", "B"]),
+          data: layered?.data ?? layer.data,
           pixelType: "half",
           compression: "zip",
           chromaticities: { red: chroma.red, green: chroma.green, blue: chroma.blue, white: chroma.white },
@@ -608,6 +649,7 @@ export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): 
         contentType: "image/x-exr",
         manifest,
       };
+    }
     case "hdr":
       return {
         body: encodeRadianceHdr({
@@ -627,10 +669,10 @@ export async function encodeOverlay(p: PreparedOverlay, format: OverlayFormat): 
   }
 }
 
-export function prepareView(body: ViewRequest, format: OverlayFormat, deps: ViewDeps): Promise<PreparedOverlay> {
-  return prepare(viewScene(body), format, deps);
+export function prepareView(body: ViewRequest, format: OverlayFormat, deps: ViewDeps, layers: ProfileLayers = "combined"): Promise<PreparedOverlay> {
+  return prepare(viewScene(body), format, deps, layers);
 }
 
-export function prepareSky(body: SkyRequest, format: OverlayFormat, deps: ViewDeps): Promise<PreparedOverlay> {
-  return prepare(skyScene(body), format, deps);
+export function prepareSky(body: SkyRequest, format: OverlayFormat, deps: ViewDeps, layers: ProfileLayers = "combined"): Promise<PreparedOverlay> {
+  return prepare(skyScene(body), format, deps, layers);
 }

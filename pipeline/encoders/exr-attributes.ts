@@ -3,7 +3,8 @@
  * Types"): name NUL, type name NUL, int32 size, value; all numbers little-endian.
  */
 
-export type ExrChannelName = "R" | "G" | "B" | "A";
+/** A channel name: "R", "G", "B", "A", or a layer's channel "layer.R" (OpenEXR Technical Introduction, "Layers"). */
+export type ExrChannelName = string;
 export type ExrPixelType = "half" | "float";
 export type ExrCompression = "none" | "zip";
 export type XyChromaticity = readonly [x: number, y: number];

@@ -56,6 +56,10 @@ function checkImage(image: ExrImage): void {
   if (channels.length === 0 || new Set(channels).size !== channels.length) {
     throw new RangeError("EXR channels must be a non-empty list without repeats");
   }
+  for (const name of channels) {
+    // Without the long-names flag (version field) names are at most 31 bytes (OpenEXR File Layout, "Version Field").
+    if (!/^[\x21-\x7e]{1,31}$/.test(name)) throw new RangeError(`EXR channel name ${JSON.stringify(name)} must be 1 to 31 printable ASCII characters`);
+  }
   if (data.length !== width * height * channels.length) {
     throw new RangeError(`EXR data holds ${data.length} samples, expected ${width * height * channels.length}`);
   }

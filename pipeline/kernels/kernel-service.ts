@@ -13,6 +13,7 @@ import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 import { shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import { orderVariant } from "../../lib/bow/scattering-orders.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
 import { sizeParameter } from "../progress/profile-work.js";
 
@@ -33,6 +34,8 @@ export interface KernelRequest {
   blocks: number[];
   /** Lattice indices (inclusive) the caller reads: rows need to be computed only there. */
   within: { first: number; last: number };
+  /** Every row of one Debye order p alone (lib/bow/scattering-orders.ts), or undefined for the whole drops. */
+  order?: number;
 }
 
 /** What a caller may ask of rows() besides the rows: to hear of them as they come, to keep each task's rows at once. */
@@ -161,8 +164,8 @@ export class KernelService {
     const { h, media, radiiUm, engines, blocks, within } = request;
     const averages = request.averages ?? [];
     const shapes = request.shapes ?? [];
-    // Rows of one engine with different cell averages or shapes are different rows: packs are per variant.
-    const variants = Array.from(radiiUm, (_, i) => shapedVariant(rowVariant(engines[i], averages[i]), shapes[i]));
+    // Rows of one engine with different cell averages, shapes or orders are different rows: packs are per variant.
+    const variants = Array.from(radiiUm, (_, i) => orderVariant(shapedVariant(rowVariant(engines[i], averages[i]), shapes[i]), request.order));
     // The samples of each block the caller reads: k0..k1 in the block, first..last on the lattice.
     const need = blocks.map((b) => {
       const { first, count } = blockRange(b, h);
@@ -265,7 +268,8 @@ export class KernelService {
     for (const [l, byRadius] of toCompute) {
       const indices = [...byRadius.keys()];
       const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], average: averages[i], shape: shapes[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
-      const computing = this.options.compute({ medium: media[l], h, items, within }, stop.signal);
+      const spec = { medium: media[l], h, items, within, ...(request.order === undefined ? {} : { order: request.order }) };
+      const computing = this.options.compute(spec, stop.signal);
       computing.catch(() => undefined);
       // The task's rows grouped by the pack they belong to (one wavelength, so one block per pack).
       const byPack = new Map<string, { bi: number; rows: [radiusUm: number, item: number, block: number][] }>();
@@ -283,6 +287,8 @@ export class KernelService {
       const taskNs = watch.onRows ? indices.reduce((sum, i) => sum + byRadius.get(i)!.reduce((s, bi) => s + cost(l, i, bi), 0), 0) : 0;
       const task = computing
         .then((result) => {
+          // A task that ends after its request was cancelled keeps nothing: a cancelled job stops adding kernels.
+          if (stop.signal.aborted) return;
           stats.mieTermAngles += result.mieTermAngles;
           const saved: [string, Map<number, Float64Array>][] = [];
           for (const [pack, { bi, rows: list }] of byPack) {
@@ -312,6 +318,8 @@ export class KernelService {
     }
     try {
       await Promise.all(tasks);
+      // Tasks that ended after a cancellation kept nothing (above): the request ends with its signal's reason.
+      stop.signal.throwIfAborted();
     } catch (error) {
       await Promise.allSettled(tasks);
       throw error;

@@ -21,6 +21,8 @@ export interface KernelTask {
   items: KernelTaskItem[];
   /** Lattice indices (inclusive) needed; the blocks' other samples are not computed. */
   within: { first: number; last: number };
+  /** One Debye order p alone (lib/bow/scattering-orders.ts), or undefined for the whole drops. */
+  order?: number;
 }
 
 /** rows[item][block]: β⊥ then β∥ per drop (m² sr⁻¹) over the block's lattice points, ψ ascending; NaN where not computed. */

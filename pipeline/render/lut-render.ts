@@ -1,4 +1,5 @@
 import type { z } from "zod";
+import { isFlattened } from "../../schemas/drop-shape.js";
 import type { LutRequest, lutQuerySchema } from "../../schemas/lut.js";
 import { computeSlicedLut, type SlicedLut } from "../compute/lut-time-of-day.js";
 import { encodeExr } from "../encoders/exr.js";
@@ -8,6 +9,11 @@ import { encodePngImage } from "../encoders/png-strip.js";
 import { spacePrimaries } from "../../lib/colour/primaries.js";
 import { jsonOutput, type RenderDeps, type RenderOutput } from "./render-output.js";
 import { annotate, resolveLutRequest, sourcePositionHeaders, type Resolved } from "../sky/resolve-source.js";
+import { computeLut } from "../compute/lut.js";
+import { withOrderLayers } from "../compute/order-layers.js";
+import { ClientError } from "../requests/client-error.js";
+import type { ProfileDeps } from "../compute/profile.js";
+import type { ProgressListener } from "../progress/progress-meter.js";
 
 export type LutQuery = z.output<typeof lutQuerySchema>;
 
@@ -19,15 +25,37 @@ function rgbOnly(lut: SlicedLut): Float32Array {
 
 export async function renderLut(request: LutRequest, query: LutQuery, deps: RenderDeps): Promise<RenderOutput> {
   const resolved = resolveLutRequest(request);
-  const lut = await computeSlicedLut(resolved.body, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal }, deps.onProgress);
+  const lut = await computeLutForQuery(resolved.body, query, { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal }, deps.onProgress);
   return encodeLut(lut, resolved, query);
+}
+
+/**
+ * The texture a query asks for: time-of-day slices when the body has sunElevations, the layers by scattering
+ * order with layers "by-order" (one elevation only: both together are a 400 naming `layers`). POST /v1/lut and
+ * `antisolar bake` alike.
+ */
+export async function computeLutForQuery(body: LutRequest, query: LutQuery, deps: ProfileDeps, onProgress?: ProgressListener): Promise<SlicedLut & { orders?: Float32Array[] }> {
+  if (query.layers !== "by-order") return computeSlicedLut(body, deps, onProgress);
+  if (isFlattened(body.scenario.drops?.shape)) {
+    throw new ClientError("invalid-request", `query field 'layers' "by-order" is for spherical drops: with body field 'scenario.drops.shape' (flattened drops, sliced by arc position) ask layers "combined"`, {
+      field: "layers",
+      allowed: "combined (with flattened drops)",
+    });
+  }
+  if (body.sunElevations) {
+    throw new ClientError("invalid-request", `query field 'layers' "by-order" and body field 'sunElevations' do not go together: a time-of-day texture is written with layers "combined"; ask one elevation for the layers`, {
+      field: "layers",
+      allowed: "combined (with sunElevations)",
+    });
+  }
+  return { ...(await computeLut(body, deps, onProgress, "by-order")), slices: 1 };
 }
 
 /**
  * A computed texture as the file (or manifest) the query asks for: the one encoding of POST /v1/lut and
  * `antisolar bake`. The manifest takes the resolved source's position, moonlight and warnings.
  */
-export async function encodeLut(lut: SlicedLut, resolved: Resolved<LutRequest>, query: LutQuery): Promise<RenderOutput> {
+export async function encodeLut(lut: SlicedLut & { orders?: Float32Array[] }, resolved: Resolved<LutRequest>, query: LutQuery): Promise<RenderOutput> {
   const body = resolved.body;
   const { manifest } = lut;
   annotate(manifest, resolved);
@@ -47,15 +75,16 @@ export async function encodeLut(lut: SlicedLut, resolved: Resolved<LutRequest>, 
       const slices = Array.from({ length: lut.slices }, (_, k) => rows.slice(k * lut.height, (k + 1) * lut.height));
       return jsonOutput({ manifest, slices }, headers);
     }
-    case "exr":
+    case "exr": {
+      const layered = lut.orders ? withOrderLayers(lut.rgba, ["R", "G", "B", "A"], lut.orders, lut.width * stackedHeight) : undefined;
       return {
         contentType: "image/x-exr",
         headers,
         body: encodeExr({
           width: lut.width,
           height: stackedHeight,
-          channels: ["R", "G", "B", "A"],
-          data: lut.rgba,
+          channels: layered?.channels ?? ["R", "G", "B", "A"],
+          data: layered?.data ?? lut.rgba,
           pixelType: query.pixelType,
           compression: "zip",
           chromaticities: body.space === "xyz-d65" ? undefined : spacePrimaries(body.space),
@@ -67,6 +96,7 @@ export async function encodeLut(lut: SlicedLut, resolved: Resolved<LutRequest>, 
           },
         }),
       };
+    }
     case "ktx2":
       return {
         contentType: "image/ktx2",

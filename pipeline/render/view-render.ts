@@ -4,6 +4,7 @@ import { headerSafe, jsonOutput, type RenderDeps, type RenderOutput } from "./re
 import { PROFILE_STAGES } from "../compute/profile.js";
 import { ProgressMeter } from "../progress/progress-meter.js";
 import { COST_NS } from "../progress/work-costs.js";
+import { ORDER_LAYERS } from "../../lib/bow/scattering-orders.js";
 import { annotate, resolveOverlayRequest, sourcePositionHeaders } from "../sky/resolve-source.js";
 
 /** A camera view or sky map, or its manifest, as a render output (for the routes and for jobs alike). */
@@ -19,10 +20,12 @@ export async function renderOverlay(
   const progress = deps.onProgress ? new ProgressMeter([...PROFILE_STAGES, "pixels"], deps.onProgress) : undefined;
   if (progress && query.part !== "manifest") {
     const { widthPx, heightPx } = endpoint === "view" ? (body as ViewRequest).camera : (body as SkyRequest);
-    progress.plan("pixels", widthPx * heightPx * COST_NS.overlayPixel);
+    // By order, the image is drawn once for the whole light and once per named order.
+    progress.plan("pixels", widthPx * heightPx * COST_NS.overlayPixel * (query.layers === "by-order" ? 1 + ORDER_LAYERS.length : 1));
   }
   const viewDeps = { kernels: deps.kernels, limits: { maxTermAngles: deps.maxTermAngles }, signal: deps.signal, progress, saveEachTask: deps.saveEachTask };
-  const prepared = endpoint === "view" ? await prepareView(body as ViewRequest, query.format, viewDeps) : await prepareSky(body as SkyRequest, query.format, viewDeps);
+  const layers = query.layers ?? "combined";
+  const prepared = endpoint === "view" ? await prepareView(body as ViewRequest, query.format, viewDeps, layers) : await prepareSky(body as SkyRequest, query.format, viewDeps, layers);
   annotate(prepared.manifest, resolved);
   const m = prepared.manifest;
   if (query.part === "manifest") {

@@ -1,5 +1,6 @@
 import { lightSourceFields } from "./light-source-response.js";
 import { z } from "zod";
+import { orderLayersManifestSchema } from "./order-layers-response.js";
 import { lutRequestSchema, lutSpaces } from "../lut.js";
 
 
@@ -53,6 +54,7 @@ export const lutManifestSchema = z
       })
       .optional()
       .describe("sliced textures: time of day (sunElevations) or flattened drops (arc positions): the value of each slice and where the slices are"),
+    layers: orderLayersManifestSchema.optional(),
     ...lightSourceFields,
   })
   .describe("POST /v1/lut?part=manifest: how to sample the lookup texture");

@@ -1,5 +1,6 @@
 import { lightSourceFields, visionMetaSchema } from "./light-source-response.js";
 import { z } from "zod";
+import { orderLayersManifestSchema } from "./order-layers-response.js";
 import { cameraSchema, layerSchema, viewOutputSchema, imageQuerySchema } from "../view.js";
 import { shapeMetaSchema } from "./shape-meta.js";
 import { bowsSchema, methodSummarySchema, radiiSummarySchema, sunSummarySchema, wavelengthsSummarySchema } from "./profile-response.js";
@@ -96,6 +97,7 @@ const overlayFields = {
     vision: visionMetaSchema.optional(),
     shape: shapeMetaSchema.optional().describe("the drop shape; with flattened drops the profile described here is the arc node nearest the bow's side"),
   }),
+  layers: orderLayersManifestSchema.optional(),
   arcPositions: z
     .strictObject({
       quantity: z.string(),

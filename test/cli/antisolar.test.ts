@@ -7,6 +7,7 @@ import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../../http/app.js";
+import { channelsOf, parseHeader } from "../helpers/exr-reader.js";
 
 const cli = fileURLToPath(new URL("../../dist/cli/antisolar.js", import.meta.url));
 
@@ -42,6 +43,34 @@ describe("antisolar CLI", () => {
       expect(rendered.status).toBe(0);
       const profile = JSON.parse(readFileSync(join(dir, "bow.json"), "utf8"));
       expect(profile.bows.primaryDeg).toBeGreaterThan(40);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
+  it("bakes a texture by scattering order (--layers by-order) as the route does, and refuses layers with KTX2 (exit 1)", async () => {
+    const dir = mkdtempSync(join(tmpdir(), "antisolar-cli-"));
+    try {
+      const body = { sizes: { kind: "radius", texels: 2, fromUm: 300, toUm: 600 }, angles: { texels: 16 }, scenario: { method: "airy", spectral: { fromNm: 380, toNm: 780, stepNm: 20 } } };
+      const request = join(dir, "lut.json");
+      writeFileSync(request, JSON.stringify(body));
+      const out = join(dir, "layers.exr");
+      expect(run(["bake", request, "-o", out, "--layers", "by-order"], join(dir, "cache")).status).toBe(0);
+      const file = readFileSync(out);
+      const names = channelsOf(parseHeader(file).attributes.get("channels")!).map((c) => c.name);
+      expect(names).toContain("primary.R");
+      expect(names).toHaveLength(4 + 5 * 3);
+      const app = await buildApp({ config: { cacheDir: "", rateLimitPerMinute: 0 } });
+      try {
+        const res = await app.inject({ method: "POST", url: "/v1/lut?format=exr&layers=by-order", payload: body });
+        expect(res.statusCode).toBe(200);
+        expect(res.rawPayload.equals(file)).toBe(true);
+      } finally {
+        await app.close();
+      }
+      const refused = run(["bake", request, "-o", join(dir, "x.ktx2"), "--layers", "by-order"], join(dir, "cache"));
+      expect(refused.status).toBe(1);
+      expect(refused.stderr).toMatch(/layers/);
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }

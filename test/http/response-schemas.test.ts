@@ -131,6 +131,8 @@ describe("real answers validate against their schemas", () => {
       check(await app.inject({ method: "POST", url: "/v1/lut?part=manifest", payload: body }), "/v1/lut", "post", 200, "LutManifest");
       check(await app.inject({ method: "POST", url: "/v1/lut?format=json", payload: body }), "/v1/lut", "post", 200, "LutJson");
     }
+    const layered = check(await app.inject({ method: "POST", url: "/v1/lut?part=manifest&layers=by-order", payload: bodies[0] }), "/v1/lut", "post", 200, "LutManifest") as { layers?: { kind: string } };
+    expect(layered.layers?.kind).toBe("by-order");
   });
 
   it("images: /v1/view and /v1/sky manifests for every format", async () => {
@@ -143,6 +145,9 @@ describe("real answers validate against their schemas", () => {
     // hdr has no alpha: only the additive layer; its view looks away from the bows, so no pixel sees rain.
     const additive = { layer: "additive", camera: { widthPx: 16, heightPx: 8, yawDeg: 240, pitchDeg: 10 }, scenario: quick };
     check(await app.inject({ method: "POST", url: "/v1/view?part=manifest&format=hdr", payload: additive }), "/v1/view", "post", 200, "ViewManifest");
+    // Layers by scattering order: the manifest's layers (channels of the multi-layer EXR).
+    const layered = check(await app.inject({ method: "POST", url: "/v1/sky?part=manifest&format=exr&layers=by-order", payload: { widthPx: 32, heightPx: 16, scenario: { ...quick, method: "airy", drops: { kind: "monodisperse", radiusUm: 500, numberPerM3: 1000 } } } }), "/v1/sky", "post", 200, "SkyManifest") as { layers?: { channels: string[] } };
+    expect(layered.layers?.channels).toContain("primary.R");
   });
 
   it("jobs: submit, poll, every server-sent event, cancel", async () => {
@@ -169,6 +174,9 @@ describe("real answers validate against their schemas", () => {
   it("errors: 400, 404, 409, 415, 422 and an unknown route all have the one error shape", async () => {
     const error = (res: LightMyRequestResponse, path: string, method: string, status: number) => check(res, path, method, status, "Error");
     error(await app.inject({ method: "POST", url: "/v1/profile", payload: { angles: { fromDeg: -5 } } }), "/v1/profile", "post", 400);
+    const layers = error(await app.inject({ method: "POST", url: "/v1/view?format=png&layers=by-order", payload: {} }), "/v1/view", "post", 400) as { field?: string; message: string };
+    expect(layers.field).toBe("layers");
+    expect(layers.message).toMatch(/format exr/);
     error(await app.inject({ url: "/v1/presets/nowhere" }), "/v1/presets/{name}", "get", 404);
     error(await app.inject({ url: "/v1/jobs/no-such-job" }), "/v1/jobs/{id}", "get", 404);
     error(await app.inject({ method: "POST", url: "/v1/scatter", payload: { radiusUm: 5000, wavelengthNm: 400, scatteringAngles: { fromDeg: 0, toDeg: 180, stepDeg: 0.01 } } }), "/v1/scatter", "post", 422);

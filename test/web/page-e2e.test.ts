@@ -8,6 +8,7 @@ import type { FastifyInstance } from "fastify";
 import { buildApp } from "../../http/app.js";
 import { AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import { RADIUS_DENSITIES } from "../../lib/bow/radius-density.js";
+import { channelsOf, parseHeader } from "../helpers/exr-reader.js";
 
 // The explorer page in a real browser (Debian's chromium), served by the real app with the page's routes
 // registered as http/app.ts registers them.
@@ -272,6 +273,18 @@ describe("the explorer page in chromium", () => {
     const lutPath = fileURLToPath(new URL(lutDownload.suggestedFilename(), ARTIFACTS));
     await lutDownload.saveAs(lutPath);
     expect(readFileSync(lutPath).readUInt32LE(0)).toBe(20000630);
+    // With the layer choice by scattering order the same download holds the layers beside R, G, B, A (OpenEXR
+    // channel list, read back by test/helpers/exr-reader.ts).
+    await page.selectOption("#exr-layers", "by-order");
+    const [layeredDownload] = await Promise.all([page.waitForEvent("download"), page.click("#download-lut-exr")]);
+    expect(layeredDownload.suggestedFilename()).toMatch(/-lut-by-order\.exr$/);
+    const layeredPath = fileURLToPath(new URL(layeredDownload.suggestedFilename(), ARTIFACTS));
+    await layeredDownload.saveAs(layeredPath);
+    const header = parseHeader(readFileSync(layeredPath));
+    expect(channelsOf(header.attributes.get("channels")!).map((c) => c.name)).toEqual(
+      ["A", "B", "G", "R", ...["higher", "primary", "reflection", "secondary", "transmission"].flatMap((n) => [`${n}.B`, `${n}.G`, `${n}.R`])],
+    );
+    await page.selectOption("#exr-layers", "combined");
 
     // The curl command carries the same request: the service accepts it as it stands.
     const curl = await page.inputValue("#curl");

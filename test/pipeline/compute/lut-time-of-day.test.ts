@@ -4,7 +4,11 @@ import request from "supertest";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../../../http/app.js";
 import { readKtx2BySpec } from "../../helpers/ktx2-spec-reader.js";
-import { sliceElevationsDeg } from "../../../pipeline/compute/lut-time-of-day.js";
+import { computeSlicedLut, sliceElevationsDeg } from "../../../pipeline/compute/lut-time-of-day.js";
+import { lutRequestSchema } from "../../../schemas/lut.js";
+import { KernelService } from "../../../pipeline/kernels/kernel-service.js";
+import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
+import type { ProgressUpdate } from "../../../pipeline/progress/progress-meter.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -96,4 +100,20 @@ describe("POST /v1/lut with sunElevations", () => {
     expect(res.status).toBe(400);
     expect(res.body.message).toMatch(/sunElevations\.slices.*1,048,576 texels/);
   });
+
+  it("progress weighs the shared kernels and spectral sums against each slice's colour sums", async () => {
+    const updates: ProgressUpdate[] = [];
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 28, compute: createInlinePool().compute });
+    await computeSlicedLut(lutRequestSchema.parse(sliced), { kernels, limits: { maxTermAngles: Infinity } }, (u) => updates.push(u));
+    const stages = [...new Set(updates.map((u) => u.stage))];
+    expect(stages).toEqual(["kernels", "spectral", "slice 1 of 3 (sun at 3°)", "slice 2 of 3 (sun at 18°)", "slice 3 of 3 (sun at 33°)", "done"]);
+    const fractions = updates.map((u) => u.fraction);
+    expect(fractions.every((f, i) => i === 0 || f >= fractions[i - 1])).toBe(true);
+    expect(fractions.at(-1)).toBe(1);
+    // Cold, the kernels are nearly all the work and each slice only its colour sums: by the first slice the fraction
+    // is far past 1/3, where weighing the slices equally would have put it.
+    const firstSlice = updates.find((u) => u.stage.startsWith("slice 1"))!;
+    expect(firstSlice.fraction).toBeGreaterThan(0.9);
+  });
 });
+

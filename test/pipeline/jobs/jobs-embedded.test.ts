@@ -146,6 +146,18 @@ describe("jobs in one process", () => {
     expect(result.headers.get("x-antisolar-hash")).toBe(sync.headers.get("x-antisolar-hash"));
   });
 
+  it("a camera view by scattering order as a job is the synchronous endpoint's multi-layer EXR byte for byte", async () => {
+    const view = { scenario: { method: "airy", drops: { kind: "monodisperse", radiusUm: 500, numberPerM3: 1000 }, spectral: { fromNm: 400, toNm: 700, stepNm: 20 } }, camera: { widthPx: 32, heightPx: 18 } };
+    const submitted = await submit("view", view, { query: { format: "exr", layers: "by-order" } });
+    expect(submitted.status).toBe(202);
+    await until(submitted.job.id, (j) => j.state === "done");
+    const fromJob = Buffer.from(await (await fetch(`${base}/v1/jobs/${submitted.job.id}/result`)).arrayBuffer());
+    const sync = await fetch(`${base}/v1/view?format=exr&layers=by-order`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(view) });
+    expect(sync.status).toBe(200);
+    expect(fromJob.equals(Buffer.from(await sync.arrayBuffer()))).toBe(true);
+    expect(fromJob.includes(Buffer.from("primary.R\0"))).toBe(true);
+  });
+
   it("reuses a kept result for an identical request, also after a restart (CACHE_DIR/jobs)", async () => {
     const first = await submit("profile", SMALL_PROFILE, { query: { format: "png", height: 4 } });
     expect(first.job).toMatchObject({ state: "done", reused: true });
@@ -231,6 +243,7 @@ describe("jobs in one process", () => {
       [{ endpoint: "profile", body: { colour: "red" } }, "body.colour"],
       [{ endpoint: "profile", body: {}, query: { format: "gif" } }, "query.format"],
       [{ endpoint: "lut", body: {}, format: "png" }, "query.format"],
+      [{ endpoint: "view", body: {}, query: { format: "png", layers: "by-order" } }, "query.layers"],
       [{ endpoint: "profile", body: {}, priority: 1 }, "priority"],
     ];
     for (const [payload, field] of cases) {

@@ -1,6 +1,6 @@
 // Answers made of several profiles and flattened drops weigh their progress by the work, not by counting equal
-// steps (issue 17): a lookup texture's rows by their profiles' cost, against the kernel engines' own count of the
-// work each row did; a flattened-drop profile by its scattering planes. No timing: the weights are checked
+// steps (issue 17): a lookup texture's shared kernels task by task, against the kernel engines' own count of the
+// work each task did; a flattened-drop profile by its scattering planes. No timing: the weights are checked
 // against what the engines report, and the fractions for order and number.
 import { describe, it, expect } from "vitest";
 import { KernelService, type KernelStats } from "../../../pipeline/kernels/kernel-service.js";
@@ -31,42 +31,55 @@ function expectRising(updates: ProgressUpdate[]): void {
   expect(updates.at(-1)).toEqual({ fraction: 1, stage: "done", secondsLeft: 0 });
 }
 
-/** Each row's share of the fraction: what the fraction gained from the end of the row before to the end of this one. */
-function rowShares(updates: ProgressUpdate[], rows: number): number[] {
-  const ends = Array.from({ length: rows }, (_, j) => updates.filter((u) => u.stage === `row ${j + 1} of ${rows}`).at(-1)!.fraction);
-  // The last row ends at 0.999, the most a render reports before it is done (progress-meter.ts).
-  ends[rows - 1] = 1;
-  return ends.map((f, j) => f - (j > 0 ? ends[j - 1] : 0));
-}
-
 describe("progress weighed by the work", () => {
-  it("a lookup texture's rows move the fraction by their share of the Lorenz–Mie work, not equally", async () => {
-    const { kernels, calls } = watchedKernels();
+  it("a lookup texture's kernels move the fraction by each task's Lorenz–Mie work, not by equal steps", async () => {
+    // The texture's rows ask for their kernels together (one task per wavelength carries every row's drop), so the
+    // work is weighed task by task: against the engines' own count of the term-angles each task computed.
+    const perTask: number[] = [];
+    const compute = createInlinePool().compute;
+    const kernels = new KernelService({
+      memoryBudgetBytes: 2 ** 28,
+      compute: async (task, signal) => {
+        const result = await compute(task, signal);
+        perTask.push(result.mieTermAngles);
+        return result;
+      },
+    });
     const updates: ProgressUpdate[] = [];
-    // Five drop sizes from 100 µm to 1 mm, full Mie: a row's work grows with the size parameter (Wiscombe 1980's
-    // term count), so the largest row is about ten times the smallest.
+    // Five drop sizes from 100 µm to 1 mm, full Mie, over 420–580 nm: a task's work grows with the size parameter
+    // x = 2πr/λ (Wiscombe 1980's term count), so the 420 nm task costs about 1.4 times the 580 nm one.
     const request = lutRequestSchema.parse({
       angles: { fromDeg: 38, toDeg: 44, texels: 32, mapping: "linear" },
       sizes: { kind: "radius", fromUm: 100, toUm: 1000, texels: 5 },
-      scenario: { method: "mie", spectral: { fromNm: 500, toNm: 580, stepNm: 20 } },
+      scenario: { method: "mie", spectral: { fromNm: 420, toNm: 580, stepNm: 20 } },
     });
     await renderLut(request, lutQuerySchema.parse({ format: "exr" }), { kernels, maxTermAngles: Infinity, onProgress: (u) => updates.push(u) });
     expectRising(updates);
-    const shares = rowShares(updates, 5);
-    // The engines' own count: Lorenz–Mie term-angles each row computed (KernelStats.mieTermAngles).
-    const work = calls.map((c) => c.mieTermAngles * COST_NS.mieTermAngle);
-    const total = work.reduce((a, b) => a + b, 0);
-    const engineShares = work.map((w) => w / total);
-    // The spectral sum and colour, about the same for every row, are left out of the engines' count: they are a few
-    // per cent of the whole, most of it on the smallest rows (0.03 absolute covers them).
-    for (let j = 0; j < 5; j++) expect(Math.abs(shares[j] - engineShares[j])).toBeLessThan(0.03);
-    expect(shares[4]).toBeGreaterThan(3 * shares[0]);
-    // Every row reports as it goes (one step per wavelength at least), not only when it ends.
-    expect(new Set(updates.map((u) => u.fraction.toFixed(4))).size).toBeGreaterThanOrEqual(5 * 5);
+    expect([...new Set(updates.map((u) => u.stage))]).toEqual(["kernels", "spectral", "colour", "done"]);
+    // The empty look-up, then one step per task (tasks end in the order they were given: the inline pool).
+    const kernelSteps = updates.filter((u) => u.stage === "kernels").map((u) => u.fraction);
+    expect(kernelSteps.length).toBe(1 + perTask.length);
+    const steps = kernelSteps.slice(1).map((f, k) => f - kernelSteps[k]);
+    const totalSteps = steps.reduce((a, b) => a + b, 0);
+    const totalWork = perTask.reduce((a, b) => a + b, 0);
+    // Each task's share of the kernels' fraction is its share of the engines' count (5 %: the estimate counts
+    // Wiscombe's terms per size, the engine the terms it really summed).
+    steps.forEach((step, k) => expect(Math.abs(step / totalSteps - perTask[k] / totalWork)).toBeLessThan(0.05 * (perTask[k] / totalWork)));
+    expect(steps[0]).toBeGreaterThan(1.25 * steps.at(-1)!);
+    // The kernels are nearly all the work: the sum over drops, the disc and the colour of 32 texels are a few per cent.
+    expect(kernelSteps.at(-1)!).toBeGreaterThan(0.9);
   });
 
-  it("rows whose kernels an earlier row computed (rain rates share radius nodes) weigh only their new work", async () => {
-    const { kernels, calls } = watchedKernels();
+  it("rows that share radius nodes (rain rates) have each node's kernels computed and weighed once", async () => {
+    const computedRadii: number[][] = [];
+    const compute = createInlinePool().compute;
+    const kernels = new KernelService({
+      memoryBudgetBytes: 2 ** 28,
+      compute: async (task, signal) => {
+        computedRadii.push(task.items.map((item) => item.radiusUm));
+        return compute(task, signal);
+      },
+    });
     const updates: ProgressUpdate[] = [];
     const request = lutRequestSchema.parse({
       angles: { fromDeg: 38, toDeg: 44, texels: 32, mapping: "linear" },
@@ -75,13 +88,14 @@ describe("progress weighed by the work", () => {
     });
     await renderLut(request, lutQuerySchema.parse({ format: "exr" }), { kernels, maxTermAngles: Infinity, onProgress: (u) => updates.push(u) });
     expectRising(updates);
-    const shares = rowShares(updates, 3);
-    // The engines' count: Airy rows computed by each row's profile (all of one length, so of one cost).
-    const computed = calls.map((c) => c.computed);
-    expect(computed[1]).toBeLessThan(computed[0]);
-    const engineShares = computed.map((c) => c / computed.reduce((a, b) => a + b, 0));
-    for (let j = 0; j < 3; j++) expect(Math.abs(shares[j] - engineShares[j])).toBeLessThan(0.05);
-    expect(shares[0]).toBeGreaterThan(shares[1]);
+    // One task per wavelength, each radius node in it once, though the three rain rates' drops overlap.
+    expect(computedRadii).toHaveLength(5);
+    for (const radii of computedRadii) expect(new Set(radii).size).toBe(radii.length);
+    // Airy rows of one span cost the same: the five tasks, alike, move the fraction by equal steps.
+    const kernelSteps = updates.filter((u) => u.stage === "kernels").map((u) => u.fraction);
+    const steps = kernelSteps.slice(1).map((f, k) => f - kernelSteps[k]);
+    expect(steps).toHaveLength(5);
+    for (const step of steps) expect(step).toBeCloseTo(steps[0], 9);
   });
 
   it("a flattened-drop profile job is weighed by its scattering planes: the kernels are nearly all of it, one even step per wavelength", async () => {
