@@ -44,22 +44,6 @@ export function isFlattened(shape: DropShape | undefined): boolean {
 }
 
 /**
- * For endpoints that draw the bow all along its arc but do not serve flattened drops there yet (lookup textures):
- * a flattened shape there is an unsupported combination, refused at the edge.
- */
-export function refuseFlattenedDrops(endpoint: string) {
-  return (scenario: { drops?: { shape?: DropShape } }, ctx: z.RefinementCtx): void => {
-    if (isFlattened(scenario.drops?.shape)) {
-      ctx.addIssue({
-        code: "custom",
-        path: ["drops", "shape"],
-        message: `${endpoint} draws drops as spheres so far: flattened drops (drops.shape "${scenario.drops!.shape!.kind}") are served by POST /v1/profile with arcPositionDeg and by POST /v1/view and /v1/sky; use shape {"kind":"sphere"} here`,
-      });
-    }
-  };
-}
-
-/**
  * Views and sky maps draw flattened drops, but not with calm water: its reflection bow is lit from below the
  * horizon, which for flattened drops is another set of profiles (the sun's elevation mirrored), not served yet.
  */

@@ -1,12 +1,16 @@
 import { z } from "zod";
 import { checkProfilePhysics, profileDefaults, profileFieldsSchema } from "./profile.js";
-import { refuseFlattenedDrops } from "./drop-shape.js";
+import { isFlattened } from "./drop-shape.js";
 import { checkLayersFormat, layersSchema } from "./layers.js";
 
 const scenarioSchema = profileFieldsSchema.omit({ angles: true, output: true });
 
 /** Most sun-elevation slices in one time-of-day texture. */
 export const MAX_SUN_SLICES = 32;
+/** Most arc-position slices: every 2.5° from the bow's top to its lowest point. */
+export const MAX_ARC_SLICES = 73;
+/** Arc-position slices of a texture of flattened drops that does not say: every 5° from 0° to 180° (pipeline/compute/arc-nodes.ts). */
+export const DEFAULT_ARC_SLICES = { fromDeg: 0, toDeg: 180, slices: 37 } as const;
 /** Most texels in a time-of-day texture: 8 MiB as RGBA16F (the largest single-elevation texture, 4096 × 256). */
 export const MAX_SLICED_TEXELS = 4096 * 256;
 
@@ -19,9 +23,10 @@ export const lutRequestSchema = z
       .strict()
       // Fields left out are the profile's defaults; the rules across fields apply to the whole.
       .superRefine((s, ctx) => checkProfilePhysics({ ...profileDefaults, ...s }, ctx))
-      .superRefine(refuseFlattenedDrops("the lookup texture"))
       .default({})
-      .describe("The profile request's physics (drops are used by the 1-D variant only; the size axis replaces them in 2-D)"),
+      .describe(
+        "The profile request's physics (drops are used by the 1-D variant only; the size axis replaces them in 2-D, keeping drops.shape: flattened drops give every row their shape)",
+      ),
     angles: z
       .object({
         fromDeg: z.number().min(0).max(180).default(30).describe("ψ at the texture's left edge, degrees"),
@@ -67,9 +72,45 @@ export const lutRequestSchema = z
       .strict()
       .optional()
       .describe("A time-of-day texture: one slice per sun elevation (KTX2 array layers, or slices stacked in one image)"),
+    arcPositions: z
+      .object({
+        fromDeg: z.number().min(0).max(180).describe("Arc position of the first slice: degrees around the antisolar point from the bow's highest point"),
+        toDeg: z.number().min(0).max(180).describe("Arc position of the last slice (180 = the bow's lowest point)"),
+        slices: z.number().int().min(2).max(MAX_ARC_SLICES).describe(`Evenly spaced arc positions, 2 to ${MAX_ARC_SLICES}`),
+      })
+      .strict()
+      .optional()
+      .describe(
+        `Flattened drops (scenario.drops.shape): one slice per arc position, as the time-of-day slices; default ${DEFAULT_ARC_SLICES.fromDeg}°–${DEFAULT_ARC_SLICES.toDeg}° in ${DEFAULT_ARC_SLICES.slices} slices (every 5°)`,
+      ),
   })
   .strict()
   .superRefine((b, ctx) => {
+    const flattened = isFlattened(b.scenario.drops?.shape);
+    if (flattened && b.sunElevations) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["sunElevations"],
+        message: "a texture has one slice axis: flattened drops slice it by arc position, so leave sunElevations out (or ask one texture per sun elevation)",
+      });
+    }
+    if (b.arcPositions && b.arcPositions.toDeg <= b.arcPositions.fromDeg) {
+      ctx.addIssue({ code: "custom", path: ["arcPositions", "toDeg"], message: "toDeg must exceed fromDeg" });
+    }
+    if (b.arcPositions && !flattened) {
+      ctx.addIssue({ code: "custom", path: ["arcPositions"], message: 'arc-position slices need flattened drops: set scenario.drops.shape {"kind":"equilibrium"} or leave arcPositions out (spheres make the same bow all along the arc)' });
+    }
+    if (flattened) {
+      const rows = b.sizes.kind === "none" ? 1 : b.sizes.texels;
+      const texels = b.angles.texels * rows * (b.arcPositions ?? DEFAULT_ARC_SLICES).slices;
+      if (texels > MAX_SLICED_TEXELS) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["arcPositions", "slices"],
+          message: `angle texels × size texels × arc slices = ${texels}, over the limit of ${MAX_SLICED_TEXELS.toLocaleString("en")} texels`,
+        });
+      }
+    }
     if (b.sunElevations) {
       if (b.sunElevations.toDeg <= b.sunElevations.fromDeg) {
         ctx.addIssue({ code: "custom", path: ["sunElevations", "toDeg"], message: "toDeg must exceed fromDeg" });

@@ -79,6 +79,9 @@ function updateVisibility() {
   [temperature.min, temperature.max] = spectrum === "cie-daylight" ? ["4000", "25000"] : ["1000", "50000"];
   $("polariser").disabled = !$("polariser-on").checked;
   $("elevation-value").textContent = `${$("elevation").value}°`;
+  const shape = form.elements.namedItem("dropShape").value;
+  for (const el of form.querySelectorAll("[data-shape]")) el.hidden = el.dataset.shape !== shape;
+  $("arc-position-value").textContent = `${$("arc-position").value}°`;
   const scrub = Number($("scrub").value);
   $("scrub-value").textContent = scrub === 0 ? "±0 h" : `${scrub > 0 ? "+" : "−"}${Math.floor(Math.abs(scrub) / 60)} h ${String(Math.abs(scrub) % 60).padStart(2, "0")} min`;
   const light = form.elements.namedItem("light").value;
@@ -209,6 +212,7 @@ async function renderPreview(body) {
     }
     show(body, data, locus);
     state.lastMeta = data.meta;
+    if (body.drops.shape) await profilesAlongArc(body, data, controller.signal);
     updateEstimate(body);
     const roundTrip = (performance.now() - started) / 1000;
     document.body.dataset.renders = String(Number(document.body.dataset.renders) + 1);
@@ -219,6 +223,42 @@ async function renderPreview(body) {
   } finally {
     if (state.preview === controller) state.preview = null;
   }
+}
+
+/** Arc positions whose profiles the camera preview blends for flattened drops (its side and top, and between). */
+const SKETCH_ARCS_DEG = [0, 45, 90];
+
+/** POST /v1/profile, as a background job when it is beyond the synchronous limit. */
+async function profileAnswer(body, signal) {
+  let res = await fetch("/v1/profile", {
+    method: "POST",
+    headers: { "content-type": "application/json", accept: "application/json" },
+    body: JSON.stringify(body),
+    signal,
+  });
+  let data = await res.json();
+  if (tooCostly(res.status, data)) {
+    res = await runAsJob("profile", body, { format: "json" }, signal, jobBar);
+    data = await res.json();
+  }
+  if (!res.ok) throw new Error(errorText(data));
+  return data;
+}
+
+/**
+ * Flattened drops: the profiles at SKETCH_ARCS_DEG (the one already shown is reused), so that the camera preview
+ * shows the bow changing from its top to its side. Each keeps its brightness relative to the others.
+ */
+async function profilesAlongArc(body, shown, signal) {
+  const nodes = [];
+  for (const arcDeg of SKETCH_ARCS_DEG) {
+    announce(`Computing the bow at ${arcDeg}° along the arc for the camera view…`);
+    const profile = arcDeg === body.arcPositionDeg ? shown : await profileAnswer({ ...body, arcPositionDeg: arcDeg }, signal);
+    nodes.push({ arcDeg, profile, colours: displayColours(profile) });
+  }
+  if (signal.aborted || state.last?.body !== body) return;
+  state.last.alongArc = nodes;
+  drawSky();
 }
 
 function show(body, profile, locus) {
@@ -268,6 +308,7 @@ function drawSky() {
   if (!state.last) return;
   const { body, profile, colours } = state.last;
   drawSkyView($("sky"), profile, colours, {
+    alongArc: state.last.alongArc,
     sunElevationDeg: sourceElevationDeg(body, profile.meta),
     pitchDeg: Number($("pitch").value),
     hfovDeg: Number($("fov").value),
@@ -278,8 +319,10 @@ function drawSky() {
     "aria-label",
     `Camera view facing away from the sun, tilted ${$("pitch").value}° up with a ${$("fov").value}° field of view; ` +
       `the ${body.moon ? "moon" : "sun"} is ${Number(sourceElevationDeg(body, profile.meta).toFixed(2))}° high behind the camera` +
-      (primaryDeg !== null ? `, the primary bow is a circle of ${primaryDeg.toFixed(1)}° radius around the antisolar point.` : "."),
+      (primaryDeg !== null ? `, the primary bow is a circle of ${primaryDeg.toFixed(1)}° radius around the antisolar point.` : ".") +
+      (state.last.alongArc ? ` Flattened drops: the bow is blended from profiles at ${SKETCH_ARCS_DEG.join("°, ")}° along the arc.` : ""),
   );
+  $("sky").dataset.alongArc = state.last.alongArc ? SKETCH_ARCS_DEG.join(",") : "";
 }
 
 $("pitch").addEventListener("input", () => {

@@ -20,6 +20,10 @@ const DROP_FIELDS = {
   gamma: { medianVolumeDiameterMm: 1, mu: 2, totalNumberPerM3: 1000 },
 };
 
+/** The service's defaults for flattened drops: canting σ (Huang, Bringi & Thurai 2008) and the side of the bow. */
+const DEFAULT_CANTING_SD_DEG = 7.5;
+const DEFAULT_ARC_POSITION_DEG = 90;
+
 /** The live preview's wavelength step: coarse, so a rain profile answers in about a second or two. */
 export const PREVIEW_STEP_NM = 20;
 
@@ -40,6 +44,11 @@ export function writeForm(form, body) {
   const density = dropFields.numberPerM3 ?? dropFields.totalNumberPerM3;
   if (density !== undefined) setValue(form, "numberPerM3", density);
   setValue(form, "pathLengthM", body.pathLengthM ?? DEFAULTS.pathLengthM);
+  // The page offers spheres and equilibrium shapes; a fixed axis ratio (spheroid) is shown as flattened drops.
+  const shape = drops.shape ?? { kind: "sphere" };
+  setValue(form, "dropShape", shape.kind === "sphere" ? "sphere" : "equilibrium");
+  setValue(form, "cantingSdDeg", shape.cantingSdDeg ?? DEFAULT_CANTING_SD_DEG);
+  setValue(form, "arcPositionDeg", body.arcPositionDeg ?? DEFAULT_ARC_POSITION_DEG);
 
   const water = { ...DEFAULTS.water, ...body.water };
   setValue(form, "temperatureC", water.temperatureC);
@@ -154,6 +163,10 @@ export function readForm(form, stepNm) {
     },
   };
   if (field(form, "polariserOn").checked) body.polariserDeg = numberOf(form, "polariserDeg");
+  if (field(form, "dropShape").value === "equilibrium") {
+    body.drops.shape = { kind: "equilibrium", cantingSdDeg: numberOf(form, "cantingSdDeg") };
+    body.arcPositionDeg = numberOf(form, "arcPositionDeg");
+  }
   return body;
 }
 

@@ -49,7 +49,33 @@ function bowAt(d, c, angles, colours, channel) {
   return colours.linear[3 * i + channel];
 }
 
-export function drawSkyView(canvas, profile, colours, { sunElevationDeg, pitchDeg, hfovDeg, water = false }) {
+/**
+ * Arc position of unit direction d about the antisolar direction a, degrees: 0 straight above it, 90 level with it,
+ * 180 below (the page's frame: y up). As lib/view/arc-position.ts.
+ */
+function arcPositionDeg(d, a) {
+  const t = [-a[1] * a[0], 1 - a[1] * a[1], -a[1] * a[2]];
+  const n = Math.hypot(t[0], t[1], t[2]) || 1;
+  const up = (d[0] * t[0] + d[1] * t[1] + d[2] * t[2]) / n;
+  const s = [a[1] * t[2] - a[2] * t[1], a[2] * t[0] - a[0] * t[2], a[0] * t[1] - a[1] * t[0]];
+  const side = (d[0] * s[0] + d[1] * s[1] + d[2] * s[2]) / n;
+  return Math.atan2(Math.abs(side), up) / RAD;
+}
+
+/**
+ * Flattened drops: the colours of sample i blended linearly in arc position between the nodes' profiles, each
+ * scaled by its peak luminance relative to the brightest node (a sketch: the service's views also align the bows).
+ */
+function alongArcColour(nodes, alphaDeg, i, channel) {
+  let k = 0;
+  while (k < nodes.length - 2 && alphaDeg > nodes[k + 1].arcDeg) k++;
+  const a = nodes[k];
+  const b = nodes[Math.min(k + 1, nodes.length - 1)];
+  const w = b.arcDeg > a.arcDeg ? Math.min(Math.max((alphaDeg - a.arcDeg) / (b.arcDeg - a.arcDeg), 0), 1) : 0;
+  return (1 - w) * a.scale * a.colours.linear[3 * i + channel] + w * b.scale * b.colours.linear[3 * i + channel];
+}
+
+export function drawSkyView(canvas, profile, colours, { sunElevationDeg, pitchDeg, hfovDeg, water = false, alongArc = undefined }) {
   const { width, height } = canvas;
   const ctx = canvas.getContext("2d");
   const tanH = Math.tan((hfovDeg / 2) * RAD);
@@ -61,6 +87,8 @@ export function drawSkyView(canvas, profile, colours, { sunElevationDeg, pitchDe
   // antisolar point mirrored in the horizon), and the water mirrors the sky. Unpolarised in this sketch.
   const mirroredAntisolar = [0, -antisolar[1], antisolar[2]];
   const sunReflectance = waterReflectance((90 - sunElevationDeg) * RAD);
+  const brightest = alongArc ? Math.max(...alongArc.map((n) => n.profile.meta.peakLuminanceCdPerM2)) : 1;
+  const nodes = alongArc?.map((n) => ({ ...n, scale: brightest > 0 ? n.profile.meta.peakLuminanceCdPerM2 / brightest : 1 }));
 
   for (let py = 0; py < height; py++) {
     for (let px = 0; px < width; px++) {
@@ -86,7 +114,8 @@ export function drawSkyView(canvas, profile, colours, { sunElevationDeg, pitchDe
       }
       for (let c = 0; c < 3; c++) {
         const base = above ? SKY_HORIZON[c] + (SKY_ZENITH[c] - SKY_HORIZON[c]) * t : GROUND[c];
-        image.data[at + c] = Math.round(255 * encodeSrgb(base + gain * colours.linear[3 * i + c]));
+        const bow = nodes ? alongArcColour(nodes, arcPositionDeg(d, antisolar), i, c) : colours.linear[3 * i + c];
+        image.data[at + c] = Math.round(255 * encodeSrgb(base + gain * bow));
       }
       image.data[at + 3] = 255;
     }

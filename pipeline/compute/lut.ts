@@ -31,12 +31,16 @@ export interface Lut {
 
 function rowDrops(request: LutRequest): { label: string; value: number; drops: ProfileRequest["drops"] }[] {
   const sizes = request.sizes;
+  // Flattened drops keep their shape on every row of the size axis.
+  const shape = request.scenario.drops?.shape;
+  const shaped = shape ? { shape } : {};
   if (sizes.kind === "radius") {
     return Array.from(logAxisValues(sizes.fromUm, sizes.toUm, sizes.texels), (radiusUm) => ({
       label: "radiusUm",
       value: radiusUm,
       drops: {
         kind: "monodisperse" as const,
+        ...shaped,
         radiusUm,
         numberPerM3: sizes.liquidWaterGPerM3 / (WATER_DENSITY_G_PER_M3 * (4 / 3) * Math.PI * (radiusUm * 1e-6) ** 3),
       },
@@ -46,7 +50,7 @@ function rowDrops(request: LutRequest): { label: string; value: number; drops: P
     return Array.from(logAxisValues(sizes.fromMmPerH, sizes.toMmPerH, sizes.texels), (rainRateMmPerH) => ({
       label: "rainRateMmPerH",
       value: rainRateMmPerH,
-      drops: { kind: "marshall-palmer" as const, rainRateMmPerH },
+      drops: { kind: "marshall-palmer" as const, rainRateMmPerH, ...shaped },
     }));
   }
   const drops = request.scenario.drops ?? profileDefaults.drops;

@@ -21,6 +21,7 @@ import type { RayField } from "../../lib/view/ray-field.js";
 import { type Vec3, azimuthElevationOf, directionFromAzimuthElevation } from "../../lib/view/vectors.js";
 import { angleFromAntisolarDeg, angleRangeDeg, renderLayer, type Layer, type ProfileColours } from "../../lib/view/layer.js";
 import { arcPositionDeg } from "../../lib/view/arc-position.js";
+import { isFlattened } from "../../schemas/drop-shape.js";
 import type { ArcSlices } from "../../lib/view/arc-slices.js";
 import { arcNodesDeg, ARC_NODE_STEP_DEG, ARC_INTERPOLATION, ARC_TOLERANCE } from "./arc-nodes.js";
 import { curtainTransmittance } from "../../lib/bow/extinction.js";
@@ -86,14 +87,14 @@ interface Scene {
  * The water surface of a scene that asked for one: its index (the scenario's water at 555 nm, the peak of V(λ),
  * CIE 015:2018, as for the curtain) and the reflectances of the sunlight.
  */
-/** The sun's direction, the antisolar point opposite it, and the water surface when one was asked for. */
+/** The sun's direction, the antisolar point opposite it, the water surface when one was asked for, and whether the drops are flattened. */
 function lightOf(body: ViewRequest | SkyRequest, sunDirection: Vec3): Pick<Scene, "sunDirection" | "antisolar" | "water" | "flattened"> {
   const antisolar: Vec3 = [-sunDirection[0], -sunDirection[1], -sunDirection[2]];
   return {
     sunDirection,
     antisolar,
     water: waterOf(body.waterSurface, body.scenario, sunDirection, antisolar),
-    flattened: body.scenario.drops.shape !== undefined && body.scenario.drops.shape.kind !== "sphere",
+    flattened: isFlattened(body.scenario.drops.shape),
   };
 }
 

@@ -1,4 +1,5 @@
 import type { z } from "zod";
+import { isFlattened } from "../../schemas/drop-shape.js";
 import type { LutRequest, lutQuerySchema } from "../../schemas/lut.js";
 import { computeSlicedLut, type SlicedLut } from "../compute/lut-time-of-day.js";
 import { encodeExr } from "../encoders/exr.js";
@@ -35,6 +36,12 @@ export async function renderLut(request: LutRequest, query: LutQuery, deps: Rend
  */
 export async function computeLutForQuery(body: LutRequest, query: LutQuery, deps: ProfileDeps, onProgress?: ProgressListener): Promise<SlicedLut & { orders?: Float32Array[] }> {
   if (query.layers !== "by-order") return computeSlicedLut(body, deps, onProgress);
+  if (isFlattened(body.scenario.drops?.shape)) {
+    throw new ClientError("invalid-request", `query field 'layers' "by-order" is for spherical drops: with body field 'scenario.drops.shape' (flattened drops, sliced by arc position) ask layers "combined"`, {
+      field: "layers",
+      allowed: "combined (with flattened drops)",
+    });
+  }
   if (body.sunElevations) {
     throw new ClientError("invalid-request", `query field 'layers' "by-order" and body field 'sunElevations' do not go together: a time-of-day texture is written with layers "combined"; ask one elevation for the layers`, {
       field: "layers",

@@ -53,7 +53,7 @@ export const lutManifestSchema = z
         sliceHashes: z.array(z.string()),
       })
       .optional()
-      .describe("time-of-day textures (sunElevations): the sun elevation of each slice and where the slices are"),
+      .describe("sliced textures: time of day (sunElevations) or flattened drops (arc positions): the value of each slice and where the slices are"),
     layers: orderLayersManifestSchema.optional(),
     ...lightSourceFields,
   })
@@ -66,7 +66,7 @@ export const lutJsonResponseSchema = z
     z.strictObject({ manifest: lutManifestSchema, texels: texelRows.describe("rows (top first) of RGBA texels") }),
     z.strictObject({
       manifest: lutManifestSchema,
-      slices: z.array(texelRows).describe("time-of-day textures: per sun elevation (manifest.slices), rows (top first) of RGBA texels"),
+      slices: z.array(texelRows).describe("sliced textures: per sun elevation or arc position (manifest.slices), rows (top first) of RGBA texels"),
     }),
   ])
   .describe("POST /v1/lut?format=json: the manifest and the texels");

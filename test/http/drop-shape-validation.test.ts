@@ -45,7 +45,10 @@ describe("flattened drops where they are not served: a 400 naming the field", ()
   it.each([
     ["/v1/view", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "equilibrium" } } }, waterSurface: { kind: "calm" } }, "waterSurface", /sphere/],
     ["/v1/sky", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "equilibrium" } } }, waterSurface: { kind: "calm" } }, "waterSurface", /sphere/],
-    ["/v1/lut", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "spheroid", axisRatio: 0.8 } } } }, "scenario.drops.shape", /\/v1\/profile/],
+    ["/v1/lut", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "spheroid", axisRatio: 0.8 } } }, sunElevations: { fromDeg: 0, toDeg: 20, slices: 3 } }, "sunElevations", /one slice axis/],
+    ["/v1/lut", { arcPositions: { fromDeg: 0, toDeg: 90, slices: 3 } }, "arcPositions", /flattened drops/],
+    ["/v1/lut?layers=by-order", { scenario: { drops: { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium" } } } }, "layers", /spherical drops/],
+    ["/v1/lut", { scenario: { drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "equilibrium" } } }, angles: { texels: 4096 } }, "arcPositions.slices", /texels/],
   ])("%s", async (path, body, field, message) => {
     const res = await post(path, body);
     expect(res.status).toBe(400);

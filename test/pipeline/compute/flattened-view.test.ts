@@ -15,6 +15,7 @@ import { angleFromAntisolarDeg } from "../../../lib/view/layer.js";
 import { arcPositionDeg } from "../../../lib/view/arc-position.js";
 import { azimuthElevationOf, directionFromAzimuthElevation } from "../../../lib/view/vectors.js";
 import type { Layer } from "../../../lib/view/layer.js";
+import { viewManifestSchema } from "../../../schemas/responses/overlay-response.js";
 
 const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: createInlinePool().compute });
 const deps: ViewDeps = { kernels, limits: { maxTermAngles: Infinity } };
@@ -103,6 +104,8 @@ describe("a camera view of 2 mm flattened drops (equilibrium shapes, canting 7.5
     expect(side.prepared.manifest.arcPositions?.interpolation).toMatch(/warped/);
     expect(side.prepared.manifest.profile.shape?.model).toMatch(/Beard & Chuang 1987/);
     expect(side.prepared.manifest.profile.shape?.arcPositionDeg).toBe(90);
+    // The published response schema (GET /openapi.json) holds the manifest with its arc positions.
+    expect(viewManifestSchema.safeParse(JSON.parse(JSON.stringify(side.prepared.manifest))).error).toBeUndefined();
   });
 
   it("pixels at the top of the bow (arc 0°) are /v1/profile at arcPositionDeg 0, pixels at its side that at 90°", async () => {

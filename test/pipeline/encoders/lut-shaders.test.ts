@@ -8,6 +8,8 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { shaderSnippets } from "../../../pipeline/encoders/lut-shaders.js";
 import { programRuns, skipWithout } from "../../helpers/tools.js";
+import { arcPositionDeg } from "../../../lib/view/arc-position.js";
+import { directionFromAzimuthElevation } from "../../../lib/view/vectors.js";
 
 const hasGlslang = programRuns("glslangValidator", ["--version"]);
 
@@ -26,25 +28,29 @@ function compile(fileName: string, source: string, args: string[]): { status: nu
 const glslMain = `
 uniform sampler2D lut;
 uniform sampler2DArray lutByElevation;
+uniform sampler2DArray lutAlongArc;
 uniform vec3 sunDir;
 uniform float sunElevationDeg;
 in vec3 viewDir;
 out vec4 colour;
 void main() {
   colour = antisolarSample(lut, viewDir, sunDir, 0.5, 30.0, 60.0, true)
-         + antisolarSampleTimeOfDay(lutByElevation, viewDir, sunDir, 0.5, 30.0, 60.0, true, sunElevationDeg, 0.0, 40.0, 16.0);
+         + antisolarSampleTimeOfDay(lutByElevation, viewDir, sunDir, 0.5, 30.0, 60.0, true, sunElevationDeg, 0.0, 40.0, 16.0)
+         + antisolarSampleAlongArc(lutAlongArc, viewDir, sunDir, vec3(0.0, 0.0, 1.0), 0.5, 30.0, 60.0, true, 0.0, 180.0, 37.0);
 }
 `;
 
 const hlslMain = `
 Texture2D lut;
 Texture2DArray lutByElevation;
+Texture2DArray lutAlongArc;
 SamplerState smp;
 float3 sunDir;
 float sunElevationDeg;
 float4 main(float3 viewDir : TEXCOORD0) : SV_Target {
   return antisolarSample(lut, smp, viewDir, sunDir, 0.5, 30.0, 60.0, true)
-       + antisolarSampleTimeOfDay(lutByElevation, smp, viewDir, sunDir, 0.5, 30.0, 60.0, true, sunElevationDeg, 0.0, 40.0, 16.0);
+       + antisolarSampleTimeOfDay(lutByElevation, smp, viewDir, sunDir, 0.5, 30.0, 60.0, true, sunElevationDeg, 0.0, 40.0, 16.0)
+       + antisolarSampleAlongArc(lutAlongArc, smp, viewDir, sunDir, float3(0.0, 0.0, 1.0), 0.5, 30.0, 60.0, true, 0.0, 180.0, 37.0);
 }
 `;
 
@@ -73,6 +79,33 @@ describe("shader snippets", () => {
     for (const lang of ["glsl", "hlsl", "wgsl"] as const) {
       expect(shaderSnippets[lang]).toMatch(/antisolarSampleTimeOfDay/);
       expect(shaderSnippets[lang]).toMatch(/elevFromDeg, elevToDeg and slices come/);
+      expect(shaderSnippets[lang]).toMatch(/antisolarSampleAlongArc/);
+      expect(shaderSnippets[lang]).toMatch(/arcFromDeg, arcToDeg and slices come/);
+    }
+  });
+
+  it("the snippets' arc position is lib/view/arc-position.ts's: the GLSL formula, transliterated line by line, agrees", () => {
+    // The GLSL body of antisolarArcDeg, run here in double precision on rays all round the bow and several suns.
+    const glsl = shaderSnippets.glsl;
+    expect(glsl).toMatch(/vec3 t = upDir - dot\(upDir, a\) \* a;/);
+    expect(glsl).toMatch(/return degrees\(atan\(abs\(dot\(d, cross\(a, t\)\)\), dot\(d, t\)\)\);/);
+    const dot = (p: number[], q: number[]) => p[0] * q[0] + p[1] * q[1] + p[2] * q[2];
+    const cross = (p: number[], q: number[]) => [p[1] * q[2] - p[2] * q[1], p[2] * q[0] - p[0] * q[2], p[0] * q[1] - p[1] * q[0]];
+    const unit = (p: number[]) => p.map((v) => v / Math.hypot(p[0], p[1], p[2]));
+    const shaderArc = (view: number[], sun: number[], up: number[]) => {
+      const a = unit(sun).map((v) => -v);
+      const t = unit(up.map((v, k) => v - dot(up, a) * a[k]));
+      const d = unit(view);
+      return (Math.atan2(Math.abs(dot(d, cross(a, t))), dot(d, t)) * 180) / Math.PI;
+    };
+    for (const sunElevationDeg of [0, 10, 40]) {
+      const sun = directionFromAzimuthElevation(240, sunElevationDeg);
+      for (let az = 0; az < 360; az += 15) {
+        for (const el of [-50, -10, 0, 20, 45]) {
+          const view = directionFromAzimuthElevation(az, el);
+          expect(shaderArc(view, sun, [0, 0, 1])).toBeCloseTo(arcPositionDeg(view, sun.map((v) => -v)), 9);
+        }
+      }
     }
   });
 });
