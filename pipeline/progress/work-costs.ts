@@ -18,16 +18,15 @@ export const COST_NS = {
   raySample: 105,
   /**
    * A flattened drop's row is one scattering plane per canting node (lib/bow/shaped-rows.ts): the plane's trace and
-   * bow tables, whatever its length… Not yet measured on a quiet machine: bench/progress.ts's piece (one plane of an
-   * equilibrium drop about 2 mm at 550 nm over ψ 29.7–60.3° at 0.05° and 0.01°, a straight line through the two)
-   * run on the loaded shared machine (2026-12-03 10:10 UTC, after the flattened-drop speed-up of that morning), each
-   * time between two Airy timings and scaled by the Airy sample's quiet ÷ loaded time: medians of five rounds, which
-   * spread 2× and more either way. Ray-optics planes (method "geometric") build no bow tables and are priced as
-   * these, an overestimate; so are the later drops of a spheroid task, which reuse the first drop's planes.
+   * bow tables, whatever its length… Measured by bench/progress.ts on the same machine (2026-12-03 11:00 UTC,
+   * load average 2–3, one other job running): one plane of an equilibrium drop about 2 mm at 550 nm over ψ 29.7–60.3° at 0.05° and 0.01°,
+   * a straight line through the two, 2.71e8 ns a plane and 2.81e4 ns a bin. Ray-optics planes (method "geometric")
+   * build no bow tables and are priced as these, an overestimate; so are the later drops of a spheroid task, which
+   * reuse the first drop's planes.
    */
-  shapedPlane: 3.7e8,
+  shapedPlane: 2.7e8,
   /** …and each angle bin of that plane. */
-  shapedPlaneSample: 6e4,
+  shapedPlaneSample: 2.8e4,
   /** Σ over drops: one drop's row at one wavelength and one lattice sample. */
   sumSample: 11,
   /** The sun's disc: one lattice sample at one wavelength, per sample of the disc's kernel. */
