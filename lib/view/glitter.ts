@@ -30,9 +30,9 @@ export function slopeDensity(zx: number, zy: number, meanSquareSlope: number): n
 
 /**
  * Share of the sunlight falling on the horizontal sea that facets of slopes (zx, zy) intercept per unit slope area,
- * times nothing else: p · cos ω / (cos β · cos θ₀), ω the incidence on the facet, β its tilt, θ₀ the sun's zenith
+ * p · cos ω / (cos β · cos θ₀), ω the incidence on the facet, β its tilt, θ₀ the sun's zenith
  * angle. The facet's area is dA/cos β and its area seen from the sun cos ω of that; the horizontal area receives
- * cos θ₀ (the projected-area factor of the glitter formula, Cox & Munk 1954; Mobley 1994 §4.3).
+ * cos θ₀ (the projected-area factor of Cox & Munk's 1954 glitter formula; its form from memory, derived here).
  * Returns 0 for facets facing away from the sun.
  */
 export function interceptedShare(cosIncidence: number, cosTilt: number, cosSunZenith: number, density: number): number {
