@@ -558,6 +558,7 @@ function waterManifest(w: WaterSurface) {
     reflectionBowCentre: { azimuthDeg: centre.azimuthDeg, elevationDeg: centre.elevationDeg, direction: w.reflectedAntisolar },
     sunReflectance: { s: w.sunRs, p: w.sunRp, unpolarised: (w.sunRs + w.sunRp) / 2 },
     model:
+      (w.rough ? "rough water (see rough.model; sunReflectance and reflectionBowCentre here are the level-water values): otherwise " : "") +
       "a level mirror: the sunlight it reflects (Fresnel reflectances Rs, Rp at incidence 90° − sun elevation; Born & Wolf 1999 §1.5.2) lights the " +
       "rain from below the horizon and makes a reflection bow about the antisolar point mirrored in the horizon, each polarisation scattered as " +
       "such; pixels below the horizon show the sky mirrored, each polarisation reflected with its own reflectance; alpha there is the curtain's " +
@@ -579,7 +580,7 @@ function roughManifest(r: NonNullable<WaterSurface["rough"]>) {
       "or reflecting down into the water are dropped (no shadowing, no second reflections); the facets are gathered in 0.5° bins of reflected " +
       "elevation, each lighting the rain from its mean elevation at the calm reflection's azimuth (the azimuthal spread is left out), with the " +
       "calm reflection's s direction; the water pixels still mirror the sky as a level surface (their blur is left out); " +
-      "sunReflectance above is the sum of the groups' shares, and the calm sunReflectance is the level-water value for comparison",
+      "sunReflectance here is the sum of the groups' shares (the level water's is beside it, for comparison)",
   };
 }
 
