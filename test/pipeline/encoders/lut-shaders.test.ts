@@ -18,7 +18,8 @@ function compile(fileName: string, source: string, args: string[]): { status: nu
   try {
     const path = join(dir, fileName);
     writeFileSync(path, source);
-    const run = spawnSync("glslangValidator", [...args, path], { encoding: "utf8" });
+    // cwd: the SPIR-V that -V writes (frag.spv) lands in the temporary directory, not in the repository.
+    const run = spawnSync("glslangValidator", [...args, path], { encoding: "utf8", cwd: dir });
     return { status: run.status, output: `${run.stdout}${run.stderr}` };
   } finally {
     rmSync(dir, { recursive: true, force: true });
