@@ -52,7 +52,7 @@ export function refuseFlattenedDropsOnWater(body: { scenario: { drops: { shape?:
     ctx.addIssue({
       code: "custom",
       path: ["waterSurface"],
-      message: `calm water is drawn with spherical drops only: leave waterSurface out with drops.shape "${body.scenario.drops.shape!.kind}", or use shape {"kind":"sphere"}`,
+      message: `water (calm or rough) is drawn with spherical drops only: leave waterSurface out with drops.shape "${body.scenario.drops.shape!.kind}", or use shape {"kind":"sphere"}`,
     });
   }
 }

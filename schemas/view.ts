@@ -5,6 +5,7 @@ import { placeAndMomentSchema } from "./place-and-time.js";
 import { moonPositionSchema } from "./moon.js";
 import { adaptingLuminanceSchema, visionSchema } from "./vision.js";
 import { checkLayersFormat, layersSchema } from "./layers.js";
+import { COX_MUNK_WIND_RANGE_MS } from "../lib/view/glitter.js";
 
 const number = (min: number, max: number, description: string) => z.number().min(min).max(max).describe(description);
 const profileFields = profileRequestSchema.shape;
@@ -90,10 +91,22 @@ export const cameraSchema = z
   });
 
 const waterSurfaceSchema = z
-  .discriminatedUnion("kind", [z.object({ kind: z.literal("calm") }).strict()])
+  .discriminatedUnion("kind", [
+    z.object({ kind: z.literal("calm") }).strict(),
+    z
+      .object({
+        kind: z.literal("rough"),
+        windSpeedMs: number(
+          COX_MUNK_WIND_RANGE_MS.min,
+          COX_MUNK_WIND_RANGE_MS.max,
+          "Wind speed at 12.5 m above the water, m/s: the range of Cox & Munk's (1954) sea-slope measurements",
+        ),
+      })
+      .strict(),
+  ])
   .optional()
   .describe(
-    "Calm water below the horizon in place of the ground: the sun's light reflected by it makes a reflection bow centred as far above the horizon as the antisolar point is below it, and the water shows the bows mirrored (Fresnel reflectance of water, both polarisations)",
+    "Water below the horizon in place of the ground: the sun's light reflected by it makes a reflection bow centred as far above the horizon as the antisolar point is below it, and the water shows the bows mirrored (Fresnel reflectance of water, both polarisations). \"calm\": a level mirror; \"rough\": wind-ruffled (Cox & Munk 1954 slopes), the reflected sunlight spread over the glitter, so the reflection bow blurs",
   );
 
 const maxAngleDeg = number(1, 180, "The rain curtain covers the sky out to this angle ψ from the antisolar point (default 90°: the shower lies opposite the sun); beyond it the layer is empty").default(90);

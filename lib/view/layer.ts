@@ -121,8 +121,10 @@ export function renderLayer(input: LayerInput): Layer {
   // Half a part in a million of a step: ψ at the profile's ends still counts as inside after round-off.
   const slack = 1e-6;
   const water = input.water;
-  const sky = new PolarisedLight(4);
-  const mirrored = new PolarisedLight(8);
+  // Two parts for the bow and two for each reflection bow (one per group of glitter facets on rough water).
+  const reflectionBows = water?.rough ? water.rough.surfaces.length : 1;
+  const sky = new PolarisedLight(2 + 2 * reflectionBows);
+  const mirrored = new PolarisedLight(2 * (2 + 2 * reflectionBows));
   const reflected = new Float64Array(3);
   if (input.arc && water) throw new Error("renderLayer: a bow that changes along its arc is not drawn with water");
   const arc = input.arc ? new ArcBlender(input.arc) : undefined;
@@ -148,7 +150,7 @@ export function renderLayer(input: LayerInput): Layer {
       } else addSample(colours, psi, 1, c2, data, at);
       if (water) {
         sky.clear();
-        addReflectionBow(sky, colours, d, water, angleFromAntisolarDeg(d, water.reflectedAntisolar));
+        addReflectionBows(sky, colours, d, water);
         sensed(sky, d, polariserAxis, data, at);
       }
     }
@@ -205,9 +207,18 @@ function waterPixel(
   if (psi > input.maxAngleDeg) return;
   sky.clear();
   addBowParts(sky, input.colours, up, input.antisolar, psi, 1, 1);
-  addReflectionBow(sky, input.colours, up, water, angleFromAntisolarDeg(up, water.reflectedAntisolar));
+  addReflectionBows(sky, input.colours, up, water);
   mirrored.clear();
   const reflectance = reflectOffWater(sky, mirrored, d, water.refractiveIndex);
   sensed(mirrored, d, input.polariserAxis, data, at);
   if (input.alpha !== undefined) data[at + 3] = input.alpha * reflectance;
+}
+
+/** The reflection bow along d: about the mirrored antisolar point (calm water), or one per glitter group (rough water). */
+function addReflectionBows(light: PolarisedLight, colours: ProfileColours, d: ArrayLike<number>, water: WaterSurface): void {
+  if (!water.rough) {
+    addReflectionBow(light, colours, d, water, angleFromAntisolarDeg(d, water.reflectedAntisolar));
+    return;
+  }
+  for (const group of water.rough.surfaces) addReflectionBow(light, colours, d, group, angleFromAntisolarDeg(d, group.reflectedAntisolar));
 }

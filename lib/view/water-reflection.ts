@@ -6,6 +6,7 @@
 import type { ProfileColours } from "./layer.js";
 import { fresnelReflectance } from "../rays/fresnel.js";
 import type { Vec3 } from "./vectors.js";
+import { coxMunkMeanSquareSlope, glitterOf } from "./glitter.js";
 
 export interface WaterSurface {
   /** Unit vector to the reflection bow's centre: the antisolar point mirrored in the horizon. */
@@ -17,6 +18,11 @@ export interface WaterSurface {
   sunS: Vec3;
   /** Index of water relative to air, for the reflections along the view rays. */
   refractiveIndex: number;
+  /**
+   * Rough water: the glitter's groups of facets, each lighting the rain from its own direction (its reflection bow
+   * about `reflectedAntisolar`, with its share of the sunlight in sunRs, sunRp). Absent for calm water.
+   */
+  rough?: { windSpeedMs: number; meanSquareSlope: number; totalReflectance: number; surfaces: WaterSurface[] };
 }
 
 /** The antisolar point mirrored in the horizon: where the light of the sun reflected by level water travels. */
@@ -35,6 +41,17 @@ export function waterSurfaceFor(sunDirection: Vec3, antisolar: Vec3, refractiveI
   // s is square to the vertical plane holding the sun: z × (horizontal sun direction), normalised.
   const sunS: Vec3 = horizontal > 1e-12 ? [-sunDirection[1] / horizontal, sunDirection[0] / horizontal, 0] : [1, 0, 0];
   return { reflectedAntisolar: mirroredInHorizon(antisolar), sunRs: r.perpendicular, sunRp: r.parallel, sunS, refractiveIndex };
+}
+
+/**
+ * Rough water for wind speed U: the calm surface's view-ray reflections, with the sunlight spread over the glitter
+ * (glitter.ts, Cox & Munk 1954): one reflection bow per group of facets, each with the group's s and p shares.
+ */
+export function roughWaterSurfaceFor(sunDirection: Vec3, antisolar: Vec3, refractiveIndex: number, windSpeedMs: number): WaterSurface {
+  const calm = waterSurfaceFor(sunDirection, antisolar, refractiveIndex);
+  const glitter = glitterOf(sunDirection, refractiveIndex, coxMunkMeanSquareSlope(windSpeedMs));
+  const surfaces = glitter.samples.map((g) => ({ ...calm, reflectedAntisolar: g.direction, sunRs: g.rs, sunRp: g.rp }));
+  return { ...calm, rough: { windSpeedMs, meanSquareSlope: glitter.meanSquareSlope, totalReflectance: glitter.totalReflectance, surfaces } };
 }
 
 /** Light of one direction as incoherent linearly polarised parts: RGB and the unit field direction of each. */

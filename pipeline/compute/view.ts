@@ -32,7 +32,7 @@ import { encodeExr, type ExrChromaticities } from "../encoders/exr.js";
 import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { withSpaceColourChunks } from "../encoders/png-strip.js";
 import type { CameraDescription, MapDescription, OverlayManifest } from "../../schemas/responses/overlay-response.js";
-import { waterAngleRangeDeg, waterSurfaceFor, type WaterSurface } from "../../lib/view/water-reflection.js";
+import { roughWaterSurfaceFor, waterAngleRangeDeg, waterSurfaceFor, type WaterSurface } from "../../lib/view/water-reflection.js";
 import { dropMedium } from "../../lib/water/drop-medium.js";
 import { CURTAIN_WAVELENGTH_NM } from "../../lib/bow/extinction.js";
 
@@ -98,9 +98,15 @@ function lightOf(body: ViewRequest | SkyRequest, sunDirection: Vec3): Pick<Scene
   };
 }
 
-function waterOf(kind: { kind: "calm" } | undefined, scenario: ViewScenario, sunDirection: Vec3, antisolar: Vec3): WaterSurface | undefined {
+function waterOf(
+  kind: { kind: "calm" } | { kind: "rough"; windSpeedMs: number } | undefined,
+  scenario: ViewScenario,
+  sunDirection: Vec3,
+  antisolar: Vec3,
+): WaterSurface | undefined {
   if (!kind) return undefined;
-  return waterSurfaceFor(sunDirection, antisolar, dropMedium(scenario.water, CURTAIN_WAVELENGTH_NM).mRe);
+  const n = dropMedium(scenario.water, CURTAIN_WAVELENGTH_NM).mRe;
+  return kind.kind === "rough" ? roughWaterSurfaceFor(sunDirection, antisolar, n, kind.windSpeedMs) : waterSurfaceFor(sunDirection, antisolar, n);
 }
 
 export function overlayHash(endpoint: string, request: unknown): string {
@@ -245,7 +251,15 @@ function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg:
   // With water the lower half shows the water, not the ground; the reflection bow and the mirrored bows add angles.
   let seen = angleRangeDeg(scene.rays, scene.antisolar, scene.ground || scene.water !== undefined, scene.maxAngleDeg, onSeen);
   if (scene.water) {
-    const fromWater = waterAngleRangeDeg(scene.rays, scene.antisolar, scene.water, scene.maxAngleDeg, angleFromAntisolarDeg);
+    let fromWater = waterAngleRangeDeg(scene.rays, scene.antisolar, scene.water, scene.maxAngleDeg, angleFromAntisolarDeg);
+    const rough = scene.water.rough;
+    if (fromWater && rough) {
+      // Each glitter group's bow centre lies within `spread` of the calm one, so its ψ lies within spread of the
+      // calm ψ (triangle inequality on the sphere).
+      const calm = scene.water.reflectedAntisolar;
+      const spread = Math.max(...rough.surfaces.map((g) => angleFromAntisolarDeg(g.reflectedAntisolar, calm)));
+      fromWater = { minDeg: Math.max(0, fromWater.minDeg - spread), maxDeg: Math.min(180, fromWater.maxDeg + spread) };
+    }
     if (fromWater) seen = seen ? { minDeg: Math.min(seen.minDeg, fromWater.minDeg), maxDeg: Math.max(seen.maxDeg, fromWater.maxDeg) } : fromWater;
   }
   let lo: number = BOW_WINDOW_DEG.fromDeg;
@@ -538,16 +552,35 @@ function nearestIndex(values: number[], target: number): number {
 function waterManifest(w: WaterSurface) {
   const centre = azimuthElevationOf(w.reflectedAntisolar);
   return {
-    kind: "calm" as const,
+    kind: w.rough ? ("rough" as const) : ("calm" as const),
+    ...(w.rough ? { rough: roughManifest(w.rough) } : {}),
     refractiveIndex: w.refractiveIndex,
     reflectionBowCentre: { azimuthDeg: centre.azimuthDeg, elevationDeg: centre.elevationDeg, direction: w.reflectedAntisolar },
     sunReflectance: { s: w.sunRs, p: w.sunRp, unpolarised: (w.sunRs + w.sunRp) / 2 },
     model:
+      (w.rough ? "rough water (see rough.model; sunReflectance and reflectionBowCentre here are the level-water values): otherwise " : "") +
       "a level mirror: the sunlight it reflects (Fresnel reflectances Rs, Rp at incidence 90° − sun elevation; Born & Wolf 1999 §1.5.2) lights the " +
       "rain from below the horizon and makes a reflection bow about the antisolar point mirrored in the horizon, each polarisation scattered as " +
       "such; pixels below the horizon show the sky mirrored, each polarisation reflected with its own reflectance; alpha there is the curtain's " +
       "opacity times the water's reflectance (the curtain dims the reflected light, not the light from below the surface); the extra path " +
       "of the reflected light through the air is left out",
+  };
+}
+
+function roughManifest(r: NonNullable<WaterSurface["rough"]>) {
+  return {
+    windSpeedMs: r.windSpeedMs,
+    meanSquareSlope: r.meanSquareSlope,
+    sunReflectance: r.totalReflectance,
+    groups: r.surfaces.length,
+    model:
+      "wind-ruffled water: isotropic Gaussian facet slopes with mean square slope σ² = 0.003 + 5.12e-3·U (Cox & Munk 1954, clean surface; " +
+      "the upwind/crosswind split and the Gram–Charlier skewness and peakedness are left out); each facet reflects the sunlight it intercepts " +
+      "(projected-area factor cos ω/(cos β cos θ₀)) with its own Fresnel reflectances into its mirror direction; facets facing away from the sun " +
+      "or reflecting down into the water are dropped (no shadowing, no second reflections); the facets are gathered in 0.5° bins of reflected " +
+      "elevation, each lighting the rain from its mean elevation at the calm reflection's azimuth (the azimuthal spread is left out), with the " +
+      "calm reflection's s direction; the water pixels still mirror the sky as a level surface (their blur is left out); " +
+      "sunReflectance here is the sum of the groups' shares (the level water's is beside it, for comparison)",
   };
 }
 

@@ -43,7 +43,16 @@ const overlayFields = {
   ground: z.string(),
   waterSurface: z
     .strictObject({
-      kind: z.literal("calm"),
+      kind: z.enum(["calm", "rough"]),
+      rough: z
+        .strictObject({
+          windSpeedMs: z.number(),
+          meanSquareSlope: z.number().describe("σ² of the facet slopes, Cox & Munk (1954)"),
+          sunReflectance: z.number().describe("share of the sunlight the rough water reflects upwards (sum over the glitter groups)"),
+          groups: z.number().int().describe("glitter groups (bins of reflected elevation), one reflection bow each"),
+          model: z.string(),
+        })
+        .optional(),
       refractiveIndex: z.number(),
       reflectionBowCentre: z.strictObject(position),
       sunReflectance: z.strictObject({ s: z.number(), p: z.number(), unpolarised: z.number() }),
