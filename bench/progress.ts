@@ -18,7 +18,7 @@ import { viewRequestSchema } from "../schemas/view.js";
 import { stripQuerySchema } from "../schemas/formats.js";
 import { angleCount } from "../schemas/angles.js";
 import { computeProfile, PROFILE_STAGES, type ProfileResult } from "../pipeline/compute/profile.js";
-import { encodeOverlay, prepareView } from "../pipeline/compute/view.js";
+import { encodeOverlay, prepareView, renderPrepared } from "../pipeline/compute/view.js";
 import { profileJson, renderProfile } from "../pipeline/render/profile-render.js";
 import { encodePngStrip } from "../pipeline/encoders/png-strip.js";
 import { KernelService } from "../pipeline/kernels/kernel-service.js";
@@ -148,6 +148,11 @@ async function workCosts(): Promise<Record<WorkPiece, number>> {
   const prepared = await prepareView(view, "png", { kernels, limits: { maxTermAngles: Infinity } });
   const pixelMs = await timedAsync(() => encodeOverlay(prepared, "png"), smoke ? 1 : 3);
   const pixels = view.camera.widthPx * view.camera.heightPx;
+  // Rough water: the same view drawn with 10 m/s wind and with calm water; the difference is the glitter groups' share.
+  const calmWater = await prepareView(viewRequestSchema.parse({ waterSurface: { kind: "calm" } }), "png", { kernels, limits: { maxTermAngles: Infinity } });
+  const roughWater = await prepareView(viewRequestSchema.parse({ waterSurface: { kind: "rough", windSpeedMs: 10 } }), "png", { kernels, limits: { maxTermAngles: Infinity } });
+  const groups = roughWater.scene.water!.rough!.surfaces.length;
+  const roughMs = timed(() => void renderPrepared(roughWater), smoke ? 1 : 3) - timed(() => void renderPrepared(calmWater), smoke ? 1 : 3);
   // The sum over drops and the disc convolution share one stage; their split follows the operation counts.
   const spectralNsPerOp = (median(warm.spectral) * 1e6) / (nl * n * (radii + discSamples));
   return {
@@ -161,6 +166,7 @@ async function workCosts(): Promise<Record<WorkPiece, number>> {
     jsonAngle: (jsonMs * 1e6) / angles,
     pngAngle: (pngMs * 1e6) / angles,
     overlayPixel: (pixelMs * 1e6) / pixels,
+    roughGroupPixel: Math.max(0, (roughMs * 1e6) / (pixels * groups)),
   };
 }
 

@@ -32,6 +32,7 @@ import { encodeExr, type ExrChromaticities } from "../encoders/exr.js";
 import { encodeRadianceHdr } from "../encoders/radiance-hdr.js";
 import { withSpaceColourChunks } from "../encoders/png-strip.js";
 import type { CameraDescription, MapDescription, OverlayManifest } from "../../schemas/responses/overlay-response.js";
+import { COST_NS } from "../progress/work-costs.js";
 import { roughWaterSurfaceFor, waterAngleRangeDeg, waterSurfaceFor, type WaterSurface } from "../../lib/view/water-reflection.js";
 import { dropMedium } from "../../lib/water/drop-medium.js";
 import { CURTAIN_WAVELENGTH_NM } from "../../lib/bow/extinction.js";
@@ -379,6 +380,18 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps, laye
       field: "layers",
       allowed: "combined (with flattened drops)",
     });
+  }
+  // Rough water draws the reflection bow once per glitter group: over the synchronous budget (the Mie term-angles'
+  // worth of time) the image goes to a job, as other costly renders do.
+  const groups = scene.water?.rough?.surfaces.length ?? 0;
+  const roughNs = pixels * groups * COST_NS.roughGroupPixel;
+  const budgetNs = deps.limits.maxTermAngles * COST_NS.mieTermAngle;
+  if (roughNs > budgetNs) {
+    throw new ClientError(
+      "too-costly",
+      `rough water draws the reflection bow for each of ${groups} glitter groups: ${pixels.toLocaleString("en")} pixels × ${groups} is about ${(roughNs / 1e9).toFixed(1)} s of work, over the synchronous budget of about ${(budgetNs / 1e9).toFixed(1)} s. Submit it as a background job (POST /v1/jobs), or ask fewer pixels, a lower windSpeedMs or waterSurface "calm"`,
+      { cost: roughNs / COST_NS.mieTermAngle, limit: deps.limits.maxTermAngles, jobs: "/v1/jobs" },
+    );
   }
   if (format === "hdr" && scene.layer === "premultiplied") {
     throw new ClientError("invalid-request", "format hdr has no alpha channel: ask for layer \"additive\" or format exr", {

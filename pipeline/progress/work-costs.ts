@@ -39,6 +39,11 @@ export const COST_NS = {
   pngAngle: 5200,
   /** A camera view or sky map: one pixel, shaded and encoded. */
   overlayPixel: 360,
+  /**
+   * Rough water: one pixel of a view or sky map drawn for one glitter group (lib/view/glitter.ts), about 180 ns
+   * (2026-12-03 11:15 UTC on the machine above, load average about 2: a 360 × 180 sky map with 75 groups in 859 ms).
+   */
+  roughGroupPixel: 180,
 } as const;
 
 export type WorkPiece = keyof typeof COST_NS;
