@@ -2,13 +2,12 @@
 // the job's progress bar advancing, and Stop cancels the job on the service.
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import type { AddressInfo } from "node:net";
-import { chromium, type Browser } from "playwright-core";
+import type { Browser } from "playwright-core";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../../http/app.js";
-import { programRuns, skipWithout } from "../helpers/tools.js";
+import { skipWithout } from "../helpers/tools.js";
+import { hasChromium, launchChromium, watchProblems } from "../helpers/page-browser.js";
 
-const CHROMIUM = "/usr/bin/chromium";
-const CHROMIUM_ARGS = ["--headless", "--no-sandbox", "--disable-gpu", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
 
 let app: FastifyInstance;
 let base: string;
@@ -26,16 +25,12 @@ afterAll(async () => {
   await app?.close();
 });
 
-describe.skipIf(skipWithout(programRuns(CHROMIUM, ["--version"])))("a long render on the page", () => {
+describe.skipIf(skipWithout(hasChromium))("a long render on the page", () => {
   it("runs as a job with a live progress bar, and Stop cancels the job", { timeout: 180_000 }, async () => {
-    browser = await chromium.launch({ executablePath: CHROMIUM, args: CHROMIUM_ARGS });
+    browser = await launchChromium();
     const page = await browser.newPage();
-    const problems: string[] = [];
-    page.on("pageerror", (e) => problems.push(`page error: ${e.message}`));
-    page.on("console", (m) => {
-      // The browser logs the synchronous refusal (422 too costly) that sends the render to a job: expected.
-      if (m.type() === "error" && !/status of 422/.test(m.text())) problems.push(`console: ${m.text()}`);
-    });
+    // The browser logs the synchronous refusal (422 too costly) that sends the render to a job: expected.
+    const problems = watchProblems(page, /status of 422/);
     // A one-size preset (Airy under auto): a quick synchronous preview first.
     await page.goto(`${base}/?preset=garden-sprinkler`);
     await page.waitForFunction(() => Number(document.body.dataset.renders) > 0 && document.body.dataset.state === "ready", undefined, { timeout: 60_000 });

@@ -3,13 +3,12 @@
 // scrubber, each with its moment and the sun's elevation from the archive's manifest.
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import type { AddressInfo } from "node:net";
-import { chromium, type Browser } from "playwright-core";
+import type { Browser } from "playwright-core";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../../http/app.js";
-import { programRuns, skipWithout } from "../helpers/tools.js";
+import { skipWithout } from "../helpers/tools.js";
+import { hasChromium, launchChromium, watchProblems } from "../helpers/page-browser.js";
 
-const CHROMIUM = "/usr/bin/chromium";
-const CHROMIUM_ARGS = ["--headless", "--no-sandbox", "--disable-gpu", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
 
 let app: FastifyInstance;
 let base: string;
@@ -33,15 +32,11 @@ interface SequenceJob {
   sequence: { fromUtc: string; toUtc: string; frames: number };
 }
 
-describe.skipIf(skipWithout(programRuns(CHROMIUM, ["--version"])))("the sequence preview on the page", () => {
+describe.skipIf(skipWithout(hasChromium))("the sequence preview on the page", () => {
   it("submits the span as one job, shows its progress in frames, then scrubs through the returned frames", { timeout: 300_000 }, async () => {
-    browser = await chromium.launch({ executablePath: CHROMIUM, args: CHROMIUM_ARGS });
+    browser = await launchChromium();
     const page = await browser.newPage();
-    const problems: string[] = [];
-    page.on("pageerror", (e) => problems.push(`page error: ${e.message}`));
-    page.on("console", (m) => {
-      if (m.type() === "error") problems.push(`console: ${m.text()}`);
-    });
+    const problems = watchProblems(page);
     await page.goto(`${base}/?preset=garden-sprinkler`);
     const ready = () => page.waitForFunction(() => Number(document.body.dataset.renders) > 0 && document.body.dataset.state === "ready", undefined, { timeout: 120_000 });
     await ready();

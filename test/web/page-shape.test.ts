@@ -3,14 +3,13 @@
 // (Fraser 1983, J. Opt. Soc. Am. 73, 1626: the top of the primary is weak in rain of large drops).
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import type { AddressInfo } from "node:net";
-import { chromium, type Browser, type Page } from "playwright-core";
+import type { Browser, Page } from "playwright-core";
 import sharp from "sharp";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../../http/app.js";
-import { programRuns, skipWithout } from "../helpers/tools.js";
+import { skipWithout } from "../helpers/tools.js";
+import { hasChromium, launchChromium, watchProblems } from "../helpers/page-browser.js";
 
-const CHROMIUM = "/usr/bin/chromium";
-const CHROMIUM_ARGS = ["--headless", "--no-sandbox", "--disable-gpu", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
 /** The camera preview's profiles along the arc are held back this long, so the test sees the view before them. */
 const ARC_DELAY_MS = 3000;
 
@@ -46,15 +45,11 @@ async function topOfBowBrightness(page: Page): Promise<number> {
   return sum;
 }
 
-describe.skipIf(skipWithout(programRuns(CHROMIUM, ["--version"])))("flattened drops on the page", () => {
+describe.skipIf(skipWithout(hasChromium))("flattened drops on the page", () => {
   it("shape control, canting and arc slider reach the requests; the camera view blends the bow along the arc", { timeout: 600_000 }, async () => {
-    browser = await chromium.launch({ executablePath: CHROMIUM, args: CHROMIUM_ARGS });
+    browser = await launchChromium();
     const page = await browser.newPage();
-    const problems: string[] = [];
-    page.on("pageerror", (e) => problems.push(`page error: ${e.message}`));
-    page.on("console", (m) => {
-      if (m.type() === "error") problems.push(`console: ${m.text()}`);
-    });
+    const problems = watchProblems(page);
     const bodies: { drops: { shape?: unknown }; arcPositionDeg?: number }[] = [];
     page.on("request", (r) => {
       if (r.url().endsWith("/v1/profile") && r.method() === "POST") bodies.push(JSON.parse(r.postData() ?? "{}"));

@@ -4,14 +4,13 @@ import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import { mkdirSync, readFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import type { AddressInfo } from "node:net";
-import { chromium, type Browser, type Page, type Request } from "playwright-core";
+import type { Browser, Page, Request } from "playwright-core";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../../http/app.js";
-import { programRuns, skipWithout } from "../helpers/tools.js";
+import { skipWithout } from "../helpers/tools.js";
+import { hasChromium, launchChromium, watchProblems } from "../helpers/page-browser.js";
 import { KTX2_IDENTIFIER, readKtx2BySpec } from "../helpers/ktx2-spec-reader.js";
 
-const CHROMIUM = "/usr/bin/chromium";
-const CHROMIUM_ARGS = ["--headless", "--no-sandbox", "--disable-gpu", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"];
 const ARTIFACTS = new URL("../../test-artifacts/", import.meta.url);
 
 let app: FastifyInstance;
@@ -43,17 +42,13 @@ async function downloadVia(page: Page, button: string, path: string): Promise<{ 
   return { request, bytes: readFileSync(file), fileName: download.suggestedFilename() };
 }
 
-describe.skipIf(skipWithout(programRuns(CHROMIUM, ["--version"])))("texture downloads and the water switch on the page", () => {
+describe.skipIf(skipWithout(hasChromium))("texture downloads and the water switch on the page", () => {
   it("KTX2 and time-of-day downloads are KTX 2.0 files with the right layers; the water switch reaches the preview and the view export", { timeout: 300_000 }, async () => {
     mkdirSync(ARTIFACTS, { recursive: true });
-    browser = await chromium.launch({ executablePath: CHROMIUM, args: CHROMIUM_ARGS });
+    browser = await launchChromium();
     const context = await browser.newContext({ viewport: { width: 1440, height: 1000 }, acceptDownloads: true });
     const page = await context.newPage();
-    const problems: string[] = [];
-    page.on("pageerror", (e) => problems.push(`page error: ${e.message}`));
-    page.on("console", (m) => {
-      if (m.type() === "error") problems.push(`console: ${m.text()}`);
-    });
+    const problems = watchProblems(page);
     // A one-size preset keeps every render short.
     await page.goto(`${base}/?preset=garden-sprinkler`);
     await page.waitForFunction(() => Number(document.body.dataset.renders) > 0 && document.body.dataset.state === "ready", undefined, { timeout: 60_000 });
