@@ -174,30 +174,30 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
     const light = sunLightFor(plans[0], bodyOf(r, 0).sun);
     const weights = sunColourWeights(plans[0], light);
     // Every row's colour in one pass through the output space (the sun's white adaptation is made once per sun):
-    // the rows share the observer, space and white, and differ in their drops only.
+    // the rows share the observer, space and white, and differ in their drops only. The orders go the same way.
     const samples = reads.samples.length;
-    const xyz = new Float64Array(3 * samples * rows.length);
-    for (let j = 0; j < rows.length; j++) xyz.set(sunlitXyz(units[j], weights), 3 * samples * j);
-    const rgbAll = sunlitLinearRgb(plans[0], xyz, light);
+    const rowsRgb = (rowUnits: Float64Array[]): Float64Array => {
+      const xyz = new Float64Array(3 * samples * rows.length);
+      for (let j = 0; j < rows.length; j++) xyz.set(sunlitXyz(rowUnits[j], weights), 3 * samples * j);
+      return sunlitLinearRgb(plans[0], xyz, light);
+    };
+    /** Row j of a rowsRgb result read at texel i (linear between its two samples), channel c. */
+    const texel = (rgb: Float64Array, j: number, i: number, c: number): number => {
+      const at = 3 * (samples * j + reads.lower[i]) + c;
+      return rgb[at] * (1 - reads.fraction[i]) + rgb[at + 3] * reads.fraction[i];
+    };
+    const rgbAll = rowsRgb(units);
+    const ordersRgb = orderUnits.map(rowsRgb);
     for (let j = 0; j < rows.length; j++) {
       for (const w of profileWarnings(plans[j], light)) warnings.add(w);
-      const rgb = rgbAll.subarray(3 * samples * j, 3 * samples * (j + 1));
       for (let i = 0; i < width; i++) {
-        const k = reads.lower[i];
-        const f = reads.fraction[i];
         const o = 4 * (j * width + i);
-        for (let c = 0; c < 3; c++) rgba[o + c] = rgb[3 * k + c] * (1 - f) + rgb[3 * (k + 1) + c] * f;
+        for (let c = 0; c < 3; c++) rgba[o + c] = texel(rgbAll, j, i, c);
         rgba[o + 3] = 1 - transmittance[j];
+        ordersRgb.forEach((rgb, p) => {
+          for (let c = 0; c < 3; c++) orders[p][3 * (j * width + i) + c] = texel(rgb, j, i, c);
+        });
       }
-      // Each order sampled as the whole is.
-      orderUnits.forEach((orderUnit, p) => {
-        const orderRgb = sunlitLinearRgb(plans[j], sunlitXyz(orderUnit[j], weights), light);
-        for (let i = 0; i < width; i++) {
-          const k = reads.lower[i];
-          const f = reads.fraction[i];
-          for (let c = 0; c < 3; c++) orders[p][3 * (j * width + i) + c] = orderRgb[3 * k + c] * (1 - f) + orderRgb[3 * (k + 1) + c] * f;
-        }
-      });
       progress.advance(sunStages[s], (j + 1) * reads.samples.length * nl * COST_NS.colourSample);
     }
     const manifest = lutManifest(r, rows, texelPsi, transmittance, [...warnings], plans[0].request, started);
