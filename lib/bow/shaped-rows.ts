@@ -44,10 +44,11 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (2: bow pairs read
- * off the sweep, rows move by ≤ 2e-3 relative), so that only these rows are recomputed, not every kernel row.
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (3: a task's
+ * wavelengths share planes traced at INDEX_NODES indices; 2: bow pairs read off the sweep, rows move by ≤ 2e-3
+ * relative), so that only these rows are recomputed, not every kernel row.
  */
-export const SHAPED_ENGINE_VERSION = 2;
+export const SHAPED_ENGINE_VERSION = 3;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -69,7 +70,7 @@ export function outlineFor(spec: Pick<ShapedRowSpec, "kind" | "axisRatio">, radi
  * sweeps are interpolated (lib/rays/sweep-interpolation.ts). Measured against direct tracing over 380–780 nm
  * (test/lib/bow/shaped-rows.test.ts): see INDEX_NODES_ERROR.
  */
-export const INDEX_NODES = 4;
+export const INDEX_NODES = 5;
 
 export interface ShapedDrop {
   radiusUm: number;
