@@ -33,16 +33,6 @@ function wrap(angle: number): number {
 }
 
 /**
- * Whether every node's signed amplitude has one sign at sample s. A signed amplitude is ±√(co-polar² + cross-polar²)
- * with the co-polar term's sign (PlaneTracer.planeRay): where the co-polar term changes sign (the parallel field
- * near Brewster's angle) and a tilted drop adds a cross-polar term, it jumps, and no polynomial in n follows a jump.
- */
-function sameSign(sweeps: readonly PlaneSweep[], field: "perpAmp" | "parAmp", s: number): boolean {
-  const sign = Math.sign(sweeps[0][field][s]);
-  return sweeps.every((sweep) => Math.sign(sweep[field][s]) === sign);
-}
-
-/**
  * Largest interpolation error let stand, on Θ (radians) and on the optical path W (units of a): a bin's ray lands
  * 1e-9 rad from where it should (bins are ≥ 1e-4 rad), and the phase x·W of a bow's ray moves by ≤ 1e-4 rad up to
  * x = 1e5 (a 6 mm drop in blue light). Samples whose estimated error is larger are traced at n instead.
@@ -60,64 +50,106 @@ export const AMPLITUDE_TOLERANCE = 1e-5;
  * The sweep at n from sweeps of the same order and pupil samples at nodes[k] (ascending, around n), with `tracer`
  * at n for the samples interpolation does not serve: where the nodes disagree on whether the ray leaves in the
  * plane (the ends of the order near the rim, where total reflection or a missed drop depends on n) or on the sign of
- * an amplitude (sameSign), and where the
+ * an amplitude (a signed amplitude is ±√(co-polar² + cross-polar²) with the co-polar term's sign, PlaneTracer.planeRay:
+ * where that term changes sign and a tilted drop adds a cross-polar one, it jumps, and no polynomial follows a jump),
+ * and where the
  * error estimate exceeds the tolerances (Θ and W turn fast with n near grazing). The estimate is the next term of
  * Newton's form, |f[n₀…n_{M−1}]·Π(n − n_k)| (Press et al. 2007 §3.2; it bounds the error of the interpolant one
- * degree lower, so it errs on the safe side). Signed angles are unwrapped against the first node's, so that a ray
- * near Θ = ±180° is not averaged across the cut.
+ * degree lower, so it errs on the safe side). With `near`, samples whose |Θ| lies on one side of it at every node
+ * are neither checked nor traced. Signed angles are unwrapped against the first node's, so that a ray near Θ = ±180° is not averaged
+ * across the cut.
  */
-export function interpolateSweep(sweeps: readonly PlaneSweep[], nodes: readonly number[], n: number, tracer: PlaneTracer): { sweep: PlaneSweep; traced: number } {
+export function interpolateSweep(
+  sweeps: readonly PlaneSweep[],
+  nodes: readonly number[],
+  n: number,
+  tracer: PlaneTracer,
+  near?: { loRad: number; hiRad: number },
+): { sweep: PlaneSweep; traced: number } {
   const first = sweeps[0];
   const count = first.u.length;
+  const M = sweeps.length;
   for (const sweep of sweeps) {
-    if (sweep.u.length !== count || sweep.order !== first.order || sweep.u.some((u, s) => u !== first.u[s])) {
-      throw new RangeError("sweeps to interpolate must share their order and pupil samples");
-    }
+    let same = sweep.u.length === count && sweep.order === first.order;
+    for (let s = 0; same && s < count; s++) same = sweep.u[s] === first.u[s];
+    if (!same) throw new RangeError("sweeps to interpolate must share their order and pupil samples");
   }
   const w = lagrangeWeights(nodes, n);
   // Newton's top coefficient is Σ f_k / Π_{j≠k}(n_k − n_j); times ω(n) = Π(n − n_k) it is the next term.
   const top = nodes.map((nk, k) => 1 / nodes.reduce((prod, nj, j) => (j === k ? prod : prod * (nk - nj)), 1));
   const omega = Math.abs(nodes.reduce((prod, nk) => prod * (n - nk), 1));
   const out = emptySweep(first.order, first.u);
-  const fields = ["perpAmp", "parAmp", "path", "offset", "v"] as const;
+  const loRad = near?.loRad ?? -Infinity;
+  const hiRad = near?.hiRad ?? Infinity;
   const retrace = new Uint8Array(count);
   for (let s = 0; s < count; s++) {
+    // Nodes that have the ray, on which side of `near` they send it, and whether its amplitudes keep their signs.
     let okNodes = 0;
-    for (const sweep of sweeps) okNodes += sweep.ok[s];
+    let below = 0;
+    let above = 0;
+    let signsAgree = true;
+    for (let k = 0; k < M; k++) {
+      const sweep = sweeps[k];
+      if (!sweep.ok[s]) continue;
+      okNodes++;
+      const t = Math.abs(sweep.thetaSigned[s]);
+      if (t < loRad) below++;
+      if (t > hiRad) above++;
+      if (Math.sign(sweep.perpAmp[s]) !== Math.sign(first.perpAmp[s]) || Math.sign(sweep.parAmp[s]) !== Math.sign(first.parAmp[s])) signsAgree = false;
+    }
     if (okNodes === 0) continue;
-    if (okNodes < sweeps.length || !sameSign(sweeps, "perpAmp", s) || !sameSign(sweeps, "parAmp", s)) {
-      retrace[s] = 1;
+    // Far from the angles of interest a sample only joins its neighbours (a fold's run, a segment's power that
+    // crosses the grid): it is kept where every node has it, interpolated whatever the estimate, and never traced.
+    const far = below === okNodes || above === okNodes;
+    if (okNodes < M || !signsAgree) {
+      if (!far) retrace[s] = 1;
       continue;
     }
     const t0 = first.thetaSigned[s];
-    // The interpolated Θ and, per quantity, Newton's top coefficient (next[]: Θ, W, Ã⊥, Ã∥).
+    // The interpolated values and Newton's top coefficients of Θ, W, Ã⊥, Ã∥.
     let theta = 0;
-    const next = [0, 0, 0, 0];
+    let thetaTop = 0;
+    let pathTop = 0;
+    let perpTop = 0;
+    let parTop = 0;
     let amplitude = 0;
-    for (let k = 0; k < sweeps.length; k++) {
+    let perp = 0;
+    let par = 0;
+    let path = 0;
+    let offset = 0;
+    let v = 0;
+    for (let k = 0; k < M; k++) {
       const sweep = sweeps[k];
       const t = t0 + wrap(sweep.thetaSigned[s] - t0);
       theta += w[k] * t;
-      next[0] += top[k] * t;
-      next[1] += top[k] * sweep.path[s];
-      next[2] += top[k] * sweep.perpAmp[s];
-      next[3] += top[k] * sweep.parAmp[s];
+      thetaTop += top[k] * t;
+      pathTop += top[k] * sweep.path[s];
+      perpTop += top[k] * sweep.perpAmp[s];
+      parTop += top[k] * sweep.parAmp[s];
       amplitude = Math.max(amplitude, Math.abs(sweep.perpAmp[s]), Math.abs(sweep.parAmp[s]));
+      perp += w[k] * sweep.perpAmp[s];
+      par += w[k] * sweep.parAmp[s];
+      path += w[k] * sweep.path[s];
+      offset += w[k] * sweep.offset[s];
+      v += w[k] * sweep.v[s];
     }
-    const [thetaNext, pathNext, perpNext, parNext] = next.map((c) => Math.abs(c) * omega);
-    if (thetaNext > THETA_TOLERANCE_RAD || pathNext > PATH_TOLERANCE || Math.max(perpNext, parNext) > AMPLITUDE_TOLERANCE * amplitude) {
+    const trusted =
+      Math.abs(thetaTop) * omega <= THETA_TOLERANCE_RAD &&
+      Math.abs(pathTop) * omega <= PATH_TOLERANCE &&
+      Math.max(Math.abs(perpTop), Math.abs(parTop)) * omega <= AMPLITUDE_TOLERANCE * amplitude;
+    if (!far && !trusted) {
       retrace[s] = 1;
       continue;
     }
     out.ok[s] = 1;
     out.thetaSigned[s] = wrap(theta);
-    for (const field of fields) {
-      let value = 0;
-      for (let k = 0; k < sweeps.length; k++) value += w[k] * sweeps[k][field][s];
-      out[field][s] = value;
-    }
-    out.perpPerU[s] = out.perpAmp[s] ** 2;
-    out.parPerU[s] = out.parAmp[s] ** 2;
+    out.perpAmp[s] = perp;
+    out.parAmp[s] = par;
+    out.path[s] = path;
+    out.offset[s] = offset;
+    out.v[s] = v;
+    out.perpPerU[s] = perp * perp;
+    out.parPerU[s] = par * par;
   }
   // Traced outwards from the pupil's centre, as sweepPlane traces: Newton's search starts from the nearest ray at n
   // further in (as sweepPlane continues from its last ray), then from each node's ray at this sample. The second
