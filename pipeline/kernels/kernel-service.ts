@@ -219,7 +219,7 @@ export class KernelService {
     const allSamples = samplesOf.reduce((a, b) => a + b, 0);
     const perSample = watch.onRows
       ? media.map((m) =>
-          Array.from(radiiUm, (r, i) => kernelRowCostNs(engines[i], sizeParameter(m, r), allSamples, averages[i]?.samples ?? 1, shapes[i]) / allSamples / threads),
+          Array.from(radiiUm, (r, i) => kernelRowCostNs(engines[i], sizeParameter(m, r), allSamples, averages[i]?.samples ?? 1, shapes[i], media.length) / allSamples / threads),
         )
       : [];
     const cost = (l: number, i: number, bi: number) => perSample[l][i] * samplesOf[bi];
