@@ -8,10 +8,7 @@ import { amplitudeFromLanes } from "./wasm/lane-sums.js";
 import { packCoefficients, PACKED_STRIDE } from "./packed-coefficients.js";
 import type { MieAmplitudes, MieCoefficients } from "./types.js";
 
-/**
- * Angle pairs (f64x2 vectors) per group: 4 (8 angles) π recurrences in flight in the fill phase. With the two-phase
- * kernel 6 pairs, or 256 or 64 orders per chunk, measured no faster (x = 3,000 and 50,000).
- */
+/** Angle pairs (f64x2 vectors) per group: 5 (10 angles) π recurrences in flight in the fill phase (measured: amplitudes.wat). */
 const SIMD_PAIRS_PER_GROUP = wasmModules.amplitudes.constants.PAIRS;
 /** Orders per chunk: the table of π_n ± τ_n the fill phase writes for the sums holds this many orders. */
 const CHUNK_ORDERS = wasmModules.amplitudes.constants.CHUNK;

@@ -2,10 +2,14 @@
 ;; per group: per angle the same operations in the same order, so the sums equal the scalar kernel's to the last bit
 ;; (WebAssembly rounds every product: WebAssembly core spec 2.0 §4.3.3, f64x2.mul).
 ;; Two phases per chunk of CHUNK orders, so that no loop holds more vectors than x64's 16 registers (a loop doing
-;; both held 7 per vector pair and spilled to the stack every order; measured half as fast at x = 50,000):
+;; both held 7 per vector pair and spilled to the stack every order):
 ;;   fill  π_n ± τ_n of the group's PAIRS vectors into a table: PAIRS independent π recurrences in flight hide
 ;;         the 4-operation dependency of π_{n+1} on π_n;
 ;;   sums  Σ w(a+b)(π+τ), Σ w(a−b)(π−τ) from the table, SUM_PAIRS vectors at a time (4 accumulators each).
+;; PAIRS = 5, SUM_PAIRS = 1 measured fastest side by side (x = 3,000 and 50,000): 1.05–1.15× 4 and 2, ahead of
+;; 4 and 1, 6 and 1; 2 or 8 pairs, or two vectors' sums at a time, were slower (V8 then spilled registers).
+;; CHUNK = 128 orders: a 20 KiB table and 6 KiB of coefficients stay in a 32 KiB L1 data cache (lscpu on the
+;; benchmark machine) between the phases; 64, 256 and 512 measured slower.
 ;; Compiled by scripts/compile-wat.mjs (with the `wabt` package) into lib/mie/wasm/modules.generated.ts. Two
 ;; extensions of the text format are expanded by that script before wabt reads it:
 ;;   ;; const NAME = value            a constant for the expressions below
@@ -13,8 +17,8 @@
 ;;   (madd A B C)                     A·B + C: f64x2.mul then f64x2.add in the exact module, f64x2.relaxed_madd
 ;;                                    (relaxed SIMD proposal, possibly fused) in the fused module
 ;;
-;; const PAIRS = 4
-;; const SUM_PAIRS = 2
+;; const PAIRS = 5
+;; const SUM_PAIRS = 1
 ;; const CHUNK = 128
 ;;
 ;; Memory (byte addresses, 16-aligned), laid out by lib/mie/simd-amplitudes.ts:
