@@ -1,5 +1,5 @@
 import { describe, it, expect } from "vitest";
-import { mieCoefficients, mieCoefficientsScalar } from "../../../lib/mie/coefficients.js";
+import { createMieWorkspace, mieCoefficients, mieCoefficientsScalar } from "../../../lib/mie/coefficients.js";
 import { simdCoefficientsAvailable } from "../../../lib/mie/simd-coefficients.js";
 
 // mieCoefficients forms the ratios of Bohren & Huffman 1983 eq. 4.88 on WebAssembly SIMD lanes, two orders per vector
@@ -31,4 +31,16 @@ describe("Mie coefficients: WebAssembly SIMD ratios and the TypeScript loop", ()
       for (const part of ["aRe", "aIm", "bRe", "bIm"] as const) expect(simd[part], part).toEqual(scalar[part]);
     });
   }
+
+  // The TypeScript loop into a reused workspace (the path where WebAssembly SIMD is missing), larger and smaller
+  // drops in turn: the same values as into fresh arrays (stale tails must not leak in).
+  it("the TypeScript loop into one reused workspace equals fresh arrays bit for bit, in any order of sizes", () => {
+    const workspace = createMieWorkspace();
+    for (const [mRe, mIm, x, nTerms] of [...cases, ...cases.slice().reverse()]) {
+      const expected = mieCoefficientsScalar(mRe, mIm, x, nTerms);
+      const got = mieCoefficientsScalar(mRe, mIm, x, nTerms, workspace);
+      expect(got.nTerms).toBe(expected.nTerms);
+      for (const part of ["aRe", "aIm", "bRe", "bIm"] as const) expect(got[part].subarray(0, got.nTerms), part).toEqual(expected[part]);
+    }
+  });
 });
