@@ -61,11 +61,11 @@ export function subLatticeError(x: number, c: number, points: number, mIm = 0, b
   const coarse = squaredRows(mRe, mIm, x, Float64Array.from({ length: qHi - qLo + 1 }, (_, k) => cosAtIndex((qLo + k) * c, H_DEG)));
   const weights = beta > 0 ? kaiserSincWeights(c, points, beta) : lagrangeWeights(c, points);
   let worst = 0;
+  const out = [new Float64Array(HI - LO + 1), new Float64Array(HI - LO + 1)];
+  interpolateSubLattice(coarse[0], coarse[1], qLo, c, weights, LO, HI, out[0], out[1], points);
   for (let pol = 0; pol < 2; pol++) {
-    const out = new Float64Array(HI - LO + 1);
-    interpolateSubLattice(coarse[pol], qLo, c, weights, LO, HI, out, points);
     const peak = Math.max(...direct[pol]);
-    for (let j = 0; j < out.length; j++) worst = Math.max(worst, Math.abs(out[j] - direct[pol][j]) / peak);
+    for (let j = 0; j < out[pol].length; j++) worst = Math.max(worst, Math.abs(out[pol][j] - direct[pol][j]) / peak);
   }
   return worst;
 }

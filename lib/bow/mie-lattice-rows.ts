@@ -58,8 +58,7 @@ export function mieLatticeRows(
     members.forEach((i, k) => {
       const perp = new Float64Array(hi - lo + 1);
       const par = new Float64Array(hi - lo + 1);
-      interpolateSubLattice(coarse.rows[k].perp, qLo, c, weights, lo, hi, perp);
-      interpolateSubLattice(coarse.rows[k].par, qLo, c, weights, lo, hi, par);
+      interpolateSubLattice(coarse.rows[k].perp, coarse.rows[k].par, qLo, c, weights, lo, hi, perp, par);
       rows[i] = { perp, par };
     });
   }

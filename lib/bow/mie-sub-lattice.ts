@@ -85,24 +85,45 @@ export function subLatticeNodes(lo: number, hi: number, c: number, points: numbe
 }
 
 /**
- * Values on lattice indices hi, hi−1, …, lo (Θ ascending: out[j] at index hi − j) from values on the sub-lattice
- * nodes qLo..qHi (coarse[q − qLo] at lattice index q·c). Nodes themselves are copied; |S|² is never negative, so
- * an interpolated value below zero (a deep minimum) is set to zero.
+ * Values on lattice indices hi, hi−1, …, lo (Θ ascending: out[j] at index hi − j) of two rows (β⊥ and β∥ share the
+ * weights) from their values on the sub-lattice nodes qLo..qHi (coarse[q − qLo] at lattice index q·c). Nodes
+ * themselves are copied; |S|² is never negative, so an interpolated value below zero (a deep minimum) is set to zero.
  */
-export function interpolateSubLattice(coarse: Float64Array, qLo: number, c: number, weights: Float64Array, lo: number, hi: number, out: Float64Array, points: number = SUB_LATTICE_POINTS): void {
+export function interpolateSubLattice(
+  coarseA: Float64Array,
+  coarseB: Float64Array,
+  qLo: number,
+  c: number,
+  weights: Float64Array,
+  lo: number,
+  hi: number,
+  outA: Float64Array,
+  outB: Float64Array,
+  points: number = SUB_LATTICE_POINTS,
+): void {
   const before = points / 2 - 1;
-  for (let i = lo; i <= hi; i++) {
-    const q = Math.floor(i / c);
-    const r = i - q * c;
-    const j = hi - i;
-    if (r === 0) {
-      out[j] = coarse[q - qLo];
-      continue;
-    }
-    const base = q - before - qLo;
+  // Residue by residue, so that one row of weights serves a run of outputs.
+  for (let r = 0; r < c; r++) {
+    const first = lo + ((((r - lo) % c) + c) % c);
     const wr = r * points;
-    let sum = 0;
-    for (let k = 0; k < points; k++) sum += weights[wr + k] * coarse[base + k];
-    out[j] = sum > 0 ? sum : 0;
+    for (let i = first; i <= hi; i += c) {
+      const q = (i - r) / c;
+      const j = hi - i;
+      if (r === 0) {
+        outA[j] = coarseA[q - qLo];
+        outB[j] = coarseB[q - qLo];
+        continue;
+      }
+      const base = q - before - qLo;
+      let a = 0;
+      let b = 0;
+      for (let k = 0; k < points; k++) {
+        const w = weights[wr + k];
+        a += w * coarseA[base + k];
+        b += w * coarseB[base + k];
+      }
+      outA[j] = a > 0 ? a : 0;
+      outB[j] = b > 0 ? b : 0;
+    }
   }
 }
