@@ -5,6 +5,7 @@
 import { simdArithmetic } from "../../lib/mie/simd-amplitudes.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { setMaxListeners } from "node:events";
+import { linkAbort } from "./abort-link.js";
 import type { LRUCache } from "lru-cache";
 import { byteBoundedCache } from "./byte-bounded-cache.js";
 import type { DiskStore } from "./disk-store.js";
@@ -267,8 +268,8 @@ export class KernelService {
     // One failed task stops this request's other tasks; the caller's signal (client gone) stops them all.
     const stop = new AbortController();
     setMaxListeners(0, stop.signal);
-    const onAbort = () => stop.abort(signal?.reason);
-    signal?.addEventListener("abort", onAbort, { once: true });
+    // One listener on the caller's signal for all the requests that share it (abort-link.ts), removed below.
+    const unlink = linkAbort(signal, stop);
     // Settle borrowed rows from the start, so that their failure is never an unhandled rejection.
     const borrowedSettled = Promise.allSettled(waits);
     const tasks: Promise<void>[] = [];
@@ -339,7 +340,7 @@ export class KernelService {
       await Promise.allSettled(tasks);
       throw error;
     } finally {
-      signal?.removeEventListener("abort", onAbort);
+      unlink();
       this.queueWrites(toSave);
     }
     // Rows borrowed from another request fail with it if that client went away: compute them for this one.
