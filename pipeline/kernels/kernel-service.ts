@@ -15,11 +15,12 @@ import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 import { shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import { orderVariant } from "../../lib/bow/scattering-orders.js";
+import type { MieSampling } from "../../lib/bow/mie-sub-lattice.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
 import { sizeParameter } from "../progress/profile-work.js";
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
-export const KERNEL_VERSION = 4;
+export const KERNEL_VERSION = 5;
 
 export type KernelCompute = (task: KernelTask, signal?: AbortSignal) => Promise<KernelTaskResult>;
 
@@ -119,9 +120,10 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
 }
 
 /** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
-function packKey(m: DropMedium, variant: string, h: number, block: number): string {
-  // Rows of the fused-arithmetic kernels (relaxed SIMD) differ from exact ones in the last bits: kept apart.
-  return `v${KERNEL_VERSION}${simdArithmetic === "fused" ? "f" : ""}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
+function packKey(m: DropMedium, variant: string, h: number, block: number, sampling: MieSampling): string {
+  // Rows of the fused-arithmetic kernels (relaxed SIMD) differ from exact ones in the last bits: kept apart; so are
+  // Lorenz–Mie rows computed at every lattice point (the sub-lattice's interpolated ones differ by ~1e-8 of their peak).
+  return `v${KERNEL_VERSION}${simdArithmetic === "fused" ? "f" : ""}${sampling === "lattice" ? "L" : ""}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
 }
 
 export class KernelService {
@@ -143,9 +145,15 @@ export class KernelService {
       compute: KernelCompute;
       /** Tasks that run at once (the pool's threads): the wall time of the rows is their cost over this. */
       parallelism?: number;
+      /** Lorenz–Mie rows of small drops on a sub-lattice ("adaptive", the default) or at every point (benchmarks). */
+      mieSampling?: MieSampling;
     },
   ) {
     this.memory = byteBoundedCache(options.memoryBudgetBytes);
+  }
+
+  get mieSampling(): MieSampling {
+    return this.options.mieSampling ?? "adaptive";
   }
 
   /** Kernel tasks that run at once: rows' wall time is their cost over this (progress estimates use it too). */
@@ -178,7 +186,7 @@ export class KernelService {
     const variantSet = [...new Set(variants)];
     // found[l][blockIndex]: radius → row, whatever engine served it (each radius has one engine).
     const found = media.map(() => blocks.map(() => new Map<number, Float64Array>()));
-    const keys = media.map((m) => blocks.map((b) => new Map(variantSet.map((v) => [v, packKey(m, v, h, b)]))));
+    const keys = media.map((m) => blocks.map((b) => new Map(variantSet.map((v) => [v, packKey(m, v, h, b, this.mieSampling)]))));
 
     const lookMemory = () => {
       const missing: [number, number, number][] = [];
@@ -269,7 +277,14 @@ export class KernelService {
     for (const [l, byRadius] of toCompute) {
       const indices = [...byRadius.keys()];
       const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], average: averages[i], shape: shapes[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
-      const spec = { medium: media[l], h, items, within, ...(request.order === undefined ? {} : { order: request.order }) };
+      const spec: KernelTask = {
+        medium: media[l],
+        h,
+        items,
+        within,
+        ...(request.order === undefined ? {} : { order: request.order }),
+        ...(this.mieSampling === "adaptive" ? {} : { mieSampling: this.mieSampling }),
+      };
       const computing = this.options.compute(spec, stop.signal);
       computing.catch(() => undefined);
       // The task's rows grouped by the pack they belong to (one wavelength, so one block per pack).
