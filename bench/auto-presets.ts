@@ -42,6 +42,26 @@ export function xyzOf(r: ProfileResult): Float64Array {
   return spectraToXyz(r.grid, perpendicular.map((v, k) => v + parallel[k]), r.request.observer);
 }
 
+/**
+ * CIEDE2000 per sample of test against ref over ψ 30–60° (the profiles' own range within it), both XYZ scaled by
+ * ref's peak Y: the worst (and its ψ; null when every sample is equal) and the mean.
+ */
+export function windowDeltaE(ref: ProfileResult, test: ProfileResult): { worst: number; at: number | null; mean: number } {
+  const r = xyzOf(ref);
+  const t = xyzOf(test);
+  let peak = 0;
+  for (let i = 1; i < r.length; i += 3) peak = Math.max(peak, r[i]);
+  const inWindow = Array.from(ref.spectral.anglesDeg, (a, i) => (a >= 30 - 1e-9 && a <= 60 + 1e-9 ? i : -1)).filter((i) => i >= 0);
+  const pick = (x: Float64Array) => Float64Array.from(inWindow.flatMap((i) => [x[3 * i] / peak, x[3 * i + 1] / peak, x[3 * i + 2] / peak]));
+  const dE = deltaE2000(pick(r), pick(t));
+  let worst = 0;
+  let at: number | null = null;
+  dE.forEach((d, k) => {
+    if (d > worst) [worst, at] = [d, ref.spectral.anglesDeg[inWindow[k]]];
+  });
+  return { worst, at, mean: dE.reduce((s, d) => s + d, 0) / dE.length };
+}
+
 export async function benchAutoPresets(budgets: number[] = [AUTO_MIE_BUDGET_TERM_ANGLES], workers = 2, only?: string[]): Promise<AutoPresetRow[]> {
   const pool = createWorkerPool(workers);
   const rows: AutoPresetRow[] = [];
@@ -55,20 +75,9 @@ export async function benchAutoPresets(budgets: number[] = [AUTO_MIE_BUDGET_TERM
       const t0 = performance.now();
       const mie = await computeProfile(profileRequestSchema.parse({ ...p.body, method: "mie" }), opts);
       const mieColdMs = performance.now() - t0;
-      const ref = xyzOf(mie);
-      let peak = 0;
-      for (let i = 1; i < ref.length; i += 3) peak = Math.max(peak, ref[i]);
-      const inWindow = Array.from(mie.spectral.anglesDeg, (a, i) => (a >= 30 - 1e-9 && a <= 60 + 1e-9 ? i : -1)).filter((i) => i >= 0);
       for (const budget of budgets) {
         const auto = await computeProfile(profileRequestSchema.parse({ ...p.body, method: "auto" }), opts, { autoMieBudgetTermAngles: budget });
-        const a = xyzOf(auto);
-        const pick = (x: Float64Array) => Float64Array.from(inWindow.flatMap((i) => [x[3 * i] / peak, x[3 * i + 1] / peak, x[3 * i + 2] / peak]));
-        const dE = deltaE2000(pick(ref), pick(a));
-        let worst = 0;
-        let at: number | null = null;
-        dE.forEach((d, k) => {
-          if (d > worst) [worst, at] = [d, mie.spectral.anglesDeg[inWindow[k]]];
-        });
+        const { worst, at, mean } = windowDeltaE(mie, auto);
         const row: AutoPresetRow = {
           preset: p.id,
           budget,
@@ -76,7 +85,7 @@ export async function benchAutoPresets(budgets: number[] = [AUTO_MIE_BUDGET_TERM
           rule: String((auto.meta.method as { rule?: string }).rule),
           worstDeltaE: worst,
           worstAtDeg: at,
-          meanDeltaE: dE.reduce((s, d) => s + d, 0) / dE.length,
+          meanDeltaE: mean,
           autoMieTermAngles: auto.spectral.mieTermAngles,
           mieMieTermAngles: mie.spectral.mieTermAngles,
           mieColdMs,

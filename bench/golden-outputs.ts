@@ -2,6 +2,7 @@
 // renders, plus /v1/scatter and /v1/water) and prints the SHA-256 of each answer, so that a refactor can show it
 // left every output bit-identical, or say which ones it changed. Volatile fields (timings, cache statistics) are
 // removed from JSON before hashing. Run: `npm run build && node dist/bench/golden-outputs.js > before.txt`.
+// --mie-sampling=lattice: Lorenz–Mie rows at every lattice point, as before the sub-lattice (lib/bow/mie-sub-lattice.ts).
 
 import { createHash } from "node:crypto";
 import { builtInRenderers } from "../pipeline/jobs/renderers.js";
@@ -12,6 +13,7 @@ import { computeScatter } from "../pipeline/compute/scatter.js";
 import { scatterRequestSchema } from "../schemas/scatter.js";
 import { waterQuerySchema } from "../schemas/water.js";
 import { waterIndex } from "../lib/water/water-index.js";
+import type { MieSampling } from "../lib/bow/mie-sub-lattice.js";
 
 /** Keys whose values change from run to run (timings, which cache tier answered). */
 const VOLATILE_KEYS = new Set(["computeMs", "ms", "cache", "kernel"]);
@@ -94,12 +96,13 @@ function headersHash(headers: Record<string, string>): string {
 
 async function main(): Promise<void> {
   const pool = createInlinePool();
-  const only = process.argv[2];
+  const only = process.argv.slice(2).find((a) => !a.startsWith("--"));
+  const mieSampling: MieSampling = process.argv.includes("--mie-sampling=lattice") ? "lattice" : "adaptive";
   for (const c of cases()) {
     if (only && !c.name.includes(only)) continue;
     const renderer = builtInRenderers[c.endpoint];
     // A fresh kernel cache per case: each output is computed the same way whichever cases ran before it.
-    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: pool.compute });
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: pool.compute, mieSampling });
     const output = await renderer.render(renderer.body.parse(c.body), renderer.query.parse(c.query ?? {}), { kernels, maxTermAngles: Infinity });
     console.log(`${c.name}\tbody ${bodyHash(output.contentType, output.body)}\theaders ${headersHash(output.headers)}`);
   }

@@ -8,6 +8,7 @@ import { DiskStore } from "../pipeline/kernels/disk-store.js";
 import { mkdtemp, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
+import type { MieSampling } from "../lib/bow/mie-sub-lattice.js";
 
 /** Time between starting a pool and the request in the "started" figure: the warm-up rounds take about 0.4 s. */
 export const STARTED_WAIT_MS = 3000;
@@ -84,7 +85,7 @@ async function once(body: unknown, kernels: KernelService): Promise<{ ms: number
   return { ms, mieTermAngles: r.spectral.mieTermAngles, cores: (cpu.user + cpu.system) / 1000 / ms };
 }
 
-const freshCache = (pool: KernelPool, disk?: DiskStore) => new KernelService({ memoryBudgetBytes: 2 ** 31, compute: pool.compute, disk });
+const freshCache = (pool: KernelPool, disk?: DiskStore, mieSampling?: MieSampling) => new KernelService({ memoryBudgetBytes: 2 ** 31, compute: pool.compute, disk, mieSampling });
 
 /** An empty disk tier in a temporary folder, as the service's CACHE_DIR on first start. */
 async function emptyDisk(): Promise<{ disk: DiskStore; remove: () => Promise<void> }> {
@@ -95,7 +96,8 @@ async function emptyDisk(): Promise<{ disk: DiskStore; remove: () => Promise<voi
 /** The default profile with the water 1 °C warmer: other kernels, the Mie and Airy code paths (warms threads and JIT). */
 const WARM_UP_BODY = { water: { temperatureC: 16 } };
 
-export async function benchProfile(w: ProfileWorkload, options: { first?: boolean } = {}): Promise<ProfileBenchRow[]> {
+/** options.mieSampling "lattice": the Lorenz–Mie rows at every lattice point, as before the sub-lattice (bench/sub-lattice-profiles.ts). */
+export async function benchProfile(w: ProfileWorkload, options: { first?: boolean; mieSampling?: MieSampling } = {}): Promise<ProfileBenchRow[]> {
   const rows: ProfileBenchRow[] = [];
   for (const threads of w.workers) {
     let firstMs: number | null = null;
@@ -110,14 +112,14 @@ export async function benchProfile(w: ProfileWorkload, options: { first?: boolea
       await started.close();
     }
     const pool = createWorkerPool(threads);
-    await once(WARM_UP_BODY, freshCache(pool));
+    await once(WARM_UP_BODY, freshCache(pool, undefined, options.mieSampling));
     const tier = w.disk ? await emptyDisk() : undefined;
-    const kernels = freshCache(pool, tier?.disk);
+    const kernels = freshCache(pool, tier?.disk, options.mieSampling);
     const cold = await once(w.body, kernels);
     let fromDiskMs: number | null = null;
     if (tier) {
       await kernels.flush();
-      fromDiskMs = (await once(w.body, freshCache(pool, tier.disk))).ms;
+      fromDiskMs = (await once(w.body, freshCache(pool, tier.disk, options.mieSampling))).ms;
       await tier.remove();
     }
     let warmMs: number | null = null;

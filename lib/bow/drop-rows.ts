@@ -129,8 +129,12 @@ const MIE_SIZES_PER_PASS = 64;
  * angles for all of them): |S1|², |S2|² per drop (the mean over its cell's sizes with an average), the same values
  * as dropRow to the bit; and the Mie term-angles spent.
  */
-export function mieRows(ctx: DropRowContext, drops: readonly { radiusUm: number; average?: CellAverage }[]): { rows: { perp: Float64Array; par: Float64Array }[]; termAngles: number } {
-  const nTheta = ctx.thetaDeg.length;
+export function mieRows(
+  ctx: DropRowContext,
+  drops: readonly { radiusUm: number; average?: CellAverage }[],
+  cosTheta: Float64Array = ctx.cosTheta,
+): { rows: { perp: Float64Array; par: Float64Array }[]; termAngles: number } {
+  const nTheta = cosTheta.length;
   const sizes: { drop: number; x: number; share: number }[] = [];
   drops.forEach((drop, i) => {
     const samples = drop.average && drop.average.samples > 1 ? drop.average.samples : 1;
@@ -151,7 +155,7 @@ export function mieRows(ctx: DropRowContext, drops: readonly { radiusUm: number;
         termAngles += c.nTerms * nTheta;
         return c;
       },
-      ctx.cosTheta,
+      cosTheta,
       outs,
     );
     // In the order of the sizes, as dropRow adds them, so the means are the same to the bit.

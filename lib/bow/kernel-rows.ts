@@ -4,7 +4,9 @@
 import type { DropEngine } from "./volume-scattering.js";
 import { blockRange } from "./kernel-grid.js";
 import { rowVariant } from "./cell-average.js";
-import { dropRow, dropRowContext, mieRows, type CellAverage } from "./drop-rows.js";
+import { dropRow, dropRowContext, type CellAverage } from "./drop-rows.js";
+import { mieLatticeRows } from "./mie-lattice-rows.js";
+import type { MieSampling } from "./mie-sub-lattice.js";
 import type { DropMedium } from "../water/drop-medium.js";
 import { shapedRowKey, shapedRows, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
 import { orderVariant } from "./scattering-orders.js";
@@ -18,6 +20,8 @@ export interface KernelRowsInput {
   within?: { first: number; last: number };
   /** One Debye order p alone for every drop (scattering-orders.ts), or undefined for the whole drops. */
   order?: number;
+  /** Lorenz–Mie rows of small drops on a sub-lattice ("adaptive", the default) or at every lattice point ("lattice"). */
+  mieSampling?: MieSampling;
 }
 
 /** A row's samples outside the computed range: never a kernel value, so "covered" is a NaN test. */
@@ -69,7 +73,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   }
   // Lorenz–Mie drops all at once (the angular functions shared among them), the other engines drop by drop.
   const mieIndices = items.flatMap((item, index) => (item.engine === "mie" && !item.shape ? [index] : []));
-  const mie = mieRows(ctx, mieIndices.map((i) => items[i]));
+  const mie = mieLatticeRows(ctx, mieIndices.map((i) => items[i]), { h, lo, hi }, input.mieSampling);
   const mieRowOf = new Map(mieIndices.map((item, k) => [item, mie.rows[k]]));
   let mieTermAngles = mie.termAngles;
   const shaped = shapedItemRows(items, medium, thetaDeg, h);

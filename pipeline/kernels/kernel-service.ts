@@ -5,6 +5,7 @@
 import { simdArithmetic } from "../../lib/mie/simd-amplitudes.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { setMaxListeners } from "node:events";
+import { linkAbort } from "./abort-link.js";
 import type { LRUCache } from "lru-cache";
 import { byteBoundedCache } from "./byte-bounded-cache.js";
 import type { DiskStore } from "./disk-store.js";
@@ -14,11 +15,12 @@ import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 import { shapedRowKey, shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import { orderVariant } from "../../lib/bow/scattering-orders.js";
+import type { MieSampling } from "../../lib/bow/mie-sub-lattice.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
 import { sizeParameter } from "../progress/profile-work.js";
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
-export const KERNEL_VERSION = 4;
+export const KERNEL_VERSION = 5;
 
 export type KernelCompute = (task: KernelTask, signal?: AbortSignal) => Promise<KernelTaskResult>;
 
@@ -131,9 +133,10 @@ function shapedChunk(l: number, wavelengths: number, chunks: number): number {
   return Math.floor((l * chunks) / wavelengths);
 }
 
-function packKey(m: DropMedium, variant: string, h: number, block: number): string {
-  // Rows of the fused-arithmetic kernels (relaxed SIMD) differ from exact ones in the last bits: kept apart.
-  return `v${KERNEL_VERSION}${simdArithmetic === "fused" ? "f" : ""}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
+function packKey(m: DropMedium, variant: string, h: number, block: number, sampling: MieSampling): string {
+  // Rows of the fused-arithmetic kernels (relaxed SIMD) differ from exact ones in the last bits: kept apart; so are
+  // Lorenz–Mie rows computed at every lattice point (the sub-lattice's interpolated ones differ by ~1e-8 of their peak).
+  return `v${KERNEL_VERSION}${simdArithmetic === "fused" ? "f" : ""}${sampling === "lattice" ? "L" : ""}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
 }
 
 export class KernelService {
@@ -155,9 +158,15 @@ export class KernelService {
       compute: KernelCompute;
       /** Tasks that run at once (the pool's threads): the wall time of the rows is their cost over this. */
       parallelism?: number;
+      /** Lorenz–Mie rows of small drops on a sub-lattice ("adaptive", the default) or at every point (benchmarks). */
+      mieSampling?: MieSampling;
     },
   ) {
     this.memory = byteBoundedCache(options.memoryBudgetBytes);
+  }
+
+  get mieSampling(): MieSampling {
+    return this.options.mieSampling ?? "adaptive";
   }
 
   /** Kernel tasks that run at once: rows' wall time is their cost over this (progress estimates use it too). */
@@ -190,7 +199,7 @@ export class KernelService {
     const variantSet = [...new Set(variants)];
     // found[l][blockIndex]: radius → row, whatever engine served it (each radius has one engine).
     const found = media.map(() => blocks.map(() => new Map<number, Float64Array>()));
-    const keys = media.map((m) => blocks.map((b) => new Map(variantSet.map((v) => [v, packKey(m, v, h, b)]))));
+    const keys = media.map((m) => blocks.map((b) => new Map(variantSet.map((v) => [v, packKey(m, v, h, b, this.mieSampling)]))));
 
     const lookMemory = () => {
       const missing: [number, number, number][] = [];
@@ -277,8 +286,8 @@ export class KernelService {
     // One failed task stops this request's other tasks; the caller's signal (client gone) stops them all.
     const stop = new AbortController();
     setMaxListeners(0, stop.signal);
-    const onAbort = () => stop.abort(signal?.reason);
-    signal?.addEventListener("abort", onAbort, { once: true });
+    // One listener on the caller's signal for all the requests that share it (abort-link.ts), removed below.
+    const unlink = linkAbort(signal, stop);
     // Settle borrowed rows from the start, so that their failure is never an unhandled rejection.
     const borrowedSettled = Promise.allSettled(waits);
     const tasks: Promise<void>[] = [];
@@ -296,7 +305,14 @@ export class KernelService {
         blocks: bis.map((bi) => blocks[bi]),
         ...(manyMedia ? { medium: media[l] } : {}),
       }));
-      const spec = { medium: media[entries[0].l], h, items, within, ...(request.order === undefined ? {} : { order: request.order }) };
+      const spec: KernelTask = {
+        medium: media[entries[0].l],
+        h,
+        items,
+        within,
+        ...(request.order === undefined ? {} : { order: request.order }),
+        ...(this.mieSampling === "adaptive" ? {} : { mieSampling: this.mieSampling }),
+      };
       const computing = this.options.compute(spec, stop.signal);
       computing.catch(() => undefined);
       // The task's rows grouped by the pack they belong to (one wavelength and one block per pack).
@@ -352,7 +368,7 @@ export class KernelService {
       await Promise.allSettled(tasks);
       throw error;
     } finally {
-      signal?.removeEventListener("abort", onAbort);
+      unlink();
       this.queueWrites(toSave);
     }
     // Rows borrowed from another request fail with it if that client went away: compute them for this one.

@@ -1,6 +1,7 @@
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import type { CellAverage } from "../../lib/bow/drop-rows.js";
 import type { ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import type { MieSampling } from "../../lib/bow/mie-sub-lattice.js";
 import type { DropMedium } from "../../lib/water/drop-medium.js";
 
 
@@ -28,6 +29,8 @@ export interface KernelTask {
   within: { first: number; last: number };
   /** One Debye order p alone (lib/bow/scattering-orders.ts), or undefined for the whole drops. */
   order?: number;
+  /** Lorenz–Mie rows at every lattice point ("lattice"), or small drops on a sub-lattice (the default, lib/bow/mie-sub-lattice.ts). */
+  mieSampling?: MieSampling;
 }
 
 /** rows[item][block]: β⊥ then β∥ per drop (m² sr⁻¹) over the block's lattice points, ψ ascending; NaN where not computed. */

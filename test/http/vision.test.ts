@@ -2,6 +2,7 @@ import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import request from "supertest";
 import type { FastifyInstance } from "fastify";
 import { buildApp } from "../../http/app.js";
+import { chromaSpread } from "../../lib/colour/chroma-spread.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -14,20 +15,6 @@ afterAll(async () => app.close());
 
 const quick = { angles: { fromDeg: 36, toDeg: 56, stepDeg: 0.25 }, spectral: { fromNm: 380, toNm: 780, stepNm: 10 } };
 const post = (path: string, body: object) => request(app.server).post(path).send(body);
-
-/** The bow's colourfulness: the largest CIE 1976 u′v′ distance of a sample from the luminance-weighted mean (CIE 015:2018). */
-function chromaSpread(xyz: number[][]): number {
-  const uv = xyz.map(([X, Y, Z]) => {
-    const d = X + 15 * Y + 3 * Z;
-    return d > 0 ? [(4 * X) / d, (9 * Y) / d, Y] : [0, 0, 0];
-  });
-  const total = uv.reduce((s, p) => s + p[2], 0);
-  const mu = uv.reduce((s, p) => s + (p[0] * p[2]) / total, 0);
-  const mv = uv.reduce((s, p) => s + (p[1] * p[2]) / total, 0);
-  // Samples darker than a hundredth of the peak carry no visible colour: left out.
-  const peak = Math.max(...uv.map((p) => p[2]));
-  return Math.max(...uv.filter((p) => p[2] > peak / 100).map((p) => Math.hypot(p[0] - mu, p[1] - mv)));
-}
 
 describe("output.vision", () => {
   it("at daylight levels the eye's result equals the camera's", async () => {

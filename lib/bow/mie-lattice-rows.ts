@@ -1,0 +1,66 @@
+// The Lorenz–Mie rows of a kernel task on the lattice indices lo..hi: drops whose |S|² is slowly varying on the
+// lattice are computed on a sub-lattice and interpolated (mie-sub-lattice.ts); the others at every lattice point.
+// Drops sharing a sub-lattice factor share one many-drops pass (their angular functions are computed once).
+
+import { mieRows, type CellAverage, type DropRowContext } from "./drop-rows.js";
+import { cellSampleRadiusUm } from "./cell-average.js";
+import { interpolateSubLattice, subLatticeFactorForSize, subLatticeNodes, subLatticeWeights, type MieSampling } from "./mie-sub-lattice.js";
+
+export interface LatticeRange {
+  h: number;
+  /** First and last lattice index (ψ = index·h); the context's angles are Θ = 180° − (hi − j)·h, j = 0 … hi − lo. */
+  lo: number;
+  hi: number;
+}
+
+/** The largest size parameter a drop's row is computed for (its cell's largest sub-size with an average). */
+function largestSizeParameter(ctx: DropRowContext, drop: { radiusUm: number; average?: CellAverage }): number {
+  const samples = drop.average && drop.average.samples > 1 ? drop.average.samples : 1;
+  const radiusUm = samples === 1 ? drop.radiusUm : cellSampleRadiusUm(drop.radiusUm, drop.average!, samples - 1);
+  return ctx.waveNumberPerM * radiusUm * 1e-6;
+}
+
+/**
+ * |S1|², |S2|² of each drop at the context's angles (the lattice indices hi down to lo), as mieRows gives them, but
+ * drops with a sub-lattice factor c > 1 computed at every c-th lattice index only and interpolated. The term-angles
+ * are those actually spent.
+ */
+export function mieLatticeRows(
+  ctx: DropRowContext,
+  drops: readonly { radiusUm: number; average?: CellAverage }[],
+  range: LatticeRange,
+  sampling: MieSampling = "adaptive",
+): { rows: { perp: Float64Array; par: Float64Array }[]; termAngles: number } {
+  const { h, lo, hi } = range;
+  const groups = new Map<number, number[]>();
+  drops.forEach((drop, i) => {
+    const c = subLatticeFactorForSize(largestSizeParameter(ctx, drop), h, sampling);
+    const group = groups.get(c);
+    if (group) group.push(i);
+    else groups.set(c, [i]);
+  });
+  const rows: { perp: Float64Array; par: Float64Array }[] = new Array(drops.length);
+  let termAngles = 0;
+  for (const [c, members] of groups) {
+    const list = members.map((i) => drops[i]);
+    if (c === 1) {
+      const direct = mieRows(ctx, list);
+      members.forEach((i, k) => (rows[i] = direct.rows[k]));
+      termAngles += direct.termAngles;
+      continue;
+    }
+    const { qLo, qHi } = subLatticeNodes(lo, hi, c);
+    // Θ as the lattice writes it (180° − index·h); nodes past 0° or 180° are mirror images (|S|² is even in Θ there).
+    const cosTheta = Float64Array.from({ length: qHi - qLo + 1 }, (_, k) => Math.cos(((180 - (qLo + k) * c * h) * Math.PI) / 180));
+    const coarse = mieRows(ctx, list, cosTheta);
+    termAngles += coarse.termAngles;
+    const weights = subLatticeWeights(c);
+    members.forEach((i, k) => {
+      const perp = new Float64Array(hi - lo + 1);
+      const par = new Float64Array(hi - lo + 1);
+      interpolateSubLattice(coarse.rows[k].perp, coarse.rows[k].par, qLo, c, weights, lo, hi, perp, par);
+      rows[i] = { perp, par };
+    });
+  }
+  return { rows, termAngles };
+}
