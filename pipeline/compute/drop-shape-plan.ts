@@ -31,9 +31,9 @@ export interface ShapePlan {
 const ENGINE =
   "3D ray tracing through the drop (Fresnel coefficients for both polarisations, orders 0–3) with the primary and secondary bows in the uniform Airy form per scattering plane (Chester, Friedman & Ursell 1957; Berry & Mount 1972), phases and amplitudes from the traced rays";
 const ACCURACY =
-  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts)";
+  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); planes interpolated across the refractive index from 5 traced ones: worst ΔE2000 below 0.1 against tracing every wavelength (BENCHMARKS.md, shape-index)";
 const DEFAULT_NOTE =
-  "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes traces 12,300 scattering planes (60 radius nodes × 41 wavelengths × 5 canting nodes) at about 0.2 s of CPU each (measured at load average ~22), about 20 minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
+  "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (5 traced + 41 interpolated) scattering planes, 1,500 traced at about 0.17 s of CPU each and 12,300 interpolated across the refractive index at about 0.02 s, projected at about 4½ minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
 
 export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array): ShapePlan {
   const shape = request.drops.shape ?? { kind: "sphere" as const };
