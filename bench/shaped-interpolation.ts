@@ -126,7 +126,7 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
       "the ratios are the figures to read). |Δ|: worst over",
       "wavelengths and angles of the spectral profile, over its peak. ΔE2000 per angle on XYZ scaled by the direct profile's peak Y.",
       "",
-      "| workload | worst |Δ| / peak | worst ΔE2000 | mean ΔE2000 | interpolated cold (ms) | direct cold (ms) | ratio | CPU interpolated / direct (ms) | CPU ratio |",
+      "| workload | worst \\|Δ\\| / peak | worst ΔE2000 | mean ΔE2000 | interpolated cold (ms) | direct cold (ms) | ratio | CPU interpolated / direct (ms) | CPU ratio |",
       "|---|---|---|---|---|---|---|---|---|",
       ...rows.map(
         (r) =>
