@@ -12,7 +12,7 @@ import { kernelRows, type KernelRowsInput } from "../lib/bow/kernel-rows.js";
 import { blocksOf, latticeSpan, KERNEL_STEPS_DEG, type LatticeSpan } from "../lib/bow/kernel-grid.js";
 import { dropMedium } from "../lib/water/drop-medium.js";
 import type { DropEngine } from "../lib/bow/volume-scattering.js";
-import { quantiseSpec, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
+import { INDEX_NODES, quantiseSpec, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { viewRequestSchema } from "../schemas/view.js";
 import { stripQuerySchema } from "../schemas/formats.js";
@@ -100,10 +100,11 @@ async function stageTimes(body: unknown, kernels: KernelService): Promise<{ resu
 /**
  * A flattened drop's plane: one equilibrium drop about 2 mm without canting (one plane) at 0.05° and at 0.01°; the
  * fixed cost per plane and the cost per bin follow from the two lengths (a straight line through them). Each run
- * takes another radius (2 mm + 1 µm per run): a kernel task reuses the last drop's planes when the shape is the
- * same (lib/bow/shaped-rows.ts), which a real task of many equilibrium drops never does.
+ * takes another radius (2 mm + 1 µm per run), so that no run finds another's planes. Then the same drop at
+ * INTERPOLATED_WAVELENGTHS wavelengths in one task: INDEX_NODES traced planes and that many interpolated ones
+ * (lib/rays/sweep-interpolation.ts); the interpolated plane's cost is what the task takes beyond the traced ones.
  */
-function shapedPlaneCosts(): { shapedPlane: number; shapedPlaneSample: number } {
+function shapedPlaneCosts(): { shapedPlane: number; shapedPlaneSample: number; shapedInterpolatedPlane: number } {
   const spec = quantiseSpec({ kind: "equilibrium", cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 90, rayOnly: false });
   const runs = smoke ? 1 : 3;
   let radiusUm = 2000;
@@ -111,8 +112,18 @@ function shapedPlaneCosts(): { shapedPlane: number; shapedPlaneSample: number } 
   const fineMs = timed(() => void kernelRows(task("airy", [radiusUm++], FINE_SPAN, spec)), runs);
   const perBinNs = ((fineMs - coarseMs) * 1e6) / (samplesIn(FINE_SPAN) - samples);
   if (perBinNs <= 0) console.log(`flattened-drop plane: ${coarseMs.toFixed(1)} ms at ${samples} bins, ${fineMs.toFixed(1)} ms at ${samplesIn(FINE_SPAN)}: no cost per bin to fit`);
-  return { shapedPlane: coarseMs * 1e6 - Math.max(0, perBinNs) * samples, shapedPlaneSample: Math.max(0, perBinNs) };
+  const spectrum = (radius: number): KernelRowsInput => {
+    const one = task("airy", [radius], SPAN, spec);
+    const items = Array.from({ length: INTERPOLATED_WAVELENGTHS }, (_, l) => ({ ...one.items[0], medium: dropMedium({ temperatureC: 15, salinityPsu: 0 }, 400 + 30 * l) }));
+    return { ...one, items };
+  };
+  const spectrumMs = timed(() => void kernelRows(spectrum(radiusUm++)), runs);
+  const interpolatedNs = ((spectrumMs - INDEX_NODES * coarseMs) * 1e6) / INTERPOLATED_WAVELENGTHS;
+  return { shapedPlane: coarseMs * 1e6 - Math.max(0, perBinNs) * samples, shapedPlaneSample: Math.max(0, perBinNs), shapedInterpolatedPlane: Math.max(0, interpolatedNs) };
 }
+
+/** Wavelengths of the task that prices an interpolated plane: 400–700 nm every 30 nm. */
+const INTERPOLATED_WAVELENGTHS = 11;
 
 async function workCosts(): Promise<Record<WorkPiece, number>> {
   const mieRadii = smoke ? [200] : [200, 500, 1000];

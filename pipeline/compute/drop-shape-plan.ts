@@ -10,6 +10,7 @@ import {
   ARC_POSITION_STEP_DEG,
   EQUILIBRIUM_NOTE,
   FLATTENED_FROM_RADIUS_UM,
+  INDEX_NODES,
   outlineFor,
   quantiseSpec,
   SUN_ELEVATION_STEP_DEG,
@@ -30,9 +31,9 @@ export interface ShapePlan {
 const ENGINE =
   "3D ray tracing through the drop (Fresnel coefficients for both polarisations, orders 0–3) with the primary and secondary bows in the uniform Airy form per scattering plane (Chester, Friedman & Ursell 1957; Berry & Mount 1972), phases and amplitudes from the traced rays";
 const ACCURACY =
-  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts)";
+  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); planes interpolated across the refractive index from 5 traced ones: worst ΔE2000 below 0.1 against tracing every wavelength (BENCHMARKS.md, shape-index)";
 const DEFAULT_NOTE =
-  "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes traces 12,300 scattering planes (60 radius nodes × 41 wavelengths × 5 canting nodes) at about 0.2 s of CPU each (measured at load average ~22), about 20 minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
+  "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (5 traced + 41 interpolated) scattering planes, 1,500 traced at about 0.17 s of CPU each and 12,300 interpolated across the refractive index at about 0.02 s, projected at about 4½ minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
 
 export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array): ShapePlan {
   const shape = request.drops.shape ?? { kind: "sphere" as const };
@@ -82,18 +83,26 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array): 
 }
 
 /**
- * Work of one flattened-drop row per angle bin, in the Lorenz–Mie term-angles the synchronous limit is counted in:
- * a 600-bin scattering-plane context (4 orders × 8001 pupil rays, then the two bows' tables) took 2.4–5.4 s on
- * this project's 2-core machine at load average 17–20 (about 0.1 core), so ≈ 0.4 s of one core; at the measured
- * ~0.75e9 term-angles/s per core (AUTO_DENSITY_BUDGET_TERM_ANGLES) that is ≈ 3.75e8 per context, 6.25e5 per bin.
- * An estimate until bench P4 measures it on a quiet machine.
+ * Work of one flattened-drop scattering plane per angle bin, in the Lorenz–Mie term-angles the synchronous limit is
+ * counted in (~0.75e9 term-angles/s per core, AUTO_DENSITY_BUDGET_TERM_ANGLES): measured on this project's 2-core
+ * machine (2026-12-03 12:40 UTC, CPU time at load average ~7) on 1–2 mm equilibrium drops over 600 bins, a traced
+ * plane took 120–230 ms (≈ 190 ms: 2.4e5 a bin) and a plane interpolated across the index from traced ones 25–65 ms
+ * (≈ 40 ms: 5e4 a bin). The earlier estimate, 0.4 s a traced plane, was about 2× high.
  */
-export const SHAPED_TERM_ANGLES_PER_BIN = 6.25e5;
+export const SHAPED_TRACED_TERM_ANGLES_PER_BIN = 2.4e5;
+export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
 
-/** Term-angle equivalent of a plan's flattened rows: nodes × wavelengths × canting nodes × bins. */
+/**
+ * Term-angle equivalent of a plan's flattened rows: per shape (each flattened radius node of equilibrium drops; one
+ * for a spheroid, whose radii share their planes) and canting node, min(W, INDEX_NODES) traced planes and, past
+ * INDEX_NODES wavelengths, W interpolated ones. A request of one shape split across threads traces its nodes once per
+ * thread (pipeline/kernels/kernel-service.ts): up to 2× more traced planes than counted here.
+ */
 export function shapedCostTermAngles(plan: ShapePlan, wavelengths: number, bins: number): number {
   const spec = plan.shapes.find((s) => s !== undefined);
   if (!spec) return 0;
-  const nodes = plan.shapes.filter((s) => s !== undefined).length;
-  return nodes * wavelengths * cantingNodesFive(spec.cantingSdDeg).length * bins * SHAPED_TERM_ANGLES_PER_BIN;
+  const shapes = spec.kind === "spheroid" ? 1 : plan.shapes.filter((s) => s !== undefined).length;
+  const traced = Math.min(wavelengths, INDEX_NODES) * SHAPED_TRACED_TERM_ANGLES_PER_BIN;
+  const interpolated = wavelengths > INDEX_NODES ? wavelengths * SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN : 0;
+  return shapes * cantingNodesFive(spec.cantingSdDeg).length * bins * (traced + interpolated);
 }

@@ -119,7 +119,6 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
   return merged;
 }
 
-/** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
 /**
  * Which rows of flattened drops share a task: one shape (a spheroid's rows at every radius; equilibrium drops, whose
  * shape changes with size, one radius) and one chunk of wavelengths.
@@ -133,6 +132,7 @@ function shapedChunk(l: number, wavelengths: number, chunks: number): number {
   return Math.floor((l * chunks) / wavelengths);
 }
 
+/** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
 function packKey(m: DropMedium, variant: string, h: number, block: number, sampling: MieSampling): string {
   // Rows of the fused-arithmetic kernels (relaxed SIMD) differ from exact ones in the last bits: kept apart; so are
   // Lorenz–Mie rows computed at every lattice point (the sub-lattice's interpolated ones differ by ~1e-8 of their peak).
@@ -228,7 +228,7 @@ export class KernelService {
     const allSamples = samplesOf.reduce((a, b) => a + b, 0);
     const perSample = watch.onRows
       ? media.map((m) =>
-          Array.from(radiiUm, (r, i) => kernelRowCostNs(engines[i], sizeParameter(m, r), allSamples, averages[i]?.samples ?? 1, shapes[i]) / allSamples / threads),
+          Array.from(radiiUm, (r, i) => kernelRowCostNs(engines[i], sizeParameter(m, r), allSamples, averages[i]?.samples ?? 1, shapes[i], media.length) / allSamples / threads),
         )
       : [];
     const cost = (l: number, i: number, bi: number) => perSample[l][i] * samplesOf[bi];

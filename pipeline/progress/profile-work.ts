@@ -41,7 +41,7 @@ export function kernelWorkNs(plan: ProfilePlan, threads: number, seen?: Set<stri
         if (seen.has(key)) continue;
         seen.add(key);
       }
-      ns += kernelRowCostNs(engine, sizeParameter(m, r), samples, averages[i]?.samples ?? 1, shapePlan.shapes[i]);
+      ns += kernelRowCostNs(engine, sizeParameter(m, r), samples, averages[i]?.samples ?? 1, shapePlan.shapes[i], media.length);
     }
   }
   return ns / Math.max(1, threads);

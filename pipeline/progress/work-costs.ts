@@ -7,7 +7,7 @@
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { mieTermCount } from "../../lib/mie/termCount.js";
 import { cantingNodesFive } from "../../lib/drops/shape/canting.js";
-import type { ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import { INDEX_NODES, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 
 export const COST_NS = {
   /** One Lorenz–Mie term at one angle (coefficients and amplitudes together). */
@@ -25,6 +25,13 @@ export const COST_NS = {
    * reuse the first drop's planes.
    */
   shapedPlane: 2.7e8,
+  /**
+   * A plane interpolated across the refractive index from the traced ones (lib/rays/sweep-interpolation.ts, a task of
+   * more than INDEX_NODES wavelengths): about a fifth of a traced plane, measured on the same machine (2026-12-03
+   * 12:40 UTC, CPU time at load average ~7) on 1–2 mm equilibrium drops over Θ 125–155°: traced 120–230 ms, interpolated
+   * 25–65 ms (interpolation, the samples traced again, and the bow tables).
+   */
+  shapedInterpolatedPlane: 5.4e7,
   /** …and each angle bin of that plane. */
   shapedPlaneSample: 2.8e4,
   /** Σ over drops: one drop's row at one wavelength and one lattice sample. */
@@ -79,9 +86,16 @@ export function weightDrift(measuredNs: Partial<Record<WorkPiece, number>>, inUs
   });
 }
 
-/** Estimated cost of one kernel row over `samples` lattice points (a flattened drop's: shape given). */
-export function kernelRowCostNs(engine: DropEngine, sizeParameter: number, samples: number, averagedSizes = 1, shape?: ShapedRowSpec): number {
-  if (shape) return cantingNodesFive(shape.cantingSdDeg).length * (COST_NS.shapedPlane + COST_NS.shapedPlaneSample * samples);
+/**
+ * Estimated cost of one kernel row over `samples` lattice points (a flattened drop's: shape given, at one of
+ * `wavelengths` that its task shares: at most INDEX_NODES planes are traced per shape, the rest interpolated).
+ */
+export function kernelRowCostNs(engine: DropEngine, sizeParameter: number, samples: number, averagedSizes = 1, shape?: ShapedRowSpec, wavelengths = 1): number {
+  if (shape) {
+    const interpolated = wavelengths > INDEX_NODES;
+    const plane = interpolated ? (COST_NS.shapedPlane * INDEX_NODES) / wavelengths + COST_NS.shapedInterpolatedPlane : COST_NS.shapedPlane;
+    return cantingNodesFive(shape.cantingSdDeg).length * (plane + COST_NS.shapedPlaneSample * samples);
+  }
   if (engine === "mie") return COST_NS.mieTermAngle * mieTermCount(sizeParameter) * samples * averagedSizes;
   return (engine === "airy" ? COST_NS.airySample : COST_NS.raySample) * samples;
 }

@@ -11,8 +11,9 @@ let app: FastifyInstance;
 let base: string;
 
 beforeAll(async () => {
-  // A low synchronous limit (1e9 term-angles): even this small view of flattened drops is refused synchronously.
-  const config = { cacheDir: "", rateLimitPerMinute: 0, maxEventLoopDelayMs: 0, workers: 1, redisUrl: "", jobsInProcess: false, jobConcurrency: 1, jobMaxTermAngles: Infinity, maxProfileTermAngles: 1e9 };
+  // A low synchronous limit (2e8 term-angles): even this small view of flattened drops is refused synchronously (its
+  // traced planes are priced at 2.4e5 term-angles a bin: pipeline/compute/drop-shape-plan.ts).
+  const config = { cacheDir: "", rateLimitPerMinute: 0, maxEventLoopDelayMs: 0, workers: 1, redisUrl: "", jobsInProcess: false, jobConcurrency: 1, jobMaxTermAngles: Infinity, maxProfileTermAngles: 2e8 };
   app = await buildApp({ config: config as never });
   await app.listen({ port: 0, host: "127.0.0.1" });
   base = `http://127.0.0.1:${(app.server.address() as AddressInfo).port}`;
