@@ -8,13 +8,14 @@ import { dropRow, dropRowContext, type CellAverage } from "./drop-rows.js";
 import { mieLatticeRows } from "./mie-lattice-rows.js";
 import type { MieSampling } from "./mie-sub-lattice.js";
 import type { DropMedium } from "../water/drop-medium.js";
-import { shapedDropRow, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
+import { shapedRowKey, shapedRows, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
 import { orderVariant } from "./scattering-orders.js";
 
 export interface KernelRowsInput {
   medium: DropMedium;
   h: number;
-  items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage; shape?: ShapedRowSpec }[];
+  /** medium: a flattened drop's own wavelength when the task holds several (shaped items only; else `medium`). */
+  items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage; shape?: ShapedRowSpec; medium?: DropMedium }[];
   /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
   within?: { first: number; last: number };
   /** One Debye order p alone for every drop (scattering-orders.ts), or undefined for the whole drops. */
@@ -48,6 +49,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   }
   // Drops that are not spheres have their own engine (shaped-rows.ts): the sphere engines' tables are not built for them.
   if (input.order !== undefined && items.some((it) => it.shape)) throw new RangeError("rows by scattering order are for spheres only");
+  if (items.some((it) => it.medium && !it.shape)) throw new RangeError("an item's own medium is for flattened drops only");
   const ctx = dropRowContext(medium, thetaDeg, h, new Set(items.filter((it) => !it.shape).map((it) => it.engine)), input.order);
   const perDrop = 1 / (2 * ctx.waveNumberPerM * ctx.waveNumberPerM);
   const perp = new Float64Array(nTheta);
@@ -74,10 +76,16 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   const mie = mieLatticeRows(ctx, mieIndices.map((i) => items[i]), { h, lo, hi }, input.mieSampling);
   const mieRowOf = new Map(mieIndices.map((item, k) => [item, mie.rows[k]]));
   let mieTermAngles = mie.termAngles;
+  const shaped = shapedItemRows(items, medium, thetaDeg, h);
   const rows = items.map((item, index) => {
     const computed = mieRowOf.get(index);
-    if (item.shape) shapedDropRow(item.shape, ctx.mRe, ctx.waveNumberPerM * item.radiusUm * 1e-6, item.radiusUm, thetaDeg, h, perp, par);
-    else if (computed) {
+    const flattened = shaped.get(index);
+    let scale = perDrop;
+    if (flattened) {
+      perp.set(flattened.perp);
+      par.set(flattened.par);
+      scale = 1 / (2 * waveNumberPerM(item.medium ?? medium) ** 2);
+    } else if (computed) {
       perp.set(computed.perp);
       par.set(computed.par);
     } else mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
@@ -89,11 +97,41 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
       pack.used += 2 * count;
       for (let k = 0; k < count; k++) {
         const j = at[k];
-        row[k] = j < 0 ? NOT_COMPUTED : perDrop * perp[j];
-        row[count + k] = j < 0 ? NOT_COMPUTED : perDrop * par[j];
+        row[k] = j < 0 ? NOT_COMPUTED : scale * perp[j];
+        row[count + k] = j < 0 ? NOT_COMPUTED : scale * par[j];
       }
       return row;
     });
   });
   return { rows, mieTermAngles };
+}
+
+/** k = 2π·n_air/λ, per metre: the wave number in the air around the drop (as drop-rows.ts's context has it). */
+function waveNumberPerM(medium: DropMedium): number {
+  return (2 * Math.PI * medium.nAir) / (medium.wavelengthNm * 1e-9);
+}
+
+/**
+ * The flattened drops' rows, by item index: items of one shape (shapedRows: a spheroid at any radius, equilibrium
+ * drops per radius) are computed together, at their own wavelengths, so that each scattering plane is traced once.
+ */
+function shapedItemRows(items: KernelRowsInput["items"], medium: DropMedium, thetaDeg: Float64Array, h: number): Map<number, { perp: Float64Array; par: Float64Array }> {
+  const groups = new Map<string, number[]>();
+  items.forEach((item, index) => {
+    if (!item.shape) return;
+    const key = item.shape.kind === "spheroid" ? shapedRowKey(item.shape) : `${shapedRowKey(item.shape)}|${item.radiusUm}`;
+    const group = groups.get(key) ?? [];
+    group.push(index);
+    groups.set(key, group);
+  });
+  const out = new Map<number, { perp: Float64Array; par: Float64Array }>();
+  for (const group of groups.values()) {
+    const drops = group.map((index) => {
+      const item = items[index];
+      const own = item.medium ?? medium;
+      return { radiusUm: item.radiusUm, mRe: own.mRe, x: waveNumberPerM(own) * item.radiusUm * 1e-6 };
+    });
+    shapedRows(items[group[0]].shape!, drops, thetaDeg, h).forEach((row, k) => out.set(group[k], row));
+  }
+  return out;
 }

@@ -15,7 +15,8 @@
 //   ξ per radian κ = |s′|^{2/3}(2/|Θ″|)^{1/3},  C = 4π·2^{−1/3}·Ã²·|s′|^{1/3}/|Θ″|^{2/3},
 //   D = 4π·2^{1/3}·Ã′²·|s′|^{−1/3}/|Θ″|^{4/3}   (sphere: s′ = 1, Ã² = ε²b/sinΘ, lib/rays/airy-bow.ts).
 
-import type { PlaneSweep, PlaneTracer } from "../rays/plane-sweep.js";
+import type { PlaneSweep } from "../rays/plane-sweep.js";
+import type { DropTraceSetup } from "../rays/shape-tracer.js";
 import { allocateCubic, applyCubic, cubicWeights, type CubicWeights } from "../rays/sweep-cubic.js";
 import { binEdges, type UniformBowTable } from "./airy-bins.js";
 import { deviationRad, rainbowImpactParameter, scatteringAngleOfDeviation } from "../rays/descartes.js";
@@ -215,7 +216,7 @@ export function foldPair(sweep: PlaneSweep, side: 1 | -1, fold: PlaneFold, targe
  * the order are the caller's, as ray optics). Null when the order has no fold in this half-plane.
  */
 export function planeBowTable(
-  tracer: Pick<PlaneTracer, "setup">,
+  tracer: { setup: Pick<DropTraceSetup, "n"> },
   sweep: PlaneSweep,
   side: 1 | -1,
   thetaDeg: Float64Array,

@@ -2,7 +2,7 @@
 // prepared once per shape, orientation and wavelength and scales with the size parameter x as for spheres
 // (ray optics ∝ x², the bows through lib/bow/airy-bins.ts's addUniformBowBins).
 
-import { PlaneTracer, sweepPlane, type ScatteringPlane, type SweepWindow } from "../rays/plane-sweep.js";
+import { PlaneTracer, sweepPlane, type PlaneSweep, type ScatteringPlane, type SweepWindow } from "../rays/plane-sweep.js";
 import type { DropTraceSetup } from "../rays/shape-tracer.js";
 import { addUniformBowBins, type UniformBowTable } from "./airy-bins.js";
 import { planeBowTable, type PlaneFold } from "./plane-bow-table.js";
@@ -99,27 +99,86 @@ export function shapedPlaneContext(
   stepDeg: number,
   options: ShapedPlaneOptions = {},
 ): ShapedPlaneContext {
-  const rayOrders = options.rayOrders ?? SHAPED_RAY_ORDERS;
-  const bowOrders = options.bowOrders ?? SHAPED_BOW_ORDERS;
+  const sweeps = shapedPlaneSweeps([setup], plane, side, thetaDeg, stepDeg, options)[0];
+  return contextFromSweeps(setup.n, sweeps, side, thetaDeg, stepDeg, options);
+}
+
+/** The orders a context carries, as asked for (defaults: SHAPED_RAY_ORDERS, SHAPED_BOW_ORDERS). */
+function ordersOf(options: ShapedPlaneOptions): { rayOrders: readonly number[]; bowOrders: readonly number[] } {
+  return { rayOrders: options.rayOrders ?? SHAPED_RAY_ORDERS, bowOrders: options.bowOrders ?? SHAPED_BOW_ORDERS };
+}
+
+/**
+ * The sweeps of every order a context needs, for one drop outline and orientation at several refractive indices
+ * (setups differ only in n): sweeps[setup][order] (null where the order sends no light near the grid). Every setup
+ * traces the same pupil samples, those any of them wants (the union of their coarse looks), so that the sweeps can
+ * be interpolated across n sample by sample (lib/rays/sweep-interpolation.ts).
+ */
+export function shapedPlaneSweeps(
+  setups: Omit<DropTraceSetup, "maxOrder" | "absorptionPerRadius">[],
+  plane: ScatteringPlane,
+  side: 1 | -1,
+  thetaDeg: Float64Array,
+  stepDeg: number,
+  options: ShapedPlaneOptions = {},
+): (PlaneSweep | null)[][] {
+  const { rayOrders, bowOrders } = ordersOf(options);
   const halfSegments = options.halfSegments ?? SHAPED_HALF_SEGMENTS;
   const windowed = options.windowed ?? true;
   const maxOrder = Math.max(...rayOrders, ...bowOrders);
+  const tracers = setups.map((setup) => shapedPlaneTracer(setup, plane, options));
+  const sweeps: (PlaneSweep | null)[][] = tracers.map(() => []);
+  for (let p = 0; p <= maxOrder; p++) {
+    if (!rayOrders.includes(p) && !bowOrders.includes(p)) continue;
+    const windows = tracers.map((tracer) => lookWindow(tracer, p, side, thetaDeg, stepDeg));
+    const any = windows.filter((w): w is SweepWindow => w !== null);
+    tracers.forEach((tracer, k) => {
+      if (any.length === 0) {
+        sweeps[k][p] = null;
+        return;
+      }
+      const own = windows[k];
+      const union: SweepWindow = { wants: (u) => any.some((w) => w.wants(u)), guess: (u) => (own ?? any[0]).guess(u) };
+      sweeps[k][p] = sweepPlane(tracer, p, halfSegments, windowed ? union : undefined);
+    });
+  }
+  return sweeps;
+}
+
+/** The tracer of one plane through one drop, up to the highest order the options ask for. */
+export function shapedPlaneTracer(
+  setup: Omit<DropTraceSetup, "maxOrder" | "absorptionPerRadius">,
+  plane: ScatteringPlane,
+  options: ShapedPlaneOptions = {},
+): PlaneTracer {
+  const { rayOrders, bowOrders } = ordersOf(options);
   // Absorption is left out, as in the sphere engines (lib/rays/fresnel.ts pathTransmittance): it would break the
   // scaling with x; for water in the visible 2κx·(path ≈ 4a) stays below 1 % up to 3 mm drops (κ ≤ 3e-8).
-  const tracer = new PlaneTracer({ ...setup, maxOrder, absorptionPerRadius: 0 }, plane);
+  return new PlaneTracer({ ...setup, maxOrder: Math.max(...rayOrders, ...bowOrders), absorptionPerRadius: 0 }, plane);
+}
+
+/** A context from the sweeps of shapedPlaneSweeps (or sweeps interpolated from them) at refractive index n. */
+export function contextFromSweeps(
+  n: number,
+  sweeps: (PlaneSweep | null)[],
+  side: 1 | -1,
+  thetaDeg: Float64Array,
+  stepDeg: number,
+  options: ShapedPlaneOptions = {},
+): ShapedPlaneContext {
+  const { rayOrders, bowOrders } = ordersOf(options);
   const count = thetaDeg.length;
   const raysPerX2: RayBins = { perpendicular: new Float64Array(count), parallel: new Float64Array(count) };
   for (const p of rayOrders) {
-    const window = lookWindow(tracer, p, side, thetaDeg, stepDeg);
-    if (window) planeRayBins(sweepPlane(tracer, p, halfSegments, windowed ? window : undefined), side, thetaDeg, stepDeg, undefined, raysPerX2);
+    const sweep = sweeps[p];
+    if (sweep) planeRayBins(sweep, side, thetaDeg, stepDeg, undefined, raysPerX2);
   }
   const bowTables: UniformBowTable[] = [];
   const folds: ShapedPlaneContext["folds"] = [];
   for (const p of bowOrders) {
-    const window = lookWindow(tracer, p, side, thetaDeg, stepDeg);
-    if (!window) continue;
-    const sweep = sweepPlane(tracer, p, halfSegments, windowed ? window : undefined);
-    const bow = planeBowTable(tracer, sweep, side, thetaDeg, stepDeg);
+    const sweep = sweeps[p];
+    if (!sweep) continue;
+    const bow = planeBowTable({ setup: { n } }, sweep, side, thetaDeg, stepDeg);
     if (bow === null) {
       planeRayBins(sweep, side, thetaDeg, stepDeg, undefined, raysPerX2);
       continue;

@@ -5,7 +5,8 @@ import { cantingNodesFive } from "../drops/shape/canting.js";
 import { equilibriumOutline } from "../drops/shape/equilibrium-shape.js";
 import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
-import { shapedPlaneContext, shapedPlaneRow, type ShapedPlaneContext } from "./shaped-plane-rows.js";
+import { chebyshevNodes, interpolateSweep } from "../rays/sweep-interpolation.js";
+import { contextFromSweeps, shapedPlaneRow, shapedPlaneSweeps, shapedPlaneTracer } from "./shaped-plane-rows.js";
 
 /** Drops below this radius stay spheres under "equilibrium": see EQUILIBRIUM_NOTE. */
 export const FLATTENED_FROM_RADIUS_UM = 150;
@@ -43,10 +44,11 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (2: bow pairs read
- * off the sweep, rows move by ≤ 2e-3 relative), so that only these rows are recomputed, not every kernel row.
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (3: a task's
+ * wavelengths share planes traced at INDEX_NODES indices; 2: bow pairs read off the sweep, rows move by ≤ 2e-3
+ * relative), so that only these rows are recomputed, not every kernel row.
  */
-export const SHAPED_ENGINE_VERSION = 2;
+export const SHAPED_ENGINE_VERSION = 3;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -64,9 +66,75 @@ export function outlineFor(spec: Pick<ShapedRowSpec, "kind" | "axisRatio">, radi
 }
 
 /**
- * Writes the canting mean of |S1|², |S2|² for a drop of equal-volume radius radiusUm and size parameter x, on
- * bins of width stepDeg centred on thetaDeg (ascending, uniform).
+ * Refractive indices traced per shape and canting node when a task asks for more wavelengths than this; the others'
+ * sweeps are interpolated (lib/rays/sweep-interpolation.ts). Measured against direct tracing over 380–780 nm
+ * (test/lib/bow/shaped-rows.test.ts): see INDEX_NODES_ERROR.
  */
+export const INDEX_NODES = 5;
+
+/**
+ * Interpolated samples are checked (and traced at n where the check fails) unless every traced index sends their light
+ * to one side of the grid, more than this beyond it: Θ at a fixed pupil point moves steadily with n (each refraction
+ * turns the ray further as n grows, Snell's law), so such a sample stays outside the grid at n; the margin covers the
+ * interpolation's error there (the estimate's worst near grazing, measured on 1–2 mm drops, is below 0.1°).
+ */
+const NEAR_MARGIN_DEG = 2;
+const DEG = Math.PI / 180;
+
+export interface ShapedDrop {
+  radiusUm: number;
+  /** Real refractive index at the drop's wavelength, and its size parameter 2πa/λ there. */
+  mRe: number;
+  x: number;
+}
+
+/**
+ * The canting mean of |S1|², |S2|² for drops of one shape (a spheroid's fixed axis ratio, or equilibrium drops of
+ * one radius) at any wavelengths, on bins of width stepDeg centred on thetaDeg (ascending, uniform). Each scattering
+ * plane is traced once per shape and canting node: at each distinct index when there are at most INDEX_NODES of
+ * them, else at INDEX_NODES Chebyshev nodes across their range, the sweeps at the other indices interpolated from
+ * those. Everything then scales with x (shapedPlaneRow), so drops of one shape and index share one context.
+ */
+export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number): { perp: Float64Array; par: Float64Array }[] {
+  if (spec.kind === "equilibrium" && drops.some((d) => d.radiusUm !== drops[0].radiusUm)) {
+    throw new RangeError("equilibrium drops of different radii are different shapes: one call per radius");
+  }
+  const out = drops.map(() => ({ perp: new Float64Array(thetaDeg.length), par: new Float64Array(thetaDeg.length) }));
+  if (drops.length === 0) return out;
+  const outline = outlineFor(spec, drops[0].radiusUm);
+  const plane = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
+  const options = spec.rayOnly ? { rayOrders: [0, 1, 2, 3], bowOrders: [] } : {};
+  const indices = [...new Set(drops.map((d) => d.mRe))].sort((a, b) => a - b);
+  const interpolate = indices.length > INDEX_NODES;
+  const traced = interpolate ? chebyshevNodes(indices[0], indices[indices.length - 1], INDEX_NODES) : indices;
+  // Samples whose light lands more than NEAR_MARGIN_DEG outside the grid at every traced index are interpolated as they are.
+  const near = { loRad: (thetaDeg[0] - stepDeg / 2 - NEAR_MARGIN_DEG) * DEG, hiRad: (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + NEAR_MARGIN_DEG) * DEG };
+  const rowPerp = new Float64Array(thetaDeg.length);
+  const rowPar = new Float64Array(thetaDeg.length);
+  for (const node of cantingNodesFive(spec.cantingSdDeg)) {
+    const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
+    // One canting node's sweeps at a time: memory stays at INDEX_NODES planes' sweeps (~10 MB), whatever the task.
+    const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
+    for (const mRe of indices) {
+      const tracer = interpolate ? shapedPlaneTracer({ outline, axis, n: mRe }, plane, options) : null;
+      const at = interpolate
+        ? sweeps[0].map((_, p) => (sweeps[0][p] ? interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer!, near).sweep : null))
+        : sweeps[traced.indexOf(mRe)];
+      const ctx = contextFromSweeps(mRe, at, 1, thetaDeg, stepDeg, options);
+      drops.forEach((drop, d) => {
+        if (drop.mRe !== mRe) return;
+        shapedPlaneRow(ctx, drop.x, rowPerp, rowPar);
+        for (let j = 0; j < rowPerp.length; j++) {
+          out[d].perp[j] += node.weight * rowPerp[j];
+          out[d].par[j] += node.weight * rowPar[j];
+        }
+      });
+    }
+  }
+  return out;
+}
+
+/** One drop's row (shapedRows for a single drop), written into perp and par. */
 export function shapedDropRow(
   spec: ShapedRowSpec,
   mRe: number,
@@ -77,38 +145,7 @@ export function shapedDropRow(
   perp: Float64Array,
   par: Float64Array,
 ): void {
-  const contexts = cantingContexts(spec, mRe, radiusUm, thetaDeg, stepDeg);
-  const rowPerp = new Float64Array(perp.length);
-  const rowPar = new Float64Array(par.length);
-  perp.fill(0);
-  par.fill(0);
-  for (const { weight, ctx } of contexts) {
-    shapedPlaneRow(ctx, x, rowPerp, rowPar);
-    for (let j = 0; j < perp.length; j++) {
-      perp[j] += weight * rowPerp[j];
-      par[j] += weight * rowPar[j];
-    }
-  }
-}
-
-/**
- * The last canting nodes' contexts: everything in them scales with x, so drops of one shape (a spheroid's fixed axis
- * ratio, at every radius of a kernel task: one wavelength, one grid) share them. Equilibrium shapes change with the
- * radius, which is then part of the key.
- */
-let lastContexts: { key: string; contexts: { weight: number; ctx: ShapedPlaneContext }[] } | null = null;
-
-function cantingContexts(spec: ShapedRowSpec, mRe: number, radiusUm: number, thetaDeg: Float64Array, stepDeg: number) {
-  const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : `eq${radiusUm}`;
-  const key = `${shapedRowKey(spec)}|${shape}|${mRe}|${thetaDeg[0]}|${thetaDeg.length}|${stepDeg}`;
-  if (lastContexts?.key === key) return lastContexts.contexts;
-  const outline = outlineFor(spec, radiusUm);
-  const plane = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
-  const options = spec.rayOnly ? { rayOrders: [0, 1, 2, 3], bowOrders: [] } : {};
-  const contexts = cantingNodesFive(spec.cantingSdDeg).map((node) => ({
-    weight: node.weight,
-    ctx: shapedPlaneContext({ outline, axis: cantedAxis(node.tiltXDeg, node.tiltYDeg), n: mRe }, plane, 1, thetaDeg, stepDeg, options),
-  }));
-  lastContexts = { key, contexts };
-  return contexts;
+  const [row] = shapedRows(spec, [{ radiusUm, mRe, x }], thetaDeg, stepDeg);
+  perp.set(row.perp);
+  par.set(row.par);
 }

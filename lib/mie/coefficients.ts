@@ -1,6 +1,7 @@
 import { mieTermCount } from "./termCount.js";
-import { riccatiBesselReal, logDerivativeDown, logDerivativeStart } from "./riccatiBessel.js";
+import { riccatiBesselReal, riccatiBesselAndLogDerivative, logDerivativeStart } from "./riccatiBessel.js";
 import { allocateCoefficients, assertSphereInput, type MieCoefficients } from "./types.js";
+import { simdCoefficients } from "./simd-coefficients.js";
 
 /**
  * Lorenz–Mie coefficients a_n, b_n of a homogeneous sphere, m = mRe + i·mIm (mIm ≥ 0, Bohren &
@@ -13,10 +14,31 @@ export function mieCoefficients(mRe: number, mIm: number, x: number, nTerms?: nu
   const n = nTerms ?? mieTermCount(x);
   if (workspace) reserve(workspace, n);
   const out = workspace ? workspace.coefficients : allocateCoefficients(n);
-  const { psi, chi } = riccatiBesselReal(x, n, workspace);
+  // The WebAssembly SIMD ratios give the same bits as the loop below, two orders at a time (lib/mie/simd-coefficients.ts).
+  if (!simdCoefficients(mRe, mIm, x, n, out)) scalarRatios(mRe, mIm, x, n, out, workspace);
+  out.nTerms = n;
+  return out;
+}
+
+/**
+ * As mieCoefficients, always by the TypeScript loop (the fallback where WebAssembly SIMD is missing): the reference
+ * the WebAssembly ratios are checked against.
+ */
+export function mieCoefficientsScalar(mRe: number, mIm: number, x: number, nTerms?: number, workspace?: MieWorkspace): MieCoefficients {
+  assertSphereInput(mRe, mIm, x);
+  const n = nTerms ?? mieTermCount(x);
+  if (workspace) reserve(workspace, n);
+  const out = workspace ? workspace.coefficients : allocateCoefficients(n);
+  scalarRatios(mRe, mIm, x, n, out, workspace);
+  out.nTerms = n;
+  return out;
+}
+
+function scalarRatios(mRe: number, mIm: number, x: number, n: number, out: MieCoefficients, workspace?: MieWorkspace): void {
+  if (workspace) reserveRecurrences(workspace, n);
   const zRe = mRe * x;
   const zIm = mIm * x;
-  const { dRe, dIm } = logDerivativeDown(zRe, zIm, n, logDerivativeStart(n, Math.hypot(zRe, zIm)), workspace);
+  const { psi, chi, dRe, dIm } = riccatiBesselAndLogDerivative(x, zRe, zIm, n, logDerivativeStart(n, Math.hypot(zRe, zIm)), workspace);
   const m2 = mRe * mRe + mIm * mIm;
   // 1/m
   const imRe = mRe / m2;
@@ -38,8 +60,6 @@ export function mieCoefficients(mRe: number, mIm: number, x: number, nTerms?: nu
     fIm = dRe[k] * mIm + dIm[k] * mRe;
     setRatio(out.bRe, out.bIm, k - 1, fRe, fIm, ps, ps1, xiRe, xiIm, xi1Re, xi1Im);
   }
-  out.nTerms = n;
-  return out;
 }
 
 /**
@@ -59,14 +79,20 @@ export function createMieWorkspace(): MieWorkspace {
   return { psi: new Float64Array(0), chi: new Float64Array(0), dRe: new Float64Array(0), dIm: new Float64Array(0), coefficients: allocateCoefficients(0) };
 }
 
+/** Room for n coefficients (the WebAssembly path keeps ψ, χ, D in its own memory: lib/mie/simd-coefficients.ts). */
 function reserve(w: MieWorkspace, n: number): void {
+  if (n <= w.coefficients.aRe.length) return;
+  w.coefficients = allocateCoefficients(Math.max(n, Math.ceil(1.5 * w.coefficients.aRe.length)));
+}
+
+/** Room for ψ, χ, D of orders 0..n, for the TypeScript loop only. */
+function reserveRecurrences(w: MieWorkspace, n: number): void {
   if (n + 1 <= w.psi.length) return;
   const capacity = Math.max(n + 1, Math.ceil(1.5 * w.psi.length));
   w.psi = new Float64Array(capacity);
   w.chi = new Float64Array(capacity);
   w.dRe = new Float64Array(capacity);
   w.dIm = new Float64Array(capacity);
-  w.coefficients = allocateCoefficients(capacity);
 }
 
 /** c = (f·ψ_n − ψ_{n−1}) / (f·ξ_n − ξ_{n−1}) for complex f, ξ and real ψ. */

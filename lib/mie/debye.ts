@@ -1,5 +1,5 @@
 import { mieTermCount } from "./termCount.js";
-import { riccatiBesselReal, logDerivativeDown, logDerivativeStart } from "./riccatiBessel.js";
+import { riccatiBesselAndLogDerivative, logDerivativeStart } from "./riccatiBessel.js";
 import { allocateCoefficients, assertSphereInput, type MieCoefficients } from "./types.js";
 
 /**
@@ -95,9 +95,8 @@ export function debyeSurfaceCoefficients(
   assertSphereInput(mRe, mIm, x);
   const N = nTerms ?? mieTermCount(x);
   const out: DebyeSurfaceCoefficients = { nTerms: N, a: allocateMode(N), b: allocateMode(N) };
-  const { psi, chi } = riccatiBesselReal(x, N);
   const z: Cx = [mRe * x, mIm * x];
-  const { dRe, dIm } = logDerivativeDown(z[0], z[1], N, logDerivativeStart(N, Math.hypot(z[0], z[1])));
+  const { psi, chi, dRe, dIm } = riccatiBesselAndLogDerivative(x, z[0], z[1], N, logDerivativeStart(N, Math.hypot(z[0], z[1])));
   const invZ = div([1, 0], z);
   const m: Cx = [mRe, mIm];
   const kappaA = div([1, 0], m);

@@ -209,20 +209,7 @@ export interface SweepWindow {
 
 /** window: trace only the rays it wants (the others stay ok = 0). */
 export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number, window?: SweepWindow): PlaneSweep {
-  const count = 2 * halfSegments + 1;
-  const sweep: PlaneSweep = {
-    order: p,
-    u: new Float64Array(count),
-    ok: new Uint8Array(count),
-    thetaSigned: new Float64Array(count),
-    perpPerU: new Float64Array(count),
-    parPerU: new Float64Array(count),
-    perpAmp: new Float64Array(count),
-    parAmp: new Float64Array(count),
-    path: new Float64Array(count),
-    offset: new Float64Array(count),
-    v: new Float64Array(count),
-  };
+  const sweep = emptySweep(p, new Float64Array(2 * halfSegments + 1));
   for (const sign of [1, -1] as const) {
     // The pupil's edge is found at v = 0; where the curve v*(u) bends, rays near the rim may miss and are skipped.
     const half = tracer.pupilHalfWidth(sign);
@@ -243,17 +230,40 @@ export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number,
       const ray = tracer.planeRay(u, vGuess, p);
       if (ray === null) continue;
       vGuess = ray.v;
-      sweep.ok[index] = 1;
-      sweep.thetaSigned[index] = ray.thetaSigned;
-      sweep.v[index] = ray.v;
-      const root = Math.sqrt(Math.abs(ray.yv));
-      sweep.perpAmp[index] = ray.ampPerp / root;
-      sweep.parAmp[index] = ray.ampPar / root;
-      sweep.perpPerU[index] = sweep.perpAmp[index] ** 2;
-      sweep.parPerU[index] = sweep.parAmp[index] ** 2;
-      sweep.path[index] = ray.path;
-      sweep.offset[index] = ray.offset;
+      storeRay(sweep, index, ray);
     }
   }
   return sweep;
+}
+
+/** A sweep of order p over the pupil samples u with no ray yet (ok = 0 everywhere). */
+export function emptySweep(p: number, u: Float64Array): PlaneSweep {
+  const count = u.length;
+  return {
+    order: p,
+    u,
+    ok: new Uint8Array(count),
+    thetaSigned: new Float64Array(count),
+    perpPerU: new Float64Array(count),
+    parPerU: new Float64Array(count),
+    perpAmp: new Float64Array(count),
+    parAmp: new Float64Array(count),
+    path: new Float64Array(count),
+    offset: new Float64Array(count),
+    v: new Float64Array(count),
+  };
+}
+
+/** Writes a traced ray into sample `index` of a sweep (the sample's u is the ray's). */
+export function storeRay(sweep: PlaneSweep, index: number, ray: PlaneRay): void {
+  sweep.ok[index] = 1;
+  sweep.thetaSigned[index] = ray.thetaSigned;
+  sweep.v[index] = ray.v;
+  const root = Math.sqrt(Math.abs(ray.yv));
+  sweep.perpAmp[index] = ray.ampPerp / root;
+  sweep.parAmp[index] = ray.ampPar / root;
+  sweep.perpPerU[index] = sweep.perpAmp[index] ** 2;
+  sweep.parPerU[index] = sweep.parAmp[index] ** 2;
+  sweep.path[index] = ray.path;
+  sweep.offset[index] = ray.offset;
 }

@@ -13,7 +13,7 @@ import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
-import { shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import { shapedRowKey, shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import { orderVariant } from "../../lib/bow/scattering-orders.js";
 import type { MieSampling } from "../../lib/bow/mie-sub-lattice.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
@@ -120,6 +120,19 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
 }
 
 /** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
+/**
+ * Which rows of flattened drops share a task: one shape (a spheroid's rows at every radius; equilibrium drops, whose
+ * shape changes with size, one radius) and one chunk of wavelengths.
+ */
+function shapedTaskKey(shape: ShapedRowSpec, radiusUm: number): string {
+  return shape.kind === "spheroid" ? shapedRowKey(shape) : `${shapedRowKey(shape)}|${radiusUm}`;
+}
+
+/** The chunk of wavelengths (of `chunks` contiguous ones) that wavelength l belongs to; each traces its own indices. */
+function shapedChunk(l: number, wavelengths: number, chunks: number): number {
+  return Math.floor((l * chunks) / wavelengths);
+}
+
 function packKey(m: DropMedium, variant: string, h: number, block: number, sampling: MieSampling): string {
   // Rows of the fused-arithmetic kernels (relaxed SIMD) differ from exact ones in the last bits: kept apart; so are
   // Lorenz–Mie rows computed at every lattice point (the sub-lattice's interpolated ones differ by ~1e-8 of their peak).
@@ -246,7 +259,11 @@ export class KernelService {
     // Rows another request is computing already are awaited, not computed twice. In-flight rows point at the
     // task that computes them (one promise per task, not per row: a cold profile has ~50,000 rows).
     const waits: Promise<void>[] = [];
-    const toCompute = new Map<number, Map<number, number[]>>();
+    // Rows to compute, grouped into tasks: task key → "l:i" → the row's wavelength, radius and blocks.
+    const toCompute = new Map<string, Map<string, { l: number; i: number; bis: number[] }>>();
+    // Flattened drops' tasks: one per shape, split by wavelength only where there are fewer shapes than threads.
+    const shapesMissing = new Set(missing.flatMap(([, i]) => (shapes[i] ? [shapedTaskKey(shapes[i]!, radiiUm[i])] : [])));
+    const chunks = Math.min(media.length, Math.ceil(this.parallelism / Math.max(1, shapesMissing.size)));
     for (const [l, i, bi] of missing) {
       const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
       if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
@@ -258,11 +275,12 @@ export class KernelService {
         );
         continue;
       }
-      let byRadius = toCompute.get(l);
-      if (!byRadius) toCompute.set(l, (byRadius = new Map()));
-      let list = byRadius.get(i);
-      if (!list) byRadius.set(i, (list = []));
-      list.push(bi);
+      const taskKey = shapes[i] ? `shape|${shapedTaskKey(shapes[i]!, radiiUm[i])}|${shapedChunk(l, media.length, chunks)}` : `l${l}`;
+      let rowsOfTask = toCompute.get(taskKey);
+      if (!rowsOfTask) toCompute.set(taskKey, (rowsOfTask = new Map()));
+      let entry = rowsOfTask.get(`${l}:${i}`);
+      if (!entry) rowsOfTask.set(`${l}:${i}`, (entry = { l, i, bis: [] }));
+      entry.bis.push(bi);
     }
 
     // One failed task stops this request's other tasks; the caller's signal (client gone) stops them all.
@@ -274,11 +292,21 @@ export class KernelService {
     const borrowedSettled = Promise.allSettled(waits);
     const tasks: Promise<void>[] = [];
     const toSave: [string, Map<number, Float64Array>][] = [];
-    for (const [l, byRadius] of toCompute) {
-      const indices = [...byRadius.keys()];
-      const items = indices.map((i) => ({ radiusUm: radiiUm[i], engine: engines[i], average: averages[i], shape: shapes[i], blocks: byRadius.get(i)!.map((bi) => blocks[bi]) }));
+    for (const rowsOfTask of toCompute.values()) {
+      const entries = [...rowsOfTask.values()];
+      // One wavelength per task, but for flattened drops: their tasks hold one shape's rows at many wavelengths, each
+      // item then with its own medium (lib/bow/shaped-rows.ts traces a plane at a few indices and interpolates).
+      const manyMedia = entries.some((e) => e.l !== entries[0].l);
+      const items = entries.map(({ l, i, bis }) => ({
+        radiusUm: radiiUm[i],
+        engine: engines[i],
+        average: averages[i],
+        shape: shapes[i],
+        blocks: bis.map((bi) => blocks[bi]),
+        ...(manyMedia ? { medium: media[l] } : {}),
+      }));
       const spec: KernelTask = {
-        medium: media[l],
+        medium: media[entries[0].l],
         h,
         items,
         within,
@@ -287,27 +315,27 @@ export class KernelService {
       };
       const computing = this.options.compute(spec, stop.signal);
       computing.catch(() => undefined);
-      // The task's rows grouped by the pack they belong to (one wavelength, so one block per pack).
-      const byPack = new Map<string, { bi: number; rows: [radiusUm: number, item: number, block: number][] }>();
-      indices.forEach((i, item) => {
-        byRadius.get(i)!.forEach((bi, block) => {
+      // The task's rows grouped by the pack they belong to (one wavelength and one block per pack).
+      const byPack = new Map<string, { l: number; bi: number; rows: [radiusUm: number, item: number, block: number][] }>();
+      entries.forEach(({ l, i, bis }, item) => {
+        bis.forEach((bi, block) => {
           const pack = keys[l][bi].get(variants[i])!;
           let entry = byPack.get(pack);
-          if (!entry) byPack.set(pack, (entry = { bi, rows: [] }));
+          if (!entry) byPack.set(pack, (entry = { l, bi, rows: [] }));
           entry.rows.push([radiiUm[i], item, block]);
           let rows = this.inflight.get(pack);
           if (!rows) this.inflight.set(pack, (rows = new Map()));
           rows.set(radiiUm[i], { task: computing, item, block, within });
         });
       });
-      const taskNs = watch.onRows ? indices.reduce((sum, i) => sum + byRadius.get(i)!.reduce((s, bi) => s + cost(l, i, bi), 0), 0) : 0;
+      const taskNs = watch.onRows ? entries.reduce((sum, { l, i, bis }) => sum + bis.reduce((s, bi) => s + cost(l, i, bi), 0), 0) : 0;
       const task = computing
         .then((result) => {
           // A task that ends after its request was cancelled keeps nothing: a cancelled job stops adding kernels.
           if (stop.signal.aborted) return;
           stats.mieTermAngles += result.mieTermAngles;
           const saved: [string, Map<number, Float64Array>][] = [];
-          for (const [pack, { bi, rows: list }] of byPack) {
+          for (const [pack, { l, bi, rows: list }] of byPack) {
             const rows = list.map(([radiusUm, item, block]): [number, Float64Array] => [radiusUm, result.rows[item][block]]);
             this.remember(pack, rows);
             for (const [radiusUm, row] of rows) found[l][bi].set(radiusUm, row);

@@ -13,9 +13,14 @@ export interface KernelTaskItem {
   average?: CellAverage;
   /** Drops that are not spheres: shape, canting and place on the bow (lib/bow/shaped-rows.ts); engine is then ignored. */
   shape?: ShapedRowSpec;
+  /** Flattened drops only: the item's own wavelength, when the task holds one shape's rows at several (else the task's). */
+  medium?: DropMedium;
 }
 
-/** One wavelength, several drops, each over some lattice blocks: the unit of work sent to a worker. */
+/**
+ * One wavelength, several drops, each over some lattice blocks: the unit of work sent to a worker. Flattened drops'
+ * tasks hold one shape at several wavelengths instead (items with their own medium).
+ */
 export interface KernelTask {
   medium: DropMedium;
   h: number;

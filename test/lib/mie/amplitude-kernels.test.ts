@@ -5,6 +5,7 @@ import { mieAmplitudesScalar } from "../../../lib/mie/amplitudes.js";
 import { createSimdAmplitudes, mieAmplitudesSimd, simdAmplitudesAvailable } from "../../../lib/mie/simd-amplitudes.js";
 import { mieCoefficientsScratch } from "../../../lib/mie/coefficients-scratch.js";
 import { allocateAmplitudes, type MieAmplitudes } from "../../../lib/mie/types.js";
+import { wasmModules } from "../../../lib/mie/wasm/modules.generated.js";
 
 // Both angle kernels (the scalar TypeScript reference and the WebAssembly SIMD one that mieAmplitudes uses) against
 // fixtures/mie/make_mie_reference.py: Bohren & Huffman 1983 eqs. 4.53 and 4.74 with mpmath at 60 digits.
@@ -59,6 +60,20 @@ describe("Mie angle kernels: scalar reference and WebAssembly SIMD", () => {
     const scalar = mieAmplitudesScalar(coefficients, mu);
     const used = createSimdAmplitudes("exact")!(coefficients, mu, allocateAmplitudes(mu.length))!;
     for (const part of ["s1Re", "s1Im", "s2Re", "s2Im"] as const) expect(used[part]).toEqual(scalar[part]);
+  });
+
+  // The SIMD kernel runs the orders in chunks (a table of π ± τ per chunk, lib/mie/wasm/amplitudes.wat): one order,
+  // a chunk less one, exactly one, one more, and two chunks must all give the scalar kernel's sums to the bit.
+  it("the exact SIMD kernel equals the scalar one bit for bit at every chunk edge of the orders", () => {
+    const chunk = wasmModules.amplitudes.constants.CHUNK;
+    const mu = cosines(Array.from({ length: 37 }, (_, j) => 100 + 1.7 * j));
+    const exact = createSimdAmplitudes("exact")!;
+    for (const nTerms of [1, chunk - 1, chunk, chunk + 1, 2 * chunk]) {
+      const coefficients = mieCoefficients(1.334, 2e-9, 2 * chunk, nTerms);
+      const scalar = mieAmplitudesScalar(coefficients, mu);
+      const simd = exact(coefficients, mu, allocateAmplitudes(mu.length))!;
+      for (const part of ["s1Re", "s1Im", "s2Re", "s2Im"] as const) expect(simd[part], `${nTerms} orders, ${part}`).toEqual(scalar[part]);
+    }
   });
 
   // The profile loop's coefficients repeat mieCoefficients' operations into reused buffers: equal to the bit, also

@@ -9,6 +9,9 @@ import { DiskStore } from "../../../pipeline/kernels/disk-store.js";
 import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
 import { computeProfile } from "../../../pipeline/compute/profile.js";
 import { profileRequestSchema } from "../../../schemas/profile.js";
+import { kernelRows } from "../../../lib/bow/kernel-rows.js";
+import { dropMedia } from "../../../lib/water/drop-medium.js";
+import type { KernelTask } from "../../../pipeline/kernels/kernel-types.js";
 
 const limits = { maxTermAngles: Infinity };
 // One drop size, no canting, two wavelengths and a narrow window: a few seconds of ray tracing per profile.
@@ -62,5 +65,64 @@ describe("kernel rows of flattened drops", () => {
     expect(fromDisk.meta.kernel.computed).toBe(0);
     expect(fromDisk.meta.kernel.diskHits).toBeGreaterThan(0);
     expect(Array.from(fromDisk.spectral.perpendicular)).toEqual(Array.from(first.spectral.perpendicular));
+  }, 600_000);
+});
+
+describe("kernel tasks of flattened drops", () => {
+  const { media } = dropMedia({ temperatureC: 10, salinityPsu: 0 }, Array.from({ length: 8 }, (_, l) => 400 + 40 * l));
+  const shape = { kind: "equilibrium" as const, cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 45, rayOnly: false };
+  const within = { first: 800, last: 840 };
+
+  async function rowsAndTasks(radiiUm: Float64Array) {
+    const seen: KernelTask[] = [];
+    const inline = createInlinePool().compute;
+    const kernels = new KernelService({
+      memoryBudgetBytes: 2 ** 28,
+      compute: (task, signal) => {
+        seen.push(task);
+        return inline(task, signal);
+      },
+      parallelism: 2,
+    });
+    const rows = await kernels.rows({ h: 0.05, media, radiiUm, engines: Array.from(radiiUm, () => "airy" as const), shapes: Array.from(radiiUm, () => shape), blocks: [8], within });
+    return { rows, seen };
+  }
+
+  /** Worst |difference| over the peak between the service's rows and one task per wavelength and radius. */
+  function worstAgainstAlone(rows: Awaited<ReturnType<typeof rowsAndTasks>>["rows"], radiiUm: Float64Array): number {
+    let worst = 0;
+    media.forEach((medium, l) => {
+      radiiUm.forEach((radiusUm, i) => {
+        const alone = kernelRows({ medium, h: 0.05, items: [{ radiusUm, engine: "airy", blocks: [8], shape }], within }).rows[0][0];
+        const together = rows.get(l, i, 8);
+        const peak = Math.max(...alone.filter((v) => !Number.isNaN(v)));
+        alone.forEach((v, k) => {
+          expect(Number.isNaN(together[k])).toBe(Number.isNaN(v));
+          if (!Number.isNaN(v)) worst = Math.max(worst, Math.abs(together[k] - v) / peak);
+        });
+      });
+    });
+    return worst;
+  }
+
+  it("one shape and two threads: two tasks of four wavelengths each, traced directly, equal to one task per wavelength", async () => {
+    const radiiUm = Float64Array.from([600]);
+    const { rows, seen } = await rowsAndTasks(radiiUm);
+    expect(seen.length).toBe(2);
+    for (const task of seen) expect(new Set(task.items.map((item) => item.medium!.wavelengthNm)).size).toBe(4);
+    // Four indices are within INDEX_NODES: each traced, so the rows equal those of one wavelength (to rounding).
+    expect(worstAgainstAlone(rows, radiiUm)).toBeLessThanOrEqual(1e-9);
+  }, 600_000);
+
+  it("two shapes: one task each with all eight wavelengths, interpolated across n within 1e-6 of the peak", async () => {
+    const radiiUm = Float64Array.from([600, 900]);
+    const { rows, seen } = await rowsAndTasks(radiiUm);
+    expect(seen.length).toBe(2);
+    for (const task of seen) {
+      expect(new Set(task.items.map((item) => item.radiusUm)).size).toBe(1);
+      expect(new Set(task.items.map((item) => item.medium!.wavelengthNm)).size).toBe(8);
+    }
+    // Measured: see test/lib/bow/shaped-rows.test.ts (interpolation across n agrees with tracing to ~1e-12).
+    expect(worstAgainstAlone(rows, radiiUm)).toBeLessThanOrEqual(1e-6);
   }, 600_000);
 });
