@@ -72,7 +72,7 @@ const mieSection = [
   "the lanes and FMA explain and what is left to V8's code. The per-call kernel runs each group of 10 angles in two phases",
   "per chunk of 128 orders (π_n ± τ_n into a table, then the sums 2 angles at a time), so that neither loop spills vectors",
   "to the stack; the one-loop kernel it replaced held 28 vectors in x64's 16 registers. Side by side in one process",
-  "(2026-12-03, 5–11 alternating rounds, 10 processes) the two-phase kernel took 0.75–0.9 of the one-loop kernel's time,",
+  "(2026-12-03, 5–11 alternating rounds, 10 processes) the two-phase kernel took 0.73–0.87 of the one-loop kernel's time,",
   "and the one-loop kernel fell, in 2 of the 10 processes, into a mode twice as slow at large term counts (W3 41.7 ms",
   "against 21–25 ms; W1 x=10000 48 against 25–30 ms; cause not found: this machine shows no hardware counters), which",
   "the two-phase kernel never showed. The C loop's own layout (orders outer, the angles' state in memory, two orders per",

@@ -4,7 +4,8 @@
 // ψ 30–60° (bench/auto-presets.ts windowDeltaE: XYZ scaled by the old profile's peak Y) on every preset and the
 // default profile, as given and with method "mie", and on fog P2. With the row-level interpolation error of
 // bench/mie-sub-lattice.ts.
-// node dist/bench/sub-lattice-profiles.js [--rounds=N] [--no-times] [--write]   (--write: the sub-lattice section of BENCHMARKS.md)
+// node dist/bench/sub-lattice-profiles.js [--rounds=N] [--workloads=P1,P2,P1_MIE,P3] [--no-times] [--write]
+// (--write: the sub-lattice section of BENCHMARKS.md)
 
 import { pathToFileURL } from "node:url";
 import { loadavg } from "node:os";
@@ -104,7 +105,9 @@ async function main(): Promise<void> {
   const write = process.argv.includes("--write");
   const accuracy = [...benchSubLattice([SUB_LATTICE_PERIOD_FRACTION], [SUB_LATTICE_POINTS], 0, SUB_LATTICE_KAISER_BETA), ...benchSubLattice([SUB_LATTICE_PERIOD_FRACTION], [SUB_LATTICE_POINTS], 1e-8, SUB_LATTICE_KAISER_BETA)];
   const colour = await colourSubLattice();
-  const times = process.argv.includes("--no-times") ? [] : await timeSubLattice([P1, P2, P1_MIE, P3], rounds);
+  const named: Record<string, ProfileWorkload> = { P1, P2, P1_MIE, P3 };
+  const chosen = process.argv.find((a) => a.startsWith("--workloads="))?.slice("--workloads=".length).split(",") ?? Object.keys(named);
+  const times = process.argv.includes("--no-times") ? [] : await timeSubLattice(chosen.map((k) => named[k]), rounds);
   const lines = [
     "## Lorenz–Mie rows on sub-lattices",
     "",
@@ -123,6 +126,7 @@ async function main(): Promise<void> {
     lines.push(
       "",
       `Cold, 2 workers (threads warmed by another request, empty kernel cache), ${rounds} rounds, the two paths alternating; medians.`,
+      "Where the term-angles are about equal (drops too large for a sub-lattice) both paths do the same work: their ratio is the run's noise.",
       "",
       "| workload | every lattice point (ms) | sub-lattices (ms) | ratio | Mie term-angles before → after |",
       "|---|---|---|---|---|",

@@ -8,6 +8,7 @@ import { computeProfile } from "../../pipeline/compute/profile.js";
 import { KernelService } from "../../pipeline/kernels/kernel-service.js";
 import { createInlinePool } from "../../pipeline/kernels/worker-pool.js";
 import { ClientError } from "../../pipeline/requests/client-error.js";
+import type { MieSampling } from "../../lib/bow/mie-sub-lattice.js";
 
 let app: FastifyInstance;
 beforeAll(async () => {
@@ -134,19 +135,24 @@ describe("POST /v1/profile", () => {
     expect(res.body.message).toMatch(/POST \/v1\/jobs/);
   });
 
-  it("the cost guard's estimate is the Mie work a cold profile then does (within 1 %)", async () => {
+  it("the cost guard's estimate is the Mie work a cold profile does at every lattice point (within 1 %), and bounds the sub-lattice's", async () => {
     // Fog (all drops below the Airy radius) over a 6° window: the kernel computes only the window's lattice points,
     // and the guard must count those, not whole 5° blocks, or it refuses requests it could serve; each Mie row is
     // the mean of 4 sizes (256 per decade over 64 nodes), which the guard must count too. The density is fixed
-    // here because "auto" chooses it within the limit, and the refused run's limit is 1.
+    // here because "auto" chooses it within the limit, and the refused run's limit is 1. The guard counts every
+    // lattice point (lib/bow/engine-choice.ts estimateMieTermAngles); these small drops' rows are computed on a
+    // sub-lattice (lib/bow/mie-sub-lattice.ts), which spends less.
     const body = profileRequestSchema.parse({ drops: { kind: "lognormal", medianRadiusUm: 8, geometricSd: 1.3, totalNumberPerM3: 1e8 }, angles: { fromDeg: 31, toDeg: 37, stepDeg: 0.1 }, spectral: { fromNm: 400, toNm: 700, stepNm: 20 }, mieSizesPerDecade: 256 });
-    const fresh = () => new KernelService({ memoryBudgetBytes: 2 ** 28, compute: createInlinePool().compute });
-    const refused = await computeProfile(body, { kernels: fresh(), limits: { maxTermAngles: 1 } }).catch((e: unknown) => e);
+    const fresh = (mieSampling: MieSampling) => new KernelService({ memoryBudgetBytes: 2 ** 28, compute: createInlinePool().compute, mieSampling });
+    const refused = await computeProfile(body, { kernels: fresh("adaptive"), limits: { maxTermAngles: 1 } }).catch((e: unknown) => e);
     expect(refused).toBeInstanceOf(ClientError);
     const estimate = (refused as ClientError).details.cost as number;
-    const done = await computeProfile(body, { kernels: fresh(), limits: { maxTermAngles: Infinity } });
+    const done = await computeProfile(body, { kernels: fresh("lattice"), limits: { maxTermAngles: Infinity } });
     expect(done.spectral.mieTermAngles).toBeGreaterThan(0);
     expect(Math.abs(estimate / done.spectral.mieTermAngles - 1)).toBeLessThan(0.01);
+    const sub = await computeProfile(body, { kernels: fresh("adaptive"), limits: { maxTermAngles: Infinity } });
+    expect(sub.spectral.mieTermAngles).toBeGreaterThan(0);
+    expect(sub.spectral.mieTermAngles).toBeLessThan(estimate);
   });
 });
 
