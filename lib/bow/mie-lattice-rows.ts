@@ -5,6 +5,7 @@
 import { mieRows, type CellAverage, type DropRowContext } from "./drop-rows.js";
 import { cellSampleRadiusUm } from "./cell-average.js";
 import { interpolateSubLattice, subLatticeFactorForSize, subLatticeNodes, subLatticeWeights, type MieSampling } from "./mie-sub-lattice.js";
+import { interpolateSubLatticeSimd } from "./simd-sub-lattice.js";
 
 export interface LatticeRange {
   h: number;
@@ -58,7 +59,9 @@ export function mieLatticeRows(
     members.forEach((i, k) => {
       const perp = new Float64Array(hi - lo + 1);
       const par = new Float64Array(hi - lo + 1);
-      interpolateSubLattice(coarse.rows[k].perp, coarse.rows[k].par, qLo, c, weights, lo, hi, perp, par);
+      // The WebAssembly lanes give the same values; the TypeScript loop where WebAssembly SIMD is missing.
+      const args = [coarse.rows[k].perp, coarse.rows[k].par, qLo, c, weights, lo, hi, perp, par] as const;
+      if (!interpolateSubLatticeSimd(...args)) interpolateSubLattice(...args);
       rows[i] = { perp, par };
     });
   }
