@@ -1,6 +1,7 @@
 // Whole profiles with Lorenz–Mie rows of small drops on sub-lattices (lib/bow/mie-sub-lattice.ts, "adaptive") against
 // rows at every lattice point ("lattice", the path before): cold times of P1, P2, P1_MIE and P3 (bench/profiles.ts),
-// the two paths alternating in one run on this machine; and how far the profiles move, as CIEDE2000 per sample over
+// the two paths alternating in one run on this machine; the interpolation alone, TypeScript against WebAssembly
+// (bench/sub-lattice-interpolation.ts); and how far the profiles move, as CIEDE2000 per sample over
 // ψ 30–60° (bench/auto-presets.ts windowDeltaE: XYZ scaled by the old profile's peak Y) on every preset and the
 // default profile, as given and with method "mie", and on fog P2. With the row-level interpolation error of
 // bench/mie-sub-lattice.ts.
@@ -14,6 +15,7 @@ import { benchProfile, P1, P1_MIE, P2, P3, type ProfileWorkload } from "./profil
 import { median } from "./stats.js";
 import { windowDeltaE } from "./auto-presets.js";
 import { benchSubLattice } from "./mie-sub-lattice.js";
+import { interpolationLine, timeInterpolation } from "./sub-lattice-interpolation.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { computeProfile } from "../pipeline/compute/profile.js";
 import { KernelService } from "../pipeline/kernels/kernel-service.js";
@@ -108,6 +110,7 @@ async function main(): Promise<void> {
   const named: Record<string, ProfileWorkload> = { P1, P2, P1_MIE, P3 };
   const chosen = process.argv.find((a) => a.startsWith("--workloads="))?.slice("--workloads=".length).split(",") ?? Object.keys(named);
   const times = process.argv.includes("--no-times") ? [] : await timeSubLattice(chosen.map((k) => named[k]), rounds);
+  const interpolation = timeInterpolation(9);
   const lines = [
     "## Lorenz–Mie rows on sub-lattices",
     "",
@@ -117,6 +120,8 @@ async function main(): Promise<void> {
     "",
     `Row level (bench/mie-sub-lattice.ts; x = 20 to ${accuracy[0] ? "where c falls to 1" : "–"}, ψ 20–60°, 0.05° lattice): worst |interpolated − direct| / peak ${fmt(accuracy[0].worst)} (m = 1.333),`,
     `${fmt(accuracy[1].worst)} (m = 1.333 + 1e-8 i).`,
+    "",
+    interpolationLine(interpolation),
     "",
     "| profile | worst ΔE2000 (ψ 30–60°) | mean ΔE2000 | worst |Δβ| / peak β, all λ and ψ |",
     "|---|---|---|---|",
