@@ -4,6 +4,7 @@
 import { cantingNodesFive } from "../drops/shape/canting.js";
 import { equilibriumOutline } from "../drops/shape/equilibrium-shape.js";
 import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
+import { shapeNodeRadiusUm } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
 import { chebyshevNodes, interpolateSweep } from "../rays/sweep-interpolation.js";
 import { contextFromSweeps, shapedPlaneRow, shapedPlaneSweeps, shapedPlaneTracer } from "./shaped-plane-rows.js";
@@ -28,6 +29,12 @@ export interface ShapedRowSpec {
   kind: "equilibrium" | "spheroid";
   /** Spheroids only: vertical over horizontal axis. */
   axisRatio?: number;
+  /**
+   * Equilibrium only: radii share the traced geometry of shape nodes this far apart in deformation 1 − q
+   * (lib/drops/shape/shape-nodes.ts); 0 or absent (what the service asks for: the colour this costs at the top of the
+   * bow is measured in BENCHMARKS.md, shape-nodes): every radius its own shape.
+   */
+  deformationStep?: number;
   cantingSdDeg: number;
   sunElevationDeg: number;
   arcPositionDeg: number;
@@ -46,13 +53,14 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 /**
  * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (3: a task's
  * wavelengths share planes traced at INDEX_NODES indices; 2: bow pairs read off the sweep, rows move by ≤ 2e-3
- * relative), so that only these rows are recomputed, not every kernel row.
+ * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
+ * the step in their key.
  */
 export const SHAPED_ENGINE_VERSION = 3;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
-  const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : "eq";
+  const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : spec.deformationStep ? `eq${spec.deformationStep}` : "eq";
   return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}`;
 }
 
@@ -61,8 +69,22 @@ export function shapedVariant(variant: string, shape: ShapedRowSpec | undefined)
   return shape ? `${variant}|${shapedRowKey(shape)}` : variant;
 }
 
-export function outlineFor(spec: Pick<ShapedRowSpec, "kind" | "axisRatio">, radiusUm: number): DropOutline {
-  return spec.kind === "spheroid" ? spheroidOutline(spec.axisRatio!) : equilibriumOutline(radiusUm);
+/** The radius whose shape a drop of radiusUm is traced with (its shape node's; a spheroid's radius does not matter). */
+export function shapeRadiusUm(spec: Pick<ShapedRowSpec, "kind" | "deformationStep">, radiusUm: number): number {
+  return spec.kind === "equilibrium" ? shapeNodeRadiusUm(radiusUm, spec.deformationStep ?? 0) : radiusUm;
+}
+
+/** The outline a drop of radiusUm is traced with. */
+export function outlineFor(spec: Pick<ShapedRowSpec, "kind" | "axisRatio" | "deformationStep">, radiusUm: number): DropOutline {
+  return spec.kind === "spheroid" ? spheroidOutline(spec.axisRatio!) : equilibriumOutline(shapeRadiusUm(spec, radiusUm));
+}
+
+/**
+ * Which drops share traced planes (one kernel task, one shapedRows call): a spheroid's at every radius, equilibrium
+ * drops of one shape node.
+ */
+export function shapeGroupKey(spec: ShapedRowSpec, radiusUm: number): string {
+  return spec.kind === "spheroid" ? shapedRowKey(spec) : `${shapedRowKey(spec)}|${shapeRadiusUm(spec, radiusUm)}`;
 }
 
 /**
@@ -103,8 +125,8 @@ export interface ShapedDrop {
  * those. Everything then scales with x (shapedPlaneRow), so drops of one shape and index share one context.
  */
 export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number): { perp: Float64Array; par: Float64Array }[] {
-  if (spec.kind === "equilibrium" && drops.some((d) => d.radiusUm !== drops[0].radiusUm)) {
-    throw new RangeError("equilibrium drops of different radii are different shapes: one call per radius");
+  if (spec.kind === "equilibrium" && drops.some((d) => shapeRadiusUm(spec, d.radiusUm) !== shapeRadiusUm(spec, drops[0].radiusUm))) {
+    throw new RangeError("equilibrium drops of different shape nodes are different shapes: one call per node");
   }
   const out = drops.map(() => ({ perp: new Float64Array(thetaDeg.length), par: new Float64Array(thetaDeg.length) }));
   if (drops.length === 0) return out;

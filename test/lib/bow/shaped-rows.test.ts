@@ -3,6 +3,7 @@ import { shapedDropRow, shapedRows, type ShapedRowSpec } from "../../../lib/bow/
 import { shapedPlaneContext, shapedPlaneRow } from "../../../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
 import { bowScatteringPlane, cantedAxis } from "../../../lib/rays/bow-geometry.js";
+import { shapeNodeRadiusUm } from "../../../lib/drops/shape/shape-nodes.js";
 
 const thetaDeg = Float64Array.from({ length: 60 }, (_, j) => 136.05 + 0.1 * j);
 const N_WATER = 1.3337;
@@ -71,4 +72,23 @@ describe("a task's wavelengths share planes traced at a few refractive indices",
     // the samples it does not trust are traced at n). Bound: 1e-6, far below the sphere limit's 1e-3.
     expect(worst).toBeLessThanOrEqual(1e-6);
   }, 600_000);
+});
+
+describe("equilibrium drops of one shape node share its traced planes", () => {
+  const spec: ShapedRowSpec = { kind: "equilibrium", deformationStep: 0.003, cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 0, rayOnly: false };
+
+  it("two radii on one node, computed together, equal each alone and the node's own radius at the same x", () => {
+    const node = shapeNodeRadiusUm(1000, 0.003);
+    const other = [990, 1010].find((r) => shapeNodeRadiusUm(r, 0.003) === node)!;
+    expect(other).toBeDefined();
+    const together = shapedRows(spec, [{ radiusUm: 1000, mRe: N_WATER, x: 12000 }, { radiusUm: other, mRe: N_WATER, x: 12100 }], thetaDeg, 0.1);
+    expect(Array.from(together[0].perp, (v, j) => v + together[0].par[j])).toEqual(row(spec, 12000, 1000));
+    expect(Array.from(together[1].perp, (v, j) => v + together[1].par[j])).toEqual(row(spec, 12100, other));
+    // The node's geometry, each drop's own size: the row of the node's radius itself (every radius its own shape) at x.
+    expect(row(spec, 12000, 1000)).toEqual(row({ ...spec, deformationStep: 0 }, 12000, node));
+  }, 600_000);
+
+  it("drops on different nodes are refused in one call", () => {
+    expect(() => shapedRows(spec, [{ radiusUm: 1000, mRe: N_WATER, x: 1 }, { radiusUm: 2000, mRe: N_WATER, x: 1 }], thetaDeg, 0.1)).toThrow(RangeError);
+  });
 });
