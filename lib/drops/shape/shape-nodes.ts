@@ -2,21 +2,33 @@
 // shape, not its size (geometric optics is scale-free; only the wave parts, the Airy-type bows, scale with the size
 // parameter x: van de Hulst 1957 §12.1), and equilibrium shapes change slowly with size (Beard & Chuang 1987 Eq. 1,
 // coefficients smooth in D: Chuang & Beard 1990 Table 1). So radii are gathered on shape nodes evenly spaced in the
-// deformation 1 − q (q the axis ratio): each radius is traced with the outline of the nearest node's radius and keeps
-// its own x.
+// deformation 1 − q (q the axis ratio): each radius's row is blended from the two bracketing nodes' rows, each at the
+// radius's own x.
 
 import { equilibriumOutline, SHAPE_TABLE_MAX_DIAMETER_MM } from "./equilibrium-shape.js";
 import { outlineAxisRatio } from "./outline.js";
 
-/** 1 − axis ratio of the equilibrium drop of equal-volume radius radiusUm. */
+/** 1 − axis ratio of the equilibrium drop of equal-volume radius radiusUm (remembered: a task asks per drop and wavelength). */
 export function equilibriumDeformation(radiusUm: number): number {
-  return 1 - outlineAxisRatio(equilibriumOutline(radiusUm));
+  const known = deformations.get(radiusUm);
+  if (known !== undefined) return known;
+  const deformation = 1 - outlineAxisRatio(equilibriumOutline(radiusUm));
+  if (deformations.size > 100_000) deformations.clear();
+  deformations.set(radiusUm, deformation);
+  return deformation;
 }
+const deformations = new Map<number, number>();
 
 const MAX_RADIUS_UM = (SHAPE_TABLE_MAX_DIAMETER_MM * 1000) / 2;
 /** Node 0 (deformation 0) is a drop this small: its coefficients are 1e-9 of the 1 mm drop's, a sphere to the tracer. */
 const SMALLEST_RADIUS_UM = 0.5;
 const nodeRadii = new Map<string, number>();
+let deepestDeformation = Number.NaN;
+/** The deformation of the largest tabulated drop: no node lies beyond it. */
+function deepest(): number {
+  if (Number.isNaN(deepestDeformation)) deepestDeformation = equilibriumDeformation(MAX_RADIUS_UM);
+  return deepestDeformation;
+}
 
 /**
  * The radius of the equilibrium drop whose deformation is k·step, by the Illinois variant of false position (Press et
@@ -54,18 +66,20 @@ function nodeRadiusUm(k: number, step: number): number {
 }
 
 /**
- * The radius whose equilibrium outline an equilibrium drop of radiusUm is traced with: the node nearest in deformation
- * on a grid of `step` (0: the drop's own radius). The node's deformation is within step/2 of the drop's.
+ * The shape nodes an equilibrium drop of radiusUm is traced with and their weights: the two nodes that bracket its
+ * deformation on a grid of `step`, weighted linearly (Press et al. 2007 §3.1, Eq. 3.1.1), so that the rows of a size
+ * distribution miss the drops' own shapes by O(step²) instead of the nearest node's O(step). Step 0, a drop on a node,
+ * or beyond the last node: the drop's own shape alone.
  */
-export function shapeNodeRadiusUm(radiusUm: number, step: number): number {
-  if (!(step > 0)) return radiusUm;
-  const key = `${step}:${radiusUm}`;
-  const known = nodeOf.get(key);
-  if (known !== undefined) return known;
-  const k = Math.round(equilibriumDeformation(radiusUm) / step);
-  const node = k * step > equilibriumDeformation(MAX_RADIUS_UM) ? radiusUm : nodeRadiusUm(k, step);
-  nodeOf.set(key, node);
-  return node;
+export function shapeNodeWeights(radiusUm: number, step: number): { radiusUm: number; weight: number }[] {
+  if (!(step > 0)) return [{ radiusUm, weight: 1 }];
+  const position = equilibriumDeformation(radiusUm) / step;
+  const k = Math.floor(position);
+  const t = position - k;
+  if ((k + 1) * step > deepest()) return [{ radiusUm, weight: 1 }];
+  if (t === 0) return [{ radiusUm: nodeRadiusUm(k, step), weight: 1 }];
+  return [
+    { radiusUm: nodeRadiusUm(k, step), weight: 1 - t },
+    { radiusUm: nodeRadiusUm(k + 1, step), weight: t },
+  ];
 }
-/** Node radius per (step, radius): the service asks once per row, the radii of a request repeat. */
-const nodeOf = new Map<string, number>();

@@ -3,7 +3,7 @@ import { shapedDropRow, shapedRows, type ShapedRowSpec } from "../../../lib/bow/
 import { shapedPlaneContext, shapedPlaneRow } from "../../../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
 import { bowScatteringPlane, cantedAxis } from "../../../lib/rays/bow-geometry.js";
-import { shapeNodeRadiusUm } from "../../../lib/drops/shape/shape-nodes.js";
+import { shapeNodeWeights } from "../../../lib/drops/shape/shape-nodes.js";
 
 const thetaDeg = Float64Array.from({ length: 60 }, (_, j) => 136.05 + 0.1 * j);
 const N_WATER = 1.3337;
@@ -74,21 +74,20 @@ describe("a task's wavelengths share planes traced at a few refractive indices",
   }, 600_000);
 });
 
-describe("equilibrium drops of one shape node share its traced planes", () => {
-  const spec: ShapedRowSpec = { kind: "equilibrium", deformationStep: 0.003, cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 0, rayOnly: false };
+describe("equilibrium drops blended from shape nodes share the nodes' traced planes", () => {
+  const spec: ShapedRowSpec = { kind: "equilibrium", deformationStep: 0.005, cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 0, rayOnly: false };
 
-  it("two radii on one node, computed together, equal each alone and the node's own radius at the same x", () => {
-    const node = shapeNodeRadiusUm(1000, 0.003);
-    const other = [990, 1010].find((r) => shapeNodeRadiusUm(r, 0.003) === node)!;
-    expect(other).toBeDefined();
-    const together = shapedRows(spec, [{ radiusUm: 1000, mRe: N_WATER, x: 12000 }, { radiusUm: other, mRe: N_WATER, x: 12100 }], thetaDeg, 0.1);
-    expect(Array.from(together[0].perp, (v, j) => v + together[0].par[j])).toEqual(row(spec, 12000, 1000));
-    expect(Array.from(together[1].perp, (v, j) => v + together[1].par[j])).toEqual(row(spec, 12100, other));
-    // The node's geometry, each drop's own size: the row of the node's radius itself (every radius its own shape) at x.
-    expect(row(spec, 12000, 1000)).toEqual(row({ ...spec, deformationStep: 0 }, 12000, node));
+  it("a drop's row is the nodes' rows at its own x, weighted; drops computed together equal each alone", () => {
+    const radii = [1000, 1030];
+    const together = shapedRows(spec, radii.map((radiusUm) => ({ radiusUm, mRe: N_WATER, x: 12000 })), thetaDeg, 0.1);
+    radii.forEach((radiusUm, k) => expect(Array.from(together[k].perp, (v, j) => v + together[k].par[j])).toEqual(row(spec, 12000, radiusUm)));
+    const nodes = shapeNodeWeights(1000, 0.005);
+    expect(nodes).toHaveLength(2);
+    const own = { ...spec, deformationStep: 0 };
+    const blended = nodes.map((n) => row(own, 12000, n.radiusUm).map((v) => n.weight * v)).reduce((a, b) => a.map((v, j) => v + b[j]));
+    const mine = row(spec, 12000, 1000);
+    const peak = Math.max(...blended);
+    // The same terms summed in another order: rounding only.
+    mine.forEach((v, j) => expect(Math.abs(v - blended[j])).toBeLessThanOrEqual(1e-12 * peak));
   }, 600_000);
-
-  it("drops on different nodes are refused in one call", () => {
-    expect(() => shapedRows(spec, [{ radiusUm: 1000, mRe: N_WATER, x: 1 }, { radiusUm: 2000, mRe: N_WATER, x: 1 }], thetaDeg, 0.1)).toThrow(RangeError);
-  });
 });

@@ -1,38 +1,40 @@
 import { describe, expect, it } from "vitest";
-import { equilibriumDeformation, shapeNodeRadiusUm } from "../../../lib/drops/shape/shape-nodes.js";
+import { equilibriumDeformation, shapeNodeWeights } from "../../../lib/drops/shape/shape-nodes.js";
 
 // The radius nodes of a Marshall–Palmer 2 mm/h profile span these (150 µm to 2.4 mm, lib/drops/lattice-quadrature.ts).
 const RADII_UM = [150, 205, 305, 437, 562, 750, 1000, 1241, 1715, 2371, 4000];
 
-describe("equilibrium drops gathered on shape nodes evenly spaced in deformation", () => {
+describe("equilibrium drops blended from shape nodes evenly spaced in deformation", () => {
   it("step 0 keeps every radius its own shape", () => {
-    for (const r of RADII_UM) expect(shapeNodeRadiusUm(r, 0)).toBe(r);
+    for (const r of RADII_UM) expect(shapeNodeWeights(r, 0)).toEqual([{ radiusUm: r, weight: 1 }]);
   });
 
-  it("a drop's node is within half a step of its deformation, and lies on the grid k·step (to 1e-10)", () => {
+  it("the two nodes bracket the drop's deformation, lie on the grid k·step (to 1e-10), and their linear weights give it back", () => {
     for (const step of [0.002, 0.005]) {
       for (const r of RADII_UM) {
-        const node = shapeNodeRadiusUm(r, step);
+        const nodes = shapeNodeWeights(r, step);
         const own = equilibriumDeformation(r);
-        const nodeDef = equilibriumDeformation(node);
-        expect(Math.abs(nodeDef - own)).toBeLessThanOrEqual(step / 2 + 1e-9);
-        expect(Math.abs(nodeDef - step * Math.round(nodeDef / step))).toBeLessThanOrEqual(1e-10);
+        const defs = nodes.map((n) => equilibriumDeformation(n.radiusUm));
+        defs.forEach((d) => expect(Math.abs(d - step * Math.round(d / step))).toBeLessThanOrEqual(1e-10));
+        expect(nodes.reduce((s, n) => s + n.weight, 0)).toBeCloseTo(1, 12);
+        expect(Math.abs(nodes.reduce((s, n, k) => s + n.weight * defs[k], 0) - own)).toBeLessThanOrEqual(1e-9);
+        if (nodes.length === 2) {
+          expect(defs[0]).toBeLessThanOrEqual(own + 1e-10);
+          expect(defs[1]).toBeGreaterThanOrEqual(own - 1e-10);
+          expect(defs[1] - defs[0]).toBeCloseTo(step, 9);
+        }
       }
     }
   });
 
-  it("a node is its own node, and neighbouring small drops share one (fewer shapes than radii)", () => {
-    const step = 0.003;
-    for (const r of RADII_UM) {
-      const node = shapeNodeRadiusUm(r, step);
-      expect(shapeNodeRadiusUm(node, step)).toBe(node);
-    }
-    // Deformation grows about as D³ below 1 mm diameter (Pruppacher & Pitter 1971): 150–205 µm all lie below 0.0015.
-    expect(shapeNodeRadiusUm(150, step)).toBe(shapeNodeRadiusUm(205, step));
-    expect(shapeNodeRadiusUm(1000, step)).not.toBe(shapeNodeRadiusUm(1241, step));
+  it("radii share nodes: 60 radii from 150 µm to 2.4 mm (deformation up to 0.28) need at most 0.28 / 0.02 + 1 nodes of step 0.02", () => {
+    const radii = Array.from({ length: 60 }, (_, i) => 150 * 1.048 ** i);
+    const shapes = new Set(radii.flatMap((r) => shapeNodeWeights(r, 0.02).map((n) => n.radiusUm)));
+    expect(equilibriumDeformation(radii[59])).toBeLessThan(0.3);
+    expect(shapes.size).toBeLessThanOrEqual(16);
   });
 
-  it("deformation grows with radius over the table's range (what the nodes' bisection relies on)", () => {
+  it("deformation grows with radius over the table's range (what the nodes' root search relies on)", () => {
     let last = -1;
     for (let r = 50; r <= 4500; r += 50) {
       const d = equilibriumDeformation(r);
