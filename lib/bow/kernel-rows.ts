@@ -8,7 +8,7 @@ import { dropRow, dropRowContext, type CellAverage } from "./drop-rows.js";
 import { mieLatticeRows } from "./mie-lattice-rows.js";
 import type { MieSampling } from "./mie-sub-lattice.js";
 import type { DropMedium } from "../water/drop-medium.js";
-import { shapedRowKey, shapedRows, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
+import { shapeGroupKey, shapedRows, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
 import { orderVariant } from "./scattering-orders.js";
 
 export interface KernelRowsInput {
@@ -113,13 +113,13 @@ function waveNumberPerM(medium: DropMedium): number {
 
 /**
  * The flattened drops' rows, by item index: items of one shape (shapedRows: a spheroid at any radius, equilibrium
- * drops per radius) are computed together, at their own wavelengths, so that each scattering plane is traced once.
+ * drops per shape node) are computed together, at their own wavelengths, so that each scattering plane is traced once.
  */
 function shapedItemRows(items: KernelRowsInput["items"], medium: DropMedium, thetaDeg: Float64Array, h: number): Map<number, { perp: Float64Array; par: Float64Array }> {
   const groups = new Map<string, number[]>();
   items.forEach((item, index) => {
     if (!item.shape) return;
-    const key = item.shape.kind === "spheroid" ? shapedRowKey(item.shape) : `${shapedRowKey(item.shape)}|${item.radiusUm}`;
+    const key = shapeGroupKey(item.shape, item.radiusUm);
     const group = groups.get(key) ?? [];
     group.push(index);
     groups.set(key, group);

@@ -4,6 +4,7 @@
 import { cantingNodesFive } from "../drops/shape/canting.js";
 import { equilibriumOutline } from "../drops/shape/equilibrium-shape.js";
 import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
+import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
 import { chebyshevNodes, interpolateSweep } from "../rays/sweep-interpolation.js";
 import { contextFromSweeps, shapedPlaneRow, shapedPlaneSweeps, shapedPlaneTracer } from "./shaped-plane-rows.js";
@@ -28,6 +29,13 @@ export interface ShapedRowSpec {
   kind: "equilibrium" | "spheroid";
   /** Spheroids only: vertical over horizontal axis. */
   axisRatio?: number;
+  /**
+   * Equilibrium only: each radius's row is blended from the rows, at its own size, of the two shape nodes this far
+   * apart in deformation 1 − q that bracket its shape (lib/drops/shape/shape-nodes.ts), so that radii share traced
+   * planes; 0 or absent (what the service asks for: the colour this costs is measured in BENCHMARKS.md, shape-nodes):
+   * every radius its own shape.
+   */
+  deformationStep?: number;
   cantingSdDeg: number;
   sunElevationDeg: number;
   arcPositionDeg: number;
@@ -46,13 +54,14 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 /**
  * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (3: a task's
  * wavelengths share planes traced at INDEX_NODES indices; 2: bow pairs read off the sweep, rows move by ≤ 2e-3
- * relative), so that only these rows are recomputed, not every kernel row.
+ * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
+ * the step in their key.
  */
 export const SHAPED_ENGINE_VERSION = 3;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
-  const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : "eq";
+  const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : spec.deformationStep ? `eq${spec.deformationStep}` : "eq";
   return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}`;
 }
 
@@ -63,6 +72,20 @@ export function shapedVariant(variant: string, shape: ShapedRowSpec | undefined)
 
 export function outlineFor(spec: Pick<ShapedRowSpec, "kind" | "axisRatio">, radiusUm: number): DropOutline {
   return spec.kind === "spheroid" ? spheroidOutline(spec.axisRatio!) : equilibriumOutline(radiusUm);
+}
+
+/**
+ * Which drops share traced planes (one kernel task, one shapedRows call): a spheroid's at every radius, equilibrium
+ * drops of one radius, or all of them when they are traced on shape nodes (neighbouring radii share nodes).
+ */
+export function shapeGroupKey(spec: ShapedRowSpec, radiusUm: number): string {
+  if (spec.kind === "spheroid") return shapedRowKey(spec);
+  return spec.deformationStep ? `${shapedRowKey(spec)}|nodes` : `${shapedRowKey(spec)}|${radiusUm}`;
+}
+
+/** The shapes (by the radius whose outline they are; a spheroid's: 0) a drop's row is made of, and their weights. */
+function shapesOf(spec: ShapedRowSpec, radiusUm: number): { radiusUm: number; weight: number }[] {
+  return spec.kind === "spheroid" ? [{ radiusUm: 0, weight: 1 }] : shapeNodeWeights(radiusUm, spec.deformationStep ?? 0);
 }
 
 /**
@@ -96,46 +119,50 @@ export interface ShapedDrop {
 }
 
 /**
- * The canting mean of |S1|², |S2|² for drops of one shape (a spheroid's fixed axis ratio, or equilibrium drops of
- * one radius) at any wavelengths, on bins of width stepDeg centred on thetaDeg (ascending, uniform). Each scattering
- * plane is traced once per shape and canting node: at each distinct index when there are at most INDEX_NODES of
+ * The canting mean of |S1|², |S2|² for flattened drops (a spheroid's fixed axis ratio, or equilibrium drops, each its
+ * own shape or blended from shape nodes: ShapedRowSpec.deformationStep) at any wavelengths, on bins of width stepDeg
+ * centred on thetaDeg (ascending, uniform). Each scattering plane is traced once per shape and canting node: at each distinct index when there are at most INDEX_NODES of
  * them, else at INDEX_NODES Chebyshev nodes across their range, the sweeps at the other indices interpolated from
  * those. Everything then scales with x (shapedPlaneRow), so drops of one shape and index share one context.
  */
 export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number): { perp: Float64Array; par: Float64Array }[] {
-  if (spec.kind === "equilibrium" && drops.some((d) => d.radiusUm !== drops[0].radiusUm)) {
-    throw new RangeError("equilibrium drops of different radii are different shapes: one call per radius");
-  }
   const out = drops.map(() => ({ perp: new Float64Array(thetaDeg.length), par: new Float64Array(thetaDeg.length) }));
   if (drops.length === 0) return out;
-  const outline = outlineFor(spec, drops[0].radiusUm);
+  // Each drop's shapes and weights; then each shape is traced once, for every drop that uses it.
+  const uses = drops.map((drop) => shapesOf(spec, drop.radiusUm));
+  const shapes = [...new Set(uses.flatMap((u) => u.map((s) => s.radiusUm)))].sort((a, b) => a - b);
   const plane = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
   const options = spec.rayOnly ? { rayOrders: [0, 1, 2, 3], bowOrders: [] } : {};
-  const indices = [...new Set(drops.map((d) => d.mRe))].sort((a, b) => a - b);
-  const interpolate = indices.length > INDEX_NODES;
-  const traced = interpolate ? chebyshevNodes(indices[0], indices[indices.length - 1], INDEX_NODES) : indices;
   // Samples whose light lands more than NEAR_MARGIN_DEG to one side of the grid at every traced index are never traced again.
   const near = { loRad: (thetaDeg[0] - stepDeg / 2 - NEAR_MARGIN_DEG) * DEG, hiRad: (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + NEAR_MARGIN_DEG) * DEG };
   const rowPerp = new Float64Array(thetaDeg.length);
   const rowPar = new Float64Array(thetaDeg.length);
-  for (const node of cantingNodesFive(spec.cantingSdDeg)) {
-    const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
-    // One canting node's sweeps at a time: memory stays at INDEX_NODES planes' sweeps (~10 MB), whatever the task.
-    const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
-    for (const mRe of indices) {
-      const tracer = interpolate ? shapedPlaneTracer({ outline, axis, n: mRe }, plane, options) : null;
-      const at = interpolate
-        ? sweeps[0].map((_, p) => (sweeps[0][p] ? interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer!, near).sweep : null))
-        : sweeps[traced.indexOf(mRe)];
-      const ctx = contextFromSweeps(mRe, at, 1, thetaDeg, stepDeg, options);
-      drops.forEach((drop, d) => {
-        if (drop.mRe !== mRe) return;
-        shapedPlaneRow(ctx, drop.x, rowPerp, rowPar);
-        for (let j = 0; j < rowPerp.length; j++) {
-          out[d].perp[j] += node.weight * rowPerp[j];
-          out[d].par[j] += node.weight * rowPar[j];
+  for (const shapeRadiusUm of shapes) {
+    const outline = outlineFor(spec, shapeRadiusUm);
+    const users = drops.flatMap((drop, d) => uses[d].filter((s) => s.radiusUm === shapeRadiusUm).map((s) => ({ drop, d, weight: s.weight })));
+    const indices = [...new Set(users.map((u) => u.drop.mRe))].sort((a, b) => a - b);
+    const interpolate = indices.length > INDEX_NODES;
+    const traced = interpolate ? chebyshevNodes(indices[0], indices[indices.length - 1], INDEX_NODES) : indices;
+    for (const node of cantingNodesFive(spec.cantingSdDeg)) {
+      const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
+      // One canting node's sweeps at a time: memory stays at INDEX_NODES planes' sweeps (~10 MB), whatever the task.
+      const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
+      for (const mRe of indices) {
+        const tracer = interpolate ? shapedPlaneTracer({ outline, axis, n: mRe }, plane, options) : null;
+        const at = interpolate
+          ? sweeps[0].map((_, p) => (sweeps[0][p] ? interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer!, near).sweep : null))
+          : sweeps[traced.indexOf(mRe)];
+        const ctx = contextFromSweeps(mRe, at, 1, thetaDeg, stepDeg, options);
+        for (const { drop, d, weight } of users) {
+          if (drop.mRe !== mRe) continue;
+          shapedPlaneRow(ctx, drop.x, rowPerp, rowPar);
+          const w = node.weight * weight;
+          for (let j = 0; j < rowPerp.length; j++) {
+            out[d].perp[j] += w * rowPerp[j];
+            out[d].par[j] += w * rowPar[j];
+          }
         }
-      });
+      }
     }
   }
   return out;

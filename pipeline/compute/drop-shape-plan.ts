@@ -35,7 +35,8 @@ const ACCURACY =
 const DEFAULT_NOTE =
   "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (5 traced + 41 interpolated) scattering planes, 1,500 traced at about 0.17 s of CPU each and 12,300 interpolated across the refractive index at about 0.02 s, projected at about 4½ minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
 
-export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array): ShapePlan {
+/** deformationStep: equilibrium drops blended from shape nodes (ShapedRowSpec.deformationStep; studies only). */
+export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, deformationStep?: number): ShapePlan {
   const shape = request.drops.shape ?? { kind: "sphere" as const };
   if (shape.kind === "sphere") {
     const meta: ShapeMeta = { model: "sphere", default: DEFAULT_NOTE };
@@ -48,6 +49,7 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array): 
   const spec = quantiseSpec({
     kind: shape.kind,
     axisRatio: shape.kind === "spheroid" ? shape.axisRatio : undefined,
+    ...(shape.kind === "equilibrium" && deformationStep ? { deformationStep } : {}),
     cantingSdDeg: shape.cantingSdDeg,
     sunElevationDeg: request.sun.elevationDeg,
     arcPositionDeg,

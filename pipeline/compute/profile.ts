@@ -137,6 +137,11 @@ export interface ProfileResolution {
   autoMieBudgetTermAngles?: number;
   /** auto's AUTO_MAX_AIRY_SHARE; answers whose rows share the budget set 1, or the share rule multiplies their cost. */
   autoMaxAiryShare?: number;
+  /**
+   * Equilibrium drops blended from shape nodes this far apart in deformation (ShapedRowSpec.deformationStep); the
+   * service leaves it out (each radius its own shape): bench/shape-nodes.ts measures what the nodes cost in colour.
+   */
+  deformationStep?: number;
 }
 
 /**
@@ -227,7 +232,7 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
       `drops above ${quadrature.maxRadiusUm} µm radius (${(100 * quadrature.crossSectionFractionAboveCap).toFixed(1)} % of the cross-section) are left out: such drops break up in nature`,
     );
   }
-  const shapePlan = planDropShapes(request, quadrature.radiiUm);
+  const shapePlan = planDropShapes(request, quadrature.radiiUm, resolution.deformationStep);
   // The warnings about the sphere model are moot where flattened drops are modelled.
   if (shapePlan.flattened) {
     warnings.push(...shapePlan.warnings);

@@ -13,7 +13,7 @@ import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
-import { shapedRowKey, shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import { shapeGroupKey, shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import { orderVariant } from "../../lib/bow/scattering-orders.js";
 import type { MieSampling } from "../../lib/bow/mie-sub-lattice.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
@@ -119,13 +119,6 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
   return merged;
 }
 
-/**
- * Which rows of flattened drops share a task: one shape (a spheroid's rows at every radius; equilibrium drops, whose
- * shape changes with size, one radius) and one chunk of wavelengths.
- */
-function shapedTaskKey(shape: ShapedRowSpec, radiusUm: number): string {
-  return shape.kind === "spheroid" ? shapedRowKey(shape) : `${shapedRowKey(shape)}|${radiusUm}`;
-}
 
 /** The chunk of wavelengths (of `chunks` contiguous ones) that wavelength l belongs to; each traces its own indices. */
 function shapedChunk(l: number, wavelengths: number, chunks: number): number {
@@ -262,7 +255,7 @@ export class KernelService {
     // Rows to compute, grouped into tasks: task key → "l:i" → the row's wavelength, radius and blocks.
     const toCompute = new Map<string, Map<string, { l: number; i: number; bis: number[] }>>();
     // Flattened drops' tasks: one per shape, split by wavelength only where there are fewer shapes than threads.
-    const shapesMissing = new Set(missing.flatMap(([, i]) => (shapes[i] ? [shapedTaskKey(shapes[i]!, radiiUm[i])] : [])));
+    const shapesMissing = new Set(missing.flatMap(([, i]) => (shapes[i] ? [shapeGroupKey(shapes[i]!, radiiUm[i])] : [])));
     const chunks = Math.min(media.length, Math.ceil(this.parallelism / Math.max(1, shapesMissing.size)));
     for (const [l, i, bi] of missing) {
       const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
@@ -275,7 +268,7 @@ export class KernelService {
         );
         continue;
       }
-      const taskKey = shapes[i] ? `shape|${shapedTaskKey(shapes[i]!, radiiUm[i])}|${shapedChunk(l, media.length, chunks)}` : `l${l}`;
+      const taskKey = shapes[i] ? `shape|${shapeGroupKey(shapes[i]!, radiiUm[i])}|${shapedChunk(l, media.length, chunks)}` : `l${l}`;
       let rowsOfTask = toCompute.get(taskKey);
       if (!rowsOfTask) toCompute.set(taskKey, (rowsOfTask = new Map()));
       let entry = rowsOfTask.get(`${l}:${i}`);

@@ -3,6 +3,7 @@ import { shapedDropRow, shapedRows, type ShapedRowSpec } from "../../../lib/bow/
 import { shapedPlaneContext, shapedPlaneRow } from "../../../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
 import { bowScatteringPlane, cantedAxis } from "../../../lib/rays/bow-geometry.js";
+import { shapeNodeWeights } from "../../../lib/drops/shape/shape-nodes.js";
 
 const thetaDeg = Float64Array.from({ length: 60 }, (_, j) => 136.05 + 0.1 * j);
 const N_WATER = 1.3337;
@@ -70,5 +71,23 @@ describe("a task's wavelengths share planes traced at a few refractive indices",
     // Measured: 6e-13 of the peak (5 Chebyshev nodes over Δn = 0.008: Lagrange's error ~ (Δn/2)⁵·f⁽⁵⁾/(2⁴·5!), and
     // the samples it does not trust are traced at n). Bound: 1e-6, far below the sphere limit's 1e-3.
     expect(worst).toBeLessThanOrEqual(1e-6);
+  }, 600_000);
+});
+
+describe("equilibrium drops blended from shape nodes share the nodes' traced planes", () => {
+  const spec: ShapedRowSpec = { kind: "equilibrium", deformationStep: 0.005, cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 0, rayOnly: false };
+
+  it("a drop's row is the nodes' rows at its own x, weighted; drops computed together equal each alone", () => {
+    const radii = [1000, 1030];
+    const together = shapedRows(spec, radii.map((radiusUm) => ({ radiusUm, mRe: N_WATER, x: 12000 })), thetaDeg, 0.1);
+    radii.forEach((radiusUm, k) => expect(Array.from(together[k].perp, (v, j) => v + together[k].par[j])).toEqual(row(spec, 12000, radiusUm)));
+    const nodes = shapeNodeWeights(1000, 0.005);
+    expect(nodes).toHaveLength(2);
+    const own = { ...spec, deformationStep: 0 };
+    const blended = nodes.map((n) => row(own, 12000, n.radiusUm).map((v) => n.weight * v)).reduce((a, b) => a.map((v, j) => v + b[j]));
+    const mine = row(spec, 12000, 1000);
+    const peak = Math.max(...blended);
+    // The same terms summed in another order: rounding only.
+    mine.forEach((v, j) => expect(Math.abs(v - blended[j])).toBeLessThanOrEqual(1e-12 * peak));
   }, 600_000);
 });
