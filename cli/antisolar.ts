@@ -127,7 +127,7 @@ async function render(input: string | undefined, values: CliValues): Promise<voi
     await writeFile(output, file.body);
     // The images carry the bows in a header, the JSON in its body.
     const bows: Bows = format === "json" ? (JSON.parse(file.body.toString("utf8")) as ProfileResponse).bows : (JSON.parse(file.headers["x-antisolar-bows"]) as Bows);
-    console.log(`wrote ${output}: primary ${bows.primaryDeg ?? "none"}°, secondary ${bows.secondaryDeg ?? "none"}°`);
+    console.log(`wrote ${output}: primary ${bowAngleText(bows.primaryDeg)}, secondary ${bowAngleText(bows.secondaryDeg)}`);
   });
 }
 
@@ -174,3 +174,8 @@ main().catch((error: unknown) => {
   else console.error(`antisolar: ${error instanceof Error ? error.message : String(error)}`);
   process.exitCode = 1;
 });
+
+/** A bow's angle for the summary line, or "none" where the profile has no such bow. */
+function bowAngleText(angleDeg: number | null | undefined): string {
+  return angleDeg === null || angleDeg === undefined ? "none" : `${angleDeg}°`;
+}
