@@ -70,7 +70,7 @@ export function dropRowContext(
   return {
     mRe: n,
     mIm: medium.mIm,
-    waveNumberPerM: (2 * Math.PI * medium.nAir) / (medium.wavelengthNm * 1e-9),
+    waveNumberPerM: waveNumberPerM(medium),
     thetaDeg,
     cosTheta: thetaDeg.map((t) => Math.cos((t * Math.PI) / 180)),
     amplitudes: allocateAmplitudes(thetaDeg.length),
@@ -176,4 +176,9 @@ function addScaled(perp: Float64Array, par: Float64Array, rays: RayBins, factor:
     perp[j] += factor * rays.perpendicular[j];
     par[j] += factor * rays.parallel[j];
   }
+}
+
+/** k = 2π·n_air/λ, per metre: the wave number in the air around the drop, from which x = k·r. */
+export function waveNumberPerM(medium: DropMedium): number {
+  return (2 * Math.PI * medium.nAir) / (medium.wavelengthNm * 1e-9);
 }

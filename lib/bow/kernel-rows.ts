@@ -4,7 +4,7 @@
 import type { DropEngine } from "./volume-scattering.js";
 import { blockRange } from "./kernel-grid.js";
 import { rowVariant } from "./cell-average.js";
-import { dropRow, dropRowContext, type CellAverage } from "./drop-rows.js";
+import { dropRow, dropRowContext, waveNumberPerM, type CellAverage } from "./drop-rows.js";
 import { mieLatticeRows } from "./mie-lattice-rows.js";
 import type { MieSampling } from "./mie-sub-lattice.js";
 import type { DropMedium } from "../water/drop-medium.js";
@@ -104,11 +104,6 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
     });
   });
   return { rows, mieTermAngles };
-}
-
-/** k = 2π·n_air/λ, per metre: the wave number in the air around the drop (as drop-rows.ts's context has it). */
-function waveNumberPerM(medium: DropMedium): number {
-  return (2 * Math.PI * medium.nAir) / (medium.wavelengthNm * 1e-9);
 }
 
 /**
