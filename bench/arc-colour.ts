@@ -100,14 +100,18 @@ export async function benchArcColour(): Promise<{ rows: ArcColourRow[]; seconds:
       add(`sun ${SUN_DEG}° rounded from ${SUN_DEG + SUN_ELEVATION_STEP_DEG / 2}° (half a ${SUN_ELEVATION_STEP_DEG}° step)`, mean(xyzBase, sunStep), xyzBase, angles);
       const arcStep = xyzOf(await profile(ARC_DEG + ARC_POSITION_STEP_DEG));
       add(`arc ${ARC_DEG}° rounded from ${ARC_DEG + ARC_POSITION_STEP_DEG / 2}° (half a ${ARC_POSITION_STEP_DEG}° step)`, mean(xyzBase, arcStep), xyzBase, angles);
-      const nodes: [number, number] = [ARC_DEG - ARC_NODE_STEP_DEG, ARC_DEG];
+      // The views' node spacing and half of it, nodes either side of the same arc position.
       const mid = ARC_DEG - ARC_NODE_STEP_DEG / 2;
-      const first = await profile(nodes[0]);
       const truth = xyzOf(await profile(mid));
-      const slices = [colours(first, xyzOf(first)), colours(base, xyzBase)];
-      add(`blend of arc ${nodes[0]}° and ${nodes[1]}° at ${mid}°, peaks aligned (as views draw)`, truth, blendAt(nodes, slices, [first.bows, base.bows], mid), angles);
-      const none = { primaryDeg: null, secondaryDeg: null };
-      add(`blend of arc ${nodes[0]}° and ${nodes[1]}° at ${mid}°, plain`, truth, blendAt(nodes, slices, [none, none], mid), angles);
+      for (const spacing of [ARC_NODE_STEP_DEG, ARC_NODE_STEP_DEG / 2]) {
+        const nodes: [number, number] = [mid - spacing / 2, mid + spacing / 2];
+        const ends = [nodes[0] === ARC_DEG ? base : await profile(nodes[0]), nodes[1] === ARC_DEG ? base : await profile(nodes[1])];
+        const slices = ends.map((r) => colours(r, xyzOf(r)));
+        const what = `blend of arc ${nodes[0]}° and ${nodes[1]}° (${spacing}° apart) at ${mid}°`;
+        add(`${what}, peaks aligned (as views draw)`, truth, blendAt(nodes, slices, [ends[0].bows, ends[1].bows], mid), angles);
+        const none = { primaryDeg: null, secondaryDeg: null };
+        add(`${what}, plain`, truth, blendAt(nodes, slices, [none, none], mid), angles);
+      }
     }
   } finally {
     await pool.close();
@@ -127,7 +131,7 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
       `bows than the default 7.5°), ${NODES_PER_DECADE} radius nodes per decade, 380–780 nm every 20 nm, ψ 36–56° at 0.05°, sun ${SUN_DEG}° with CIE D65 light (a spectrum at the ground, whose colour does not follow the elevation: only the rows do). CIEDE2000 per`,
       "angle on XYZ scaled by the reference's peak Y. Rounding rows: a request half a step away is served the lattice point's",
       "rows; the truth there is taken as the mean of the two neighbouring lattice points' spectra. Blend rows: the views' blend",
-      `of two arc nodes ${ARC_NODE_STEP_DEG}° apart, half-way between them, against the profile computed there.`,
+      `of two arc nodes ${ARC_NODE_STEP_DEG}° apart (the views' spacing) and half that, half-way between them, against the profile computed there.`,
       "",
       "| shower | comparison | worst ΔE2000 | at ψ (°) | mean ΔE2000 |",
       "|---|---|---|---|---|",

@@ -6,7 +6,7 @@
 //   service draws "equilibrium" drops as spheres, so there the shape is a spheroid of the equilibrium axis ratio.
 //   The sphere goes through the same engine (a spheroid of axis ratio 1, which reproduces the sphere engine's
 //   Airy/ray rows: test/lib/rays/shaped-drops.test.ts), so the figure is the shape's effect, not the engines'.
-// - the cache's rounding steps: profiles one step apart in sun elevation (0.25°) and in arc position (0.5°), at
+// - the cache's rounding steps: profiles one step apart in sun elevation and in arc position (SUN_ELEVATION_STEP_DEG, ARC_POSITION_STEP_DEG), at
 //   arc 45° (where the fold angles move fastest with arc position) for 1 mm drops. A request is rounded by at most half
 //   a step, and for such small steps the colour changes in proportion, so the rounding costs about half the figure.
 // node dist/bench/shape-colour.js [--write]   (--write: the shape-colour section of BENCHMARKS.md)

@@ -20,11 +20,15 @@ export const EQUILIBRIUM_NOTE =
  * on 2 mm drops (axis ratio 0.93, sun 10°): the fold angles move by 0.22° per degree of arc position at arc 45°
  * (most) and by 0.24° per degree of sun elevation, so half a step moves them by at most 0.055° and 0.03°. In colour
  * (bench/shape-colour.ts, BENCHMARKS.md): one step moves a profile of 2 mm drops at arc 45° by ΔE2000 up to 15 (sun)
- * and 29 (arc) at the bow's sharp edge, 1.1 and 1.9 on average: half a step is then ~7 and ~14 at worst, so a
- * worst of 0.5 would need steps 15–30× finer (the mean, ~2×).
+ * and 29 (arc) at the bow's sharp edge, 1.1 and 1.9 on average (single sizes). On a shower (Marshall–Palmer 2 mm/h,
+ * equilibrium shapes, no canting, D65 light: bench/arc-colour.ts, BENCHMARKS.md arc-colour) half a step costs ΔE2000
+ * 0.20 worst, 0.05 mean for the sun's 0.25°, but 1.33 worst, 0.18 mean for an arc step of 0.5°: the arc step is 0.125°
+ * (half a step then about 1.33/4 ≈ 0.33 worst, as the error goes with the step). It costs no work: a request's rows are
+ * one arc position's either way, and views take theirs at nodes 5° apart (pipeline/compute/arc-nodes.ts), on the
+ * lattice; profile requests share rows only within 0.0625° of arc position instead of 0.25°.
  */
 export const SUN_ELEVATION_STEP_DEG = 0.25;
-export const ARC_POSITION_STEP_DEG = 0.5;
+export const ARC_POSITION_STEP_DEG = 0.125;
 
 export interface ShapedRowSpec {
   kind: "equilibrium" | "spheroid";

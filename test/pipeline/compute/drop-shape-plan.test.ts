@@ -14,7 +14,7 @@ describe("which drops are flattened, where on the bow, and at what cost", () => 
     });
     const plan = planDropShapes(request, radii);
     expect(plan.shapes.map((s) => s !== undefined)).toEqual([false, false, true, true, true, true]);
-    expect(plan.shapes[2]).toMatchObject({ kind: "equilibrium", arcPositionDeg: 33.5, sunElevationDeg: 12.5, cantingSdDeg: 7.5, rayOnly: false });
+    expect(plan.shapes[2]).toMatchObject({ kind: "equilibrium", arcPositionDeg: 33.25, sunElevationDeg: 12.5, cantingSdDeg: 7.5, rayOnly: false });
     expect(plan.meta.flattenedRadii).toMatchObject({ fromUm: 150, toUm: 2500, nodes: 4 });
     // Axis ratios of the model at 0.3 mm and 5 mm diameter (Beard & Chuang 1987 Table 1: 0.708 at 5 mm).
     expect(plan.meta.flattenedRadii!.axisRatioFrom).toBeGreaterThan(0.999);
