@@ -125,7 +125,8 @@ function runBatch(
   m.fill(0, cosAt + nAngles, stateAt);
   for (let call = 0; call < calls; call++) {
     const firstBlock = BLOCKS * call;
-    const nBlocks = Math.min(BLOCKS, blocks - firstBlock);
+    // The kernel takes blocks in pairs: an odd last block gets a neighbour of padding (μ = 0), computed and not read.
+    const nBlocks = Math.min(BLOCKS, 2 * Math.ceil((blocks - firstBlock) / 2));
     // A few blocks per call: V8 swaps its optimised code in between calls (see simd-amplitudes.ts).
     k.run(8 * ordersAt, nMax, 8 * dropsAt, batch.length, 8 * (cosAt + ANGLES_PER_BLOCK * firstBlock), nBlocks, 8 * stateAt, 8 * tableAt, 8 * sumsAt);
     const first = ANGLES_PER_BLOCK * firstBlock;

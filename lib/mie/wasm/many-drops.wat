@@ -1,7 +1,7 @@
-;; S1 ± S2 of many drops at once over a group of up to BLOCKS blocks of 4 angles (2 f64x2 vectors each), for
-;; lib/mie/many-drops.ts. The angular functions depend on the angle only: π_n ± τ_n are computed once per block and
+;; S1 ± S2 of many drops at once over a group of up to BLOCKS blocks of 4 angles (2 f64x2 vectors each; nBlocks
+;; even, the sums take blocks in pairs), for lib/mie/many-drops.ts. The angular functions depend on the angle only: π_n ± τ_n are computed once per block and
 ;; chunk of orders into a table, then every drop's sums Σ w(a±b)(π±τ) read that table (a dense product: each loaded
-;; table value serves the drop's 4 complex coefficients, each coefficient 4 angles). A drop's chunk of coefficients
+;; table value serves two of the drop's 4 coefficients, each coefficient 8 angles). A drop's chunk of coefficients
 ;; then serves every block of the group while it is in the first-level cache: a profile task's coefficients (up to
 ;; 24 MiB) are read from memory once per group of angles rather than once per block of 4. Per drop and angle the
 ;; sums run over n in the same order and with the same operations as lib/mie/wasm/amplitudes.wat and
@@ -26,10 +26,12 @@
     (local $i0 i32) (local $i1 i32) (local $e i32) (local $d i32) (local $g i32) (local $row i32) (local $k i32)
     (local $k0 i32) (local $kEnd i32) (local $tp i32) (local $o i32) (local $st i32)
     (local $f v128) (local $n v128) (local $s v128) (local $t v128) (local $tau v128)
-    (local $sr v128) (local $si v128) (local $dr v128) (local $di v128) (local $pp v128) (local $pm v128)
+    (local $cr v128) (local $ci v128) (local $p v128)
     ;; for q in 0..1
-    (local $mu{q} v128) (local $prev{q} v128) (local $cur{q} v128)
-    (local $pr{q} v128) (local $pi{q} v128) (local $mr{q} v128) (local $mi{q} v128)
+    (local $mu{q} v128) (local $prev{q} v128) (local $cur{q} v128) (local $kEnd{q} i32) (local $tp{q} i32)
+    ;; end for
+    ;; for v in 0..3
+    (local $re{v} v128) (local $im{v} v128)
     ;; end for
     ;; The recurrence state lives in memory between chunks, so that no register holds it through the drop loop.
     (loop $init
@@ -94,39 +96,59 @@
               (local.set $kEnd (i32.add (i32.load (local.get $row)) (i32.mul (local.get $e) (i32.const 48))))
               (local.set $g (i32.const 0))
               (loop $blockSums
-                (local.set $k (local.get $k0))
                 (local.set $tp (i32.add (local.get $table) (i32.mul (local.get $g) (i32.const {64*CHUNK}))))
                 (local.set $o (i32.add (local.get $sums)
                   (i32.shl (i32.add (i32.mul (local.get $d) (local.get $nBlocks)) (local.get $g)) (i32.const 7))))
-                ;; for q in 0..1
-                (local.set $pr{q} (v128.load offset={64*q} align=8 (local.get $o)))
-                (local.set $pi{q} (v128.load offset={64*q+16} align=8 (local.get $o)))
-                (local.set $mr{q} (v128.load offset={64*q+32} align=8 (local.get $o)))
-                (local.set $mi{q} (v128.load offset={64*q+48} align=8 (local.get $o)))
+                ;; Blocks g and g + 1 (4 vectors v: block g + (v >> 1), vector v & 1): S₊ = Σ w(a+b)(π+τ) (loop
+                ;; $term0), then S₋ = Σ w(a−b)(π−τ) ($term1), each in a loop of its own. 8 sums on independent chains
+                ;; keep the adders busy (4 waited on the adder's latency), and with 2 coefficients and the table
+                ;; vectors they fit x64's 16 vector registers (all 16 sums in one loop pushed some to the stack, a
+                ;; store and a load on their chains every order).
+                (local.set $k (i32.add (local.get $k0) (i32.const 0)))
+                (local.set $kEnd0 (i32.add (local.get $kEnd) (i32.const 0)))
+                (local.set $tp0 (i32.add (local.get $tp) (i32.const 0)))
+                ;; for v in 0..3
+                (local.set $re{v} (v128.load offset={128*(v>>1)+64*(v&1)+0} align=8 (local.get $o)))
+                (local.set $im{v} (v128.load offset={128*(v>>1)+64*(v&1)+16} align=8 (local.get $o)))
                 ;; end for
-                (loop $term
-                  (local.set $sr (v128.load64_splat offset=0 align=8 (local.get $k)))
-                  (local.set $si (v128.load64_splat offset=8 align=8 (local.get $k)))
-                  (local.set $dr (v128.load64_splat offset=16 align=8 (local.get $k)))
-                  (local.set $di (v128.load64_splat offset=24 align=8 (local.get $k)))
-                  ;; for q in 0..1
-                  (local.set $pp (v128.load offset={16*q} align=8 (local.get $tp)))
-                  (local.set $pm (v128.load offset={32+16*q} align=8 (local.get $tp)))
-                  (local.set $pr{q} (madd (local.get $sr) (local.get $pp) (local.get $pr{q})))
-                  (local.set $pi{q} (madd (local.get $si) (local.get $pp) (local.get $pi{q})))
-                  (local.set $mr{q} (madd (local.get $dr) (local.get $pm) (local.get $mr{q})))
-                  (local.set $mi{q} (madd (local.get $di) (local.get $pm) (local.get $mi{q})))
+                (loop $term0
+                  (local.set $cr (v128.load64_splat offset=0 align=8 (local.get $k)))
+                  (local.set $ci (v128.load64_splat offset=8 align=8 (local.get $k)))
+                  ;; for v in 0..3
+                  (local.set $p (v128.load offset={64*CHUNK*(v>>1)+16*(v&1)} align=8 (local.get $tp0)))
+                  (local.set $re{v} (madd (local.get $cr) (local.get $p) (local.get $re{v})))
+                  (local.set $im{v} (madd (local.get $ci) (local.get $p) (local.get $im{v})))
                   ;; end for
-                  (local.set $tp (i32.add (local.get $tp) (i32.const 64)))
+                  (local.set $tp0 (i32.add (local.get $tp0) (i32.const 64)))
                   (local.set $k (i32.add (local.get $k) (i32.const 48)))
-                  (br_if $term (i32.lt_u (local.get $k) (local.get $kEnd))))
-                ;; for q in 0..1
-                (v128.store offset={64*q} align=8 (local.get $o) (local.get $pr{q}))
-                (v128.store offset={64*q+16} align=8 (local.get $o) (local.get $pi{q}))
-                (v128.store offset={64*q+32} align=8 (local.get $o) (local.get $mr{q}))
-                (v128.store offset={64*q+48} align=8 (local.get $o) (local.get $mi{q}))
+                  (br_if $term0 (i32.lt_u (local.get $k) (local.get $kEnd0))))
+                ;; for v in 0..3
+                (v128.store offset={128*(v>>1)+64*(v&1)+0} align=8 (local.get $o) (local.get $re{v}))
+                (v128.store offset={128*(v>>1)+64*(v&1)+16} align=8 (local.get $o) (local.get $im{v}))
                 ;; end for
-                (local.set $g (i32.add (local.get $g) (i32.const 1)))
+                (local.set $k (i32.add (local.get $k0) (i32.const 16)))
+                (local.set $kEnd1 (i32.add (local.get $kEnd) (i32.const 16)))
+                (local.set $tp1 (i32.add (local.get $tp) (i32.const 32)))
+                ;; for v in 0..3
+                (local.set $re{v} (v128.load offset={128*(v>>1)+64*(v&1)+32} align=8 (local.get $o)))
+                (local.set $im{v} (v128.load offset={128*(v>>1)+64*(v&1)+48} align=8 (local.get $o)))
+                ;; end for
+                (loop $term1
+                  (local.set $cr (v128.load64_splat offset=0 align=8 (local.get $k)))
+                  (local.set $ci (v128.load64_splat offset=8 align=8 (local.get $k)))
+                  ;; for v in 0..3
+                  (local.set $p (v128.load offset={64*CHUNK*(v>>1)+16*(v&1)} align=8 (local.get $tp1)))
+                  (local.set $re{v} (madd (local.get $cr) (local.get $p) (local.get $re{v})))
+                  (local.set $im{v} (madd (local.get $ci) (local.get $p) (local.get $im{v})))
+                  ;; end for
+                  (local.set $tp1 (i32.add (local.get $tp1) (i32.const 64)))
+                  (local.set $k (i32.add (local.get $k) (i32.const 48)))
+                  (br_if $term1 (i32.lt_u (local.get $k) (local.get $kEnd1))))
+                ;; for v in 0..3
+                (v128.store offset={128*(v>>1)+64*(v&1)+32} align=8 (local.get $o) (local.get $re{v}))
+                (v128.store offset={128*(v>>1)+64*(v&1)+48} align=8 (local.get $o) (local.get $im{v}))
+                ;; end for
+                (local.set $g (i32.add (local.get $g) (i32.const 2)))
                 (br_if $blockSums (i32.lt_u (local.get $g) (local.get $nBlocks))))))
           (local.set $d (i32.add (local.get $d) (i32.const 1)))
           (br_if $drop (i32.lt_u (local.get $d) (local.get $nDrops))))
