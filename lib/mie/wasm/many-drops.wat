@@ -28,10 +28,10 @@
     (local $f v128) (local $n v128) (local $s v128) (local $t v128) (local $tau v128)
     (local $cr v128) (local $ci v128) (local $p v128)
     ;; for q in 0..1
-    (local $mu{q} v128) (local $prev{q} v128) (local $cur{q} v128) (local $kEnd{q} i32) (local $tp{q} i32)
+    (local $kEnd{q} i32) (local $tp{q} i32)
     ;; end for
     ;; for v in 0..3
-    (local $re{v} v128) (local $im{v} v128)
+    (local $re{v} v128) (local $im{v} v128) (local $prev{v} v128) (local $cur{v} v128)
     ;; end for
     ;; The recurrence state lives in memory between chunks, so that no register holds it through the drop loop.
     (loop $init
@@ -50,39 +50,41 @@
         (br_if $done (i32.ge_u (local.get $i0) (local.get $nMax)))
         (local.set $i1 (select (i32.add (local.get $i0) (i32.const {CHUNK})) (local.get $nMax)
           (i32.lt_u (i32.add (local.get $i0) (i32.const {CHUNK})) (local.get $nMax))))
-        ;; π_n ± τ_n for n in the chunk, each block's table in turn, Wiscombe's arrangement (1980, Appl. Opt. 19,
+        ;; π_n ± τ_n for n in the chunk, each block's table, Wiscombe's arrangement (1980, Appl. Opt. 19,
         ;; 1505): s = μπ_n, t = s − π_{n−1}, τ_n = n·t − π_{n−1}, π_{n+1} = s + (n+1)/n·t (Bohren & Huffman 1983 eq. 4.47).
+        ;; Blocks in pairs, 4 vectors c (block g + (c >> 1), vector c & 1): 4 recurrences on independent chains
+        ;; (one pair of chains waited on the latency of its 5 dependent operations every order); μ is read from the
+        ;; state each order, off the chains, so that π_{n−1}, π_n of all 4 stay in registers.
         (local.set $g (i32.const 0))
         (loop $block
           (local.set $st (i32.add (local.get $state) (i32.mul (local.get $g) (i32.const 96))))
           (local.set $o (i32.add (local.get $orders) (i32.shl (local.get $i0) (i32.const 4))))
           (local.set $tp (i32.add (local.get $table) (i32.mul (local.get $g) (i32.const {64*CHUNK}))))
           (local.set $kEnd (i32.add (local.get $orders) (i32.shl (local.get $i1) (i32.const 4))))
-          ;; for q in 0..1
-          (local.set $mu{q} (v128.load offset={48*q} align=8 (local.get $st)))
-          (local.set $prev{q} (v128.load offset={48*q+16} align=8 (local.get $st)))
-          (local.set $cur{q} (v128.load offset={48*q+32} align=8 (local.get $st)))
+          ;; for c in 0..3
+          (local.set $prev{c} (v128.load offset={96*(c>>1)+48*(c&1)+16} align=8 (local.get $st)))
+          (local.set $cur{c} (v128.load offset={96*(c>>1)+48*(c&1)+32} align=8 (local.get $st)))
           ;; end for
           (loop $fill
             (local.set $f (v128.load64_splat offset=0 align=8 (local.get $o)))
             (local.set $n (v128.load64_splat offset=8 align=8 (local.get $o)))
-            ;; for q in 0..1
-            (local.set $s (f64x2.mul (local.get $mu{q}) (local.get $cur{q})))
-            (local.set $t (f64x2.sub (local.get $s) (local.get $prev{q})))
-            (local.set $tau (f64x2.sub (f64x2.mul (local.get $n) (local.get $t)) (local.get $prev{q})))
-            (v128.store offset={16*q} align=8 (local.get $tp) (f64x2.add (local.get $cur{q}) (local.get $tau)))
-            (v128.store offset={32+16*q} align=8 (local.get $tp) (f64x2.sub (local.get $cur{q}) (local.get $tau)))
-            (local.set $prev{q} (local.get $cur{q}))
-            (local.set $cur{q} (madd (local.get $f) (local.get $t) (local.get $s)))
+            ;; for c in 0..3
+            (local.set $s (f64x2.mul (v128.load offset={96*(c>>1)+48*(c&1)} align=8 (local.get $st)) (local.get $cur{c})))
+            (local.set $t (f64x2.sub (local.get $s) (local.get $prev{c})))
+            (local.set $tau (f64x2.sub (f64x2.mul (local.get $n) (local.get $t)) (local.get $prev{c})))
+            (v128.store offset={64*CHUNK*(c>>1)+16*(c&1)} align=8 (local.get $tp) (f64x2.add (local.get $cur{c}) (local.get $tau)))
+            (v128.store offset={64*CHUNK*(c>>1)+32+16*(c&1)} align=8 (local.get $tp) (f64x2.sub (local.get $cur{c}) (local.get $tau)))
+            (local.set $prev{c} (local.get $cur{c}))
+            (local.set $cur{c} (madd (local.get $f) (local.get $t) (local.get $s)))
             ;; end for
             (local.set $tp (i32.add (local.get $tp) (i32.const 64)))
             (local.set $o (i32.add (local.get $o) (i32.const 16)))
             (br_if $fill (i32.lt_u (local.get $o) (local.get $kEnd))))
-          ;; for q in 0..1
-          (v128.store offset={48*q+16} align=8 (local.get $st) (local.get $prev{q}))
-          (v128.store offset={48*q+32} align=8 (local.get $st) (local.get $cur{q}))
+          ;; for c in 0..3
+          (v128.store offset={96*(c>>1)+48*(c&1)+16} align=8 (local.get $st) (local.get $prev{c}))
+          (v128.store offset={96*(c>>1)+48*(c&1)+32} align=8 (local.get $st) (local.get $cur{c}))
           ;; end for
-          (local.set $g (i32.add (local.get $g) (i32.const 1)))
+          (local.set $g (i32.add (local.get $g) (i32.const 2)))
           (br_if $block (i32.lt_u (local.get $g) (local.get $nBlocks))))
         ;; Each drop's sums over the orders of the chunk it has (n ≤ its nTerms), block by block.
         (local.set $d (i32.const 0))
