@@ -42,6 +42,19 @@ export function xyzOf(r: ProfileResult): Float64Array {
   return spectraToXyz(r.grid, perpendicular.map((v, k) => v + parallel[k]), r.request.observer);
 }
 
+/** CIEDE2000 per angle of XYZ `test` against `ref` (x, y, z per angle), both scaled by ref's peak Y: worst, its ψ, mean. */
+export function xyzDeltaE(ref: Float64Array, test: Float64Array, anglesDeg: Float64Array): { worst: number; at: number; mean: number } {
+  let peak = 0;
+  for (let i = 1; i < ref.length; i += 3) peak = Math.max(peak, ref[i]);
+  const dE = deltaE2000(ref.map((v) => v / peak), test.map((v) => v / peak));
+  let worst = 0;
+  let at = Number.NaN;
+  dE.forEach((d, k) => {
+    if (d > worst) [worst, at] = [d, anglesDeg[k]];
+  });
+  return { worst, at, mean: dE.reduce((s, d) => s + d, 0) / dE.length };
+}
+
 /**
  * CIEDE2000 per sample of test against ref over ψ 30–60° (the profiles' own range within it), both XYZ scaled by
  * ref's peak Y: the worst (and its ψ; null when every sample is equal) and the mean.

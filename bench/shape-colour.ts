@@ -15,12 +15,11 @@ import { pathToFileURL } from "node:url";
 import { loadavg } from "node:os";
 import { performance } from "node:perf_hooks";
 import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
-import { xyzOf } from "./auto-presets.js";
+import { xyzDeltaE, xyzOf } from "./auto-presets.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { computeProfile, type ProfileResult } from "../pipeline/compute/profile.js";
 import { KernelService } from "../pipeline/kernels/kernel-service.js";
 import { createWorkerPool } from "../pipeline/kernels/worker-pool.js";
-import { deltaE2000 } from "../lib/colour/delta-e.js";
 import { equilibriumOutline } from "../lib/drops/shape/equilibrium-shape.js";
 import { outlineAxisRatio } from "../lib/drops/shape/outline.js";
 import { ARC_POSITION_STEP_DEG, FLATTENED_FROM_RADIUS_UM, SUN_ELEVATION_STEP_DEG } from "../lib/bow/shaped-rows.js";
@@ -38,17 +37,7 @@ export interface ShapeColourRow {
 }
 
 function compare(reference: ProfileResult, other: ProfileResult): { worst: number; at: number; mean: number } {
-  const ref = xyzOf(reference);
-  const oth = xyzOf(other);
-  let peak = 0;
-  for (let i = 1; i < ref.length; i += 3) peak = Math.max(peak, ref[i]);
-  const dE = deltaE2000(ref.map((v) => v / peak), oth.map((v) => v / peak));
-  let worst = 0;
-  let at = Number.NaN;
-  dE.forEach((d, k) => {
-    if (d > worst) [worst, at] = [d, reference.spectral.anglesDeg[k]];
-  });
-  return { worst, at, mean: dE.reduce((s, d) => s + d, 0) / dE.length };
+  return xyzDeltaE(xyzOf(reference), xyzOf(other), reference.spectral.anglesDeg);
 }
 
 export async function benchShapeColour(workers = 2): Promise<ShapeColourRow[]> {

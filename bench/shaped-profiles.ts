@@ -14,7 +14,7 @@ import { benchProfile, P1, P4, type ProfileWorkload } from "./profiles.js";
 import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { toDistribution } from "../pipeline/compute/profile.js";
-import { planDropShapes } from "../pipeline/compute/drop-shape-plan.js";
+import { planDropShapes, shapedPlaneCounts } from "../pipeline/compute/drop-shape-plan.js";
 import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
 import { cantingNodesFive } from "../lib/drops/shape/canting.js";
 import { makeWavelengthGrid, wavelengthsNm } from "../lib/spectra/grid.js";
@@ -37,24 +37,16 @@ interface PlaneCount {
   before: number;
 }
 
-/** Scattering planes a request computes cold (one task per shape: pipeline/kernels/kernel-service.ts). */
-function planeCount(body: Record<string, unknown>, threads = 2): PlaneCount {
+/** Scattering planes a request computes cold (one task per shape, split by canting node: pipeline/kernels/kernel-service.ts). */
+function planeCount(body: Record<string, unknown>): PlaneCount {
   const request = profileRequestSchema.parse(body);
   const quadrature = latticeRadiusQuadrature(toDistribution(request.drops));
   const plan = planDropShapes(request, quadrature.radiiUm);
   const spec = plan.shapes.find((s) => s !== undefined);
   if (!spec) return { traced: 0, interpolated: 0, before: 0 };
   const wavelengths = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm).count;
-  const canting = cantingNodesFive(spec.cantingSdDeg).length;
   const nodes = plan.shapes.filter((s) => s !== undefined).length;
-  const shapes = spec.kind === "spheroid" ? 1 : nodes;
-  // Fewer shapes than threads: each shape's wavelengths are split into chunks, each tracing the fixed indices again.
-  const chunks = Math.min(wavelengths, Math.ceil(threads / shapes));
-  return {
-    traced: shapes * canting * chunks * INDEX_NODES,
-    interpolated: shapes * canting * wavelengths,
-    before: nodes * wavelengths * canting,
-  };
+  return { ...shapedPlaneCounts(plan, wavelengths), before: nodes * wavelengths * cantingNodesFive(spec.cantingSdDeg).length };
 }
 
 /** CPU ms of one traced and one interpolated plane of P4's drop (canting 0: one plane per index), in this process. */

@@ -8,7 +8,7 @@ import { dropRow, dropRowContext, waveNumberPerM, type CellAverage } from "./dro
 import { mieLatticeRows } from "./mie-lattice-rows.js";
 import type { MieSampling } from "./mie-sub-lattice.js";
 import type { DropMedium } from "../water/drop-medium.js";
-import { shapeGroupKey, shapedRows, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
+import { shapeGroupKey, shapedNodeRows, shapedVariant, type ShapedPlaneCount, type ShapedRowSpec } from "./shaped-rows.js";
 import { orderVariant } from "./scattering-orders.js";
 import { RowArena } from "./row-arena.js";
 
@@ -18,8 +18,12 @@ const threadArena = new RowArena();
 export interface KernelRowsInput {
   medium: DropMedium;
   h: number;
-  /** medium: a flattened drop's own wavelength when the task holds several (shaped items only; else `medium`). */
-  items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage; shape?: ShapedRowSpec; medium?: DropMedium }[];
+  /**
+   * medium: a flattened drop's own wavelength when the task holds several (shaped items only; else `medium`).
+   * cantingNode: a flattened drop's share from that canting node alone (an index into cantingNodesFive), for a task
+   * split by canting node (pipeline/kernels/canting-parts.ts); else the whole canting mean.
+   */
+  items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage; shape?: ShapedRowSpec; medium?: DropMedium; cantingNode?: number }[];
   /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
   within?: { first: number; last: number };
   /** One Debye order p alone for every drop (scattering-orders.ts), or undefined for the whole drops. */
@@ -31,7 +35,7 @@ export interface KernelRowsInput {
 /** A row's samples outside the computed range: never a kernel value, so "covered" is a NaN test. */
 export const NOT_COMPUTED = Number.NaN;
 
-export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mieTermAngles: number } {
+export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mieTermAngles: number; shapedPlanes: ShapedPlaneCount } {
   const { medium, h, items } = input;
   // The engines' bins need one evenly spaced Θ grid: the task covers every lattice point from the first to the
   // last block asked for, also where the drops ask for blocks with gaps between them (a partly filled cache),
@@ -53,7 +57,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   }
   // Drops that are not spheres have their own engine (shaped-rows.ts): the sphere engines' tables are not built for them.
   if (input.order !== undefined && items.some((it) => it.shape)) throw new RangeError("rows by scattering order are for spheres only");
-  if (items.some((it) => it.medium && !it.shape)) throw new RangeError("an item's own medium is for flattened drops only");
+  if (items.some((it) => (it.medium || it.cantingNode !== undefined) && !it.shape)) throw new RangeError("an item's own medium or canting node is for flattened drops only");
   const ctx = dropRowContext(medium, thetaDeg, h, new Set(items.filter((it) => !it.shape).map((it) => it.engine)), input.order);
   const perDrop = 1 / (2 * ctx.waveNumberPerM * ctx.waveNumberPerM);
   const perp = new Float64Array(nTheta);
@@ -80,11 +84,13 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   const mie = mieLatticeRows(ctx, mieIndices.map((i) => items[i]), { h, lo, hi }, input.mieSampling, threadArena);
   const mieRowOf = new Map(mieIndices.map((item, k) => [item, mie.rows[k]]));
   let mieTermAngles = mie.termAngles;
-  const shaped = shapedItemRows(items, medium, thetaDeg, h);
+  const { rows: shaped, planes: shapedPlanes } = shapedItemRows(items, medium, thetaDeg, h);
   const rows = items.map((item, index) => {
-    // The computed rows are read where they are (no copy into perp, par).
-    const source = shaped.get(index) ?? mieRowOf.get(index) ?? { perp, par };
-    const scale = item.shape ? 1 / (2 * waveNumberPerM(item.medium ?? medium) ** 2) : perDrop;
+    // The computed rows are read where they are (no copy into perp, par); flattened drops' rows come scaled already,
+    // node by node (shapedItemRows).
+    const flattened = shaped.get(index);
+    const source = flattened ?? mieRowOf.get(index) ?? { perp, par };
+    const scale = flattened ? 1 : perDrop;
     if (source.perp === perp) mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
     return item.blocks.map((b) => {
       const at = positions.get(b)!;
@@ -96,7 +102,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
       return row;
     });
   });
-  return { rows, mieTermAngles };
+  return { rows, mieTermAngles, shapedPlanes };
 }
 
 /** A block's β⊥ then β∥ into row: scale × the Θ-grid rows at the block's positions (NOT_COMPUTED where −1). */
@@ -110,26 +116,51 @@ function copyScaled(perp: Float64Array, par: Float64Array, at: Int32Array, scale
 }
 
 /**
- * The flattened drops' rows, by item index: items of one shape (shapedRows: a spheroid at any radius, equilibrium
- * drops per shape node) are computed together, at their own wavelengths, so that each scattering plane is traced once.
+ * The flattened drops' rows, by item index, already in β = |S|²/(2k²): items of one shape (shapedRows: a spheroid at
+ * any radius, equilibrium drops per shape node) and canting node (or all of them) are computed together, at their own
+ * wavelengths, so that each scattering plane is traced once. A row is its canting nodes' shares, each scaled, added in
+ * node order from zero: the sum a task split by canting node makes of its parts' rows (pipeline/kernels/canting-parts.ts),
+ * to the last bit.
  */
-function shapedItemRows(items: KernelRowsInput["items"], medium: DropMedium, thetaDeg: Float64Array, h: number): Map<number, { perp: Float64Array; par: Float64Array }> {
+function shapedItemRows(
+  items: KernelRowsInput["items"],
+  medium: DropMedium,
+  thetaDeg: Float64Array,
+  h: number,
+): { rows: Map<number, { perp: Float64Array; par: Float64Array }>; planes: ShapedPlaneCount } {
   const groups = new Map<string, number[]>();
   items.forEach((item, index) => {
     if (!item.shape) return;
-    const key = shapeGroupKey(item.shape, item.radiusUm);
+    const key = `${shapeGroupKey(item.shape, item.radiusUm)}|${item.cantingNode ?? "all"}`;
     const group = groups.get(key) ?? [];
     group.push(index);
     groups.set(key, group);
   });
   const out = new Map<number, { perp: Float64Array; par: Float64Array }>();
+  const planes: ShapedPlaneCount = { traced: 0, interpolated: 0 };
   for (const group of groups.values()) {
+    const first = items[group[0]];
     const drops = group.map((index) => {
       const item = items[index];
       const own = item.medium ?? medium;
       return { radiusUm: item.radiusUm, mRe: own.mRe, x: waveNumberPerM(own) * item.radiusUm * 1e-6 };
     });
-    shapedRows(items[group[0]].shape!, drops, thetaDeg, h).forEach((row, k) => out.set(group[k], row));
+    const computed = shapedNodeRows(first.shape!, drops, thetaDeg, h, first.cantingNode === undefined ? undefined : [first.cantingNode]);
+    planes.traced += computed.planes.traced;
+    planes.interpolated += computed.planes.interpolated;
+    computed.rows.forEach((shares, k) => {
+      const item = items[group[k]];
+      const scale = 1 / (2 * waveNumberPerM(item.medium ?? medium) ** 2);
+      const perp = new Float64Array(thetaDeg.length);
+      const par = new Float64Array(thetaDeg.length);
+      for (const share of shares) {
+        for (let j = 0; j < perp.length; j++) {
+          perp[j] += scale * share.perp[j];
+          par[j] += scale * share.par[j];
+        }
+      }
+      out.set(group[k], { perp, par });
+    });
   }
-  return out;
+  return { rows: out, planes };
 }

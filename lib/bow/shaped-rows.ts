@@ -106,7 +106,8 @@ function shapesOf(spec: ShapedRowSpec, radiusUm: number): { radiusUm: number; we
  * nodes over this span, 838, 589, 1105 with 7, –, 580, 1029 with 8, and 604, –, 878 with 5 nodes over the task's
  * own span (the old way): 7 nodes cost about what 5 did over the wider span, with fewer samples the error estimate
  * distrusts. Worst bin 2e-2 of the peak, at a secondary bow's sharp edge, where the engine itself moves by 1–5e-2
- * when the pupil is sampled with 3990 instead of 4000 half-segments; in colour see BENCHMARKS.md, shape-index.
+ * when the pupil is sampled with 3990 instead of 4000 half-segments. In colour, on whole profiles (1 and 2 mm drops,
+ * canting 7.5°, 380–780 nm every 10 nm): worst ΔE2000 0.075, mean ≤ 0.0022 (BENCHMARKS.md, shape-index).
  */
 export const INDEX_NODES = 7;
 export const TRACED_INDICES: readonly number[] = chebyshevNodes(WATER_INDEX_RANGE.min, WATER_INDEX_RANGE.max, INDEX_NODES);
@@ -129,16 +130,35 @@ export interface ShapedDrop {
   x: number;
 }
 
+/** Scattering planes a computation traced and interpolated across the index (what the cost estimates count). */
+export interface ShapedPlaneCount {
+  traced: number;
+  interpolated: number;
+}
+
 /**
- * The canting mean of |S1|², |S2|² for flattened drops (a spheroid's fixed axis ratio, or equilibrium drops, each its
- * own shape or blended from shape nodes: ShapedRowSpec.deformationStep) at any wavelengths, on bins of width stepDeg
- * centred on thetaDeg (ascending, uniform). Each scattering plane is traced once per shape and canting node at
- * TRACED_INDICES, the sweeps at the drops' own indices interpolated from those (spec.traceEveryIndex: traced at each
- * drop's index instead). Everything then scales with x (shapedPlaneRow), so drops of one shape and index share one context.
+ * Each drop's share of |S1|², |S2|² from each of the canting nodes asked for (indices into cantingNodesFive; default:
+ * all), weighted by the node's weight, for flattened drops (a spheroid's fixed axis ratio, or equilibrium drops, each
+ * its own shape or blended from shape nodes: ShapedRowSpec.deformationStep) at any wavelengths, on bins of width
+ * stepDeg centred on thetaDeg (ascending, uniform): rows[drop][k] for the k-th node asked for. Each scattering plane is
+ * traced once per shape and canting node at TRACED_INDICES, the sweeps at the drops' own indices interpolated from
+ * those (spec.traceEveryIndex: traced at each drop's index instead). Everything then scales with x (shapedPlaneRow),
+ * so drops of one shape and index share one context. A node's share is computed alone (its own sum over shapes), so
+ * it is the same whichever other nodes are computed with it: kernel tasks split by canting node
+ * (pipeline/kernels/canting-parts.ts) add the same numbers in the same order as one task.
  */
-export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number): { perp: Float64Array; par: Float64Array }[] {
-  const out = drops.map(() => ({ perp: new Float64Array(thetaDeg.length), par: new Float64Array(thetaDeg.length) }));
-  if (drops.length === 0) return out;
+export function shapedNodeRows(
+  spec: ShapedRowSpec,
+  drops: readonly ShapedDrop[],
+  thetaDeg: Float64Array,
+  stepDeg: number,
+  nodeIndices?: readonly number[],
+): { rows: { perp: Float64Array; par: Float64Array }[][]; planes: ShapedPlaneCount } {
+  const allNodes = cantingNodesFive(spec.cantingSdDeg);
+  const asked = nodeIndices ?? allNodes.map((_, k) => k);
+  const out = drops.map(() => asked.map(() => ({ perp: new Float64Array(thetaDeg.length), par: new Float64Array(thetaDeg.length) })));
+  const planes: ShapedPlaneCount = { traced: 0, interpolated: 0 };
+  if (drops.length === 0) return { rows: out, planes };
   // Each drop's shapes and weights; then each shape is traced once, for every drop that uses it.
   const uses = drops.map((drop) => shapesOf(spec, drop.radiusUm));
   const shapes = [...new Set(uses.flatMap((u) => u.map((s) => s.radiusUm)))].sort((a, b) => a - b);
@@ -154,10 +174,13 @@ export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], th
     const indices = [...new Set(users.map((u) => u.drop.mRe))].sort((a, b) => a - b);
     const interpolate = spec.traceEveryIndex !== true;
     const traced = interpolate ? TRACED_INDICES : indices;
-    for (const node of cantingNodesFive(spec.cantingSdDeg)) {
+    asked.forEach((nodeIndex, k) => {
+      const node = allNodes[nodeIndex];
       const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
       // One canting node's sweeps at a time: memory stays at INDEX_NODES planes' sweeps (~14 MB), whatever the task.
       const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
+      planes.traced += traced.length;
+      if (interpolate) planes.interpolated += indices.length;
       for (const mRe of indices) {
         const tracer = interpolate ? shapedPlaneTracer({ outline, axis, n: mRe }, plane, options) : null;
         const at = interpolate
@@ -168,15 +191,31 @@ export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], th
           if (drop.mRe !== mRe) continue;
           shapedPlaneRow(ctx, drop.x, rowPerp, rowPar);
           const w = node.weight * weight;
+          const share = out[d][k];
           for (let j = 0; j < rowPerp.length; j++) {
-            out[d].perp[j] += w * rowPerp[j];
-            out[d].par[j] += w * rowPar[j];
+            share.perp[j] += w * rowPerp[j];
+            share.par[j] += w * rowPar[j];
           }
         }
       }
-    }
+    });
   }
-  return out;
+  return { rows: out, planes };
+}
+
+/** The canting mean of |S1|², |S2|² (shapedNodeRows over every canting node, added in node order). */
+export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number): { perp: Float64Array; par: Float64Array }[] {
+  return shapedNodeRows(spec, drops, thetaDeg, stepDeg).rows.map((shares) => {
+    const perp = new Float64Array(thetaDeg.length);
+    const par = new Float64Array(thetaDeg.length);
+    for (const share of shares) {
+      for (let j = 0; j < perp.length; j++) {
+        perp[j] += share.perp[j];
+        par[j] += share.par[j];
+      }
+    }
+    return { perp, par };
+  });
 }
 
 /** One drop's row (shapedRows for a single drop), written into perp and par. */

@@ -14,6 +14,7 @@ import {
   outlineFor,
   quantiseSpec,
   SUN_ELEVATION_STEP_DEG,
+  type ShapedPlaneCount,
   type ShapedRowSpec,
 } from "../../lib/bow/shaped-rows.js";
 
@@ -31,7 +32,7 @@ export interface ShapePlan {
 const ENGINE =
   "3D ray tracing through the drop (Fresnel coefficients for both polarisations, orders 0–3) with the primary and secondary bows in the uniform Airy form per scattering plane (Chester, Friedman & Ursell 1957; Berry & Mount 1972), phases and amplitudes from the traced rays";
 const ACCURACY =
-  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); planes interpolated across the refractive index from 5 traced ones: worst ΔE2000 below 0.1 against tracing every wavelength (BENCHMARKS.md, shape-index)";
+  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); planes interpolated across the refractive index from 7 traced at fixed indices: worst ΔE2000 0.075 against tracing every wavelength (BENCHMARKS.md, shape-index)";
 const DEFAULT_NOTE =
   "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (7 traced + 41 interpolated) scattering planes, 2,100 traced at about 0.17 s of CPU each and 12,300 interpolated across the refractive index at about 0.02 s, projected at about 5 minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
 
@@ -95,15 +96,21 @@ export const SHAPED_TRACED_TERM_ANGLES_PER_BIN = 2.4e5;
 export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
 
 /**
- * Term-angle equivalent of a plan's flattened rows: per shape (each flattened radius node of equilibrium drops; one
- * for a spheroid, whose radii share their planes) and canting node, INDEX_NODES traced planes (at the fixed
- * TRACED_INDICES) and W interpolated ones.
+ * Scattering planes a plan's flattened rows trace and interpolate, cold: per shape (each flattened radius node of
+ * equilibrium drops; one for a spheroid, whose radii share their planes) and canting node, INDEX_NODES traced planes
+ * (at the fixed TRACED_INDICES) and one interpolated per wavelength. A shape's task split across threads is split by
+ * canting node (pipeline/kernels/canting-parts.ts): no plane is traced twice.
  */
-export function shapedCostTermAngles(plan: ShapePlan, wavelengths: number, bins: number): number {
+export function shapedPlaneCounts(plan: ShapePlan, wavelengths: number): ShapedPlaneCount {
   const spec = plan.shapes.find((s) => s !== undefined);
-  if (!spec) return 0;
+  if (!spec) return { traced: 0, interpolated: 0 };
   const shapes = spec.kind === "spheroid" ? 1 : plan.shapes.filter((s) => s !== undefined).length;
-  const traced = INDEX_NODES * SHAPED_TRACED_TERM_ANGLES_PER_BIN;
-  const interpolated = wavelengths * SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN;
-  return shapes * cantingNodesFive(spec.cantingSdDeg).length * bins * (traced + interpolated);
+  const planes = shapes * cantingNodesFive(spec.cantingSdDeg).length;
+  return { traced: planes * INDEX_NODES, interpolated: planes * wavelengths };
+}
+
+/** Term-angle equivalent of a plan's flattened rows (shapedPlaneCounts priced per bin). */
+export function shapedCostTermAngles(plan: ShapePlan, wavelengths: number, bins: number): number {
+  const { traced, interpolated } = shapedPlaneCounts(plan, wavelengths);
+  return bins * (traced * SHAPED_TRACED_TERM_ANGLES_PER_BIN + interpolated * SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN);
 }

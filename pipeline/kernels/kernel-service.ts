@@ -14,6 +14,7 @@ import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 import { shapeGroupKey, shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import { computeByCantingNode } from "./canting-parts.js";
 import { orderVariant } from "../../lib/bow/scattering-orders.js";
 import type { MieSampling } from "../../lib/bow/mie-sub-lattice.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
@@ -119,11 +120,6 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
   return merged;
 }
 
-
-/** The chunk of wavelengths (of `chunks` contiguous ones) that wavelength l belongs to; each traces its own indices. */
-function shapedChunk(l: number, wavelengths: number, chunks: number): number {
-  return Math.floor((l * chunks) / wavelengths);
-}
 
 /** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
 function packKey(m: DropMedium, variant: string, h: number, block: number, sampling: MieSampling): string {
@@ -254,9 +250,10 @@ export class KernelService {
     const waits: Promise<void>[] = [];
     // Rows to compute, grouped into tasks: task key → "l:i" → the row's wavelength, radius and blocks.
     const toCompute = new Map<string, Map<string, { l: number; i: number; bis: number[] }>>();
-    // Flattened drops' tasks: one per shape, split by wavelength only where there are fewer shapes than threads.
+    // Flattened drops' tasks: one per shape at every wavelength, split by canting node (canting-parts.ts) where there are
+    // fewer shapes than threads, so that every plane is still traced once.
     const shapesMissing = new Set(missing.flatMap(([, i]) => (shapes[i] ? [shapeGroupKey(shapes[i]!, radiiUm[i])] : [])));
-    const chunks = Math.min(media.length, Math.ceil(this.parallelism / Math.max(1, shapesMissing.size)));
+    const cantingParts = Math.ceil(this.parallelism / Math.max(1, shapesMissing.size));
     for (const [l, i, bi] of missing) {
       const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
       if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
@@ -268,7 +265,7 @@ export class KernelService {
         );
         continue;
       }
-      const taskKey = shapes[i] ? `shape|${shapeGroupKey(shapes[i]!, radiiUm[i])}|${shapedChunk(l, media.length, chunks)}` : `l${l}`;
+      const taskKey = shapes[i] ? `shape|${shapeGroupKey(shapes[i]!, radiiUm[i])}` : `l${l}`;
       let rowsOfTask = toCompute.get(taskKey);
       if (!rowsOfTask) toCompute.set(taskKey, (rowsOfTask = new Map()));
       let entry = rowsOfTask.get(`${l}:${i}`);
@@ -306,7 +303,7 @@ export class KernelService {
         ...(request.order === undefined ? {} : { order: request.order }),
         ...(this.mieSampling === "adaptive" ? {} : { mieSampling: this.mieSampling }),
       };
-      const computing = this.options.compute(spec, stop.signal);
+      const computing = items[0].shape && cantingParts > 1 ? computeByCantingNode(spec, cantingParts, this.options.compute, stop.signal) : this.options.compute(spec, stop.signal);
       computing.catch(() => undefined);
       // The task's rows grouped by the pack they belong to (one wavelength and one block per pack).
       const byPack = new Map<string, { l: number; bi: number; rows: [radiusUm: number, item: number, block: number][] }>();

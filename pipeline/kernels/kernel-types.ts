@@ -1,6 +1,6 @@
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import type { CellAverage } from "../../lib/bow/drop-rows.js";
-import type { ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import type { ShapedPlaneCount, ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import type { MieSampling } from "../../lib/bow/mie-sub-lattice.js";
 import type { DropMedium } from "../../lib/water/drop-medium.js";
 
@@ -15,6 +15,8 @@ export interface KernelTaskItem {
   shape?: ShapedRowSpec;
   /** Flattened drops only: the item's own wavelength, when the task holds one shape's rows at several (else the task's). */
   medium?: DropMedium;
+  /** Flattened drops only: that canting node's share alone (a task split by canting node: canting-parts.ts). */
+  cantingNode?: number;
 }
 
 /**
@@ -37,4 +39,6 @@ export interface KernelTask {
 export interface KernelTaskResult {
   rows: Float64Array[][];
   mieTermAngles: number;
+  /** Flattened drops' scattering planes traced and interpolated across the index (lib/bow/shaped-rows.ts). */
+  shapedPlanes?: ShapedPlaneCount;
 }
