@@ -64,9 +64,12 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   // An averaged Lorenz–Mie row is not the single-size row of the same engine: its own buffer (and cache pack).
   const variants = items.map((item) => orderVariant(shapedVariant(rowVariant(item.engine, item.average), item.shape), input.order));
   // Packs keyed by a number (variant index, block) rather than a string built from the variant: V8 dropped the
-  // compiled kernelRows when the variants became built strings (averaged rows) after plain ones.
-  const variantIndex = new Map<string, number>();
-  const variantOf = variants.map((v) => variantIndex.get(v) ?? (variantIndex.set(v, variantIndex.size), variantIndex.size - 1));
+  // compiled kernelRows when the variants became built strings (averaged rows) after plain ones (string keys of a Map).
+  const distinct: string[] = [];
+  const variantOf = variants.map((v) => {
+    const k = distinct.indexOf(v);
+    return k >= 0 ? k : distinct.push(v) - 1;
+  });
   const blockSpan = lastBlock - firstBlock + 1;
   const packKey = (index: number, b: number) => variantOf[index] * blockSpan + (b - firstBlock);
   for (const [index, item] of items.entries()) {
