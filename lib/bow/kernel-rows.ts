@@ -64,12 +64,21 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   const par = new Float64Array(nTheta);
   // The rows that land in one cache pack (one engine and block) share one buffer, which the pack frees as a whole:
   // one allocation instead of one per drop (garbage collection fell from 17 % to 11 % of a default-profile task).
-  const packRows = new Map<string, { buffer: Float64Array; used: number }>();
+  const packRows = new Map<number, { buffer: Float64Array; used: number }>();
   // An averaged Lorenz–Mie row is not the single-size row of the same engine: its own buffer (and cache pack).
   const variants = items.map((item) => orderVariant(shapedVariant(rowVariant(item.engine, item.average), item.shape), input.order));
+  // Packs keyed by a number (variant index, block) rather than a string built from the variant: V8 dropped the
+  // compiled kernelRows when the variants became built strings (averaged rows) after plain ones (string keys of a Map).
+  const distinct: string[] = [];
+  const variantOf = variants.map((v) => {
+    const k = distinct.indexOf(v);
+    return k >= 0 ? k : distinct.push(v) - 1;
+  });
+  const blockSpan = lastBlock - firstBlock + 1;
+  const packKey = (index: number, b: number) => variantOf[index] * blockSpan + (b - firstBlock);
   for (const [index, item] of items.entries()) {
     for (const b of item.blocks) {
-      const key = `${variants[index]}|${b}`;
+      const key = packKey(index, b);
       const entry = packRows.get(key) ?? { buffer: new Float64Array(0), used: 0 };
       entry.used += 2 * positions.get(b)!.length;
       packRows.set(key, entry);
@@ -95,7 +104,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
     return item.blocks.map((b) => {
       const at = positions.get(b)!;
       const count = at.length;
-      const pack = packRows.get(`${variants[index]}|${b}`)!;
+      const pack = packRows.get(packKey(index, b))!;
       const row = pack.buffer.subarray(pack.used, pack.used + 2 * count);
       pack.used += 2 * count;
       copyScaled(source.perp, source.par, at, scale, row);

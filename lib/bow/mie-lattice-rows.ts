@@ -23,6 +23,15 @@ function largestSizeParameter(ctx: DropRowContext, drop: { radiusUm: number; ave
 }
 
 /**
+ * cos Θ at the sub-lattice nodes qLo, qLo + 1, … (lattice index q·c), Θ as the lattice writes it (180° − index·h).
+ * A function of its own, so that this loop never makes V8 recompile (on-stack replacement) the whole caller.
+ */
+function nodeCosines(out: Float64Array, qLo: number, c: number, h: number): Float64Array {
+  for (let k = 0; k < out.length; k++) out[k] = Math.cos(((180 - (qLo + k) * c * h) * Math.PI) / 180);
+  return out;
+}
+
+/**
  * |S1|², |S2|² of each drop at the context's angles (the lattice indices hi down to lo), as mieRows gives them, but
  * drops with a sub-lattice factor c > 1 computed at every c-th lattice index only and interpolated. The term-angles
  * are those actually spent. With an arena (row-arena.ts; reset here) the sub-lattice rows are its scratch arrays, so
@@ -57,8 +66,7 @@ export function mieLatticeRows(
     }
     const { qLo, qHi } = subLatticeNodes(lo, hi, c);
     // Θ as the lattice writes it (180° − index·h); nodes past 0° or 180° are mirror images (|S|² is even in Θ there).
-    const cosTheta = row(qHi - qLo + 1);
-    for (let k = 0; k < cosTheta.length; k++) cosTheta[k] = Math.cos(((180 - (qLo + k) * c * h) * Math.PI) / 180);
+    const cosTheta = nodeCosines(row(qHi - qLo + 1), qLo, c, h);
     const coarse = mieRows(ctx, list, cosTheta, arena);
     termAngles += coarse.termAngles;
     const weights = subLatticeWeights(c);
