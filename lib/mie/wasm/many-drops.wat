@@ -8,7 +8,7 @@
 ;; mieAmplitudesScalar (lib/mie/amplitudes.ts), so the exact module gives the per-call kernels' sums to the last bit.
 ;; Same text extensions as amplitudes.wat (scripts/compile-wat.mjs): ;; const, ;; for … ;; end for, {expr}, madd.
 ;; const CHUNK = 32
-;; const BLOCKS = 16
+;; const BLOCKS = 32
 ;;
 ;; Memory (byte addresses, 16-aligned), laid out by lib/mie/many-drops.ts:
 ;;   orders:   per n = 1..nMax (index n−1): (n+1)/n, n  (16 bytes; as in lib/mie/packed-coefficients.ts)

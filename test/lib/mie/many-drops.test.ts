@@ -48,8 +48,9 @@ describe("Mie amplitudes of many drops per pass", () => {
   });
 
   it("equals the per-call kernel over many groups of angle blocks, the last group and block part-filled", () => {
-    // 16 blocks of 4 angles per kernel call (lib/mie/wasm/many-drops.wat, BLOCKS): 331 angles are 5 whole calls and one
-    // of 3 blocks, the last with 3 angles; drops of very different term counts end in different chunks of orders.
+    // 32 blocks of 4 angles per kernel call, taken in pairs (lib/mie/wasm/many-drops.wat, BLOCKS): 331 angles are 2
+    // whole calls and one of 19 blocks (one of padding added), the last with 3 angles; drops of very different term
+    // counts end in different chunks of orders.
     const next = random(14);
     const xs = [0.7, 40, 2500, 333, 9000, 2500.5];
     const cosTheta = Float64Array.from({ length: 331 }, () => Math.cos(Math.PI * next()));
