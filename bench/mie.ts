@@ -35,7 +35,16 @@ const single = (name: string, x: number, mIm: number, fromDeg: number, toDeg: nu
 /** Drops a profile task holds: size parameters 500–5,000 evenly in ln x (radii ~44–440 µm at 550 nm). */
 export const MANY_DROPS = 48;
 
-/** W1 at three sizes over the whole half-circle; W2, W3 one drop over a bow's angles; M many drops on one lattice. */
+/**
+ * Raindrops of a full-Mie rain profile's largest radii: size parameters 20,000–30,000 (1.75–2.6 mm at 550 nm), whose
+ * coefficients (~19 MB packed) do not fit the caches, as in such a profile's tasks (M's fit).
+ */
+export const LARGE_DROPS = 16;
+
+/**
+ * W1 at three sizes over the whole half-circle; W2, W3 one drop over a bow's angles; M many drops on one lattice;
+ * L large drops on the same lattice by the many-drops kernel (the per-call kernel on them is W3's case).
+ */
 export const mieWorkloads: MieWorkload[] = [
   ...[100, 1000, 10000].map((x) => single(`W1 x=${x}`, x, 0, 0, 180, 0.1)),
   single("W2 x=3000", 3000, 0, 120, 150, 0.01),
@@ -50,6 +59,16 @@ export const mieWorkloads: MieWorkload[] = [
     stepDeg: 0.05,
     kernel,
   })),
+  {
+    name: `L ${LARGE_DROPS} drops x=20000–30000, many drops`,
+    sizeParameters: Array.from({ length: LARGE_DROPS }, (_, i) => 20000 * Math.exp((Math.log(1.5) * i) / (LARGE_DROPS - 1))),
+    mRe: 1.333,
+    mIm: 1e-9,
+    fromDeg: 115,
+    toDeg: 155,
+    stepDeg: 0.05,
+    kernel: "many drops",
+  },
 ];
 
 export interface MieBenchRow {

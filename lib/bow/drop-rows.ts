@@ -12,6 +12,7 @@ import { addUniformBowBins, uniformBowTable, type UniformBowTable } from "./airy
 import { AIRY_BOW_ORDERS, RAY_ORDERS, type DropEngine } from "./volume-scattering.js";
 import { cellSampleRadiusUm, type CellAverage } from "./cell-average.js";
 import type { DropMedium } from "../water/drop-medium.js";
+import type { RowArena } from "./row-arena.js";
 
 export type { CellAverage } from "./cell-average.js";
 
@@ -22,7 +23,8 @@ export interface DropRowContext {
   waveNumberPerM: number;
   thetaDeg: Float64Array;
   cosTheta: Float64Array;
-  amplitudes: MieAmplitudes;
+  /** dropRow's buffer for one drop's S1, S2, allocated on its first use (the many-drops path never needs it). */
+  amplitudes?: MieAmplitudes;
   raysAll: RayBins | null;
   /** Everything in the airy engine that scales as x²: orders 0, 1, and the bows' orders where they are ray optics. */
   raysAiryEngine: RayBins | null;
@@ -73,7 +75,6 @@ export function dropRowContext(
     waveNumberPerM: waveNumberPerM(medium),
     thetaDeg,
     cosTheta: thetaDeg.map((t) => Math.cos((t * Math.PI) / 180)),
-    amplitudes: allocateAmplitudes(thetaDeg.length),
     raysAll: engines.has("geometric") ? rayOpticsBins(n, rayOrders, thetaDeg, stepDeg) : null,
     raysAiryEngine,
     bowTables,
@@ -102,11 +103,7 @@ export function dropRow(ctx: DropRowContext, engine: DropEngine, radiusUm: numbe
     for (let s = 0; s < samples; s++) {
       const xs = samples === 1 ? x : ctx.waveNumberPerM * cellSampleRadiusUm(radiusUm, average!, s) * 1e-6;
       const c = dropCoefficients(ctx, xs);
-      const a = mieAmplitudes(c, ctx.cosTheta, ctx.amplitudes);
-      for (let j = 0; j < nTheta; j++) {
-        perp[j] += share * (a.s1Re[j] * a.s1Re[j] + a.s1Im[j] * a.s1Im[j]);
-        par[j] += share * (a.s2Re[j] * a.s2Re[j] + a.s2Im[j] * a.s2Im[j]);
-      }
+      addSquares(mieAmplitudes(c, ctx.cosTheta, (ctx.amplitudes ??= allocateAmplitudes(nTheta))), share, { perp, par }, nTheta);
       termAngles += c.nTerms * nTheta;
     }
     return termAngles;
@@ -133,25 +130,39 @@ export function mieRows(
   ctx: DropRowContext,
   drops: readonly { radiusUm: number; average?: CellAverage }[],
   cosTheta: Float64Array = ctx.cosTheta,
+  arena?: RowArena,
 ): { rows: { perp: Float64Array; par: Float64Array }[]; termAngles: number } {
   const nTheta = cosTheta.length;
-  const sizes: { drop: number; x: number; share: number }[] = [];
+  // The sizes in typed arrays rather than objects: objects with a share of 1 (a small integer to V8) and of 1/8 (a
+  // double) have two layouts, and a fog task after a rain one threw away the compiled code built for the first.
+  const samplesOf = (drop: (typeof drops)[number]) => (drop.average && drop.average.samples > 1 ? drop.average.samples : 1);
+  const count = drops.reduce((sum, drop) => sum + samplesOf(drop), 0);
+  const sizeDrop = new Int32Array(count);
+  const sizeX = new Float64Array(count);
+  const sizeShare = new Float64Array(count);
+  let at = 0;
   drops.forEach((drop, i) => {
-    const samples = drop.average && drop.average.samples > 1 ? drop.average.samples : 1;
-    for (let s = 0; s < samples; s++) {
+    const samples = samplesOf(drop);
+    for (let s = 0; s < samples; s++, at++) {
       const radiusUm = samples === 1 ? drop.radiusUm : cellSampleRadiusUm(drop.radiusUm, drop.average!, s);
-      sizes.push({ drop: i, x: ctx.waveNumberPerM * radiusUm * 1e-6, share: 1 / samples });
+      sizeDrop[at] = i;
+      sizeX[at] = ctx.waveNumberPerM * radiusUm * 1e-6;
+      sizeShare[at] = 1 / samples;
     }
   });
-  const rows = drops.map(() => ({ perp: new Float64Array(nTheta), par: new Float64Array(nTheta) }));
-  const outs = Array.from({ length: Math.min(MIE_SIZES_PER_PASS, sizes.length) }, () => allocateAmplitudes(nTheta));
+  // With an arena (row-arena.ts) the rows and the passes' amplitudes are its scratch arrays, valid until its reset.
+  const row = () => (arena ? arena.take(nTheta) : new Float64Array(nTheta));
+  const rows = drops.map(() => ({ perp: row(), par: row() }));
+  const outs = Array.from({ length: Math.min(MIE_SIZES_PER_PASS, count) }, () =>
+    arena ? { s1Re: arena.take(nTheta, false), s1Im: arena.take(nTheta, false), s2Re: arena.take(nTheta, false), s2Im: arena.take(nTheta, false) } : allocateAmplitudes(nTheta),
+  );
   let termAngles = 0;
-  for (let first = 0; first < sizes.length; first += MIE_SIZES_PER_PASS) {
-    const pass = sizes.slice(first, first + MIE_SIZES_PER_PASS);
+  for (let first = 0; first < count; first += MIE_SIZES_PER_PASS) {
+    const inPass = Math.min(MIE_SIZES_PER_PASS, count - first);
     mieAmplitudesManyDrops(
-      pass.length,
+      inPass,
       (d) => {
-        const c = dropCoefficients(ctx, pass[d].x);
+        const c = dropCoefficients(ctx, sizeX[first + d]);
         termAngles += c.nTerms * nTheta;
         return c;
       },
@@ -159,16 +170,18 @@ export function mieRows(
       outs,
     );
     // In the order of the sizes, as dropRow adds them, so the means are the same to the bit.
-    pass.forEach(({ drop, share }, d) => {
-      const a = outs[d];
-      const { perp, par } = rows[drop];
-      for (let j = 0; j < nTheta; j++) {
-        perp[j] += share * (a.s1Re[j] * a.s1Re[j] + a.s1Im[j] * a.s1Im[j]);
-        par[j] += share * (a.s2Re[j] * a.s2Re[j] + a.s2Im[j] * a.s2Im[j]);
-      }
-    });
+    for (let d = 0; d < inPass; d++) addSquares(outs[d], sizeShare[first + d], rows[sizeDrop[first + d]], nTheta);
   }
   return { rows, termAngles };
+}
+
+/** perp += share·|S1|², par += share·|S2|² over the first nTheta angles. */
+function addSquares(a: MieAmplitudes, share: number, row: { perp: Float64Array; par: Float64Array }, nTheta: number): void {
+  const { perp, par } = row;
+  for (let j = 0; j < nTheta; j++) {
+    perp[j] += share * (a.s1Re[j] * a.s1Re[j] + a.s1Im[j] * a.s1Im[j]);
+    par[j] += share * (a.s2Re[j] * a.s2Re[j] + a.s2Im[j] * a.s2Im[j]);
+  }
 }
 
 function addScaled(perp: Float64Array, par: Float64Array, rays: RayBins, factor: number): void {

@@ -10,6 +10,10 @@ import type { MieSampling } from "./mie-sub-lattice.js";
 import type { DropMedium } from "../water/drop-medium.js";
 import { shapeGroupKey, shapedNodeRows, shapedVariant, type ShapedPlaneCount, type ShapedRowSpec } from "./shaped-rows.js";
 import { orderVariant } from "./scattering-orders.js";
+import { RowArena } from "./row-arena.js";
+
+/** This thread's scratch rows for the Lorenz–Mie rows of its tasks (one task at a time per thread). */
+const threadArena = new RowArena();
 
 export interface KernelRowsInput {
   medium: DropMedium;
@@ -60,12 +64,21 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   const par = new Float64Array(nTheta);
   // The rows that land in one cache pack (one engine and block) share one buffer, which the pack frees as a whole:
   // one allocation instead of one per drop (garbage collection fell from 17 % to 11 % of a default-profile task).
-  const packRows = new Map<string, { buffer: Float64Array; used: number }>();
+  const packRows = new Map<number, { buffer: Float64Array; used: number }>();
   // An averaged Lorenz–Mie row is not the single-size row of the same engine: its own buffer (and cache pack).
   const variants = items.map((item) => orderVariant(shapedVariant(rowVariant(item.engine, item.average), item.shape), input.order));
+  // Packs keyed by a number (variant index, block) rather than a string built from the variant: V8 dropped the
+  // compiled kernelRows when the variants became built strings (averaged rows) after plain ones (string keys of a Map).
+  const distinct: string[] = [];
+  const variantOf = variants.map((v) => {
+    const k = distinct.indexOf(v);
+    return k >= 0 ? k : distinct.push(v) - 1;
+  });
+  const blockSpan = lastBlock - firstBlock + 1;
+  const packKey = (index: number, b: number) => variantOf[index] * blockSpan + (b - firstBlock);
   for (const [index, item] of items.entries()) {
     for (const b of item.blocks) {
-      const key = `${variants[index]}|${b}`;
+      const key = packKey(index, b);
       const entry = packRows.get(key) ?? { buffer: new Float64Array(0), used: 0 };
       entry.used += 2 * positions.get(b)!.length;
       packRows.set(key, entry);
@@ -77,38 +90,38 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   }
   // Lorenz–Mie drops all at once (the angular functions shared among them), the other engines drop by drop.
   const mieIndices = items.flatMap((item, index) => (item.engine === "mie" && !item.shape ? [index] : []));
-  const mie = mieLatticeRows(ctx, mieIndices.map((i) => items[i]), { h, lo, hi }, input.mieSampling);
+  const mie = mieLatticeRows(ctx, mieIndices.map((i) => items[i]), { h, lo, hi }, input.mieSampling, threadArena);
   const mieRowOf = new Map(mieIndices.map((item, k) => [item, mie.rows[k]]));
   let mieTermAngles = mie.termAngles;
   const { rows: shaped, planes: shapedPlanes } = shapedItemRows(items, medium, thetaDeg, h);
   const rows = items.map((item, index) => {
-    const computed = mieRowOf.get(index);
+    // The computed rows are read where they are (no copy into perp, par); flattened drops' rows come scaled already,
+    // node by node (shapedItemRows).
     const flattened = shaped.get(index);
-    let scale = perDrop;
-    if (flattened) {
-      // Scaled already, node by node (shapedItemRows).
-      perp.set(flattened.perp);
-      par.set(flattened.par);
-      scale = 1;
-    } else if (computed) {
-      perp.set(computed.perp);
-      par.set(computed.par);
-    } else mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
+    const source = flattened ?? mieRowOf.get(index) ?? { perp, par };
+    const scale = flattened ? 1 : perDrop;
+    if (source.perp === perp) mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
     return item.blocks.map((b) => {
       const at = positions.get(b)!;
       const count = at.length;
-      const pack = packRows.get(`${variants[index]}|${b}`)!;
+      const pack = packRows.get(packKey(index, b))!;
       const row = pack.buffer.subarray(pack.used, pack.used + 2 * count);
       pack.used += 2 * count;
-      for (let k = 0; k < count; k++) {
-        const j = at[k];
-        row[k] = j < 0 ? NOT_COMPUTED : scale * perp[j];
-        row[count + k] = j < 0 ? NOT_COMPUTED : scale * par[j];
-      }
+      copyScaled(source.perp, source.par, at, scale, row);
       return row;
     });
   });
   return { rows, mieTermAngles, shapedPlanes };
+}
+
+/** A block's β⊥ then β∥ into row: scale × the Θ-grid rows at the block's positions (NOT_COMPUTED where −1). */
+function copyScaled(perp: Float64Array, par: Float64Array, at: Int32Array, scale: number, row: Float64Array): void {
+  const count = at.length;
+  for (let k = 0; k < count; k++) {
+    const j = at[k];
+    row[k] = j < 0 ? NOT_COMPUTED : scale * perp[j];
+    row[count + k] = j < 0 ? NOT_COMPUTED : scale * par[j];
+  }
 }
 
 /**

@@ -11,15 +11,22 @@ import { amplitudeFromLanes } from "./wasm/lane-sums.js";
 import type { MieAmplitudes, MieCoefficients } from "./types.js";
 
 interface Kernel {
-  run(orders: number, nMax: number, drops: number, nDrops: number, cosines: number, table: number, sums: number): void;
+  run(orders: number, nMax: number, drops: number, nDrops: number, cosines: number, nBlocks: number, state: number, table: number, sums: number): void;
   memory: WebAssembly.Memory;
 }
 
 const PAGE_BYTES = 65536;
 const ANGLES_PER_BLOCK = 4;
 const CHUNK = wasmModules["many-drops"].constants.CHUNK;
-/** f64 values after the chunk table where the kernel keeps μ, π_{n−1}, π_n of its 2 vectors between chunks. */
+/**
+ * Blocks of angles per call: each drop's chunk of coefficients serves them all while it is in the first-level cache,
+ * so a task's coefficients (up to 24 MiB) are read from memory once per BLOCKS blocks rather than once per block.
+ */
+const BLOCKS = wasmModules["many-drops"].constants.BLOCKS;
+/** f64 values per block where the kernel keeps μ, π_{n−1}, π_n of its 2 vectors between chunks. */
 const RECURRENCE_STATE = 12;
+/** f64 values per drop and block of sums: Σ w(a+b)(π+τ) re, im, Σ w(a−b)(π−τ) re, im, 2 vectors of 2 lanes. */
+const SUMS_PER_BLOCK = 16;
 /**
  * Partial waves (summed over drops) packed per pass: 2^19 × 48 bytes = 24 MiB of WebAssembly memory per thread at
  * most, which the thread keeps (WebAssembly memory does not shrink); a pass with more drops would share the table
@@ -94,14 +101,16 @@ function runBatch(
   const nMax = Math.max(...batch.map((b) => b.nTerms));
   const nAngles = cosTheta.length;
   const blocks = Math.ceil(nAngles / ANGLES_PER_BLOCK);
+  const calls = Math.ceil(blocks / BLOCKS);
   // Layout after the coefficient streams (f64 indices, every region 16-byte aligned): orders, drop table, cosines
-  // (padded with μ = 0), the chunk table, the sums.
+  // (padded with μ = 0 to whole calls), each block's recurrence state, each block's chunk table, the sums.
   const ordersAt = words;
   const dropsAt = ordersAt + 2 * nMax;
   const cosAt = dropsAt + 2 * Math.ceil(batch.length / 2);
-  const tableAt = cosAt + blocks * ANGLES_PER_BLOCK;
-  const sumsAt = tableAt + 8 * CHUNK + RECURRENCE_STATE;
-  reserve(8 * (sumsAt + 16 * batch.length));
+  const stateAt = cosAt + calls * BLOCKS * ANGLES_PER_BLOCK;
+  const tableAt = stateAt + BLOCKS * RECURRENCE_STATE;
+  const sumsAt = tableAt + BLOCKS * 8 * CHUNK;
+  reserve(8 * (sumsAt + SUMS_PER_BLOCK * BLOCKS * batch.length));
   const m = view();
   for (let i = 0; i < nMax; i++) {
     m[ordersAt + 2 * i] = (i + 2) / (i + 1);
@@ -113,15 +122,22 @@ function runBatch(
     dropTable[2 * i + 1] = b.nTerms;
   });
   m.set(cosTheta, cosAt);
-  m.fill(0, cosAt + nAngles, tableAt);
-  for (let block = 0; block < blocks; block++) {
-    // One block per call: V8 swaps its optimised code in between calls (see simd-amplitudes.ts).
-    k.run(8 * ordersAt, nMax, 8 * dropsAt, batch.length, 8 * (cosAt + ANGLES_PER_BLOCK * block), 8 * tableAt, 8 * sumsAt);
-    const first = ANGLES_PER_BLOCK * block;
-    const last = Math.min(nAngles, first + ANGLES_PER_BLOCK);
+  m.fill(0, cosAt + nAngles, stateAt);
+  for (let call = 0; call < calls; call++) {
+    const firstBlock = BLOCKS * call;
+    // The kernel takes blocks in pairs: an odd last block gets a neighbour of padding (μ = 0), computed and not read.
+    const nBlocks = Math.min(BLOCKS, 2 * Math.ceil((blocks - firstBlock) / 2));
+    // A few blocks per call: V8 swaps its optimised code in between calls (see simd-amplitudes.ts).
+    k.run(8 * ordersAt, nMax, 8 * dropsAt, batch.length, 8 * (cosAt + ANGLES_PER_BLOCK * firstBlock), nBlocks, 8 * stateAt, 8 * tableAt, 8 * sumsAt);
+    const first = ANGLES_PER_BLOCK * firstBlock;
+    const last = Math.min(nAngles, first + ANGLES_PER_BLOCK * nBlocks);
     batch.forEach((b, i) => {
-      // Vector (j − first) >> 1 of drop i's sums; angle j is its lane (j − first) & 1.
-      for (let j = first; j < last; j++) amplitudeFromLanes(m, sumsAt + 16 * i + 8 * ((j - first) >> 1) + ((j - first) & 1), outs[b.drop], j);
+      // Drop i's sums of block r >> 2 (r = j − first) at sumsAt + 16·(i·nBlocks + block); angle j is lane r & 1 of its vector (r >> 1) & 1.
+      const at = sumsAt + SUMS_PER_BLOCK * nBlocks * i;
+      for (let j = first; j < last; j++) {
+        const r = j - first;
+        amplitudeFromLanes(m, at + SUMS_PER_BLOCK * (r >> 2) + 8 * ((r >> 1) & 1) + (r & 1), outs[b.drop], j);
+      }
     });
   }
 }

@@ -47,6 +47,16 @@ describe("Mie amplitudes of many drops per pass", () => {
     }
   });
 
+  it("equals the per-call kernel over many groups of angle blocks, the last group and block part-filled", () => {
+    // 32 blocks of 4 angles per kernel call, taken in pairs (lib/mie/wasm/many-drops.wat, BLOCKS): 331 angles are 2
+    // whole calls and one of 19 blocks (one of padding added), the last with 3 angles; drops of very different term
+    // counts end in different chunks of orders.
+    const next = random(14);
+    const xs = [0.7, 40, 2500, 333, 9000, 2500.5];
+    const cosTheta = Float64Array.from({ length: 331 }, () => Math.cos(Math.PI * next()));
+    expectSameAsPerCall(1.335, 2e-9, xs, cosTheta);
+  });
+
   it("equals the per-call kernel at the largest drops (3 mm in violet light), split into passes by size", () => {
     // x = 2π · 3000 µm / 0.38 µm ≈ 49,600; enough of them to overflow one pass's coefficient budget.
     const largest = (2 * Math.PI * 3000) / 0.38;
