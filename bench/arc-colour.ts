@@ -9,7 +9,7 @@
 // - Blend: the peak-aligned blend of the profiles at two arc nodes, at the arc position half-way between them, against
 //   the profile computed there (and the plain blend beside it, no peak alignment).
 // To stay within minutes on a shared 2-core machine: no canting (sharper bows than the default 7.5°: the harder case),
-// 20 radius nodes per decade (ProfileResolution.nodesPerDecade), 380–780 nm every 20 nm, ψ 36–56° at 0.05°.
+// 20 radius nodes per decade (ProfileResolution.nodesPerDecade), 380–780 nm every 20 nm, ψ 30–56° at 0.05°.
 // node dist/bench/arc-colour.js [--write]   (--write: the arc-colour section of BENCHMARKS.md)
 
 import { pathToFileURL } from "node:url";
@@ -31,7 +31,8 @@ const ARC_DEG = 45;
 const NODES_PER_DECADE = 20;
 const SCENE = {
   spectral: { fromNm: 380, toNm: 780, stepNm: 20 },
-  angles: { fromDeg: 36, toDeg: 56, stepDeg: 0.05 },
+  // From 30°: inside the primary, large drops' profiles move fast with the sun's elevation near ψ 35° (measured).
+  angles: { fromDeg: 30, toDeg: 56, stepDeg: 0.05 },
   output: { normalise: "physical" },
 };
 const RATES_MM_PER_H = (process.env.ARC_COLOUR_RATES ?? "2,25").split(",").map(Number);
@@ -128,7 +129,7 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
       "",
       `Written by \`npm run bench:arc-colour\` (bench/arc-colour.ts), ${benchDate()}; ${machineLine()}; 2 worker threads; one-minute`,
       `load average ${load.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end; ${seconds.toFixed(0)} s in all. Equilibrium shapes without canting (sharper`,
-      `bows than the default 7.5°), ${NODES_PER_DECADE} radius nodes per decade, 380–780 nm every 20 nm, ψ 36–56° at 0.05°, sun ${SUN_DEG}° with CIE D65 light (a spectrum at the ground, whose colour does not follow the elevation: only the rows do). CIEDE2000 per`,
+      `bows than the default 7.5°), ${NODES_PER_DECADE} radius nodes per decade, 380–780 nm every 20 nm, ψ ${SCENE.angles.fromDeg}–${SCENE.angles.toDeg}° at ${SCENE.angles.stepDeg}°, sun ${SUN_DEG}° with CIE D65 light (a spectrum at the ground, whose colour does not follow the elevation: only the rows do). CIEDE2000 per`,
       "angle on XYZ scaled by the reference's peak Y. Rounding rows: a request half a step away is served the lattice point's",
       "rows; the truth there is taken as the mean of the two neighbouring lattice points' spectra. Blend rows: the views' blend",
       `of two arc nodes ${ARC_NODE_STEP_DEG}° apart (the views' spacing) and half that, half-way between them, against the profile computed there.`,
