@@ -24,7 +24,8 @@ export const EQUILIBRIUM_NOTE =
  * equilibrium shapes, no canting, D65 light: bench/arc-colour.ts, BENCHMARKS.md arc-colour) half a step costs ΔE2000
  * 0.20 worst, 0.05 mean for the sun's 0.25°, but 1.33 worst, 0.18 mean for an arc step of 0.5°: the arc step is 0.125°
  * (measured: 0.35 worst, 0.05 mean). On Marshall–Palmer 25 mm/h half a step costs 0.73 (sun) and 1.02 (arc 0.125°)
- * at worst, both at ψ 36.25° near the window's edge, 0.11–0.12 on average: not yet below 0.5 there. The finer arc step costs no work: a request's rows are
+ * at worst over ψ 36–56° (0.11–0.12 on average), and over ψ 33–40° the sun's half step 4.05 at ψ 34.95° (0.49 on
+ * average), where that shower's luminance moves by 7 % per 0.25° of elevation: not below 0.5 for heavy rain. The finer arc step costs no work: a request's rows are
  * one arc position's either way, and views take theirs at nodes 5° apart (pipeline/compute/arc-nodes.ts), on the
  * lattice; profile requests share rows only within 0.0625° of arc position instead of 0.25°.
  */
