@@ -20,12 +20,11 @@ export const EQUILIBRIUM_NOTE =
  * on 2 mm drops (axis ratio 0.93, sun 10°): the fold angles move by 0.22° per degree of arc position at arc 45°
  * (most) and by 0.24° per degree of sun elevation, so half a step moves them by at most 0.014° (arc) and 0.03° (sun). In colour
  * (bench/shape-colour.ts, BENCHMARKS.md): one step moves a profile of 2 mm drops at arc 45° by ΔE2000 up to 15 (sun)
- * and 29 (arc) at the bow's sharp edge, 1.1 and 1.9 on average (single sizes). On a shower (Marshall–Palmer 2 mm/h,
- * equilibrium shapes, no canting, D65 light: bench/arc-colour.ts, BENCHMARKS.md arc-colour) half a step costs ΔE2000
- * 0.20 worst, 0.05 mean for the sun's 0.25°, but 1.33 worst, 0.18 mean for an arc step of 0.5°: the arc step is 0.125°
- * (measured: 0.35 worst, 0.05 mean). On Marshall–Palmer 25 mm/h half a step costs 0.73 (sun) and 1.02 (arc 0.125°)
- * at worst over ψ 36–56° (0.11–0.12 on average), and over ψ 33–40° the sun's half step 4.05 at ψ 34.95° (0.49 on
- * average), where that shower's luminance moves by 7 % per 0.25° of elevation: not below 0.5 for heavy rain. The finer arc step costs no work: a request's rows are
+ * and 29 (arc) at the bow's sharp edge, 1.1 and 1.9 on average (single sizes). On showers (Marshall–Palmer 2 mm/h,
+ * equilibrium shapes, no canting, D65 light, ψ 36–56°: bench/arc-colour.ts, BENCHMARKS.md arc-colour) half an arc
+ * step of 0.5° cost 1.33 worst, 0.18 mean: the arc step is 0.125°. Over ψ 30–56° half a step still costs 0.97 (arc)
+ * and 1.34 (sun) at worst on 2 mm/h, 4.0 and 4.0 on 25 mm/h, near ψ 35° where those showers' luminance moves by 7 %
+ * per 0.25° of elevation; 0.07–0.23 on average: not below 0.5 at worst. The finer arc step costs no work: a request's rows are
  * one arc position's either way, and views take theirs at nodes 5° apart (pipeline/compute/arc-nodes.ts), on the
  * lattice; profile requests share rows only within 0.0625° of arc position instead of 0.25°.
  */
