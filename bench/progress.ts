@@ -108,8 +108,10 @@ function shapedPlaneCosts(): { shapedPlane: number; shapedPlaneSample: number; s
   const spec = quantiseSpec({ kind: "equilibrium", cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 90, rayOnly: false });
   const runs = smoke ? 1 : 3;
   let radiusUm = 2000;
-  const coarseMs = timed(() => void kernelRows(task("airy", [radiusUm++], SPAN, spec)), runs);
-  const fineMs = timed(() => void kernelRows(task("airy", [radiusUm++], FINE_SPAN, spec)), runs);
+  // One plane traced at the drop's own index (a task of the service traces INDEX_NODES fixed ones and interpolates).
+  const direct = { ...spec, traceEveryIndex: true };
+  const coarseMs = timed(() => void kernelRows(task("airy", [radiusUm++], SPAN, direct)), runs);
+  const fineMs = timed(() => void kernelRows(task("airy", [radiusUm++], FINE_SPAN, direct)), runs);
   const perBinNs = ((fineMs - coarseMs) * 1e6) / (samplesIn(FINE_SPAN) - samples);
   if (perBinNs <= 0) console.log(`flattened-drop plane: ${coarseMs.toFixed(1)} ms at ${samples} bins, ${fineMs.toFixed(1)} ms at ${samplesIn(FINE_SPAN)}: no cost per bin to fit`);
   const spectrum = (radius: number): KernelRowsInput => {

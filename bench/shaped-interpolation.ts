@@ -1,8 +1,8 @@
 // npm run bench:shape-index: what interpolating flattened drops' scattering planes across the refractive index costs
 // in accuracy and saves in time (issue 13). Each workload is computed twice in this process, side by side on the same
-// 2 worker threads: as the service computes it (a task holds one shape at every wavelength; each plane is traced at
-// INDEX_NODES indices, the others interpolated: lib/rays/sweep-interpolation.ts) and with every task cut into one task
-// per wavelength (each plane traced at its own index, as before). Compared: the spectral profile (|Δ| over the peak, per
+// 2 worker threads: as the service computes it (each plane traced at the INDEX_NODES fixed indices TRACED_INDICES,
+// every wavelength's interpolated from those: lib/rays/sweep-interpolation.ts) and with every task cut into one task
+// per wavelength, each plane traced at its own index (ShapedRowSpec.traceEveryIndex). Compared: the spectral profile (|Δ| over the peak, per
 // wavelength and angle) and the colour, CIEDE2000 per sample (Luo, Cui & Rigg 2001, via colorjs.io) on CIE 1931 XYZ
 // scaled by the direct profile's peak Y, as bench/shape-colour.ts does. Times are wall times of cold profiles (fresh
 // kernel caches) and CPU time of the process and its threads; the ratio is the measured gain.
@@ -17,9 +17,9 @@ import { profileRequestSchema } from "../schemas/profile.js";
 import { computeProfile, type ProfileResult } from "../pipeline/compute/profile.js";
 import { KernelService, type KernelCompute } from "../pipeline/kernels/kernel-service.js";
 import { createWorkerPool } from "../pipeline/kernels/worker-pool.js";
-import type { KernelTaskResult } from "../pipeline/kernels/kernel-types.js";
+import type { KernelTask, KernelTaskResult } from "../pipeline/kernels/kernel-types.js";
 import { deltaE2000 } from "../lib/colour/delta-e.js";
-import { INDEX_NODES } from "../lib/bow/shaped-rows.js";
+import { INDEX_NODES, TRACED_INDICES } from "../lib/bow/shaped-rows.js";
 
 interface Workload {
   name: string;
@@ -32,15 +32,20 @@ const WORKLOADS: Workload[] = [
   { name: "2 mm equilibrium drops, canting 7.5°, arc 45°", body: { drops: { kind: "monodisperse", radiusUm: 2000, numberPerM3: 1000, shape: { kind: "equilibrium" } }, arcPositionDeg: 45 } },
 ];
 
-/** The pool's compute with every task of several wavelengths cut into one task per wavelength (the direct reference). */
+/** Items as the direct reference computes them: each flattened drop's plane traced at its own index. */
+function tracedDirectly(items: KernelTask["items"]): KernelTask["items"] {
+  return items.map((item) => ({ ...item, medium: undefined, ...(item.shape ? { shape: { ...item.shape, traceEveryIndex: true } } : {}) }));
+}
+
+/** The pool's compute with every task of several wavelengths cut into one task per wavelength, each plane traced at its own index (the direct reference). */
 function perWavelength(compute: KernelCompute): KernelCompute {
   return async (task, signal) => {
     const media = [...new Set(task.items.map((item) => item.medium ?? task.medium))];
-    if (media.length === 1) return compute({ ...task, medium: media[0], items: task.items.map(({ medium: _, ...item }) => item) }, signal);
+    if (media.length === 1) return compute({ ...task, medium: media[0], items: tracedDirectly(task.items) }, signal);
     const parts = await Promise.all(
       media.map((medium) => {
         const indices = task.items.flatMap((item, k) => ((item.medium ?? task.medium) === medium ? [k] : []));
-        return compute({ ...task, medium, items: indices.map((k) => ({ ...task.items[k], medium: undefined })) }, signal).then((result) => ({ indices, result }));
+        return compute({ ...task, medium, items: tracedDirectly(indices.map((k) => task.items[k])) }, signal).then((result) => ({ indices, result }));
       }),
     );
     const rows: KernelTaskResult["rows"] = new Array(task.items.length);
@@ -119,9 +124,10 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
       "",
       `Written by \`npm run bench:shape-index\` (bench/shaped-interpolation.ts), ${benchDate()}; ${machineLine()}; 2 worker threads;`,
       `one-minute load average ${load.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end. Default wavelengths (380–780 nm every`,
-      `10 nm) and angles, sun 10°, monodisperse. "Interpolated": as the service computes (planes traced at ${INDEX_NODES} indices per task, the`,
-      "other wavelengths' sweeps interpolated, samples the error estimate does not trust traced again); \"direct\": the same",
-      "requests with every task cut into one per wavelength (each plane traced at its own index), run next in the same process.",
+      `10 nm) and angles, sun 10°, monodisperse. "Interpolated": as the service computes (planes traced at ${INDEX_NODES} fixed indices,`,
+      `${TRACED_INDICES[0].toFixed(4)}–${TRACED_INDICES[INDEX_NODES - 1].toFixed(4)}, Chebyshev nodes over water's index at 360–830 nm, −10–100 °C, 0–35 PSU; every`,
+      "wavelength's sweeps interpolated, samples the error estimate does not trust traced again); \"direct\": the same",
+      "requests with every task cut into one per wavelength, each plane traced at its own index, run next in the same process.",
       "Cold wall times on fresh caches, one run each, and the CPU time of the process and its threads (the machine is shared:",
       "the ratios are the figures to read). |Δ|: worst over",
       "wavelengths and angles of the spectral profile, over its peak. ΔE2000 per angle on XYZ scaled by the direct profile's peak Y.",

@@ -48,13 +48,11 @@ function planeCount(body: Record<string, unknown>, threads = 2): PlaneCount {
   const canting = cantingNodesFive(spec.cantingSdDeg).length;
   const nodes = plan.shapes.filter((s) => s !== undefined).length;
   const shapes = spec.kind === "spheroid" ? 1 : nodes;
-  // Fewer shapes than threads: each shape's wavelengths are split into chunks, each tracing its own indices.
+  // Fewer shapes than threads: each shape's wavelengths are split into chunks, each tracing the fixed indices again.
   const chunks = Math.min(wavelengths, Math.ceil(threads / shapes));
-  const perChunk = wavelengths / chunks;
-  const tracedPerChunk = perChunk > INDEX_NODES ? INDEX_NODES : perChunk;
   return {
-    traced: Math.round(shapes * canting * chunks * tracedPerChunk),
-    interpolated: perChunk > INDEX_NODES ? shapes * canting * wavelengths : 0,
+    traced: shapes * canting * chunks * INDEX_NODES,
+    interpolated: shapes * canting * wavelengths,
     before: nodes * wavelengths * canting,
   };
 }
@@ -76,7 +74,7 @@ function planeCpuMs(): { tracedMs: number; interpolatedMs: number } {
   };
   // Another radius each time, so that nothing is shared between the runs; the first run warms the code.
   cpu(() => shapedRows(spec, [drop(999, media[0])], thetaDeg, 0.05));
-  const tracedMs = cpu(() => shapedRows(spec, [drop(1000, media[20])], thetaDeg, 0.05));
+  const tracedMs = cpu(() => shapedRows({ ...spec, traceEveryIndex: true }, [drop(1000, media[20])], thetaDeg, 0.05));
   const allMs = cpu(() => shapedRows(spec, media.map((m) => drop(1001, m)), thetaDeg, 0.05));
   return { tracedMs, interpolatedMs: Math.max(0, (allMs - INDEX_NODES * tracedMs) / media.length) };
 }

@@ -12,6 +12,7 @@ import { addUniformBowBins, uniformBowTable, type UniformBowTable } from "./airy
 import { AIRY_BOW_ORDERS, RAY_ORDERS, type DropEngine } from "./volume-scattering.js";
 import { cellSampleRadiusUm, type CellAverage } from "./cell-average.js";
 import type { DropMedium } from "../water/drop-medium.js";
+import type { RowArena } from "./row-arena.js";
 
 export type { CellAverage } from "./cell-average.js";
 
@@ -22,7 +23,8 @@ export interface DropRowContext {
   waveNumberPerM: number;
   thetaDeg: Float64Array;
   cosTheta: Float64Array;
-  amplitudes: MieAmplitudes;
+  /** dropRow's buffer for one drop's S1, S2, allocated on its first use (the many-drops path never needs it). */
+  amplitudes?: MieAmplitudes;
   raysAll: RayBins | null;
   /** Everything in the airy engine that scales as x²: orders 0, 1, and the bows' orders where they are ray optics. */
   raysAiryEngine: RayBins | null;
@@ -73,7 +75,6 @@ export function dropRowContext(
     waveNumberPerM: waveNumberPerM(medium),
     thetaDeg,
     cosTheta: thetaDeg.map((t) => Math.cos((t * Math.PI) / 180)),
-    amplitudes: allocateAmplitudes(thetaDeg.length),
     raysAll: engines.has("geometric") ? rayOpticsBins(n, rayOrders, thetaDeg, stepDeg) : null,
     raysAiryEngine,
     bowTables,
@@ -102,7 +103,7 @@ export function dropRow(ctx: DropRowContext, engine: DropEngine, radiusUm: numbe
     for (let s = 0; s < samples; s++) {
       const xs = samples === 1 ? x : ctx.waveNumberPerM * cellSampleRadiusUm(radiusUm, average!, s) * 1e-6;
       const c = dropCoefficients(ctx, xs);
-      const a = mieAmplitudes(c, ctx.cosTheta, ctx.amplitudes);
+      const a = mieAmplitudes(c, ctx.cosTheta, (ctx.amplitudes ??= allocateAmplitudes(nTheta)));
       for (let j = 0; j < nTheta; j++) {
         perp[j] += share * (a.s1Re[j] * a.s1Re[j] + a.s1Im[j] * a.s1Im[j]);
         par[j] += share * (a.s2Re[j] * a.s2Re[j] + a.s2Im[j] * a.s2Im[j]);
@@ -133,6 +134,7 @@ export function mieRows(
   ctx: DropRowContext,
   drops: readonly { radiusUm: number; average?: CellAverage }[],
   cosTheta: Float64Array = ctx.cosTheta,
+  arena?: RowArena,
 ): { rows: { perp: Float64Array; par: Float64Array }[]; termAngles: number } {
   const nTheta = cosTheta.length;
   const sizes: { drop: number; x: number; share: number }[] = [];
@@ -143,8 +145,12 @@ export function mieRows(
       sizes.push({ drop: i, x: ctx.waveNumberPerM * radiusUm * 1e-6, share: 1 / samples });
     }
   });
-  const rows = drops.map(() => ({ perp: new Float64Array(nTheta), par: new Float64Array(nTheta) }));
-  const outs = Array.from({ length: Math.min(MIE_SIZES_PER_PASS, sizes.length) }, () => allocateAmplitudes(nTheta));
+  // With an arena (row-arena.ts) the rows and the passes' amplitudes are its scratch arrays, valid until its reset.
+  const row = () => (arena ? arena.take(nTheta) : new Float64Array(nTheta));
+  const rows = drops.map(() => ({ perp: row(), par: row() }));
+  const outs = Array.from({ length: Math.min(MIE_SIZES_PER_PASS, sizes.length) }, () =>
+    arena ? { s1Re: arena.take(nTheta, false), s1Im: arena.take(nTheta, false), s2Re: arena.take(nTheta, false), s2Im: arena.take(nTheta, false) } : allocateAmplitudes(nTheta),
+  );
   let termAngles = 0;
   for (let first = 0; first < sizes.length; first += MIE_SIZES_PER_PASS) {
     const pass = sizes.slice(first, first + MIE_SIZES_PER_PASS);

@@ -10,6 +10,10 @@ import type { MieSampling } from "./mie-sub-lattice.js";
 import type { DropMedium } from "../water/drop-medium.js";
 import { shapeGroupKey, shapedRows, shapedVariant, type ShapedRowSpec } from "./shaped-rows.js";
 import { orderVariant } from "./scattering-orders.js";
+import { RowArena } from "./row-arena.js";
+
+/** This thread's scratch rows for the Lorenz–Mie rows of its tasks (one task at a time per thread). */
+const threadArena = new RowArena();
 
 export interface KernelRowsInput {
   medium: DropMedium;
@@ -73,37 +77,36 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   }
   // Lorenz–Mie drops all at once (the angular functions shared among them), the other engines drop by drop.
   const mieIndices = items.flatMap((item, index) => (item.engine === "mie" && !item.shape ? [index] : []));
-  const mie = mieLatticeRows(ctx, mieIndices.map((i) => items[i]), { h, lo, hi }, input.mieSampling);
+  const mie = mieLatticeRows(ctx, mieIndices.map((i) => items[i]), { h, lo, hi }, input.mieSampling, threadArena);
   const mieRowOf = new Map(mieIndices.map((item, k) => [item, mie.rows[k]]));
   let mieTermAngles = mie.termAngles;
   const shaped = shapedItemRows(items, medium, thetaDeg, h);
   const rows = items.map((item, index) => {
-    const computed = mieRowOf.get(index);
-    const flattened = shaped.get(index);
-    let scale = perDrop;
-    if (flattened) {
-      perp.set(flattened.perp);
-      par.set(flattened.par);
-      scale = 1 / (2 * waveNumberPerM(item.medium ?? medium) ** 2);
-    } else if (computed) {
-      perp.set(computed.perp);
-      par.set(computed.par);
-    } else mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
+    // The computed rows are read where they are (no copy into perp, par).
+    const source = shaped.get(index) ?? mieRowOf.get(index) ?? { perp, par };
+    const scale = item.shape ? 1 / (2 * waveNumberPerM(item.medium ?? medium) ** 2) : perDrop;
+    if (source.perp === perp) mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
     return item.blocks.map((b) => {
       const at = positions.get(b)!;
       const count = at.length;
       const pack = packRows.get(`${variants[index]}|${b}`)!;
       const row = pack.buffer.subarray(pack.used, pack.used + 2 * count);
       pack.used += 2 * count;
-      for (let k = 0; k < count; k++) {
-        const j = at[k];
-        row[k] = j < 0 ? NOT_COMPUTED : scale * perp[j];
-        row[count + k] = j < 0 ? NOT_COMPUTED : scale * par[j];
-      }
+      copyScaled(source.perp, source.par, at, scale, row);
       return row;
     });
   });
   return { rows, mieTermAngles };
+}
+
+/** A block's β⊥ then β∥ into row: scale × the Θ-grid rows at the block's positions (NOT_COMPUTED where −1). */
+function copyScaled(perp: Float64Array, par: Float64Array, at: Int32Array, scale: number, row: Float64Array): void {
+  const count = at.length;
+  for (let k = 0; k < count; k++) {
+    const j = at[k];
+    row[k] = j < 0 ? NOT_COMPUTED : scale * perp[j];
+    row[count + k] = j < 0 ? NOT_COMPUTED : scale * par[j];
+  }
 }
 
 /**

@@ -7,6 +7,7 @@ import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
 import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
 import { chebyshevNodes, interpolateSweep } from "../rays/sweep-interpolation.js";
+import { WATER_INDEX_RANGE } from "../water/index-range.js";
 import { contextFromSweeps, shapedPlaneRow, shapedPlaneSweeps, shapedPlaneTracer } from "./shaped-plane-rows.js";
 
 /** Drops below this radius stay spheres under "equilibrium": see EQUILIBRIUM_NOTE. */
@@ -41,6 +42,11 @@ export interface ShapedRowSpec {
   arcPositionDeg: number;
   /** True: ray optics only (method "geometric"); false: Airy-type bows. */
   rayOnly: boolean;
+  /**
+   * Benchmarks and tests only: each plane traced at the drop's own index instead of interpolated from TRACED_INDICES
+   * (the reference the interpolation is measured against).
+   */
+  traceEveryIndex?: boolean;
 }
 
 export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
@@ -52,17 +58,19 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (3: a task's
- * wavelengths share planes traced at INDEX_NODES indices; 2: bow pairs read off the sweep, rows move by ≤ 2e-3
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (4: every plane
+ * interpolated from planes traced at the fixed TRACED_INDICES; 3: a task's wavelengths share planes traced at
+ * INDEX_NODES indices across the task's own range; 2: bow pairs read off the sweep, rows move by ≤ 2e-3
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 3;
+export const SHAPED_ENGINE_VERSION = 4;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
   const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : spec.deformationStep ? `eq${spec.deformationStep}` : "eq";
-  return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}`;
+  const direct = spec.traceEveryIndex ? ":direct" : "";
+  return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}${direct}`;
 }
 
 /** A kernel row variant (rowVariant) with the shape of a drop that is not a sphere appended: its rows are other rows. */
@@ -89,24 +97,27 @@ function shapesOf(spec: ShapedRowSpec, radiusUm: number): { radiusUm: number; we
 }
 
 /**
- * Refractive indices traced per shape and canting node when a task asks for more wavelengths than this; the others'
- * sweeps are interpolated (lib/rays/sweep-interpolation.ts). Measured on one plane of 1 mm equilibrium drops (sun 10°,
- * arc 45°, no canting, Θ 125–155° at 0.05°, 41 wavelengths 380–780 nm) against tracing every wavelength: worst bin
- * 1.9e-3, 2.7e-3, 2.0e-3, 2.7e-3 of the peak with 3, 4, 5, 6 nodes, but 3180, 2570, 600, 430 of ~8000 samples a plane
- * traced again (the error estimate fails more often with fewer nodes), so 5 is the cheapest. The worst bins are
- * ray-optics bins at the grid's edge, where the engine itself moves by 1–5e-2 of the peak when the pupil is sampled
- * with 3990 instead of 4000 half-segments; in colour, ΔE2000 stays below 0.1 (BENCHMARKS.md, shape-index), and a
- * smooth case agrees to ~1e-12 (test/lib/bow/shaped-rows.test.ts).
+ * Refractive indices every plane is traced at, per shape and canting node; the sweep at a drop's own index is
+ * interpolated from them (lib/rays/sweep-interpolation.ts). They are fixed for all requests, INDEX_NODES Chebyshev
+ * nodes over the whole span of water's index the service's inputs can give (WATER_INDEX_RANGE), so that a row depends
+ * only on its drop, plane and wavelength, never on which other wavelengths shared its task. Measured on one plane
+ * (1 and 2 mm equilibrium drops, sun 10°, arc 0° and 45°, no canting, Θ 125–155° at 0.05°, 41 wavelengths 380–780 nm
+ * at 15 °C) against tracing every wavelength: samples traced again per plane (of ~24,000) 2280, 653, 1963 with 5
+ * nodes over this span, 838, 589, 1105 with 7, –, 580, 1029 with 8, and 604, –, 878 with 5 nodes over the task's
+ * own span (the old way): 7 nodes cost about what 5 did over the wider span, with fewer samples the error estimate
+ * distrusts. Worst bin 2e-2 of the peak, at a secondary bow's sharp edge, where the engine itself moves by 1–5e-2
+ * when the pupil is sampled with 3990 instead of 4000 half-segments; in colour see BENCHMARKS.md, shape-index.
  */
-export const INDEX_NODES = 5;
+export const INDEX_NODES = 7;
+export const TRACED_INDICES: readonly number[] = chebyshevNodes(WATER_INDEX_RANGE.min, WATER_INDEX_RANGE.max, INDEX_NODES);
 
 /**
  * Interpolated samples are checked (and traced at n where the check fails) unless every traced index sends their light
  * to one side of the grid, more than this beyond it. Θ at a fixed pupil point moves monotonically with n (each
  * refraction turns the ray further as n grows, Snell's law), so at an index between the nodes such a sample stays on
- * that side; past the outermost of 5 Chebyshev nodes (at cos 18° = 0.951 of the half-range, so at most 0.049 of it
- * beyond, about 13 % of the spacing to the next node) Θ moves on by about 13 % of the node-to-node shift, which was at
- * most 3.4° near grazing (1 mm drops, 380–780 nm, measured): about 0.5°, inside 2°.
+ * that side; past the outermost of 7 Chebyshev nodes (at cos(π/14) = 0.975 of the half-range, so 4.8e-4 in n beyond
+ * it, 13 % of the 3.7e-3 to the next node) Θ moves on by about 13 % of the node-to-node shift, which was at most 3.4°
+ * per 3e-3 of n near grazing (1 mm drops, 380–780 nm, measured): about 0.6°, inside 2°.
  */
 const NEAR_MARGIN_DEG = 2;
 const DEG = Math.PI / 180;
@@ -121,9 +132,9 @@ export interface ShapedDrop {
 /**
  * The canting mean of |S1|², |S2|² for flattened drops (a spheroid's fixed axis ratio, or equilibrium drops, each its
  * own shape or blended from shape nodes: ShapedRowSpec.deformationStep) at any wavelengths, on bins of width stepDeg
- * centred on thetaDeg (ascending, uniform). Each scattering plane is traced once per shape and canting node: at each distinct index when there are at most INDEX_NODES of
- * them, else at INDEX_NODES Chebyshev nodes across their range, the sweeps at the other indices interpolated from
- * those. Everything then scales with x (shapedPlaneRow), so drops of one shape and index share one context.
+ * centred on thetaDeg (ascending, uniform). Each scattering plane is traced once per shape and canting node at
+ * TRACED_INDICES, the sweeps at the drops' own indices interpolated from those (spec.traceEveryIndex: traced at each
+ * drop's index instead). Everything then scales with x (shapedPlaneRow), so drops of one shape and index share one context.
  */
 export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number): { perp: Float64Array; par: Float64Array }[] {
   const out = drops.map(() => ({ perp: new Float64Array(thetaDeg.length), par: new Float64Array(thetaDeg.length) }));
@@ -141,11 +152,11 @@ export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], th
     const outline = outlineFor(spec, shapeRadiusUm);
     const users = drops.flatMap((drop, d) => uses[d].filter((s) => s.radiusUm === shapeRadiusUm).map((s) => ({ drop, d, weight: s.weight })));
     const indices = [...new Set(users.map((u) => u.drop.mRe))].sort((a, b) => a - b);
-    const interpolate = indices.length > INDEX_NODES;
-    const traced = interpolate ? chebyshevNodes(indices[0], indices[indices.length - 1], INDEX_NODES) : indices;
+    const interpolate = spec.traceEveryIndex !== true;
+    const traced = interpolate ? TRACED_INDICES : indices;
     for (const node of cantingNodesFive(spec.cantingSdDeg)) {
       const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
-      // One canting node's sweeps at a time: memory stays at INDEX_NODES planes' sweeps (~10 MB), whatever the task.
+      // One canting node's sweeps at a time: memory stays at INDEX_NODES planes' sweeps (~14 MB), whatever the task.
       const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
       for (const mRe of indices) {
         const tracer = interpolate ? shapedPlaneTracer({ outline, axis, n: mRe }, plane, options) : null;

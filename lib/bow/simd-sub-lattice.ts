@@ -14,12 +14,16 @@ interface Kernel {
 const PAGE_BYTES = 65536;
 const kernel = instantiateKernel("sub-lattice", "exact") as Kernel | null;
 
+/** The weights table held at the start of the memory, and how many of its values. */
+let loadedWeights: Float64Array | null = null;
+let loadedLength = 0;
+
 /** Whether the WebAssembly interpolation runs here (WebAssembly SIMD present). */
 export const simdSubLatticeAvailable = kernel !== null;
 
 /**
  * As interpolateSubLattice (same arguments, same values to the bit); false, with the outputs untouched, where
- * WebAssembly SIMD is missing.
+ * WebAssembly SIMD is missing. The weights are held by identity between calls: a table must not change in place.
  */
 export function interpolateSubLatticeSimd(
   ...[coarseA, coarseB, qLo, c, weights, lo, hi, outA, outB, points = SUB_LATTICE_POINTS]: Parameters<typeof interpolateSubLattice>
@@ -35,7 +39,13 @@ export function interpolateSubLatticeSimd(
   const have = kernel.memory.buffer.byteLength;
   if (have < bytes) kernel.memory.grow(Math.ceil((bytes - have) / PAGE_BYTES));
   const memory = new Float64Array(kernel.memory.buffer);
-  memory.set(weights.subarray(0, c * points), 0);
+  // The weights stay at the start of the memory from call to call (the drops of one c-group share them): copied
+  // only when they are another table (growing the memory keeps its contents).
+  if (loadedWeights !== weights || loadedLength !== c * points) {
+    memory.set(weights.subarray(0, c * points), 0);
+    loadedWeights = weights;
+    loadedLength = c * points;
+  }
   for (let q = 0; q < nodes; q++) {
     memory[coarseAt + 2 * q] = coarseA[q];
     memory[coarseAt + 2 * q + 1] = coarseB[q];

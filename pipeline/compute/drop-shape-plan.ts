@@ -33,7 +33,7 @@ const ENGINE =
 const ACCURACY =
   "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); planes interpolated across the refractive index from 5 traced ones: worst ΔE2000 below 0.1 against tracing every wavelength (BENCHMARKS.md, shape-index)";
 const DEFAULT_NOTE =
-  "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (5 traced + 41 interpolated) scattering planes, 1,500 traced at about 0.17 s of CPU each and 12,300 interpolated across the refractive index at about 0.02 s, projected at about 4½ minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
+  "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (7 traced + 41 interpolated) scattering planes, 2,100 traced at about 0.17 s of CPU each and 12,300 interpolated across the refractive index at about 0.02 s, projected at about 5 minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
 
 /** deformationStep: equilibrium drops blended from shape nodes (ShapedRowSpec.deformationStep; studies only). */
 export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, deformationStep?: number): ShapePlan {
@@ -96,15 +96,14 @@ export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
 
 /**
  * Term-angle equivalent of a plan's flattened rows: per shape (each flattened radius node of equilibrium drops; one
- * for a spheroid, whose radii share their planes) and canting node, min(W, INDEX_NODES) traced planes and, past
- * INDEX_NODES wavelengths, W interpolated ones. A request of one shape split across threads traces its nodes once per
- * thread (pipeline/kernels/kernel-service.ts): up to 2× more traced planes than counted here.
+ * for a spheroid, whose radii share their planes) and canting node, INDEX_NODES traced planes (at the fixed
+ * TRACED_INDICES) and W interpolated ones.
  */
 export function shapedCostTermAngles(plan: ShapePlan, wavelengths: number, bins: number): number {
   const spec = plan.shapes.find((s) => s !== undefined);
   if (!spec) return 0;
   const shapes = spec.kind === "spheroid" ? 1 : plan.shapes.filter((s) => s !== undefined).length;
-  const traced = Math.min(wavelengths, INDEX_NODES) * SHAPED_TRACED_TERM_ANGLES_PER_BIN;
-  const interpolated = wavelengths > INDEX_NODES ? wavelengths * SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN : 0;
+  const traced = INDEX_NODES * SHAPED_TRACED_TERM_ANGLES_PER_BIN;
+  const interpolated = wavelengths * SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN;
   return shapes * cantingNodesFive(spec.cantingSdDeg).length * bins * (traced + interpolated);
 }

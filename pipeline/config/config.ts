@@ -1,6 +1,7 @@
 import { availableParallelism } from "node:os";
 import { isAbsolute, join } from "node:path";
 import { positiveFromEnv } from "./env.js";
+import { AUTO_MIE_BUDGET_TERM_ANGLES, AUTO_SHARE_COST_FACTOR } from "../../lib/bow/engine-choice.js";
 // The job and Redis settings (REDIS_URL, JOB_*) live in pipeline/jobs/job-config.ts.
 import { loadJobConfig, type JobConfig } from "../jobs/job-config.js";
 
@@ -48,7 +49,7 @@ export function loadConfig(env: NodeJS.ProcessEnv): Config {
     logLevel: env.LOG_LEVEL || "info",
     bodyLimitBytes: positiveFromEnv(env, "BODY_LIMIT_BYTES", 1_048_576),
     maxTermAngles: positiveFromEnv(env, "MAX_TERM_ANGLES", 200_000_000),
-    maxProfileTermAngles: positiveFromEnv(env, "MAX_PROFILE_TERM_ANGLES", 3_000_000_000),
+    maxProfileTermAngles: positiveFromEnv(env, "MAX_PROFILE_TERM_ANGLES", AUTO_SHARE_COST_FACTOR * AUTO_MIE_BUDGET_TERM_ANGLES),
     workers: env.WORKERS === "0" ? 0 : positiveFromEnv(env, "WORKERS", Math.max(1, availableParallelism())),
     cacheDir: env.CACHE_DIR ?? ".cache/antisolar",
     cacheBudgetMb: positiveFromEnv(env, "CACHE_BUDGET_MB", 512),

@@ -26,8 +26,7 @@ export const COST_NS = {
    */
   shapedPlane: 2.7e8,
   /**
-   * A plane interpolated across the refractive index from the traced ones (lib/rays/sweep-interpolation.ts, a task of
-   * more than INDEX_NODES wavelengths): about a fifth of a traced plane, measured on the same machine (2026-12-03
+   * A plane interpolated across the refractive index from the traced ones (lib/rays/sweep-interpolation.ts): about a fifth of a traced plane, measured on the same machine (2026-12-03
    * 12:40 UTC, CPU time at load average ~7) on 1–2 mm equilibrium drops over Θ 125–155°: traced 120–230 ms, interpolated
    * 25–65 ms (interpolation, the samples traced again, and the bow tables).
    */
@@ -88,12 +87,12 @@ export function weightDrift(measuredNs: Partial<Record<WorkPiece, number>>, inUs
 
 /**
  * Estimated cost of one kernel row over `samples` lattice points (a flattened drop's: shape given, at one of
- * `wavelengths` that its task shares: at most INDEX_NODES planes are traced per shape, the rest interpolated).
+ * `wavelengths` that share its shape's planes: INDEX_NODES planes are traced per shape and canting node, shared among
+ * them, and every wavelength's plane is interpolated from those).
  */
 export function kernelRowCostNs(engine: DropEngine, sizeParameter: number, samples: number, averagedSizes = 1, shape?: ShapedRowSpec, wavelengths = 1): number {
   if (shape) {
-    const interpolated = wavelengths > INDEX_NODES;
-    const plane = interpolated ? (COST_NS.shapedPlane * INDEX_NODES) / wavelengths + COST_NS.shapedInterpolatedPlane : COST_NS.shapedPlane;
+    const plane = (COST_NS.shapedPlane * INDEX_NODES) / wavelengths + COST_NS.shapedInterpolatedPlane;
     return cantingNodesFive(shape.cantingSdDeg).length * (plane + COST_NS.shapedPlaneSample * samples);
   }
   if (engine === "mie") return COST_NS.mieTermAngle * mieTermCount(sizeParameter) * samples * averagedSizes;

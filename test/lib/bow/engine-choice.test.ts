@@ -75,11 +75,12 @@ describe("cost-aware auto: exact Mie within the budget, Airy only beyond it", ()
     // Never below the budget's switch, and never below a share none of the nodes reaches: all Mie.
     expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 21, 0.6).airyFromUm).toBe(800);
     expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 14, 0.1).airyFromUm).toBe(Infinity);
-    // The share rule's Mie work stops at AUTO_SHARE_COST_FACTOR times the budget: with budget 6 (switch at 120 µm), at 12: the nodes below 400 µm cost 15.
-    expect(AUTO_SHARE_COST_FACTOR).toBe(2);
-    const capped = chooseAutoEngine(radiiUm, nodeCost, largeDrops, 6, 0.6);
+    // The share rule's Mie work stops at AUTO_SHARE_COST_FACTOR times the budget: with budget 5 (no node above the
+    // 100 µm floor fits), at 12.5: the nodes below 400 µm cost 15.
+    expect(AUTO_SHARE_COST_FACTOR).toBe(2.5);
+    const capped = chooseAutoEngine(radiiUm, nodeCost, largeDrops, 5, 0.6);
     expect(capped.airyFromUm).toBe(200);
-    expect(capped.rule).toMatch(/Mie below 200 µm \(past the budget's 120 µm, as far as 2 times the budget reaches: Airy theory still serves 75 % of the drops' cross-section\)/);
+    expect(capped.rule).toMatch(/Mie below 200 µm \(past the budget's 100 µm, as far as 2.5 times the budget reaches: Airy theory still serves 75 % of the drops' cross-section\)/);
     // Share 1: the budget alone (answers whose rows share it).
     expect(chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 1).airyFromUm).toBe(200);
     const choice = chooseAutoEngine(radiiUm, nodeCost, largeDrops, 10, 0.6);

@@ -53,8 +53,8 @@ describe("a scattering plane traces only the part of the pupil whose light reach
   }, 600_000);
 });
 
-describe("a task's wavelengths share planes traced at a few refractive indices", () => {
-  it("rows of 1 mm equilibrium drops at 11 wavelengths (5 traced indices, the rest interpolated) equal direct tracing within 1e-3 of the peak", () => {
+describe("every wavelength's plane is interpolated from planes traced at fixed refractive indices", () => {
+  it("rows of 1 mm equilibrium drops at 11 wavelengths (interpolated from TRACED_INDICES) equal direct tracing within 1e-6 of the peak", () => {
     // Water's index over 400–700 nm (Daimon & Masumura 2007 at 20 °C rounded, from memory): n falls from 1.3395 to
     // 1.3312; the interpolation is across n, so any smooth run of indices serves.
     const indices = Array.from({ length: 11 }, (_, l) => 1.3395 - (0.0083 * l) / 10);
@@ -63,14 +63,27 @@ describe("a task's wavelengths share planes traced at a few refractive indices",
     const together = shapedRows(spec, drops, thetaDeg, 0.1);
     let worst = 0;
     drops.forEach((drop, l) => {
-      const direct = row(spec, drop.x, drop.radiusUm, drop.mRe);
+      const direct = row({ ...spec, traceEveryIndex: true }, drop.x, drop.radiusUm, drop.mRe);
       const mine = Array.from(together[l].perp, (v, j) => v + together[l].par[j]);
       const peak = Math.max(...direct);
       mine.forEach((v, j) => (worst = Math.max(worst, Math.abs(v - direct[j]) / peak)));
     });
-    // Measured: 6e-13 of the peak (5 Chebyshev nodes over Δn = 0.008: Lagrange's error ~ (Δn/2)⁵·f⁽⁵⁾/(2⁴·5!), and
+    // Measured: 6e-13 of the peak (7 Chebyshev nodes over Δn = 0.038: Lagrange's error ~ (Δn/2)⁷·f⁽⁷⁾/(2⁶·7!), and
     // the samples it does not trust are traced at n). Bound: 1e-6, far below the sphere limit's 1e-3.
     expect(worst).toBeLessThanOrEqual(1e-6);
+  }, 600_000);
+
+  it("a drop's row does not depend on the other wavelengths computed with it: bit for bit", () => {
+    const spec: ShapedRowSpec = { kind: "equilibrium", cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 45, rayOnly: false };
+    const drop = { radiusUm: 800, mRe: 1.3361, x: 9000 };
+    const alone = shapedRows(spec, [drop], thetaDeg, 0.1)[0];
+    // With other indices before it: more than INDEX_NODES over a wide spread (the old nodes spanned a task's own
+    // indices, so these moved them), and one close by.
+    for (const others of [[1.344, 1.342, 1.34, 1.338, 1.331, 1.329, 1.327, 1.325], [1.3365]]) {
+      const mixed = shapedRows(spec, [...others.map((mRe) => ({ ...drop, mRe })), drop], thetaDeg, 0.1)[others.length];
+      expect(Array.from(mixed.perp)).toEqual(Array.from(alone.perp));
+      expect(Array.from(mixed.par)).toEqual(Array.from(alone.par));
+    }
   }, 600_000);
 });
 

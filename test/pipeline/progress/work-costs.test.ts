@@ -2,14 +2,18 @@
 // that its new measurement puts more than 2× away (stale) or out of proportion with the others.
 import { describe, it, expect } from "vitest";
 import { COST_NS, kernelRowCostNs, weightDrift } from "../../../pipeline/progress/work-costs.js";
-import { quantiseSpec } from "../../../lib/bow/shaped-rows.js";
+import { INDEX_NODES, quantiseSpec } from "../../../lib/bow/shaped-rows.js";
 
 describe("work costs", () => {
   it("prices a flattened drop's row per scattering plane (one per canting node), whatever its sphere engine", () => {
     const canted = quantiseSpec({ kind: "equilibrium", cantingSdDeg: 7, sunElevationDeg: 10, arcPositionDeg: 90, rayOnly: false });
     const upright = { ...canted, cantingSdDeg: 0 };
-    const plane = COST_NS.shapedPlane + 600 * COST_NS.shapedPlaneSample;
+    // One wavelength alone: the INDEX_NODES traced planes are all its own, and its plane is interpolated from them.
+    const plane = INDEX_NODES * COST_NS.shapedPlane + COST_NS.shapedInterpolatedPlane + 600 * COST_NS.shapedPlaneSample;
     expect(kernelRowCostNs("airy", 20000, 600, 1, upright)).toBeCloseTo(plane, 6);
+    // 41 wavelengths share the traced planes.
+    const shared = (INDEX_NODES * COST_NS.shapedPlane) / 41 + COST_NS.shapedInterpolatedPlane + 600 * COST_NS.shapedPlaneSample;
+    expect(kernelRowCostNs("airy", 20000, 600, 1, upright, 41)).toBeCloseTo(shared, 6);
     // The five-point canting rule (lib/drops/shape/canting.ts): five planes.
     expect(kernelRowCostNs("mie", 20000, 600, 1, canted)).toBeCloseTo(5 * plane, 6);
     // The fixed part makes a short row cost more per sample than a long one.
