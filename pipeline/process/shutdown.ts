@@ -9,11 +9,20 @@ export interface ShutdownDeadlines {
 }
 
 /**
+ * The least time kept at the end of the grace: what a stopping worker may spend after it abandons its job, each step
+ * bounded (pipeline/jobs/redis-worker.ts): the give-back's two Redis commands and, when the job stays in hand (a
+ * finished render waiting for an absent Redis to store it), dropping the connection, 0.5 s each, then 0.25 s kept
+ * before the exit for stopping the kernel threads; 2 s leaves room for the event loop (our choice).
+ */
+export const LEAST_CLOSING_RESERVE_MS = 2000;
+
+/**
  * The time kept at the end of the grace for giving work back and closing connections: a quarter of the grace, at
- * most 3 s (our choice: a give-back is two Redis commands, each bounded by 0.5 s).
+ * least LEAST_CLOSING_RESERVE_MS and at most 3 s (our choice), never more than the grace itself.
  */
 export function deadlines(graceMs: number, startedAt: number = Date.now()): ShutdownDeadlines {
-  return { abandonAt: startedAt + graceMs - Math.min(3000, graceMs / 4), exitAt: startedAt + graceMs };
+  const reserveMs = Math.min(graceMs, Math.min(3000, Math.max(LEAST_CLOSING_RESERVE_MS, graceMs / 4)));
+  return { abandonAt: startedAt + graceMs - reserveMs, exitAt: startedAt + graceMs };
 }
 
 export function exitOnSignals(options: {
