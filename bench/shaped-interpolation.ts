@@ -1,6 +1,6 @@
 // npm run bench:shape-index: what interpolating flattened drops' scattering planes across the refractive index costs
 // in accuracy and saves in time (issue 13). Each workload is computed twice in this process, side by side on the same
-// 2 worker threads: as the service computes it (each plane traced at the INDEX_NODES fixed indices TRACED_INDICES,
+// 2 worker threads: as the service computes it (each plane traced at the INDEX_NODES indices of the water, tracedIndices,
 // every wavelength's interpolated from those: lib/rays/sweep-interpolation.ts) and with every task cut into one task
 // per wavelength, each plane traced at its own index (ShapedRowSpec.traceEveryIndex). Compared: the spectral profile (|Δ| over the peak, per
 // wavelength and angle) and the colour, CIEDE2000 per sample (Luo, Cui & Rigg 2001, via colorjs.io) on CIE 1931 XYZ
@@ -19,7 +19,8 @@ import { KernelService, type KernelCompute } from "../pipeline/kernels/kernel-se
 import { createWorkerPool } from "../pipeline/kernels/worker-pool.js";
 import type { KernelTask, KernelTaskResult } from "../pipeline/kernels/kernel-types.js";
 import { deltaE2000 } from "../lib/colour/delta-e.js";
-import { INDEX_NODES, TRACED_INDICES } from "../lib/bow/shaped-rows.js";
+import { INDEX_NODES, tracedIndices } from "../lib/bow/shaped-rows.js";
+import { waterIndexSpan } from "../lib/water/index-range.js";
 
 interface Workload {
   name: string;
@@ -118,14 +119,15 @@ export async function benchShapeIndex(): Promise<ShapeIndexRow[]> {
 if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
   const load = loadavg()[0];
   const rows = await benchShapeIndex();
+  const nodes = tracedIndices({ kind: "equilibrium", cantingSdDeg: 0, sunElevationDeg: 0, arcPositionDeg: 0, rayOnly: false, indexSpan: waterIndexSpan({ temperatureC: 15, salinityPsu: 0 }) });
   if (process.argv.includes("--write")) {
     writeMarkedSection("shape-index", [
       "## Flattened drops: planes traced at a few refractive indices, interpolated to every wavelength",
       "",
       `Written by \`npm run bench:shape-index\` (bench/shaped-interpolation.ts), ${benchDate()}; ${machineLine()}; 2 worker threads;`,
       `one-minute load average ${load.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end. Default wavelengths (380–780 nm every`,
-      `10 nm) and angles, sun 10°, monodisperse. "Interpolated": as the service computes (planes traced at ${INDEX_NODES} fixed indices,`,
-      `${TRACED_INDICES[0].toFixed(4)}–${TRACED_INDICES[INDEX_NODES - 1].toFixed(4)}, Chebyshev nodes over water's index at 360–830 nm, −10–100 °C, 0–35 PSU; every`,
+      `10 nm) and angles, sun 10°, monodisperse, fresh water at 15 °C. "Interpolated": as the service computes (planes traced at ${INDEX_NODES} indices,`,
+      `${nodes[0].toFixed(4)}–${nodes[INDEX_NODES - 1].toFixed(4)}, Chebyshev nodes over this water's index at 360–830 nm; every`,
       "wavelength's sweeps interpolated, samples the error estimate does not trust traced again); \"direct\": the same",
       "requests with every task cut into one per wavelength, each plane traced at its own index, run next in the same process.",
       "Cold wall times on fresh caches, one run each, and the CPU time of the process and its threads (the machine is shared:",

@@ -48,10 +48,16 @@ export interface ShapedRowSpec {
   /** True: ray optics only (method "geometric"); false: Airy-type bows. */
   rayOnly: boolean;
   /**
-   * Benchmarks and tests only: each plane traced at the drop's own index instead of interpolated from TRACED_INDICES
+   * Benchmarks and tests only: each plane traced at the drop's own index instead of interpolated from tracedIndices
    * (the reference the interpolation is measured against).
    */
   traceEveryIndex?: boolean;
+  /**
+   * The span of the drops' index the traced indices cover: the request's water over every wavelength a request may ask
+   * for (lib/water/index-range.ts waterIndexSpan), so that the indices depend on the water alone; absent: the span
+   * over every water the service accepts (WATER_INDEX_RANGE).
+   */
+  indexSpan?: { min: number; max: number };
 }
 
 export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
@@ -63,19 +69,21 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (4: every plane
- * interpolated from planes traced at the fixed TRACED_INDICES; 3: a task's wavelengths share planes traced at
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (5: traced at
+ * INDEX_NODES indices over the water's own span, indexSpan; 4: every plane interpolated from planes traced at 7 fixed
+ * indices over WATER_INDEX_RANGE; 3: a task's wavelengths share planes traced at
  * INDEX_NODES indices across the task's own range; 2: bow pairs read off the sweep, rows move by ≤ 2e-3
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 4;
+export const SHAPED_ENGINE_VERSION = 5;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
   const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : spec.deformationStep ? `eq${spec.deformationStep}` : "eq";
   const direct = spec.traceEveryIndex ? ":direct" : "";
-  return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}${direct}`;
+  const span = spec.indexSpan ? `:n${spec.indexSpan.min}-${spec.indexSpan.max}` : "";
+  return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}${span}${direct}`;
 }
 
 /** A kernel row variant (rowVariant) with the shape of a drop that is not a sphere appended: its rows are other rows. */
@@ -102,28 +110,34 @@ function shapesOf(spec: ShapedRowSpec, radiusUm: number): { radiusUm: number; we
 }
 
 /**
- * Refractive indices every plane is traced at, per shape and canting node; the sweep at a drop's own index is
- * interpolated from them (lib/rays/sweep-interpolation.ts). They are fixed for all requests, INDEX_NODES Chebyshev
- * nodes over the whole span of water's index the service's inputs can give (WATER_INDEX_RANGE), so that a row depends
- * only on its drop, plane and wavelength, never on which other wavelengths shared its task. Measured on one plane
- * (1 and 2 mm equilibrium drops, sun 10°, arc 0° and 45°, no canting, Θ 125–155° at 0.05°, 41 wavelengths 380–780 nm
- * at 15 °C) against tracing every wavelength: samples traced again per plane (of ~24,000) 2280, 653, 1963 with 5
- * nodes over this span, 838, 589, 1105 with 7, –, 580, 1029 with 8, and 604, –, 878 with 5 nodes over the task's
- * own span (the old way): 7 nodes cost about what 5 did over the wider span, with fewer samples the error estimate
- * distrusts. Worst bin 2e-2 of the peak, at a secondary bow's sharp edge, where the engine itself moves by 1–5e-2
- * when the pupil is sampled with 3990 instead of 4000 half-segments. In colour, on whole profiles (1 and 2 mm drops,
- * canting 7.5°, 380–780 nm every 10 nm): worst ΔE2000 0.075, mean ≤ 0.0022 (BENCHMARKS.md, shape-index).
+ * Refractive indices every plane is traced at, per shape and canting node: INDEX_NODES Chebyshev nodes over the span
+ * of the drops' water's index across every wavelength a request may ask for (spec.indexSpan), the sweep at a drop's own
+ * index interpolated from them (lib/rays/sweep-interpolation.ts). They depend on the water alone, so that a row
+ * depends only on its drop, plane, wavelength and water, never on which other wavelengths shared its task. Measured
+ * on one plane (1 and 2 mm equilibrium drops, sun 10°, arc 0° and 45°, no canting, Θ 125–155° at 0.05°, 41
+ * wavelengths 380–780 nm at 15 °C) against tracing every wavelength: samples traced again per plane (of ~24,000) 2280,
+ * 653, 1963 with 5 nodes over WATER_INDEX_RANGE (every water the service accepts, twice one water's span), 838, 589,
+ * 1105 with 7 over it, and 604, –, 878 with 5 over a task's own span at 380–780 nm. On P4 (1 mm drops, canting 7.5°,
+ * top of the bow, 41 wavelengths; one thread, CPU): 7 nodes over WATER_INDEX_RANGE 10.9 s, 5 over the water's span
+ * 7.5 s but worst ΔE2000 0.51 at the top of the bow, 7 over the water's span 7.9 s and worst ΔE2000 0.069
+ * (BENCHMARKS.md, shape-index), 5 over the task's span (before fixed nodes) 7.0 s.
  */
 export const INDEX_NODES = 7;
-export const TRACED_INDICES: readonly number[] = chebyshevNodes(WATER_INDEX_RANGE.min, WATER_INDEX_RANGE.max, INDEX_NODES);
+
+/** The indices a spec's planes are traced at (see INDEX_NODES). */
+export function tracedIndices(spec: ShapedRowSpec): readonly number[] {
+  const span = spec.indexSpan ?? WATER_INDEX_RANGE;
+  return chebyshevNodes(span.min, span.max, INDEX_NODES);
+}
 
 /**
  * Interpolated samples are checked (and traced at n where the check fails) unless every traced index sends their light
  * to one side of the grid, more than this beyond it. Θ at a fixed pupil point moves monotonically with n (each
  * refraction turns the ray further as n grows, Snell's law), so at an index between the nodes such a sample stays on
- * that side; past the outermost of 7 Chebyshev nodes (at cos(π/14) = 0.975 of the half-range, so 4.8e-4 in n beyond
- * it, 13 % of the 3.7e-3 to the next node) Θ moves on by about 13 % of the node-to-node shift, which was at most 3.4°
- * per 3e-3 of n near grazing (1 mm drops, 380–780 nm, measured): about 0.6°, inside 2°.
+ * that side; past the outermost of 7 Chebyshev nodes over one water's span of 0.019–0.020 (at cos(π/14) = 0.975 of the
+ * half-range, so 2.5e-4 in n beyond it, 13 % of the 1.9e-3 to the next node) Θ moves on by about 13 % of the
+ * node-to-node shift, which was at most 3.4° per 3e-3 of n near grazing (1 mm drops, 380–780 nm, measured): about
+ * 0.3°, inside 2° (over WATER_INDEX_RANGE, specs without indexSpan: 4.8e-4 beyond, 13 % of 3.7e-3, about 0.6°).
  */
 const NEAR_MARGIN_DEG = 2;
 const DEG = Math.PI / 180;
@@ -146,7 +160,7 @@ export interface ShapedPlaneCount {
  * all), weighted by the node's weight, for flattened drops (a spheroid's fixed axis ratio, or equilibrium drops, each
  * its own shape or blended from shape nodes: ShapedRowSpec.deformationStep) at any wavelengths, on bins of width
  * stepDeg centred on thetaDeg (ascending, uniform): rows[drop][k] for the k-th node asked for. Each scattering plane is
- * traced once per shape and canting node at TRACED_INDICES, the sweeps at the drops' own indices interpolated from
+ * traced once per shape and canting node at tracedIndices(spec), the sweeps at the drops' own indices interpolated from
  * those (spec.traceEveryIndex: traced at each drop's index instead). Everything then scales with x (shapedPlaneRow),
  * so drops of one shape and index share one context. A node's share is computed alone (its own sum over shapes), so
  * it is the same whichever other nodes are computed with it: kernel tasks split by canting node
@@ -178,7 +192,7 @@ export function shapedNodeRows(
     const users = drops.flatMap((drop, d) => uses[d].filter((s) => s.radiusUm === shapeRadiusUm).map((s) => ({ drop, d, weight: s.weight })));
     const indices = [...new Set(users.map((u) => u.drop.mRe))].sort((a, b) => a - b);
     const interpolate = spec.traceEveryIndex !== true;
-    const traced = interpolate ? TRACED_INDICES : indices;
+    const traced = interpolate ? tracedIndices(spec) : indices;
     asked.forEach((nodeIndex, k) => {
       const node = allNodes[nodeIndex];
       const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);

@@ -17,6 +17,7 @@ import {
   type ShapedPlaneCount,
   type ShapedRowSpec,
 } from "../../lib/bow/shaped-rows.js";
+import { waterIndexSpan } from "../../lib/water/index-range.js";
 
 /** Where along the bow a profile of flattened drops is taken when the request does not say: its side. */
 export const DEFAULT_ARC_POSITION_DEG = 90;
@@ -32,7 +33,7 @@ export interface ShapePlan {
 const ENGINE =
   "3D ray tracing through the drop (Fresnel coefficients for both polarisations, orders 0–3) with the primary and secondary bows in the uniform Airy form per scattering plane (Chester, Friedman & Ursell 1957; Berry & Mount 1972), phases and amplitudes from the traced rays";
 const ACCURACY =
-  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); planes interpolated across the refractive index from 7 traced at fixed indices: worst ΔE2000 0.075 against tracing every wavelength (BENCHMARKS.md, shape-index)";
+  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); planes interpolated across the refractive index from 7 traced at indices fixed by the water: worst ΔE2000 0.069 against tracing every wavelength (BENCHMARKS.md, shape-index)";
 const DEFAULT_NOTE =
   "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (7 traced + 41 interpolated) scattering planes, 2,100 traced at about 0.17 s of CPU each and 12,300 interpolated across the refractive index at about 0.02 s, projected at about 5 minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
 
@@ -55,6 +56,7 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
     sunElevationDeg: request.sun.elevationDeg,
     arcPositionDeg,
     rayOnly: request.method === "geometric",
+    indexSpan: waterIndexSpan(request.water),
   });
   const shapes = Array.from(radiiUm, (r) => (shape.kind === "spheroid" || r >= FLATTENED_FROM_RADIUS_UM ? spec : undefined));
   const flattenedRadii = Array.from(radiiUm).filter((_, i) => shapes[i] !== undefined);
@@ -98,7 +100,7 @@ export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
 /**
  * Scattering planes a plan's flattened rows trace and interpolate, cold: per shape (each flattened radius node of
  * equilibrium drops; one for a spheroid, whose radii share their planes) and canting node, INDEX_NODES traced planes
- * (at the fixed TRACED_INDICES) and one interpolated per wavelength. A shape's task split across threads is split by
+ * (at the water's tracedIndices) and one interpolated per wavelength. A shape's task split across threads is split by
  * canting node (pipeline/kernels/canting-parts.ts): no plane is traced twice.
  */
 export function shapedPlaneCounts(plan: ShapePlan, wavelengths: number): ShapedPlaneCount {

@@ -1,5 +1,5 @@
 // A kernel task of one flattened-drop shape spread over several threads by canting node: each part traces its
-// nodes' planes (at the fixed refractive indices, lib/bow/shaped-rows.ts TRACED_INDICES) for every wavelength, and the
+// nodes' planes (at the water's refractive-index nodes, lib/bow/shaped-rows.ts tracedIndices) for every wavelength, and the
 // rows are their shares added in node order. Split by wavelength instead, every part would trace every node's planes.
 
 import { cantingNodesFive } from "../../lib/drops/shape/canting.js";

@@ -54,7 +54,7 @@ describe("a scattering plane traces only the part of the pupil whose light reach
 });
 
 describe("every wavelength's plane is interpolated from planes traced at fixed refractive indices", () => {
-  it("rows of 1 mm equilibrium drops at 11 wavelengths (interpolated from TRACED_INDICES) equal direct tracing within 1e-6 of the peak", () => {
+  it("rows of 1 mm equilibrium drops at 11 wavelengths (interpolated from tracedIndices) equal direct tracing within 1e-6 of the peak", () => {
     // Water's index over 400–700 nm (Daimon & Masumura 2007 at 20 °C rounded, from memory): n falls from 1.3395 to
     // 1.3312; the interpolation is across n, so any smooth run of indices serves.
     const indices = Array.from({ length: 11 }, (_, l) => 1.3395 - (0.0083 * l) / 10);

@@ -110,7 +110,7 @@ describe("kernel tasks of flattened drops", () => {
     const { rows, seen } = await rowsAndTasks(radiiUm);
     expect(seen.length).toBe(1);
     expect(new Set(seen[0].items.map((item) => item.medium!.wavelengthNm)).size).toBe(8);
-    // Every plane is interpolated from the same fixed indices (TRACED_INDICES), whatever else its task holds.
+    // Every plane is interpolated from the same indices (tracedIndices: the water's), whatever else its task holds.
     expect(worstAgainstAlone(rows, radiiUm)).toBe(0);
   }, 600_000);
 
