@@ -1,8 +1,9 @@
 // node dist/bench/shaped-parts.js (after npm run build): the CPU time of each part of a flattened-drop task split
 // across threads (pipeline/kernels/canting-parts.ts: one part per canting node and order group), measured on P4
 // (bench/profiles.ts) with every part run on this thread one after another, and the CPU of the whole task unsplit in
-// the same process; prints a markdown table and checks that the split rows equal the unsplit ones bit for bit. Used to
-// set canting-parts.ts's ORDER_GROUP_COST and UPRIGHT_NODE_COST (the order the parts are queued in).
+// the same process; and checks that the split rows equal the unsplit ones bit for bit. Used to
+// set canting-parts.ts's ORDER_GROUP_COST and OUT_OF_PLANE_NODE_COST (the order the parts are queued in); writes the
+// "shaped-parts" section of BENCHMARKS.md.
 
 import { profileRequestSchema } from "../schemas/profile.js";
 import { computeProfile } from "../pipeline/compute/profile.js";
@@ -11,7 +12,8 @@ import { kernelRows } from "../lib/bow/kernel-rows.js";
 import type { KernelTask } from "../pipeline/kernels/kernel-types.js";
 import { SHAPED_ORDER_GROUPS } from "../lib/bow/shaped-rows.js";
 import { P4 } from "./profiles.js";
-import { benchDate, machineLine } from "./sections.js";
+import { loadavg } from "node:os";
+import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
 
 interface PartCpu {
   node: number;
@@ -56,17 +58,27 @@ for (let round = 0; round < 2; round++) {
   split.push(await run(2, P4.body));
 }
 const same = split.every((s) => whole.every((w) => s.perp.length === w.perp.length && s.perp.every((v, k) => Object.is(v, w.perp[k]))));
-console.log(`Measured ${date} on ${machineLine()}; P4's parts one after another on one thread (CPU ms, two runs).`);
-console.log("");
-console.log(`| canting node | ${SHAPED_ORDER_GROUPS.map((g) => `orders ${g.join(", ")}`).join(" | ")} | node total |`);
-console.log(`|---|${SHAPED_ORDER_GROUPS.map(() => "---").join("|")}|---|`);
 const nodes = [...new Set(split[0].parts.map((p) => p.node))].sort((a, b) => a - b);
-for (const node of nodes) {
-  const cells = SHAPED_ORDER_GROUPS.map((_, group) => split.map((s) => s.parts.find((p) => p.node === node && p.group === group)!.cpuMs.toFixed(0)).join(" / "));
-  const total = split.map((s) => s.parts.filter((p) => p.node === node).reduce((a, p) => a + p.cpuMs, 0).toFixed(0)).join(" / ");
-  console.log(`| ${node} | ${cells.join(" | ")} | ${total} |`);
-}
-const groupTotals = SHAPED_ORDER_GROUPS.map((_, group) => split[1].parts.filter((p) => p.group === group).reduce((a, p) => a + p.cpuMs, 0));
-console.log(`| all | ${groupTotals.map((ms) => ms.toFixed(0)).join(" | ")} | ${groupTotals.reduce((a, b) => a + b, 0).toFixed(0)} |`);
-console.log("");
-console.log(`split: ${split.map((s) => s.totalMs.toFixed(0)).join(" / ")} ms CPU; whole: ${whole.map((w) => w.totalMs.toFixed(0)).join(" / ")} ms CPU; rows bit for bit equal: ${same}`);
+const groupTotals = (s: (typeof split)[number]) => SHAPED_ORDER_GROUPS.map((_, group) => s.parts.filter((p) => p.group === group).reduce((a, p) => a + p.cpuMs, 0));
+const lines = [
+  "## Flattened drops: the CPU of each part of a split task",
+  "",
+  `Written by bench/shaped-parts.ts, ${date}, ${machineLine()}, one-minute load average ${loadavg()[0].toFixed(1)}. P4 (1 mm`,
+  "equilibrium drops, canting 7.5°, top of the bow, 41 wavelengths) cold, its one shape's task split in parts (one per",
+  "canting node and order group, pipeline/kernels/canting-parts.ts) and each part run on this thread one after another",
+  "(CPU ms, two runs); the whole task, unsplit, in the same process, alternating with the split one. Nodes: 0 upright,",
+  "1–2 tilted in the scattering plane (x–z at the top of the bow), 3–4 tilted across it. These set ORDER_GROUP_COST and",
+  "OUT_OF_PLANE_NODE_COST, the order the parts are queued in.",
+  "",
+  `| canting node | ${SHAPED_ORDER_GROUPS.map((g) => `orders ${g.join(", ")}`).join(" | ")} | node total |`,
+  `|---|${SHAPED_ORDER_GROUPS.map(() => "---").join("|")}|---|`,
+  ...nodes.map((node) => {
+    const cells = SHAPED_ORDER_GROUPS.map((_, group) => split.map((s) => s.parts.find((p) => p.node === node && p.group === group)!.cpuMs.toFixed(0)).join(" / "));
+    const total = split.map((s) => s.parts.filter((p) => p.node === node).reduce((a, p) => a + p.cpuMs, 0).toFixed(0)).join(" / ");
+    return `| ${node} | ${cells.join(" | ")} | ${total} |`;
+  }),
+  `| all | ${SHAPED_ORDER_GROUPS.map((_, g) => split.map((s) => groupTotals(s)[g].toFixed(0)).join(" / ")).join(" | ")} | ${split.map((s) => s.totalMs.toFixed(0)).join(" / ")} |`,
+  "",
+  `The whole task unsplit: ${whole.map((w) => w.totalMs.toFixed(0)).join(" / ")} ms CPU; split rows bit for bit those of the whole task: ${same ? "yes" : "NO"}.`,
+];
+writeMarkedSection("shaped-parts", lines);
