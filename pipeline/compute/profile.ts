@@ -17,7 +17,7 @@ import type { KernelRequest, KernelRows, KernelService, KernelStats } from "../k
 import { ORDER_LAYERS, type OrderLayerName } from "../../lib/bow/scattering-orders.js";
 import type { DiscKernel } from "../../lib/sun/disc.js";
 import { colourProfile, linearRgbOfXyz, polariserWeights, sunlitXyzWeights, weightedXyz, type ColourOptions, type ColourProfile } from "../../lib/bow/colour-profile.js";
-import { findBows } from "../../lib/bow/bow-peaks.js";
+import { findBows, findBowsByDispersion } from "../../lib/bow/bow-peaks.js";
 import { AUTO_MIE_BUDGET_TERM_ANGLES, autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-density.js";
@@ -458,7 +458,9 @@ export async function computeProfile(
   }
   const stats = sumStats([rows, ...orderRows].map((r) => r.stats));
   const { sunlight: sun, sunWhite, eye } = light;
-  const bows = findBows(spectral.anglesDeg, colour.luminance);
+  const bows = shapePlan.flattened
+    ? findBowsByDispersion({ anglesDeg: spectral.anglesDeg, wavelengthsNm: plan.wl, radiance: spectral.perpendicular.map((v, k) => v + spectral.parallel[k]) }, colour.luminance)
+    : findBows(spectral.anglesDeg, colour.luminance);
   progress?.complete("colour");
 
   const warnings = profileWarnings(plan, light);

@@ -14,11 +14,19 @@ import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 import { shapeGroupKey, shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
-import { computeByCantingNode } from "./canting-parts.js";
+import { computeInParts } from "./canting-parts.js";
 import { orderVariant } from "../../lib/bow/scattering-orders.js";
 import type { MieSampling } from "../../lib/bow/mie-sub-lattice.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
 import { sizeParameter } from "../progress/profile-work.js";
+
+/**
+ * Flattened drops' tasks (one per shape) are split in parts (canting-parts.ts) while there are fewer than this many
+ * shapes per thread. With this many whole tasks per thread queued, the threads end within one task of each other, an
+ * eighth of a thread's work or less, where each shape costs about the same (common practice for list scheduling: many
+ * more tasks than threads); below it, parts (15 per shape with canting, 3 without) are cheaper than idle threads.
+ */
+const UNSPLIT_SHAPES_PER_THREAD = 8;
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
 export const KERNEL_VERSION = 5;
@@ -272,10 +280,11 @@ export class KernelService {
     // Rows to compute, grouped into tasks: task key (a sphere's wavelength l, a flattened drop's shape) → l·radii + i →
     // the row's wavelength, radius and blocks. Numbers, not built strings: a cold fog profile groups ~19,000 rows here.
     const toCompute = new Map<number | string, Map<number, { l: number; i: number; bis: number[] }>>();
-    // Flattened drops' tasks: one per shape at every wavelength, split by canting node (canting-parts.ts) where there are
-    // fewer shapes than threads, so that every plane is still traced once.
+    // Flattened drops' tasks: one per shape at every wavelength; where there are few shapes for the threads, each is
+    // split in parts by canting node and order group, queued largest first (canting-parts.ts), so that every thread
+    // stays busy to the end and every plane's order is still traced once.
     const shapesMissing = new Set(shapes.some(Boolean) ? missing.flatMap(([, i]) => (shapes[i] ? [shapeGroupKey(shapes[i]!, radiiUm[i])] : [])) : []);
-    const cantingParts = Math.ceil(this.parallelism / Math.max(1, shapesMissing.size));
+    const splitShapes = this.parallelism > 1 && shapesMissing.size < UNSPLIT_SHAPES_PER_THREAD * this.parallelism;
 
     // One failed task stops this request's other tasks; the caller's signal (client gone) stops them all.
     const stop = new AbortController();
@@ -305,7 +314,12 @@ export class KernelService {
         ...(request.order === undefined ? {} : { order: request.order }),
         ...(this.mieSampling === "adaptive" ? {} : { mieSampling: this.mieSampling }),
       };
-      const computing = items[0].shape && cantingParts > 1 ? computeByCantingNode(spec, cantingParts, this.options.compute, stop.signal) : this.options.compute(spec, stop.signal);
+      const taskNs = watch.onRows ? entries.reduce((sum, { l, i, bis }) => sum + bis.reduce((s, bi) => s + cost(l, i, bi), 0), 0) : 0;
+      // A split task's progress moves part by part, by each part's estimated share of the task.
+      const inParts = items[0].shape !== undefined && splitShapes;
+      const computing = inParts
+        ? computeInParts(spec, this.options.compute, stop.signal, watch.onRows ? (share) => done(taskNs * share, false) : undefined)
+        : this.options.compute(spec, stop.signal);
       computing.catch(() => undefined);
       // The task's rows grouped by the pack they belong to (one wavelength and one block per pack).
       const byPack = new Map<string, { l: number; bi: number; rows: [radiusUm: number, item: number, block: number][] }>();
@@ -320,7 +334,6 @@ export class KernelService {
           rows.set(radiiUm[i], { task: computing, item, block, within });
         });
       });
-      const taskNs = watch.onRows ? entries.reduce((sum, { l, i, bis }) => sum + bis.reduce((s, bi) => s + cost(l, i, bi), 0), 0) : 0;
       const task = computing
         .then((result) => {
           // A task that ends after its request was cancelled keeps nothing: a cancelled job stops adding kernels.
@@ -336,7 +349,7 @@ export class KernelService {
           }
           if (watch.saveEachTask) this.queueWrites(saved);
           else toSave.push(...saved);
-          if (watch.onRows) done(taskNs, false);
+          if (watch.onRows && !inParts) done(taskNs, false);
           if (watch.onWavelength) for (const { rows: list, l } of byPack.values()) for (let k = 0; k < list.length; k++) arrived(l);
         })
         .catch((error: unknown) => {
