@@ -39,7 +39,11 @@ export interface PlaneRay {
 const PUPIL_STEP = 1e-7;
 /** |Y| below this counts as in the plane. */
 const IN_PLANE = 1e-13;
-const NEWTON_STEPS = 12;
+/** Steps of the search for v*: 12 Newton steps before chords and secants; a secant converges with order 1.6 instead of 2. */
+const SEARCH_STEPS = 16;
+
+/** Traces made by every PlaneTracer of this thread, for benchmarks (bench/plane-trace.ts): one increment per trace. */
+export const planeTraceCount = { traces: 0 };
 
 export class PlaneTracer {
   readonly setup: DropTraceSetup;
@@ -70,12 +74,15 @@ export class PlaneTracer {
     const { dIn, e } = this.plane;
     const n = this.normal;
     for (let c = 0; c < 3; c++) this.o[c] = u * e[c] + v * n[c] - this.launch * dIn[c];
+    planeTraceCount.traces++;
     traceDrop(this.upTo[p], this.o, dIn, n, this.parIn, this.trace);
     return this.trace.hit && this.trace.orders[p * ORDER_STRIDE + AT.valid] === 1;
   }
 
-  /** Y = d_out·N and Θ (signed) of the last trace's order p. */
-  private exitAngles(p: number): { y: number; theta: number } {
+  /** Y = d_out·N and Θ (signed) of the last trace's order p, into yOut and thetaOut. */
+  private yOut = 0;
+  private thetaOut = 0;
+  private exitAngles(p: number): void {
     const rec = this.trace.orders;
     const at = p * ORDER_STRIDE + AT.dir;
     const { dIn, e } = this.plane;
@@ -83,38 +90,66 @@ export class PlaneTracer {
     const dx = rec[at];
     const dy = rec[at + 1];
     const dz = rec[at + 2];
-    return {
-      y: dx * n[0] + dy * n[1] + dz * n[2],
-      theta: Math.atan2(dx * e[0] + dy * e[1] + dz * e[2], dx * dIn[0] + dy * dIn[1] + dz * dIn[2]),
-    };
+    this.yOut = dx * n[0] + dy * n[1] + dz * n[2];
+    this.thetaOut = Math.atan2(dx * e[0] + dy * e[1] + dz * e[2], dx * dIn[0] + dy * dIn[1] + dz * dIn[2]);
   }
 
   /**
-   * The ray of order p through pupil abscissa u that leaves in the plane, starting Newton's search at vGuess;
-   * null if none is found. With withDet the Jacobian determinant is computed too (one more trace).
+   * The ray of order p through pupil abscissa u that leaves in the plane, starting the search at vGuess; null if none
+   * is found. With withDet the Jacobian determinant is computed too (one more trace). slopeGuess (∂Y/∂v of a ray
+   * nearby) lets the search step as a chord and then a secant (Press et al. 2007 §9.2: one trace a step instead of the
+   * two a finite-difference Newton step costs); without it, or where a step does not at least halve |Y|, the slope is
+   * taken by a finite difference at the current point. ∂Y/∂v of the ray found is always the forward difference at it.
    */
-  planeRay(u: number, vGuess: number, p: number, withDet = false): PlaneRay | null {
+  planeRay(u: number, vGuess: number, p: number, withDet = false, slopeGuess = Number.NaN): PlaneRay | null {
     let v = vGuess;
     let y = 0;
-    let yv = 0;
     let theta = 0;
-    let thetaV = 0;
+    // The slope the next step uses, and the finite difference at v when it was taken there (NaN otherwise).
+    let slope = slopeGuess !== 0 && Number.isFinite(slopeGuess) ? slopeGuess : Number.NaN;
+    let yv = Number.NaN;
+    let thetaV = Number.NaN;
+    let vLast = Number.NaN;
+    let yLast = Number.NaN;
     let converged = false;
-    for (let step = 0; step < NEWTON_STEPS; step++) {
-      if (!this.traceAt(u, v + PUPIL_STEP, p)) return null;
-      const ahead = this.exitAngles(p);
-      if (!this.traceAt(u, v, p)) return null;
-      const here = this.exitAngles(p);
-      y = here.y;
-      theta = here.theta;
-      yv = (ahead.y - y) / PUPIL_STEP;
-      thetaV = unwrap(ahead.theta - theta) / PUPIL_STEP;
+    for (let step = 0; step < SEARCH_STEPS; step++) {
+      const differentiate = Number.isNaN(slope);
+      if (differentiate) {
+        if (!this.traceAt(u, v + PUPIL_STEP, p)) return null;
+        this.exitAngles(p);
+        const aheadY = this.yOut;
+        const aheadTheta = this.thetaOut;
+        if (!this.traceAt(u, v, p)) return null;
+        this.exitAngles(p);
+        y = this.yOut;
+        theta = this.thetaOut;
+        yv = (aheadY - y) / PUPIL_STEP;
+        thetaV = unwrap(aheadTheta - theta) / PUPIL_STEP;
+        slope = yv;
+      } else {
+        if (!this.traceAt(u, v, p)) return null;
+        this.exitAngles(p);
+        y = this.yOut;
+        theta = this.thetaOut;
+        yv = Number.NaN;
+        // Secant through the last two points; a chord step with the guessed slope before there are two.
+        if (!Number.isNaN(vLast) && v !== vLast) slope = (y - yLast) / (v - vLast);
+      }
       if (Math.abs(y) < IN_PLANE) {
         converged = true;
         break;
       }
-      if (!(yv !== 0 && Number.isFinite(yv))) return null;
-      v -= y / yv;
+      // A step that did not at least halve |Y| (a poor slope): the next one differentiates where it is.
+      if (!differentiate && !Number.isNaN(yLast) && !(Math.abs(y) <= 0.5 * Math.abs(yLast))) slope = Number.NaN;
+      if (Number.isNaN(slope)) {
+        vLast = Number.NaN;
+        yLast = Number.NaN;
+        continue;
+      }
+      if (!(slope !== 0 && Number.isFinite(slope))) return null;
+      vLast = v;
+      yLast = y;
+      v -= y / slope;
     }
     if (!converged) return null;
     // The trace of (u, v) is the last one made: read its fields and path before any other trace.
@@ -141,12 +176,18 @@ export class PlaneTracer {
     const exit: Vec3 = [rec[base + AT.point], rec[base + AT.point + 1], rec[base + AT.point + 2]];
     const path = rec[base + AT.path];
     const offset = exit[0] * parOut[0] + exit[1] * parOut[1] + exit[2] * parOut[2];
+    if (Number.isNaN(yv) || (withDet && Number.isNaN(thetaV))) {
+      if (!this.traceAt(u, v + PUPIL_STEP, p)) return null;
+      this.exitAngles(p);
+      yv = (this.yOut - y) / PUPIL_STEP;
+      thetaV = unwrap(this.thetaOut - theta) / PUPIL_STEP;
+    }
     let det = Number.NaN;
     if (withDet) {
       if (!this.traceAt(u + PUPIL_STEP, v, p)) return null;
-      const side = this.exitAngles(p);
-      const thetaU = unwrap(side.theta - theta) / PUPIL_STEP;
-      const yu = (side.y - y) / PUPIL_STEP;
+      this.exitAngles(p);
+      const thetaU = unwrap(this.thetaOut - theta) / PUPIL_STEP;
+      const yu = (this.yOut - y) / PUPIL_STEP;
       det = thetaU * yv - thetaV * yu;
     }
     return {
@@ -162,8 +203,14 @@ export class PlaneTracer {
     };
   }
 
-  /** Largest u (along e, at v = 0) whose ray meets the drop: the pupil's half-width, by bisection. */
+  private readonly halfWidths = new Map<number, number>();
+  /**
+   * Largest u (along e, at v = 0) whose ray meets the drop: the pupil's half-width, by bisection. It does not depend
+   * on the order or the index (the reflected order leaves wherever the ray meets the drop): found once per side.
+   */
   pupilHalfWidth(sign: 1 | -1): number {
+    const known = this.halfWidths.get(sign);
+    if (known !== undefined) return known;
     let lo = 0;
     let hi = this.setup.outline.maxRadius * 1.01;
     for (let it = 0; it < 60; it++) {
@@ -171,6 +218,7 @@ export class PlaneTracer {
       if (this.traceAt(sign * mid, 0, 0)) lo = mid;
       else hi = mid;
     }
+    this.halfWidths.set(sign, lo);
     return lo;
   }
 }
@@ -207,13 +255,70 @@ export interface SweepWindow {
   guess(u: number): number;
 }
 
+/**
+ * Where the next ray's search starts: v extrapolated in the sample index s from the last rays found in a row (the
+ * polynomial through up to PREDICTOR_RAYS of them, Press et al. 2007 §3.2 Eq. 3.2.1: v*(u) and u(s) are smooth, so
+ * the error falls as the cube of the step), and the last ray's ∂Y/∂v as the slope of the first step.
+ */
+const PREDICTOR_RAYS = 3;
+/** Rays further back than this many samples are not extrapolated from (after a run of misses): the last v is the guess. */
+const PREDICTOR_REACH = 2;
+
+export class RayPredictor {
+  private readonly s = new Float64Array(PREDICTOR_RAYS);
+  private readonly v = new Float64Array(PREDICTOR_RAYS);
+  private count = 0;
+  /** ∂Y/∂v of the last ray found (NaN before one). */
+  slope = Number.NaN;
+  /** reach: the furthest (in samples) a guess is extrapolated beyond the last ray found. */
+  constructor(private readonly reach = PREDICTOR_REACH) {}
+
+  /** Forgets the rays found (after a gap the search restarts from a guess). */
+  reset(): void {
+    this.count = 0;
+    this.slope = Number.NaN;
+  }
+
+  /** Records the ray found at sample s: its v and ∂Y/∂v (NaN if unknown). */
+  add(s: number, v: number, yv: number): void {
+    if (this.count === PREDICTOR_RAYS) {
+      this.s.copyWithin(0, 1);
+      this.v.copyWithin(0, 1);
+      this.count--;
+    }
+    this.s[this.count] = s;
+    this.v[this.count] = v;
+    this.count++;
+    this.slope = yv;
+  }
+
+  /** The starting v at sample s (fallback when no ray has been found yet). */
+  guess(s: number, fallback: number): number {
+    const k = this.count;
+    if (k === 0) return fallback;
+    const last = this.v[k - 1];
+    if (Math.abs(s - this.s[k - 1]) > this.reach) return last;
+    let sum = 0;
+    for (let i = 0; i < k; i++) {
+      let w = 1;
+      for (let j = 0; j < k; j++) if (j !== i) w *= (s - this.s[j]) / (this.s[i] - this.s[j]);
+      sum += w * this.v[i];
+    }
+    return sum;
+  }
+}
+
 /** window: trace only the rays it wants (the others stay ok = 0). */
 export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number, window?: SweepWindow): PlaneSweep {
   const sweep = emptySweep(p, new Float64Array(2 * halfSegments + 1));
+  const predictor = new RayPredictor();
   for (const sign of [1, -1] as const) {
     // The pupil's edge is found at v = 0; where the curve v*(u) bends, rays near the rim may miss and are skipped.
     const half = tracer.pupilHalfWidth(sign);
     let vGuess = 0;
+    predictor.reset();
+    // The other side starts from the central ray (s = 0 on both sides).
+    if (sign === -1 && sweep.ok[halfSegments]) predictor.add(0, sweep.v[halfSegments], Number.NaN);
     let gap = false;
     for (let s = sign === 1 ? 0 : 1; s <= halfSegments; s++) {
       const index = halfSegments + sign * s;
@@ -225,11 +330,12 @@ export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number,
       }
       if (gap) {
         vGuess = window!.guess(u);
+        predictor.reset();
         gap = false;
       }
-      const ray = tracer.planeRay(u, vGuess, p);
+      const ray = tracer.planeRay(u, predictor.guess(s, vGuess), p, false, predictor.slope);
       if (ray === null) continue;
-      vGuess = ray.v;
+      predictor.add(s, ray.v, ray.yv);
       storeRay(sweep, index, ray);
     }
   }

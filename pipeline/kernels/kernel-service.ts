@@ -61,6 +61,13 @@ export interface KernelWatch {
    * request: a background job whose worker dies resumes from them.
    */
   saveEachTask?: boolean;
+  /**
+   * Told of each wavelength l once all its rows are in hand (found, computed or borrowed), as soon as they are, with a
+   * reader of them: the caller may sum that wavelength while the other tasks still compute (the main thread is idle
+   * then). Wavelengths found whole in a cache are never told (nothing to wait for: the caller sums them after, a turn
+   * of the event loop each). May be told again if the request recomputes rows another request failed to give.
+   */
+  onWavelength?: (l: number, row: (i: number, block: number) => Float64Array) => void;
 }
 
 export interface KernelStats {
@@ -256,42 +263,32 @@ export class KernelService {
     // Rows another request is computing already are awaited, not computed twice. In-flight rows point at the
     // task that computes them (one promise per task, not per row: a cold profile has ~50,000 rows).
     const waits: Promise<void>[] = [];
-    // Rows to compute, grouped into tasks: task key → "l:i" → the row's wavelength, radius and blocks.
-    const toCompute = new Map<string, Map<string, { l: number; i: number; bis: number[] }>>();
+    // Rows still to come per wavelength: a wavelength is told (watch.onWavelength) when its count reaches zero.
+    const toCome = new Int32Array(media.length);
+    for (const [l] of missing) toCome[l]++;
+    const blockIndexOf = new Map(blocks.map((b, bi) => [b, bi]));
+    const bi0 = (b: number) => blockIndexOf.get(b)!;
+    const readerOf = (l: number) => (i: number, b: number) => found[l][bi0(b)].get(radiiUm[i])!;
+    const arrived = (l: number) => {
+      if (--toCome[l] === 0) watch.onWavelength?.(l, readerOf(l));
+    };
+    // Rows to compute, grouped into tasks: task key (a sphere's wavelength l, a flattened drop's shape) → l·radii + i →
+    // the row's wavelength, radius and blocks. Numbers, not built strings: a cold fog profile groups ~19,000 rows here.
+    const toCompute = new Map<number | string, Map<number, { l: number; i: number; bis: number[] }>>();
     // Flattened drops' tasks: one per shape at every wavelength; where there are few shapes for the threads, each is
     // split in parts by canting node and order group, queued largest first (canting-parts.ts), so that every thread
     // stays busy to the end and every plane's order is still traced once.
     const shapesMissing = new Set(missing.flatMap(([, i]) => (shapes[i] ? [shapeGroupKey(shapes[i]!, radiiUm[i])] : [])));
     const splitShapes = this.parallelism > 1 && shapesMissing.size < UNSPLIT_SHAPES_PER_THREAD * this.parallelism;
-    for (const [l, i, bi] of missing) {
-      const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
-      if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
-        waits.push(
-          pending.task.then((result) => {
-            found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block]);
-            if (watch.onRows) done(cost(l, i, bi), false);
-          }),
-        );
-        continue;
-      }
-      const taskKey = shapes[i] ? `shape|${shapeGroupKey(shapes[i]!, radiiUm[i])}` : `l${l}`;
-      let rowsOfTask = toCompute.get(taskKey);
-      if (!rowsOfTask) toCompute.set(taskKey, (rowsOfTask = new Map()));
-      let entry = rowsOfTask.get(`${l}:${i}`);
-      if (!entry) rowsOfTask.set(`${l}:${i}`, (entry = { l, i, bis: [] }));
-      entry.bis.push(bi);
-    }
 
     // One failed task stops this request's other tasks; the caller's signal (client gone) stops them all.
     const stop = new AbortController();
     setMaxListeners(0, stop.signal);
     // One listener on the caller's signal for all the requests that share it (abort-link.ts), removed below.
     const unlink = linkAbort(signal, stop);
-    // Settle borrowed rows from the start, so that their failure is never an unhandled rejection.
-    const borrowedSettled = Promise.allSettled(waits);
     const tasks: Promise<void>[] = [];
     const toSave: [string, Map<number, Float64Array>][] = [];
-    for (const rowsOfTask of toCompute.values()) {
+    const send = (rowsOfTask: Map<number, { l: number; i: number; bis: number[] }>) => {
       const entries = [...rowsOfTask.values()];
       // One wavelength per task, but for flattened drops: their tasks hold one shape's rows at many wavelengths, each
       // item then with its own medium (lib/bow/shaped-rows.ts traces a plane at a few indices and interpolates).
@@ -348,6 +345,7 @@ export class KernelService {
           if (watch.saveEachTask) this.queueWrites(saved);
           else toSave.push(...saved);
           if (watch.onRows && !inParts) done(taskNs, false);
+          if (watch.onWavelength) for (const { rows: list, l } of byPack.values()) for (let k = 0; k < list.length; k++) arrived(l);
         })
         .catch((error: unknown) => {
           stop.abort(error);
@@ -362,7 +360,41 @@ export class KernelService {
           }
         });
       tasks.push(task);
+    };
+    // Tasks are sent as soon as they are grouped: a sphere's task (one wavelength) once the rows of the next wavelength
+    // start (missing is in wavelength order), so that the threads start while the rest is grouped. Flattened drops'
+    // tasks span every wavelength: with them, every task is sent after the grouping, in the order first asked for.
+    const early = shapesMissing.size === 0;
+    let grouping = -1;
+    for (const [l, i, bi] of missing) {
+      if (early && l !== grouping) {
+        const previous = toCompute.get(grouping);
+        if (previous) send(previous);
+        toCompute.delete(grouping);
+        grouping = l;
+      }
+      const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
+      if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
+        waits.push(
+          pending.task.then((result) => {
+            found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block]);
+            if (watch.onRows) done(cost(l, i, bi), false);
+            arrived(l);
+          }),
+        );
+        continue;
+      }
+      const taskKey = shapes[i] ? `shape|${shapeGroupKey(shapes[i]!, radiiUm[i])}` : l;
+      let rowsOfTask = toCompute.get(taskKey);
+      if (!rowsOfTask) toCompute.set(taskKey, (rowsOfTask = new Map()));
+      const at = l * radiiUm.length + i;
+      let entry = rowsOfTask.get(at);
+      if (!entry) rowsOfTask.set(at, (entry = { l, i, bis: [] }));
+      entry.bis.push(bi);
     }
+    for (const rowsOfTask of toCompute.values()) send(rowsOfTask);
+    // Settle borrowed rows from the start, so that their failure is never an unhandled rejection.
+    const borrowedSettled = Promise.allSettled(waits);
     try {
       await Promise.all(tasks);
       // Tasks that ended after a cancellation kept nothing (above): the request ends with its signal's reason.
@@ -380,10 +412,9 @@ export class KernelService {
       signal?.throwIfAborted();
       return this.rows(request, signal, watch);
     }
-    const blockIndex = new Map(blocks.map((b, bi) => [b, bi]));
     return {
       get: (l, i, b) => {
-        const row = found[l][blockIndex.get(b)!].get(radiiUm[i]);
+        const row = found[l][bi0(b)].get(radiiUm[i]);
         if (!row) throw new Error(`kernel row missing for wavelength ${l}, radius ${i}, block ${b}`);
         return row;
       },

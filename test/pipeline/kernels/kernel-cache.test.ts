@@ -160,6 +160,38 @@ describe("the event loop stays free while kernels compute on worker threads", ()
   });
 });
 
+describe("wavelengths told as their rows arrive (KernelWatch.onWavelength)", () => {
+  it("each wavelength with rows to compute is told once, when all its rows are in, with the rows the request returns", async () => {
+    const inline = createInlinePool();
+    const { counter, compute } = counting(inline.compute);
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 28, compute });
+    // Every second wavelength cached whole first (its own request), so the full request computes the others only.
+    const { planProfile } = await import("../../../pipeline/compute/profile.js");
+    const plan = planProfile(body);
+    const { kernelRequest } = plan;
+    const cachedLs = kernelRequest.media.flatMap((_, l) => (l % 2 === 0 ? [l] : []));
+    await kernels.rows({ ...kernelRequest, media: cachedLs.map((l) => kernelRequest.media[l]) });
+    const before = counter.tasks;
+    const told: number[] = [];
+    const seen = new Map<number, Float64Array[]>();
+    const rows = await kernels.rows(kernelRequest, undefined, {
+      onWavelength: (l, row) => {
+        told.push(l);
+        // Read at once, as the spectral pass does: every row of the wavelength is there.
+        seen.set(l, kernelRequest.blocks.flatMap((b) => Array.from(kernelRequest.radiiUm, (_, i) => row(i, b))));
+      },
+    });
+    const computedLs = kernelRequest.media.flatMap((_, l) => (l % 2 === 1 ? [l] : []));
+    // One task per wavelength to compute; those are told, each once; the wavelengths found whole are not.
+    expect(counter.tasks - before).toBe(computedLs.length);
+    expect([...told].sort((a, b) => a - b)).toEqual(computedLs);
+    for (const [l, list] of seen) {
+      const expected = kernelRequest.blocks.flatMap((b) => Array.from(kernelRequest.radiiUm, (_, i) => rows.get(l, i, b)));
+      list.forEach((row, k) => expect(row).toBe(expected[k]));
+    }
+  });
+});
+
 describe("rows computed only where a request reads them", () => {
   // On the 0.05° lattice with the 0.533° disc, ψ 36–44° reads lattice points 713–887 and ψ 42–50° 833–1007: block 8
   // (800–899) is read in part by each and whole by neither; ψ 36–50° (713–1007) reads the union.

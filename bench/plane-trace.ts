@@ -1,0 +1,126 @@
+// node dist/bench/plane-trace.js [--against <dist root of another build>] [--rounds N] [--p4]: what one traced
+// scattering plane of a flattened drop costs (issue 13), in CPU time and in rays traced through the drop, and how far
+// its rows move, this build beside another one in the same process (alternating rounds, CPU-time medians: the
+// machine is shared). The other build is any checkout's `npm run build` output (e.g. main's, copied aside): its
+// modules are imported from there, so both run in one process on the same inputs.
+// Measured: one plane of P4's drop (1 mm equilibrium drop, top of the bow, sun as P4's request, 600 bins
+// over ψ 30–60°, upright and canted across the plane as P4's canting nodes 0 and 3) traced at one index (ShapedRowSpec.traceEveryIndex), its rows at that wavelength; with --p4 also P4
+// itself (canting 7.5°, 5 canting nodes × (7 traced + 41 interpolated) planes, lib/bow/shaped-rows.ts shapedRows).
+// Traces are counted by wrapping PlaneTracer.prototype.traceAt in a separate, untimed pass.
+
+import { pathToFileURL } from "node:url";
+import { resolve } from "node:path";
+import { median } from "./stats.js";
+import { P4 } from "./profiles.js";
+import { profileRequestSchema } from "../schemas/profile.js";
+import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
+import { toDistribution } from "../pipeline/compute/profile.js";
+import { planDropShapes } from "../pipeline/compute/drop-shape-plan.js";
+import { makeWavelengthGrid, wavelengthsNm } from "../lib/spectra/grid.js";
+import { dropMedia } from "../lib/water/drop-medium.js";
+import type { ShapedRowSpec, ShapedDrop } from "../lib/bow/shaped-rows.js";
+
+type Rows = { perp: Float64Array; par: Float64Array }[];
+interface Build {
+  name: string;
+  shapedRows: (spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number) => Rows;
+  shapedNodeRows: (spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number, nodes: number[]) => { rows: Rows[] };
+  tracerPrototype: { traceAt: (...args: number[]) => boolean };
+}
+
+async function loadBuild(name: string, root: string): Promise<Build> {
+  const at = (path: string) => import(pathToFileURL(resolve(root, path)).href);
+  const rows = await at("lib/bow/shaped-rows.js");
+  const sweep = await at("lib/rays/plane-sweep.js");
+  return { name, shapedRows: rows.shapedRows, shapedNodeRows: rows.shapedNodeRows, tracerPrototype: sweep.PlaneTracer.prototype };
+}
+
+function argument(flag: string): string | undefined {
+  const k = process.argv.indexOf(flag);
+  return k >= 0 ? process.argv[k + 1] : undefined;
+}
+
+const cpuMs = (fn: () => void): number => {
+  const t0 = process.cpuUsage();
+  fn();
+  const t = process.cpuUsage(t0);
+  return (t.user + t.system) / 1000;
+};
+
+function countTraces(build: Build, fn: () => void): number {
+  const original = build.tracerPrototype.traceAt;
+  let count = 0;
+  build.tracerPrototype.traceAt = function (this: unknown, ...args: number[]) {
+    count++;
+    return original.apply(this, args);
+  };
+  try {
+    fn();
+  } finally {
+    build.tracerPrototype.traceAt = original;
+  }
+  return count;
+}
+
+/** Largest |a − b| over the row's peak, and over |a| where |a| is at least 1e-6 of the peak, across rows. */
+function rowDifference(a: Rows, b: Rows): { overPeak: number; pointwise: number } {
+  let overPeak = 0;
+  let pointwise = 0;
+  a.forEach((row, d) => {
+    for (const key of ["perp", "par"] as const) {
+      const x = row[key];
+      const y = b[d][key];
+      const peak = x.reduce((m, v) => Math.max(m, Math.abs(v)), 0);
+      for (let j = 0; j < x.length; j++) {
+        const diff = Math.abs(x[j] - y[j]);
+        overPeak = Math.max(overPeak, diff / peak);
+        if (Math.abs(x[j]) >= 1e-6 * peak) pointwise = Math.max(pointwise, diff / Math.abs(x[j]));
+      }
+    }
+  });
+  return { overPeak, pointwise };
+}
+
+const request = profileRequestSchema.parse(P4.body);
+const quadrature = latticeRadiusQuadrature(toDistribution(request.drops));
+const p4Spec = planDropShapes(request, quadrature.radiiUm).shapes.find((s) => s !== undefined)!;
+const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
+const { media } = dropMedia(request.water, wavelengthsNm(grid));
+const thetaDeg = Float64Array.from({ length: 600 }, (_, j) => 120.025 + 0.05 * j);
+const drop = (radiusUm: number, m: (typeof media)[number]): ShapedDrop => ({ radiusUm, mRe: m.mRe, x: (2 * Math.PI * m.nAir * radiusUm) / (m.wavelengthNm * 1e-3) });
+const onePlane = { ...p4Spec, traceEveryIndex: true };
+/** One canting node's plane: 0 the upright drop (its axis in the plane: v* = 0 by symmetry), 3 tilted across the plane (1 and 2 tilt it within the plane at the top of the bow). */
+const planeOf = (b: Build, node: number) => b.shapedNodeRows(onePlane, [drop(1000, media[20])], thetaDeg, 0.05, [node]).rows[0];
+const workloads = [
+  { name: "one traced plane, upright drop (P4's drop, 580 nm)", run: (b: Build) => planeOf(b, 0) },
+  { name: `one traced plane, drop canted ${(Math.sqrt(3) * p4Spec.cantingSdDeg).toFixed(1)}° (P4's canting node 3, across the plane, 580 nm)`, run: (b: Build) => planeOf(b, 3) },
+  ...(process.argv.includes("--p4")
+    ? [{ name: `P4 (canting ${p4Spec.cantingSdDeg}°, ${media.length} wavelengths)`, run: (b: Build) => b.shapedRows(p4Spec, media.map((m) => drop(1000, m)), thetaDeg, 0.05) }]
+    : []),
+];
+
+const builds = [await loadBuild("this build", resolve(new URL("..", import.meta.url).pathname))];
+const against = argument("--against");
+if (against) builds.push(await loadBuild(`build at ${against}`, against));
+const rounds = Number(argument("--rounds") ?? 5);
+
+for (const w of workloads) {
+  // Warm-up and the untimed pass: traces counted and rows kept for the comparison.
+  const results = builds.map((b) => {
+    let rows: Rows = [];
+    const traces = countTraces(b, () => (rows = w.run(b)));
+    return { traces, rows };
+  });
+  const times: number[][] = builds.map(() => []);
+  for (let r = 0; r < rounds; r++) {
+    // Alternating order each round, so that neither build always runs after the other.
+    const order = r % 2 === 0 ? builds.map((_, k) => k) : builds.map((_, k) => builds.length - 1 - k);
+    for (const k of order) times[k].push(cpuMs(() => w.run(builds[k])));
+  }
+  console.log(`${w.name}:`);
+  builds.forEach((b, k) => console.log(`  ${b.name}: CPU median ${median(times[k]).toFixed(0)} ms (${times[k].map((t) => t.toFixed(0)).join(", ")}), ${results[k].traces} traces`));
+  if (builds.length > 1) {
+    const diff = rowDifference(results[1].rows, results[0].rows);
+    console.log(`  CPU ratio ${(median(times[0]) / median(times[1])).toFixed(3)}; rows: max |Δ| ${diff.overPeak.toExponential(2)} of the peak, ${diff.pointwise.toExponential(2)} relative (bins ≥ 1e-6 of the peak)`);
+  }
+}
