@@ -28,22 +28,27 @@ const lines = [
   `in two runs of consecutive canting nodes); new: ${commit(newTree)} (one part per canting node and order group, queued`,
   "largest first: pipeline/kernels/canting-parts.ts). Cold profile (empty kernel cache, 2 worker threads warmed by one",
   "other request, as npm run bench's P4 row), one process per build and round, the builds alternating which goes first.",
-  "Cores: the process's CPU time over the cold wall time; both builds saw the same load, which other sessions' work",
-  "put on the 2 cores (one-minute load average in each table's heading).",
+  "Cores: the process's CPU time over the cold wall time, which other processes' work on the 2 cores lowers (one-minute",
+  "load average in each table's heading; both builds saw it, round by round). Threads busy: the time the 2 worker threads",
+  "held a kernel task over the wall time (bench/profile-once.ts), which that load does not lower: what balancing",
+  "the parts changes. Tasks: kernel tasks sent to the pool.",
   "",
 ];
 for (const workload of workloads) {
-  const runs: Record<"old" | "new", { coldMs: number; coldCores: number }[]> = { old: [], new: [] };
+  type Run = { coldMs: number; coldCores: number; threadsBusy: number; tasks: number };
+  const runs: Record<"old" | "new", Run[]> = { old: [], new: [] };
   const load0 = loadavg()[0];
   const table: string[] = [];
   for (let r = 0; r < rounds; r++) {
     const order: ("old" | "new")[] = r % 2 === 0 ? ["old", "new"] : ["new", "old"];
-    for (const which of order) runs[which].push(run(which === "old" ? oldTree : newTree, workload) as { coldMs: number; coldCores: number });
+    for (const which of order) runs[which].push(run(which === "old" ? oldTree : newTree, workload) as unknown as Run);
     const [o, n] = [runs.old[r], runs.new[r]];
-    table.push(`| ${r + 1} | ${order[0]} | ${o.coldMs.toFixed(0)} | ${o.coldCores.toFixed(2)} | ${n.coldMs.toFixed(0)} | ${n.coldCores.toFixed(2)} |`);
+    const cells = (x: Run) => `${x.coldMs.toFixed(0)} | ${x.coldCores.toFixed(2)} | ${x.threadsBusy.toFixed(2)} | ${x.tasks}`;
+    table.push(`| ${r + 1} | ${order[0]} | ${cells(o)} | ${cells(n)} |`);
     console.log(workload, table.at(-1));
   }
-  const med = (which: "old" | "new", key: "coldMs" | "coldCores") => median(runs[which].map((x) => x[key]));
+  const med = (which: "old" | "new", key: "coldMs" | "coldCores" | "threadsBusy") => median(runs[which].map((x) => x[key]));
+  const medians = (which: "old" | "new") => `${med(which, "coldMs").toFixed(0)} | ${med(which, "coldCores").toFixed(2)} | ${med(which, "threadsBusy").toFixed(2)}`;
   const [a, b] = [run(oldTree, workload, "rows"), run(newTree, workload, "rows")];
   let worst = 0;
   for (const key of ["perpendicular", "parallel"]) {
@@ -55,10 +60,10 @@ for (const workload of workloads) {
   lines.push(
     `${workload === "P4" ? "P4 (1 mm equilibrium drops, canting 7.5°, top of the bow)" : "P4 with upright drops (canting 0: one canting node)"}; load average ${load0.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end.`,
     "",
-    "| round | first | old cold (ms) | old cores | new cold (ms) | new cores |",
-    "|---|---|---|---|---|---|",
+    "| round | first | old cold (ms) | old cores | old threads busy | old tasks | new cold (ms) | new cores | new threads busy | new tasks |",
+    "|---|---|---|---|---|---|---|---|---|---|",
     ...table,
-    `| median | | ${med("old", "coldMs").toFixed(0)} | ${med("old", "coldCores").toFixed(2)} | ${med("new", "coldMs").toFixed(0)} | ${med("new", "coldCores").toFixed(2)} |`,
+    `| median | | ${medians("old")} | | ${medians("new")} | |`,
     "",
     `New over old, cold wall: ${(med("new", "coldMs") / med("old", "coldMs")).toFixed(2)}. Spectral rows, largest |new − old| over their peak: ${worst.toExponential(1)} (the order groups' shares are added one by one: rounding).`,
     "",
