@@ -51,7 +51,8 @@ function surface(setup: DropTraceSetup, x: number, y: number, z: number): number
   const mu = -(x * ax + y * ay + z * az) / len;
   return len - setup.outline.radius(mu);
 }
-function surfaceGradient(setup: DropTraceSetup, x: number, y: number, z: number): void {
+/** ∇F at p, unnormalised, into grad. */
+function rawGradient(setup: DropTraceSetup, x: number, y: number, z: number): void {
   const len = Math.sqrt(x * x + y * y + z * z);
   const [ax, ay, az] = setup.axis;
   const px = x / len;
@@ -62,22 +63,19 @@ function surfaceGradient(setup: DropTraceSetup, x: number, y: number, z: number)
   grad[0] = px + k * (ax + mu * px);
   grad[1] = py + k * (ay + mu * py);
   grad[2] = pz + k * (az + mu * pz);
+}
+/** The unit outward normal at p, into grad. */
+function surfaceGradient(setup: DropTraceSetup, x: number, y: number, z: number): void {
+  rawGradient(setup, x, y, z);
   const g = Math.sqrt(grad[0] * grad[0] + grad[1] * grad[1] + grad[2] * grad[2]);
   grad[0] /= g;
   grad[1] /= g;
   grad[2] /= g;
 }
-
-/** dF/dt along unit d at p: ∇F·d with the unnormalised ∇F = p̂ + r′(μ)(axis + μ p̂)/|p| (surfaceGradient's, before scaling). */
+/** dF/dt along unit d at p: ∇F·d with the unnormalised ∇F (grad is overwritten). */
 function slopeAlong(setup: DropTraceSetup, x: number, y: number, z: number, d: Float64Array): number {
-  const len = Math.sqrt(x * x + y * y + z * z);
-  const [ax, ay, az] = setup.axis;
-  const px = x / len;
-  const py = y / len;
-  const pz = z / len;
-  const mu = -(px * ax + py * ay + pz * az);
-  const k = setup.outline.radiusSlope(mu) / len;
-  return (px + k * (ax + mu * px)) * d[0] + (py + k * (ay + mu * py)) * d[1] + (pz + k * (az + mu * pz)) * d[2];
+  rawGradient(setup, x, y, z);
+  return grad[0] * d[0] + grad[1] * d[1] + grad[2] * d[2];
 }
 
 /**
