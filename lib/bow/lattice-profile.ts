@@ -95,6 +95,26 @@ export function latticeUnitProfile(input: LatticeProfileInput): SpectralProfile 
  * so one such profile serves every sun elevation (time-of-day textures).
  */
 export function* latticeUnitProfileSteps(input: LatticeProfileInput): Generator<void, SpectralProfile> {
+  const pass = latticeUnitProfilePass(input);
+  for (let l = 0; l < input.grid.count; l++) {
+    pass.add(l, (out) => input.beta(l, out));
+    yield;
+  }
+  return pass.result();
+}
+
+/** A unit profile filled one wavelength at a time, in any order (each wavelength's column depends on its β alone). */
+export interface LatticeUnitProfilePass {
+  /** Sums wavelength l from its population β (filled into out as PopulationBeta does); again: the same column again. */
+  add(wavelengthIndex: number, beta: (out: Float64Array) => void): void;
+  /** Whether wavelength l has been added. */
+  has(wavelengthIndex: number): boolean;
+  /** The profile (columns of wavelengths never added are zero). */
+  result(): SpectralProfile;
+}
+
+/** latticeUnitProfileSteps' work as a pass that takes the wavelengths as their β become known (kernel rows arriving). */
+export function latticeUnitProfilePass(input: Omit<LatticeProfileInput, "beta">): LatticeUnitProfilePass {
   const { angles, grid, span } = input;
   const { h, first, last } = span;
   const n = last - first + 1;
@@ -119,19 +139,22 @@ export function* latticeUnitProfileSteps(input: LatticeProfileInput): Generator<
   const parallel = new Float64Array(count * nl);
   const beta = new Float64Array(2 * n);
   const smoothed = new Float64Array(2 * n);
-
-  for (let l = 0; l < nl; l++) {
-    input.beta(l, beta);
-    convolveOnLattice(beta, n, first, input.disc(l).weights, needed, smoothed);
-    for (let s = 0; s < count; s++) {
-      const k = lower[s];
-      const t = fraction[s];
-      perpendicular[s * nl + l] = smoothed[k] * (1 - t) + smoothed[k + 1] * t;
-      parallel[s * nl + l] = smoothed[n + k] * (1 - t) + smoothed[n + k + 1] * t;
-    }
-    yield;
-  }
-  return { anglesDeg, perpendicular, parallel, mieTermAngles: 0 };
+  const added = new Uint8Array(nl);
+  return {
+    add(l, fill) {
+      fill(beta);
+      convolveOnLattice(beta, n, first, input.disc(l).weights, needed, smoothed);
+      for (let s = 0; s < count; s++) {
+        const k = lower[s];
+        const t = fraction[s];
+        perpendicular[s * nl + l] = smoothed[k] * (1 - t) + smoothed[k + 1] * t;
+        parallel[s * nl + l] = smoothed[n + k] * (1 - t) + smoothed[n + k + 1] * t;
+      }
+      added[l] = 1;
+    },
+    has: (l) => added[l] === 1,
+    result: () => ({ anglesDeg, perpendicular, parallel, mieTermAngles: 0 }),
+  };
 }
 
 /** L = E_sun(λ)·s·unit (van de Hulst 1957 §1.2, single scattering): the unit profile lit by one sun spectrum. */

@@ -8,7 +8,15 @@ import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
 import { chebyshevNodes, interpolateSweep } from "../rays/sweep-interpolation.js";
 import { WATER_INDEX_RANGE } from "../water/index-range.js";
-import { contextFromSweeps, shapedPlaneRow, shapedPlaneSweeps, shapedPlaneTracer } from "./shaped-plane-rows.js";
+import {
+  contextFromSweeps,
+  SHAPED_BOW_ORDERS,
+  SHAPED_RAY_ORDERS,
+  shapedPlaneRow,
+  shapedPlaneSweeps,
+  shapedPlaneTracer,
+  type ShapedPlaneOptions,
+} from "./shaped-plane-rows.js";
 
 /** Drops below this radius stay spheres under "equilibrium": see EQUILIBRIUM_NOTE. */
 export const FLATTENED_FROM_RADIUS_UM = 150;
@@ -58,7 +66,23 @@ export interface ShapedRowSpec {
    * over every water the service accepts (WATER_INDEX_RANGE).
    */
   indexSpan?: { min: number; max: number };
+  /**
+   * Kernel tasks split across threads only (pipeline/kernels/canting-parts.ts): the share of the orders of
+   * SHAPED_ORDER_GROUPS[orderGroup] alone; absent: every order, group by group.
+   */
+  orderGroup?: number;
 }
+
+/**
+ * The scattering orders of a flattened drop's row in the groups it is computed in, each group's share on its own (its
+ * own sweeps and context, lib/bow/shaped-plane-rows.ts): reflection and transmission, the primary's order, the
+ * secondary's. Orders are independent: a ray of order p is traced no further than its p-th chord (PlaneTracer's upTo),
+ * each order's sweep has its own coarse look and window (shapedPlaneSweeps), and a context's rows are the sum of its
+ * orders' ray bins and bow tables (contextFromSweeps, shapedPlaneRow), so the groups' shares add up to the row of all
+ * orders and no order is traced twice. Kernel tasks of one shape are split by canting node and order group so that
+ * the pool's threads are kept busy (pipeline/kernels/canting-parts.ts).
+ */
+export const SHAPED_ORDER_GROUPS: readonly (readonly number[])[] = [[0, 1], [2], [3]];
 
 export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
   return {
@@ -83,7 +107,9 @@ export function shapedRowKey(spec: ShapedRowSpec): string {
   const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : spec.deformationStep ? `eq${spec.deformationStep}` : "eq";
   const direct = spec.traceEveryIndex ? ":direct" : "";
   const span = spec.indexSpan ? `:n${spec.indexSpan.min}-${spec.indexSpan.max}` : "";
-  return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}${span}${direct}`;
+  // A group's share is not a row: it never shares a key with one.
+  const group = spec.orderGroup === undefined ? "" : `:g${spec.orderGroup}`;
+  return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}${span}${direct}${group}`;
 }
 
 /** A kernel row variant (rowVariant) with the shape of a drop that is not a sphere appended: its rows are other rows. */
@@ -155,16 +181,36 @@ export interface ShapedPlaneCount {
   interpolated: number;
 }
 
+/** The orders of one group (SHAPED_ORDER_GROUPS) as shaped-plane-rows options: rays alone (rayOnly) or with the bows. */
+function groupOptions(spec: ShapedRowSpec, group: number): ShapedPlaneOptions {
+  const orders = SHAPED_ORDER_GROUPS[group];
+  const rayOrders: readonly number[] = spec.rayOnly ? [...SHAPED_RAY_ORDERS, ...SHAPED_BOW_ORDERS] : SHAPED_RAY_ORDERS;
+  const bowOrders: readonly number[] = spec.rayOnly ? [] : SHAPED_BOW_ORDERS;
+  return { rayOrders: rayOrders.filter((p) => orders.includes(p)), bowOrders: bowOrders.filter((p) => orders.includes(p)) };
+}
+
+/** The order groups a spec asks for: its own (a part of a split task), else all of them. */
+export function orderGroupsOf(spec: ShapedRowSpec): number[] {
+  if (spec.orderGroup === undefined) return SHAPED_ORDER_GROUPS.map((_, g) => g);
+  if (!Number.isInteger(spec.orderGroup) || spec.orderGroup < 0 || spec.orderGroup >= SHAPED_ORDER_GROUPS.length) {
+    throw new RangeError(`orderGroup ${spec.orderGroup} is not one of 0…${SHAPED_ORDER_GROUPS.length - 1}`);
+  }
+  return [spec.orderGroup];
+}
+
 /**
  * Each drop's share of |S1|², |S2|² from each of the canting nodes asked for (indices into cantingNodesFive; default:
- * all), weighted by the node's weight, for flattened drops (a spheroid's fixed axis ratio, or equilibrium drops, each
- * its own shape or blended from shape nodes: ShapedRowSpec.deformationStep) at any wavelengths, on bins of width
- * stepDeg centred on thetaDeg (ascending, uniform): rows[drop][k] for the k-th node asked for. Each scattering plane is
- * traced once per shape and canting node at tracedIndices(spec), the sweeps at the drops' own indices interpolated from
- * those (spec.traceEveryIndex: traced at each drop's index instead). Everything then scales with x (shapedPlaneRow),
- * so drops of one shape and index share one context. A node's share is computed alone (its own sum over shapes), so
- * it is the same whichever other nodes are computed with it: kernel tasks split by canting node
- * (pipeline/kernels/canting-parts.ts) add the same numbers in the same order as one task.
+ * all) and each order group asked for (spec.orderGroup, else every group of SHAPED_ORDER_GROUPS), weighted by the
+ * node's weight, for flattened drops (a spheroid's fixed axis ratio, or equilibrium drops, each its own shape or
+ * blended from shape nodes: ShapedRowSpec.deformationStep) at any wavelengths, on bins of width stepDeg centred on
+ * thetaDeg (ascending, uniform): rows[drop][k] for the k-th (node, group) pair, node by node and within a node group by
+ * group. Each scattering plane is traced once per shape and canting node at tracedIndices(spec), each order group's
+ * orders on their own, the sweeps at the drops' own indices interpolated from those (spec.traceEveryIndex: traced at
+ * each drop's index instead). Everything then scales with x (shapedPlaneRow), so drops of one shape and index share
+ * one context. A (node, group) share is computed alone, so it is the same whichever other shares are computed with it:
+ * kernel tasks split by canting node and order group (pipeline/kernels/canting-parts.ts) add the same numbers in the
+ * same order as one task. planes counts scattering planes: a plane's groups count it once, with its first group (the
+ * reflection's, which every plane has), so that a split task's parts report together what one task reports.
  */
 export function shapedNodeRows(
   spec: ShapedRowSpec,
@@ -174,7 +220,8 @@ export function shapedNodeRows(
   nodeIndices?: readonly number[],
 ): { rows: { perp: Float64Array; par: Float64Array }[][]; planes: ShapedPlaneCount } {
   const allNodes = cantingNodesFive(spec.cantingSdDeg);
-  const asked = nodeIndices ?? allNodes.map((_, k) => k);
+  const groups = orderGroupsOf(spec);
+  const asked = (nodeIndices ?? allNodes.map((_, k) => k)).flatMap((node) => groups.map((group) => ({ node, group })));
   const out = drops.map(() => asked.map(() => ({ perp: new Float64Array(thetaDeg.length), par: new Float64Array(thetaDeg.length) })));
   const planes: ShapedPlaneCount = { traced: 0, interpolated: 0 };
   if (drops.length === 0) return { rows: out, planes };
@@ -182,7 +229,6 @@ export function shapedNodeRows(
   const uses = drops.map((drop) => shapesOf(spec, drop.radiusUm));
   const shapes = [...new Set(uses.flatMap((u) => u.map((s) => s.radiusUm)))].sort((a, b) => a - b);
   const plane = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
-  const options = spec.rayOnly ? { rayOrders: [0, 1, 2, 3], bowOrders: [] } : {};
   // Samples whose light lands more than NEAR_MARGIN_DEG to one side of the grid at every traced index are never traced again.
   const near = { loRad: (thetaDeg[0] - stepDeg / 2 - NEAR_MARGIN_DEG) * DEG, hiRad: (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + NEAR_MARGIN_DEG) * DEG };
   const rowPerp = new Float64Array(thetaDeg.length);
@@ -193,13 +239,16 @@ export function shapedNodeRows(
     const indices = [...new Set(users.map((u) => u.drop.mRe))].sort((a, b) => a - b);
     const interpolate = spec.traceEveryIndex !== true;
     const traced = interpolate ? tracedIndices(spec) : indices;
-    asked.forEach((nodeIndex, k) => {
+    asked.forEach(({ node: nodeIndex, group }, k) => {
       const node = allNodes[nodeIndex];
       const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
-      // One canting node's sweeps at a time: memory stays at INDEX_NODES planes' sweeps (~14 MB), whatever the task.
+      const options = groupOptions(spec, group);
+      // One canting node's and group's sweeps at a time: memory stays at INDEX_NODES planes' sweeps (~14 MB), whatever the task.
       const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
-      planes.traced += traced.length;
-      if (interpolate) planes.interpolated += indices.length;
+      if (group === 0) {
+        planes.traced += traced.length;
+        if (interpolate) planes.interpolated += indices.length;
+      }
       for (const mRe of indices) {
         const tracer = interpolate ? shapedPlaneTracer({ outline, axis, n: mRe }, plane, options) : null;
         const at = interpolate
@@ -222,7 +271,7 @@ export function shapedNodeRows(
   return { rows: out, planes };
 }
 
-/** The canting mean of |S1|², |S2|² (shapedNodeRows over every canting node, added in node order). */
+/** The canting mean of |S1|², |S2|² (shapedNodeRows over every canting node and order group, added in their order). */
 export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number): { perp: Float64Array; par: Float64Array }[] {
   return shapedNodeRows(spec, drops, thetaDeg, stepDeg).rows.map((shares) => {
     const perp = new Float64Array(thetaDeg.length);

@@ -1,31 +1,59 @@
-// A kernel task shaped like a default profile's at a few wavelengths: Mie drops, Airy drops, the bows' tables.
-// Run on each worker thread before its first request, so that the request does not pay for V8 compiling the
-// TypeScript and tiering up the WebAssembly Mie kernel (measured in BENCHMARKS.md: "first" against "started").
+// Kernel tasks shaped like a default profile's and a fog profile's at a few wavelengths: Mie drops, Airy drops, the
+// bows' tables, and small drops averaged over their radius cells on a sub-lattice (the many-drops Mie kernel). Run on
+// each worker thread before its first request, so that the request does not pay for V8 compiling the TypeScript and
+// tiering up the WebAssembly Mie kernel (measured in BENCHMARKS.md: "first" against "started"), nor, on a fog request
+// after rain ones, for V8 recompiling the code the rain tasks alone had shaped (wrong-map deoptimisations).
 
 import { kernelRows, type KernelRowsInput } from "./kernel-rows.js";
 import { blocksOf, latticeSpan, KERNEL_STEPS_DEG } from "./kernel-grid.js";
 import { engineChooser } from "./engine-choice.js";
+import type { CellAverage } from "./cell-average.js";
 import { dropMedium } from "../water/drop-medium.js";
 
 /** ψ 30–60° widened by the sun's radius (about 0.27°), on the coarsest lattice: the default profile's span. */
 const SPAN = latticeSpan(30 - 0.27, 60 + 0.27, KERNEL_STEPS_DEG[0]);
 /** Drop radii across both engines of the auto choice (µm). */
 const RADII_UM = [12, 35, 80, 150, 400, 1200];
+/** Fog drops (µm): a lognormal fog's nodes about its 10 µm median, each the mean over its radius cell. */
+const FOG_RADII_UM = [4, 7, 10, 14, 20];
+/**
+ * The cell mean a fog profile's Mie rows take: 8 sizes across a cell of the lattice quadrature's 64 nodes per decade
+ * (ln 10 / 64 wide), as radius-density.ts chooses for a 10 µm lognormal fog at 512 sizes per decade.
+ */
+export const FOG_AVERAGE: CellAverage = { samples: 8, widthLn: Math.LN10 / 64 };
+
+/**
+ * A task as a worker receives it: the items with the keys the kernel service gives them, in its order, through
+ * structured cloning as a message is, so that V8 sees the objects (hidden classes) a request's tasks bring.
+ */
+function asReceived(task: KernelRowsInput): KernelRowsInput {
+  return structuredClone(task);
+}
 
 function warmUpTask(wavelengthNm: number): KernelRowsInput {
   const engine = engineChooser("auto");
   const blocks = blocksOf(SPAN);
-  return {
+  return asReceived({
     medium: dropMedium({ temperatureC: 15, salinityPsu: 0 }, wavelengthNm),
     h: SPAN.h,
-    items: RADII_UM.map((radiusUm) => ({ radiusUm, engine: engine(radiusUm), blocks })),
+    items: RADII_UM.map((radiusUm) => ({ radiusUm, engine: engine(radiusUm), average: undefined, shape: undefined, blocks })),
     within: { first: SPAN.first, last: SPAN.last },
-  };
+  });
 }
 
-/** Runs `rounds` warm-up tasks (at 450, 550 and 650 nm in turn) and returns the ms each took. */
+function fogWarmUpTask(wavelengthNm: number): KernelRowsInput {
+  const blocks = blocksOf(SPAN);
+  return asReceived({
+    medium: dropMedium({ temperatureC: 15, salinityPsu: 0 }, wavelengthNm),
+    h: SPAN.h,
+    items: FOG_RADII_UM.map((radiusUm) => ({ radiusUm, engine: "mie" as const, average: FOG_AVERAGE, shape: undefined, blocks })),
+    within: { first: SPAN.first, last: SPAN.last },
+  });
+}
+
+/** Runs `rounds` warm-up tasks (rain-like and fog-like in turn, at 450, 550 and 650 nm) and returns the ms each took. */
 export function warmUpKernels(rounds: number): number[] {
-  const tasks = [450, 550, 650].map(warmUpTask);
+  const tasks = [warmUpTask(450), fogWarmUpTask(550), warmUpTask(650), fogWarmUpTask(450), warmUpTask(550), fogWarmUpTask(650)];
   const times: number[] = [];
   for (let r = 0; r < rounds; r++) {
     const t0 = performance.now();

@@ -101,7 +101,8 @@ export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
  * Scattering planes a plan's flattened rows trace and interpolate, cold: per shape (each flattened radius node of
  * equilibrium drops; one for a spheroid, whose radii share their planes) and canting node, INDEX_NODES traced planes
  * (at the water's tracedIndices) and one interpolated per wavelength. A shape's task split across threads is split by
- * canting node (pipeline/kernels/canting-parts.ts): no plane is traced twice.
+ * canting node and order group (pipeline/kernels/canting-parts.ts): each order of a plane is traced once, and a plane
+ * counts once, with its first order group (lib/bow/shaped-rows.ts shapedNodeRows), so the parts report these counts.
  */
 export function shapedPlaneCounts(plan: ShapePlan, wavelengths: number): ShapedPlaneCount {
   const spec = plan.shapes.find((s) => s !== undefined);

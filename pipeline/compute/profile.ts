@@ -11,13 +11,13 @@ import { latticeRadiusQuadrature, type ThinningLevel } from "../../lib/drops/lat
 import { spectrumToXyz, type Xyz } from "../../lib/colour/tristimulus.js";
 import { directSunlight } from "../../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
-import { latticeUnitProfileSteps, sunlitProfile, polarisedUnitRadiance, discKernels, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
+import { latticeUnitProfilePass, sunlitProfile, polarisedUnitRadiance, discKernels, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
 import { blocksOf, kernelStepFor, type LatticeSpan } from "../../lib/bow/kernel-grid.js";
 import type { KernelRequest, KernelRows, KernelService, KernelStats } from "../kernels/kernel-service.js";
 import { ORDER_LAYERS, type OrderLayerName } from "../../lib/bow/scattering-orders.js";
 import type { DiscKernel } from "../../lib/sun/disc.js";
 import { colourProfile, linearRgbOfXyz, polariserWeights, sunlitXyzWeights, weightedXyz, type ColourOptions, type ColourProfile } from "../../lib/bow/colour-profile.js";
-import { findBows } from "../../lib/bow/bow-peaks.js";
+import { findBows, findBowsByDispersion } from "../../lib/bow/bow-peaks.js";
 import { AUTO_MIE_BUDGET_TERM_ANGLES, autoEngine, chooseAutoEngine, engineChooser, type AutoChoice, estimateMieTermAngles, estimatedEngineError, AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { chooseRadiusDensity, type DensityChoice } from "../../lib/bow/radius-density.js";
@@ -282,28 +282,42 @@ export interface SpectralPassOptions {
 }
 
 /**
- * The profile per unit sunlight and path (lattice-profile.ts, latticeUnitProfileSteps), one wavelength per turn of
+ * The profile per unit sunlight and path (lattice-profile.ts, latticeUnitProfilePass), one wavelength per turn of
  * the event loop: the sum over drops and the sun's disc, the bulk of a warm profile's time.
  */
 export async function unitSpectralProfile(plan: ProfilePlan, rows: KernelRows, options: SpectralPassOptions = {}): Promise<SpectralProfile> {
+  return spectralPassAsRowsArrive(plan, options).finish(rows);
+}
+
+/**
+ * unitSpectralProfile fed wavelength by wavelength while the kernel rows are computed (onWavelength as
+ * KernelWatch.onWavelength): on a cold request the main thread sums each wavelength as its task ends, in time the
+ * worker threads compute anyway, instead of all of them after the last task. finish sums the wavelengths not fed (all
+ * of them on a warm request) and gives the same profile to the last bit: each wavelength's sum reads its own rows alone.
+ */
+export function spectralPassAsRowsArrive(plan: ProfilePlan, options: SpectralPassOptions = {}) {
   const { span, kernelRequest, quadrature, request, grid } = plan;
-  const perWavelengthNs = options.onWavelength ? laterWorkNs(request, plan).spectralNsPerWavelength : 0;
-  const steps = latticeUnitProfileSteps({
+  const pass = latticeUnitProfilePass({
     angles: plan.angles,
     grid,
     span,
-    beta: (l, out) => accumulateBlocks(span, kernelRequest.blocks, quadrature.weights, (i, b) => rows.get(l, i, b), out),
     disc: options.disc ?? discKernels(grid, request.sun.discDeg, span.h, request.sun.limbDarkening),
     samples: options.samples,
   });
-  let step = steps.next();
-  let wavelengthsDone = 0;
-  while (!step.done) {
-    options.onWavelength?.(++wavelengthsDone * perWavelengthNs);
-    await new Promise<void>((resolve) => setImmediate(resolve));
-    step = steps.next();
-  }
-  return { ...step.value, mieTermAngles: rows.stats.mieTermAngles };
+  const sum = (row: (i: number, block: number) => Float64Array) => (out: Float64Array) => accumulateBlocks(span, kernelRequest.blocks, quadrature.weights, row, out);
+  return {
+    onWavelength: (l: number, row: (i: number, block: number) => Float64Array) => pass.add(l, sum(row)),
+    async finish(rows: KernelRows): Promise<SpectralProfile> {
+      const perWavelengthNs = options.onWavelength ? laterWorkNs(request, plan).spectralNsPerWavelength : 0;
+      for (let l = 0; l < grid.count; l++) {
+        const fed = pass.has(l);
+        if (!fed) pass.add(l, sum((i, b) => rows.get(l, i, b)));
+        options.onWavelength?.((l + 1) * perWavelengthNs);
+        if (!fed) await new Promise<void>((resolve) => setImmediate(resolve));
+      }
+      return { ...pass.result(), mieTermAngles: rows.stats.mieTermAngles };
+    },
+  };
 }
 
 /** The sunlight on the rain for a plan under `sun` (the plan's own, or another elevation's), and what follows from it alone. */
@@ -401,10 +415,16 @@ export async function computeProfile(
   // The whole rows and, by order, each named order's rows (kept apart in the cache: orderVariant), all at once.
   const requestedOrders: (number | undefined)[] = [undefined, ...(byOrder ? ORDER_LAYERS.map((layer) => layer.order) : [])];
   const tallies = requestedOrders.map(() => ({ doneNs: 0, totalNs: 0 }));
+  // Each requested order's spectral pass, fed as its rows arrive; its progress counts once the rows are all in (a
+  // later stage advancing would mark the kernels done). By order the named orders follow the whole in the progress.
+  const passes = requestedOrders.map((_, t) =>
+    spectralPassAsRowsArrive(plan, { onWavelength: progress ? (ns) => progress.advance("spectral", t * (later?.spectralNs ?? 0) + ns) : undefined }),
+  );
   const [rows, ...orderRows] = await Promise.all(
     requestedOrders.map((order, t) =>
       deps.kernels.rows(order === undefined ? plan.kernelRequest : { ...plan.kernelRequest, order }, deps.signal, {
         saveEachTask: deps.saveEachTask,
+        onWavelength: passes[t].onWavelength,
         onRows: progress
           ? (doneNs, totalNs, found) => {
               tallies[t] = { doneNs, totalNs };
@@ -416,21 +436,22 @@ export async function computeProfile(
     ),
   );
   const kernelMs = performance.now() - kernelStarted;
-  const unit = await unitSpectralProfile(plan, rows, { onWavelength: progress ? (ns) => progress.advance("spectral", ns) : undefined });
+  const unit = await passes[0].finish(rows);
   const light = sunLightFor(plan);
   const { spectral, colour } = sunlitColour(plan, unit, light);
   // Each named order through the same sum, sunlight and colour (its unit profile after the whole one's in the progress).
   const orders: OrderProfile[] = [];
   for (const [k, layer] of ORDER_LAYERS.entries()) {
     if (!byOrder) break;
-    const done = (k + 1) * (later?.spectralNs ?? 0);
-    const orderUnit = await unitSpectralProfile(plan, orderRows[k], { onWavelength: progress ? (ns) => progress.advance("spectral", done + ns) : undefined });
+    const orderUnit = await passes[k + 1].finish(orderRows[k]);
     const lit = sunlitColour(plan, orderUnit, light);
     orders.push({ name: layer.name, order: layer.order, spectral: lit.spectral, colour: lit.colour });
   }
   const stats = sumStats([rows, ...orderRows].map((r) => r.stats));
   const { sunlight: sun, sunWhite, eye } = light;
-  const bows = findBows(spectral.anglesDeg, colour.luminance);
+  const bows = shapePlan.flattened
+    ? findBowsByDispersion({ anglesDeg: spectral.anglesDeg, wavelengthsNm: plan.wl, radiance: spectral.perpendicular.map((v, k) => v + spectral.parallel[k]) }, colour.luminance)
+    : findBows(spectral.anglesDeg, colour.luminance);
   progress?.complete("colour");
 
   const warnings = profileWarnings(plan, light);

@@ -1,57 +1,96 @@
-// A kernel task of one flattened-drop shape spread over several threads by canting node: each part traces its
-// nodes' planes (at the water's refractive-index nodes, lib/bow/shaped-rows.ts tracedIndices) for every wavelength, and the
-// rows are their shares added in node order. Split by wavelength instead, every part would trace every node's planes.
+// A kernel task of one flattened-drop shape spread over the pool's threads in parts, one per canting node and order
+// group (lib/bow/shaped-rows.ts SHAPED_ORDER_GROUPS): each part traces its node's planes for its group's orders alone
+// (at the water's refractive-index nodes, tracedIndices) for every wavelength, so no plane's order is traced twice,
+// and the rows are the parts' shares added in (node, group) order, as kernelRows adds them for the whole task. Split
+// by wavelength instead, every part would trace every plane.
 
-import { cantingNodesFive } from "../../lib/drops/shape/canting.js";
-import { shapedRowKey } from "../../lib/bow/shaped-rows.js";
+import { cantingNodesFive, type CantingNode } from "../../lib/drops/shape/canting.js";
+import { SHAPED_ORDER_GROUPS, shapedRowKey, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import { bowScatteringPlane, cantedAxis } from "../../lib/rays/bow-geometry.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 
-/** Canting nodes 0…count−1 in `parts` runs of consecutive nodes, as even as they go (fewer when there are fewer nodes). */
-export function cantingRuns(count: number, parts: number): number[][] {
-  const runs = Math.max(1, Math.min(count, parts));
-  return Array.from({ length: runs }, (_, r) => {
-    const from = Math.floor((r * count) / runs);
-    const to = Math.floor(((r + 1) * count) / runs);
-    return Array.from({ length: to - from }, (_, k) => from + k);
-  });
-}
-
-/** How many parts a task of flattened drops of this canting spread can be split into. */
-export function cantingNodeCount(cantingSdDeg: number): number {
-  return cantingNodesFive(cantingSdDeg).length;
+export interface ShapedPart {
+  /** Index into cantingNodesFive. */
+  node: number;
+  /** Index into SHAPED_ORDER_GROUPS. */
+  group: number;
+  /** Estimated share of the task's CPU (the parts' shares add up to 1). */
+  share: number;
 }
 
 /**
- * The task (every item of one shape and canting spread) computed in `parts` tasks by canting node, with `compute`:
- * its rows are each item's node shares (kernelRows with item.cantingNode, each already scaled) added in node order
- * from zero, as kernelRows adds them for the whole task, so the rows are the same to the last bit.
+ * Relative CPU of each order group's part (SHAPED_ORDER_GROUPS order), which sets the order the parts are queued in:
+ * measured on P4 (bench/profiles.ts: 1 mm equilibrium drops, canting 7.5°, top of the bow, 41 wavelengths; every
+ * part on one thread, bench/shaped-parts.ts, BENCHMARKS.md shaped-parts), reflection and transmission took 1.0–1.1 s
+ * of CPU over the five canting nodes, the primary's order 2.8–3.0 s and the secondary's 2.8–2.9 s.
  */
-export async function computeByCantingNode(
+export const ORDER_GROUP_COST: readonly number[] = [0.37, 1, 1];
+/**
+ * Relative CPU of a canting node whose axis leaves the scattering plane against one whose axis lies in it. In the
+ * plane, the plane is a mirror plane of the drop and a ray that enters in it stays in it; out of it, each ray's exit
+ * in the plane is found by Newton's search. Measured on P4 (as ORDER_GROUP_COST): the nodes tilted out of the plane
+ * took 1.6–2.2 s, the upright node and the nodes tilted in the plane 0.8–1.0 s.
+ */
+export const OUT_OF_PLANE_NODE_COST = 2;
+
+/** Whether a canting node's axis lies in the scattering plane of the spec's place on the bow (to rounding). */
+function axisInPlane(spec: Pick<ShapedRowSpec, "sunElevationDeg" | "arcPositionDeg">, node: CantingNode): boolean {
+  const { dIn, e } = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
+  const normal = [dIn[1] * e[2] - dIn[2] * e[1], dIn[2] * e[0] - dIn[0] * e[2], dIn[0] * e[1] - dIn[1] * e[0]];
+  const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
+  return Math.abs(axis[0] * normal[0] + axis[1] * normal[1] + axis[2] * normal[2]) < 1e-9;
+}
+
+/**
+ * Every (canting node, order group) part of a shape's task, largest first by estimated cost, so that a pool queueing
+ * tasks in the order they come (piscina's queue) runs them longest-processing-time first: the threads then end within
+ * about one of the smallest parts of each other (Graham 1969, SIAM J. Appl. Math. 17, 416–429: at most 4/3 − 1/(3m) of
+ * the best schedule on m threads; from memory).
+ */
+export function shapedParts(spec: Pick<ShapedRowSpec, "cantingSdDeg" | "sunElevationDeg" | "arcPositionDeg">): ShapedPart[] {
+  const nodes = cantingNodesFive(spec.cantingSdDeg);
+  const nodeCost = nodes.map((node) => (axisInPlane(spec, node) ? 1 : OUT_OF_PLANE_NODE_COST));
+  const parts = nodes.flatMap((_, node) => SHAPED_ORDER_GROUPS.map((_, group) => ({ node, group, share: nodeCost[node] * ORDER_GROUP_COST[group] })));
+  const total = parts.reduce((s, p) => s + p.share, 0);
+  return parts.map((p) => ({ ...p, share: p.share / total })).sort((a, b) => b.share - a.share || a.node - b.node || a.group - b.group);
+}
+
+/**
+ * The task (every item of one shape and canting spread, whole) computed in its shapedParts with `compute`, each part
+ * submitted largest first; onPart hears each part's estimated share as it ends (progress). Its rows are each item's
+ * (node, group) shares (kernelRows with item.cantingNode and shape.orderGroup, each already scaled) added from zero in
+ * node order and, within a node, group order, as kernelRows adds them for the whole task: the same rows to the last bit.
+ */
+export async function computeInParts(
   task: KernelTask,
-  parts: number,
   compute: (task: KernelTask, signal?: AbortSignal) => Promise<KernelTaskResult>,
   signal?: AbortSignal,
+  onPart?: (share: number) => void,
 ): Promise<KernelTaskResult> {
   const shape = task.items[0]?.shape;
-  if (!shape || task.items.some((item) => !item.shape || shapedRowKey(item.shape) !== shapedRowKey(shape) || item.cantingNode !== undefined)) {
-    throw new RangeError("a task split by canting node holds flattened drops of one shape spec, whole");
+  const whole = (item: KernelTask["items"][number]) => item.shape && item.cantingNode === undefined && item.shape.orderGroup === undefined;
+  if (!shape || task.items.some((item) => !whole(item) || shapedRowKey(item.shape!) !== shapedRowKey(shape))) {
+    throw new RangeError("a task split in parts holds flattened drops of one shape spec, whole");
   }
-  const runs = cantingRuns(cantingNodeCount(shape.cantingSdDeg), parts);
-  if (runs.length === 1) return compute(task, signal);
+  const parts = shapedParts(shape);
   const results = await Promise.all(
-    runs.map((nodes) => compute({ ...task, items: task.items.flatMap((item) => nodes.map((cantingNode) => ({ ...item, cantingNode }))) }, signal)),
+    parts.map(async ({ node, group, share }) => {
+      const items = task.items.map((item) => ({ ...item, shape: { ...item.shape!, orderGroup: group }, cantingNode: node }));
+      const result = await compute({ ...task, items }, signal);
+      onPart?.(share);
+      return result;
+    }),
   );
+  // Added in (node, group) order, whatever order the parts were queued and ended in.
+  const order = parts.map((_, k) => k).sort((a, b) => parts[a].node - parts[b].node || parts[a].group - parts[b].group);
   const rows = task.items.map((item, i) =>
     item.blocks.map((_, b) => {
-      let sum: Float64Array | undefined;
-      runs.forEach((nodes, r) => {
-        nodes.forEach((_, k) => {
-          const share = results[r].rows[i * nodes.length + k][b];
-          if (!sum) sum = new Float64Array(share.length);
-          for (let t = 0; t < share.length; t++) sum[t] += share[t];
-        });
-      });
-      return sum!;
+      const sum = new Float64Array(results[0].rows[i][b].length);
+      for (const k of order) {
+        const share = results[k].rows[i][b];
+        for (let t = 0; t < share.length; t++) sum[t] += share[t];
+      }
+      return sum;
     }),
   );
   const traced = results.reduce((s, r) => s + (r.shapedPlanes?.traced ?? 0), 0);

@@ -14,11 +14,19 @@ import type { DropMedium } from "../../lib/water/drop-medium.js";
 import { blockRange } from "../../lib/bow/kernel-grid.js";
 import { rowVariant, type CellAverage } from "../../lib/bow/cell-average.js";
 import { shapeGroupKey, shapedVariant, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
-import { computeByCantingNode } from "./canting-parts.js";
+import { computeInParts } from "./canting-parts.js";
 import { orderVariant } from "../../lib/bow/scattering-orders.js";
 import type { MieSampling } from "../../lib/bow/mie-sub-lattice.js";
 import { kernelRowCostNs } from "../progress/work-costs.js";
 import { sizeParameter } from "../progress/profile-work.js";
+
+/**
+ * Flattened drops' tasks (one per shape) are split in parts (canting-parts.ts) while there are fewer than this many
+ * shapes per thread. With this many whole tasks per thread queued, the threads end within one task of each other, an
+ * eighth of a thread's work or less, where each shape costs about the same (common practice for list scheduling: many
+ * more tasks than threads); below it, parts (15 per shape with canting, 3 without) are cheaper than idle threads.
+ */
+const UNSPLIT_SHAPES_PER_THREAD = 8;
 
 /** Bump when the physics of a kernel row changes, so that stale cache entries are never read. */
 export const KERNEL_VERSION = 5;
@@ -53,6 +61,13 @@ export interface KernelWatch {
    * request: a background job whose worker dies resumes from them.
    */
   saveEachTask?: boolean;
+  /**
+   * Told of each wavelength l once all its rows are in hand (found, computed or borrowed), as soon as they are, with a
+   * reader of them: the caller may sum that wavelength while the other tasks still compute (the main thread is idle
+   * then). Wavelengths found whole in a cache are never told (nothing to wait for: the caller sums them after, a turn
+   * of the event loop each). May be told again if the request recomputes rows another request failed to give.
+   */
+  onWavelength?: (l: number, row: (i: number, block: number) => Float64Array) => void;
 }
 
 export interface KernelStats {
@@ -248,41 +263,32 @@ export class KernelService {
     // Rows another request is computing already are awaited, not computed twice. In-flight rows point at the
     // task that computes them (one promise per task, not per row: a cold profile has ~50,000 rows).
     const waits: Promise<void>[] = [];
-    // Rows to compute, grouped into tasks: task key → "l:i" → the row's wavelength, radius and blocks.
-    const toCompute = new Map<string, Map<string, { l: number; i: number; bis: number[] }>>();
-    // Flattened drops' tasks: one per shape at every wavelength, split by canting node (canting-parts.ts) where there are
-    // fewer shapes than threads, so that every plane is still traced once.
+    // Rows still to come per wavelength: a wavelength is told (watch.onWavelength) when its count reaches zero.
+    const toCome = new Int32Array(media.length);
+    for (const [l] of missing) toCome[l]++;
+    const blockIndexOf = new Map(blocks.map((b, bi) => [b, bi]));
+    const bi0 = (b: number) => blockIndexOf.get(b)!;
+    const readerOf = (l: number) => (i: number, b: number) => found[l][bi0(b)].get(radiiUm[i])!;
+    const arrived = (l: number) => {
+      if (--toCome[l] === 0) watch.onWavelength?.(l, readerOf(l));
+    };
+    // Rows to compute, grouped into tasks: task key (a sphere's wavelength l, a flattened drop's shape) → l·radii + i →
+    // the row's wavelength, radius and blocks. Numbers, not built strings: a cold fog profile groups ~19,000 rows here.
+    const toCompute = new Map<number | string, Map<number, { l: number; i: number; bis: number[] }>>();
+    // Flattened drops' tasks: one per shape at every wavelength; where there are few shapes for the threads, each is
+    // split in parts by canting node and order group, queued largest first (canting-parts.ts), so that every thread
+    // stays busy to the end and every plane's order is still traced once.
     const shapesMissing = new Set(missing.flatMap(([, i]) => (shapes[i] ? [shapeGroupKey(shapes[i]!, radiiUm[i])] : [])));
-    const cantingParts = Math.ceil(this.parallelism / Math.max(1, shapesMissing.size));
-    for (const [l, i, bi] of missing) {
-      const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
-      if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
-        waits.push(
-          pending.task.then((result) => {
-            found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block]);
-            if (watch.onRows) done(cost(l, i, bi), false);
-          }),
-        );
-        continue;
-      }
-      const taskKey = shapes[i] ? `shape|${shapeGroupKey(shapes[i]!, radiiUm[i])}` : `l${l}`;
-      let rowsOfTask = toCompute.get(taskKey);
-      if (!rowsOfTask) toCompute.set(taskKey, (rowsOfTask = new Map()));
-      let entry = rowsOfTask.get(`${l}:${i}`);
-      if (!entry) rowsOfTask.set(`${l}:${i}`, (entry = { l, i, bis: [] }));
-      entry.bis.push(bi);
-    }
+    const splitShapes = this.parallelism > 1 && shapesMissing.size < UNSPLIT_SHAPES_PER_THREAD * this.parallelism;
 
     // One failed task stops this request's other tasks; the caller's signal (client gone) stops them all.
     const stop = new AbortController();
     setMaxListeners(0, stop.signal);
     // One listener on the caller's signal for all the requests that share it (abort-link.ts), removed below.
     const unlink = linkAbort(signal, stop);
-    // Settle borrowed rows from the start, so that their failure is never an unhandled rejection.
-    const borrowedSettled = Promise.allSettled(waits);
     const tasks: Promise<void>[] = [];
     const toSave: [string, Map<number, Float64Array>][] = [];
-    for (const rowsOfTask of toCompute.values()) {
+    const send = (rowsOfTask: Map<number, { l: number; i: number; bis: number[] }>) => {
       const entries = [...rowsOfTask.values()];
       // One wavelength per task, but for flattened drops: their tasks hold one shape's rows at many wavelengths, each
       // item then with its own medium (lib/bow/shaped-rows.ts traces a plane at a few indices and interpolates).
@@ -303,7 +309,12 @@ export class KernelService {
         ...(request.order === undefined ? {} : { order: request.order }),
         ...(this.mieSampling === "adaptive" ? {} : { mieSampling: this.mieSampling }),
       };
-      const computing = items[0].shape && cantingParts > 1 ? computeByCantingNode(spec, cantingParts, this.options.compute, stop.signal) : this.options.compute(spec, stop.signal);
+      const taskNs = watch.onRows ? entries.reduce((sum, { l, i, bis }) => sum + bis.reduce((s, bi) => s + cost(l, i, bi), 0), 0) : 0;
+      // A split task's progress moves part by part, by each part's estimated share of the task.
+      const inParts = items[0].shape !== undefined && splitShapes;
+      const computing = inParts
+        ? computeInParts(spec, this.options.compute, stop.signal, watch.onRows ? (share) => done(taskNs * share, false) : undefined)
+        : this.options.compute(spec, stop.signal);
       computing.catch(() => undefined);
       // The task's rows grouped by the pack they belong to (one wavelength and one block per pack).
       const byPack = new Map<string, { l: number; bi: number; rows: [radiusUm: number, item: number, block: number][] }>();
@@ -318,7 +329,6 @@ export class KernelService {
           rows.set(radiiUm[i], { task: computing, item, block, within });
         });
       });
-      const taskNs = watch.onRows ? entries.reduce((sum, { l, i, bis }) => sum + bis.reduce((s, bi) => s + cost(l, i, bi), 0), 0) : 0;
       const task = computing
         .then((result) => {
           // A task that ends after its request was cancelled keeps nothing: a cancelled job stops adding kernels.
@@ -334,7 +344,8 @@ export class KernelService {
           }
           if (watch.saveEachTask) this.queueWrites(saved);
           else toSave.push(...saved);
-          if (watch.onRows) done(taskNs, false);
+          if (watch.onRows && !inParts) done(taskNs, false);
+          if (watch.onWavelength) for (const { rows: list, l } of byPack.values()) for (let k = 0; k < list.length; k++) arrived(l);
         })
         .catch((error: unknown) => {
           stop.abort(error);
@@ -349,7 +360,41 @@ export class KernelService {
           }
         });
       tasks.push(task);
+    };
+    // Tasks are sent as soon as they are grouped: a sphere's task (one wavelength) once the rows of the next wavelength
+    // start (missing is in wavelength order), so that the threads start while the rest is grouped. Flattened drops'
+    // tasks span every wavelength: with them, every task is sent after the grouping, in the order first asked for.
+    const early = shapesMissing.size === 0;
+    let grouping = -1;
+    for (const [l, i, bi] of missing) {
+      if (early && l !== grouping) {
+        const previous = toCompute.get(grouping);
+        if (previous) send(previous);
+        toCompute.delete(grouping);
+        grouping = l;
+      }
+      const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
+      if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
+        waits.push(
+          pending.task.then((result) => {
+            found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block]);
+            if (watch.onRows) done(cost(l, i, bi), false);
+            arrived(l);
+          }),
+        );
+        continue;
+      }
+      const taskKey = shapes[i] ? `shape|${shapeGroupKey(shapes[i]!, radiiUm[i])}` : l;
+      let rowsOfTask = toCompute.get(taskKey);
+      if (!rowsOfTask) toCompute.set(taskKey, (rowsOfTask = new Map()));
+      const at = l * radiiUm.length + i;
+      let entry = rowsOfTask.get(at);
+      if (!entry) rowsOfTask.set(at, (entry = { l, i, bis: [] }));
+      entry.bis.push(bi);
     }
+    for (const rowsOfTask of toCompute.values()) send(rowsOfTask);
+    // Settle borrowed rows from the start, so that their failure is never an unhandled rejection.
+    const borrowedSettled = Promise.allSettled(waits);
     try {
       await Promise.all(tasks);
       // Tasks that ended after a cancellation kept nothing (above): the request ends with its signal's reason.
@@ -367,10 +412,9 @@ export class KernelService {
       signal?.throwIfAborted();
       return this.rows(request, signal, watch);
     }
-    const blockIndex = new Map(blocks.map((b, bi) => [b, bi]));
     return {
       get: (l, i, b) => {
-        const row = found[l][blockIndex.get(b)!].get(radiiUm[i]);
+        const row = found[l][bi0(b)].get(radiiUm[i]);
         if (!row) throw new Error(`kernel row missing for wavelength ${l}, radius ${i}, block ${b}`);
         return row;
       },

@@ -1,7 +1,7 @@
 // The spectral sum per unit sunlight: computing a subset of the output angles gives those angles' values to the
 // bit (each depends only on its own lattice neighbourhood), and the sunlight enters linearly per wavelength.
 import { describe, it, expect } from "vitest";
-import { latticeUnitProfile, sunlitProfile, discKernels, polarisedUnitRadiance } from "../../../lib/bow/lattice-profile.js";
+import { latticeUnitProfile, latticeUnitProfilePass, sunlitProfile, discKernels, polarisedUnitRadiance } from "../../../lib/bow/lattice-profile.js";
 import { sunlitXyzWeights, weightedXyz, colourProfile } from "../../../lib/bow/colour-profile.js";
 import { makeWavelengthGrid } from "../../../lib/spectra/grid.js";
 import { latticeSpan } from "../../../lib/bow/kernel-grid.js";
@@ -34,6 +34,23 @@ describe("latticeUnitProfile", () => {
         expect(part.parallel[s * nl + l]).toBe(full.parallel[i * nl + l]);
       }
     });
+  });
+
+  it("a pass fed its wavelengths in another order (as kernel tasks end) equals the profile in order, bit for bit", () => {
+    const inOrder = latticeUnitProfile({ angles, grid, span, beta, disc });
+    const pass = latticeUnitProfilePass({ angles, grid, span, disc });
+    const order = [3, 0, 6, 1, 5, 2, 4];
+    expect(order.sort((a, b) => a - b)).toEqual(Array.from({ length: grid.count }, (_, l) => l));
+    for (const l of [3, 0, 6, 1, 5, 2, 4]) {
+      expect(pass.has(l)).toBe(false);
+      pass.add(l, (out) => beta(l, out));
+      expect(pass.has(l)).toBe(true);
+    }
+    // Fed again (a request that recomputes rows tells a wavelength twice): the same column.
+    pass.add(2, (out) => beta(2, out));
+    const fed = pass.result();
+    expect(Array.from(fed.perpendicular)).toEqual(Array.from(inOrder.perpendicular));
+    expect(Array.from(fed.parallel)).toEqual(Array.from(inOrder.parallel));
   });
 
   it("the colour sums by per-sun weights equal colourProfile's on the lit profile to rounding", () => {

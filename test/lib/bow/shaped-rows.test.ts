@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
-import { shapedDropRow, shapedRows, type ShapedRowSpec } from "../../../lib/bow/shaped-rows.js";
+import { SHAPED_ORDER_GROUPS, shapedDropRow, shapedNodeRows, shapedRows, type ShapedRowSpec } from "../../../lib/bow/shaped-rows.js";
 import { shapedPlaneContext, shapedPlaneRow } from "../../../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
+import { spheroidOutline } from "../../../lib/drops/shape/outline.js";
 import { bowScatteringPlane, cantedAxis } from "../../../lib/rays/bow-geometry.js";
 import { shapeNodeWeights } from "../../../lib/drops/shape/shape-nodes.js";
 
@@ -31,6 +32,39 @@ describe("flattened-drop rows share their traced planes where the shape is the s
     const large = row(equilibrium, 5000, 900);
     const differs = small.some((v, j) => Math.abs(v / large[j] - 1) > 1e-2);
     expect(differs).toBe(true);
+  }, 600_000);
+});
+
+describe("a row is computed order group by order group", () => {
+  it("the groups' shares, added, equal one context of every order (1e-12 of the peak), and each group alone is its share bit for bit", () => {
+    // One canted node in a plane it leaves (arc 45°), traced at the drop's own index: the groups' shares against the
+    // rows of one context holding orders 0–3 together (shapedPlaneContext's defaults), the way rows were made before.
+    const spec: ShapedRowSpec = { kind: "spheroid", axisRatio: 0.9, cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 45, rayOnly: false, traceEveryIndex: true };
+    const drop = { radiusUm: 700, mRe: N_WATER, x: 7000 };
+    const { rows, planes } = shapedNodeRows(spec, [drop], thetaDeg, 0.1);
+    expect(rows[0].length).toBe(SHAPED_ORDER_GROUPS.length);
+    // A plane counts once, with its first group, whatever groups it is computed in.
+    expect(planes).toEqual({ traced: 1, interpolated: 0 });
+    const ctx = shapedPlaneContext({ outline: spheroidOutline(0.9), axis: cantedAxis(0, 0), n: N_WATER }, bowScatteringPlane(10, 45), 1, thetaDeg, 0.1);
+    const perp = new Float64Array(thetaDeg.length);
+    const par = new Float64Array(thetaDeg.length);
+    shapedPlaneRow(ctx, drop.x, perp, par);
+    const peak = Math.max(...perp, ...par);
+    // Addition of the same terms in another order: rounding, ~1e-16 of each term.
+    thetaDeg.forEach((_, j) => {
+      expect(Math.abs(rows[0].reduce((s, g) => s + g.perp[j], 0) - perp[j])).toBeLessThanOrEqual(1e-12 * peak);
+      expect(Math.abs(rows[0].reduce((s, g) => s + g.par[j], 0) - par[j])).toBeLessThanOrEqual(1e-12 * peak);
+    });
+    // Each group carries light (the reflection everywhere, the bows near their angles), and alone gives its share.
+    SHAPED_ORDER_GROUPS.forEach((_, g) => {
+      const alone = shapedNodeRows({ ...spec, orderGroup: g }, [drop], thetaDeg, 0.1);
+      expect(alone.rows[0].length).toBe(1);
+      expect(Array.from(alone.rows[0][0].perp)).toEqual(Array.from(rows[0][g].perp));
+      expect(Array.from(alone.rows[0][0].par)).toEqual(Array.from(rows[0][g].par));
+      expect(alone.planes).toEqual(g === 0 ? planes : { traced: 0, interpolated: 0 });
+      expect(Math.max(...rows[0][g].perp)).toBeGreaterThan(0);
+    });
+    expect(() => shapedNodeRows({ ...spec, orderGroup: SHAPED_ORDER_GROUPS.length }, [drop], thetaDeg, 0.1)).toThrow(RangeError);
   }, 600_000);
 });
 

@@ -1,23 +1,41 @@
-// A flattened drops' kernel task of one shape spread over threads by canting node: every plane traced once, the rows
-// the same to the last bit as one task's, and the cost estimate's plane count the count the tasks report.
+// A flattened drops' kernel task of one shape spread over threads in parts by canting node and order group: every
+// plane's order traced once, the parts queued largest first, the rows the same to the last bit as one task's, the
+// plane count the count the tasks report and the estimate's, and progress moving part by part.
 import { describe, expect, it } from "vitest";
-import { cantingRuns } from "../../../pipeline/kernels/canting-parts.js";
+import { shapedParts } from "../../../pipeline/kernels/canting-parts.js";
 import { KernelService } from "../../../pipeline/kernels/kernel-service.js";
 import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
 import type { KernelTask } from "../../../pipeline/kernels/kernel-types.js";
 import { computeProfile, toDistribution } from "../../../pipeline/compute/profile.js";
 import { planDropShapes, shapedPlaneCounts } from "../../../pipeline/compute/drop-shape-plan.js";
 import { latticeRadiusQuadrature } from "../../../lib/drops/lattice-quadrature.js";
-import { INDEX_NODES } from "../../../lib/bow/shaped-rows.js";
+import { INDEX_NODES, SHAPED_ORDER_GROUPS } from "../../../lib/bow/shaped-rows.js";
 import { profileRequestSchema } from "../../../schemas/profile.js";
 
-describe("canting runs", () => {
-  it("cut the nodes into consecutive runs, as even as they go, never more runs than nodes", () => {
-    expect(cantingRuns(5, 2)).toEqual([[0, 1], [2, 3, 4]]);
-    expect(cantingRuns(5, 3)).toEqual([[0], [1, 2], [3, 4]]);
-    expect(cantingRuns(5, 8)).toEqual([[0], [1], [2], [3], [4]]);
-    expect(cantingRuns(1, 2)).toEqual([[0]]);
-    expect(cantingRuns(5, 1)).toEqual([[0, 1, 2, 3, 4]]);
+describe("shaped parts", () => {
+  const top = { cantingSdDeg: 7.5, sunElevationDeg: 10, arcPositionDeg: 0 };
+
+  it("are every canting node with every order group once, shares adding up to 1, largest first", () => {
+    const parts = shapedParts(top);
+    expect(parts.length).toBe(5 * SHAPED_ORDER_GROUPS.length);
+    expect(new Set(parts.map((p) => `${p.node}:${p.group}`)).size).toBe(parts.length);
+    expect(parts.reduce((s, p) => s + p.share, 0)).toBeCloseTo(1, 12);
+    for (let k = 1; k < parts.length; k++) expect(parts[k].share).toBeLessThanOrEqual(parts[k - 1].share);
+    // Upright drops: one node, its three groups.
+    expect(shapedParts({ ...top, cantingSdDeg: 0 }).map((p) => p.node)).toEqual([0, 0, 0]);
+  });
+
+  it("put first the bows' orders of the nodes tilted out of the scattering plane (the costly ones), last the reflection of the nodes in it", () => {
+    // At the top of the bow the scattering plane is vertical and holds the sun's direction (x–z, lib/rays/bow-geometry.ts):
+    // nodes 1 and 2 tilt in it, 3 and 4 (tiltY) out of it.
+    const parts = shapedParts(top);
+    expect(new Set(parts.slice(0, 4).map((p) => p.node))).toEqual(new Set([3, 4]));
+    expect(new Set(parts.slice(0, 4).map((p) => p.group))).toEqual(new Set([1, 2]));
+    expect(new Set(parts.slice(-3).map((p) => `${p.node}:${p.group}`))).toEqual(new Set(["0:0", "1:0", "2:0"]));
+    // At the side of the bow with the sun on the horizon the plane is horizontal: every tilt leaves it, and the
+    // upright axis is across it, so every node costs the same.
+    const side = shapedParts({ ...top, sunElevationDeg: 0, arcPositionDeg: 90 });
+    expect(new Set(side.map((p) => p.share.toFixed(12))).size).toBe(2);
   });
 });
 
@@ -34,6 +52,7 @@ describe("one shape on two threads", () => {
   async function run(parallelism: number) {
     const seen: KernelTask[] = [];
     const planes = { traced: 0, interpolated: 0 };
+    const progress: { done: number; total: number }[] = [];
     const inline = createInlinePool().compute;
     const kernels = new KernelService({
       memoryBudgetBytes: 2 ** 28,
@@ -46,14 +65,18 @@ describe("one shape on two threads", () => {
         return result;
       },
     });
+    const rows = kernels.rows.bind(kernels);
+    kernels.rows = (r, signal, watch) => rows(r, signal, { ...watch, onRows: (done, total, found) => (progress.push({ done, total }), watch?.onRows?.(done, total, found)) });
     const result = await computeProfile(request, { kernels, limits: { maxTermAngles: Infinity } });
-    return { result, seen, planes };
+    return { result, seen, planes, progress };
   }
 
-  it("is split by canting node (2 + 3 nodes, every wavelength in each), traces each plane once as the estimate counts, and gives one task's rows bit for bit", async () => {
+  it("is split in a part per canting node and order group (every wavelength in each), queued largest first, traces each plane once as the estimate counts, and gives one task's rows bit for bit", async () => {
     const two = await run(2);
-    expect(two.seen.length).toBe(2);
-    expect(two.seen.map((task) => [...new Set(task.items.map((item) => item.cantingNode))])).toEqual([[0, 1], [2, 3, 4]]);
+    const parts = shapedParts(planDropShapes(request, new Float64Array([600])).shapes[0]!);
+    expect(two.seen.length).toBe(parts.length);
+    // Queued in shapedParts' order: each part one node and one group, for both wavelengths.
+    expect(two.seen.map((task) => [...new Set(task.items.map((item) => `${item.cantingNode}:${item.shape!.orderGroup}`))])).toEqual(parts.map((p) => [`${p.node}:${p.group}`]));
     for (const task of two.seen) expect(new Set(task.items.map((item) => item.medium?.wavelengthNm ?? task.medium.wavelengthNm)).size).toBe(2);
 
     const plan = planDropShapes(request, latticeRadiusQuadrature(toDistribution(request.drops)).radiiUm);
@@ -61,6 +84,12 @@ describe("one shape on two threads", () => {
     // One shape, five canting nodes: 5 × INDEX_NODES traced planes, 5 × 2 interpolated.
     expect(estimate).toEqual({ traced: 5 * INDEX_NODES, interpolated: 10 });
     expect(two.planes).toEqual(estimate);
+
+    // Progress: the empty look-up, then one step per part, rising to the total.
+    const steps = two.progress.filter((p) => p.total > 0);
+    expect(steps.length).toBe(1 + parts.length);
+    for (let k = 1; k < steps.length; k++) expect(steps[k].done).toBeGreaterThan(steps[k - 1].done);
+    expect(steps.at(-1)!.done / steps.at(-1)!.total).toBeCloseTo(1, 9);
 
     const one = await run(1);
     expect(one.seen.length).toBe(1);

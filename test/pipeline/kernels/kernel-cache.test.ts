@@ -140,23 +140,61 @@ describe("the event loop stays free while kernels compute on worker threads", ()
   });
   afterAll(async () => app.close());
 
-  it("GET /healthz answers within 100 ms during a cold full-Mie render", async () => {
+  it("GET /healthz answers while a cold full-Mie render computes, before the render ends", async () => {
+    // No time limit (the machine may be shared): the order of the answers shows that the event loop turns while
+    // the kernels compute. A render on the main thread would hold every health check until it ended.
+    let rendered = false;
     const render = request(app.server)
       .post("/v1/profile")
       .send({ drops: { kind: "lognormal", medianRadiusUm: 20, geometricSd: 1.3, totalNumberPerM3: 1e7 }, method: "mie", spectral: { fromNm: 380, toNm: 780, stepNm: 20 } })
-      .then((r) => r);
+      .then((r) => {
+        rendered = true;
+        return r;
+      });
     await new Promise((r) => setTimeout(r, 150));
-    const latencies: number[] = [];
+    let answeredDuringRender = 0;
     for (let i = 0; i < 5; i++) {
-      const t0 = performance.now();
       const res = await request(app.server).get("/healthz");
-      latencies.push(performance.now() - t0);
       expect(res.status).toBe(200);
+      if (!rendered) answeredDuringRender++;
       await new Promise((r) => setTimeout(r, 50));
     }
     const done = await render;
     expect(done.status).toBe(200);
-    expect(Math.max(...latencies)).toBeLessThan(100);
+    // The render takes ~1.8 s of one thread on a quiet machine; five checks 50 ms apart all fit inside it.
+    expect(answeredDuringRender).toBeGreaterThanOrEqual(3);
+  });
+});
+
+describe("wavelengths told as their rows arrive (KernelWatch.onWavelength)", () => {
+  it("each wavelength with rows to compute is told once, when all its rows are in, with the rows the request returns", async () => {
+    const inline = createInlinePool();
+    const { counter, compute } = counting(inline.compute);
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 28, compute });
+    // Every second wavelength cached whole first (its own request), so the full request computes the others only.
+    const { planProfile } = await import("../../../pipeline/compute/profile.js");
+    const plan = planProfile(body);
+    const { kernelRequest } = plan;
+    const cachedLs = kernelRequest.media.flatMap((_, l) => (l % 2 === 0 ? [l] : []));
+    await kernels.rows({ ...kernelRequest, media: cachedLs.map((l) => kernelRequest.media[l]) });
+    const before = counter.tasks;
+    const told: number[] = [];
+    const seen = new Map<number, Float64Array[]>();
+    const rows = await kernels.rows(kernelRequest, undefined, {
+      onWavelength: (l, row) => {
+        told.push(l);
+        // Read at once, as the spectral pass does: every row of the wavelength is there.
+        seen.set(l, kernelRequest.blocks.flatMap((b) => Array.from(kernelRequest.radiiUm, (_, i) => row(i, b))));
+      },
+    });
+    const computedLs = kernelRequest.media.flatMap((_, l) => (l % 2 === 1 ? [l] : []));
+    // One task per wavelength to compute; those are told, each once; the wavelengths found whole are not.
+    expect(counter.tasks - before).toBe(computedLs.length);
+    expect([...told].sort((a, b) => a - b)).toEqual(computedLs);
+    for (const [l, list] of seen) {
+      const expected = kernelRequest.blocks.flatMap((b) => Array.from(kernelRequest.radiiUm, (_, i) => rows.get(l, i, b)));
+      list.forEach((row, k) => expect(row).toBe(expected[k]));
+    }
   });
 });
 

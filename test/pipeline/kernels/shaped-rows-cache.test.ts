@@ -12,6 +12,7 @@ import { profileRequestSchema } from "../../../schemas/profile.js";
 import { kernelRows } from "../../../lib/bow/kernel-rows.js";
 import { dropMedia } from "../../../lib/water/drop-medium.js";
 import type { KernelTask } from "../../../pipeline/kernels/kernel-types.js";
+import { SHAPED_ORDER_GROUPS } from "../../../lib/bow/shaped-rows.js";
 
 const limits = { maxTermAngles: Infinity };
 // One drop size, no canting, two wavelengths and a narrow window: a few seconds of ray tracing per profile.
@@ -105,19 +106,21 @@ describe("kernel tasks of flattened drops", () => {
     return worst;
   }
 
-  it("one shape without canting and two threads: one task of all eight wavelengths (one canting node: nothing to split), rows bit for bit those of one task per wavelength", async () => {
+  it("one shape without canting and two threads: one task per order group (one canting node), each of all eight wavelengths, rows bit for bit those of one task per wavelength", async () => {
     const radiiUm = Float64Array.from([600]);
     const { rows, seen } = await rowsAndTasks(radiiUm);
-    expect(seen.length).toBe(1);
-    expect(new Set(seen[0].items.map((item) => item.medium!.wavelengthNm)).size).toBe(8);
+    // Split in parts (pipeline/kernels/canting-parts.ts): few shapes for two threads.
+    expect(seen.length).toBe(SHAPED_ORDER_GROUPS.length);
+    expect(new Set(seen.map((task) => task.items[0].shape!.orderGroup))).toEqual(new Set(SHAPED_ORDER_GROUPS.map((_, g) => g)));
+    for (const task of seen) expect(new Set(task.items.map((item) => item.medium!.wavelengthNm)).size).toBe(8);
     // Every plane is interpolated from the same indices (tracedIndices: the water's), whatever else its task holds.
     expect(worstAgainstAlone(rows, radiiUm)).toBe(0);
   }, 600_000);
 
-  it("two shapes: one task each with all eight wavelengths, rows bit for bit those of one task per wavelength", async () => {
+  it("two shapes: each in its own tasks (one per order group), each with all eight wavelengths, rows bit for bit those of one task per wavelength", async () => {
     const radiiUm = Float64Array.from([600, 900]);
     const { rows, seen } = await rowsAndTasks(radiiUm);
-    expect(seen.length).toBe(2);
+    expect(seen.length).toBe(2 * SHAPED_ORDER_GROUPS.length);
     for (const task of seen) {
       expect(new Set(task.items.map((item) => item.radiusUm)).size).toBe(1);
       expect(new Set(task.items.map((item) => item.medium!.wavelengthNm)).size).toBe(8);

@@ -156,7 +156,8 @@ describe("progress weighed by the work", () => {
     const { kernels, calls } = watchedKernels();
     const updates: ProgressUpdate[] = [];
     // The side of the bow (arc positions about 90°) in a narrow camera: a few arc nodes 5° apart, each one upright
-    // 2 mm drop (one plane) at two wavelengths, so two kernel tasks per node.
+    // 2 mm drop (one plane per traced index) at two wavelengths: one kernel task per node, holding both wavelengths (a
+    // flattened drop's task holds its shape at every wavelength; on one thread it is not split in parts).
     const body = viewRequestSchema.parse({
       scenario: {
         drops: { kind: "monodisperse", radiusUm: 2000, numberPerM3: 1000, shape: { kind: "equilibrium", cantingSdDeg: 0 } },
@@ -170,7 +171,8 @@ describe("progress weighed by the work", () => {
     expectRising(updates);
     const nodes = calls.length;
     expect(nodes).toBeGreaterThanOrEqual(2);
-    // Every node's two tasks raise the fraction: the profiles fill the view's kernel stage one after another.
+    // Every node's task, then its profile's later steps, raise the fraction: the profiles fill the view's kernel stage
+    // one after another.
     const rising = new Set(updates.filter((u) => u.stage === "kernels").map((u) => u.fraction.toFixed(6)));
     expect(rising.size).toBeGreaterThanOrEqual(2 * nodes);
     // The pixels come after all the nodes' work, which is nearly all of it (planes cost tenths of a second).
