@@ -5,12 +5,18 @@
 // modules are imported from there, so both run in one process on the same inputs.
 // Measured: one plane of P4's drop (1 mm equilibrium drop, top of the bow, sun as P4's request, 600 bins
 // over ψ 30–60°, upright and canted across the plane as P4's canting nodes 0 and 3) traced at one index (ShapedRowSpec.traceEveryIndex), its rows at that wavelength; with --p4 also P4
-// itself (canting 7.5°, 5 canting nodes × (7 traced + 41 interpolated) planes, lib/bow/shaped-rows.ts shapedRows).
+// itself (canting 7.5°, 5 canting nodes × (7 traced + 41 interpolated) planes, lib/bow/shaped-rows.ts shapedRows) and
+// 2 mm drops at arc 45°, whose spectral rows are also compared in colour: CIEDE2000 per angle (Luo, Cui & Rigg 2001,
+// via bench/auto-presets.ts xyzDeltaE) on CIE 1931 XYZ of an equal-energy spectrum, scaled by the other build's
+// peak Y, and the angles of the primary's and secondary's peaks of Y (parabola through the largest bin and its
+// neighbours).
 // Traces are counted by wrapping PlaneTracer.prototype.traceAt in a separate, untimed pass.
 
 import { pathToFileURL } from "node:url";
 import { resolve } from "node:path";
 import { median } from "./stats.js";
+import { xyzDeltaE } from "./auto-presets.js";
+import { spectraToXyz } from "../lib/colour/tristimulus.js";
 import { P4 } from "./profiles.js";
 import { profileRequestSchema } from "../schemas/profile.js";
 import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
@@ -81,9 +87,14 @@ function rowDifference(a: Rows, b: Rows): { overPeak: number; pointwise: number 
   return { overPeak, pointwise };
 }
 
+/** The flattened-drop spec the service plans for a request body. */
+function specOf(body: unknown): ShapedRowSpec {
+  const parsed = profileRequestSchema.parse(body);
+  return planDropShapes(parsed, latticeRadiusQuadrature(toDistribution(parsed.drops)).radiiUm).shapes.find((s) => s !== undefined)!;
+}
 const request = profileRequestSchema.parse(P4.body);
-const quadrature = latticeRadiusQuadrature(toDistribution(request.drops));
-const p4Spec = planDropShapes(request, quadrature.radiiUm).shapes.find((s) => s !== undefined)!;
+const p4Spec = specOf(P4.body);
+const arc45Spec = specOf({ drops: { kind: "monodisperse", radiusUm: 2000, shape: { kind: "equilibrium" } }, arcPositionDeg: 45 });
 const grid = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm);
 const { media } = dropMedia(request.water, wavelengthsNm(grid));
 const thetaDeg = Float64Array.from({ length: 600 }, (_, j) => 120.025 + 0.05 * j);
@@ -91,11 +102,20 @@ const drop = (radiusUm: number, m: (typeof media)[number]): ShapedDrop => ({ rad
 const onePlane = { ...p4Spec, traceEveryIndex: true };
 /** One canting node's plane: 0 the upright drop (its axis in the plane: v* = 0 by symmetry), 3 tilted across the plane (1 and 2 tilt it within the plane at the top of the bow). */
 const planeOf = (b: Build, node: number) => b.shapedNodeRows(onePlane, [drop(1000, media[20])], thetaDeg, 0.05, [node]).rows[0];
-const workloads = [
+interface Workload {
+  name: string;
+  run: (b: Build) => Rows;
+  /** Rows are one per wavelength of the grid: compared in colour too. */
+  spectral?: boolean;
+}
+const workloads: Workload[] = [
   { name: "one traced plane, upright drop (P4's drop, 580 nm)", run: (b: Build) => planeOf(b, 0) },
   { name: `one traced plane, drop canted ${(Math.sqrt(3) * p4Spec.cantingSdDeg).toFixed(1)}° (P4's canting node 3, across the plane, 580 nm)`, run: (b: Build) => planeOf(b, 3) },
   ...(process.argv.includes("--p4")
-    ? [{ name: `P4 (canting ${p4Spec.cantingSdDeg}°, ${media.length} wavelengths)`, run: (b: Build) => b.shapedRows(p4Spec, media.map((m) => drop(1000, m)), thetaDeg, 0.05) }]
+    ? [
+        { name: `P4 (canting ${p4Spec.cantingSdDeg}°, ${media.length} wavelengths)`, run: (b: Build) => b.shapedRows(p4Spec, media.map((m) => drop(1000, m)), thetaDeg, 0.05), spectral: true },
+        { name: `2 mm equilibrium drops, arc 45° (canting ${arc45Spec.cantingSdDeg}°, ${media.length} wavelengths)`, run: (b: Build) => b.shapedRows(arc45Spec, media.map((m) => drop(2000, m)), thetaDeg, 0.05), spectral: true },
+      ]
     : []),
 ];
 
@@ -111,6 +131,8 @@ for (const w of workloads) {
     const traces = countTraces(b, () => (rows = w.run(b)));
     return { traces, rows };
   });
+  // One plain run each after the counting pass (its wrapper costs the compiled code a round of re-optimisation).
+  for (const b of builds) w.run(b);
   const times: number[][] = builds.map(() => []);
   for (let r = 0; r < rounds; r++) {
     // Alternating order each round, so that neither build always runs after the other.
@@ -122,5 +144,34 @@ for (const w of workloads) {
   if (builds.length > 1) {
     const diff = rowDifference(results[1].rows, results[0].rows);
     console.log(`  CPU ratio ${(median(times[0]) / median(times[1])).toFixed(3)}; rows: max |Δ| ${diff.overPeak.toExponential(2)} of the peak, ${diff.pointwise.toExponential(2)} relative (bins ≥ 1e-6 of the peak)`);
+    if (w.spectral) {
+      const [mine, theirs] = [results[0].rows, results[1].rows].map(xyzOfRows);
+      const d = xyzDeltaE(theirs, mine, thetaDeg.map((t) => 180 - t));
+      const peaks = [peakThetaDeg(theirs, 134, 142), peakThetaDeg(mine, 134, 142), peakThetaDeg(theirs, 124, 132), peakThetaDeg(mine, 124, 132)];
+      console.log(
+        `  colour: worst ΔE2000 ${d.worst.toFixed(4)} at ψ ${d.at.toFixed(2)}°, mean ${d.mean.toFixed(5)}; peaks of Y: primary Θ ${peaks[1].toFixed(4)}° vs ${peaks[0].toFixed(4)}°, secondary ${peaks[3].toFixed(4)}° vs ${peaks[2].toFixed(4)}°`,
+      );
+    }
   }
+}
+
+/** XYZ per angle of rows[wavelength] (|S1|² + |S2|²), an equal-energy spectrum. */
+function xyzOfRows(rows: Rows): Float64Array {
+  const count = rows.length;
+  const spectra = new Float64Array(thetaDeg.length * count);
+  rows.forEach((row, i) => {
+    for (let j = 0; j < thetaDeg.length; j++) spectra[j * count + i] = row.perp[j] + row.par[j];
+  });
+  return spectraToXyz(grid, spectra, request.observer);
+}
+
+/** Θ of the largest Y within [loDeg, hiDeg], refined by the parabola through it and its neighbours. */
+function peakThetaDeg(xyz: Float64Array, loDeg: number, hiDeg: number): number {
+  let best = -1;
+  for (let j = 1; j + 1 < thetaDeg.length; j++) {
+    if (thetaDeg[j] < loDeg || thetaDeg[j] > hiDeg) continue;
+    if (best < 0 || xyz[3 * j + 1] > xyz[3 * best + 1]) best = j;
+  }
+  const [a, b, c] = [xyz[3 * best - 2], xyz[3 * best + 1], xyz[3 * best + 4]];
+  return thetaDeg[best] + (0.5 * (thetaDeg[1] - thetaDeg[0]) * (a - c)) / (a - 2 * b + c);
 }

@@ -82,80 +82,89 @@ export function interpolateSweep(
   const loRad = near?.loRad ?? -Infinity;
   const hiRad = near?.hiRad ?? Infinity;
   const retrace = new Uint8Array(count);
-  for (let s = 0; s < count; s++) {
-    // Nodes that have the ray, on which side of `near` they send it, and whether its amplitudes keep their signs.
-    let okNodes = 0;
-    let below = 0;
-    let above = 0;
-    let signsAgree = true;
-    for (let k = 0; k < M; k++) {
-      const sweep = sweeps[k];
-      if (!sweep.ok[s]) continue;
-      okNodes++;
-      const t = Math.abs(sweep.thetaSigned[s]);
-      if (t < loRad) below++;
-      if (t > hiRad) above++;
-      if (Math.sign(sweep.perpAmp[s]) !== Math.sign(first.perpAmp[s]) || Math.sign(sweep.parAmp[s]) !== Math.sign(first.parAmp[s])) signsAgree = false;
+  // Node by node over every sample (the inner loops run along one sweep's arrays; the sums over the nodes are added in
+  // node order, as sample by sample): which nodes have the ray, on which side of `near` they send it, and whether its
+  // amplitudes keep their signs.
+  const { okNodes, below, above, signsDiffer, eligible, sums } = workArrays(count);
+  okNodes.fill(0);
+  below.fill(0);
+  above.fill(0);
+  signsDiffer.fill(0);
+  const firstPerp = first.perpAmp;
+  const firstPar = first.parAmp;
+  for (let k = 0; k < M; k++) {
+    const { ok, thetaSigned, perpAmp, parAmp } = sweeps[k];
+    for (let s = 0; s < count; s++) {
+      if (!ok[s]) continue;
+      okNodes[s]++;
+      const t = Math.abs(thetaSigned[s]);
+      if (t < loRad) below[s]++;
+      if (t > hiRad) above[s]++;
+      if (Math.sign(perpAmp[s]) !== Math.sign(firstPerp[s]) || Math.sign(parAmp[s]) !== Math.sign(firstPar[s])) signsDiffer[s] = 1;
     }
-    if (okNodes === 0) continue;
+  }
+  // The interpolated values and Newton's top coefficients of Θ, W, Ã⊥, Ã∥ where every node has the ray.
+  const [theta, thetaTop, pathTop, perpTop, parTop, amplitude, perp, par, path, offset, v] = sums;
+  for (const sum of sums) sum.fill(0);
+  const firstTheta = first.thetaSigned;
+  let eligibleCount = 0;
+  for (let s = 0; s < count; s++) if (okNodes[s] === M && !signsDiffer[s]) eligible[eligibleCount++] = s;
+  for (let k = 0; k < M; k++) {
+    const sweep = sweeps[k];
+    const wk = w[k];
+    const topK = top[k];
+    for (let e = 0; e < eligibleCount; e++) {
+      const s = eligible[e];
+      const t0 = firstTheta[s];
+      const t = t0 + wrap(sweep.thetaSigned[s] - t0);
+      const a = sweep.perpAmp[s];
+      const b = sweep.parAmp[s];
+      const pathK = sweep.path[s];
+      theta[s] += wk * t;
+      thetaTop[s] += topK * t;
+      pathTop[s] += topK * pathK;
+      perpTop[s] += topK * a;
+      parTop[s] += topK * b;
+      amplitude[s] = Math.max(amplitude[s], Math.abs(a), Math.abs(b));
+      perp[s] += wk * a;
+      par[s] += wk * b;
+      path[s] += wk * pathK;
+      offset[s] += wk * sweep.offset[s];
+      v[s] += wk * sweep.v[s];
+    }
+  }
+  for (let s = 0; s < count; s++) {
+    if (okNodes[s] === 0) continue;
     // Far from the angles of interest a sample only joins its neighbours (a fold's run, a segment's power that
     // crosses the grid): it is interpolated where that can be trusted, else left out, and never traced.
-    const far = below === okNodes || above === okNodes;
-    if (okNodes < M || !signsAgree) {
+    const far = below[s] === okNodes[s] || above[s] === okNodes[s];
+    if (okNodes[s] < M || signsDiffer[s]) {
       if (!far) retrace[s] = 1;
       continue;
     }
-    const t0 = first.thetaSigned[s];
-    // The interpolated values and Newton's top coefficients of Θ, W, Ã⊥, Ã∥.
-    let theta = 0;
-    let thetaTop = 0;
-    let pathTop = 0;
-    let perpTop = 0;
-    let parTop = 0;
-    let amplitude = 0;
-    let perp = 0;
-    let par = 0;
-    let path = 0;
-    let offset = 0;
-    let v = 0;
-    for (let k = 0; k < M; k++) {
-      const sweep = sweeps[k];
-      const t = t0 + wrap(sweep.thetaSigned[s] - t0);
-      theta += w[k] * t;
-      thetaTop += top[k] * t;
-      pathTop += top[k] * sweep.path[s];
-      perpTop += top[k] * sweep.perpAmp[s];
-      parTop += top[k] * sweep.parAmp[s];
-      amplitude = Math.max(amplitude, Math.abs(sweep.perpAmp[s]), Math.abs(sweep.parAmp[s]));
-      perp += w[k] * sweep.perpAmp[s];
-      par += w[k] * sweep.parAmp[s];
-      path += w[k] * sweep.path[s];
-      offset += w[k] * sweep.offset[s];
-      v += w[k] * sweep.v[s];
-    }
     const trusted =
-      Math.abs(thetaTop) * omega <= THETA_TOLERANCE_RAD &&
-      Math.abs(pathTop) * omega <= PATH_TOLERANCE &&
-      Math.max(Math.abs(perpTop), Math.abs(parTop)) * omega <= AMPLITUDE_TOLERANCE * amplitude;
+      Math.abs(thetaTop[s]) * omega <= THETA_TOLERANCE_RAD &&
+      Math.abs(pathTop[s]) * omega <= PATH_TOLERANCE &&
+      Math.max(Math.abs(perpTop[s]), Math.abs(parTop[s])) * omega <= AMPLITUDE_TOLERANCE * amplitude[s];
     if (!trusted) {
       // Far from the grid an untrusted sample is left out (a gap there only ends a run where its light is far from
       // the grid; kept, its error could make a spurious turn of Θ). Near it, the interpolated v is close enough for
       // Newton's search to start from.
       if (!far) {
         retrace[s] = 2;
-        out.v[s] = v;
+        out.v[s] = v[s];
       }
       continue;
     }
     out.ok[s] = 1;
-    out.thetaSigned[s] = wrap(theta);
-    out.perpAmp[s] = perp;
-    out.parAmp[s] = par;
-    out.path[s] = path;
-    out.offset[s] = offset;
-    out.v[s] = v;
-    out.perpPerU[s] = perp * perp;
-    out.parPerU[s] = par * par;
+    out.thetaSigned[s] = wrap(theta[s]);
+    out.perpAmp[s] = perp[s];
+    out.parAmp[s] = par[s];
+    out.path[s] = path[s];
+    out.offset[s] = offset[s];
+    out.v[s] = v[s];
+    out.perpPerU[s] = perp[s] * perp[s];
+    out.parPerU[s] = par[s] * par[s];
   }
   // Traced outwards from the pupil's centre, as sweepPlane traces: Newton's search starts from the interpolated v
   // where all nodes have the ray, else from the nearest ray at n further in (as sweepPlane continues from its last
@@ -165,9 +174,12 @@ export function interpolateSweep(
   // the ends of the range are extrapolated, and the order's end near the rim moves with n): given `near`, the sweep goes
   // on outwards from a ray at n within it until a sample has none (measured: up to 4 more samples at 760–780 nm).
   let traced = 0;
+  let lastTraced = -1;
+  let lastSlope = Number.NaN;
   const centre = (count - 1) / 2;
-  const order = [...Array.from({ length: count - centre }, (_, k) => centre + k), ...Array.from({ length: centre }, (_, k) => centre - 1 - k)];
-  for (const s of order) {
+  for (let k = 0; k < count; k++) {
+    // The centre and the + side outwards, then the − side outwards.
+    const s = k < count - centre ? centre + k : centre - 1 - (k - (count - centre));
     const step = s >= centre ? -1 : 1;
     const before = s + step;
     const extend = near !== undefined && !retrace[s] && !out.ok[s] && before >= 0 && before < count && out.ok[before] && Math.abs(out.thetaSigned[before]) >= loRad && Math.abs(out.thetaSigned[before]) <= hiRad && sweeps.every((sweep) => !sweep.ok[s]);
@@ -182,12 +194,41 @@ export function interpolateSweep(
       ...(outer >= 0 && outer < count && out.ok[outer] ? [out.v[outer]] : []),
       ...sweeps.filter((sweep) => sweep.ok[s]).map((sweep) => sweep.v[s]),
     ];
+    // The ray traced at the neighbour further in lends its ∂Y/∂v to the search's first step (PlaneTracer.planeRay).
+    const slope = lastTraced === before ? lastSlope : Number.NaN;
     for (const guess of guesses) {
-      const ray = tracer.planeRay(first.u[s], guess, first.order);
+      const ray = tracer.planeRay(first.u[s], guess, first.order, false, slope);
       if (ray === null) continue;
       storeRay(out, s, ray);
+      lastTraced = s;
+      lastSlope = ray.yv;
       break;
     }
   }
   return { sweep: out, traced };
+}
+
+/** Work arrays of interpolateSweep, kept between calls (one thread runs one call at a time). */
+interface Scratch {
+  okNodes: Uint8Array;
+  below: Uint8Array;
+  above: Uint8Array;
+  signsDiffer: Uint8Array;
+  /** The samples every node has the ray at, with the same signs. */
+  eligible: Int32Array;
+  sums: Float64Array[];
+}
+let work: Scratch | null = null;
+function workArrays(count: number): Scratch {
+  if (work === null || work.okNodes.length !== count) {
+    work = {
+      okNodes: new Uint8Array(count),
+      below: new Uint8Array(count),
+      above: new Uint8Array(count),
+      signsDiffer: new Uint8Array(count),
+      eligible: new Int32Array(count),
+      sums: Array.from({ length: 11 }, () => new Float64Array(count)),
+    };
+  }
+  return work;
 }
