@@ -1,5 +1,5 @@
 // node dist/bench/profile-once.js <tree> <workload> [rows]: one process, one cold profile of a flattened-drop
-// workload with the build of another checkout (<tree>/dist), as npm run bench's P4 row takes it (2 worker threads,
+// workload (or of the fog P2) with the build of another checkout (<tree>/dist), as npm run bench's P4 row takes it (2 worker threads,
 // warmed by one other request, a kernel service that knows the pool's threads, as the service's: runtime.ts), printed
 // as one JSON line { coldMs, coldCores, threadsBusy }; with "rows", the profile's spectral rows instead, to compare two
 // builds' numbers. bench/side-by-side.ts runs it.
@@ -13,10 +13,12 @@ import { join } from "node:path";
 import { pathToFileURL } from "node:url";
 import { performance } from "node:perf_hooks";
 
-/** Workloads by name: P4 (bench/profiles.ts) and P4 with upright drops (one canting node). */
-const WORKLOADS: Record<string, (p4: { body: Record<string, unknown> }) => Record<string, unknown>> = {
-  P4: (p4) => p4.body,
-  "P4-upright": (p4) => ({ ...p4.body, drops: { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium", cantingSdDeg: 0 } } }),
+type Workload = { body: Record<string, unknown> };
+/** Workloads by name: P4 (bench/profiles.ts), P4 with upright drops (one canting node), and the full-Mie fog P2. */
+const WORKLOADS: Record<string, (profiles: { P2: Workload; P4: Workload }) => Record<string, unknown>> = {
+  P4: ({ P4 }) => P4.body,
+  "P4-upright": ({ P4 }) => ({ ...P4.body, drops: { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium", cantingSdDeg: 0 } } }),
+  P2: ({ P2 }) => P2.body,
 };
 /** As bench/profiles.ts's warm-up: the default profile with the water 1 °C warmer. */
 const WARM_UP_BODY = { water: { temperatureC: 16 } };
@@ -24,7 +26,7 @@ const THREADS = 2;
 
 const [tree, name, mode] = process.argv.slice(2);
 const at = (path: string) => import(pathToFileURL(join(tree, "dist", path)).href);
-const { P4 } = await at("bench/profiles.js");
+const profiles = await at("bench/profiles.js");
 const { createWorkerPool } = await at("pipeline/kernels/worker-pool.js");
 const { KernelService } = await at("pipeline/kernels/kernel-service.js");
 const { computeProfile } = await at("pipeline/compute/profile.js");
@@ -42,7 +44,7 @@ const fresh = () => new KernelService({ memoryBudgetBytes: 2 ** 31, compute, par
 const profile = (body: unknown) => computeProfile(profileRequestSchema.parse(body), { kernels: fresh(), limits: { maxTermAngles: Infinity } });
 
 await profile(WARM_UP_BODY);
-const body = WORKLOADS[name](P4);
+const body = WORKLOADS[name](profiles);
 tasks = [];
 const cpu0 = process.cpuUsage();
 const t0 = performance.now();

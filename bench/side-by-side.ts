@@ -1,6 +1,7 @@
 // node dist/bench/side-by-side.js <old tree> <new tree> <rounds> <workload>…: cold profiles of flattened-drop workloads
-// (bench/profile-once.ts: P4, P4-upright) with two builds on this machine, alternating which goes first each round,
-// one process each; writes the "shaped-split" section of BENCHMARKS.md: each round's wall time and cores busy
+// (bench/profile-once.ts: P4, P4-upright), or of the fog P2, with two builds on this machine, alternating which goes
+// first each round, one process each; writes the "shaped-split" section of BENCHMARKS.md (P2 alone: "fog-cold"): each
+// round's wall time and cores busy
 // (process CPU over wall), the medians, and the largest difference between the two builds' spectral rows relative to
 // their peak. Both checkouts must be built (npm run build in each).
 
@@ -20,18 +21,36 @@ function run(tree: string, workload: string, mode?: string): Record<string, numb
   return JSON.parse(out.stdout.trim().split("\n").at(-1)!);
 }
 
+const TITLES: Record<string, string> = {
+  P4: "P4 (1 mm equilibrium drops, canting 7.5°, top of the bow)",
+  "P4-upright": "P4 with upright drops (canting 0: one canting node)",
+  P2: "P2 (fog, lognormal 10 µm, σg 1.4, full Mie, ψ 20–60° step 0.2°, 512 Mie sizes per decade)",
+};
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)];
+const fog = workloads.every((w) => w === "P2");
 const lines = [
-  "## Flattened drops: one shape's task split over both threads",
-  "",
-  `Written by bench/side-by-side.ts, ${benchDate()}, ${machineLine()}. Old: ${commit(oldTree)} (a task of one shape split`,
-  `in two runs of consecutive canting nodes); new: ${commit(newTree)} (one part per canting node and order group, queued`,
-  "largest first: pipeline/kernels/canting-parts.ts). Cold profile (empty kernel cache, 2 worker threads warmed by one",
-  "other request, as npm run bench's P4 row), one process per build and round, the builds alternating which goes first.",
+  ...(fog
+    ? [
+        "## Full-Mie fog, cold: the main thread's and V8's share cut",
+        "",
+        `Written by bench/side-by-side.ts, ${benchDate()}, ${machineLine()}. Old: ${commit(oldTree)}; new: ${commit(newTree)} (the`,
+        "spectral sum fed wavelength by wavelength as kernel tasks end, tasks looked up and sent wavelength by wavelength,",
+        "no wrong-map deoptimisations of the worker's Mie code on fog after rain, cheaper planning). Cold P2 (empty kernel",
+        "cache, 2 worker threads warmed by one other request, the default profile: rain, as npm run bench's P2 row), one",
+        "process per build and round, the builds alternating which goes first.",
+      ]
+    : [
+        "## Flattened drops: one shape's task split over both threads",
+        "",
+        `Written by bench/side-by-side.ts, ${benchDate()}, ${machineLine()}. Old: ${commit(oldTree)} (a task of one shape split`,
+        `in two runs of consecutive canting nodes); new: ${commit(newTree)} (one part per canting node and order group, queued`,
+        "largest first: pipeline/kernels/canting-parts.ts). Cold profile (empty kernel cache, 2 worker threads warmed by one",
+        "other request, as npm run bench's P4 row), one process per build and round, the builds alternating which goes first.",
+      ]),
   "Cores: the process's CPU time over the cold wall time, which other processes' work on the 2 cores lowers (one-minute",
   "load average in each table's heading; both builds saw it, round by round). Threads busy: the time the 2 worker threads",
   "held a kernel task over the wall time (bench/profile-once.ts), which that load does not lower: what balancing",
-  "the parts changes. Tasks: kernel tasks sent to the pool.",
+  fog ? "the main thread's serial work against the threads' changes. Tasks: kernel tasks sent to the pool." : "the parts changes. Tasks: kernel tasks sent to the pool.",
   "",
 ];
 for (const workload of workloads) {
@@ -58,15 +77,15 @@ for (const workload of workloads) {
     x.forEach((v, k) => (worst = Math.max(worst, Math.abs(v - y[k]) / peak)));
   }
   lines.push(
-    `${workload === "P4" ? "P4 (1 mm equilibrium drops, canting 7.5°, top of the bow)" : "P4 with upright drops (canting 0: one canting node)"}; load average ${load0.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end.`,
+    `${TITLES[workload]}; load average ${load0.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end.`,
     "",
     "| round | first | old cold (ms) | old cores | old threads busy | old tasks | new cold (ms) | new cores | new threads busy | new tasks |",
     "|---|---|---|---|---|---|---|---|---|---|",
     ...table,
     `| median | | ${medians("old")} | | ${medians("new")} | |`,
     "",
-    `New over old, cold wall: ${(med("new", "coldMs") / med("old", "coldMs")).toFixed(2)}. Spectral rows, largest |new − old| over their peak: ${worst.toExponential(1)} (the order groups' shares are added one by one: rounding).`,
+    `New over old, cold wall: ${(med("new", "coldMs") / med("old", "coldMs")).toFixed(2)}. Spectral rows, largest |new − old| over their peak: ${worst.toExponential(1)}${fog ? " (the same arithmetic in the same order)" : " (the order groups' shares are added one by one: rounding)"}.`,
     "",
   );
 }
-writeMarkedSection("shaped-split", lines);
+writeMarkedSection(fog ? "fog-cold" : "shaped-split", lines);
