@@ -50,7 +50,17 @@ const lines = [
   "Cores: the process's CPU time over the cold wall time, which other processes' work on the 2 cores lowers (one-minute",
   "load average in each table's heading; both builds saw it, round by round). Threads busy: the time the 2 worker threads",
   "held a kernel task over the wall time (bench/profile-once.ts), which that load does not lower: what balancing",
-  fog ? "the main thread's serial work against the threads' changes. Tasks: kernel tasks sent to the pool." : "the parts changes. Tasks: kernel tasks sent to the pool.",
+  fog
+    ? "the main thread's serial work against the threads' changes. Tasks: kernel tasks sent to the pool."
+    : "the parts changes. Tasks: kernel tasks sent to the pool. The new build also holds main's later changes (the in-plane",
+  ...(fog
+    ? []
+    : [
+        "search's chord steps, lib/rays/plane-sweep.ts, about 13 % less CPU on P4): its wall times are not the split's alone.",
+        "npm run bench's P4 row before this (6.8 s, 1.15 cores) ran P4's task whole on one thread: that benchmark's kernel",
+        "service did not know the pool's threads (bench/profiles.ts passes them now, as pipeline/kernels/runtime.ts does);",
+        "the service itself split it in two runs of canting nodes, the old build here.",
+      ]),
   "",
 ];
 for (const workload of workloads) {
@@ -84,7 +94,7 @@ for (const workload of workloads) {
     ...table,
     `| median | | ${medians("old")} | | ${medians("new")} | |`,
     "",
-    `New over old, cold wall: ${(med("new", "coldMs") / med("old", "coldMs")).toFixed(2)}. Spectral rows, largest |new − old| over their peak: ${worst.toExponential(1)}${fog ? " (the same arithmetic in the same order)" : " (the order groups' shares are added one by one: rounding)"}.`,
+    `New over old, cold wall: ${(med("new", "coldMs") / med("old", "coldMs")).toFixed(2)}. Spectral rows, largest |new − old| over their peak: ${worst.toExponential(1)}${fog ? " (the same arithmetic in the same order)" : " (the split alone adds the order groups' shares one by one: rounding; more is the new build's other changes)"}.`,
     "",
   );
 }
