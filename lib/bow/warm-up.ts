@@ -1,5 +1,6 @@
 // Kernel tasks shaped like a default profile's and a fog profile's at a few wavelengths: Mie drops, Airy drops, the
-// bows' tables, and small drops averaged over their radius cells on a sub-lattice (the many-drops Mie kernel). Run on
+// bows' tables, and small drops averaged over their radius cells on a sub-lattice (the many-drops Mie kernel), and one
+// flattened drop traced through its 3D shape (lib/bow/shaped-rows.ts). Run on
 // each worker thread before its first request, so that the request does not pay for V8 compiling the TypeScript and
 // tiering up the WebAssembly Mie kernel (measured in BENCHMARKS.md: "first" against "started"), nor, on a fog request
 // after rain ones, for V8 recompiling the code the rain tasks alone had shaped (wrong-map deoptimisations).
@@ -51,9 +52,33 @@ function fogWarmUpTask(wavelengthNm: number): KernelRowsInput {
   });
 }
 
-/** Runs `rounds` warm-up tasks (rain-like and fog-like in turn, at 450, 550 and 650 nm) and returns the ms each took. */
+/** ψ 40–42°: the flattened task's window (its tracing costs the same for any window; its binning less). */
+const FLATTENED_SPAN = latticeSpan(40, 42, KERNEL_STEPS_DEG[0]);
+
+/**
+ * A flattened drop (1 mm, upright, half-way down the bow: a plane in no symmetry) at three wavelengths in one task, as
+ * the service sends one shape's rows: each plane traced at the index nodes and interpolated to each wavelength.
+ */
+function flattenedWarmUpTask(): KernelRowsInput {
+  const blocks = blocksOf(FLATTENED_SPAN);
+  const shape = { kind: "equilibrium" as const, cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 45, rayOnly: false };
+  const water = { temperatureC: 15, salinityPsu: 0 };
+  return asReceived({
+    medium: dropMedium(water, 450),
+    h: FLATTENED_SPAN.h,
+    items: [450, 550, 650].map((wavelengthNm) => ({ radiusUm: 1000, engine: "airy" as const, average: undefined, shape, blocks, medium: dropMedium(water, wavelengthNm) })),
+    within: { first: FLATTENED_SPAN.first, last: FLATTENED_SPAN.last },
+  });
+}
+
+/**
+ * Runs `rounds` warm-up tasks (rain-like and fog-like in turn, at 450, 550 and 650 nm, then the flattened drop twice:
+ * V8 optimised its tracer only after the second) and returns the ms each took. Measured 2026-12-03 (AMD EPYC, Node 20,
+ * one thread): 12 rounds 1.6 s, of which the flattened drop's two 1.4 s; the first flattened profile of a started pool
+ * (1 mm upright drops at the top of the bow, 41 wavelengths) then took 1.3–1.7 s instead of 5.3–5.9 s.
+ */
 export function warmUpKernels(rounds: number): number[] {
-  const tasks = [warmUpTask(450), fogWarmUpTask(550), warmUpTask(650), fogWarmUpTask(450), warmUpTask(550), fogWarmUpTask(650)];
+  const tasks = [warmUpTask(450), fogWarmUpTask(550), warmUpTask(650), fogWarmUpTask(450), warmUpTask(550), fogWarmUpTask(650), flattenedWarmUpTask(), flattenedWarmUpTask()];
   const times: number[] = [];
   for (let r = 0; r < rounds; r++) {
     const t0 = performance.now();

@@ -33,7 +33,7 @@ export interface Config extends JobConfig {
   requestTimeoutMs: number;
   /** Heap limit of each kernel worker thread; a worker over it fails only its request and is replaced. */
   workerMemoryMb: number;
-  /** Rounds of a default-profile-like kernel task each worker thread runs at start (lib/bow/warm-up.ts); 0: none. */
+  /** Rounds of kernel tasks like a request's (rain, fog, then a flattened drop) each worker thread runs at start (lib/bow/warm-up.ts); 0: none. */
   workerWarmUpRounds: number;
   /**
    * SIGTERM → exit at most this long, ms: below the 30 s most container platforms wait before SIGKILL. Work still in
