@@ -1,4 +1,5 @@
-// node dist/bench/plane-trace.js [--against <dist root of another build>] [--rounds N] [--p4]: what one traced
+// node dist/bench/plane-trace.js [--against <dist root of another build>] [--label <what that build is>] [--rounds N]
+// [--p4] [--write] (--write: the plane-trace section of BENCHMARKS.md): what one traced
 // scattering plane of a flattened drop costs (issue 13), in CPU time and in rays traced through the drop, and how far
 // its rows move, this build beside another one in the same process (alternating rounds, CPU-time medians: the
 // machine is shared). The other build is any checkout's `npm run build` output (e.g. main's, copied aside): its
@@ -14,7 +15,9 @@
 
 import { pathToFileURL } from "node:url";
 import { resolve } from "node:path";
+import { loadavg } from "node:os";
 import { median } from "./stats.js";
+import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
 import { xyzDeltaE } from "./auto-presets.js";
 import { spectraToXyz } from "../lib/colour/tristimulus.js";
 import { P4 } from "./profiles.js";
@@ -123,6 +126,10 @@ const builds = [await loadBuild("this build", resolve(new URL("..", import.meta.
 const against = argument("--against");
 if (against) builds.push(await loadBuild(`build at ${against}`, against));
 const rounds = Number(argument("--rounds") ?? 5);
+const label = argument("--label") ?? against ?? "";
+const loadBefore = loadavg()[0];
+/** Table rows for BENCHMARKS.md (with two builds). */
+const table: string[] = [];
 
 for (const w of workloads) {
   // Warm-up and the untimed pass: traces counted and rows kept for the comparison.
@@ -144,14 +151,17 @@ for (const w of workloads) {
   if (builds.length > 1) {
     const diff = rowDifference(results[1].rows, results[0].rows);
     console.log(`  CPU ratio ${(median(times[0]) / median(times[1])).toFixed(3)}; rows: max |Δ| ${diff.overPeak.toExponential(2)} of the peak, ${diff.pointwise.toExponential(2)} relative (bins ≥ 1e-6 of the peak)`);
+    let colour = "–";
     if (w.spectral) {
       const [mine, theirs] = [results[0].rows, results[1].rows].map(xyzOfRows);
       const d = xyzDeltaE(theirs, mine, thetaDeg.map((t) => 180 - t));
       const peaks = [peakThetaDeg(theirs, 134, 142), peakThetaDeg(mine, 134, 142), peakThetaDeg(theirs, 124, 132), peakThetaDeg(mine, 124, 132)];
-      console.log(
-        `  colour: worst ΔE2000 ${d.worst.toFixed(4)} at ψ ${d.at.toFixed(2)}°, mean ${d.mean.toFixed(5)}; peaks of Y: primary Θ ${peaks[1].toFixed(4)}° vs ${peaks[0].toFixed(4)}°, secondary ${peaks[3].toFixed(4)}° vs ${peaks[2].toFixed(4)}°`,
-      );
+      colour = `worst ΔE2000 ${d.worst.toFixed(4)} at ψ ${d.at.toFixed(2)}°, mean ${d.mean.toFixed(5)}; peaks of Y: primary Θ ${peaks[1].toFixed(4)}° vs ${peaks[0].toFixed(4)}°, secondary ${peaks[3].toFixed(4)}° vs ${peaks[2].toFixed(4)}°`;
+      console.log(`  colour: ${colour}`);
     }
+    table.push(
+      `| ${w.name} | ${median(times[1]).toFixed(0)} | ${median(times[0]).toFixed(0)} | ${(median(times[0]) / median(times[1])).toFixed(2)} | ${results[1].traces} | ${results[0].traces} | ${diff.overPeak.toExponential(1)} | ${colour} |`,
+    );
   }
 }
 
@@ -174,4 +184,21 @@ function peakThetaDeg(xyz: Float64Array, loDeg: number, hiDeg: number): number {
   }
   const [a, b, c] = [xyz[3 * best - 2], xyz[3 * best + 1], xyz[3 * best + 4]];
   return thetaDeg[best] + (0.5 * (thetaDeg[1] - thetaDeg[0]) * (a - c)) / (a - 2 * b + c);
+}
+
+if (process.argv.includes("--write") && table.length > 0) {
+  writeMarkedSection("plane-trace", [
+    "## Flattened drops: one traced scattering plane, side by side with an earlier build",
+    "",
+    `Written by \`node dist/bench/plane-trace.js --against … --write\` (bench/plane-trace.ts), ${benchDate()}; ${machineLine()}; one thread;`,
+    `one-minute load average ${loadBefore.toFixed(2)} at the start, ${loadavg()[0].toFixed(2)} at the end (other processes shared the cores: compare the two`,
+    `columns of a row, measured in alternating rounds in one process, not rows of other sections). Earlier build: ${label}. CPU: median of ${rounds} rounds`,
+    "after a warm-up. Traces: rays traced through the drop (PlaneTracer.traceAt calls). Rows: largest |Δ| of |S1|² + |S2|²",
+    "over the row's peak. Colour: CIEDE2000 per angle of an equal-energy spectrum's XYZ, and the peaks of Y (Θ, degrees: this build vs",
+    "the earlier one).",
+    "",
+    "| workload | CPU earlier (ms) | CPU now (ms) | ratio | traces earlier | traces now | rows Δ / peak | colour |",
+    "|---|---|---|---|---|---|---|---|",
+    ...table,
+  ]);
 }
