@@ -123,16 +123,10 @@ const planeOf = (b: Build, node: number): Rows => [sumShares(b.shapedNodeRows(on
 
 /** The node's row: the sum of its shares (a build that splits the orders into groups returns one share a group). */
 function sumShares(shares: Rows): Rows[number] {
-  const perp = new Float64Array(thetaDeg.length);
-  const par = new Float64Array(thetaDeg.length);
-  for (const share of shares) {
-    for (let j = 0; j < perp.length; j++) {
-      perp[j] += share.perp[j];
-      par[j] += share.par[j];
-    }
-  }
-  return { perp, par };
+  const add = (key: "perp" | "par") => shares.reduce((sum, share) => sum.map((v, j) => v + share[key][j]), new Float64Array(thetaDeg.length));
+  return { perp: add("perp"), par: add("par") };
 }
+
 interface Workload {
   name: string;
   run: (b: Build) => Rows;
