@@ -85,7 +85,9 @@ async function once(body: unknown, kernels: KernelService): Promise<{ ms: number
   return { ms, mieTermAngles: r.spectral.mieTermAngles, cores: (cpu.user + cpu.system) / 1000 / ms };
 }
 
-const freshCache = (pool: KernelPool, disk?: DiskStore, mieSampling?: MieSampling) => new KernelService({ memoryBudgetBytes: 2 ** 31, compute: pool.compute, disk, mieSampling });
+// parallelism: the pool's threads, as the service sets it (pipeline/kernels/runtime.ts): flattened drops' tasks are split by it.
+const freshCache = (pool: KernelPool, disk?: DiskStore, mieSampling?: MieSampling) =>
+  new KernelService({ memoryBudgetBytes: 2 ** 31, compute: pool.compute, disk, mieSampling, parallelism: pool.threads });
 
 /** An empty disk tier in a temporary folder, as the service's CACHE_DIR on first start. */
 async function emptyDisk(): Promise<{ disk: DiskStore; remove: () => Promise<void> }> {

@@ -1,6 +1,7 @@
 // node dist/bench/side-by-side.js <old tree> <new tree> <rounds> <workload>…: cold profiles of flattened-drop workloads
-// (bench/profile-once.ts: P4, P4-upright) with two builds on this machine, alternating which goes first each round,
-// one process each; writes the "shaped-split" section of BENCHMARKS.md: each round's wall time and cores busy
+// (bench/profile-once.ts: P4, P4-upright), or of the fog P2, with two builds on this machine, alternating which goes
+// first each round, one process each; writes the "shaped-split" section of BENCHMARKS.md (P2 alone: "fog-cold"): each
+// round's wall time and cores busy
 // (process CPU over wall), the medians, and the largest difference between the two builds' spectral rows relative to
 // their peak. Both checkouts must be built (npm run build in each).
 
@@ -20,30 +21,63 @@ function run(tree: string, workload: string, mode?: string): Record<string, numb
   return JSON.parse(out.stdout.trim().split("\n").at(-1)!);
 }
 
+const TITLES: Record<string, string> = {
+  P4: "P4 (1 mm equilibrium drops, canting 7.5°, top of the bow)",
+  "P4-upright": "P4 with upright drops (canting 0: one canting node)",
+  P2: "P2 (fog, lognormal 10 µm, σg 1.4, full Mie, ψ 20–60° step 0.2°, 512 Mie sizes per decade)",
+};
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)];
+const fog = workloads.every((w) => w === "P2");
 const lines = [
-  "## Flattened drops: one shape's task split over both threads",
-  "",
-  `Written by bench/side-by-side.ts, ${benchDate()}, ${machineLine()}. Old: ${commit(oldTree)} (a task of one shape split`,
-  `in two runs of consecutive canting nodes); new: ${commit(newTree)} (one part per canting node and order group, queued`,
-  "largest first: pipeline/kernels/canting-parts.ts). Cold profile (empty kernel cache, 2 worker threads warmed by one",
-  "other request, as npm run bench's P4 row), one process per build and round, the builds alternating which goes first.",
-  "Cores: the process's CPU time over the cold wall time; both builds saw the same load, which other sessions' work",
-  "put on the 2 cores (one-minute load average in each table's heading).",
+  ...(fog
+    ? [
+        "## Full-Mie fog, cold: the main thread's and V8's share cut",
+        "",
+        `Written by bench/side-by-side.ts, ${benchDate()}, ${machineLine()}. Old: ${commit(oldTree)}; new: ${commit(newTree)} (the`,
+        "spectral sum fed wavelength by wavelength as kernel tasks end, tasks looked up and sent wavelength by wavelength,",
+        "no wrong-map deoptimisations of the worker's Mie code on fog after rain, cheaper planning). Cold P2 (empty kernel",
+        "cache, 2 worker threads warmed by one other request, the default profile: rain, as npm run bench's P2 row), one",
+        "process per build and round, the builds alternating which goes first.",
+      ]
+    : [
+        "## Flattened drops: one shape's task split over both threads",
+        "",
+        `Written by bench/side-by-side.ts, ${benchDate()}, ${machineLine()}. Old: ${commit(oldTree)} (a task of one shape split`,
+        `in two runs of consecutive canting nodes); new: ${commit(newTree)} (one part per canting node and order group, queued`,
+        "largest first: pipeline/kernels/canting-parts.ts). Cold profile (empty kernel cache, 2 worker threads warmed by one",
+        "other request, as npm run bench's P4 row), one process per build and round, the builds alternating which goes first.",
+      ]),
+  "Cores: the process's CPU time over the cold wall time, which other processes' work on the 2 cores lowers (one-minute",
+  "load average in each table's heading; both builds saw it, round by round). Threads busy: the time the 2 worker threads",
+  "held a kernel task over the wall time (bench/profile-once.ts), which that load does not lower: what balancing",
+  fog
+    ? "the main thread's serial work against the threads' changes. Tasks: kernel tasks sent to the pool."
+    : "the parts changes. Tasks: kernel tasks sent to the pool. The new build also holds main's later changes (the in-plane",
+  ...(fog
+    ? []
+    : [
+        "search's chord steps, lib/rays/plane-sweep.ts, about 13 % less CPU on P4): its wall times are not the split's alone.",
+        "npm run bench's P4 row before this (6.8 s, 1.15 cores) ran P4's task whole on one thread: that benchmark's kernel",
+        "service did not know the pool's threads (bench/profiles.ts passes them now, as pipeline/kernels/runtime.ts does);",
+        "the service itself split it in two runs of canting nodes, the old build here.",
+      ]),
   "",
 ];
 for (const workload of workloads) {
-  const runs: Record<"old" | "new", { coldMs: number; coldCores: number }[]> = { old: [], new: [] };
+  type Run = { coldMs: number; coldCores: number; threadsBusy: number; tasks: number };
+  const runs: Record<"old" | "new", Run[]> = { old: [], new: [] };
   const load0 = loadavg()[0];
   const table: string[] = [];
   for (let r = 0; r < rounds; r++) {
     const order: ("old" | "new")[] = r % 2 === 0 ? ["old", "new"] : ["new", "old"];
-    for (const which of order) runs[which].push(run(which === "old" ? oldTree : newTree, workload) as { coldMs: number; coldCores: number });
+    for (const which of order) runs[which].push(run(which === "old" ? oldTree : newTree, workload) as unknown as Run);
     const [o, n] = [runs.old[r], runs.new[r]];
-    table.push(`| ${r + 1} | ${order[0]} | ${o.coldMs.toFixed(0)} | ${o.coldCores.toFixed(2)} | ${n.coldMs.toFixed(0)} | ${n.coldCores.toFixed(2)} |`);
+    const cells = (x: Run) => `${x.coldMs.toFixed(0)} | ${x.coldCores.toFixed(2)} | ${x.threadsBusy.toFixed(2)} | ${x.tasks}`;
+    table.push(`| ${r + 1} | ${order[0]} | ${cells(o)} | ${cells(n)} |`);
     console.log(workload, table.at(-1));
   }
-  const med = (which: "old" | "new", key: "coldMs" | "coldCores") => median(runs[which].map((x) => x[key]));
+  const med = (which: "old" | "new", key: "coldMs" | "coldCores" | "threadsBusy") => median(runs[which].map((x) => x[key]));
+  const medians = (which: "old" | "new") => `${med(which, "coldMs").toFixed(0)} | ${med(which, "coldCores").toFixed(2)} | ${med(which, "threadsBusy").toFixed(2)}`;
   const [a, b] = [run(oldTree, workload, "rows"), run(newTree, workload, "rows")];
   let worst = 0;
   for (const key of ["perpendicular", "parallel"]) {
@@ -53,15 +87,15 @@ for (const workload of workloads) {
     x.forEach((v, k) => (worst = Math.max(worst, Math.abs(v - y[k]) / peak)));
   }
   lines.push(
-    `${workload === "P4" ? "P4 (1 mm equilibrium drops, canting 7.5°, top of the bow)" : "P4 with upright drops (canting 0: one canting node)"}; load average ${load0.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end.`,
+    `${TITLES[workload]}; load average ${load0.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end.`,
     "",
-    "| round | first | old cold (ms) | old cores | new cold (ms) | new cores |",
-    "|---|---|---|---|---|---|",
+    "| round | first | old cold (ms) | old cores | old threads busy | old tasks | new cold (ms) | new cores | new threads busy | new tasks |",
+    "|---|---|---|---|---|---|---|---|---|---|",
     ...table,
-    `| median | | ${med("old", "coldMs").toFixed(0)} | ${med("old", "coldCores").toFixed(2)} | ${med("new", "coldMs").toFixed(0)} | ${med("new", "coldCores").toFixed(2)} |`,
+    `| median | | ${medians("old")} | | ${medians("new")} | |`,
     "",
-    `New over old, cold wall: ${(med("new", "coldMs") / med("old", "coldMs")).toFixed(2)}. Spectral rows, largest |new − old| over their peak: ${worst.toExponential(1)} (the order groups' shares are added one by one: rounding).`,
+    `New over old, cold wall: ${(med("new", "coldMs") / med("old", "coldMs")).toFixed(2)}. Spectral rows, largest |new − old| over their peak: ${worst.toExponential(1)}${fog ? " (the same arithmetic in the same order)" : " (the split alone adds the order groups' shares one by one: rounding; more is the new build's other changes)"}.`,
     "",
   );
 }
-writeMarkedSection("shaped-split", lines);
+writeMarkedSection(fog ? "fog-cold" : "shaped-split", lines);

@@ -152,7 +152,10 @@ export function mieRows(
   });
   // With an arena (row-arena.ts) the rows and the passes' amplitudes are its scratch arrays, valid until its reset.
   const row = () => (arena ? arena.take(nTheta) : new Float64Array(nTheta));
-  const rows = drops.map(() => ({ perp: row(), par: row() }));
+  // Built by push from an empty literal (always packed elements), not by map(): an array from map() has the elements
+  // kind of whichever tier ran it, and a fog task after a rain one found the other kind and threw the compiled code away.
+  const rows: { perp: Float64Array; par: Float64Array }[] = [];
+  for (let i = 0; i < drops.length; i++) rows.push({ perp: row(), par: row() });
   const outs = Array.from({ length: Math.min(MIE_SIZES_PER_PASS, count) }, () =>
     arena ? { s1Re: arena.take(nTheta, false), s1Im: arena.take(nTheta, false), s2Re: arena.take(nTheta, false), s2Im: arena.take(nTheta, false) } : allocateAmplitudes(nTheta),
   );

@@ -157,15 +157,18 @@ export function estimateMieTermAngles(
   engine: (radiusUm: number) => DropEngine,
   averages: readonly (CellAverage | undefined)[] = [],
 ): number {
-  let total = 0;
+  // Terms summed, then multiplied by the angles once: the same integer (exact below 2^53). A running total of
+  // term-angles passes 2^31 on a fog request after rain ones stayed below it, and V8 threw away the compiled loop
+  // (small-integer overflow) in the middle of planning.
+  let terms = 0;
   radiiUm.forEach((r, i) => {
     if (engine(r) !== "mie") return;
     const average = averages[i];
     const samples = average && average.samples > 1 ? average.samples : 1;
     for (let s = 0; s < samples; s++) {
       const radiusUm = samples === 1 ? r : cellSampleRadiusUm(r, average!, s);
-      for (const w of wavelengthsNm) total += mieTermCount((2 * Math.PI * radiusUm * 1000) / w) * internalAngles;
+      for (const w of wavelengthsNm) terms += mieTermCount((2 * Math.PI * radiusUm * 1000) / w);
     }
   });
-  return total;
+  return terms * internalAngles;
 }

@@ -70,7 +70,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   // Packs keyed by a number (variant index, block) rather than a string built from the variant: V8 dropped the
   // compiled kernelRows when the variants became built strings (averaged rows) after plain ones (string keys of a Map).
   const distinct: string[] = [];
-  const variantOf = variants.map((v) => {
+  const variantOf = Int32Array.from(variants, (v) => {
     const k = distinct.indexOf(v);
     return k >= 0 ? k : distinct.push(v) - 1;
   });
@@ -94,23 +94,29 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   const mieRowOf = new Map(mieIndices.map((item, k) => [item, mie.rows[k]]));
   let mieTermAngles = mie.termAngles;
   const { rows: shaped, planes: shapedPlanes } = shapedItemRows(items, medium, thetaDeg, h);
-  const rows = items.map((item, index) => {
+  // Arrays built by push from empty literals (always packed elements), not by map(): the worker walks them to list the
+  // buffers it moves, and arrays from map() have the elements kind of whichever tier ran it (a fog task after a rain
+  // one found the other kind and threw that compiled code away).
+  const rows: Float64Array[][] = [];
+  for (const [index, item] of items.entries()) {
     // The computed rows are read where they are (no copy into perp, par); flattened drops' rows come scaled already,
     // node by node (shapedItemRows).
     const flattened = shaped.get(index);
     const source = flattened ?? mieRowOf.get(index) ?? { perp, par };
     const scale = flattened ? 1 : perDrop;
     if (source.perp === perp) mieTermAngles += dropRow(ctx, item.engine, item.radiusUm, perp, par, item.average);
-    return item.blocks.map((b) => {
+    const itemRows: Float64Array[] = [];
+    for (const b of item.blocks) {
       const at = positions.get(b)!;
       const count = at.length;
       const pack = packRows.get(packKey(index, b))!;
       const row = pack.buffer.subarray(pack.used, pack.used + 2 * count);
       pack.used += 2 * count;
       copyScaled(source.perp, source.par, at, scale, row);
-      return row;
-    });
-  });
+      itemRows.push(row);
+    }
+    rows.push(itemRows);
+  }
   return { rows, mieTermAngles, shapedPlanes };
 }
 

@@ -93,7 +93,9 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (5: traced at
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (7: coarse
+ * sweeps, every 8th pupil sample traced and the rest filled by cubics where trusted, rows move by ≤ 2.7e-4 of the
+ * peak; 6: the in-plane search by chord and secant steps, which finds a ray more at some runs' ends; 5: traced at
  * INDEX_NODES indices over the water's own span, indexSpan; 4: every plane interpolated from planes traced at 7 fixed
  * indices over WATER_INDEX_RANGE; 3: a task's wavelengths share planes traced at
  * INDEX_NODES indices across the task's own range; 2: bow pairs read off the sweep, rows move by ≤ 2e-3

@@ -211,12 +211,21 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
     });
   };
   // Kernel tasks compute only the span's lattice points (KernelRequest.within), so that is what cost estimates count.
-  const mieCost = (averages: (CellAverage | undefined)[]) => estimateMieTermAngles(quadrature.radiiUm, wl, span.last - span.first + 1, engine, averages);
+  // Per density, counted once: the density choice and the plan's cost below both ask for the chosen one.
+  const costByDensity = new Map<number, number>();
+  const mieCostAt = (sizesPerDecade: number) => {
+    let cost = costByDensity.get(sizesPerDecade);
+    if (cost === undefined) {
+      cost = estimateMieTermAngles(quadrature.radiiUm, wl, span.last - span.first + 1, engine, averagesAt(sizesPerDecade));
+      costByDensity.set(sizesPerDecade, cost);
+    }
+    return cost;
+  };
   const density = radiusDensityFor(request, resolution, {
     base: quadrature,
     engine,
     nAir: media[0].nAir,
-    cost: (d) => mieCost(averagesAt(d)),
+    cost: mieCostAt,
     // A constant, not the server's limit: the result for a request (and its content hash) is the same on every
     // server, synchronous or as a job; the limit only decides whether it may run synchronously.
     budgetTermAngles: AUTO_DENSITY_BUDGET_TERM_ANGLES * budgetShare,
@@ -251,7 +260,7 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
   // Flattened drops' rows are counted in Mie term-angles' worth of work (drop-shape-plan.ts).
   // By order, each named order's rows cost about what the whole rows do (Debye coefficients, the same amplitude sums).
   const profilesToSum = byOrder ? 1 + ORDER_LAYERS.length : 1;
-  const cost = (mieCost(averages) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1)) * profilesToSum;
+  const cost = (mieCostAt(density.sizesPerDecade) + shapedCostTermAngles(shapePlan, grid.count, span.last - span.first + 1)) * profilesToSum;
   const engines = Array.from(quadrature.radiiUm, engine);
   const kernelRequest: KernelRequest = { h, media, radiiUm: quadrature.radiiUm, engines, averages, shapes: shapePlan.shapes, blocks, within: { first: span.first, last: span.last } };
   return { request, warnings, grid, wl, media, waterSource, distribution, count, angles, h, span, quadrature, autoChoice, engine, density, averages, shapePlan, blocks, cost, kernelRequest, byOrder, profilesToSum };

@@ -21,17 +21,19 @@ export interface ShapedPart {
 /**
  * Relative CPU of each order group's part (SHAPED_ORDER_GROUPS order), which sets the order the parts are queued in:
  * measured on P4 (bench/profiles.ts: 1 mm equilibrium drops, canting 7.5°, top of the bow, 41 wavelengths; every
- * part on one thread, bench/shaped-parts.ts, BENCHMARKS.md shaped-parts), reflection and transmission took 1.0–1.1 s
- * of CPU over the five canting nodes, the primary's order 2.8–3.0 s and the secondary's 2.8–2.9 s.
+ * part on one thread, bench/shaped-parts.ts, BENCHMARKS.md shaped-parts), reflection and transmission took 1.2–1.4 s
+ * of CPU over the five canting nodes, the primary's order 3.8 s and the secondary's 3.5–3.9 s (load average 7.6; before
+ * the in-plane search's chord steps, lib/rays/plane-sweep.ts: 1.0–1.1, 2.8–3.0 and 2.8–2.9 s).
  */
-export const ORDER_GROUP_COST: readonly number[] = [0.37, 1, 1];
+export const ORDER_GROUP_COST: readonly number[] = [0.34, 1, 1];
 /**
  * Relative CPU of a canting node whose axis leaves the scattering plane against one whose axis lies in it. In the
  * plane, the plane is a mirror plane of the drop and a ray that enters in it stays in it; out of it, each ray's exit
- * in the plane is found by Newton's search. Measured on P4 (as ORDER_GROUP_COST): the nodes tilted out of the plane
- * took 1.6–2.2 s, the upright node and the nodes tilted in the plane 0.8–1.0 s.
+ * in the plane is searched for. Measured on P4 (as ORDER_GROUP_COST): the nodes tilted out of the plane took 1.9–2.2 s,
+ * the upright node and the nodes tilted in the plane 1.4–1.9 s, 1.25–1.3 times less (before the chord steps: 1.6–2.2
+ * against 0.8–1.0 s). Only the order matters: the parts are queued largest first.
  */
-export const OUT_OF_PLANE_NODE_COST = 2;
+export const OUT_OF_PLANE_NODE_COST = 1.3;
 
 /** Whether a canting node's axis lies in the scattering plane of the spec's place on the bow (to rounding). */
 function axisInPlane(spec: Pick<ShapedRowSpec, "sunElevationDeg" | "arcPositionDeg">, node: CantingNode): boolean {

@@ -205,9 +205,10 @@ export class KernelService {
     const found = media.map(() => blocks.map(() => new Map<number, Float64Array>()));
     const keys = media.map((m) => blocks.map((b) => new Map(variantSet.map((v) => [v, packKey(m, v, h, b, this.mieSampling)]))));
 
-    const lookMemory = () => {
+    // The rows of wavelengths from..to − 1 not in memory yet (in wavelength order, then block, then radius).
+    const lookMemory = (from = 0, to = media.length) => {
       const missing: [number, number, number][] = [];
-      for (let l = 0; l < media.length; l++) {
+      for (let l = from; l < to; l++) {
         for (let bi = 0; bi < blocks.length; bi++) {
           const have = found[l][bi];
           const packs = new Map(variantSet.map((v) => [v, this.memory.get(keys[l][bi].get(v)!)]));
@@ -248,8 +249,12 @@ export class KernelService {
       watch.onRows?.(doneNs, totalNs, found);
     };
 
-    let missing = lookMemory();
-    stats.memoryHits = media.length * radiiUm.length * blocks.length - missing.length;
+    // Without a second tier, progress or flattened drops, each wavelength is looked up in memory, grouped and sent in
+    // turn (below), so that the threads start on the first wavelength's task while the others are looked up (a cold
+    // fog profile looks up ~19,000 rows). Otherwise every row is looked up first.
+    const pipelined = !this.options.disk && !watch.onRows && !shapes.some(Boolean);
+    let missing = pipelined ? [] : lookMemory();
+    if (!pipelined) stats.memoryHits = media.length * radiiUm.length * blocks.length - missing.length;
     if (missing.length && this.options.disk) {
       const packs = new Set(missing.map(([l, i, bi]) => keys[l][bi].get(variants[i])!));
       await Promise.all([...packs].map((p) => this.loadPack(p)));
@@ -278,7 +283,7 @@ export class KernelService {
     // Flattened drops' tasks: one per shape at every wavelength; where there are few shapes for the threads, each is
     // split in parts by canting node and order group, queued largest first (canting-parts.ts), so that every thread
     // stays busy to the end and every plane's order is still traced once.
-    const shapesMissing = new Set(missing.flatMap(([, i]) => (shapes[i] ? [shapeGroupKey(shapes[i]!, radiiUm[i])] : [])));
+    const shapesMissing = new Set(shapes.some(Boolean) ? missing.flatMap(([, i]) => (shapes[i] ? [shapeGroupKey(shapes[i]!, radiiUm[i])] : [])) : []);
     const splitShapes = this.parallelism > 1 && shapesMissing.size < UNSPLIT_SHAPES_PER_THREAD * this.parallelism;
 
     // One failed task stops this request's other tasks; the caller's signal (client gone) stops them all.
@@ -361,18 +366,8 @@ export class KernelService {
         });
       tasks.push(task);
     };
-    // Tasks are sent as soon as they are grouped: a sphere's task (one wavelength) once the rows of the next wavelength
-    // start (missing is in wavelength order), so that the threads start while the rest is grouped. Flattened drops'
-    // tasks span every wavelength: with them, every task is sent after the grouping, in the order first asked for.
-    const early = shapesMissing.size === 0;
-    let grouping = -1;
-    for (const [l, i, bi] of missing) {
-      if (early && l !== grouping) {
-        const previous = toCompute.get(grouping);
-        if (previous) send(previous);
-        toCompute.delete(grouping);
-        grouping = l;
-      }
+    // A row to compute joins its task; a row another request computes is awaited.
+    const group = (l: number, i: number, bi: number) => {
       const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
       if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
         waits.push(
@@ -382,7 +377,7 @@ export class KernelService {
             arrived(l);
           }),
         );
-        continue;
+        return;
       }
       const taskKey = shapes[i] ? `shape|${shapeGroupKey(shapes[i]!, radiiUm[i])}` : l;
       let rowsOfTask = toCompute.get(taskKey);
@@ -391,8 +386,36 @@ export class KernelService {
       let entry = rowsOfTask.get(at);
       if (!entry) rowsOfTask.set(at, (entry = { l, i, bis: [] }));
       entry.bis.push(bi);
+    };
+    const sendWavelength = (l: number) => {
+      const rowsOfTask = toCompute.get(l);
+      if (rowsOfTask) send(rowsOfTask);
+      toCompute.delete(l);
+    };
+    if (pipelined) {
+      for (let l = 0; l < media.length; l++) {
+        const rows = lookMemory(l, l + 1);
+        stats.memoryHits += radiiUm.length * blocks.length - rows.length;
+        toCome[l] = rows.length;
+        for (const [, i, bi] of rows) group(l, i, bi);
+        sendWavelength(l);
+      }
+    } else {
+      // Tasks are sent as soon as they are grouped: a sphere's task (one wavelength) once the rows of the next
+      // wavelength start (missing is in wavelength order), so that the threads start while the rest is grouped.
+      // Flattened drops' tasks span every wavelength: with them, every task is sent after the grouping, in the order
+      // first asked for.
+      const early = shapesMissing.size === 0;
+      let grouping = -1;
+      for (const [l, i, bi] of missing) {
+        if (early && l !== grouping) {
+          sendWavelength(grouping);
+          grouping = l;
+        }
+        group(l, i, bi);
+      }
+      for (const rowsOfTask of toCompute.values()) send(rowsOfTask);
     }
-    for (const rowsOfTask of toCompute.values()) send(rowsOfTask);
     // Settle borrowed rows from the start, so that their failure is never an unhandled rejection.
     const borrowedSettled = Promise.allSettled(waits);
     try {

@@ -46,9 +46,50 @@ export function createWorkerPool(
   piscina.on("error", (error: unknown) => options.onPoolError?.(error));
   return {
     threads,
-    compute: (task: KernelTask, signal?: AbortSignal) => piscina.run(task, { signal }) as Promise<KernelTaskResult>,
+    compute: firstInFirstOut(threads, (task, signal) => piscina.run(task, { signal }) as Promise<KernelTaskResult>),
     close: () => piscina.destroy(),
   };
+}
+
+/**
+ * `run` called with at most `limit` tasks at once, the others waiting here in the order they came. Piscina's own queue
+ * does not keep that order for tasks with an abort signal (all of ours): one it cannot hand to a thread goes back to
+ * the end of its queue, or with stricterFIFO to the front, so that tasks sent while the threads are busy run in a
+ * rotated or reversed order (piscina 5.3, dist/index.js _returnUndistributedTask; test/pipeline/kernels/worker-pool.test.ts).
+ * The kernel service sends a flattened shape's parts largest first (canting-parts.ts) and a sphere request's tasks
+ * wavelength by wavelength (rows summed as each wavelength's task ends): both need the order kept. A task whose
+ * signal aborts while it waits here is never sent.
+ */
+export function firstInFirstOut<T>(limit: number, run: (task: T, signal?: AbortSignal) => Promise<KernelTaskResult>): (task: T, signal?: AbortSignal) => Promise<KernelTaskResult> {
+  const waiting: (() => void)[] = [];
+  let running = 0;
+  const next = () => {
+    while (running < limit && waiting.length > 0) waiting.shift()!();
+  };
+  return (task, signal) =>
+    new Promise<KernelTaskResult>((resolve, reject) => {
+      if (signal?.aborted) return reject(signal.reason);
+      const onAbort = () => {
+        const at = waiting.indexOf(start);
+        if (at >= 0) {
+          waiting.splice(at, 1);
+          reject(signal!.reason);
+        }
+      };
+      const start = () => {
+        signal?.removeEventListener("abort", onAbort);
+        running++;
+        run(task, signal)
+          .then(resolve, reject)
+          .finally(() => {
+            running--;
+            next();
+          });
+      };
+      signal?.addEventListener("abort", onAbort, { once: true });
+      waiting.push(start);
+      next();
+    });
 }
 
 /**

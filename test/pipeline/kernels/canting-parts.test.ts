@@ -11,6 +11,8 @@ import { planDropShapes, shapedPlaneCounts } from "../../../pipeline/compute/dro
 import { latticeRadiusQuadrature } from "../../../lib/drops/lattice-quadrature.js";
 import { INDEX_NODES, SHAPED_ORDER_GROUPS } from "../../../lib/bow/shaped-rows.js";
 import { profileRequestSchema } from "../../../schemas/profile.js";
+import { blockRange } from "../../../lib/bow/kernel-grid.js";
+import { dropMedia } from "../../../lib/water/drop-medium.js";
 
 describe("shaped parts", () => {
   const top = { cantingSdDeg: 7.5, sunElevationDeg: 10, arcPositionDeg: 0 };
@@ -97,4 +99,30 @@ describe("one shape on two threads", () => {
     expect(Array.from(two.result.spectral.perpendicular)).toEqual(Array.from(one.result.spectral.perpendicular));
     expect(Array.from(two.result.spectral.parallel)).toEqual(Array.from(one.result.spectral.parallel));
   }, 600_000);
+});
+
+describe("which tasks are split", () => {
+  // Tasks are only counted: each returns zero rows of the right length, nothing is traced.
+  async function tasksFor(shapeCount: number, parallelism: number): Promise<KernelTask[]> {
+    const seen: KernelTask[] = [];
+    const kernels = new KernelService({
+      memoryBudgetBytes: 2 ** 28,
+      parallelism,
+      compute: async (task) => {
+        seen.push(task);
+        return { rows: task.items.map((item) => item.blocks.map((b) => new Float64Array(2 * blockRange(b, 0.05).count))), mieTermAngles: 0 };
+      },
+    });
+    const { media } = dropMedia({ temperatureC: 10, salinityPsu: 0 }, [550]);
+    const radiiUm = Float64Array.from({ length: shapeCount }, (_, i) => 600 + 10 * i);
+    const shape = { kind: "equilibrium" as const, cantingSdDeg: 7.5, sunElevationDeg: 10, arcPositionDeg: 0, rayOnly: false };
+    await kernels.rows({ h: 0.05, media, radiiUm, engines: Array.from(radiiUm, () => "airy" as const), shapes: Array.from(radiiUm, () => shape), blocks: [8], within: { first: 800, last: 840 } });
+    return seen;
+  }
+
+  it("with fewer than 8 shapes a thread each shape is split in its 15 parts; with 8 or more, or one thread, a task a shape", async () => {
+    expect((await tasksFor(15, 2)).length).toBe(15 * 15);
+    expect((await tasksFor(16, 2)).length).toBe(16);
+    expect((await tasksFor(3, 1)).length).toBe(3);
+  });
 });

@@ -191,6 +191,10 @@ describe("wavelengths told as their rows arrive (KernelWatch.onWavelength)", () 
     // One task per wavelength to compute; those are told, each once; the wavelengths found whole are not.
     expect(counter.tasks - before).toBe(computedLs.length);
     expect([...told].sort((a, b) => a - b)).toEqual(computedLs);
+    // Looked up wavelength by wavelength (no second tier, no progress): the same counts as a lookup of every row first.
+    const perWavelength = kernelRequest.radiiUm.length * kernelRequest.blocks.length;
+    expect(rows.stats.memoryHits).toBe(cachedLs.length * perWavelength);
+    expect(rows.stats.computed).toBe(computedLs.length * perWavelength);
     for (const [l, list] of seen) {
       const expected = kernelRequest.blocks.flatMap((b) => Array.from(kernelRequest.radiiUm, (_, i) => rows.get(l, i, b)));
       list.forEach((row, k) => expect(row).toBe(expected[k]));
