@@ -35,7 +35,7 @@ const ENGINE =
 const ACCURACY =
   "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); planes interpolated across the refractive index from 7 traced at indices fixed by the water: worst ΔE2000 0.069 against tracing every wavelength (BENCHMARKS.md, shape-index)";
 const DEFAULT_NOTE =
-  "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (7 traced + 41 interpolated) scattering planes, 2,100 traced at about 0.17 s of CPU each and 12,300 interpolated across the refractive index at about 0.02 s, projected at about 5 minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
+  "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (7 traced + 41 interpolated) scattering planes, 2,100 traced at about 0.03 s of CPU each and 12,300 interpolated across the refractive index at about 0.01 s, projected at about 1.5 minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
 
 /** deformationStep: equilibrium drops blended from shape nodes (ShapedRowSpec.deformationStep; studies only). */
 export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, deformationStep?: number): ShapePlan {
