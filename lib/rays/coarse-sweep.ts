@@ -12,7 +12,7 @@
 // it spans at least MIN_SPLIT samples, then traced in full, as sweepPlane does: cells with an end without a ray
 // included (a search that finds no ray stops at its first trace), so no ray sweepPlane finds is left out.
 
-import { emptySweep, RayPredictor, storeRay, type PlaneSweep, type PlaneTracer, type SweepWindow } from "./plane-sweep.js";
+import { emptySweep, RayPredictor, storeRay, unwrap, type PlaneSweep, type PlaneTracer, type SweepWindow } from "./plane-sweep.js";
 import { AMPLITUDE_TOLERANCE, PATH_TOLERANCE, THETA_TOLERANCE_RAD } from "./sweep-interpolation.js";
 
 /** Rays traced and samples filled by coarse sweeps (benchmarks and tests count them). */
@@ -28,12 +28,6 @@ const CHECKED: readonly Field[] = ["thetaSigned", "path", "offset", "perpAmp", "
 
 /** A failing cell narrower than this is traced in full rather than halved again. */
 const MIN_SPLIT = 4;
-
-function wrapAngle(angle: number): number {
-  if (angle > Math.PI) return angle - 2 * Math.PI;
-  if (angle <= -Math.PI) return angle + 2 * Math.PI;
-  return angle;
-}
 
 /** Newton's divided difference f[x₀…x_{m−1}] (Press et al. 2007 §3.2), overwriting f. */
 function dividedDifference(x: readonly number[], f: number[]): number {
@@ -161,7 +155,7 @@ export function sweepPlaneCoarse(
       const theta0 = sweep.thetaSigned[at(c0)];
       const value = (field: Field, j: number): number => {
         const x = sweep[field][at(j)];
-        return field === "thetaSigned" ? theta0 + wrapAngle(x - theta0) : x;
+        return field === "thetaSigned" ? theta0 + unwrap(x - theta0) : x;
       };
       let amplitude = 0;
       for (const j of [...nodes, ...fifth]) amplitude = Math.max(amplitude, Math.abs(sweep.perpAmp[at(j)]), Math.abs(sweep.parAmp[at(j)]));
@@ -190,7 +184,7 @@ export function sweepPlaneCoarse(
         for (const field of FIELDS) {
           let sum = 0;
           for (let m = 0; m < 4; m++) sum += weights[m] * value(field, nodes[m]);
-          sweep[field][i] = field === "thetaSigned" ? wrapAngle(sum) : sum;
+          sweep[field][i] = field === "thetaSigned" ? unwrap(sum) : sum;
         }
         sweep.perpPerU[i] = sweep.perpAmp[i] ** 2;
         sweep.parPerU[i] = sweep.parAmp[i] ** 2;

@@ -224,7 +224,7 @@ export class PlaneTracer {
 }
 
 /** An angle difference brought into (−π, π]. */
-function unwrap(delta: number): number {
+export function unwrap(delta: number): number {
   if (delta > Math.PI) return delta - 2 * Math.PI;
   if (delta <= -Math.PI) return delta + 2 * Math.PI;
   return delta;
