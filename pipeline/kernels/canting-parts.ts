@@ -44,8 +44,8 @@ function axisInPlane(spec: Pick<ShapedRowSpec, "sunElevationDeg" | "arcPositionD
 }
 
 /**
- * Every (canting node, order group) part of a shape's task, largest first by estimated cost, so that a pool queueing
- * tasks in the order they come (piscina's queue) runs them longest-processing-time first: the threads then end within
+ * Every (canting node, order group) part of a shape's task, largest first by estimated cost, so that the pool, which
+ * runs tasks in the order they come (firstInFirstOut in worker-pool.ts), runs them longest-processing-time first: the threads then end within
  * about one of the smallest parts of each other (Graham 1969, SIAM J. Appl. Math. 17, 416–429: at most 4/3 − 1/(3m) of
  * the best schedule on m threads; from memory).
  */
