@@ -5,7 +5,7 @@
 // sample is interpolated across n by Lagrange's formula (Press et al. 2007, Numerical Recipes §3.2, Eq. 3.2.1) on
 // Chebyshev nodes (ibid. §5.8: they keep the interpolation error near its minimax value, ~ (Δn/2)^M·f^(M)/(2^(M−1)·M!)).
 
-import { emptySweep, storeRay, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
+import { emptySweep, storeRay, unwrap, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
 
 /** M Chebyshev nodes of the first kind over [lo, hi] (Press et al. 2007 Eq. 5.8.4), ascending. */
 export function chebyshevNodes(lo: number, hi: number, count: number): number[] {
@@ -23,13 +23,6 @@ export function lagrangeWeights(nodes: readonly number[], x: number): Float64Arr
     weights[k] = w;
   }
   return weights;
-}
-
-/** Brings an angle into (−π, π]. */
-function wrap(angle: number): number {
-  if (angle > Math.PI) return angle - 2 * Math.PI;
-  if (angle <= -Math.PI) return angle + 2 * Math.PI;
-  return angle;
 }
 
 /**
@@ -110,16 +103,16 @@ export function interpolateSweep(
   let eligibleCount = 0;
   for (let s = 0; s < count; s++) if (okNodes[s] === M && !signsDiffer[s]) eligible[eligibleCount++] = s;
   for (let k = 0; k < M; k++) {
-    const sweep = sweeps[k];
+    const { thetaSigned: thetaK, perpAmp: perpK, parAmp: parK, path: pathOfK, offset: offsetK, v: vK } = sweeps[k];
     const wk = w[k];
     const topK = top[k];
     for (let e = 0; e < eligibleCount; e++) {
       const s = eligible[e];
       const t0 = firstTheta[s];
-      const t = t0 + wrap(sweep.thetaSigned[s] - t0);
-      const a = sweep.perpAmp[s];
-      const b = sweep.parAmp[s];
-      const pathK = sweep.path[s];
+      const t = t0 + unwrap(thetaK[s] - t0);
+      const a = perpK[s];
+      const b = parK[s];
+      const pathK = pathOfK[s];
       theta[s] += wk * t;
       thetaTop[s] += topK * t;
       pathTop[s] += topK * pathK;
@@ -129,8 +122,8 @@ export function interpolateSweep(
       perp[s] += wk * a;
       par[s] += wk * b;
       path[s] += wk * pathK;
-      offset[s] += wk * sweep.offset[s];
-      v[s] += wk * sweep.v[s];
+      offset[s] += wk * offsetK[s];
+      v[s] += wk * vK[s];
     }
   }
   for (let s = 0; s < count; s++) {
@@ -157,7 +150,7 @@ export function interpolateSweep(
       continue;
     }
     out.ok[s] = 1;
-    out.thetaSigned[s] = wrap(theta[s]);
+    out.thetaSigned[s] = unwrap(theta[s]);
     out.perpAmp[s] = perp[s];
     out.parAmp[s] = par[s];
     out.path[s] = path[s];
