@@ -79,14 +79,15 @@ export function findBowsByDispersion(profile: SpectralRadiance, luminance: Float
   return { primaryDeg: primary < 0 ? null : anglesDeg[primary], secondaryDeg: secondary < 0 ? null : anglesDeg[secondary] };
 }
 
-/** ψ centroid of the band's radiance over the samples within DISPERSION_HALF_WIDTH_DEG of sample `at`. */
+/** ψ centroid of the band's radiance over the samples within DISPERSION_HALF_WIDTH_DEG of sample `at` (ψ ascending). */
 function bandCentroid(profile: SpectralRadiance, at: number, band: readonly [number, number]): number {
   const { anglesDeg, wavelengthsNm, radiance } = profile;
   const count = wavelengthsNm.length;
+  let from = at;
+  while (from > 0 && anglesDeg[at] - anglesDeg[from - 1] <= DISPERSION_HALF_WIDTH_DEG) from--;
   let weight = 0;
   let moment = 0;
-  for (let i = 0; i < anglesDeg.length; i++) {
-    if (Math.abs(anglesDeg[i] - anglesDeg[at]) > DISPERSION_HALF_WIDTH_DEG) continue;
+  for (let i = from; i < anglesDeg.length && anglesDeg[i] - anglesDeg[at] <= DISPERSION_HALF_WIDTH_DEG; i++) {
     let power = 0;
     for (let l = 0; l < count; l++) if (wavelengthsNm[l] >= band[0] && wavelengthsNm[l] <= band[1]) power += radiance[i * count + l];
     weight += power;

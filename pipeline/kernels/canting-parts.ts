@@ -7,6 +7,7 @@
 import { cantingNodesFive, type CantingNode } from "../../lib/drops/shape/canting.js";
 import { SHAPED_ORDER_GROUPS, shapedRowKey, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import { bowScatteringPlane, cantedAxis } from "../../lib/rays/bow-geometry.js";
+import { cross, dot } from "../../lib/view/vectors.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 
 export interface ShapedPart {
@@ -38,9 +39,7 @@ export const OUT_OF_PLANE_NODE_COST = 1.3;
 /** Whether a canting node's axis lies in the scattering plane of the spec's place on the bow (to rounding). */
 function axisInPlane(spec: Pick<ShapedRowSpec, "sunElevationDeg" | "arcPositionDeg">, node: CantingNode): boolean {
   const { dIn, e } = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
-  const normal = [dIn[1] * e[2] - dIn[2] * e[1], dIn[2] * e[0] - dIn[0] * e[2], dIn[0] * e[1] - dIn[1] * e[0]];
-  const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
-  return Math.abs(axis[0] * normal[0] + axis[1] * normal[1] + axis[2] * normal[2]) < 1e-9;
+  return Math.abs(dot(cantedAxis(node.tiltXDeg, node.tiltYDeg), cross(dIn, e))) < 1e-9;
 }
 
 /**
