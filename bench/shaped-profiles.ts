@@ -17,7 +17,7 @@ import { profileRequestSchema } from "../schemas/profile.js";
 import { toDistribution } from "../pipeline/compute/profile.js";
 import { planDropShapes, shapedPlaneCounts } from "../pipeline/compute/drop-shape-plan.js";
 import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
-import { cantingNodesFive } from "../lib/drops/shape/canting.js";
+import { planeCantingNodes } from "../lib/bow/plane-canting-nodes.js";
 import { makeWavelengthGrid, wavelengthsNm } from "../lib/spectra/grid.js";
 import { INDEX_NODES, quantiseSpec, shapedRows } from "../lib/bow/shaped-rows.js";
 import { dropMedia } from "../lib/water/drop-medium.js";
@@ -47,7 +47,7 @@ function planeCount(body: Record<string, unknown>): PlaneCount {
   if (!spec) return { traced: 0, interpolated: 0, before: 0 };
   const wavelengths = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm).count;
   const nodes = plan.shapes.filter((s) => s !== undefined).length;
-  return { ...shapedPlaneCounts(plan, wavelengths), before: nodes * wavelengths * cantingNodesFive(spec.cantingSdDeg).length };
+  return { ...shapedPlaneCounts(plan, wavelengths), before: nodes * wavelengths * planeCantingNodes(spec).length };
 }
 
 /** CPU ms of one traced and one interpolated plane of P4's drop (canting 0: one plane per index), in this process. */

@@ -20,7 +20,7 @@ export interface KernelRowsInput {
   h: number;
   /**
    * medium: a flattened drop's own wavelength when the task holds several (shaped items only; else `medium`).
-   * cantingNode: a flattened drop's share from that canting node alone (an index into cantingNodesFive), for a task
+   * cantingNode: a flattened drop's share from that canting node alone (an index into planeCantingNodes(shape)), for a task
    * split by canting node (pipeline/kernels/canting-parts.ts); else the whole canting mean.
    */
   items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage; shape?: ShapedRowSpec; medium?: DropMedium; cantingNode?: number }[];

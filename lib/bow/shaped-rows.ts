@@ -1,11 +1,11 @@
 // |S1|², |S2|² of one flattened drop at one wavelength and one place on the bow, averaged over the drops'
 // canting: the engine behind kernel rows for drops that are not spheres (lib/bow/kernel-rows.ts).
 
-import { cantingNodesFive } from "../drops/shape/canting.js";
 import { equilibriumOutline } from "../drops/shape/equilibrium-shape.js";
 import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
 import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
+import { planeCantingNodes } from "./plane-canting-nodes.js";
 import { chebyshevNodes, interpolateSweep } from "../rays/sweep-interpolation.js";
 import { WATER_INDEX_RANGE } from "../water/index-range.js";
 import {
@@ -201,7 +201,7 @@ export function orderGroupsOf(spec: ShapedRowSpec): number[] {
 }
 
 /**
- * Each drop's share of |S1|², |S2|² from each of the canting nodes asked for (indices into cantingNodesFive; default:
+ * Each drop's share of |S1|², |S2|² from each of the canting nodes asked for (indices into planeCantingNodes(spec); default:
  * all) and each order group asked for (spec.orderGroup, else every group of SHAPED_ORDER_GROUPS), weighted by the
  * node's weight, for flattened drops (a spheroid's fixed axis ratio, or equilibrium drops, each its own shape or
  * blended from shape nodes: ShapedRowSpec.deformationStep) at any wavelengths, on bins of width stepDeg centred on
@@ -221,7 +221,7 @@ export function shapedNodeRows(
   stepDeg: number,
   nodeIndices?: readonly number[],
 ): { rows: { perp: Float64Array; par: Float64Array }[][]; planes: ShapedPlaneCount } {
-  const allNodes = cantingNodesFive(spec.cantingSdDeg);
+  const allNodes = planeCantingNodes(spec);
   const groups = orderGroupsOf(spec);
   const asked = (nodeIndices ?? allNodes.map((_, k) => k)).flatMap((node) => groups.map((group) => ({ node, group })));
   const out = drops.map(() => asked.map(() => ({ perp: new Float64Array(thetaDeg.length), par: new Float64Array(thetaDeg.length) })));

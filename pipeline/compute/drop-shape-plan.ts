@@ -3,7 +3,8 @@
 
 import type { ProfileRequest } from "../../schemas/profile.js";
 import type { ShapeMeta } from "../../schemas/responses/shape-meta.js";
-import { CANTING_SD_DEG, cantingNodesFive } from "../../lib/drops/shape/canting.js";
+import { CANTING_SD_DEG } from "../../lib/drops/shape/canting.js";
+import { planeCantingNodes } from "../../lib/bow/plane-canting-nodes.js";
 import { AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import { outlineAxisRatio } from "../../lib/drops/shape/outline.js";
 import {
@@ -108,7 +109,7 @@ export function shapedPlaneCounts(plan: ShapePlan, wavelengths: number): ShapedP
   const spec = plan.shapes.find((s) => s !== undefined);
   if (!spec) return { traced: 0, interpolated: 0 };
   const shapes = spec.kind === "spheroid" ? 1 : plan.shapes.filter((s) => s !== undefined).length;
-  const planes = shapes * cantingNodesFive(spec.cantingSdDeg).length;
+  const planes = shapes * planeCantingNodes(spec).length;
   return { traced: planes * INDEX_NODES, interpolated: planes * wavelengths };
 }
 

@@ -4,14 +4,15 @@
 // and the rows are the parts' shares added in (node, group) order, as kernelRows adds them for the whole task. Split
 // by wavelength instead, every part would trace every plane.
 
-import { cantingNodesFive, type CantingNode } from "../../lib/drops/shape/canting.js";
+import type { CantingNode } from "../../lib/drops/shape/canting.js";
+import { planeCantingNodes } from "../../lib/bow/plane-canting-nodes.js";
 import { SHAPED_ORDER_GROUPS, shapedRowKey, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import { bowScatteringPlane, cantedAxis } from "../../lib/rays/bow-geometry.js";
 import { cross, dot } from "../../lib/view/vectors.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 
 export interface ShapedPart {
-  /** Index into cantingNodesFive. */
+  /** Index into planeCantingNodes(spec). */
   node: number;
   /** Index into SHAPED_ORDER_GROUPS. */
   group: number;
@@ -49,7 +50,7 @@ function axisInPlane(spec: Pick<ShapedRowSpec, "sunElevationDeg" | "arcPositionD
  * the best schedule on m threads; from memory).
  */
 export function shapedParts(spec: Pick<ShapedRowSpec, "cantingSdDeg" | "sunElevationDeg" | "arcPositionDeg">): ShapedPart[] {
-  const nodes = cantingNodesFive(spec.cantingSdDeg);
+  const nodes = planeCantingNodes(spec);
   const nodeCost = nodes.map((node) => (axisInPlane(spec, node) ? 1 : OUT_OF_PLANE_NODE_COST));
   const parts = nodes.flatMap((_, node) => SHAPED_ORDER_GROUPS.map((_, group) => ({ node, group, share: nodeCost[node] * ORDER_GROUP_COST[group] })));
   const total = parts.reduce((s, p) => s + p.share, 0);

@@ -6,7 +6,7 @@
 
 import type { DropEngine } from "../../lib/bow/volume-scattering.js";
 import { mieTermCount } from "../../lib/mie/termCount.js";
-import { cantingNodesFive } from "../../lib/drops/shape/canting.js";
+import { planeCantingNodes } from "../../lib/bow/plane-canting-nodes.js";
 import { INDEX_NODES, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 
 export const COST_NS = {
@@ -93,7 +93,7 @@ export function weightDrift(measuredNs: Partial<Record<WorkPiece, number>>, inUs
 export function kernelRowCostNs(engine: DropEngine, sizeParameter: number, samples: number, averagedSizes = 1, shape?: ShapedRowSpec, wavelengths = 1): number {
   if (shape) {
     const plane = (COST_NS.shapedPlane * INDEX_NODES) / wavelengths + COST_NS.shapedInterpolatedPlane;
-    return cantingNodesFive(shape.cantingSdDeg).length * (plane + COST_NS.shapedPlaneSample * samples);
+    return planeCantingNodes(shape).length * (plane + COST_NS.shapedPlaneSample * samples);
   }
   if (engine === "mie") return COST_NS.mieTermAngle * mieTermCount(sizeParameter) * samples * averagedSizes;
   return (engine === "airy" ? COST_NS.airySample : COST_NS.raySample) * samples;
