@@ -8,7 +8,7 @@ import { dropRow, dropRowContext, waveNumberPerM, type CellAverage } from "./dro
 import { mieLatticeRows } from "./mie-lattice-rows.js";
 import type { MieSampling } from "./mie-sub-lattice.js";
 import type { DropMedium } from "../water/drop-medium.js";
-import { shapeGroupKey, shapedNodeRows, shapedVariant, type ShapedPlaneCount, type ShapedRowSpec } from "./shaped-rows.js";
+import { shapeGroupKey, shapedMeanRows, shapedNodeRows, shapedVariant, type ShapedPlaneCount, type ShapedRowSpec } from "./shaped-rows.js";
 import { orderVariant } from "./scattering-orders.js";
 import { RowArena } from "./row-arena.js";
 
@@ -20,8 +20,9 @@ export interface KernelRowsInput {
   h: number;
   /**
    * medium: a flattened drop's own wavelength when the task holds several (shaped items only; else `medium`).
-   * cantingNode: a flattened drop's share from that canting node alone (an index into planeCantingNodes(shape)), for a task
-   * split by canting node (pipeline/kernels/canting-parts.ts); else the whole canting mean.
+   * cantingNode: a flattened drop's share from that canting node alone (an index into planeCantingNodes(shape)), for a
+   * part of a task split in parts (pipeline/kernels/canting-parts.ts: the order group without a bow, node by node);
+   * else the canting mean of its order groups.
    */
   items: { radiusUm: number; engine: DropEngine; blocks: number[]; average?: CellAverage; shape?: ShapedRowSpec; medium?: DropMedium; cantingNode?: number }[];
   /** Lattice indices (inclusive) the caller needs; samples of the blocks outside them are left as NaN. */
@@ -133,9 +134,9 @@ function copyScaled(perp: Float64Array, par: Float64Array, at: Int32Array, scale
 /**
  * The flattened drops' rows, by item index, already in β = |S|²/(2k²): items of one shape (shapedRows: a spheroid at
  * any radius, equilibrium drops per shape node) and canting node (or all of them) are computed together, at their own
- * wavelengths, so that each scattering plane is traced once. A row is its canting nodes' shares, each scaled, added in
- * node order from zero: the sum a task split by canting node makes of its parts' rows (pipeline/kernels/canting-parts.ts),
- * to the last bit.
+ * wavelengths, so that each scattering plane is traced once. A row is its pieces (shapedMeanRows: the group without a
+ * bow node by node, each bow group's canting mean), each scaled, added in order from zero: the sum a task split in
+ * parts makes of its parts' rows (pipeline/kernels/canting-parts.ts), to the last bit.
  */
 function shapedItemRows(
   items: KernelRowsInput["items"],
@@ -160,10 +161,14 @@ function shapedItemRows(
       const own = item.medium ?? medium;
       return { radiusUm: item.radiusUm, mRe: own.mRe, x: waveNumberPerM(own) * item.radiusUm * 1e-6 };
     });
-    const computed = shapedNodeRows(first.shape!, drops, thetaDeg, h, first.cantingNode === undefined ? undefined : [first.cantingNode]);
+    // One canting node's share (a part of a split task: the group without a bow), else the canting mean's pieces.
+    const computed =
+      first.cantingNode === undefined
+        ? shapedMeanRows(first.shape!, drops, thetaDeg, h)
+        : (({ rows, planes }) => ({ pieces: rows, planes }))(shapedNodeRows(first.shape!, drops, thetaDeg, h, [first.cantingNode]));
     planes.traced += computed.planes.traced;
     planes.interpolated += computed.planes.interpolated;
-    computed.rows.forEach((shares, k) => {
+    computed.pieces.forEach((shares, k) => {
       const item = items[group[k]];
       const scale = 1 / (2 * waveNumberPerM(item.medium ?? medium) ** 2);
       const perp = new Float64Array(thetaDeg.length);

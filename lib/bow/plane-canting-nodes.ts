@@ -21,23 +21,32 @@ export interface PlaceOnBow {
 
 /** cantingNodesFive(spec.cantingSdDeg) with nodes that are mirror images through the spec's scattering plane merged. */
 export function planeCantingNodes(spec: PlaceOnBow): CantingNode[] {
+  return mergeMirrorImages(spec).nodes;
+}
+
+/** For each node of cantingNodesFive(spec.cantingSdDeg), the index of the planeCantingNodes(spec) node that carries it. */
+export function planeCantingNodeOf(spec: PlaceOnBow): number[] {
+  return mergeMirrorImages(spec).of;
+}
+
+function mergeMirrorImages(spec: PlaceOnBow): { nodes: CantingNode[]; of: number[] } {
   const nodes = cantingNodesFive(spec.cantingSdDeg);
   const { dIn, e } = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
   const normal = cross(dIn, e);
   const axes = nodes.map((node) => cantedAxis(node.tiltXDeg, node.tiltYDeg));
   const kept: CantingNode[] = [];
   const keptAxes: (typeof axes)[number][] = [];
-  nodes.forEach((node, k) => {
+  const of = nodes.map((node, k) => {
     const along = dot(axes[k], normal);
     const mirrored = axes[k].map((c, i) => c - 2 * along * normal[i]);
     const twin = keptAxes.findIndex((axis) => axis.every((c, i) => Math.abs(c - mirrored[i]) < SAME_AXIS));
     // A node in the plane is its own mirror image: it stays one node.
     if (twin >= 0 && Math.abs(along) >= SAME_AXIS) {
       kept[twin] = { ...kept[twin], weight: kept[twin].weight + node.weight };
-      return;
+      return twin;
     }
-    kept.push({ ...node });
     keptAxes.push(axes[k]);
+    return kept.push({ ...node }) - 1;
   });
-  return kept;
+  return { nodes: kept, of };
 }

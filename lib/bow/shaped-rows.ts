@@ -5,7 +5,9 @@ import { equilibriumOutline } from "../drops/shape/equilibrium-shape.js";
 import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
 import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
-import { planeCantingNodes } from "./plane-canting-nodes.js";
+import { planeCantingNodeOf, planeCantingNodes } from "./plane-canting-nodes.js";
+import { alignedCantingMean } from "./canting-spread.js";
+import { cantingNodesFive } from "../drops/shape/canting.js";
 import { chebyshevNodes, interpolateSweep } from "../rays/sweep-interpolation.js";
 import { WATER_INDEX_RANGE } from "../water/index-range.js";
 import {
@@ -220,13 +222,14 @@ export function shapedNodeRows(
   thetaDeg: Float64Array,
   stepDeg: number,
   nodeIndices?: readonly number[],
-): { rows: { perp: Float64Array; par: Float64Array }[][]; planes: ShapedPlaneCount } {
+): { rows: { perp: Float64Array; par: Float64Array }[][]; foldsDeg: number[][]; planes: ShapedPlaneCount } {
   const allNodes = planeCantingNodes(spec);
   const groups = orderGroupsOf(spec);
   const asked = (nodeIndices ?? allNodes.map((_, k) => k)).flatMap((node) => groups.map((group) => ({ node, group })));
   const out = drops.map(() => asked.map(() => ({ perp: new Float64Array(thetaDeg.length), par: new Float64Array(thetaDeg.length) })));
+  const foldsDeg = drops.map(() => asked.map(() => Number.NaN));
   const planes: ShapedPlaneCount = { traced: 0, interpolated: 0 };
-  if (drops.length === 0) return { rows: out, planes };
+  if (drops.length === 0) return { rows: out, foldsDeg, planes };
   // Each drop's shapes and weights; then each shape is traced once, for every drop that uses it.
   const uses = drops.map((drop) => shapesOf(spec, drop.radiusUm));
   const shapes = [...new Set(uses.flatMap((u) => u.map((s) => s.radiusUm)))].sort((a, b) => a - b);
@@ -257,8 +260,11 @@ export function shapedNodeRows(
           ? sweeps[0].map((_, p) => (sweeps[0][p] ? interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer!, near).sweep : null))
           : sweeps[traced.indexOf(mRe)];
         const ctx = contextFromSweeps(mRe, at, 1, thetaDeg, stepDeg, options);
+        // A group of one bow order: its fold, for the canting mean (shapedMeanRows). Blended shapes have no one fold.
+        const fold = options.bowOrders?.length === 1 ? ctx.folds.find((f) => f.order === options.bowOrders![0]) : undefined;
         for (const { drop, d, weight } of users) {
           if (drop.mRe !== mRe) continue;
+          foldsDeg[d][k] = fold && weight === 1 ? fold.fold.thetaR / DEG : Number.NaN;
           shapedPlaneRow(ctx, drop.x, rowPerp, rowPar);
           const w = node.weight * weight;
           const share = out[d][k];
@@ -270,12 +276,78 @@ export function shapedNodeRows(
       }
     });
   }
-  return { rows: out, planes };
+  return { rows: out, foldsDeg, planes };
 }
 
-/** The canting mean of |S1|², |S2|² (shapedNodeRows over every canting node and order group, added in their order). */
+/** Whether an order group holds a bow (SHAPED_BOW_ORDERS): its canting mean is taken with the bows aligned. */
+export function isBowGroup(group: number): boolean {
+  return SHAPED_ORDER_GROUPS[group].some((p) => (SHAPED_BOW_ORDERS as readonly number[]).includes(p));
+}
+
+/**
+ * Bow groups are computed on the grid widened by this much on each side, so that the rows the canting mean shifts
+ * and spreads into the grid were computed, not held at the grid's end values (lib/bow/canting-spread.ts): as far as
+ * the coarse look's margin (shaped-plane-rows.ts LOOK_MARGIN_DEG). Measured with canting 7.5° (sun 10°, arcs 0°, 45°,
+ * 90°): the canting nodes' folds lie within 3.2° of the upright node's for 1 mm equilibrium drops and up to 10° for
+ * 1.5–2 mm. The wider grid's cost was within this machine's noise (a 1 mm drop at 5 wavelengths, widened by 0, 4, 10°).
+ */
+const BOW_GROUP_PAD_DEG = 10;
+
+/**
+ * Each drop's |S1|², |S2|² as pieces to be added in order: per order group asked for (spec.orderGroup, else all), the
+ * group without a bow (reflection and transmission) node by node as shapedNodeRows gives it, each bow group as one
+ * canting mean with the nodes' bows aligned and spread over the tilts (alignedCantingMean; where the folds make no
+ * model, e.g. method "geometric" or a bow off the grid, its nodes' shares added as they are). Kernel tasks split in
+ * parts (pipeline/kernels/canting-parts.ts) compute the same pieces, the group without a bow node by node.
+ */
+export function shapedMeanRows(
+  spec: ShapedRowSpec,
+  drops: readonly ShapedDrop[],
+  thetaDeg: Float64Array,
+  stepDeg: number,
+): { pieces: { perp: Float64Array; par: Float64Array }[][]; planes: ShapedPlaneCount } {
+  const pieces = drops.map((): { perp: Float64Array; par: Float64Array }[] => []);
+  const planes: ShapedPlaneCount = { traced: 0, interpolated: 0 };
+  const count = thetaDeg.length;
+  const pad = Math.round(BOW_GROUP_PAD_DEG / stepDeg);
+  const padded = Float64Array.from({ length: count + 2 * pad }, (_, j) => thetaDeg[0] + (j - pad) * stepDeg);
+  const nodes = cantingNodesFive(spec.cantingSdDeg);
+  const planeNodes = planeCantingNodes(spec);
+  const shareOf = planeCantingNodeOf(spec);
+  for (const group of orderGroupsOf(spec)) {
+    const bow = isBowGroup(group);
+    const computed = shapedNodeRows({ ...spec, orderGroup: group }, drops, bow ? padded : thetaDeg, stepDeg);
+    planes.traced += computed.planes.traced;
+    planes.interpolated += computed.planes.interpolated;
+    computed.rows.forEach((shares, d) => {
+      if (!bow) {
+        pieces[d].push(...shares);
+        return;
+      }
+      const perp = new Float64Array(count + 2 * pad);
+      const par = new Float64Array(count + 2 * pad);
+      const folds = nodes.map((_, k) => computed.foldsDeg[d][shareOf[k]]);
+      const mean = (pick: "perp" | "par", out: Float64Array) =>
+        planeNodes.length > 1 && alignedCantingMean(shares.map((s) => s[pick]), shareOf, nodes, folds, spec.cantingSdDeg, stepDeg, out);
+      if (!(mean("perp", perp) && mean("par", par))) {
+        perp.fill(0);
+        par.fill(0);
+        for (const share of shares) {
+          for (let j = 0; j < perp.length; j++) {
+            perp[j] += share.perp[j];
+            par[j] += share.par[j];
+          }
+        }
+      }
+      pieces[d].push({ perp: perp.slice(pad, pad + count), par: par.slice(pad, pad + count) });
+    });
+  }
+  return { pieces, planes };
+}
+
+/** The canting mean of |S1|², |S2|² (shapedMeanRows' pieces added in their order). */
 export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number): { perp: Float64Array; par: Float64Array }[] {
-  return shapedNodeRows(spec, drops, thetaDeg, stepDeg).rows.map((shares) => {
+  return shapedMeanRows(spec, drops, thetaDeg, stepDeg).pieces.map((shares) => {
     const perp = new Float64Array(thetaDeg.length);
     const par = new Float64Array(thetaDeg.length);
     for (const share of shares) {

@@ -1,19 +1,21 @@
-// A kernel task of one flattened-drop shape spread over the pool's threads in parts, one per canting node and order
-// group (lib/bow/shaped-rows.ts SHAPED_ORDER_GROUPS): each part traces its node's planes for its group's orders alone
-// (at the water's refractive-index nodes, tracedIndices) for every wavelength, so no plane's order is traced twice,
-// and the rows are the parts' shares added in (node, group) order, as kernelRows adds them for the whole task. Split
-// by wavelength instead, every part would trace every plane.
+// A kernel task of one flattened-drop shape spread over the pool's threads in parts: the order group without a bow
+// (reflection and transmission) one part per canting node, each bow group one part over every canting node (its
+// canting mean aligns the nodes' bows: lib/bow/canting-spread.ts, so its nodes stay together). Each part traces its
+// planes for its group's orders alone (at the water's refractive-index nodes, tracedIndices) for every wavelength, so
+// no plane's order is traced twice, and the rows are the parts' pieces added in (group, node) order, as kernelRows adds
+// them for the whole task (lib/bow/shaped-rows.ts shapedMeanRows). Split by wavelength instead, every part would trace
+// every plane.
 
 import type { CantingNode } from "../../lib/drops/shape/canting.js";
 import { planeCantingNodes } from "../../lib/bow/plane-canting-nodes.js";
-import { SHAPED_ORDER_GROUPS, shapedRowKey, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
+import { isBowGroup, SHAPED_ORDER_GROUPS, shapedRowKey, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import { bowScatteringPlane, cantedAxis } from "../../lib/rays/bow-geometry.js";
 import { cross, dot } from "../../lib/view/vectors.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 
 export interface ShapedPart {
-  /** Index into planeCantingNodes(spec). */
-  node: number;
+  /** Index into planeCantingNodes(spec); undefined: every node (a bow group's part). */
+  node?: number;
   /** Index into SHAPED_ORDER_GROUPS. */
   group: number;
   /** Estimated share of the task's CPU (the parts' shares add up to 1). */
@@ -44,7 +46,7 @@ function axisInPlane(spec: Pick<ShapedRowSpec, "sunElevationDeg" | "arcPositionD
 }
 
 /**
- * Every (canting node, order group) part of a shape's task, largest first by estimated cost, so that the pool, which
+ * Every part of a shape's task (the group without a bow per canting node, each bow group whole), largest first by estimated cost, so that the pool, which
  * runs tasks in the order they come (firstInFirstOut in worker-pool.ts), runs them longest-processing-time first: the threads then end within
  * about one of the smallest parts of each other (Graham 1969, SIAM J. Appl. Math. 17, 416–429: at most 4/3 − 1/(3m) of
  * the best schedule on m threads; from memory).
@@ -52,16 +54,22 @@ function axisInPlane(spec: Pick<ShapedRowSpec, "sunElevationDeg" | "arcPositionD
 export function shapedParts(spec: Pick<ShapedRowSpec, "cantingSdDeg" | "sunElevationDeg" | "arcPositionDeg">): ShapedPart[] {
   const nodes = planeCantingNodes(spec);
   const nodeCost = nodes.map((node) => (axisInPlane(spec, node) ? 1 : OUT_OF_PLANE_NODE_COST));
-  const parts = nodes.flatMap((_, node) => SHAPED_ORDER_GROUPS.map((_, group) => ({ node, group, share: nodeCost[node] * ORDER_GROUP_COST[group] })));
+  const allNodes = nodeCost.reduce((s, c) => s + c, 0);
+  const parts: ShapedPart[] = SHAPED_ORDER_GROUPS.flatMap((_, group) =>
+    isBowGroup(group)
+      ? [{ group, share: allNodes * ORDER_GROUP_COST[group] }]
+      : nodes.map((_, node) => ({ node, group, share: nodeCost[node] * ORDER_GROUP_COST[group] })),
+  );
   const total = parts.reduce((s, p) => s + p.share, 0);
-  return parts.map((p) => ({ ...p, share: p.share / total })).sort((a, b) => b.share - a.share || a.node - b.node || a.group - b.group);
+  return parts.map((p) => ({ ...p, share: p.share / total })).sort((a, b) => b.share - a.share || a.group - b.group || (a.node ?? -1) - (b.node ?? -1));
 }
 
 /**
  * The task (every item of one shape and canting spread, whole) computed in its shapedParts with `compute`, each part
  * submitted largest first; onPart hears each part's estimated share as it ends (progress). Its rows are each item's
- * (node, group) shares (kernelRows with item.cantingNode and shape.orderGroup, each already scaled) added from zero in
- * node order and, within a node, group order, as kernelRows adds them for the whole task: the same rows to the last bit.
+ * pieces (kernelRows with shape.orderGroup and, for the group without a bow, item.cantingNode; each already scaled)
+ * added from zero in group order and, within a group, node order, as kernelRows adds them for the whole task: the same
+ * rows to the last bit.
  */
 export async function computeInParts(
   task: KernelTask,
@@ -83,8 +91,8 @@ export async function computeInParts(
       return result;
     }),
   );
-  // Added in (node, group) order, whatever order the parts were queued and ended in.
-  const order = parts.map((_, k) => k).sort((a, b) => parts[a].node - parts[b].node || parts[a].group - parts[b].group);
+  // Added in (group, node) order, whatever order the parts were queued and ended in.
+  const order = parts.map((_, k) => k).sort((a, b) => parts[a].group - parts[b].group || (parts[a].node ?? -1) - (parts[b].node ?? -1));
   const rows = task.items.map((item, i) =>
     item.blocks.map((_, b) => {
       const sum = new Float64Array(results[0].rows[i][b].length);

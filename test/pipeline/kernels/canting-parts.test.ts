@@ -9,7 +9,7 @@ import type { KernelTask } from "../../../pipeline/kernels/kernel-types.js";
 import { computeProfile, toDistribution } from "../../../pipeline/compute/profile.js";
 import { planDropShapes, shapedPlaneCounts } from "../../../pipeline/compute/drop-shape-plan.js";
 import { latticeRadiusQuadrature } from "../../../lib/drops/lattice-quadrature.js";
-import { INDEX_NODES, SHAPED_ORDER_GROUPS } from "../../../lib/bow/shaped-rows.js";
+import { INDEX_NODES, isBowGroup, SHAPED_ORDER_GROUPS } from "../../../lib/bow/shaped-rows.js";
 import { profileRequestSchema } from "../../../schemas/profile.js";
 import { blockRange } from "../../../lib/bow/kernel-grid.js";
 import { dropMedia } from "../../../lib/water/drop-medium.js";
@@ -17,29 +17,32 @@ import { dropMedia } from "../../../lib/water/drop-medium.js";
 describe("shaped parts", () => {
   const top = { cantingSdDeg: 7.5, sunElevationDeg: 10, arcPositionDeg: 0 };
 
-  it("are every canting node with every order group once, shares adding up to 1, largest first", () => {
+  it("are the group without a bow once per canting node and each bow group once over every node, shares adding up to 1, largest first", () => {
     const parts = shapedParts({ ...top, arcPositionDeg: 45 });
-    expect(parts.length).toBe(5 * SHAPED_ORDER_GROUPS.length);
+    const bowGroups = SHAPED_ORDER_GROUPS.filter((_, g) => isBowGroup(g)).length;
+    expect(bowGroups).toBe(2);
+    expect(parts.length).toBe(5 + bowGroups);
     expect(new Set(parts.map((p) => `${p.node}:${p.group}`)).size).toBe(parts.length);
+    for (const p of parts) expect(p.node === undefined).toBe(isBowGroup(p.group));
     expect(parts.reduce((s, p) => s + p.share, 0)).toBeCloseTo(1, 12);
     for (let k = 1; k < parts.length; k++) expect(parts[k].share).toBeLessThanOrEqual(parts[k - 1].share);
     // At the top the two nodes tilted out of the scattering plane are mirror images: one node (lib/bow/plane-canting-nodes.ts).
-    expect(shapedParts(top).length).toBe(4 * SHAPED_ORDER_GROUPS.length);
+    expect(shapedParts(top).length).toBe(4 + bowGroups);
     // Upright drops: one node, its three groups.
-    expect(shapedParts({ ...top, cantingSdDeg: 0 }).map((p) => p.node)).toEqual([0, 0, 0]);
+    expect(shapedParts({ ...top, cantingSdDeg: 0 }).map((p) => p.node)).toEqual([undefined, undefined, 0]);
   });
 
-  it("put first the bows' orders of the nodes tilted out of the scattering plane (the costly ones), last the reflection of the nodes in it", () => {
+  it("put first the bow groups (the costly ones), then the reflection of the nodes tilted out of the scattering plane", () => {
     // At the top of the bow the scattering plane is vertical and holds the sun's direction (x–z, lib/rays/bow-geometry.ts):
     // nodes 1 and 2 tilt in it, 3 (tiltY, with its mirror image) out of it.
     const parts = shapedParts(top);
-    expect(new Set(parts.slice(0, 2).map((p) => p.node))).toEqual(new Set([3]));
     expect(new Set(parts.slice(0, 2).map((p) => p.group))).toEqual(new Set([1, 2]));
+    expect(parts[2]).toMatchObject({ node: 3, group: 0 });
     expect(new Set(parts.slice(-3).map((p) => `${p.node}:${p.group}`))).toEqual(new Set(["0:0", "1:0", "2:0"]));
     // At the side of the bow with the sun on the horizon the plane is horizontal: every tilt leaves it, and the
-    // upright axis is across it, so every node costs the same.
+    // upright axis is across it, so every node's reflection costs the same.
     const side = shapedParts({ ...top, sunElevationDeg: 0, arcPositionDeg: 90 });
-    expect(new Set(side.map((p) => p.share.toFixed(12))).size).toBe(2);
+    expect(new Set(side.filter((p) => p.group === 0).map((p) => p.share.toFixed(12))).size).toBe(1);
   });
 });
 
@@ -75,11 +78,11 @@ describe("one shape on two threads", () => {
     return { result, seen, planes, progress };
   }
 
-  it("is split in a part per canting node and order group (every wavelength in each), queued largest first, traces each plane once as the estimate counts, and gives one task's rows bit for bit", async () => {
+  it("is split in its parts (the group without a bow per canting node, each bow group whole; every wavelength in each), queued largest first, traces each plane once as the estimate counts, and gives one task's rows bit for bit", async () => {
     const two = await run(2);
     const parts = shapedParts(planDropShapes(request, new Float64Array([600])).shapes[0]!);
     expect(two.seen.length).toBe(parts.length);
-    // Queued in shapedParts' order: each part one node and one group, for both wavelengths.
+    // Queued in shapedParts' order: each part one node (or all) and one group, for both wavelengths.
     expect(two.seen.map((task) => [...new Set(task.items.map((item) => `${item.cantingNode}:${item.shape!.orderGroup}`))])).toEqual(parts.map((p) => [`${p.node}:${p.group}`]));
     for (const task of two.seen) expect(new Set(task.items.map((item) => item.medium?.wavelengthNm ?? task.medium.wavelengthNm)).size).toBe(2);
 
@@ -122,8 +125,8 @@ describe("which tasks are split", () => {
     return seen;
   }
 
-  it("with fewer than 8 shapes a thread each shape is split in its parts (12 at the top of the bow); with 8 or more, or one thread, a task a shape", async () => {
-    expect((await tasksFor(15, 2)).length).toBe(15 * 12);
+  it("with fewer than 8 shapes a thread each shape is split in its parts (6 at the top of the bow); with 8 or more, or one thread, a task a shape", async () => {
+    expect((await tasksFor(15, 2)).length).toBe(15 * 6);
     expect((await tasksFor(16, 2)).length).toBe(16);
     expect((await tasksFor(3, 1)).length).toBe(3);
   });

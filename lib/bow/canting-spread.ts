@@ -1,0 +1,137 @@
+// The canting mean of a flattened drop's bow. A tilt of the drop's axis moves the bow of each order by degrees
+// (1 mm drops half-way up the bow: the primary's fold at 32.0–37.5° over the five canting nodes of ±13°), far more
+// than the bow's width, so a quadrature over tilts that adds the nodes' rows as they are draws one bow per node
+// where nature has one broad bow: the rule is exact for integrands smooth in the tilt (cantingNodesFive), and a row
+// seen at a fixed angle is not. The fold angle Θ_R(t) itself is smooth in the tilt t, and so is the bow's shape
+// around its fold. So the mean is taken in two steps (displacement interpolation, common practice):
+//   1. the nodes' rows are shifted so that their folds coincide with the upright node's and added with the rule's
+//      weights: the mean shape of the bow, by the rule, where the integrand is smooth;
+//   2. that shape is spread over the distribution of Θ_R(t) − Θ_R(0) under the Gaussian tilt (Huang, Bringi & Thurai
+//      2008: σ in each of two vertical planes), Θ_R(t) taken as the quadratic through the five nodes' folds.
+// Without canting, or for spheres (every node's fold the same), both steps leave the rows as they are.
+
+import type { CantingNode } from "../drops/shape/canting.js";
+
+/**
+ * out[j] = the bin means `row` would have if its content moved by shiftBins bins towards higher index: the
+ * piecewise-linear interpolant of the bin means through their centres read at j − shiftBins, held at the end values
+ * beyond the grid. The linear read smooths by under a bin (0.05° on the service's lattice), well inside the sun's
+ * disc (0.53°) that every profile is then convolved with.
+ */
+export function shiftBinMeans(row: Float64Array, shiftBins: number, out: Float64Array): void {
+  const last = row.length - 1;
+  for (let j = 0; j <= last; j++) {
+    const at = j - shiftBins;
+    if (at <= 0) out[j] = row[0];
+    else if (at >= last) out[j] = row[last];
+    else {
+      const k = Math.floor(at);
+      const f = at - k;
+      out[j] = f === 0 ? row[k] : row[k] + f * (row[k + 1] - row[k]);
+    }
+  }
+}
+
+/** Θ_R(tx, ty) = c + gx·tx + gy·ty + ½hx·tx² + ½hy·ty² (degrees of Θ over degrees of tilt). */
+export interface FoldOverTilt {
+  c: number;
+  gx: number;
+  gy: number;
+  hx: number;
+  hy: number;
+}
+
+/**
+ * The quadratic through the folds of the five-node rule's nodes (cantingNodesFive: the centre and ±a on each axis):
+ * central differences, exact for a quadratic without the cross term (which the rule cannot see). null when a node
+ * has no fold (the bow left the grid, or the order was not traced as a bow).
+ */
+export function foldOverTilt(nodes: readonly CantingNode[], foldsDeg: readonly number[]): FoldOverTilt | null {
+  if (nodes.length !== 5 || foldsDeg.some((f) => !Number.isFinite(f))) return null;
+  const at = (tx: number, ty: number) => foldsDeg[nodes.findIndex((n) => Math.sign(n.tiltXDeg) === tx && Math.sign(n.tiltYDeg) === ty)];
+  const a = nodes[1].tiltXDeg;
+  const c = at(0, 0);
+  const [xp, xm, yp, ym] = [at(1, 0), at(-1, 0), at(0, 1), at(0, -1)];
+  return { c, gx: (xp - xm) / (2 * a), gy: (yp - ym) / (2 * a), hx: (xp + xm - 2 * c) / (a * a), hy: (yp + ym - 2 * c) / (a * a) };
+}
+
+/**
+ * Tilts sampled per axis for the spread, over ±TILT_SPAN_SD σ: the trapezoidal rule on a Gaussian converges
+ * geometrically (Trefethen & Weideman 2014, SIAM Review 56, 385, §5), and ±5σ leaves out 6e-7 of the weight.
+ */
+const TILT_SAMPLES = 41;
+const TILT_SPAN_SD = 5;
+
+/**
+ * The distribution of Θ_R(t) − Θ_R(0) over the Gaussian tilt (σ = sdDeg in each axis), on bins of stepDeg: weights[m]
+ * for a shift of (first + m) bins, adding up to 1. Each sampled tilt's weight is split between the two bins around
+ * its shift (linear: a shift of 0.3 bins puts 0.7 at 0 and 0.3 at 1), so a constant Θ_R gives the single weight 1 at 0.
+ */
+export function foldSpreadKernel(model: FoldOverTilt, sdDeg: number, stepDeg: number): { first: number; weights: Float64Array } {
+  const shifts: number[] = [];
+  const masses: number[] = [];
+  let total = 0;
+  for (let i = 0; i < TILT_SAMPLES; i++) {
+    const tx = sdDeg * TILT_SPAN_SD * ((2 * i) / (TILT_SAMPLES - 1) - 1);
+    for (let k = 0; k < TILT_SAMPLES; k++) {
+      const ty = sdDeg * TILT_SPAN_SD * ((2 * k) / (TILT_SAMPLES - 1) - 1);
+      // Bivariate normal density with σ in each axis (the weights are normalised below).
+      const mass = Math.exp(-(tx * tx + ty * ty) / (2 * sdDeg * sdDeg));
+      const delta = model.gx * tx + model.gy * ty + 0.5 * (model.hx * tx * tx + model.hy * ty * ty);
+      shifts.push(delta / stepDeg);
+      masses.push(mass);
+      total += mass;
+    }
+  }
+  const first = Math.floor(Math.min(...shifts));
+  const weights = new Float64Array(Math.floor(Math.max(...shifts)) - first + 2);
+  shifts.forEach((s, i) => {
+    const k = Math.floor(s);
+    const f = s - k;
+    weights[k - first] += ((1 - f) * masses[i]) / total;
+    weights[k - first + 1] += (f * masses[i]) / total;
+  });
+  return { first, weights };
+}
+
+/**
+ * The canting mean of one order's shares (each already weighted by its node's weight), written into out: the shares
+ * aligned on the upright node's fold and added, then spread by foldSpreadKernel. nodes and foldsDeg: the five nodes of
+ * cantingNodesFive and each one's fold (Θ_R, degrees); shareOf[k]: the index into shares of node k's share (two nodes
+ * that are mirror images share one: lib/bow/plane-canting-nodes.ts). false, with out untouched, when the folds do not
+ * make a model (foldOverTilt): the caller adds the shares as they are.
+ */
+export function alignedCantingMean(
+  shares: readonly Float64Array[],
+  shareOf: readonly number[],
+  nodes: readonly CantingNode[],
+  foldsDeg: readonly number[],
+  sdDeg: number,
+  stepDeg: number,
+  out: Float64Array,
+): boolean {
+  const model = foldOverTilt(nodes, foldsDeg);
+  if (!model) return false;
+  const count = out.length;
+  const aligned = new Float64Array(count);
+  const shifted = new Float64Array(count);
+  const done = new Set<number>();
+  nodes.forEach((_, k) => {
+    const s = shareOf[k];
+    if (done.has(s)) return;
+    done.add(s);
+    shiftBinMeans(shares[s], (model.c - foldsDeg[k]) / stepDeg, shifted);
+    for (let j = 0; j < count; j++) aligned[j] += shifted[j];
+  });
+  const { first, weights } = foldSpreadKernel(model, sdDeg, stepDeg);
+  for (let j = 0; j < count; j++) {
+    let sum = 0;
+    for (let m = 0; m < weights.length; m++) {
+      if (weights[m] === 0) continue;
+      const from = Math.min(count - 1, Math.max(0, j - (first + m)));
+      sum += weights[m] * aligned[from];
+    }
+    out[j] = sum;
+  }
+  return true;
+}

@@ -1,0 +1,71 @@
+import { describe, expect, it } from "vitest";
+import { shapedMeanRows, shapedNodeRows, type ShapedRowSpec } from "../../../lib/bow/shaped-rows.js";
+import { shapedPlaneContext, shapedPlaneRow } from "../../../lib/bow/shaped-plane-rows.js";
+import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
+import { bowScatteringPlane, cantedAxis } from "../../../lib/rays/bow-geometry.js";
+import { convolveProfile, sunDiscKernel, SUN_MEAN_ANGULAR_DIAMETER_DEG } from "../../../lib/sun/disc.js";
+
+// The primary of canted 1 mm equilibrium drops half-way up the bow (arc 45°, sun 10°), one wavelength, after the sun's
+// disc, against the canting integral taken by brute force: a dense grid of tilts (1° apart over ±2.5σ in both planes,
+// Gaussian weights: Huang, Bringi & Thurai 2008's spread), each traced on its own. σ is 3° here, not the service's
+// 7.5°, to keep the reference to 225 traced drops (seconds): the nodes' folds still lie 0.6° apart, beyond the bow's
+// own width, so the rows of the five nodes added as they are draw separate bows.
+describe("the canting mean of a flattened drop's bow", () => {
+  it("follows the dense tilt grid where the five nodes added as they are do not", () => {
+    const sd = 3;
+    const step = 0.05;
+    const n = 1.3345;
+    const radiusUm = 1000;
+    const x = (2 * Math.PI * radiusUm) / 0.55;
+    // Θ 139–149° (ψ 31–41°), around the primary's folds of every tilt.
+    const thetaDeg = Float64Array.from({ length: 200 }, (_, j) => 139.025 + step * j);
+    const spec: ShapedRowSpec = { kind: "equilibrium", cantingSdDeg: sd, sunElevationDeg: 10, arcPositionDeg: 45, rayOnly: false, traceEveryIndex: true, orderGroup: 1 };
+    const drop = { radiusUm, mRe: n, x };
+    const disc = sunDiscKernel(SUN_MEAN_ANGULAR_DIAMETER_DEG, step);
+    const seen = (perp: Float64Array, par: Float64Array) => convolveProfile(perp.map((v, j) => v + par[j]), disc);
+
+    const [piece] = shapedMeanRows(spec, [drop], thetaDeg, step).pieces[0];
+    const aligned = seen(piece.perp, piece.par);
+    const shares = shapedNodeRows(spec, [drop], thetaDeg, step).rows[0];
+    const asTheyAre = seen(...shares.reduce(([p, q], s) => [p.map((v, j) => v + s.perp[j]), q.map((v, j) => v + s.par[j])], [new Float64Array(200), new Float64Array(200)]));
+
+    const outline = equilibriumOutline(radiusUm);
+    const plane = bowScatteringPlane(10, 45);
+    const sum = { perp: new Float64Array(200), par: new Float64Array(200) };
+    const perp = new Float64Array(200);
+    const par = new Float64Array(200);
+    let total = 0;
+    for (let i = -7; i <= 7; i++) {
+      for (let k = -7; k <= 7; k++) {
+        const [tx, ty] = [i, k];
+        const w = Math.exp(-(tx * tx + ty * ty) / (2 * sd * sd));
+        const ctx = shapedPlaneContext({ outline, axis: cantedAxis(tx, ty), n }, plane, 1, thetaDeg, step, { rayOrders: [], bowOrders: [2] });
+        shapedPlaneRow(ctx, x, perp, par);
+        for (let j = 0; j < 200; j++) {
+          sum.perp[j] += w * perp[j];
+          sum.par[j] += w * par[j];
+        }
+        total += w;
+      }
+    }
+    const reference = seen(sum.perp.map((v) => v / total), sum.par.map((v) => v / total));
+    const peak = Math.max(...reference);
+    const off = (row: Float64Array) => {
+      let worst = 0, summed = 0, ref = 0;
+      for (let j = 20; j < 180; j++) {
+        worst = Math.max(worst, Math.abs(row[j] - reference[j]) / peak);
+        summed += Math.abs(row[j] - reference[j]);
+        ref += reference[j];
+      }
+      return { worst, summed: summed / ref };
+    };
+    const a = off(aligned);
+    const b = off(asTheyAre);
+    // Measured: aligned worst 0.14 of the peak (the reference's shoulder on the dark side, ψ ≈ 35.4°, which the quadratic
+    // fold model rounds off) and 0.036 summed; the nodes as they are 0.33 and 0.15 (separate bows, one 23 % above the
+    // reference's peak). Bounds a little above the aligned figures; the second check is what the alignment is for.
+    expect(a.worst).toBeLessThan(0.2);
+    expect(a.summed).toBeLessThan(0.05);
+    expect(b.summed).toBeGreaterThan(3 * a.summed);
+  }, 120_000);
+});
