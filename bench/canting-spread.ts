@@ -1,0 +1,116 @@
+// npm run bench:canting [-- --write]: the canting mean of flattened drops' bows (lib/bow/canting-spread.ts: the five
+// nodes' bows aligned and spread over the tilts) and the five nodes' rows added as they are, each against the canting
+// integral taken by brute force on a dense grid of tilts (TILT_SPACING_DEG apart over ±TILT_SPAN_SD σ in both planes,
+// Gaussian weights), every tilt traced on its own. One wavelength (550 nm, n 1.3345), ray optics with the Airy-type
+// bows, after the sun's disc (Neckel & Labs 1994 limb darkening, as profiles), ψ 30–58°. Writes the canting-spread
+// section of BENCHMARKS.md with --write.
+
+import { loadavg } from "node:os";
+import { shapedMeanRows, shapedNodeRows, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
+import { shapedPlaneContext, shapedPlaneRow } from "../lib/bow/shaped-plane-rows.js";
+import { equilibriumOutline } from "../lib/drops/shape/equilibrium-shape.js";
+import { bowScatteringPlane, cantedAxis } from "../lib/rays/bow-geometry.js";
+import { convolveProfile, sunDiscKernel, SUN_MEAN_ANGULAR_DIAMETER_DEG } from "../lib/sun/disc.js";
+import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
+
+const SD_DEG = 7.5;
+/** Tilts 1.25° apart: a node's fold then moves by ≤ 0.4° (1 mm drops, ≤ 0.3° per degree of tilt), inside the sun's disc. */
+const TILT_SPACING_DEG = 1.25;
+const TILT_SPAN_SD = 2.5;
+const STEP_DEG = 0.05;
+const N_RE = 1.3345;
+const WAVELENGTH_UM = 0.55;
+/** Θ 118–153° (ψ 27–62°); figures over ψ 30–58°, clear of the grid's ends. */
+const THETA_DEG = Float64Array.from({ length: 700 }, (_, j) => 118.025 + STEP_DEG * j);
+const FROM = 80;
+const TO = 640;
+
+const CASES = [
+  { radiusUm: 500, arcPositionDeg: 45 },
+  { radiusUm: 1000, arcPositionDeg: 0 },
+  { radiusUm: 1000, arcPositionDeg: 45 },
+  { radiusUm: 1000, arcPositionDeg: 90 },
+  { radiusUm: 1500, arcPositionDeg: 45 },
+];
+
+const disc = sunDiscKernel(SUN_MEAN_ANGULAR_DIAMETER_DEG, STEP_DEG);
+const seen = (perp: Float64Array, par: Float64Array) => convolveProfile(perp.map((v, j) => v + par[j]), disc);
+
+function sumShares(shares: readonly { perp: Float64Array; par: Float64Array }[]): { perp: Float64Array; par: Float64Array } {
+  const perp = new Float64Array(THETA_DEG.length);
+  const par = new Float64Array(THETA_DEG.length);
+  for (const s of shares) {
+    for (let j = 0; j < perp.length; j++) {
+      perp[j] += s.perp[j];
+      par[j] += s.par[j];
+    }
+  }
+  return { perp, par };
+}
+
+function bruteForce(radiusUm: number, arcPositionDeg: number, x: number): Float64Array {
+  const outline = equilibriumOutline(radiusUm);
+  const plane = bowScatteringPlane(10, arcPositionDeg);
+  const sum = { perp: new Float64Array(THETA_DEG.length), par: new Float64Array(THETA_DEG.length) };
+  const perp = new Float64Array(THETA_DEG.length);
+  const par = new Float64Array(THETA_DEG.length);
+  const m = Math.round((TILT_SPAN_SD * SD_DEG) / TILT_SPACING_DEG);
+  let total = 0;
+  for (let i = -m; i <= m; i++) {
+    for (let k = -m; k <= m; k++) {
+      const [tx, ty] = [i * TILT_SPACING_DEG, k * TILT_SPACING_DEG];
+      const w = Math.exp(-(tx * tx + ty * ty) / (2 * SD_DEG * SD_DEG));
+      shapedPlaneRow(shapedPlaneContext({ outline, axis: cantedAxis(tx, ty), n: N_RE }, plane, 1, THETA_DEG, STEP_DEG), x, perp, par);
+      for (let j = 0; j < perp.length; j++) {
+        sum.perp[j] += w * perp[j];
+        sum.par[j] += w * par[j];
+      }
+      total += w;
+    }
+  }
+  return seen(sum.perp.map((v) => v / total), sum.par.map((v) => v / total));
+}
+
+function errors(row: Float64Array, reference: Float64Array): { worst: number; summed: number } {
+  let peak = 0;
+  for (let j = FROM; j < TO; j++) peak = Math.max(peak, reference[j]);
+  let worst = 0;
+  let summed = 0;
+  let total = 0;
+  for (let j = FROM; j < TO; j++) {
+    worst = Math.max(worst, Math.abs(row[j] - reference[j]) / peak);
+    summed += Math.abs(row[j] - reference[j]);
+    total += reference[j];
+  }
+  return { worst, summed: summed / total };
+}
+
+const rows: string[] = [];
+for (const { radiusUm, arcPositionDeg } of CASES) {
+  const x = (2 * Math.PI * radiusUm) / WAVELENGTH_UM;
+  const spec: ShapedRowSpec = { kind: "equilibrium", cantingSdDeg: SD_DEG, sunElevationDeg: 10, arcPositionDeg, rayOnly: false, traceEveryIndex: true };
+  const drop = { radiusUm, mRe: N_RE, x };
+  const aligned = seen(...(({ perp, par }) => [perp, par] as const)(sumShares(shapedMeanRows(spec, [drop], THETA_DEG, STEP_DEG).pieces[0])));
+  const asTheyAre = seen(...(({ perp, par }) => [perp, par] as const)(sumShares(shapedNodeRows(spec, [drop], THETA_DEG, STEP_DEG).rows[0])));
+  const reference = bruteForce(radiusUm, arcPositionDeg, x);
+  const [a, b] = [errors(aligned, reference), errors(asTheyAre, reference)];
+  const line = `| ${radiusUm / 1000} mm, arc ${arcPositionDeg}° | ${a.worst.toFixed(3)} | ${a.summed.toFixed(3)} | ${b.worst.toFixed(3)} | ${b.summed.toFixed(3)} |`;
+  console.log(line);
+  rows.push(line);
+}
+
+const lines = [
+  "## Flattened drops: the canting mean against a dense tilt grid",
+  "",
+  `Written by \`npm run bench:canting -- --write\` (bench/canting-spread.ts), ${benchDate()}; ${machineLine()}; load average ${loadavg()[0].toFixed(1)} at the end.`,
+  `Equilibrium drops, canting σ ${SD_DEG}°, sun 10°, 550 nm, after the sun's disc, ψ 30–58°. Reference: every tilt of a grid ${TILT_SPACING_DEG}° apart over`,
+  `±${TILT_SPAN_SD}σ in both planes traced on its own, Gaussian weights. Errors as a share of the reference's peak (worst) and summed |Δ| over the`,
+  "summed reference. Aligned: the five canting nodes' bows aligned on the upright node's fold and spread over the fold's",
+  "distribution under the tilt (lib/bow/canting-spread.ts); as they are: the five nodes' rows added with the rule's weights.",
+  "",
+  "| drops, place on the bow | aligned worst | aligned summed | as they are worst | as they are summed |",
+  "|---|---|---|---|---|",
+  ...rows,
+];
+if (process.argv.includes("--write")) writeMarkedSection("canting-spread", lines);
+else console.log(lines.join("\n"));
