@@ -6,7 +6,7 @@
 // section of BENCHMARKS.md with --write.
 
 import { loadavg } from "node:os";
-import { shapedMeanRows, shapedNodeRows, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
+import { shapedMeanRows, type CantingMean, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
 import { shapedPlaneContext, shapedPlaneRow } from "../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../lib/drops/shape/equilibrium-shape.js";
 import { bowScatteringPlane, cantedAxis } from "../lib/rays/bow-geometry.js";
@@ -14,9 +14,12 @@ import { convolveProfile, sunDiscKernel, SUN_MEAN_ANGULAR_DIAMETER_DEG } from ".
 import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
 
 const SD_DEG = 7.5;
-/** Tilts 1.25° apart: a node's fold then moves by ≤ 0.4° (1 mm drops, ≤ 0.3° per degree of tilt), inside the sun's disc. */
-const TILT_SPACING_DEG = 1.25;
-const TILT_SPAN_SD = 2.5;
+/**
+ * Tilts 1.5° apart: a node's fold then moves by ≤ 0.45° (1 mm drops, ≤ 0.3° per degree of tilt), inside the sun's disc;
+ * over ±3.5σ, leaving out exp(−3.5²/2) = 0.2 % of the tilts' weight (both methods spread over ±5σ).
+ */
+const TILT_SPACING_DEG = 1.5;
+const TILT_SPAN_SD = 3.5;
 const STEP_DEG = 0.05;
 const N_RE = 1.3345;
 const WAVELENGTH_UM = 0.55;
@@ -25,7 +28,7 @@ const THETA_DEG = Float64Array.from({ length: 700 }, (_, j) => 118.025 + STEP_DE
 const FROM = 80;
 const TO = 640;
 
-const CASES = [
+const CASES = process.env.CASES ? JSON.parse(process.env.CASES) : [
   { radiusUm: 500, arcPositionDeg: 45 },
   { radiusUm: 1000, arcPositionDeg: 0 },
   { radiusUm: 1000, arcPositionDeg: 45 },
@@ -90,11 +93,10 @@ for (const { radiusUm, arcPositionDeg } of CASES) {
   const x = (2 * Math.PI * radiusUm) / WAVELENGTH_UM;
   const spec: ShapedRowSpec = { kind: "equilibrium", cantingSdDeg: SD_DEG, sunElevationDeg: 10, arcPositionDeg, rayOnly: false, traceEveryIndex: true };
   const drop = { radiusUm, mRe: N_RE, x };
-  const aligned = seen(...(({ perp, par }) => [perp, par] as const)(sumShares(shapedMeanRows(spec, [drop], THETA_DEG, STEP_DEG).pieces[0])));
-  const asTheyAre = seen(...(({ perp, par }) => [perp, par] as const)(sumShares(shapedNodeRows(spec, [drop], THETA_DEG, STEP_DEG).rows[0])));
+  const mean = (how: CantingMean) => seen(...(({ perp, par }) => [perp, par] as const)(sumShares(shapedMeanRows(spec, [drop], THETA_DEG, STEP_DEG, how).pieces[0])));
   const reference = bruteForce(radiusUm, arcPositionDeg, x);
-  const [a, b] = [errors(aligned, reference), errors(asTheyAre, reference)];
-  const line = `| ${radiusUm / 1000} mm, arc ${arcPositionDeg}° | ${a.worst.toFixed(3)} | ${a.summed.toFixed(3)} | ${b.worst.toFixed(3)} | ${b.summed.toFixed(3)} |`;
+  const figures = (["local", "aligned", "nodes"] as const).map((how) => errors(mean(how), reference));
+  const line = `| ${radiusUm / 1000} mm, arc ${arcPositionDeg}° | ${figures.map((f) => `${f.worst.toFixed(3)} / ${f.summed.toFixed(3)}`).join(" | ")} |`;
   console.log(line);
   rows.push(line);
 }
@@ -105,11 +107,12 @@ const lines = [
   `Written by \`npm run bench:canting -- --write\` (bench/canting-spread.ts), ${benchDate()}; ${machineLine()}; load average ${loadavg()[0].toFixed(1)} at the end.`,
   `Equilibrium drops, canting σ ${SD_DEG}°, sun 10°, 550 nm, after the sun's disc, ψ 30–58°. Reference: every tilt of a grid ${TILT_SPACING_DEG}° apart over`,
   `±${TILT_SPAN_SD}σ in both planes traced on its own, Gaussian weights. Errors as a share of the reference's peak (worst) and summed |Δ| over the`,
-  "summed reference. Aligned: the five canting nodes' bows aligned on the upright node's fold and spread over the fold's",
-  "distribution under the tilt (lib/bow/canting-spread.ts); as they are: the five nodes' rows added with the rule's weights.",
+  "summed reference. Local (the service's): each canting node's bow spread over the folds of its own cell of tilts; aligned: the",
+  "nodes' bows aligned on the upright node's fold and their mean spread over the fold's whole distribution (both",
+  "lib/bow/canting-spread.ts, the fold quadratic through the nodes' folds); nodes: the five rows added with the rule's weights.",
   "",
-  "| drops, place on the bow | aligned worst | aligned summed | as they are worst | as they are summed |",
-  "|---|---|---|---|---|",
+  "| drops, place on the bow | local: worst / summed | aligned: worst / summed | nodes: worst / summed |",
+  "|---|---|---|---|",
   ...rows,
 ];
 if (process.argv.includes("--write")) writeMarkedSection("canting-spread", lines);

@@ -95,6 +95,86 @@ export function foldSpreadKernel(model: FoldOverTilt, sdDeg: number, stepDeg: nu
 }
 
 /**
+ * Each node's share of the spread: the tilts sampled as in foldSpreadKernel are given to their nearest node (its
+ * Voronoi cell), and node k's kernel is the distribution of Θ_R(t) − Θ_R(t_k) over its cell, on bins of stepDeg,
+ * normalised to 1 (each node keeps its rule weight). kernels[k]: weights[m] for a shift of (first + m) bins.
+ */
+export function localSpreadKernels(model: FoldOverTilt, nodes: readonly CantingNode[], sdDeg: number, stepDeg: number): { first: number; weights: Float64Array }[] {
+  const fold = (tx: number, ty: number) => model.gx * tx + model.gy * ty + 0.5 * (model.hx * tx * tx + model.hy * ty * ty);
+  const samples: { shift: number; mass: number }[][] = nodes.map(() => []);
+  for (let i = 0; i < TILT_SAMPLES; i++) {
+    const tx = sdDeg * TILT_SPAN_SD * ((2 * i) / (TILT_SAMPLES - 1) - 1);
+    for (let k = 0; k < TILT_SAMPLES; k++) {
+      const ty = sdDeg * TILT_SPAN_SD * ((2 * k) / (TILT_SAMPLES - 1) - 1);
+      let nearest = 0;
+      let best = Infinity;
+      nodes.forEach((n, q) => {
+        const d = (tx - n.tiltXDeg) ** 2 + (ty - n.tiltYDeg) ** 2;
+        if (d < best) [best, nearest] = [d, q];
+      });
+      const n = nodes[nearest];
+      samples[nearest].push({ shift: (fold(tx, ty) - fold(n.tiltXDeg, n.tiltYDeg)) / stepDeg, mass: Math.exp(-(tx * tx + ty * ty) / (2 * sdDeg * sdDeg)) });
+    }
+  }
+  return samples.map((cell) => {
+    const total = cell.reduce((sum, c) => sum + c.mass, 0);
+    const first = Math.floor(Math.min(...cell.map((c) => c.shift)));
+    const weights = new Float64Array(Math.floor(Math.max(...cell.map((c) => c.shift))) - first + 2);
+    for (const { shift, mass } of cell) {
+      const k = Math.floor(shift);
+      const f = shift - k;
+      weights[k - first] += ((1 - f) * mass) / total;
+      weights[k - first + 1] += (f * mass) / total;
+    }
+    return { first, weights };
+  });
+}
+
+/** Adds row convolved with kernel (a shift of first + m bins weighted weights[m]) to out, held at the ends. */
+function addSpread(row: Float64Array, kernel: { first: number; weights: Float64Array }, out: Float64Array): void {
+  const count = out.length;
+  for (let j = 0; j < count; j++) {
+    let sum = 0;
+    for (let m = 0; m < kernel.weights.length; m++) {
+      const w = kernel.weights[m];
+      if (w === 0) continue;
+      sum += w * row[Math.min(count - 1, Math.max(0, j - (kernel.first + m)))];
+    }
+    out[j] += sum;
+  }
+}
+
+/** The local variant of alignedCantingMean (CANTING_SPREAD "local"): each node's share spread over its own cell. */
+export function localCantingMean(
+  shares: readonly Float64Array[],
+  shareOf: readonly number[],
+  nodes: readonly CantingNode[],
+  foldsDeg: readonly number[],
+  sdDeg: number,
+  stepDeg: number,
+  out: Float64Array,
+): boolean {
+  const model = foldOverTilt(nodes, foldsDeg);
+  if (!model) return false;
+  const kernels = localSpreadKernels(model, nodes, sdDeg, stepDeg);
+  out.fill(0);
+  // A share standing for two mirror-image nodes carries both weights and both cells' kernels (equal by the mirror).
+  const done = new Set<number>();
+  nodes.forEach((_, k) => {
+    const s = shareOf[k];
+    if (done.has(s)) return;
+    done.add(s);
+    const mates = nodes.map((_, q) => q).filter((q) => shareOf[q] === s);
+    const total = mates.reduce((sum, q) => sum + nodes[q].weight, 0);
+    for (const q of mates) {
+      const scaled = { first: kernels[q].first, weights: kernels[q].weights.map((w) => (w * nodes[q].weight) / total) };
+      addSpread(shares[s], scaled, out);
+    }
+  });
+  return true;
+}
+
+/**
  * The canting mean of one order's shares (each already weighted by its node's weight), written into out: the shares
  * aligned on the upright node's fold and added, then spread by foldSpreadKernel. nodes and foldsDeg: the five nodes of
  * cantingNodesFive and each one's fold (Θ_R, degrees); shareOf[k]: the index into shares of node k's share (two nodes

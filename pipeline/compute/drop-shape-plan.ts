@@ -72,7 +72,7 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
       ? { fromUm: flattenedRadii[0], toUm: flattenedRadii[flattenedRadii.length - 1], nodes: flattenedRadii.length, axisRatioFrom: ratios[0], axisRatioTo: ratios[1] }
       : null,
     cantingSdDeg: shape.cantingSdDeg,
-    cantingSource: `default ${CANTING_SD_DEG}°: Huang, Bringi & Thurai 2008 measured 7–8°; averaged with a 5-point rule exact to degree 3`,
+    cantingSource: `default ${CANTING_SD_DEG}°: Huang, Bringi & Thurai 2008 measured 7–8°; five tilts traced (a 5-point rule exact to degree 3), their bows spread over the angles the whole Gaussian of tilts sends them to (BENCHMARKS.md, canting-spread)`,
     arcPositionDeg: spec.arcPositionDeg,
     sunElevationDeg: spec.sunElevationDeg,
     quantisation: `kernel rows are keyed on the sun's elevation to ${SUN_ELEVATION_STEP_DEG}° and the arc position to ${ARC_POSITION_STEP_DEG}°`,
