@@ -155,27 +155,31 @@ export class PlaneTracer {
     // The trace of (u, v) is the last one made: read its fields and path before any other trace.
     const rec = this.trace.orders;
     const base = p * ORDER_STRIDE;
-    const dOut: Vec3 = [rec[base + AT.dir], rec[base + AT.dir + 1], rec[base + AT.dir + 2]];
     const nrm = this.normal;
-    const parOut: Vec3 = [
-      nrm[1] * dOut[2] - nrm[2] * dOut[1],
-      nrm[2] * dOut[0] - nrm[0] * dOut[2],
-      nrm[0] * dOut[1] - nrm[1] * dOut[0],
-    ];
-    const dot = (offset: number, basis: Vec3) =>
-      rec[base + offset] * basis[0] + rec[base + offset + 1] * basis[1] + rec[base + offset + 2] * basis[2];
+    const dx = rec[base + AT.dir];
+    const dy = rec[base + AT.dir + 1];
+    const dz = rec[base + AT.dir + 2];
+    // Outgoing ∥ basis N × d_out.
+    const qx = nrm[1] * dz - nrm[2] * dy;
+    const qy = nrm[2] * dx - nrm[0] * dz;
+    const qz = nrm[0] * dy - nrm[1] * dx;
+    const onN = (offset: number) => rec[base + offset] * nrm[0] + rec[base + offset + 1] * nrm[1] + rec[base + offset + 2] * nrm[2];
+    const onPar = (offset: number) => rec[base + offset] * qx + rec[base + offset + 1] * qy + rec[base + offset + 2] * qz;
     // Amplitude matrix: incident ⟂ (e1 = N) and ∥ (e2) into outgoing ⟂ (N) and ∥ (N × d_out), complex.
-    const pp = [dot(AT.e1Re, nrm), dot(AT.e1Im, nrm)];
-    const parFromPerp = [dot(AT.e1Re, parOut), dot(AT.e1Im, parOut)];
-    const perpFromPar = [dot(AT.e2Re, nrm), dot(AT.e2Im, nrm)];
-    const qq = [dot(AT.e2Re, parOut), dot(AT.e2Im, parOut)];
+    const ppRe = onN(AT.e1Re);
+    const ppIm = onN(AT.e1Im);
+    const parFromPerpRe = onPar(AT.e1Re);
+    const parFromPerpIm = onPar(AT.e1Im);
+    const perpFromParRe = onN(AT.e2Re);
+    const perpFromParIm = onN(AT.e2Im);
+    const qqRe = onPar(AT.e2Re);
+    const qqIm = onPar(AT.e2Im);
     // For unpolarised light each outgoing component's power sums both incident ones; the sign of the main
     // (diagonal) term is kept for the interference of the two rays of a bow.
-    const perpPower = pp[0] ** 2 + pp[1] ** 2 + perpFromPar[0] ** 2 + perpFromPar[1] ** 2;
-    const parPower = qq[0] ** 2 + qq[1] ** 2 + parFromPerp[0] ** 2 + parFromPerp[1] ** 2;
-    const exit: Vec3 = [rec[base + AT.point], rec[base + AT.point + 1], rec[base + AT.point + 2]];
+    const perpPower = ppRe ** 2 + ppIm ** 2 + perpFromParRe ** 2 + perpFromParIm ** 2;
+    const parPower = qqRe ** 2 + qqIm ** 2 + parFromPerpRe ** 2 + parFromPerpIm ** 2;
     const path = rec[base + AT.path];
-    const offset = exit[0] * parOut[0] + exit[1] * parOut[1] + exit[2] * parOut[2];
+    const offset = rec[base + AT.point] * qx + rec[base + AT.point + 1] * qy + rec[base + AT.point + 2] * qz;
     if (Number.isNaN(yv) || (withDet && Number.isNaN(thetaV))) {
       if (!this.traceAt(u, v + PUPIL_STEP, p)) return null;
       this.exitAngles(p);
@@ -196,8 +200,8 @@ export class PlaneTracer {
       thetaSigned: theta,
       yv,
       det,
-      ampPerp: Math.sign(pp[0] || 1) * Math.sqrt(perpPower),
-      ampPar: Math.sign(qq[0] || 1) * Math.sqrt(parPower),
+      ampPerp: Math.sign(ppRe || 1) * Math.sqrt(perpPower),
+      ampPar: Math.sign(qqRe || 1) * Math.sqrt(parPower),
       path,
       offset,
     };

@@ -47,14 +47,20 @@ export function allocateTrace(maxOrder: number): TraceOutput {
 const grad = new Float64Array(3);
 function surface(setup: DropTraceSetup, x: number, y: number, z: number): number {
   const len = Math.sqrt(x * x + y * y + z * z);
-  const [ax, ay, az] = setup.axis;
+  const axis = setup.axis;
+  const ax = axis[0];
+  const ay = axis[1];
+  const az = axis[2];
   const mu = -(x * ax + y * ay + z * az) / len;
   return len - setup.outline.radius(mu);
 }
 /** ∇F at p, unnormalised, into grad. */
 function rawGradient(setup: DropTraceSetup, x: number, y: number, z: number): void {
   const len = Math.sqrt(x * x + y * y + z * z);
-  const [ax, ay, az] = setup.axis;
+  const axis = setup.axis;
+  const ax = axis[0];
+  const ay = axis[1];
+  const az = axis[2];
   const px = x / len;
   const py = y / len;
   const pz = z / len;
@@ -87,7 +93,10 @@ function sphereGuess(setup: DropTraceSetup, o: Float64Array, d: Float64Array, tB
   const x = o[0] + tBound * d[0];
   const y = o[1] + tBound * d[1];
   const z = o[2] + tBound * d[2];
-  const [ax, ay, az] = setup.axis;
+  const axis = setup.axis;
+  const ax = axis[0];
+  const ay = axis[1];
+  const az = axis[2];
   const mu = -(x * ax + y * ay + z * az) / Math.sqrt(x * x + y * y + z * z);
   return boundingExit(o[0], o[1], o[2], d[0], d[1], d[2], setup.outline.radius(mu), entry);
 }
