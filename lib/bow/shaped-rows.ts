@@ -93,7 +93,9 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (7: coarse
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (8: ∂Y/∂v from each
+ * trace's ray differential instead of a forward difference, and no ray at grazing entry, rows move by ≤ 4.6e-5 of the
+ * peak of |S1|² or |S2|² on bench/plane-trace.ts's planes, nearer a sweep 8× denser; 7: coarse
  * sweeps, every 8th pupil sample traced and the rest filled by cubics where trusted, rows move by ≤ 2.7e-4 of the
  * peak; 6: the in-plane search by chord and secant steps, which finds a ray more at some runs' ends; 5: traced at
  * INDEX_NODES indices over the water's own span, indexSpan; 4: every plane interpolated from planes traced at 7 fixed
@@ -102,7 +104,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 7;
+export const SHAPED_ENGINE_VERSION = 8;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {

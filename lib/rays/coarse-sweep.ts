@@ -55,9 +55,8 @@ export function sweepPlaneCoarse(
   const S = halfSegments;
   const sweep = emptySweep(p, new Float64Array(2 * S + 1));
   const wanted = new Uint8Array(S + 1);
-  // Per side: which samples were traced (the nodes of the cubics) and their ∂Y/∂v (a search's first chord).
+  // Per side: which samples were traced (the nodes of the cubics).
   const traced = new Uint8Array(S + 1);
-  const slopes = new Float64Array(S + 1);
   const fields = FIELDS.map((f) => sweep[f]);
   // Scratch of fill and stencil: the cubic's nodes, the fifth nodes, the nearest traced samples each side of a cell.
   const nodes = new Float64Array(4);
@@ -84,10 +83,9 @@ export function sweepPlaneCoarse(
     const trace = (s: number, guess: number, predictor: RayPredictor): void => {
       count.traced++;
       traced[s] = 1;
-      const ray = tracer.planeRay(sweep.u[at(s)], predictor.guess(s, guess), p, false, predictor.slope);
+      const ray = tracer.planeRay(sweep.u[at(s)], predictor.guess(s, guess), p);
       if (ray === null) return;
-      predictor.add(s, ray.v, ray.yv);
-      slopes[s] = ray.yv;
+      predictor.add(s, ray.v);
       storeRay(sweep, at(s), ray);
     };
     /** A search's start at s from the traced samples before it (towards the run's start), c0 the nearest. */
@@ -95,7 +93,7 @@ export function sweepPlaneCoarse(
       const predictor = new RayPredictor(Infinity);
       const before: number[] = [];
       for (let j = c0; j >= lo && before.length < 3; j--) if (traced[j] && sweep.ok[at(j)]) before.unshift(j);
-      for (const j of before) predictor.add(j, sweep.v[at(j)], slopes[j]);
+      for (const j of before) predictor.add(j, sweep.v[at(j)]);
       return predictor;
     };
 
@@ -107,7 +105,7 @@ export function sweepPlaneCoarse(
       // Where the search starts: v = 0 at the side's first sample (as sweepPlane), else the window's guess after a gap.
       const startGuess = a === first ? 0 : window!.guess(sweep.u[at(a)]);
       const coarse = new RayPredictor(2 * step);
-      if (lo === 0 && sign === -1 && sweep.ok[S]) coarse.add(0, sweep.v[S], slopes[0]);
+      if (lo === 0 && sign === -1 && sweep.ok[S]) coarse.add(0, sweep.v[S]);
       const cells: [number, number][] = [];
       let previous = -1;
       for (let s = lo; s <= b; s++) {
