@@ -243,9 +243,9 @@ const dir = new Float64Array(3);
 const point = new Float64Array(3);
 const normal = new Float64Array(3);
 
-// A ray differential (Igehy 1999, "Tracing ray differentials", SIGGRAPH '99, §3–4): the derivatives of the ray's point
-// and direction with respect to a parameter v of the incident ray, carried through each transfer, reflection and
-// refraction, so that an order's d(dir)/dv comes with one trace instead of a second, offset one.
+// A ray differential (Igehy 1999, "Tracing ray differentials", SIGGRAPH '99, 179–186, §3, from memory): the
+// derivatives of the ray's point and direction with respect to a parameter v of the incident ray, carried through each
+// transfer, reflection and refraction, so that an order's d(dir)/dv comes with one trace instead of a second, offset one.
 const pointV = new Float64Array(3);
 const dirV = new Float64Array(3);
 const normalV = new Float64Array(3);
@@ -259,7 +259,8 @@ const ahead = new Float64Array(3);
 const NORMAL_STEP = 6e-6;
 
 /**
- * Transfer of the differential to the wall point reached at t along dir from the previous point (Igehy 1999 Eq. 11–12):
+ * Transfer of the differential to the wall point reached at t along dir from the previous point (Igehy 1999 Eq. 10 and
+ * 12; his addendum at graphics.stanford.edu/papers/trd proves Eq. 12 for any surface):
  * dt/dv = −ν·(P_v + t·D_v)/(ν·D), P′_v = P_v + t·D_v + (dt/dv)·D, with ν ∝ grad (any sign or length).
  */
 function transferDifferential(t: number): void {
@@ -286,9 +287,10 @@ function normalDifferential(setup: DropTraceSetup, sign: number): void {
 }
 
 /**
- * d/dv of the reflected and refracted directions of split(k, ν, n1, n2) (Igehy 1999 Eq. 14–17 for the law of
- * reflection, kRef = k + 2 cos i·ν, and Snell's law in vector form, kTr = (n1/n2)·k + ((n1/n2)·cos i − cos t)·ν, with
- * cos i = −k·ν and cos t = √(1 − (n1/n2)²(1 − cos²i))), from k_v (kV) and ν_v (normalV), into kRefV and kTrV.
+ * d/dv of the reflected and refracted directions of split(k, ν, n1, n2), the derivatives (as Igehy 1999 §3 takes them,
+ * from memory) of the law of reflection kRef = k + 2 cos i·ν and of Snell's law in vector form
+ * kTr = (n1/n2)·k + ((n1/n2)·cos i − cos t)·ν, cos i = −k·ν, cos t = √(1 − (n1/n2)²(1 − cos²i)), from k_v (kV) and
+ * ν_v (normalV), into kRefV and kTrV.
  */
 function splitDifferential(k: Float64Array, kV: Float64Array, nu: Float64Array, n1: number, n2: number, transmits: boolean): void {
   const cosI = -(k[0] * nu[0] + k[1] * nu[1] + k[2] * nu[2]);
