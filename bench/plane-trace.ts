@@ -159,8 +159,9 @@ for (const w of workloads) {
     const traces = countTraces(b, () => (rows = w.run(b)));
     return { traces, rows };
   });
-  // One plain run each after the counting pass (its wrapper costs the compiled code a round of re-optimisation).
-  for (const b of builds) w.run(b);
+  // Plain runs after the counting pass (its wrapper costs the compiled code a round of re-optimisation): measured, the
+  // first three rounds after a single one took 3–10× the rest on the first workload.
+  for (let k = 0; k < 3; k++) for (const b of builds) w.run(b);
   const times: number[][] = builds.map(() => []);
   for (let r = 0; r < rounds; r++) {
     // Alternating order each round, so that neither build always runs after the other.

@@ -88,12 +88,21 @@ export function sweepPlaneCoarse(
       predictor.add(s, ray.v);
       storeRay(sweep, at(s), ray);
     };
-    /** A search's start at s from the traced samples before it (towards the run's start), c0 the nearest. */
-    const predictorFrom = (c0: number, lo: number): RayPredictor => {
-      const predictor = new RayPredictor(Infinity);
+    /**
+     * A search's start inside the cell (c0, c1) of the run lo … hi: the cubic through the two traced rays nearest each
+     * side where the cell's far end has one (interpolation, Press et al. 2007 §3.2: an error ~ step⁴ instead of the
+     * extrapolation's ~ step³), else extrapolated from the three traced rays nearest before it, c0 the nearest.
+     */
+    const predictorFrom = (c0: number, c1: number, lo: number, hi: number): RayPredictor => {
+      const traces = (j: number) => traced[j] === 1 && sweep.ok[at(j)] === 1;
+      const after: number[] = [];
+      for (let j = c1; j <= hi && after.length < 2; j++) if (traces(j)) after.push(j);
+      const both = after.length > 0 && after[0] === c1;
       const before: number[] = [];
-      for (let j = c0; j >= lo && before.length < 3; j--) if (traced[j] && sweep.ok[at(j)]) before.unshift(j);
-      for (const j of before) predictor.add(j, sweep.v[at(j)]);
+      for (let j = c0; j >= lo && before.length < (both ? 2 : 3); j--) if (traces(j)) before.unshift(j);
+      const rays = both ? [...before, ...after] : before;
+      const predictor = new RayPredictor(Infinity, both ? rays.length : undefined);
+      for (const j of rays) predictor.add(j, sweep.v[at(j)]);
       return predictor;
     };
 
@@ -123,11 +132,11 @@ export function sweepPlaneCoarse(
         const fallback = sweep.ok[at(c0)] ? sweep.v[at(c0)] : startGuess;
         if (c1 - c0 >= MIN_SPLIT) {
           const mid = (c0 + c1) >> 1;
-          trace(mid, fallback, predictorFrom(c0, lo));
+          trace(mid, fallback, predictorFrom(c0, c1, lo, b));
           cells.push([mid, c1], [c0, mid]);
           continue;
         }
-        const predictor = predictorFrom(c0, lo);
+        const predictor = predictorFrom(c0, c1, lo, b);
         for (let s = c0 + 1; s < c1; s++) trace(s, fallback, predictor);
       }
       a = b;

@@ -20,9 +20,9 @@ export interface DropTraceSetup {
 }
 
 /** Numbers stored per order in a trace's output. */
-export const ORDER_STRIDE = 23;
-/** Offsets within one order's record; dirV: d(dir)/dv when the trace carries a ray differential (traceDrop's originV). */
-export const AT = { valid: 0, dir: 1, point: 4, path: 7, e1Re: 8, e1Im: 11, e2Re: 14, e2Im: 17, dirV: 20 } as const;
+export const ORDER_STRIDE = 26;
+/** Offsets within one order's record; dirV, pointV: d(dir)/dv and d(point)/dv when the trace carries a ray differential (traceDrop's originV). */
+export const AT = { valid: 0, dir: 1, point: 4, path: 7, e1Re: 8, e1Im: 11, e2Re: 14, e2Im: 17, dirV: 20, pointV: 23 } as const;
 
 export interface TraceOutput {
   /** ORDER_STRIDE numbers per order 0 … maxOrder (see AT); valid = 0 where the order did not leave the drop. */
@@ -311,6 +311,7 @@ function storeOrder(out: TraceOutput, p: number, k: Float64Array, at: Float64Arr
   rec[o + AT.valid] = 1;
   for (let c = 0; c < 3; c++) {
     rec[o + AT.dirV + c] = kV === null ? 0 : kV[c];
+    rec[o + AT.pointV + c] = kV === null ? 0 : pointV[c];
     rec[o + AT.dir + c] = k[c];
     rec[o + AT.point + c] = at[c];
     rec[o + AT.e1Re + c] = f[c];
@@ -326,7 +327,7 @@ function storeOrder(out: TraceOutput, p: number, k: Float64Array, at: Float64Arr
 /**
  * Traces the ray o + t·d (|d| = 1, o outside the drop) with unit incident fields e1, e2 (real, ⟂ d) through the
  * drop, filling `out` with every order up to setup.maxOrder. With originV (do/dv of a family of parallel rays o(v) + t·d)
- * each order's d(dir)/dv is stored too (AT.dirV; 0 without it).
+ * each order's d(dir)/dv and d(point)/dv are stored too (AT.dirV, AT.pointV; 0 without it).
  */
 export function traceDrop(
   setup: DropTraceSetup,
