@@ -66,7 +66,12 @@ export function sweepPlaneCoarse(
   const x5 = new Float64Array(5);
   const scratch = new Float64Array(5);
   const weights = new Float64Array(4);
-  const nodeValues = new Float64Array(4 * FIELDS.length);
+  const nodeValues = new Float64Array(6 * FIELDS.length);
+  // The starts of searches inside a cell (predictorFrom): from rays on both sides, or before it only.
+  const interpolating = new RayPredictor(Infinity, 4);
+  const extrapolating = new RayPredictor(Infinity);
+  const before = new Float64Array(3);
+  const after = new Float64Array(2);
   for (const sign of [1, -1] as const) {
     const half = tracer.pupilHalfWidth(sign);
     const at = (s: number) => S + sign * s;
@@ -95,14 +100,15 @@ export function sweepPlaneCoarse(
      */
     const predictorFrom = (c0: number, c1: number, lo: number, hi: number): RayPredictor => {
       const traces = (j: number) => traced[j] === 1 && sweep.ok[at(j)] === 1;
-      const after: number[] = [];
-      for (let j = c1; j <= hi && after.length < 2; j++) if (traces(j)) after.push(j);
-      const both = after.length > 0 && after[0] === c1;
-      const before: number[] = [];
-      for (let j = c0; j >= lo && before.length < (both ? 2 : 3); j--) if (traces(j)) before.unshift(j);
-      const rays = both ? [...before, ...after] : before;
-      const predictor = new RayPredictor(Infinity, both ? rays.length : undefined);
-      for (const j of rays) predictor.add(j, sweep.v[at(j)]);
+      let afterCount = 0;
+      for (let j = c1; j <= hi && afterCount < 2; j++) if (traces(j)) after[afterCount++] = j;
+      const both = afterCount > 0 && after[0] === c1;
+      const predictor = both ? interpolating : extrapolating;
+      predictor.reset();
+      let beforeCount = 0;
+      for (let j = c0; j >= lo && beforeCount < (both ? 2 : 3); j--) if (traces(j)) before[beforeCount++] = j;
+      for (let k = beforeCount - 1; k >= 0; k--) predictor.add(before[k], sweep.v[at(before[k])]);
+      if (both) for (let k = 0; k < afterCount; k++) predictor.add(after[k], sweep.v[at(after[k])]);
       return predictor;
     };
 
@@ -188,12 +194,16 @@ export function sweepPlaneCoarse(
         if (!sweep.ok[i]) return false;
         amplitude = Math.max(amplitude, Math.abs(sweep.perpAmp[i]), Math.abs(sweep.parAmp[i]));
       }
+      // Each field at the nodes then the fifth nodes (nodeValues[6f + m]), Θ unwrapped about the cell's first end so
+      // that a cubic never spans the jump at ±π.
       const theta0 = sweep.thetaSigned[at(c0)];
-      // Θ is read unwrapped about the cell's first end, so that a cubic never spans the jump at ±π.
-      const value = (f: number, j: number): number => {
-        const x = fields[f][at(j)];
-        return f === THETA ? theta0 + unwrap(x - theta0) : x;
-      };
+      for (let m = 0; m < 4 + fifthCount; m++) {
+        const i = at(m < 4 ? nodes[m] : fifth[m - 4]);
+        for (let f = 0; f < FIELDS.length; f++) {
+          const x = fields[f][i];
+          nodeValues[6 * f + m] = f === THETA ? theta0 + unwrap(x - theta0) : x;
+        }
+      }
       // The error bound's largest Π|s − s_k| over the cell's samples (a check that fails at one sample fails at this one).
       let omega = 0;
       for (let s = c0 + 1; s < c1; s++) omega = Math.max(omega, Math.abs((s - nodes[0]) * (s - nodes[1]) * (s - nodes[2]) * (s - nodes[3])));
@@ -202,16 +212,15 @@ export function sweepPlaneCoarse(
         for (let e = 0; e < fifthCount; e++) {
           for (let m = 0; m < 4; m++) {
             x5[m] = nodes[m];
-            scratch[m] = value(f, nodes[m]);
+            scratch[m] = nodeValues[6 * f + m];
           }
           x5[4] = fifth[e];
-          scratch[4] = value(f, fifth[e]);
+          scratch[4] = nodeValues[6 * f + 4 + e];
           top = Math.max(top, Math.abs(dividedDifference(x5, scratch)));
         }
         const tolerance = f === THETA ? THETA_TOLERANCE_RAD : f === PATH || f === OFFSET ? PATH_TOLERANCE : AMPLITUDE_TOLERANCE * amplitude;
         if (top * omega > tolerance) return false;
       }
-      for (let m = 0; m < 4; m++) for (let f = 0; f < FIELDS.length; f++) nodeValues[4 * f + m] = value(f, nodes[m]);
       for (let s = c0 + 1; s < c1; s++) {
         for (let m = 0; m < 4; m++) {
           let w = 1;
@@ -222,7 +231,7 @@ export function sweepPlaneCoarse(
         sweep.ok[i] = 1;
         for (let f = 0; f < FIELDS.length; f++) {
           let sum = 0;
-          for (let m = 0; m < 4; m++) sum += weights[m] * nodeValues[4 * f + m];
+          for (let m = 0; m < 4; m++) sum += weights[m] * nodeValues[6 * f + m];
           fields[f][i] = f === THETA ? unwrap(sum) : sum;
         }
         sweep.perpPerU[i] = sweep.perpAmp[i] ** 2;
