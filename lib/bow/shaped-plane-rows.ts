@@ -9,6 +9,8 @@ import { addUniformBowBins, type UniformBowTable } from "./airy-bins.js";
 import { planeBowTable, type PlaneFold } from "./plane-bow-table.js";
 import { planeRayBins } from "./plane-ray-bins.js";
 import type { RayBins } from "./ray-bins.js";
+// The cell [u[s], u[s + 1]] of ascending pupil samples that holds u.
+import { bracket } from "../spectra/spectrum.js";
 
 /** Orders carried: reflection and transmission as ray optics, the primary and secondary bows in uniform form. */
 export const SHAPED_RAY_ORDERS = [0, 1] as const;
@@ -37,7 +39,7 @@ const LOOK_MARGIN_DEG = 10;
  * span the grid, or where the order starts or stops leaving the drop (rim, total reflection), and so are its
  * neighbours; the rest of the pupil sends its light of this order ≥ LOOK_MARGIN_DEG away from the grid.
  */
-function lookWindow(tracer: PlaneTracer, p: number, side: 1 | -1, thetaDeg: Float64Array, stepDeg: number): SweepWindow | null {
+function lookWindow(tracer: PlaneTracer, p: number, side: 1 | -1, thetaDeg: Float64Array, stepDeg: number): LookCells | null {
   const look = sweepPlane(tracer, p, LOOK_HALF_SEGMENTS);
   const lo = (thetaDeg[0] - stepDeg / 2 - LOOK_MARGIN_DEG) * DEG;
   const hi = (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + LOOK_MARGIN_DEG) * DEG;
@@ -58,27 +60,37 @@ function lookWindow(tracer: PlaneTracer, p: number, side: 1 | -1, thetaDeg: Floa
   }
   if (!any) return null;
   const wanted = Uint8Array.from(mark, (m, s) => (m || mark[s - 1] || mark[s + 1] ? 1 : 0));
-  const cellOf = (u: number) => {
-    let a = 0;
-    let b = count - 1;
-    while (b - a > 1) {
-      const m = (a + b) >> 1;
-      if (look.u[m] <= u) a = m;
-      else b = m;
-    }
-    return a;
+  const guess = (u: number): number => {
+    const s = bracket(look.u, u);
+    const near = Math.abs(look.u[s + 1] - u) < Math.abs(u - look.u[s]) ? s + 1 : s;
+    return look.ok[near] ? look.v[near] : look.ok[s] ? look.v[s] : look.v[s + 1];
   };
-  return {
-    wants: (u) => {
-      const s = cellOf(u);
-      return wanted[s] === 1 || wanted[s + 1] === 1;
-    },
-    guess: (u) => {
-      const s = cellOf(u);
-      const near = Math.abs(look.u[s + 1] - u) < Math.abs(u - look.u[s]) ? s + 1 : s;
-      return look.ok[near] ? look.v[near] : look.ok[s] ? look.v[s] : look.v[s + 1];
-    },
+  return { u: look.u, wanted, guess };
+}
+
+/** The look's samples, the cells between them the full sweep traces (wanted[s] or wanted[s + 1]), and the window's guess. */
+interface LookCells {
+  u: Float64Array;
+  wanted: Uint8Array;
+  guess: (u: number) => number;
+}
+
+/**
+ * The window of the looks' union (a sample any look wants), with own's guess. Every tracer of a plane looks at the same
+ * samples (the pupil's half-width does not depend on n), so the union is one array of marks; looks at other samples
+ * (not made by shapedPlaneSweeps) are asked one by one.
+ */
+function unionWindow(looks: LookCells[], own: LookCells): SweepWindow {
+  const first = looks[0];
+  const shared = looks.every((l) => l.u.length === first.u.length && l.u.every((u, s) => u === first.u[s]));
+  const wantedAt = (l: LookCells, u: number) => {
+    const s = bracket(l.u, u);
+    return l.wanted[s] === 1 || l.wanted[s + 1] === 1;
   };
+  if (!shared) return { wants: (u) => looks.some((l) => wantedAt(l, u)), guess: own.guess };
+  const wanted = first.wanted.map((_, s) => (looks.some((l) => l.wanted[s] === 1) ? 1 : 0));
+  const union = { u: first.u, wanted, guess: own.guess };
+  return { wants: (u) => wantedAt(union, u), guess: own.guess };
 }
 
 const DEG = Math.PI / 180;
@@ -143,24 +155,13 @@ export function shapedPlaneSweeps(
   for (let p = 0; p <= maxOrder; p++) {
     if (!rayOrders.includes(p) && !bowOrders.includes(p)) continue;
     const windows = tracers.map((tracer) => lookWindow(tracer, p, side, thetaDeg, stepDeg));
-    const any = windows.filter((w): w is SweepWindow => w !== null);
-    // Every tracer sweeps the same pupil samples (its half-width does not depend on n): the union is looked up once a sample.
-    const wantedAt = new Map<number, boolean>();
-    const wants = (u: number): boolean => {
-      let wanted = wantedAt.get(u);
-      if (wanted === undefined) {
-        wanted = any.some((w) => w.wants(u));
-        wantedAt.set(u, wanted);
-      }
-      return wanted;
-    };
+    const any = windows.filter((w): w is LookCells => w !== null);
     tracers.forEach((tracer, k) => {
       if (any.length === 0) {
         sweeps[k][p] = null;
         return;
       }
-      const own = windows[k];
-      const union: SweepWindow = { wants, guess: (u) => (own ?? any[0]).guess(u) };
+      const union = unionWindow(any, windows[k] ?? any[0]);
       const window = windowed ? union : undefined;
       sweeps[k][p] = coarseStep > 1 ? sweepPlaneCoarse(tracer, p, halfSegments, coarseStep, window) : sweepPlane(tracer, p, halfSegments, window);
     });

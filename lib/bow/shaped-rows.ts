@@ -95,8 +95,10 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (8: the canting
- * mean aligns the nodes' bows and spreads them over the tilts, lib/bow/canting-spread.ts; 7: coarse
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (9: ∂Y/∂v from each
+ * trace's ray differential instead of a forward difference, and no ray at grazing entry, rows move by ≤ 4.6e-5 of the
+ * peak of |S1|² or |S2|² on bench/plane-trace.ts's planes, nearer a sweep 8× denser; 8: the canting mean spreads the
+ * nodes' bows over the tilts, lib/bow/canting-spread.ts; 7: coarse
  * sweeps, every 8th pupil sample traced and the rest filled by cubics where trusted, rows move by ≤ 2.7e-4 of the
  * peak; 6: the in-plane search by chord and secant steps, which finds a ray more at some runs' ends; 5: traced at
  * INDEX_NODES indices over the water's own span, indexSpan; 4: every plane interpolated from planes traced at 7 fixed
@@ -105,7 +107,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 8;
+export const SHAPED_ENGINE_VERSION = 9;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {

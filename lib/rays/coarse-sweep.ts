@@ -23,14 +23,17 @@ export interface CoarseSweepCount {
 
 /** Quantities a sample carries that are filled; each is checked against its tolerance except v (a starting guess). */
 const FIELDS = ["thetaSigned", "path", "offset", "perpAmp", "parAmp", "v"] as const;
-type Field = (typeof FIELDS)[number];
-const CHECKED: readonly Field[] = ["thetaSigned", "path", "offset", "perpAmp", "parAmp"];
+/** FIELDS before CHECKED_COUNT are checked; their indices in FIELDS: */
+const CHECKED_COUNT = 5;
+const THETA = FIELDS.indexOf("thetaSigned");
+const PATH = FIELDS.indexOf("path");
+const OFFSET = FIELDS.indexOf("offset");
 
 /** A failing cell narrower than this is traced in full rather than halved again. */
 const MIN_SPLIT = 4;
 
 /** Newton's divided difference f[x₀…x_{m−1}] (Press et al. 2007 §3.2), overwriting f. */
-function dividedDifference(x: readonly number[], f: number[]): number {
+function dividedDifference(x: Float64Array, f: Float64Array): number {
   for (let level = 1; level < x.length; level++) {
     for (let k = x.length - 1; k >= level; k--) f[k] = (f[k] - f[k - 1]) / (x[k] - x[k - level]);
   }
@@ -52,11 +55,23 @@ export function sweepPlaneCoarse(
   const S = halfSegments;
   const sweep = emptySweep(p, new Float64Array(2 * S + 1));
   const wanted = new Uint8Array(S + 1);
-  // Per side: which samples were traced (the nodes of the cubics) and their ∂Y/∂v (a search's first chord).
+  // Per side: which samples were traced (the nodes of the cubics).
   const traced = new Uint8Array(S + 1);
-  const slopes = new Float64Array(S + 1);
-  const scratch = [0, 0, 0, 0, 0];
-  const weights = [0, 0, 0, 0];
+  const fields = FIELDS.map((f) => sweep[f]);
+  // Scratch of fill and stencil: the cubic's nodes, the fifth nodes, the nearest traced samples each side of a cell.
+  const nodes = new Float64Array(4);
+  const fifth = new Float64Array(2);
+  const left = new Float64Array(3);
+  const right = new Float64Array(3);
+  const x5 = new Float64Array(5);
+  const scratch = new Float64Array(5);
+  const weights = new Float64Array(4);
+  const nodeValues = new Float64Array(6 * FIELDS.length);
+  // The starts of searches inside a cell (predictorFrom): from rays on both sides, or before it only.
+  const interpolating = new RayPredictor(Infinity, 4);
+  const extrapolating = new RayPredictor(Infinity);
+  const before = new Float64Array(3);
+  const after = new Float64Array(2);
   for (const sign of [1, -1] as const) {
     const half = tracer.pupilHalfWidth(sign);
     const at = (s: number) => S + sign * s;
@@ -73,18 +88,27 @@ export function sweepPlaneCoarse(
     const trace = (s: number, guess: number, predictor: RayPredictor): void => {
       count.traced++;
       traced[s] = 1;
-      const ray = tracer.planeRay(sweep.u[at(s)], predictor.guess(s, guess), p, false, predictor.slope);
+      const ray = tracer.planeRay(sweep.u[at(s)], predictor.guess(s, guess), p);
       if (ray === null) return;
-      predictor.add(s, ray.v, ray.yv);
-      slopes[s] = ray.yv;
+      predictor.add(s, ray.v);
       storeRay(sweep, at(s), ray);
     };
-    /** A search's start at s from the traced samples before it (towards the run's start), c0 the nearest. */
-    const predictorFrom = (c0: number, lo: number): RayPredictor => {
-      const predictor = new RayPredictor(Infinity);
-      const before: number[] = [];
-      for (let j = c0; j >= lo && before.length < 3; j--) if (traced[j] && sweep.ok[at(j)]) before.unshift(j);
-      for (const j of before) predictor.add(j, sweep.v[at(j)], slopes[j]);
+    /**
+     * A search's start inside the cell (c0, c1) of the run lo … hi: the cubic through the two traced rays nearest each
+     * side where the cell's far end has one (interpolation, Press et al. 2007 §3.2: an error ~ step⁴ instead of the
+     * extrapolation's ~ step³), else extrapolated from the three traced rays nearest before it, c0 the nearest.
+     */
+    const predictorFrom = (c0: number, c1: number, lo: number, hi: number): RayPredictor => {
+      const traces = (j: number) => traced[j] === 1 && sweep.ok[at(j)] === 1;
+      let afterCount = 0;
+      for (let j = c1; j <= hi && afterCount < 2; j++) if (traces(j)) after[afterCount++] = j;
+      const both = afterCount > 0 && after[0] === c1;
+      const predictor = both ? interpolating : extrapolating;
+      predictor.reset();
+      let beforeCount = 0;
+      for (let j = c0; j >= lo && beforeCount < (both ? 2 : 3); j--) if (traces(j)) before[beforeCount++] = j;
+      for (let k = beforeCount - 1; k >= 0; k--) predictor.add(before[k], sweep.v[at(before[k])]);
+      if (both) for (let k = 0; k < afterCount; k++) predictor.add(after[k], sweep.v[at(after[k])]);
       return predictor;
     };
 
@@ -96,7 +120,7 @@ export function sweepPlaneCoarse(
       // Where the search starts: v = 0 at the side's first sample (as sweepPlane), else the window's guess after a gap.
       const startGuess = a === first ? 0 : window!.guess(sweep.u[at(a)]);
       const coarse = new RayPredictor(2 * step);
-      if (lo === 0 && sign === -1 && sweep.ok[S]) coarse.add(0, sweep.v[S], slopes[0]);
+      if (lo === 0 && sign === -1 && sweep.ok[S]) coarse.add(0, sweep.v[S]);
       const cells: [number, number][] = [];
       let previous = -1;
       for (let s = lo; s <= b; s++) {
@@ -114,64 +138,88 @@ export function sweepPlaneCoarse(
         const fallback = sweep.ok[at(c0)] ? sweep.v[at(c0)] : startGuess;
         if (c1 - c0 >= MIN_SPLIT) {
           const mid = (c0 + c1) >> 1;
-          trace(mid, fallback, predictorFrom(c0, lo));
+          trace(mid, fallback, predictorFrom(c0, c1, lo, b));
           cells.push([mid, c1], [c0, mid]);
           continue;
         }
-        const predictor = predictorFrom(c0, lo);
+        const predictor = predictorFrom(c0, c1, lo, b);
         for (let s = c0 + 1; s < c1; s++) trace(s, fallback, predictor);
       }
       a = b;
     }
 
     /**
-     * The cubic's nodes for the cell (c0, c1) among the traced samples of the run lo … hi: the cell's ends and the
-     * nearest traced sample on each side where there is one (else two on the other side), then the fifth nodes.
+     * The cubic's nodes for the cell (c0, c1) among the traced samples of the run lo … hi, into nodes[0…3]: the cell's
+     * ends and the nearest traced sample on each side where there is one (else two on the other side); then the fifth
+     * nodes, the nearest traced sample beyond the cubic's on each side where there is one, into fifth (their count
+     * returned; 0: no stencil).
      */
-    function stencil(c0: number, c1: number, lo: number, hi: number): { nodes: number[]; fifth: number[] } | null {
-      const left: number[] = [];
-      for (let j = c0 - 1; j >= lo && left.length < 3; j--) if (traced[j]) left.push(j);
-      const right: number[] = [];
-      for (let j = c1 + 1; j <= hi && right.length < 3; j++) if (traced[j]) right.push(j);
-      if (left.length + right.length < 3) return null;
-      let nodes: number[];
-      if (left.length >= 1 && right.length >= 1) nodes = [left[0], c0, c1, right[0]];
-      else if (left.length === 0) nodes = [c0, c1, right[0], right[1]];
-      else nodes = [left[1], left[0], c0, c1];
-      const fifth = [...left, ...right].filter((j) => !nodes.includes(j)).sort((x, y) => Math.abs(x - c0) - Math.abs(y - c0));
-      // The nearest beyond the cubic's nodes on each side.
-      const beyondLeft = fifth.find((j) => j < nodes[0]);
-      const beyondRight = fifth.find((j) => j > nodes[3]);
-      const extra = [beyondLeft, beyondRight].filter((j): j is number => j !== undefined);
-      return extra.length > 0 ? { nodes, fifth: extra } : null;
+    function stencil(c0: number, c1: number, lo: number, hi: number): number {
+      let leftCount = 0;
+      for (let j = c0 - 1; j >= lo && leftCount < 3; j--) if (traced[j]) left[leftCount++] = j;
+      let rightCount = 0;
+      for (let j = c1 + 1; j <= hi && rightCount < 3; j++) if (traced[j]) right[rightCount++] = j;
+      if (leftCount + rightCount < 3) return 0;
+      let fifthCount = 0;
+      if (leftCount >= 1 && rightCount >= 1) {
+        nodes[0] = left[0];
+        nodes[1] = c0;
+        nodes[2] = c1;
+        nodes[3] = right[0];
+        if (leftCount >= 2) fifth[fifthCount++] = left[1];
+        if (rightCount >= 2) fifth[fifthCount++] = right[1];
+      } else if (leftCount === 0) {
+        nodes[0] = c0;
+        nodes[1] = c1;
+        nodes[2] = right[0];
+        nodes[3] = right[1];
+        fifth[fifthCount++] = right[2];
+      } else {
+        nodes[0] = left[1];
+        nodes[1] = left[0];
+        nodes[2] = c0;
+        nodes[3] = c1;
+        fifth[fifthCount++] = left[2];
+      }
+      return fifthCount;
     }
 
     /** Fills the samples strictly between c0 and c1 from the cubic if trusted; false (nothing written) if not. */
     function fill(c0: number, c1: number, lo: number, hi: number): boolean {
-      const around = stencil(c0, c1, lo, hi);
-      if (around === null) return false;
-      const { nodes, fifth } = around;
-      for (const j of [...nodes, ...fifth]) if (!sweep.ok[at(j)]) return false;
-      const theta0 = sweep.thetaSigned[at(c0)];
-      const value = (field: Field, j: number): number => {
-        const x = sweep[field][at(j)];
-        return field === "thetaSigned" ? theta0 + unwrap(x - theta0) : x;
-      };
+      const fifthCount = stencil(c0, c1, lo, hi);
+      if (fifthCount === 0) return false;
       let amplitude = 0;
-      for (const j of [...nodes, ...fifth]) amplitude = Math.max(amplitude, Math.abs(sweep.perpAmp[at(j)]), Math.abs(sweep.parAmp[at(j)]));
-      const tolerance = (field: Field): number =>
-        field === "thetaSigned" ? THETA_TOLERANCE_RAD : field === "path" || field === "offset" ? PATH_TOLERANCE : AMPLITUDE_TOLERANCE * amplitude;
-      for (const field of CHECKED) {
+      for (let m = 0; m < 4 + fifthCount; m++) {
+        const i = at(m < 4 ? nodes[m] : fifth[m - 4]);
+        if (!sweep.ok[i]) return false;
+        amplitude = Math.max(amplitude, Math.abs(sweep.perpAmp[i]), Math.abs(sweep.parAmp[i]));
+      }
+      // Each field at the nodes then the fifth nodes (nodeValues[6f + m]), Θ unwrapped about the cell's first end so
+      // that a cubic never spans the jump at ±π.
+      const theta0 = sweep.thetaSigned[at(c0)];
+      for (let m = 0; m < 4 + fifthCount; m++) {
+        const i = at(m < 4 ? nodes[m] : fifth[m - 4]);
+        for (let f = 0; f < FIELDS.length; f++) {
+          const x = fields[f][i];
+          nodeValues[6 * f + m] = f === THETA ? theta0 + unwrap(x - theta0) : x;
+        }
+      }
+      // The error bound's largest Π|s − s_k| over the cell's samples (a check that fails at one sample fails at this one).
+      let omega = 0;
+      for (let s = c0 + 1; s < c1; s++) omega = Math.max(omega, Math.abs((s - nodes[0]) * (s - nodes[1]) * (s - nodes[2]) * (s - nodes[3])));
+      for (let f = 0; f < CHECKED_COUNT; f++) {
         let top = 0;
-        for (const extra of fifth) {
-          for (let m = 0; m < 4; m++) scratch[m] = value(field, nodes[m]);
-          scratch[4] = value(field, extra);
-          top = Math.max(top, Math.abs(dividedDifference([...nodes, extra], scratch)));
+        for (let e = 0; e < fifthCount; e++) {
+          for (let m = 0; m < 4; m++) {
+            x5[m] = nodes[m];
+            scratch[m] = nodeValues[6 * f + m];
+          }
+          x5[4] = fifth[e];
+          scratch[4] = nodeValues[6 * f + 4 + e];
+          top = Math.max(top, Math.abs(dividedDifference(x5, scratch)));
         }
-        for (let s = c0 + 1; s < c1; s++) {
-          const omega = Math.abs((s - nodes[0]) * (s - nodes[1]) * (s - nodes[2]) * (s - nodes[3]));
-          if (top * omega > tolerance(field)) return false;
-        }
+        const tolerance = f === THETA ? THETA_TOLERANCE_RAD : f === PATH || f === OFFSET ? PATH_TOLERANCE : AMPLITUDE_TOLERANCE * amplitude;
+        if (top * omega > tolerance) return false;
       }
       for (let s = c0 + 1; s < c1; s++) {
         for (let m = 0; m < 4; m++) {
@@ -181,10 +229,10 @@ export function sweepPlaneCoarse(
         }
         const i = at(s);
         sweep.ok[i] = 1;
-        for (const field of FIELDS) {
+        for (let f = 0; f < FIELDS.length; f++) {
           let sum = 0;
-          for (let m = 0; m < 4; m++) sum += weights[m] * value(field, nodes[m]);
-          sweep[field][i] = field === "thetaSigned" ? unwrap(sum) : sum;
+          for (let m = 0; m < 4; m++) sum += weights[m] * nodeValues[6 * f + m];
+          fields[f][i] = f === THETA ? unwrap(sum) : sum;
         }
         sweep.perpPerU[i] = sweep.perpAmp[i] ** 2;
         sweep.parPerU[i] = sweep.parAmp[i] ** 2;

@@ -39,7 +39,23 @@ export interface PlaneRay {
 const PUPIL_STEP = 1e-7;
 /** |Y| below this counts as in the plane. */
 const IN_PLANE = 1e-13;
-/** Steps of the search for v*: 12 Newton steps before chords and secants; a secant converges with order 1.6 instead of 2. */
+/**
+ * A ray entering with cos i below this is left out (no ray at that sample): its entry point is a root of F along the
+ * ray with slope ∝ cos i, found only to ~ε/cos i, and that error turns its normal and exit. At 1e-6 that is 1e-10 of a,
+ * below the sweeps' 1e-9 rad (THETA_TOLERANCE_RAD). Measured on a sphere (test/lib/rays/coarse-sweep.test.ts): the
+ * rim sample (u the pupil's half-width, cos i ~ 1e-8) leaves 2e-8 rad off Descartes' angle, the next one in
+ * (cos i = 3.9e-4) within 2e-12.
+ */
+const GRAZING_COS = 1e-6;
+/**
+ * A Newton step |Y/∂Y/∂v| below this ends the search, the step taken to first order in the ray's Θ, path and offset: what
+ * is left is ~½f_vv·step² in those (1e-16·f_vv) and the amplitudes' f_v·step (1e-8 of the amplitude per unit relative
+ * slope), well below the sweeps' tolerances (1e-9 rad and a, 1e-5 relative, lib/rays/sweep-interpolation.ts).
+ * Measured on one plane of P4's drop canted 13° (bench/plane-trace.ts's canted plane, n 1.334): 544 of 1642 rays found
+ * at their first trace instead of 16, the plane's traces 4403 → 3454, the same samples with a ray.
+ */
+const NEWTON_ACCEPT = 1e-8;
+/** Steps of the search for v* (Newton's, from a start within a sample or two of the curve v*(u)). */
 const SEARCH_STEPS = 16;
 
 /** Traces made by every PlaneTracer of this thread, for benchmarks (bench/plane-trace.ts): one increment per trace. */
@@ -75,112 +91,121 @@ export class PlaneTracer {
     const n = this.normal;
     for (let c = 0; c < 3; c++) this.o[c] = u * e[c] + v * n[c] - this.launch * dIn[c];
     planeTraceCount.traces++;
-    traceDrop(this.upTo[p], this.o, dIn, n, this.parIn, this.trace);
+    traceDrop(this.upTo[p], this.o, dIn, n, this.parIn, this.trace, n);
     return this.trace.hit && this.trace.orders[p * ORDER_STRIDE + AT.valid] === 1;
   }
 
-  /** Y = d_out·N and Θ (signed) of the last trace's order p, into yOut and thetaOut. */
+  /**
+   * Whether the last trace entered the drop more grazing than GRAZING_COS: the reflected ray (order 0, always
+   * traced) leaves at cos²i = (1 − d_0·d_in)/2 (law of reflection, d_0 = d_in + 2 cos i·ν).
+   */
+  private grazing(): boolean {
+    const rec = this.trace.orders;
+    const dIn = this.plane.dIn;
+    const along = rec[AT.dir] * dIn[0] + rec[AT.dir + 1] * dIn[1] + rec[AT.dir + 2] * dIn[2];
+    return (1 - along) / 2 < GRAZING_COS * GRAZING_COS;
+  }
+
+  /** Y = d_out·N, Θ (signed) and their derivatives in v of the last trace's order p, into yOut, thetaOut, yvOut, thetaVOut. */
   private yOut = 0;
   private thetaOut = 0;
+  private yvOut = 0;
+  private thetaVOut = 0;
   private exitAngles(p: number): void {
     const rec = this.trace.orders;
     const at = p * ORDER_STRIDE + AT.dir;
+    const atV = p * ORDER_STRIDE + AT.dirV;
     const { dIn, e } = this.plane;
     const n = this.normal;
     const dx = rec[at];
     const dy = rec[at + 1];
     const dz = rec[at + 2];
     this.yOut = dx * n[0] + dy * n[1] + dz * n[2];
-    this.thetaOut = Math.atan2(dx * e[0] + dy * e[1] + dz * e[2], dx * dIn[0] + dy * dIn[1] + dz * dIn[2]);
+    this.yvOut = rec[atV] * n[0] + rec[atV + 1] * n[1] + rec[atV + 2] * n[2];
+    const alongE = dx * e[0] + dy * e[1] + dz * e[2];
+    const alongIn = dx * dIn[0] + dy * dIn[1] + dz * dIn[2];
+    this.thetaOut = Math.atan2(alongE, alongIn);
+    // dΘ/dv of Θ = atan2(d·e, d·d_in).
+    const alongEV = rec[atV] * e[0] + rec[atV + 1] * e[1] + rec[atV + 2] * e[2];
+    const alongInV = rec[atV] * dIn[0] + rec[atV + 1] * dIn[1] + rec[atV + 2] * dIn[2];
+    this.thetaVOut = (alongIn * alongEV - alongE * alongInV) / (alongE * alongE + alongIn * alongIn);
   }
 
   /**
    * The ray of order p through pupil abscissa u that leaves in the plane, starting the search at vGuess; null if none
-   * is found. With withDet the Jacobian determinant is computed too (one more trace). slopeGuess (∂Y/∂v of a ray
-   * nearby) lets the search step as a chord and then a secant (Press et al. 2007 §9.2: one trace a step instead of the
-   * two a finite-difference Newton step costs); without it, or where a step does not at least halve |Y|, the slope is
-   * taken by a finite difference at the current point. ∂Y/∂v of the ray found is always the forward difference at it.
+   * is found. Newton's method on Y(v) (Press et al. 2007 §9.4) with the exact ∂Y/∂v each trace carries (its ray
+   * differential, lib/rays/shape-tracer.ts): one trace a step. A trace whose Newton step is below NEWTON_ACCEPT ends
+   * the search (without withDet): the ray at v* is the traced one carried along that step to first order in Θ, the
+   * optical path and the exit offset (their v-derivatives from the differential). With withDet the Jacobian
+   * determinant is computed too (one more trace, a forward difference in u).
    */
-  planeRay(u: number, vGuess: number, p: number, withDet = false, slopeGuess = Number.NaN): PlaneRay | null {
+  planeRay(u: number, vGuess: number, p: number, withDet = false): PlaneRay | null {
     let v = vGuess;
     let y = 0;
     let theta = 0;
-    // The slope the next step uses, and the finite difference at v when it was taken there (NaN otherwise).
-    let slope = slopeGuess !== 0 && Number.isFinite(slopeGuess) ? slopeGuess : Number.NaN;
     let yv = Number.NaN;
-    let thetaV = Number.NaN;
-    let vLast = Number.NaN;
-    let yLast = Number.NaN;
-    let converged = false;
+    // The Newton step still to take from the last trace (0 when it lies in the plane).
+    let dv = Number.NaN;
     for (let step = 0; step < SEARCH_STEPS; step++) {
-      const differentiate = Number.isNaN(slope);
-      if (differentiate) {
-        if (!this.traceAt(u, v + PUPIL_STEP, p)) return null;
-        this.exitAngles(p);
-        const aheadY = this.yOut;
-        const aheadTheta = this.thetaOut;
-        if (!this.traceAt(u, v, p)) return null;
-        this.exitAngles(p);
-        y = this.yOut;
-        theta = this.thetaOut;
-        yv = (aheadY - y) / PUPIL_STEP;
-        thetaV = unwrap(aheadTheta - theta) / PUPIL_STEP;
-        slope = yv;
-      } else {
-        if (!this.traceAt(u, v, p)) return null;
-        this.exitAngles(p);
-        y = this.yOut;
-        theta = this.thetaOut;
-        yv = Number.NaN;
-        // Secant through the last two points; a chord step with the guessed slope before there are two.
-        if (!Number.isNaN(vLast) && v !== vLast) slope = (y - yLast) / (v - vLast);
-      }
+      if (!this.traceAt(u, v, p)) return null;
+      this.exitAngles(p);
+      y = this.yOut;
+      theta = this.thetaOut;
+      yv = this.yvOut;
       if (Math.abs(y) < IN_PLANE) {
-        converged = true;
+        dv = 0;
         break;
       }
-      // A step that did not at least halve |Y| (a poor slope): the next one differentiates where it is.
-      if (!differentiate && !Number.isNaN(yLast) && !(Math.abs(y) <= 0.5 * Math.abs(yLast))) slope = Number.NaN;
-      if (Number.isNaN(slope)) {
-        vLast = Number.NaN;
-        yLast = Number.NaN;
-        continue;
+      if (!(yv !== 0 && Number.isFinite(yv))) return null;
+      if (!withDet && Math.abs(y / yv) < NEWTON_ACCEPT) {
+        dv = -y / yv;
+        break;
       }
-      if (!(slope !== 0 && Number.isFinite(slope))) return null;
-      vLast = v;
-      yLast = y;
-      v -= y / slope;
+      v -= y / yv;
     }
-    if (!converged) return null;
+    if (Number.isNaN(dv) || this.grazing()) return null;
     // The trace of (u, v) is the last one made: read its fields and path before any other trace.
     const rec = this.trace.orders;
     const base = p * ORDER_STRIDE;
-    const dOut: Vec3 = [rec[base + AT.dir], rec[base + AT.dir + 1], rec[base + AT.dir + 2]];
     const nrm = this.normal;
-    const parOut: Vec3 = [
-      nrm[1] * dOut[2] - nrm[2] * dOut[1],
-      nrm[2] * dOut[0] - nrm[0] * dOut[2],
-      nrm[0] * dOut[1] - nrm[1] * dOut[0],
-    ];
-    const dot = (offset: number, basis: Vec3) =>
-      rec[base + offset] * basis[0] + rec[base + offset + 1] * basis[1] + rec[base + offset + 2] * basis[2];
+    const dx = rec[base + AT.dir];
+    const dy = rec[base + AT.dir + 1];
+    const dz = rec[base + AT.dir + 2];
+    // Outgoing ∥ basis N × d_out.
+    const qx = nrm[1] * dz - nrm[2] * dy;
+    const qy = nrm[2] * dx - nrm[0] * dz;
+    const qz = nrm[0] * dy - nrm[1] * dx;
+    const onN = (offset: number) => rec[base + offset] * nrm[0] + rec[base + offset + 1] * nrm[1] + rec[base + offset + 2] * nrm[2];
+    const onPar = (offset: number) => rec[base + offset] * qx + rec[base + offset + 1] * qy + rec[base + offset + 2] * qz;
     // Amplitude matrix: incident ⟂ (e1 = N) and ∥ (e2) into outgoing ⟂ (N) and ∥ (N × d_out), complex.
-    const pp = [dot(AT.e1Re, nrm), dot(AT.e1Im, nrm)];
-    const parFromPerp = [dot(AT.e1Re, parOut), dot(AT.e1Im, parOut)];
-    const perpFromPar = [dot(AT.e2Re, nrm), dot(AT.e2Im, nrm)];
-    const qq = [dot(AT.e2Re, parOut), dot(AT.e2Im, parOut)];
+    const ppRe = onN(AT.e1Re);
+    const ppIm = onN(AT.e1Im);
+    const parFromPerpRe = onPar(AT.e1Re);
+    const parFromPerpIm = onPar(AT.e1Im);
+    const perpFromParRe = onN(AT.e2Re);
+    const perpFromParIm = onN(AT.e2Im);
+    const qqRe = onPar(AT.e2Re);
+    const qqIm = onPar(AT.e2Im);
     // For unpolarised light each outgoing component's power sums both incident ones; the sign of the main
     // (diagonal) term is kept for the interference of the two rays of a bow.
-    const perpPower = pp[0] ** 2 + pp[1] ** 2 + perpFromPar[0] ** 2 + perpFromPar[1] ** 2;
-    const parPower = qq[0] ** 2 + qq[1] ** 2 + parFromPerp[0] ** 2 + parFromPerp[1] ** 2;
-    const exit: Vec3 = [rec[base + AT.point], rec[base + AT.point + 1], rec[base + AT.point + 2]];
-    const path = rec[base + AT.path];
-    const offset = exit[0] * parOut[0] + exit[1] * parOut[1] + exit[2] * parOut[2];
-    if (Number.isNaN(yv) || (withDet && Number.isNaN(thetaV))) {
-      if (!this.traceAt(u, v + PUPIL_STEP, p)) return null;
-      this.exitAngles(p);
-      yv = (this.yOut - y) / PUPIL_STEP;
-      thetaV = unwrap(this.thetaOut - theta) / PUPIL_STEP;
+    const perpPower = ppRe ** 2 + ppIm ** 2 + perpFromParRe ** 2 + perpFromParIm ** 2;
+    const parPower = qqRe ** 2 + qqIm ** 2 + parFromPerpRe ** 2 + parFromPerpIm ** 2;
+    let path = rec[base + AT.path];
+    let offset = rec[base + AT.point] * qx + rec[base + AT.point + 1] * qy + rec[base + AT.point + 2] * qz;
+    const thetaV = this.thetaVOut;
+    if (dv !== 0) {
+      // W = L − d·P with dL = d·dP at the exit (the eikonal's gradient is the ray; Born & Wolf 1999 §3.1.2, from memory):
+      // ∂W/∂v = −P·d_v; offset = P·(N × d): ∂/∂v = P_v·(N × d) + P·(N × d_v).
+      const at = (offset: number, c: number) => rec[base + offset + c];
+      const qxV = nrm[1] * at(AT.dirV, 2) - nrm[2] * at(AT.dirV, 1);
+      const qyV = nrm[2] * at(AT.dirV, 0) - nrm[0] * at(AT.dirV, 2);
+      const qzV = nrm[0] * at(AT.dirV, 1) - nrm[1] * at(AT.dirV, 0);
+      const pathV = -(at(AT.point, 0) * at(AT.dirV, 0) + at(AT.point, 1) * at(AT.dirV, 1) + at(AT.point, 2) * at(AT.dirV, 2));
+      const offsetV = at(AT.pointV, 0) * qx + at(AT.pointV, 1) * qy + at(AT.pointV, 2) * qz + at(AT.point, 0) * qxV + at(AT.point, 1) * qyV + at(AT.point, 2) * qzV;
+      v += dv;
+      theta += thetaV * dv;
+      path += pathV * dv;
+      offset += offsetV * dv;
     }
     let det = Number.NaN;
     if (withDet) {
@@ -196,8 +221,8 @@ export class PlaneTracer {
       thetaSigned: theta,
       yv,
       det,
-      ampPerp: Math.sign(pp[0] || 1) * Math.sqrt(perpPower),
-      ampPar: Math.sign(qq[0] || 1) * Math.sqrt(parPower),
+      ampPerp: Math.sign(ppRe || 1) * Math.sqrt(perpPower),
+      ampPar: Math.sign(qqRe || 1) * Math.sqrt(parPower),
       path,
       offset,
     };
@@ -215,6 +240,8 @@ export class PlaneTracer {
     let hi = this.setup.outline.maxRadius * 1.01;
     for (let it = 0; it < 60; it++) {
       const mid = 0.5 * (lo + hi);
+      // Adjacent doubles: further steps would trace lo or hi again.
+      if (mid === lo || mid === hi) break;
       if (this.traceAt(sign * mid, 0, 0)) lo = mid;
       else hi = mid;
     }
@@ -258,30 +285,36 @@ export interface SweepWindow {
 /**
  * Where the next ray's search starts: v extrapolated in the sample index s from the last rays found in a row (the
  * polynomial through up to PREDICTOR_RAYS of them, Press et al. 2007 §3.2 Eq. 3.2.1: v*(u) and u(s) are smooth, so
- * the error falls as the cube of the step), and the last ray's ∂Y/∂v as the slope of the first step.
+ * the error falls as the cube of the step).
  */
 const PREDICTOR_RAYS = 3;
 /** Rays further back than this many samples are not extrapolated from (after a run of misses): the last v is the guess. */
 const PREDICTOR_REACH = 2;
 
 export class RayPredictor {
-  private readonly s = new Float64Array(PREDICTOR_RAYS);
-  private readonly v = new Float64Array(PREDICTOR_RAYS);
+  private readonly s: Float64Array;
+  private readonly v: Float64Array;
   private count = 0;
-  /** ∂Y/∂v of the last ray found (NaN before one). */
-  slope = Number.NaN;
-  /** reach: the furthest (in samples) a guess is extrapolated beyond the last ray found. */
-  constructor(private readonly reach = PREDICTOR_REACH) {}
+  /**
+   * reach: the furthest (in samples) a guess is extrapolated beyond the last ray found; rays: how many it keeps (the
+   * oldest is dropped for a new one), PREDICTOR_RAYS unless rays on both sides of the samples asked for interpolate.
+   */
+  constructor(
+    private readonly reach = PREDICTOR_REACH,
+    private readonly rays = PREDICTOR_RAYS,
+  ) {
+    this.s = new Float64Array(rays);
+    this.v = new Float64Array(rays);
+  }
 
   /** Forgets the rays found (after a gap the search restarts from a guess). */
   reset(): void {
     this.count = 0;
-    this.slope = Number.NaN;
   }
 
-  /** Records the ray found at sample s: its v and ∂Y/∂v (NaN if unknown). */
-  add(s: number, v: number, yv: number): void {
-    if (this.count === PREDICTOR_RAYS) {
+  /** Records the ray found at sample s, its v. */
+  add(s: number, v: number): void {
+    if (this.count === this.rays) {
       this.s.copyWithin(0, 1);
       this.v.copyWithin(0, 1);
       this.count--;
@@ -289,7 +322,6 @@ export class RayPredictor {
     this.s[this.count] = s;
     this.v[this.count] = v;
     this.count++;
-    this.slope = yv;
   }
 
   /** The starting v at sample s (fallback when no ray has been found yet). */
@@ -318,7 +350,7 @@ export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number,
     let vGuess = 0;
     predictor.reset();
     // The other side starts from the central ray (s = 0 on both sides).
-    if (sign === -1 && sweep.ok[halfSegments]) predictor.add(0, sweep.v[halfSegments], Number.NaN);
+    if (sign === -1 && sweep.ok[halfSegments]) predictor.add(0, sweep.v[halfSegments]);
     let gap = false;
     for (let s = sign === 1 ? 0 : 1; s <= halfSegments; s++) {
       const index = halfSegments + sign * s;
@@ -333,9 +365,9 @@ export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number,
         predictor.reset();
         gap = false;
       }
-      const ray = tracer.planeRay(u, predictor.guess(s, vGuess), p, false, predictor.slope);
+      const ray = tracer.planeRay(u, predictor.guess(s, vGuess), p);
       if (ray === null) continue;
-      predictor.add(s, ray.v, ray.yv);
+      predictor.add(s, ray.v);
       storeRay(sweep, index, ray);
     }
   }

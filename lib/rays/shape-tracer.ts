@@ -20,9 +20,9 @@ export interface DropTraceSetup {
 }
 
 /** Numbers stored per order in a trace's output. */
-export const ORDER_STRIDE = 20;
-/** Offsets within one order's record. */
-export const AT = { valid: 0, dir: 1, point: 4, path: 7, e1Re: 8, e1Im: 11, e2Re: 14, e2Im: 17 } as const;
+export const ORDER_STRIDE = 26;
+/** Offsets within one order's record; dirV, pointV: d(dir)/dv and d(point)/dv when the trace carries a ray differential (traceDrop's originV). */
+export const AT = { valid: 0, dir: 1, point: 4, path: 7, e1Re: 8, e1Im: 11, e2Re: 14, e2Im: 17, dirV: 20, pointV: 23 } as const;
 
 export interface TraceOutput {
   /** ORDER_STRIDE numbers per order 0 … maxOrder (see AT); valid = 0 where the order did not leave the drop. */
@@ -47,14 +47,20 @@ export function allocateTrace(maxOrder: number): TraceOutput {
 const grad = new Float64Array(3);
 function surface(setup: DropTraceSetup, x: number, y: number, z: number): number {
   const len = Math.sqrt(x * x + y * y + z * z);
-  const [ax, ay, az] = setup.axis;
+  const axis = setup.axis;
+  const ax = axis[0];
+  const ay = axis[1];
+  const az = axis[2];
   const mu = -(x * ax + y * ay + z * az) / len;
   return len - setup.outline.radius(mu);
 }
 /** ∇F at p, unnormalised, into grad. */
 function rawGradient(setup: DropTraceSetup, x: number, y: number, z: number): void {
   const len = Math.sqrt(x * x + y * y + z * z);
-  const [ax, ay, az] = setup.axis;
+  const axis = setup.axis;
+  const ax = axis[0];
+  const ay = axis[1];
+  const az = axis[2];
   const px = x / len;
   const py = y / len;
   const pz = z / len;
@@ -87,7 +93,10 @@ function sphereGuess(setup: DropTraceSetup, o: Float64Array, d: Float64Array, tB
   const x = o[0] + tBound * d[0];
   const y = o[1] + tBound * d[1];
   const z = o[2] + tBound * d[2];
-  const [ax, ay, az] = setup.axis;
+  const axis = setup.axis;
+  const ax = axis[0];
+  const ay = axis[1];
+  const az = axis[2];
   const mu = -(x * ax + y * ay + z * az) / Math.sqrt(x * x + y * y + z * z);
   return boundingExit(o[0], o[1], o[2], d[0], d[1], d[2], setup.outline.radius(mu), entry);
 }
@@ -234,11 +243,75 @@ const dir = new Float64Array(3);
 const point = new Float64Array(3);
 const normal = new Float64Array(3);
 
-function storeOrder(out: TraceOutput, p: number, k: Float64Array, at: Float64Array, path: number, f: Float64Array): void {
+// A ray differential (Igehy 1999, "Tracing ray differentials", SIGGRAPH '99, 179–186, §3, from memory): the
+// derivatives of the ray's point and direction with respect to a parameter v of the incident ray, carried through each
+// transfer, reflection and refraction, so that an order's d(dir)/dv comes with one trace instead of a second, offset one.
+const pointV = new Float64Array(3);
+const dirV = new Float64Array(3);
+const normalV = new Float64Array(3);
+const kRefV = new Float64Array(3);
+const kTrV = new Float64Array(3);
+const ahead = new Float64Array(3);
+/**
+ * Step of the central difference of the unit normal along the surface, in units of a: ε^(1/3) of the unit scale, where
+ * truncation (∝ step²) and rounding (∝ ε/step) errors balance (Press et al. 2007 §5.7, Eq. 5.7.8).
+ */
+const NORMAL_STEP = 6e-6;
+
+/**
+ * Transfer of the differential to the wall point reached at t along dir from the previous point (Igehy 1999 Eq. 10 and
+ * 12; his addendum at graphics.stanford.edu/papers/trd proves Eq. 12 for any surface):
+ * dt/dv = −ν·(P_v + t·D_v)/(ν·D), P′_v = P_v + t·D_v + (dt/dv)·D, with ν ∝ grad (any sign or length).
+ */
+function transferDifferential(t: number): void {
+  for (let c = 0; c < 3; c++) pointV[c] += t * dirV[c];
+  const tV = -(grad[0] * pointV[0] + grad[1] * pointV[1] + grad[2] * pointV[2]) / (grad[0] * dir[0] + grad[1] * dir[1] + grad[2] * dir[2]);
+  for (let c = 0; c < 3; c++) pointV[c] += tV * dir[c];
+}
+
+/**
+ * dν/dv of the unit normal facing the incident side (ν = sign·∇F/|∇F|) as the point moves by P_v along the wall: the
+ * central difference of the normal field along P_v, into normalV (grad is overwritten).
+ */
+function normalDifferential(setup: DropTraceSetup, sign: number): void {
+  const length = Math.sqrt(pointV[0] * pointV[0] + pointV[1] * pointV[1] + pointV[2] * pointV[2]);
+  if (length === 0) {
+    normalV.fill(0);
+    return;
+  }
+  const h = NORMAL_STEP / length;
+  surfaceGradient(setup, point[0] + h * pointV[0], point[1] + h * pointV[1], point[2] + h * pointV[2]);
+  ahead.set(grad);
+  surfaceGradient(setup, point[0] - h * pointV[0], point[1] - h * pointV[1], point[2] - h * pointV[2]);
+  for (let c = 0; c < 3; c++) normalV[c] = (sign * (ahead[c] - grad[c])) / (2 * h);
+}
+
+/**
+ * d/dv of the reflected and refracted directions of split(k, ν, n1, n2), the derivatives (as Igehy 1999 §3 takes them,
+ * from memory) of the law of reflection kRef = k + 2 cos i·ν and of Snell's law in vector form
+ * kTr = (n1/n2)·k + ((n1/n2)·cos i − cos t)·ν, cos i = −k·ν, cos t = √(1 − (n1/n2)²(1 − cos²i)), from k_v (kV) and
+ * ν_v (normalV), into kRefV and kTrV.
+ */
+function splitDifferential(k: Float64Array, kV: Float64Array, nu: Float64Array, n1: number, n2: number, transmits: boolean): void {
+  const cosI = -(k[0] * nu[0] + k[1] * nu[1] + k[2] * nu[2]);
+  const cosIV = -(kV[0] * nu[0] + kV[1] * nu[1] + kV[2] * nu[2] + k[0] * normalV[0] + k[1] * normalV[1] + k[2] * normalV[2]);
+  for (let c = 0; c < 3; c++) kRefV[c] = kV[c] + 2 * (cosIV * nu[c] + cosI * normalV[c]);
+  if (!transmits) return;
+  const ratio = n1 / n2;
+  const cosT = fresnel.cosRefraction;
+  const cosTV = (ratio * ratio * cosI * cosIV) / cosT;
+  const along = ratio * cosI - cosT;
+  const alongV = ratio * cosIV - cosTV;
+  for (let c = 0; c < 3; c++) kTrV[c] = ratio * kV[c] + alongV * nu[c] + along * normalV[c];
+}
+
+function storeOrder(out: TraceOutput, p: number, k: Float64Array, at: Float64Array, path: number, f: Float64Array, kV: Float64Array | null): void {
   const o = p * ORDER_STRIDE;
   const rec = out.orders;
   rec[o + AT.valid] = 1;
   for (let c = 0; c < 3; c++) {
+    rec[o + AT.dirV + c] = kV === null ? 0 : kV[c];
+    rec[o + AT.pointV + c] = kV === null ? 0 : pointV[c];
     rec[o + AT.dir + c] = k[c];
     rec[o + AT.point + c] = at[c];
     rec[o + AT.e1Re + c] = f[c];
@@ -253,7 +326,8 @@ function storeOrder(out: TraceOutput, p: number, k: Float64Array, at: Float64Arr
 
 /**
  * Traces the ray o + t·d (|d| = 1, o outside the drop) with unit incident fields e1, e2 (real, ⟂ d) through the
- * drop, filling `out` with every order up to setup.maxOrder.
+ * drop, filling `out` with every order up to setup.maxOrder. With originV (do/dv of a family of parallel rays o(v) + t·d)
+ * each order's d(dir)/dv and d(point)/dv are stored too (AT.dirV, AT.pointV; 0 without it).
  */
 export function traceDrop(
   setup: DropTraceSetup,
@@ -262,7 +336,9 @@ export function traceDrop(
   e1: ArrayLike<number>,
   e2: ArrayLike<number>,
   out: TraceOutput,
+  originV: ArrayLike<number> | null = null,
 ): TraceOutput {
+  const differential = originV !== null;
   out.orders.fill(0);
   out.absorbed.fill(0);
   out.remaining.fill(0);
@@ -284,6 +360,13 @@ export function traceDrop(
   out.hit = true;
   for (let c = 0; c < 3; c++) point[c] = origin[c] + t * dir[c];
   surfaceGradient(setup, point[0], point[1], point[2]);
+  if (differential) {
+    for (let c = 0; c < 3; c++) {
+      pointV[c] = originV[c];
+      dirV[c] = 0;
+    }
+    transferDifferential(t);
+  }
   for (let c = 0; c < 3; c++) {
     normal[c] = grad[c];
     field[c] = e1[c];
@@ -294,8 +377,13 @@ export function traceDrop(
   // Optical path from the plane through the drop's centre normal to d: d·P_entry (may be negative).
   let path = dir[0] * point[0] + dir[1] * point[1] + dir[2] * point[2];
   const n = setup.n;
-  split(dir, normal, 1, n);
-  storeOrder(out, 0, kRef, point, path, reflected);
+  const entered = split(dir, normal, 1, n);
+  if (differential) {
+    normalDifferential(setup, 1);
+    splitDifferential(dir, dirV, normal, 1, n, entered);
+    dirV.set(kTrV);
+  }
+  storeOrder(out, 0, kRef, point, path, reflected, differential ? kRefV : null);
   field.set(transmitted);
   for (let c = 0; c < 3; c++) dir[c] = kTr[c];
   for (let p = 1; p <= setup.maxOrder; p++) {
@@ -314,10 +402,16 @@ export function traceDrop(
       out.absorbed[q] += before - power(field, q);
     }
     surfaceGradient(setup, point[0], point[1], point[2]);
+    if (differential) transferDifferential(tHit);
     // ν facing the incident (inner) side is −∇F.
     for (let c = 0; c < 3; c++) normal[c] = -grad[c];
     const leaves = split(dir, normal, n, 1);
-    if (leaves) storeOrder(out, p, kTr, point, path, transmitted);
+    if (differential) {
+      normalDifferential(setup, -1);
+      splitDifferential(dir, dirV, normal, n, 1, leaves);
+      dirV.set(kRefV);
+    }
+    if (leaves) storeOrder(out, p, kTr, point, path, transmitted, differential ? kTrV : null);
     field.set(reflected);
     for (let c = 0; c < 3; c++) dir[c] = kRef[c];
   }

@@ -33,17 +33,25 @@ export function cubicWeights(nodes: Float64Array, lo: number, hi: number, u: num
   for (let k = 0; k < 4; k++) {
     const uk = nodes[first + k];
     // ℓ_k(u) = Π_{m≠k} (u − u_m)/(u_k − u_m); its derivatives by the product rule on the three factors.
+    // The three factors u − u_m (m ≠ k), in m's order.
     let denominator = 1;
-    const f: number[] = [];
+    let f0 = 0;
+    let f1 = 0;
+    let f2 = 0;
+    let factors = 0;
     for (let m = 0; m < 4; m++) {
       if (m === k) continue;
       const um = nodes[first + m];
       denominator *= uk - um;
-      f.push(u - um);
+      const factor = u - um;
+      if (factors === 0) f0 = factor;
+      else if (factors === 1) f1 = factor;
+      else f2 = factor;
+      factors++;
     }
-    out.value[k] = (f[0] * f[1] * f[2]) / denominator;
-    out.slope[k] = (f[1] * f[2] + f[0] * f[2] + f[0] * f[1]) / denominator;
-    out.curvature[k] = (2 * (f[0] + f[1] + f[2])) / denominator;
+    out.value[k] = (f0 * f1 * f2) / denominator;
+    out.slope[k] = (f1 * f2 + f0 * f2 + f0 * f1) / denominator;
+    out.curvature[k] = (2 * (f0 + f1 + f2)) / denominator;
   }
   return out;
 }

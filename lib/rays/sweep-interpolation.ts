@@ -167,8 +167,6 @@ export function interpolateSweep(
   // the ends of the range are extrapolated, and the order's end near the rim moves with n): given `near`, the sweep goes
   // on outwards from a ray at n within it until a sample has none (measured: up to 4 more samples at 760–780 nm).
   let traced = 0;
-  let lastTraced = -1;
-  let lastSlope = Number.NaN;
   const centre = (count - 1) / 2;
   for (let k = 0; k < count; k++) {
     // The centre and the + side outwards, then the − side outwards.
@@ -187,14 +185,10 @@ export function interpolateSweep(
       ...(outer >= 0 && outer < count && out.ok[outer] ? [out.v[outer]] : []),
       ...sweeps.filter((sweep) => sweep.ok[s]).map((sweep) => sweep.v[s]),
     ];
-    // The ray traced at the neighbour further in lends its ∂Y/∂v to the search's first step (PlaneTracer.planeRay).
-    const slope = lastTraced === before ? lastSlope : Number.NaN;
     for (const guess of guesses) {
-      const ray = tracer.planeRay(first.u[s], guess, first.order, false, slope);
+      const ray = tracer.planeRay(first.u[s], guess, first.order);
       if (ray === null) continue;
       storeRay(out, s, ray);
-      lastTraced = s;
-      lastSlope = ray.yv;
       break;
     }
   }

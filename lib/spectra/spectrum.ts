@@ -34,7 +34,7 @@ export function regularTable(startNm: number, stepNm: number, values: Float64Arr
 }
 
 /** Largest i with x[i] <= value (x ascending); caller guarantees x[0] <= value <= x[last]. */
-function bracket(x: Float64Array, value: number): number {
+export function bracket(x: Float64Array, value: number): number {
   let lo = 0;
   let hi = x.length - 1;
   while (hi - lo > 1) {

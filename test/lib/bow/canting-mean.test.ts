@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { shapedMeanRows, shapedNodeRows, type ShapedRowSpec } from "../../../lib/bow/shaped-rows.js";
+import { shapedMeanRows, type CantingMean, type ShapedRowSpec } from "../../../lib/bow/shaped-rows.js";
 import { shapedPlaneContext, shapedPlaneRow } from "../../../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
 import { bowScatteringPlane, cantedAxis } from "../../../lib/rays/bow-geometry.js";
@@ -24,10 +24,12 @@ describe("the canting mean of a flattened drop's bow", () => {
     const disc = sunDiscKernel(SUN_MEAN_ANGULAR_DIAMETER_DEG, step);
     const seen = (perp: Float64Array, par: Float64Array) => convolveProfile(perp.map((v, j) => v + par[j]), disc);
 
-    const [piece] = shapedMeanRows(spec, [drop], thetaDeg, step).pieces[0];
-    const aligned = seen(piece.perp, piece.par);
-    const shares = shapedNodeRows(spec, [drop], thetaDeg, step).rows[0];
-    const asTheyAre = seen(...shares.reduce(([p, q], s) => [p.map((v, j) => v + s.perp[j]), q.map((v, j) => v + s.par[j])], [new Float64Array(200), new Float64Array(200)]));
+    const mean = (how: CantingMean) => {
+      const [piece] = shapedMeanRows(spec, [drop], thetaDeg, step, how).pieces[0];
+      return seen(piece.perp, piece.par);
+    };
+    const aligned = mean("local");
+    const asTheyAre = mean("nodes");
 
     const outline = equilibriumOutline(radiusUm);
     const plane = bowScatteringPlane(10, 45);
