@@ -2,13 +2,15 @@
 // (1 mm drops half-way up the bow: the primary's fold at 32.0–37.5° over the five canting nodes of ±13°), far more
 // than the bow's width, so a quadrature over tilts that adds the nodes' rows as they are draws one bow per node
 // where nature has one broad bow: the rule is exact for integrands smooth in the tilt (cantingNodesFive), and a row
-// seen at a fixed angle is not. The fold angle Θ_R(t) itself is smooth in the tilt t, and so is the bow's shape
-// around its fold. So the mean is taken in two steps (displacement interpolation, common practice):
-//   1. the nodes' rows are shifted so that their folds coincide with the upright node's and added with the rule's
-//      weights: the mean shape of the bow, by the rule, where the integrand is smooth;
-//   2. that shape is spread over the distribution of Θ_R(t) − Θ_R(0) under the Gaussian tilt (Huang, Bringi & Thurai
-//      2008: σ in each of two vertical planes), Θ_R(t) taken as the quadratic through the five nodes' folds.
-// Without canting, or for spheres (every node's fold the same), both steps leave the rows as they are.
+// seen at a fixed angle is not. The fold angle Θ_R(t) itself is smooth in the tilt t (the quadratic through the five
+// nodes' folds stays within 0.4° of traced folds out to ±13°, 1 mm drops at the top of the bow), and so is the bow's
+// shape around its fold. So each node's row stands for the tilts of its own cell (the tilts nearer it than any other
+// node) and is spread over the fold angles that cell's tilts send the bow to, Θ_R(t) − Θ_R(t_k) under the Gaussian
+// tilt (Huang, Bringi & Thurai 2008: σ in each of two vertical planes), keeping its rule weight (localCantingMean, the
+// service's). alignedCantingMean, the nodes' bows aligned on the upright node's fold and their mean shape spread over
+// the fold's whole distribution, is kept for comparison (bench/canting-spread.ts: the local mean's summed error is
+// smaller). Spreading a feature over the distribution of its displacement is common practice (displacement
+// interpolation). Without canting, or for spheres (every node's fold the same), the rows stay as they are.
 
 import type { CantingNode } from "../drops/shape/canting.js";
 
@@ -144,7 +146,11 @@ function addSpread(row: Float64Array, kernel: { first: number; weights: Float64A
   }
 }
 
-/** The local variant of alignedCantingMean (CANTING_SPREAD "local"): each node's share spread over its own cell. */
+/**
+ * The canting mean of one order's shares (each already weighted by its node's weight), written into out: each share
+ * spread by its node's localSpreadKernels kernel. nodes, foldsDeg and shareOf as for alignedCantingMean; false, with
+ * out untouched, when the folds do not make a model.
+ */
 export function localCantingMean(
   shares: readonly Float64Array[],
   shareOf: readonly number[],

@@ -307,7 +307,7 @@ export type CantingMean = "local" | "aligned" | "nodes";
 /**
  * Each drop's |S1|², |S2|² as pieces to be added in order: per order group asked for (spec.orderGroup, else all), the
  * group without a bow (reflection and transmission) node by node as shapedNodeRows gives it, each bow group as one
- * canting mean with the nodes' bows aligned and spread over the tilts (alignedCantingMean; where the folds make no
+ * canting mean with each node's bow spread over the folds of its cell of tilts (cantingMean; where the folds make no
  * model, e.g. method "geometric" or a bow off the grid, its nodes' shares added as they are). Kernel tasks split in
  * parts (pipeline/kernels/canting-parts.ts) compute the same pieces, the group without a bow node by node.
  */
