@@ -1,5 +1,5 @@
-// npm run bench:canting [-- --write]: the canting mean of flattened drops' bows (lib/bow/canting-spread.ts: the five
-// nodes' bows aligned and spread over the tilts) and the five nodes' rows added as they are, each against the canting
+// npm run bench:canting [-- --write]: the canting mean of flattened drops' bows (lib/bow/canting-spread.ts: each of
+// the five nodes' bows spread over the folds of its cell of tilts) and the five nodes' rows added as they are, each against the canting
 // integral taken by brute force on a dense grid of tilts (TILT_SPACING_DEG apart over ±TILT_SPAN_SD σ in both planes,
 // Gaussian weights), every tilt traced on its own. One wavelength (550 nm, n 1.3345), ray optics with the Airy-type
 // bows, after the sun's disc (Neckel & Labs 1994 limb darkening, as profiles), ψ 30–58°. Writes the canting-spread
@@ -96,7 +96,7 @@ for (const { radiusUm, arcPositionDeg } of CASES) {
   const drop = { radiusUm, mRe: N_RE, x };
   const mean = (how: CantingMean) => seen(...(({ perp, par }) => [perp, par] as const)(sumShares(shapedMeanRows(spec, [drop], THETA_DEG, STEP_DEG, how).pieces[0])));
   const reference = bruteForce(radiusUm, arcPositionDeg, x);
-  const figures = (["local", "aligned", "nodes"] as const).map((how) => errors(mean(how), reference));
+  const figures = (["spread", "nodes"] as const).map((how) => errors(mean(how), reference));
   const line = `| ${radiusUm / 1000} mm, arc ${arcPositionDeg}° | ${figures.map((f) => `${f.worst.toFixed(3)} / ${f.summed.toFixed(3)}`).join(" | ")} |`;
   console.log(line);
   rows.push(line);
@@ -108,12 +108,11 @@ const lines = [
   `Written by \`npm run bench:canting -- --write\` (bench/canting-spread.ts), ${benchDate()}; ${machineLine()}; load average ${loadavg()[0].toFixed(1)} at the end.`,
   `Equilibrium drops, canting σ ${SD_DEG}°, sun 10°, 550 nm, after the sun's disc, ψ 30–58°. Reference: every tilt of a grid ${TILT_SPACING_DEG}° apart over`,
   `±${TILT_SPAN_SD}σ in both planes traced on its own, Gaussian weights. Errors as a share of the reference's peak (worst) and summed |Δ| over the`,
-  "summed reference. Local (the service's): each canting node's bow spread over the folds of its own cell of tilts; aligned: the",
-  "nodes' bows aligned on the upright node's fold and their mean spread over the fold's whole distribution (both",
-  "lib/bow/canting-spread.ts, the fold quadratic through the nodes' folds); nodes: the five rows added with the rule's weights.",
+  "summed reference. Spread (the service's): each canting node's bow spread over the folds of its own cell of tilts, the fold",
+  "quadratic through the nodes' folds (lib/bow/canting-spread.ts); nodes: the five rows added with the rule's weights.",
   "",
-  "| drops, place on the bow | local: worst / summed | aligned: worst / summed | nodes: worst / summed |",
-  "|---|---|---|---|",
+  "| drops, place on the bow | spread: worst / summed | nodes: worst / summed |",
+  "|---|---|---|",
   ...rows,
 ];
 if (process.argv.includes("--write")) writeMarkedSection("canting-spread", lines);

@@ -6,7 +6,7 @@ import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
 import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
 import { planeCantingNodeOf, planeCantingNodes } from "./plane-canting-nodes.js";
-import { alignedCantingMean, localCantingMean } from "./canting-spread.js";
+import { localCantingMean } from "./canting-spread.js";
 import { cantingNodesFive } from "../drops/shape/canting.js";
 import { chebyshevNodes, interpolateSweep } from "../rays/sweep-interpolation.js";
 import { WATER_INDEX_RANGE } from "../water/index-range.js";
@@ -297,12 +297,11 @@ export function isBowGroup(group: number): boolean {
 const BOW_GROUP_PAD_DEG = 10;
 
 /**
- * How a bow group's canting nodes are averaged (lib/bow/canting-spread.ts): "local", each node's bow spread over the
- * folds of its own cell of tilts (the service's); "aligned", the nodes' bows aligned and their mean shape spread over
- * the fold's whole distribution; "nodes", the nodes' rows added as they are (the rule alone). Benchmarks compare them
- * (bench/canting-spread.ts).
+ * How a bow group's canting nodes are averaged: "spread", each node's bow spread over the folds of its own cell of tilts
+ * (lib/bow/canting-spread.ts, the service's); "nodes", the nodes' rows added as they are (the rule alone: what
+ * bench/canting-spread.ts compares it with).
  */
-export type CantingMean = "local" | "aligned" | "nodes";
+export type CantingMean = "spread" | "nodes";
 
 /**
  * Each drop's |S1|², |S2|² as pieces to be added in order: per order group asked for (spec.orderGroup, else all), the
@@ -316,7 +315,7 @@ export function shapedMeanRows(
   drops: readonly ShapedDrop[],
   thetaDeg: Float64Array,
   stepDeg: number,
-  cantingMean: CantingMean = "local",
+  cantingMean: CantingMean = "spread",
 ): { pieces: { perp: Float64Array; par: Float64Array }[][]; planes: ShapedPlaneCount } {
   const pieces = drops.map((): { perp: Float64Array; par: Float64Array }[] => []);
   const planes: ShapedPlaneCount = { traced: 0, interpolated: 0 };
@@ -340,7 +339,7 @@ export function shapedMeanRows(
       const par = new Float64Array(count + 2 * pad);
       const folds = nodes.map((_, k) => computed.foldsDeg[d][shareOf[k]]);
       const mean = (pick: "perp" | "par", out: Float64Array) =>
-        planeNodes.length > 1 && cantingMean !== "nodes" && (cantingMean === "local" ? localCantingMean : alignedCantingMean)(shares.map((s) => s[pick]), shareOf, nodes, folds, spec.cantingSdDeg, stepDeg, out);
+        planeNodes.length > 1 && cantingMean === "spread" && localCantingMean(shares.map((s) => s[pick]), shareOf, nodes, folds, spec.cantingSdDeg, stepDeg, out);
       if (!(mean("perp", perp) && mean("par", par))) {
         perp.fill(0);
         par.fill(0);

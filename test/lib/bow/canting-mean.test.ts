@@ -28,7 +28,7 @@ describe("the canting mean of a flattened drop's bow", () => {
       const [piece] = shapedMeanRows(spec, [drop], thetaDeg, step, how).pieces[0];
       return seen(piece.perp, piece.par);
     };
-    const spread = mean("local");
+    const spread = mean("spread");
     const asTheyAre = mean("nodes");
 
     const outline = equilibriumOutline(radiusUm);
@@ -63,10 +63,9 @@ describe("the canting mean of a flattened drop's bow", () => {
     };
     const a = off(spread);
     const b = off(asTheyAre);
-    // Measured: the service's mean ("local": each node's bow spread over its own cell of tilts) worst 0.10 of the peak
-    // (the reference's shoulder on the dark side, ψ ≈ 35.4°, which the quadratic fold model rounds off) and 0.037
-    // summed ("aligned": 0.14 and 0.036); the nodes as they are 0.33 and 0.15 (separate bows, one 23 % above the
-    // reference's peak). Bounds a little above the service's figures; the last check is what the spreading is for.
+    // Measured: the service's mean (each node's bow spread over its own cell of tilts) worst 0.10 of the peak (the
+    // reference's shoulder on the dark side, ψ ≈ 35.4°, which the quadratic fold model rounds off) and 0.037 summed;
+    // the nodes as they are 0.33 and 0.15 (separate bows, one 23 % above the reference's peak). Bounds a little above the service's figures; the last check is what the spreading is for.
     expect(a.worst).toBeLessThan(0.15);
     expect(a.summed).toBeLessThan(0.05);
     expect(b.summed).toBeGreaterThan(3 * a.summed);

@@ -1,25 +1,20 @@
 import { describe, expect, it } from "vitest";
-import { alignedCantingMean, foldOverTilt, foldSpreadKernel, shiftBinMeans } from "../../../lib/bow/canting-spread.js";
+import { foldOverTilt, localCantingMean, localSpreadKernels } from "../../../lib/bow/canting-spread.js";
 import { cantingNodesFive } from "../../../lib/drops/shape/canting.js";
-
-describe("shifting bin means", () => {
-  it("moves a row by whole bins exactly and by part of a bin as the linear interpolant through the bin centres", () => {
-    const row = Float64Array.from([0, 1, 4, 9, 16, 25]);
-    const out = new Float64Array(row.length);
-    shiftBinMeans(row, 0, out);
-    expect(Array.from(out)).toEqual(Array.from(row));
-    shiftBinMeans(row, 2, out);
-    expect(Array.from(out)).toEqual([0, 0, 0, 1, 4, 9]);
-    shiftBinMeans(row, -0.5, out);
-    // Half-way between neighbouring centres (the last held at its end value).
-    expect(Array.from(out)).toEqual([0.5, 2.5, 6.5, 12.5, 20.5, 25]);
-  });
-});
 
 describe("the spread of the bow over the canting", () => {
   const sd = 7.5;
   const nodes = cantingNodesFive(sd);
   const a = Math.sqrt(3) * sd;
+  const step = 0.05;
+  const moments = ({ first, weights }: { first: number; weights: Float64Array }) => {
+    let sum = 0, mean = 0;
+    weights.forEach((w, m) => {
+      sum += w;
+      mean += w * (first + m) * step;
+    });
+    return { sum, mean };
+  };
 
   it("takes the quadratic through the five nodes' folds", () => {
     // Θ_R = 40 + 0.1·tx − 0.05·ty + ½·0.004·tx² + ½·0.002·ty², sampled at the nodes, is found again exactly.
@@ -34,48 +29,55 @@ describe("the spread of the bow over the canting", () => {
     expect(a).toBeCloseTo(nodes[1].tiltXDeg, 12);
   });
 
-  it("is one weight at no shift when every node's fold is the same (spheres), and a Gaussian of σ·|∇Θ_R| for a linear fold", () => {
-    const still = foldSpreadKernel({ c: 40, gx: 0, gy: 0, hx: 0, hy: 0 }, sd, 0.05);
-    expect(still.first).toBe(0);
-    expect(still.weights[0]).toBeCloseTo(1, 13);
-    expect(still.weights.slice(1).every((w) => w === 0)).toBe(true);
-    // Θ_R linear in the tilt: δ = g·t is normal with σ_δ = σ·|g| (a linear map of a normal variable: common practice).
-    // The linear split between bins adds the variance of a uniform bin, 1/6 of a bin² (a triangle of half-width one bin).
-    const g = { gx: 0.12, gy: -0.05 };
-    const step = 0.05;
-    const { first, weights } = foldSpreadKernel({ c: 40, ...g, hx: 0, hy: 0 }, sd, step);
-    let sum = 0, mean = 0, second = 0;
-    weights.forEach((w, m) => {
-      const shiftDeg = (first + m) * step;
-      sum += w;
-      mean += w * shiftDeg;
-      second += w * shiftDeg * shiftDeg;
-    });
-    const expected = sd * sd * (g.gx ** 2 + g.gy ** 2) + (step * step) / 6;
-    expect(sum).toBeCloseTo(1, 12);
-    expect(Math.abs(mean)).toBeLessThan(1e-9);
-    expect(Math.abs(second - mean * mean - expected) / expected).toBeLessThan(1e-3);
+  it("gives each node one weight at no shift when every fold is the same (spheres)", () => {
+    for (const kernel of localSpreadKernels({ c: 40, gx: 0, gy: 0, hx: 0, hy: 0 }, nodes, sd, step)) {
+      expect(kernel.first).toBe(0);
+      expect(kernel.weights[0]).toBeCloseTo(1, 13);
+      expect(kernel.weights.slice(1).every((w) => w === 0)).toBe(true);
+    }
   });
 
-  it("leaves the nodes' sum as it is when every fold is the same, and otherwise moves each node's bow onto the upright node's before the spread", () => {
+  it("spreads each node over the folds of its own cell: for a fold linear in tilt x, the upright node symmetrically, the outer nodes inwards", () => {
+    // Θ_R = 40 + g·tx. The centre's cell is |tx|, |ty| < a/2: symmetric, so its kernel's mean is 0. Node (+a, 0) holds
+    // tx > a/2, where the Gaussian falls: its tilts lie below a on average, so its kernel's mean is g·(E[tx | cell] − a) < 0;
+    // node (−a, 0) the mirror image. Nodes (0, ±a) see tx spread both ways: mean 0.
+    const g = 0.2;
+    const kernels = localSpreadKernels({ c: 40, gx: g, gy: 0, hx: 0, hy: 0 }, nodes, sd, step);
+    const m = kernels.map(moments);
+    for (const k of m) expect(k.sum).toBeCloseTo(1, 12);
+    expect(Math.abs(m[0].mean)).toBeLessThan(1e-9);
+    expect(m[1].mean).toBeLessThan(-0.1 * g * a * 0.1);
+    expect(m[2].mean).toBeCloseTo(-m[1].mean, 9);
+    expect(Math.abs(m[3].mean)).toBeLessThan(1e-9);
+    // The spreads stay within what the Gaussian's ±5σ can reach: |g|·(5σ + a).
+    for (const k of kernels) expect(Math.abs((k.first + k.weights.length) * step)).toBeLessThan(g * (5 * sd + a) + 2 * step);
+  });
+
+  it("leaves the nodes' sum as it is when every fold is the same, and widens and lowers a bow whose fold moves with the tilt", () => {
     const count = 200;
     const bump = (centreBin: number) => Float64Array.from({ length: count }, (_, j) => Math.exp(-(((j - centreBin) / 3) ** 2)));
-    const step = 0.05;
     const shareOf = [0, 1, 2, 3, 4];
     const same = nodes.map((n) => bump(100).map((v) => v * n.weight));
     const out = new Float64Array(count);
-    expect(alignedCantingMean(same, shareOf, nodes, [141, 141, 141, 141, 141], sd, step, out)).toBe(true);
+    expect(localCantingMean(same, shareOf, nodes, [141, 141, 141, 141, 141], sd, step, out)).toBe(true);
     const plain = same.reduce((s, r) => s.map((v, j) => v + r[j]), new Float64Array(count));
     for (let j = 0; j < count; j++) expect(out[j]).toBeCloseTo(plain[j], 12);
-    // Nodes whose bows sit 1° apart in tilt x and not at all in y: with the quadratic's tails (none here: linear), the
-    // mean is the upright bump spread by a normal of σ·|g| = 7.5 × (1°/13°) ≈ 0.58°, whose peak falls accordingly.
-    const folds = nodes.map((n) => 141 + (n.tiltXDeg / a) * 1);
+    // Folds 1° apart per a of tilt x: each node's bump sits at its fold and is spread over its cell; the light is kept
+    // (the sum over bins) and the peak falls below the narrow bumps' 1/3 + 2·1/6 at the centre.
+    const folds = nodes.map((n) => 141 + n.tiltXDeg / a);
     const moved = nodes.map((n, k) => bump(100 + (folds[k] - 141) / step).map((v) => v * n.weight));
-    expect(alignedCantingMean(moved, shareOf, nodes, folds, sd, step, out)).toBe(true);
-    const sigmaBins = (sd / a) / step;
-    const widened = Math.sqrt(3 * 3 / 2 + sigmaBins * sigmaBins + 1 / 6);
-    // A Gaussian bump of σ₀ = 3/√2 bins convolved with a normal of σ bins: peak × σ₀/√(σ₀² + σ²) (common practice).
-    expect(Math.max(...out)).toBeCloseTo((3 / Math.sqrt(2)) / widened, 2);
-    expect(out.indexOf(Math.max(...out))).toBe(100);
+    expect(localCantingMean(moved, shareOf, nodes, folds, sd, step, out)).toBe(true);
+    const light = (row: Float64Array) => row.reduce((s, v) => s + v, 0);
+    expect(light(out)).toBeCloseTo(light(moved.reduce((s, r) => s.map((v, j) => v + r[j]), new Float64Array(count))), 6);
+    const movedSum = moved.reduce((s, r) => s.map((v, j) => v + r[j]), new Float64Array(count));
+    expect(Math.max(...out)).toBeLessThan(0.9 * Math.max(...movedSum));
+    // Mirror images sharing one share: the merged share carries both weights and the mean is the same.
+    const merged = [moved[0], moved[1], moved[2], moved[3].map((v, j) => v + moved[4][j])];
+    const symmetric = nodes.map((n, k) => (k === 4 ? folds[3] : folds[k]));
+    const twin = new Float64Array(count);
+    const single = new Float64Array(count);
+    expect(localCantingMean(merged, [0, 1, 2, 3, 3], nodes, symmetric, sd, step, twin)).toBe(true);
+    expect(localCantingMean(moved, shareOf, nodes, symmetric, sd, step, single)).toBe(true);
+    for (let j = 0; j < count; j++) expect(twin[j]).toBeCloseTo(single[j], 12);
   });
 });
