@@ -246,10 +246,10 @@ if (process.argv.includes("--write") && table.length > 0) {
     ...table,
     "",
     `The one-plane workloads' rows (580 nm) against a full sweep 8× denser (every sample traced, with this build's search): ${denseLines.join("; ")}.`,
-    "When the earlier build is main before the predicted-start search (7615d27):",
-    "Reading: the rows differ beyond 1e-5 of the peak only at the ends of runs of rays (where an order stops leaving the drop near the rim",
-    "or by total reflection): there the earlier Newton search missed rays the new search finds (1 of 1965 on the canted plane), which moves",
-    "a bin or two by up to 1.2 % of the peak; against the denser sweep the new rows are 8× nearer, so the colour figures are the earlier",
-    "build's error at those angles, not the new one's.",
+    "When the earlier build is main at fed3c0c (before the ray differentials, the same coarse sweep and look):",
+    "Reading: each trace now carries d(dir)/dv and d(point)/dv (lib/rays/shape-tracer.ts), so the in-plane search is Newton's with the",
+    "exact ∂Y/∂v (no second trace for it) and ends at a step below 1e-8 carried to first order; the traces fall by the counts above and",
+    "the rows move only where the earlier forward difference of ∂Y/∂v was off (runs' ends near the rim), where the new rows are nearer",
+    "the denser sweep. The rest of the CPU is the look, the fill and the bow tables (lib/bow/plane-bow-table.ts), not traces.",
   ]);
 }
