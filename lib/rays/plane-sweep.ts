@@ -147,11 +147,15 @@ export class PlaneTracer {
     // The Newton step still to take from the last trace (0 when it lies in the plane).
     let dv = Number.NaN;
     // The last v whose ray left in order p: a step onto a miss is halved back towards it (backtracking, Press et al.
-    // 2007 §9.7: Newton's full step from a start near the order's end in v overshoots it).
+    // 2007 §9.7: Newton's full step from a start near the order's end in v overshoots it); a search whose next step
+    // would reach the miss again stops (the root, if any, lies beyond where the order leaves).
     let vLeft = Number.NaN;
+    // The last v whose ray missed: a Newton step that would reach it again means no ray on this side of it.
+    let vMissed = Number.NaN;
     for (let step = 0; step < SEARCH_STEPS; step++) {
       if (!this.traceAt(u, v, p)) {
         if (Number.isNaN(vLeft)) return null;
+        vMissed = v;
         v = 0.5 * (v + vLeft);
         continue;
       }
@@ -169,7 +173,9 @@ export class PlaneTracer {
         dv = -y / yv;
         break;
       }
-      v -= y / yv;
+      const stepV = -y / yv;
+      if (!Number.isNaN(vMissed) && Math.sign(stepV) === Math.sign(vMissed - v) && Math.abs(stepV) >= Math.abs(vMissed - v)) return null;
+      v += stepV;
     }
     if (Number.isNaN(dv) || this.grazing()) return null;
     // The trace of (u, v) is the last one made: read its fields and path before any other trace.
