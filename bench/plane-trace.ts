@@ -248,14 +248,15 @@ if (process.argv.includes("--write") && table.length > 0) {
     `The one-plane workloads' rows (580 nm) against a full sweep 8× denser (every sample traced, with this build's search): ${denseLines.join("; ")}.`,
     "When the earlier build is main at fed3c0c (before the ray differentials, the same coarse sweep and look):",
     "Reading: each trace now carries d(dir)/dv and d(point)/dv (lib/rays/shape-tracer.ts), so the in-plane search is Newton's with the",
-    "exact ∂Y/∂v (no second trace for it), ends at a step below 1e-8 carried to first order, and halves a step that lands on a miss;",
+    "exact ∂Y/∂v (no second trace for it), ends at a step below 1e-8 carried to first order, and halves a step that lands on a miss",
+    "(stopping where the next step would reach it again);",
     "the traces fall by the counts above. Rows move at the ends of runs of rays (near the rim, where the earlier forward difference of",
     "∂Y/∂v was off or its search missed a ray): against sweeps 8× denser the new rows are as near or nearer (the two planes here;",
     "P4's canting node 1 at 590 nm, order 3: Σ|Δ| 1.7e-4 of the peak new, 2.3e-3 earlier; node 3 at 590 nm: the interpolated sweep",
     "finds a ray the denser sweep has). On 2 mm drops at arc 45° the earlier build's look found no order-3 ray at all on canting",
     "nodes 2 and 4 (its search from v = 0 failed at every look sample, windowed or not, dense or not), so their secondary bow was",
-    "missing: that is the large row and colour change there; the extra traces are that bow's and the backtracking's (P4: 164195 before it). (The new build's sweep 8× denser",
-    "finds 14138 order-3 rays, Θ 107.5–133°, on node 2 at 580 nm). The rest of the CPU is the look, the fill, allocation and the",
+    "missing: that is the large row and colour change there; the traces now include that bow's. (The new build's sweep 8× denser",
+    "finds 14138 order-3 rays, Θ 107.5–133°, on node 2 at n = 1.3339, near 580 nm's 1.3337). The rest of the CPU is the look, the fill, allocation and the",
     "bow tables, not traces.",
   ]);
 }
