@@ -32,6 +32,11 @@ export const SHAPED_COARSE_STEP = 8;
  */
 const LOOK_HALF_SEGMENTS = 64;
 const LOOK_MARGIN_DEG = 10;
+/**
+ * The look's searches end at a Newton step below this (PlaneTracer.planeRay's accept), the ray carried to first order:
+ * Θ is then off by ~½Θ_vv·1e-8 rad, nothing beside LOOK_MARGIN_DEG, and v serves only as a search's start.
+ */
+const LOOK_ACCEPT = 1e-4;
 
 /**
  * Where the coarse sweep's light lands within LOOK_MARGIN_DEG of the grid in this half-plane: the part of the pupil the
@@ -40,7 +45,7 @@ const LOOK_MARGIN_DEG = 10;
  * neighbours; the rest of the pupil sends its light of this order ≥ LOOK_MARGIN_DEG away from the grid.
  */
 function lookWindow(tracer: PlaneTracer, p: number, side: 1 | -1, thetaDeg: Float64Array, stepDeg: number): LookCells | null {
-  const look = sweepPlane(tracer, p, LOOK_HALF_SEGMENTS);
+  const look = sweepPlane(tracer, p, LOOK_HALF_SEGMENTS, undefined, LOOK_ACCEPT);
   const lo = (thetaDeg[0] - stepDeg / 2 - LOOK_MARGIN_DEG) * DEG;
   const hi = (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + LOOK_MARGIN_DEG) * DEG;
   const count = look.u.length;

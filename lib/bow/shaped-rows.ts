@@ -96,9 +96,10 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 
 /**
  * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (9: ∂Y/∂v from each
- * trace's ray differential instead of a forward difference, and no ray at grazing entry, rows move by ≤ 4.6e-5 of the
- * peak of |S1|² or |S2|² on bench/plane-trace.ts's planes, nearer a sweep 8× denser; 8: the canting mean spreads the
- * nodes' bows over the tilts, lib/bow/canting-spread.ts; 7: coarse
+ * trace's ray differential, Newton's search with step halving, no ray at grazing entry: rows move at runs' ends (P4:
+ * ≤ 7e-3 of the peak, nearer sweeps 8× denser) and where the earlier search missed a whole bow (2 mm drops at arc 45°,
+ * canting nodes 2 and 4: the secondary), BENCHMARKS.md plane-trace; 8: the canting mean spreads each node's bow over
+ * the tilts of its cell, lib/bow/canting-spread.ts; 7: coarse
  * sweeps, every 8th pupil sample traced and the rest filled by cubics where trusted, rows move by ≤ 2.7e-4 of the
  * peak; 6: the in-plane search by chord and secant steps, which finds a ray more at some runs' ends; 5: traced at
  * INDEX_NODES indices over the water's own span, indexSpan; 4: every plane interpolated from planes traced at 7 fixed

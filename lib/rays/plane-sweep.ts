@@ -54,7 +54,7 @@ const GRAZING_COS = 1e-6;
  * Measured on one plane of P4's drop canted 13° (bench/plane-trace.ts's canted plane, n 1.334): 544 of 1642 rays found
  * at their first trace instead of 16, the plane's traces 4403 → 3454, the same samples with a ray.
  */
-const NEWTON_ACCEPT = 1e-8;
+export const NEWTON_ACCEPT = 1e-8;
 /** Steps of the search for v* (Newton's, from a start within a sample or two of the curve v*(u)). */
 const SEARCH_STEPS = 16;
 
@@ -133,21 +133,33 @@ export class PlaneTracer {
 
   /**
    * The ray of order p through pupil abscissa u that leaves in the plane, starting the search at vGuess; null if none
-   * is found. Newton's method on Y(v) (Press et al. 2007 §9.4) with the exact ∂Y/∂v each trace carries (its ray
-   * differential, lib/rays/shape-tracer.ts): one trace a step. A trace whose Newton step is below NEWTON_ACCEPT ends
+   * is found (a search whose start misses stops there). Newton's method on Y(v) (Press et al. 2007 §9.4) with the
+   * exact ∂Y/∂v each trace carries (its ray differential, lib/rays/shape-tracer.ts): one trace a step. A trace whose Newton step is below `accept` ends
    * the search (without withDet): the ray at v* is the traced one carried along that step to first order in Θ, the
    * optical path and the exit offset (their v-derivatives from the differential). With withDet the Jacobian
    * determinant is computed too (one more trace, a forward difference in u).
    */
-  planeRay(u: number, vGuess: number, p: number, withDet = false): PlaneRay | null {
+  planeRay(u: number, vGuess: number, p: number, withDet = false, accept = NEWTON_ACCEPT): PlaneRay | null {
     let v = vGuess;
     let y = 0;
     let theta = 0;
     let yv = Number.NaN;
     // The Newton step still to take from the last trace (0 when it lies in the plane).
     let dv = Number.NaN;
+    // The last v whose ray left in order p: a step onto a miss is halved back towards it (backtracking, Press et al.
+    // 2007 §9.7: Newton's full step from a start near the order's end in v overshoots it); a search whose next step
+    // would reach the miss again stops (the root, if any, lies beyond where the order leaves).
+    let vLeft = Number.NaN;
+    // The last v whose ray missed: a Newton step that would reach it again means no ray on this side of it.
+    let vMissed = Number.NaN;
     for (let step = 0; step < SEARCH_STEPS; step++) {
-      if (!this.traceAt(u, v, p)) return null;
+      if (!this.traceAt(u, v, p)) {
+        if (Number.isNaN(vLeft)) return null;
+        vMissed = v;
+        v = 0.5 * (v + vLeft);
+        continue;
+      }
+      vLeft = v;
       this.exitAngles(p);
       y = this.yOut;
       theta = this.thetaOut;
@@ -157,11 +169,13 @@ export class PlaneTracer {
         break;
       }
       if (!(yv !== 0 && Number.isFinite(yv))) return null;
-      if (!withDet && Math.abs(y / yv) < NEWTON_ACCEPT) {
+      if (!withDet && Math.abs(y / yv) < accept) {
         dv = -y / yv;
         break;
       }
-      v -= y / yv;
+      const stepV = -y / yv;
+      if (!Number.isNaN(vMissed) && Math.sign(stepV) === Math.sign(vMissed - v) && Math.abs(stepV) >= Math.abs(vMissed - v)) return null;
+      v += stepV;
     }
     if (Number.isNaN(dv) || this.grazing()) return null;
     // The trace of (u, v) is the last one made: read its fields and path before any other trace.
@@ -340,8 +354,8 @@ export class RayPredictor {
   }
 }
 
-/** window: trace only the rays it wants (the others stay ok = 0). */
-export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number, window?: SweepWindow): PlaneSweep {
+/** window: trace only the rays it wants (the others stay ok = 0); accept: planeRay's (a coarser one for a look). */
+export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number, window?: SweepWindow, accept = NEWTON_ACCEPT): PlaneSweep {
   const sweep = emptySweep(p, new Float64Array(2 * halfSegments + 1));
   const predictor = new RayPredictor();
   for (const sign of [1, -1] as const) {
@@ -365,7 +379,7 @@ export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number,
         predictor.reset();
         gap = false;
       }
-      const ray = tracer.planeRay(u, predictor.guess(s, vGuess), p);
+      const ray = tracer.planeRay(u, predictor.guess(s, vGuess), p, false, accept);
       if (ray === null) continue;
       predictor.add(s, ray.v);
       storeRay(sweep, index, ray);

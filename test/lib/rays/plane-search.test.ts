@@ -39,6 +39,29 @@ describe("the search for the ray that leaves in the scattering plane", () => {
     expect(ended).toBeGreaterThan(500);
   });
 
+  it("finds the secondary's ray from v = 0 where Newton's full step lands on a miss (2 mm drop, canting node 2 of 7.5°, arc 45°)", () => {
+    // Measured: fed3c0c's search (no step halving) found no order-3 ray on this plane at any of its look's samples, and
+    // the node's secondary bow was missing from its rows. Checked here by searching again from the ray found, to
+    // |Y| < 1e-13 (withDet): the same ray, within the first-order carry's 1e-8 of a step.
+    const canted = new PlaneTracer(
+      { outline: equilibriumOutline(2000), axis: cantedAxis(-Math.sqrt(3) * 7.5, 0), n: 1.3339, maxOrder: 3, absorptionPerRadius: 0 },
+      bowScatteringPlane(10, 45),
+    );
+    const half = canted.pupilHalfWidth(1);
+    let found = 0;
+    for (let k = 0; k <= 20; k++) {
+      const u = half * Math.sin((Math.PI * k) / 64);
+      const ray = canted.planeRay(u, 0, 3);
+      if (ray === null) continue;
+      const again = canted.planeRay(u, ray.v, 3, true);
+      expect(again).not.toBeNull();
+      expect(Math.abs(again!.v - ray.v)).toBeLessThan(1e-12);
+      expect(Math.abs(again!.thetaSigned - ray.thetaSigned)).toBeLessThan(1e-10);
+      found++;
+    }
+    expect(found).toBeGreaterThan(15);
+  });
+
   it("costs fewer traces from an extrapolated start than from the last ray's v", () => {
     const count = (fn: () => void) => {
       const original = tracer.traceAt;
