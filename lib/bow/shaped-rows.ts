@@ -6,7 +6,10 @@ import { equilibriumOutline } from "../drops/shape/equilibrium-shape.js";
 import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
 import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
-import { chebyshevNodes, interpolateSweep } from "../rays/sweep-interpolation.js";
+import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
+import type { PlaneSweep } from "../rays/plane-sweep.js";
+import { addShiftedRow, leaveOneOutMiss, padFor, paddedGrid } from "./aligned-blend.js";
+import { bowFold } from "./plane-bow-table.js";
 import { WATER_INDEX_RANGE } from "../water/index-range.js";
 import {
   contextFromSweeps,
@@ -15,6 +18,7 @@ import {
   shapedPlaneRow,
   shapedPlaneSweeps,
   shapedPlaneTracer,
+  type ShapedPlaneContext,
   type ShapedPlaneOptions,
 } from "./shaped-plane-rows.js";
 
@@ -61,6 +65,13 @@ export interface ShapedRowSpec {
    */
   traceEveryIndex?: boolean;
   /**
+   * Benchmarks and tests only: how a drop's row is made from the planes traced at tracedIndices. "rows" (the default):
+   * rows of contexts at the traced indices, each shifted so that its bow lands at the fold interpolated to the drop's
+   * index, blended with Lagrange weights in n (alignedNodeRows); "sweeps": each drop's sweeps interpolated across n
+   * sample by sample and made into a context of its own (the path before issue 13's aligned rows).
+   */
+  indexBlend?: "rows" | "sweeps";
+  /**
    * The span of the drops' index the traced indices cover: the request's water over every wavelength a request may ask
    * for (lib/water/index-range.ts waterIndexSpan), so that the indices depend on the water alone; absent: the span
    * over every water the service accepts (WATER_INDEX_RANGE).
@@ -93,7 +104,8 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (7: coarse
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (8: rows blended
+ * across the index with their bows aligned, alignedNodeRows, and across shape nodes likewise; 7: coarse
  * sweeps, every 8th pupil sample traced and the rest filled by cubics where trusted, rows move by ≤ 2.7e-4 of the
  * peak; 6: the in-plane search by chord and secant steps, which finds a ray more at some runs' ends; 5: traced at
  * INDEX_NODES indices over the water's own span, indexSpan; 4: every plane interpolated from planes traced at 7 fixed
@@ -102,7 +114,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 7;
+export const SHAPED_ENGINE_VERSION = 8;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -201,6 +213,166 @@ export function orderGroupsOf(spec: ShapedRowSpec): number[] {
 }
 
 /**
+ * How far shape nodes' folds may be shifted, per unit of deformation step: twice the top of the bow's measured rate of
+ * about 1° per 0.01 of flattening (EQUILIBRIUM_NOTE; the fastest place on the bow), so that a node's row shifted to the
+ * fold interpolated between it and its neighbour never reads past its padded grid.
+ */
+const SHAPE_SHIFT_DEG_PER_STEP = 200;
+
+/**
+ * Largest leave-one-out miss (aligned-blend.ts leaveOneOutMiss) of a bow's constants κ, C, D across the traced
+ * indices for which its rows are blended aligned; past it the group's sweeps are interpolated per index as before
+ * (indexBlend "sweeps"). Measured on P4's canting node tilted 13° across the plane at the top of the bow (order 3,
+ * 1 mm): D climbs 3.9, 4.4, 5.7, 9.0, 19, 101 and falls to 0.05 over the 7 indices (the fold meets another caustic
+ * between the last two), misses ~1; the other nodes' constants miss < 1e-3.
+ */
+const CONSTANTS_MISS = 0.01;
+
+/** One part of a drop's row: contexts, their weights and fold angles (degrees; null: nothing to align). */
+interface RowSource {
+  ctx: ShapedPlaneContext;
+  weight: number;
+  foldDeg: number | null;
+}
+
+/** A shape's rows for one (canting node, order group), on a grid padded by `pad` bins a side. */
+interface PreparedGroup {
+  pad: number;
+  /** The sources of a drop's row at index n (Lagrange weights ell over the traced indices). */
+  sourcesAt: (mRe: number, ell: Float64Array) => RowSource[];
+}
+
+/**
+ * The fold angle (degrees) of a group's one bow order at each traced index; "none" where no index has one (nothing to
+ * align), "some" where only some have (the bow leaves the window, or its fold meets another caustic, between them).
+ */
+function groupFoldsDeg(sweeps: (PlaneSweep | null)[][], traced: readonly number[], group: number): Float64Array | "none" | "some" {
+  const bowOrders = SHAPED_BOW_ORDERS.filter((p) => SHAPED_ORDER_GROUPS[group].includes(p));
+  if (bowOrders.length !== 1) return "none";
+  const foldsDeg = new Float64Array(traced.length);
+  let found = 0;
+  for (let i = 0; i < traced.length; i++) {
+    const sweep = sweeps[i][bowOrders[0]];
+    const fold = sweep ? bowFold(traced[i], sweep, 1) : null;
+    if (fold !== null) found++;
+    foldsDeg[i] = fold ? fold.thetaR / DEG : Number.NaN;
+  }
+  return found === traced.length ? foldsDeg : found === 0 ? "none" : "some";
+}
+
+/** True when every context's bow constants follow one polynomial in n (CONSTANTS_MISS); contexts without a bow: true. */
+function constantsSmooth(ctxs: readonly ShapedPlaneContext[], traced: readonly number[]): boolean {
+  if (ctxs.some((ctx) => ctx.folds.length !== 1)) return ctxs.every((ctx) => ctx.folds.length === 0);
+  const keys = ["kappa", "cPerp", "cPar", "dPerp", "dPar"] as const;
+  return keys.every((key) => leaveOneOutMiss(traced, ctxs.map((ctx) => ctx.folds[0].constants[key])) <= CONSTANTS_MISS);
+}
+
+/**
+ * shapedNodeRows's default path (ShapedRowSpec.indexBlend "rows"): each shape's planes are traced at tracedIndices and
+ * made into contexts there; a drop's share is the contexts' rows at its own x, each shifted so that its bow's fold
+ * lands at the fold interpolated to the drop's index (Lagrange in n over the traced indices, Press et al. 2007 Eq.
+ * 3.2.1; and, for drops blended from two shape nodes, at the nodes' folds weighted as their rows are, linearly in
+ * deformation: shape-nodes.ts), then blended with the same Lagrange weights (lib/bow/aligned-blend.ts). Groups without
+ * a bow (reflection, transmission) blend unshifted; a group whose bow's constants do not follow a polynomial in n
+ * (CONSTANTS_MISS) has each index's sweeps interpolated and made into a context of its own, as indexBlend "sweeps"
+ * does. Shapes are prepared in ascending order and dropped once no drop left needs them, so memory stays at two
+ * shapes' contexts.
+ */
+function alignedNodeRows(
+  spec: ShapedRowSpec,
+  drops: readonly ShapedDrop[],
+  thetaDeg: Float64Array,
+  stepDeg: number,
+  asked: readonly { node: number; group: number }[],
+  out: { perp: Float64Array; par: Float64Array }[][],
+  planes: ShapedPlaneCount,
+): void {
+  const allNodes = cantingNodesFive(spec.cantingSdDeg);
+  const uses = drops.map((drop) => shapesOf(spec, drop.radiusUm));
+  const shapes = [...new Set(uses.flatMap((u) => u.map((s) => s.radiusUm)))].sort((a, b) => a - b);
+  const lastShapeOf = uses.map((u) => Math.max(...u.map((s) => s.radiusUm)));
+  const lastUse = new Map<number, number>();
+  uses.forEach((u, d) => u.forEach((s) => lastUse.set(s.radiusUm, Math.max(lastUse.get(s.radiusUm) ?? 0, lastShapeOf[d]))));
+  const plane = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
+  const near = { loRad: (thetaDeg[0] - stepDeg / 2 - NEAR_MARGIN_DEG) * DEG, hiRad: (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + NEAR_MARGIN_DEG) * DEG };
+  const traced = tracedIndices(spec);
+  const shapeShiftDeg = spec.kind === "equilibrium" ? SHAPE_SHIFT_DEG_PER_STEP * (spec.deformationStep ?? 0) : 0;
+  const prepared = new Map<number, PreparedGroup[]>();
+  const buffers = new Map<number, { perp: Float64Array; par: Float64Array }>();
+  const bufferOf = (length: number) => {
+    let buffer = buffers.get(length);
+    if (!buffer) buffers.set(length, (buffer = { perp: new Float64Array(length), par: new Float64Array(length) }));
+    return buffer;
+  };
+
+  const prepare = (shapeRadiusUm: number): PreparedGroup[] => {
+    const outline = outlineFor(spec, shapeRadiusUm);
+    const indices = [...new Set(drops.filter((_, d) => uses[d].some((s) => s.radiusUm === shapeRadiusUm)).map((drop) => drop.mRe))];
+    return asked.map(({ node: nodeIndex, group }) => {
+      const node = allNodes[nodeIndex];
+      const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
+      const options = groupOptions(spec, group);
+      const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
+      if (group === 0) planes.traced += traced.length;
+      const foldsDeg = groupFoldsDeg(sweeps, traced, group);
+      const aligned = typeof foldsDeg !== "string";
+      const pad = aligned ? padFor(Math.max(...foldsDeg) - Math.min(...foldsDeg) + shapeShiftDeg, stepDeg) : padFor(shapeShiftDeg, stepDeg);
+      const grid = paddedGrid(thetaDeg, stepDeg, pad);
+      const ctxs = foldsDeg === "some" ? [] : traced.map((n, i) => contextFromSweeps(n, sweeps[i], 1, grid, stepDeg, options));
+      if (foldsDeg === "none" || (aligned && constantsSmooth(ctxs, traced))) {
+        return { pad, sourcesAt: (_, ell) => ctxs.map((ctx, i) => ({ ctx, weight: ell[i], foldDeg: aligned ? foldsDeg[i] : null })) };
+      }
+      planes.interpolated += indices.length;
+      const own = new Map<number, RowSource>();
+      for (const mRe of indices) {
+        const tracer = shapedPlaneTracer({ outline, axis, n: mRe }, plane, options);
+        const at = sweeps[0].map((_, p) => (sweeps[0][p] ? interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer, near).sweep : null));
+        const ctx = contextFromSweeps(mRe, at, 1, grid, stepDeg, options);
+        own.set(mRe, { ctx, weight: 1, foldDeg: ctx.folds.length === 1 ? ctx.folds[0].fold.thetaR / DEG : null });
+      }
+      return { pad, sourcesAt: (mRe) => [own.get(mRe)!] };
+    });
+  };
+
+  const compose = (d: number) => {
+    const drop = drops[d];
+    const ell = lagrangeWeights(traced, drop.mRe);
+    asked.forEach(({ node: nodeIndex }, k) => {
+      const parts = uses[d].map((s) => {
+        const group = prepared.get(s.radiusUm)![k];
+        const sources = group.sourcesAt(drop.mRe, ell);
+        const aligned = sources.every((source) => source.foldDeg !== null);
+        // The part's own fold at the drop's index: the sources' folds with the sources' weights.
+        const foldDeg = aligned ? sources.reduce((sum, source) => sum + source.weight * source.foldDeg!, 0) : null;
+        return { weight: s.weight, pad: group.pad, sources, foldDeg };
+      });
+      // Shape nodes' folds meet at their weighted mean when every part has one; else each stays at its own.
+      const meet = parts.every((part) => part.foldDeg !== null) ? parts.reduce((sum, part) => sum + part.weight * part.foldDeg!, 0) : null;
+      const share = out[d][k];
+      for (const part of parts) {
+        const target = meet ?? part.foldDeg;
+        const row = bufferOf(thetaDeg.length + 2 * part.pad);
+        for (const source of part.sources) {
+          shapedPlaneRow(source.ctx, drop.x, row.perp, row.par);
+          const shiftDeg = target !== null && source.foldDeg !== null ? target - source.foldDeg : 0;
+          const w = allNodes[nodeIndex].weight * part.weight * source.weight;
+          addShiftedRow(row.perp, part.pad, shiftDeg, stepDeg, w, share.perp);
+          addShiftedRow(row.par, part.pad, shiftDeg, stepDeg, w, share.par);
+        }
+      }
+    });
+  };
+
+  for (const shapeRadiusUm of shapes) {
+    prepared.set(shapeRadiusUm, prepare(shapeRadiusUm));
+    drops.forEach((_, d) => {
+      if (lastShapeOf[d] === shapeRadiusUm) compose(d);
+    });
+    for (const radiusUm of [...prepared.keys()]) if (lastUse.get(radiusUm)! <= shapeRadiusUm) prepared.delete(radiusUm);
+  }
+}
+
+/**
  * Each drop's share of |S1|², |S2|² from each of the canting nodes asked for (indices into cantingNodesFive; default:
  * all) and each order group asked for (spec.orderGroup, else every group of SHAPED_ORDER_GROUPS), weighted by the
  * node's weight, for flattened drops (a spheroid's fixed axis ratio, or equilibrium drops, each its own shape or
@@ -227,6 +399,10 @@ export function shapedNodeRows(
   const out = drops.map(() => asked.map(() => ({ perp: new Float64Array(thetaDeg.length), par: new Float64Array(thetaDeg.length) })));
   const planes: ShapedPlaneCount = { traced: 0, interpolated: 0 };
   if (drops.length === 0) return { rows: out, planes };
+  if (spec.traceEveryIndex !== true && (spec.indexBlend ?? "rows") === "rows") {
+    alignedNodeRows(spec, drops, thetaDeg, stepDeg, asked, out, planes);
+    return { rows: out, planes };
+  }
   // Each drop's shapes and weights; then each shape is traced once, for every drop that uses it.
   const uses = drops.map((drop) => shapesOf(spec, drop.radiusUm));
   const shapes = [...new Set(uses.flatMap((u) => u.map((s) => s.radiusUm)))].sort((a, b) => a - b);
