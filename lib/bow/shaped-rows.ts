@@ -189,7 +189,10 @@ export interface ShapedDrop {
   x: number;
 }
 
-/** Scattering planes a computation traced and interpolated across the index (what the cost estimates count). */
+/**
+ * Scattering planes a computation traced, and planes made per wavelength from those (interpolated across the index:
+ * aligned rows, or interpolated sweeps where a bow needs them), what the cost estimates count.
+ */
 export interface ShapedPlaneCount {
   traced: number;
   interpolated: number;
@@ -313,7 +316,11 @@ function alignedNodeRows(
       const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
       const options = groupOptions(spec, group);
       const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
-      if (group === 0) planes.traced += traced.length;
+      // Each wavelength's plane counts as one "interpolated" plane, made by aligned rows or interpolated sweeps alike.
+      if (group === 0) {
+        planes.traced += traced.length;
+        planes.interpolated += indices.length;
+      }
       const foldsDeg = groupFoldsDeg(sweeps, traced, group);
       const aligned = typeof foldsDeg !== "string";
       const pad = aligned ? padFor(Math.max(...foldsDeg) - Math.min(...foldsDeg) + shapeShiftDeg, stepDeg) : padFor(shapeShiftDeg, stepDeg);
@@ -322,7 +329,6 @@ function alignedNodeRows(
       if (foldsDeg === "none" || (aligned && constantsSmooth(ctxs, traced))) {
         return { pad, sourcesAt: (_, ell) => ctxs.map((ctx, i) => ({ ctx, weight: ell[i], foldDeg: aligned ? foldsDeg[i] : null })) };
       }
-      planes.interpolated += indices.length;
       const own = new Map<number, RowSource>();
       for (const mRe of indices) {
         const tracer = shapedPlaneTracer({ outline, axis, n: mRe }, plane, options);
