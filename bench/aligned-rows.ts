@@ -6,7 +6,9 @@
 // same 2 worker threads; CPU time of the process and its threads (process.cpuUsage) per variant, so the ratios are
 // same-run figures. Colour: CIEDE2000 per angle (Luo, Cui & Rigg 2001, via colorjs.io) on CIE 1931 XYZ scaled by the
 // reference's peak Y over ψ 30–60°, after the sun's disc as the service computes profiles (bench/auto-presets.ts windowDeltaE).
-// node dist/bench/aligned-rows.js [--showers] [--steps=0.01,0.02] [--write]
+// node dist/bench/aligned-rows.js [--showers] [--only=TEXT] [--steps=0.01,0.02] [--write[=SECTION]]
+// (--only: the workloads whose name holds TEXT; --write: the aligned-rows section of BENCHMARKS.md, or the named one, so
+// that runs of different workloads keep their own sections)
 
 import { loadavg } from "node:os";
 import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
@@ -71,11 +73,12 @@ try {
 } finally {
   await pool.close();
 }
-if (args.includes("--write")) {
-  writeMarkedSection("aligned-rows", [
-    "## Flattened drops: rows blended across the index and the shape with their bows aligned",
+const write = args.find((a) => a === "--write" || a.startsWith("--write="));
+if (write) {
+  writeMarkedSection(write.includes("=") ? write.slice(8) : "aligned-rows", [
+    `## Flattened drops: rows blended across the index and the shape with their bows aligned${only ? ` (${only})` : ""}`,
     "",
-    `Written by \`npm run bench:aligned-rows\` (bench/aligned-rows.ts), ${benchDate()}; ${machineLine()}; 2 worker threads; one-minute load`,
+    `Written by \`node dist/bench/aligned-rows.js ${args.join(" ")}\` (bench/aligned-rows.ts), ${benchDate()}; ${machineLine()}; 2 worker threads; one-minute load`,
     `average ${load.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end. Sun 10°. Reference: every plane traced at each wavelength's own`,
     "index, every radius its own shape (traceEveryIndex). \"Aligned rows\": contexts at the traced indices only, each row shifted so its bow's",
     "fold lands at the fold interpolated to the drop's index, blended with Lagrange weights (with shape nodes: also aligned across",
