@@ -8,7 +8,7 @@ import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
 import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
 import type { PlaneSweep } from "../rays/plane-sweep.js";
-import { addShiftedRow, leaveOneOutMiss, padFor, paddedGrid } from "./aligned-blend.js";
+import { addShiftedContext, leaveOneOutMiss, leaveOneOutRowMiss, padFor, paddedGrid, shiftScratch, type ShiftScratch } from "./aligned-blend.js";
 import { bowFold } from "./plane-bow-table.js";
 import { WATER_INDEX_RANGE } from "../water/index-range.js";
 import {
@@ -243,6 +243,18 @@ function defaultIndexBlend(spec: ShapedRowSpec): "rows" | "sweeps" {
  */
 const CONSTANTS_MISS = 0.01;
 
+/**
+ * Largest leave-one-out miss of a group's rows (aligned-blend.ts leaveOneOutRowMiss, at the largest x of its drops,
+ * averaged over the sun's half-width each side) for which they are blended aligned; past it the group's sweeps are
+ * interpolated per index. Leaving a node out doubles the spacing the blend bridges, so the miss overstates the
+ * blend's own error. Measured (rows averaged over 0.5° against tracing each index): aligned rows within 1e-3 of the
+ * peak on 1 mm drops at the top; 2.5 mm drops at the top carry a second caustic in the secondary's window, 3,000 times
+ * the reflection, that one shift does not follow (0.74 of the peak off).
+ */
+const ROWS_MISS = 0.02;
+/** The sun's angular radius, 0.266° (common practice: its disc is 0.53° across), rounded. */
+const SUN_HALF_WIDTH_DEG = 0.25;
+
 /** One part of a drop's row: contexts, their weights and fold angles (degrees; null: nothing to align). */
 interface RowSource {
   ctx: ShapedPlaneContext;
@@ -289,8 +301,9 @@ function constantsSmooth(ctxs: readonly ShapedPlaneContext[], traced: readonly n
  * 3.2.1; and, for drops blended from two shape nodes, at the nodes' folds weighted as their rows are, linearly in
  * deformation: shape-nodes.ts), then blended with the same Lagrange weights (lib/bow/aligned-blend.ts). Groups without
  * a bow (reflection, transmission) blend unshifted; a group whose bow's constants do not follow a polynomial in n
- * (CONSTANTS_MISS) has each index's sweeps interpolated and made into a context of its own, as indexBlend "sweeps"
- * does. Shapes are prepared in ascending order and dropped once no drop left needs them, so memory stays at two
+ * (CONSTANTS_MISS), or whose rows the aligned blend does not rebuild (ROWS_MISS), has each index's sweeps interpolated
+ * and made into a context of its own, as indexBlend "sweeps" does. Bows are shifted exactly (aligned-blend.ts
+ * addShiftedContext). Shapes are prepared in ascending order and dropped once no drop left needs them, so memory stays at two
  * shapes' contexts.
  */
 function alignedNodeRows(
@@ -313,11 +326,11 @@ function alignedNodeRows(
   const traced = tracedIndices(spec);
   const shapeShiftDeg = spec.kind === "equilibrium" ? SHAPE_SHIFT_DEG_PER_STEP * (spec.deformationStep ?? 0) : 0;
   const prepared = new Map<number, PreparedGroup[]>();
-  const buffers = new Map<number, { perp: Float64Array; par: Float64Array }>();
-  const bufferOf = (length: number) => {
-    let buffer = buffers.get(length);
-    if (!buffer) buffers.set(length, (buffer = { perp: new Float64Array(length), par: new Float64Array(length) }));
-    return buffer;
+  const scratches = new Map<number, ShiftScratch>();
+  const scratchOf = (pad: number) => {
+    let scratch = scratches.get(pad);
+    if (!scratch) scratches.set(pad, (scratch = shiftScratch(thetaDeg.length + 2 * pad, thetaDeg.length)));
+    return scratch;
   };
 
   const prepare = (shapeRadiusUm: number): PreparedGroup[] => {
@@ -338,7 +351,9 @@ function alignedNodeRows(
       const pad = aligned ? padFor(Math.max(...foldsDeg) - Math.min(...foldsDeg) + shapeShiftDeg, stepDeg) : padFor(shapeShiftDeg, stepDeg);
       const grid = paddedGrid(thetaDeg, stepDeg, pad);
       const ctxs = foldsDeg === "some" ? [] : traced.map((n, i) => contextFromSweeps(n, sweeps[i], 1, grid, stepDeg, options));
-      if (foldsDeg === "none" || (aligned && constantsSmooth(ctxs, traced))) {
+      const xMax = Math.max(...drops.filter((_, d) => uses[d].some((s) => s.radiusUm === shapeRadiusUm)).map((drop) => drop.x));
+      const followed = () => leaveOneOutRowMiss(traced, ctxs, foldsDeg as Float64Array, xMax, pad, stepDeg, thetaDeg.length, Math.round(SUN_HALF_WIDTH_DEG / stepDeg)) <= ROWS_MISS;
+      if (foldsDeg === "none" || (aligned && constantsSmooth(ctxs, traced) && followed())) {
         return { pad, sourcesAt: (_, ell) => ctxs.map((ctx, i) => ({ ctx, weight: ell[i], foldDeg: aligned ? foldsDeg[i] : null })) };
       }
       const own = new Map<number, RowSource>();
@@ -369,13 +384,11 @@ function alignedNodeRows(
       const share = out[d][k];
       for (const part of parts) {
         const target = meet ?? part.foldDeg;
-        const row = bufferOf(thetaDeg.length + 2 * part.pad);
+        const scratch = scratchOf(part.pad);
         for (const source of part.sources) {
-          shapedPlaneRow(source.ctx, drop.x, row.perp, row.par);
           const shiftDeg = target !== null && source.foldDeg !== null ? target - source.foldDeg : 0;
           const w = allNodes[nodeIndex].weight * part.weight * source.weight;
-          addShiftedRow(row.perp, part.pad, shiftDeg, stepDeg, w, share.perp);
-          addShiftedRow(row.par, part.pad, shiftDeg, stepDeg, w, share.par);
+          addShiftedContext(source.ctx, drop.x, part.pad, shiftDeg, stepDeg, w, share.perp, share.par, scratch);
         }
       }
     });
