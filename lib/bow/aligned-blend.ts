@@ -125,9 +125,7 @@ export function addShiftedContext(
   const shiftBins = shiftDeg / stepDeg;
   const last = rays.perp.length - 1;
   for (const source of ctx.bowTables) {
-    bow.perp.fill(0);
-    bow.par.fill(0);
-    addUniformBowBins(source, x, 1, bow.perp, bow.par);
+    let mixed = false;
     for (let j = 0; j < perp.length; j++) {
       const at = Math.min(Math.max(j + pad - shiftBins, 0), last);
       const i = Math.floor(at);
@@ -140,12 +138,20 @@ export function addShiftedContext(
         table.vPar[j] = lerp(source.vPar, at);
         table.zHatEdges[j] = lerp(source.zHatEdges, at);
         table.zHatEdges[j + 1] = lerp(source.zHatEdges, at + 1);
-      } else {
-        perp[j] += weight * lerp(bow.perp, at);
-        par[j] += weight * lerp(bow.par, at);
-      }
+      } else if (source.uniform[i] === 1 || (at !== i && source.uniform[i + 1] === 1)) mixed = true;
     }
     addUniformBowBins(table, x, weight, perp, par);
+    // Bins that read one uniform bin and one that is not take the bow's bin means, interpolated; elsewhere they are 0.
+    if (!mixed) continue;
+    bow.perp.fill(0);
+    bow.par.fill(0);
+    addUniformBowBins(source, x, 1, bow.perp, bow.par);
+    for (let j = 0; j < perp.length; j++) {
+      if (table.uniform[j]) continue;
+      const at = Math.min(Math.max(j + pad - shiftBins, 0), last);
+      perp[j] += weight * lerp(bow.perp, at);
+      par[j] += weight * lerp(bow.par, at);
+    }
   }
 }
 
