@@ -2,7 +2,7 @@
 // canting: the engine behind kernel rows for drops that are not spheres (lib/bow/kernel-rows.ts).
 
 import { cantingNodesFive } from "../drops/shape/canting.js";
-import { equilibriumOutline } from "../drops/shape/equilibrium-shape.js";
+import { equilibriumOutline, SHAPE_TABLE_MAX_DIAMETER_MM } from "../drops/shape/equilibrium-shape.js";
 import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
 import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
@@ -10,7 +10,7 @@ import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep
 import type { PlaneSweep } from "../rays/plane-sweep.js";
 import { addShiftedContext, leaveOneOutMiss, leaveOneOutRowMiss, padFor, paddedGrid, shiftScratch, type ShiftScratch } from "./aligned-blend.js";
 import { bowFold } from "./plane-bow-table.js";
-import { WATER_INDEX_RANGE } from "../water/index-range.js";
+import { REQUEST_WAVELENGTHS_NM, WATER_INDEX_RANGE } from "../water/index-range.js";
 import {
   contextFromSweeps,
   SHAPED_BOW_ORDERS,
@@ -244,7 +244,7 @@ function defaultIndexBlend(spec: ShapedRowSpec): "rows" | "sweeps" {
 const CONSTANTS_MISS = 0.01;
 
 /**
- * Largest leave-one-out miss of a group's rows (aligned-blend.ts leaveOneOutRowMiss, at the largest x of its drops,
+ * Largest leave-one-out miss of a group's rows (aligned-blend.ts leaveOneOutRowMiss, at checkX,
  * averaged over the sun's half-width each side) for which they are blended aligned; past it the group's sweeps are
  * interpolated per index. Leaving a node out doubles the spacing the blend bridges, so the miss overstates the
  * blend's own error. Measured (rows averaged over 0.5° against tracing each index): aligned rows within 1e-3 of the
@@ -252,6 +252,16 @@ const CONSTANTS_MISS = 0.01;
  * the reflection, that one shift does not follow (0.74 of the peak off).
  */
 const ROWS_MISS = 0.02;
+/**
+ * The size parameter the row check (ROWS_MISS) is made at: the shape's radius (a spheroid's: the largest tabulated
+ * drop's, as its rows serve every radius) in the shortest wavelength a request may ask for, where the bow is sharpest.
+ * It depends on the shape alone, never on the drops of a task, so that a row is the same whichever wavelengths and
+ * radii were computed with it.
+ */
+function checkX(shapeRadiusUm: number): number {
+  const radiusUm = shapeRadiusUm > 0 ? shapeRadiusUm : (SHAPE_TABLE_MAX_DIAMETER_MM * 1000) / 2;
+  return (2 * Math.PI * radiusUm) / (REQUEST_WAVELENGTHS_NM.fresh.min * 1e-3);
+}
 /** The sun's angular radius, 0.266° (common practice: its disc is 0.53° across), rounded. */
 const SUN_HALF_WIDTH_DEG = 0.25;
 
@@ -351,8 +361,7 @@ function alignedNodeRows(
       const pad = aligned ? padFor(Math.max(...foldsDeg) - Math.min(...foldsDeg) + shapeShiftDeg, stepDeg) : padFor(shapeShiftDeg, stepDeg);
       const grid = paddedGrid(thetaDeg, stepDeg, pad);
       const ctxs = foldsDeg === "some" ? [] : traced.map((n, i) => contextFromSweeps(n, sweeps[i], 1, grid, stepDeg, options));
-      const xMax = Math.max(...drops.filter((_, d) => uses[d].some((s) => s.radiusUm === shapeRadiusUm)).map((drop) => drop.x));
-      const followed = () => leaveOneOutRowMiss(traced, ctxs, foldsDeg as Float64Array, xMax, pad, stepDeg, thetaDeg.length, Math.round(SUN_HALF_WIDTH_DEG / stepDeg)) <= ROWS_MISS;
+      const followed = () => leaveOneOutRowMiss(traced, ctxs, foldsDeg as Float64Array, checkX(shapeRadiusUm), pad, stepDeg, thetaDeg.length, Math.round(SUN_HALF_WIDTH_DEG / stepDeg)) <= ROWS_MISS;
       if (foldsDeg === "none" || (aligned && constantsSmooth(ctxs, traced) && followed())) {
         return { pad, sourcesAt: (_, ell) => ctxs.map((ctx, i) => ({ ctx, weight: ell[i], foldDeg: aligned ? foldsDeg[i] : null })) };
       }
