@@ -34,12 +34,12 @@ const WORKLOADS: Workload[] = [
 ];
 
 /** Items as the direct reference computes them: each flattened drop's plane traced at its own index. */
-function tracedDirectly(items: KernelTask["items"]): KernelTask["items"] {
+export function tracedDirectly(items: KernelTask["items"]): KernelTask["items"] {
   return items.map((item) => ({ ...item, medium: undefined, ...(item.shape ? { shape: { ...item.shape, traceEveryIndex: true } } : {}) }));
 }
 
 /** The pool's compute with every task of several wavelengths cut into one task per wavelength, each plane traced at its own index (the direct reference). */
-function perWavelength(compute: KernelCompute): KernelCompute {
+export function perWavelength(compute: KernelCompute): KernelCompute {
   return async (task, signal) => {
     const media = [...new Set(task.items.map((item) => item.medium ?? task.medium))];
     if (media.length === 1) return compute({ ...task, medium: media[0], items: tracedDirectly(task.items) }, signal);

@@ -2,7 +2,7 @@
 // machine; writes the "shapes" section of BENCHMARKS.md.
 // Measured: the default profile `{}` (spheres, the service's default), cold and warm; P4 (1 mm equilibrium drops, one
 // radius node), cold and warm. With --full also Marshall–Palmer 25 mm/h with equilibrium shapes, cold. Then the CPU
-// time of one traced scattering plane and of one plane interpolated across the refractive index (P4's drop, in this
+// time of one traced scattering plane and of one plane made per wavelength from the traced ones (P4's drop, in this
 // process: lib/bow/shaped-rows.ts's shapedRows at one wavelength and at the request's wavelengths). Without --full,
 // Marshall–Palmer 25 mm/h and the default with equilibrium shapes are projected from those: shapes × canting nodes ×
 // (traced planes × traced CPU + interpolated planes × interpolated CPU) over 2 cores, and marked "projected", never
@@ -103,9 +103,10 @@ writeMarkedSection("shapes", [
     (Math.max(loadBefore, loadAfter) > cpus().length ? " (above the core count: other processes shared the cores, so times are inflated)." : "."),
   "Cold and warm as in the table of whole profiles above (cold: empty kernel cache, threads warmed by another request; warm:",
   "median of 5 on the filled cache). Planes: traced + interpolated scattering planes as the service computes them now (a",
-  `task holds one shape at every wavelength; each plane is traced at ${INDEX_NODES} refractive indices, the other wavelengths'`,
-  "interpolated across the index: lib/rays/sweep-interpolation.ts; a traced plane traces every 8th pupil sample and fills the",
-  "rest where its cubic is trusted: lib/rays/coarse-sweep.ts); \"before\": one traced plane per flattened radius node,",
+  `task holds one shape at every wavelength; each plane is traced at ${INDEX_NODES} refractive indices, each wavelength's row`,
+  "blended from their rows with the bows aligned, lib/bow/aligned-blend.ts, or where a bow's constants are not polynomial in n",
+  "from sweeps interpolated across the index, lib/rays/sweep-interpolation.ts; a traced plane traces every 8th pupil sample and",
+  "fills the rest where its cubic is trusted: lib/rays/coarse-sweep.ts); \"before\": one traced plane per flattened radius node,",
   `wavelength and canting node, as before. CPU per plane, measured in this process on P4's drop over 600 bins: traced`,
   `${tracedMs.toFixed(0)} ms, interpolated ${interpolatedMs.toFixed(0)} ms (medians of 5 and 3 runs). Projected rows are planes × those times over 2 free cores, not measured`,
   "(`-- --full` measures Marshall–Palmer 25 mm/h). Goals (issue 13): default cold ≤ 1.5 s, warm ≤ 20 ms; Marshall–Palmer",

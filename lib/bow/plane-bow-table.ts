@@ -122,7 +122,8 @@ export function findFold(sweep: PlaneSweep, side: 1 | -1, nearRad: number): Plan
   };
 }
 
-interface FoldConstants {
+/** The fold's uniform-form constants (header): ξ per radian κ and the C, D of each polarisation. */
+export interface FoldConstants {
   kappa: number;
   cPerp: number;
   cPar: number;
@@ -210,6 +211,14 @@ export function foldPair(sweep: PlaneSweep, side: 1 | -1, fold: PlaneFold, targe
   return inner === null || outer === null ? null : [inner, outer];
 }
 
+/** The fold of the sweep's order nearest the sphere's bow of index n (findFold); null if the order has none there. */
+export function bowFold(n: number, sweep: PlaneSweep, side: 1 | -1): PlaneFold | null {
+  const descartes = rainbowImpactParameter(n, sweep.order - 1);
+  if (descartes === null) return null;
+  const nearRad = scatteringAngleOfDeviation(deviationRad(n, sweep.order - 1, descartes)).angle;
+  return findFold(sweep, side, nearRad);
+}
+
 /**
  * The uniform bow table of one order in one half-plane on bins of width stepDeg centred on thetaDeg, with the
  * segments of the fold's two pieces marked in `pairSegments` (their light is in the table; the other segments of
@@ -221,11 +230,8 @@ export function planeBowTable(
   side: 1 | -1,
   thetaDeg: Float64Array,
   stepDeg: number,
-): { table: UniformBowTable; pairSegments: Uint8Array; fold: PlaneFold } | null {
-  const descartes = rainbowImpactParameter(tracer.setup.n, sweep.order - 1);
-  if (descartes === null) return null;
-  const nearRad = scatteringAngleOfDeviation(deviationRad(tracer.setup.n, sweep.order - 1, descartes)).angle;
-  const fold = findFold(sweep, side, nearRad);
+): { table: UniformBowTable; pairSegments: Uint8Array; fold: PlaneFold; constants: FoldConstants } | null {
+  const fold = bowFold(tracer.setup.n, sweep, side);
   if (fold === null) return null;
   const constants = foldConstants(sweep, fold);
   const count = thetaDeg.length;
@@ -279,5 +285,5 @@ export function planeBowTable(
     table.vPerp[j] = (Math.PI * difPerp * difPerp) / Math.sqrt(z);
     table.vPar[j] = (Math.PI * difPar * difPar) / Math.sqrt(z);
   }
-  return { table, pairSegments, fold };
+  return { table, pairSegments, fold, constants };
 }

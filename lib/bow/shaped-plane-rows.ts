@@ -6,7 +6,7 @@ import { PlaneTracer, sweepPlane, type PlaneSweep, type ScatteringPlane, type Sw
 import { sweepPlaneCoarse } from "../rays/coarse-sweep.js";
 import type { DropTraceSetup } from "../rays/shape-tracer.js";
 import { addUniformBowBins, type UniformBowTable } from "./airy-bins.js";
-import { planeBowTable, type PlaneFold } from "./plane-bow-table.js";
+import { planeBowTable, type FoldConstants, type PlaneFold } from "./plane-bow-table.js";
 import { planeRayBins } from "./plane-ray-bins.js";
 import type { RayBins } from "./ray-bins.js";
 // The cell [u[s], u[s + 1]] of ascending pupil samples that holds u.
@@ -104,8 +104,8 @@ export interface ShapedPlaneContext {
   /** What scales as x²: ray optics of the orders without a bow, and of the bow orders where their table does not serve. */
   raysPerX2: RayBins;
   bowTables: UniformBowTable[];
-  /** The folds found (geometric bow angles of this half-plane), by order. */
-  folds: { order: number; fold: PlaneFold }[];
+  /** The folds found (geometric bow angles of this half-plane), by order, with their uniform-form constants. */
+  folds: { order: number; fold: PlaneFold; constants: FoldConstants }[];
 }
 
 export interface ShapedPlaneOptions {
@@ -212,7 +212,7 @@ export function contextFromSweeps(
       planeRayBins(sweep, side, thetaDeg, stepDeg, undefined, raysPerX2);
       continue;
     }
-    folds.push({ order: p, fold: bow.fold });
+    folds.push({ order: p, fold: bow.fold, constants: bow.constants });
     const others = planeRayBins(sweep, side, thetaDeg, stepDeg, bow.pairSegments);
     const all = bow.table.uniform.every((u) => u === 1) ? null : planeRayBins(sweep, side, thetaDeg, stepDeg);
     for (let j = 0; j < count; j++) {

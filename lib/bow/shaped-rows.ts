@@ -1,15 +1,18 @@
 // |S1|², |S2|² of one flattened drop at one wavelength and one place on the bow, averaged over the drops'
 // canting: the engine behind kernel rows for drops that are not spheres (lib/bow/kernel-rows.ts).
 
-import { equilibriumOutline } from "../drops/shape/equilibrium-shape.js";
+import { equilibriumOutline, SHAPE_TABLE_MAX_DIAMETER_MM } from "../drops/shape/equilibrium-shape.js";
 import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
 import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
 import { planeCantingNodeOf, planeCantingNodes } from "./plane-canting-nodes.js";
 import { localCantingMean } from "./canting-spread.js";
 import { cantingNodesFive } from "../drops/shape/canting.js";
-import { chebyshevNodes, interpolateSweep } from "../rays/sweep-interpolation.js";
-import { WATER_INDEX_RANGE } from "../water/index-range.js";
+import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
+import type { PlaneSweep } from "../rays/plane-sweep.js";
+import { addShiftedContext, leaveOneOutMiss, leaveOneOutRowMiss, padFor, paddedGrid, shiftScratch, type ShiftScratch } from "./aligned-blend.js";
+import { bowFold } from "./plane-bow-table.js";
+import { REQUEST_WAVELENGTHS_NM, WATER_INDEX_RANGE } from "../water/index-range.js";
 import {
   contextFromSweeps,
   SHAPED_BOW_ORDERS,
@@ -17,6 +20,7 @@ import {
   shapedPlaneRow,
   shapedPlaneSweeps,
   shapedPlaneTracer,
+  type ShapedPlaneContext,
   type ShapedPlaneOptions,
 } from "./shaped-plane-rows.js";
 
@@ -47,9 +51,12 @@ export interface ShapedRowSpec {
   axisRatio?: number;
   /**
    * Equilibrium only: each radius's row is blended from the rows, at its own size, of the two shape nodes this far
-   * apart in deformation 1 − q that bracket its shape (lib/drops/shape/shape-nodes.ts), so that radii share traced
-   * planes; 0 or absent (what the service asks for: the colour this costs is measured in BENCHMARKS.md, shape-nodes):
-   * every radius its own shape.
+   * apart in deformation 1 − q that bracket its shape (lib/drops/shape/shape-nodes.ts), each shifted so that its bow
+   * lands at the nodes' folds weighted as their rows, so that radii share traced planes; 0 or absent (what the service
+   * asks for): every radius its own shape. Measured against every radius traced (bench/aligned-rows.ts --steps,
+   * 2026-12-03 20:10–21:00 UTC, rows then shifted by interpolating bin means; Marshall–Palmer showers, 20 nm, top of the
+   * bow): worst ΔE2000 0.25 at step 0.005 without canting at 2 mm/h, but 5.7 with canting 7.5° and 72 at 25 mm/h,
+   * where large drops' bows change form between nodes.
    */
   deformationStep?: number;
   cantingSdDeg: number;
@@ -62,6 +69,14 @@ export interface ShapedRowSpec {
    * (the reference the interpolation is measured against).
    */
   traceEveryIndex?: boolean;
+  /**
+   * Benchmarks and tests only: how a drop's row is made from the planes traced at tracedIndices. "rows" (the default
+   * for Airy-type bows; ray optics alone: "sweeps", defaultIndexBlend):
+   * rows of contexts at the traced indices, each shifted so that its bow lands at the fold interpolated to the drop's
+   * index, blended with Lagrange weights in n (alignedNodeRows); "sweeps": each drop's sweeps interpolated across n
+   * sample by sample and made into a context of its own (the path before issue 13's aligned rows).
+   */
+  indexBlend?: "rows" | "sweeps";
   /**
    * The span of the drops' index the traced indices cover: the request's water over every wavelength a request may ask
    * for (lib/water/index-range.ts waterIndexSpan), so that the indices depend on the water alone; absent: the span
@@ -95,7 +110,9 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (9: ∂Y/∂v from each
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (10: rows blended
+ * across the index with their bows aligned, alignedNodeRows (each wavelength's row from the rows at the traced indices,
+ * shifted so that their folds meet); 9: ∂Y/∂v from each
  * trace's ray differential, Newton's search with step halving, no ray at grazing entry: rows move at runs' ends (P4:
  * ≤ 7e-3 of the peak, nearer sweeps 8× denser) and where the earlier search missed a whole bow (2 mm drops at arc 45°,
  * canting nodes 2 and 4: the secondary), BENCHMARKS.md plane-trace; 8: the canting mean spreads each node's bow over
@@ -108,7 +125,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 9;
+export const SHAPED_ENGINE_VERSION = 10;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -183,7 +200,10 @@ export interface ShapedDrop {
   x: number;
 }
 
-/** Scattering planes a computation traced and interpolated across the index (what the cost estimates count). */
+/**
+ * Scattering planes a computation traced, and planes made per wavelength from those (interpolated across the index:
+ * aligned rows, or interpolated sweeps where a bow needs them), what the cost estimates count.
+ */
 export interface ShapedPlaneCount {
   traced: number;
   interpolated: number;
@@ -204,6 +224,205 @@ export function orderGroupsOf(spec: ShapedRowSpec): number[] {
     throw new RangeError(`orderGroup ${spec.orderGroup} is not one of 0…${SHAPED_ORDER_GROUPS.length - 1}`);
   }
   return [spec.orderGroup];
+}
+
+/**
+ * How far shape nodes' folds may be shifted, per unit of deformation step: twice the top of the bow's measured rate of
+ * about 1° per 0.01 of flattening (EQUILIBRIUM_NOTE; the fastest place on the bow), so that a node's row shifted to the
+ * fold interpolated between it and its neighbour never reads past its padded grid.
+ */
+const SHAPE_SHIFT_DEG_PER_STEP = 200;
+
+/**
+ * Airy-type rows are blended aligned; ray optics alone (rayOnly) keeps interpolated sweeps: its bow is a caustic whose
+ * bin means (finite only as means of an integrable 1/√ spike) change shape with the caustic's place within its bin, which
+ * a shift by linear interpolation does not follow. Measured on 1 mm equilibrium drops at the top of the bow, canting
+ * 7.5°, 3 wavelengths, rows averaged over 0.5° against tracing each index: aligned rows off by up to 0.18 of the peak,
+ * interpolated sweeps by 1.4e-3.
+ */
+function defaultIndexBlend(spec: ShapedRowSpec): "rows" | "sweeps" {
+  return spec.rayOnly ? "sweeps" : "rows";
+}
+
+/**
+ * Largest leave-one-out miss (aligned-blend.ts leaveOneOutMiss) of a bow's constants κ, C, D across the traced
+ * indices for which its rows are blended aligned; past it the group's sweeps are interpolated per index as before
+ * (indexBlend "sweeps"). Measured on P4's canting node tilted 13° across the plane at the top of the bow (order 3,
+ * 1 mm): D climbs 3.9, 4.4, 5.7, 9.0, 19, 101 and falls to 0.05 over the 7 indices (the fold meets another caustic
+ * between the last two), misses ~1; the other nodes' constants miss < 1e-3.
+ */
+const CONSTANTS_MISS = 0.01;
+
+/**
+ * Largest leave-one-out miss of a group's rows (aligned-blend.ts leaveOneOutRowMiss, at checkX,
+ * averaged over the sun's half-width each side) for which they are blended aligned; past it the group's sweeps are
+ * interpolated per index. Leaving a node out doubles the spacing the blend bridges, so the miss overstates the
+ * blend's own error. Measured (rows averaged over 0.5° against tracing each index): aligned rows within 1e-3 of the
+ * peak on 1 mm drops at the top; 2.5 mm drops at the top carry a second caustic in the secondary's window, 3,000 times
+ * the reflection, that one shift does not follow (0.74 of the peak off).
+ */
+const ROWS_MISS = 0.02;
+/**
+ * The size parameter the row check (ROWS_MISS) is made at: the shape's radius (a spheroid's: the largest tabulated
+ * drop's, as its rows serve every radius) in the shortest wavelength a request may ask for, where the bow is sharpest.
+ * It depends on the shape alone, never on the drops of a task, so that a row is the same whichever wavelengths and
+ * radii were computed with it.
+ */
+function checkX(shapeRadiusUm: number): number {
+  const radiusUm = shapeRadiusUm > 0 ? shapeRadiusUm : (SHAPE_TABLE_MAX_DIAMETER_MM * 1000) / 2;
+  return (2 * Math.PI * radiusUm) / (REQUEST_WAVELENGTHS_NM.fresh.min * 1e-3);
+}
+/** The sun's angular radius, 0.266° (common practice: its disc is 0.53° across), rounded. */
+const SUN_HALF_WIDTH_DEG = 0.25;
+
+/** One part of a drop's row: contexts, their weights and fold angles (degrees; null: nothing to align). */
+interface RowSource {
+  ctx: ShapedPlaneContext;
+  weight: number;
+  foldDeg: number | null;
+}
+
+/** A shape's rows for one (canting node, order group), on a grid padded by `pad` bins a side. */
+interface PreparedGroup {
+  pad: number;
+  /** The sources of a drop's row at index n (Lagrange weights ell over the traced indices). */
+  sourcesAt: (mRe: number, ell: Float64Array) => RowSource[];
+}
+
+/**
+ * The fold angle (degrees) of a group's one bow order at each traced index; "none" where no index has one (nothing to
+ * align), "some" where only some have (the bow leaves the window, or its fold meets another caustic, between them).
+ */
+function groupFoldsDeg(sweeps: (PlaneSweep | null)[][], traced: readonly number[], group: number): Float64Array | "none" | "some" {
+  const bowOrders = SHAPED_BOW_ORDERS.filter((p) => SHAPED_ORDER_GROUPS[group].includes(p));
+  if (bowOrders.length !== 1) return "none";
+  const foldsDeg = new Float64Array(traced.length);
+  let found = 0;
+  for (let i = 0; i < traced.length; i++) {
+    const sweep = sweeps[i][bowOrders[0]];
+    const fold = sweep ? bowFold(traced[i], sweep, 1) : null;
+    if (fold !== null) found++;
+    foldsDeg[i] = fold ? fold.thetaR / DEG : Number.NaN;
+  }
+  return found === traced.length ? foldsDeg : found === 0 ? "none" : "some";
+}
+
+/** True when every context's bow constants follow one polynomial in n (CONSTANTS_MISS); contexts without a bow: true. */
+function constantsSmooth(ctxs: readonly ShapedPlaneContext[], traced: readonly number[]): boolean {
+  if (ctxs.some((ctx) => ctx.folds.length !== 1)) return ctxs.every((ctx) => ctx.folds.length === 0);
+  const keys = ["kappa", "cPerp", "cPar", "dPerp", "dPar"] as const;
+  return keys.every((key) => leaveOneOutMiss(traced, ctxs.map((ctx) => ctx.folds[0].constants[key])) <= CONSTANTS_MISS);
+}
+
+/**
+ * shapedNodeRows's default path (ShapedRowSpec.indexBlend "rows"): each shape's planes are traced at tracedIndices and
+ * made into contexts there; a drop's share is the contexts' rows at its own x, each shifted so that its bow's fold
+ * lands at the fold interpolated to the drop's index (Lagrange in n over the traced indices, Press et al. 2007 Eq.
+ * 3.2.1; and, for drops blended from two shape nodes, at the nodes' folds weighted as their rows are, linearly in
+ * deformation: shape-nodes.ts), then blended with the same Lagrange weights (lib/bow/aligned-blend.ts). Groups without
+ * a bow (reflection, transmission) blend unshifted; a group whose bow's constants do not follow a polynomial in n
+ * (CONSTANTS_MISS), or whose rows the aligned blend does not rebuild (ROWS_MISS), has each index's sweeps interpolated
+ * and made into a context of its own, as indexBlend "sweeps" does. Bows are shifted exactly (aligned-blend.ts
+ * addShiftedContext). Shapes are prepared in ascending order and dropped once no drop left needs them, so memory stays at two
+ * shapes' contexts.
+ */
+function alignedNodeRows(
+  spec: ShapedRowSpec,
+  drops: readonly ShapedDrop[],
+  thetaDeg: Float64Array,
+  stepDeg: number,
+  asked: readonly { node: number; group: number }[],
+  out: { perp: Float64Array; par: Float64Array }[][],
+  foldsDeg: number[][],
+  planes: ShapedPlaneCount,
+): void {
+  const allNodes = planeCantingNodes(spec);
+  const uses = drops.map((drop) => shapesOf(spec, drop.radiusUm));
+  const shapes = [...new Set(uses.flatMap((u) => u.map((s) => s.radiusUm)))].sort((a, b) => a - b);
+  const lastShapeOf = uses.map((u) => Math.max(...u.map((s) => s.radiusUm)));
+  const lastUse = new Map<number, number>();
+  uses.forEach((u, d) => u.forEach((s) => lastUse.set(s.radiusUm, Math.max(lastUse.get(s.radiusUm) ?? 0, lastShapeOf[d]))));
+  const plane = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
+  const near = { loRad: (thetaDeg[0] - stepDeg / 2 - NEAR_MARGIN_DEG) * DEG, hiRad: (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + NEAR_MARGIN_DEG) * DEG };
+  const traced = tracedIndices(spec);
+  const shapeShiftDeg = spec.kind === "equilibrium" ? SHAPE_SHIFT_DEG_PER_STEP * (spec.deformationStep ?? 0) : 0;
+  const prepared = new Map<number, PreparedGroup[]>();
+  const scratches = new Map<number, ShiftScratch>();
+  const scratchOf = (pad: number) => {
+    let scratch = scratches.get(pad);
+    if (!scratch) scratches.set(pad, (scratch = shiftScratch(thetaDeg.length + 2 * pad, thetaDeg.length)));
+    return scratch;
+  };
+
+  const prepare = (shapeRadiusUm: number): PreparedGroup[] => {
+    const outline = outlineFor(spec, shapeRadiusUm);
+    const indices = [...new Set(drops.filter((_, d) => uses[d].some((s) => s.radiusUm === shapeRadiusUm)).map((drop) => drop.mRe))];
+    return asked.map(({ node: nodeIndex, group }) => {
+      const node = allNodes[nodeIndex];
+      const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
+      const options = groupOptions(spec, group);
+      const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
+      // Each wavelength's plane counts as one "interpolated" plane, made by aligned rows or interpolated sweeps alike.
+      if (group === 0) {
+        planes.traced += traced.length;
+        planes.interpolated += indices.length;
+      }
+      const foldsDeg = groupFoldsDeg(sweeps, traced, group);
+      const aligned = typeof foldsDeg !== "string";
+      const pad = aligned ? padFor(Math.max(...foldsDeg) - Math.min(...foldsDeg) + shapeShiftDeg, stepDeg) : padFor(shapeShiftDeg, stepDeg);
+      const grid = paddedGrid(thetaDeg, stepDeg, pad);
+      const ctxs = foldsDeg === "some" ? [] : traced.map((n, i) => contextFromSweeps(n, sweeps[i], 1, grid, stepDeg, options));
+      const followed = () => leaveOneOutRowMiss(traced, ctxs, foldsDeg as Float64Array, checkX(shapeRadiusUm), pad, stepDeg, thetaDeg.length, Math.round(SUN_HALF_WIDTH_DEG / stepDeg)) <= ROWS_MISS;
+      if (foldsDeg === "none" || (aligned && constantsSmooth(ctxs, traced) && followed())) {
+        return { pad, sourcesAt: (_, ell) => ctxs.map((ctx, i) => ({ ctx, weight: ell[i], foldDeg: aligned ? foldsDeg[i] : null })) };
+      }
+      const own = new Map<number, RowSource>();
+      for (const mRe of indices) {
+        const tracer = shapedPlaneTracer({ outline, axis, n: mRe }, plane, options);
+        const at = sweeps[0].map((_, p) => (sweeps[0][p] ? interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer, near).sweep : null));
+        const ctx = contextFromSweeps(mRe, at, 1, grid, stepDeg, options);
+        own.set(mRe, { ctx, weight: 1, foldDeg: ctx.folds.length === 1 ? ctx.folds[0].fold.thetaR / DEG : null });
+      }
+      return { pad, sourcesAt: (mRe) => [own.get(mRe)!] };
+    });
+  };
+
+  const compose = (d: number) => {
+    const drop = drops[d];
+    const ell = lagrangeWeights(traced, drop.mRe);
+    asked.forEach(({ node: nodeIndex }, k) => {
+      const parts = uses[d].map((s) => {
+        const group = prepared.get(s.radiusUm)![k];
+        const sources = group.sourcesAt(drop.mRe, ell);
+        const aligned = sources.every((source) => source.foldDeg !== null);
+        // The part's own fold at the drop's index: the sources' folds with the sources' weights.
+        const foldDeg = aligned ? sources.reduce((sum, source) => sum + source.weight * source.foldDeg!, 0) : null;
+        return { weight: s.weight, pad: group.pad, sources, foldDeg };
+      });
+      // Shape nodes' folds meet at their weighted mean when every part has one; else each stays at its own.
+      const meet = parts.every((part) => part.foldDeg !== null) ? parts.reduce((sum, part) => sum + part.weight * part.foldDeg!, 0) : null;
+      // The share's fold, for the canting mean (shapedMeanRows): where its parts' folds met.
+      foldsDeg[d][k] = meet ?? Number.NaN;
+      const share = out[d][k];
+      for (const part of parts) {
+        const target = meet ?? part.foldDeg;
+        const scratch = scratchOf(part.pad);
+        for (const source of part.sources) {
+          const shiftDeg = target !== null && source.foldDeg !== null ? target - source.foldDeg : 0;
+          const w = allNodes[nodeIndex].weight * part.weight * source.weight;
+          addShiftedContext(source.ctx, drop.x, part.pad, shiftDeg, stepDeg, w, share.perp, share.par, scratch);
+        }
+      }
+    });
+  };
+
+  for (const shapeRadiusUm of shapes) {
+    prepared.set(shapeRadiusUm, prepare(shapeRadiusUm));
+    drops.forEach((_, d) => {
+      if (lastShapeOf[d] === shapeRadiusUm) compose(d);
+    });
+    for (const radiusUm of [...prepared.keys()]) if (lastUse.get(radiusUm)! <= shapeRadiusUm) prepared.delete(radiusUm);
+  }
 }
 
 /**
@@ -234,6 +453,10 @@ export function shapedNodeRows(
   const foldsDeg = drops.map(() => asked.map(() => Number.NaN));
   const planes: ShapedPlaneCount = { traced: 0, interpolated: 0 };
   if (drops.length === 0) return { rows: out, foldsDeg, planes };
+  if (spec.traceEveryIndex !== true && (spec.indexBlend ?? defaultIndexBlend(spec)) === "rows") {
+    alignedNodeRows(spec, drops, thetaDeg, stepDeg, asked, out, foldsDeg, planes);
+    return { rows: out, foldsDeg, planes };
+  }
   // Each drop's shapes and weights; then each shape is traced once, for every drop that uses it.
   const uses = drops.map((drop) => shapesOf(spec, drop.radiusUm));
   const shapes = [...new Set(uses.flatMap((u) => u.map((s) => s.radiusUm)))].sort((a, b) => a - b);
@@ -264,11 +487,15 @@ export function shapedNodeRows(
           ? sweeps[0].map((_, p) => (sweeps[0][p] ? interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer!, near).sweep : null))
           : sweeps[traced.indexOf(mRe)];
         const ctx = contextFromSweeps(mRe, at, 1, thetaDeg, stepDeg, options);
-        // A group of one bow order: its fold, for the canting mean (shapedMeanRows). Blended shapes have no one fold.
-        const fold = options.bowOrders?.length === 1 ? ctx.folds.find((f) => f.order === options.bowOrders![0]) : undefined;
+        // A group of one bow order: its fold, for the canting mean (shapedMeanRows), read off the sweep also where the
+        // order is ray optics alone (method "geometric": its caustic moves with the tilt as the Airy bow does). Blended
+        // shapes have no one fold.
+        const bowOrder = SHAPED_BOW_ORDERS.filter((p) => SHAPED_ORDER_GROUPS[group].includes(p));
+        const sweep = bowOrder.length === 1 ? at[bowOrder[0]] : null;
+        const fold = sweep ? bowFold(mRe, sweep, 1) : null;
         for (const { drop, d, weight } of users) {
           if (drop.mRe !== mRe) continue;
-          foldsDeg[d][k] = fold && weight === 1 ? fold.fold.thetaR / DEG : Number.NaN;
+          foldsDeg[d][k] = fold && weight === 1 ? fold.thetaR / DEG : Number.NaN;
           shapedPlaneRow(ctx, drop.x, rowPerp, rowPar);
           const w = node.weight * weight;
           const share = out[d][k];

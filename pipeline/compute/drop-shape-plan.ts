@@ -34,9 +34,9 @@ export interface ShapePlan {
 const ENGINE =
   "3D ray tracing through the drop (Fresnel coefficients for both polarisations, orders 0–3) with the primary and secondary bows in the uniform Airy form per scattering plane (Chester, Friedman & Ursell 1957; Berry & Mount 1972), phases and amplitudes from the traced rays";
 const ACCURACY =
-  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); planes interpolated across the refractive index from 7 traced at indices fixed by the water: worst ΔE2000 0.069 against tracing every wavelength (BENCHMARKS.md, shape-index)";
+  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); each wavelength's rows blended from rows at 7 refractive indices fixed by the water, their bows aligned (interpolated sweeps where one shift does not follow them): worst ΔE2000 0.043 (1 mm drops, top of the bow) and 0.047 (2 mm, arc 45°) against tracing every wavelength (BENCHMARKS.md, aligned-rows)";
 const DEFAULT_NOTE =
-  "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (7 traced + 41 interpolated) scattering planes, 2,100 traced at about 0.03 s of CPU each and 12,300 interpolated across the refractive index at about 0.01 s, projected at about 1.5 minutes on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
+  "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (7 traced scattering planes + 41 made per wavelength from them), 2,100 traced at about 0.03 s of CPU each and 12,300 per wavelength at about 0.007 s, projected at about 80 s on 2 cores against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
 
 /** deformationStep: equilibrium drops blended from shape nodes (ShapedRowSpec.deformationStep; studies only). */
 export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, deformationStep?: number): ShapePlan {
@@ -93,7 +93,10 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
  * counted in (~0.75e9 term-angles/s per core, AUTO_DENSITY_BUDGET_TERM_ANGLES): measured on this project's 2-core
  * machine (2026-12-03 12:40 UTC, CPU time at load average ~7) on 1–2 mm equilibrium drops over 600 bins, a traced
  * plane took 120–230 ms (≈ 190 ms: 2.4e5 a bin) and a plane interpolated across the index from traced ones 25–65 ms
- * (≈ 40 ms: 5e4 a bin). The earlier estimate, 0.4 s a traced plane, was about 2× high.
+ * (≈ 40 ms: 5e4 a bin). The earlier estimate, 0.4 s a traced plane, was about 2× high. Since rows are blended across
+ * the index with their bows aligned and shifted exactly (lib/bow/aligned-blend.ts) a wavelength's plane costs 7 ms
+ * against a traced plane's 34 ms in one run (bench:shapes, 2026-12-03 21:18 UTC, P4's drop over 600 bins, CPU time):
+ * 0.21 of the traced plane's 2.4e5 a bin, 5e4.
  */
 export const SHAPED_TRACED_TERM_ANGLES_PER_BIN = 2.4e5;
 export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
@@ -101,7 +104,7 @@ export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
 /**
  * Scattering planes a plan's flattened rows trace and interpolate, cold: per shape (each flattened radius node of
  * equilibrium drops; one for a spheroid, whose radii share their planes) and canting node, INDEX_NODES traced planes
- * (at the water's tracedIndices) and one interpolated per wavelength. A shape's task split across threads is split by
+ * (at the water's tracedIndices) and one made per wavelength from them (aligned rows, or interpolated sweeps). A shape's task split across threads is split by
  * canting node and order group (pipeline/kernels/canting-parts.ts): each order of a plane is traced once, and a plane
  * counts once, with its first order group (lib/bow/shaped-rows.ts shapedNodeRows), so the parts report these counts.
  */
