@@ -40,11 +40,10 @@ const lines = [
         "process per build and round, the builds alternating which goes first.",
       ]
     : [
-        "## Flattened drops: one shape's task split over both threads",
+        "## Flattened drops: two builds side by side",
         "",
-        `Written by bench/side-by-side.ts, ${benchDate()}, ${machineLine()}. Old: ${commit(oldTree)} (a task of one shape split`,
-        `in two runs of consecutive canting nodes); new: ${commit(newTree)} (one part per canting node and order group, queued`,
-        "largest first: pipeline/kernels/canting-parts.ts). Cold profile (empty kernel cache, 2 worker threads warmed by one",
+        `Written by bench/side-by-side.ts, ${benchDate()}, ${machineLine()}. Old: ${commit(oldTree)}; new: ${commit(newTree)}`,
+        `(git log ${commit(oldTree)}..${commit(newTree)} says what changed). Cold profile (empty kernel cache, 2 worker threads warmed by one`,
         "other request, as npm run bench's P4 row), one process per build and round, the builds alternating which goes first.",
       ]),
   "Cores: the process's CPU time over the cold wall time, which other processes' work on the 2 cores lowers (one-minute",
@@ -52,15 +51,7 @@ const lines = [
   "held a kernel task over the wall time (bench/profile-once.ts), which that load does not lower: what balancing",
   fog
     ? "the main thread's serial work against the threads' changes. Tasks: kernel tasks sent to the pool."
-    : "the parts changes. Tasks: kernel tasks sent to the pool. The new build also holds main's later changes (the in-plane",
-  ...(fog
-    ? []
-    : [
-        "search's chord steps, lib/rays/plane-sweep.ts, about 13 % less CPU on P4): its wall times are not the split's alone.",
-        "npm run bench's P4 row before this (6.8 s, 1.15 cores) ran P4's task whole on one thread: that benchmark's kernel",
-        "service did not know the pool's threads (bench/profiles.ts passes them now, as pipeline/kernels/runtime.ts does);",
-        "the service itself split it in two runs of canting nodes, the old build here.",
-      ]),
+    : "the parts changes. Tasks: kernel tasks sent to the pool.",
   "",
 ];
 for (const workload of workloads) {
@@ -94,7 +85,7 @@ for (const workload of workloads) {
     ...table,
     `| median | | ${medians("old")} | | ${medians("new")} | |`,
     "",
-    `New over old, cold wall: ${(med("new", "coldMs") / med("old", "coldMs")).toFixed(2)}. Spectral rows, largest |new − old| over their peak: ${worst.toExponential(1)}${fog ? " (the same arithmetic in the same order)" : " (the split alone adds the order groups' shares one by one: rounding; more is the new build's other changes)"}.`,
+    `New over old, cold wall: ${(med("new", "coldMs") / med("old", "coldMs")).toFixed(2)}. Spectral rows, largest |new − old| over their peak: ${worst.toExponential(1)}${fog ? " (the same arithmetic in the same order)" : " (rows differ as far as the builds' flattened-drop engines do: SHAPED_ENGINE_VERSION)"}.`,
     "",
   );
 }
