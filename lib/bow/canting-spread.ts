@@ -107,18 +107,19 @@ function addSpread(row: Float64Array, kernel: { first: number; weights: Float64A
  * caller adds the shares as they are.
  */
 export function localCantingMean(
-  shares: readonly Float64Array[],
+  shares: readonly { perp: Float64Array; par: Float64Array }[],
   shareOf: readonly number[],
   nodes: readonly CantingNode[],
   foldsDeg: readonly number[],
   sdDeg: number,
   stepDeg: number,
-  out: Float64Array,
+  out: { perp: Float64Array; par: Float64Array },
 ): boolean {
   const model = foldOverTilt(nodes, foldsDeg);
   if (!model) return false;
   const kernels = localSpreadKernels(model, nodes, sdDeg, stepDeg);
-  out.fill(0);
+  out.perp.fill(0);
+  out.par.fill(0);
   // A share standing for two mirror-image nodes carries both weights and both cells' kernels (equal by the mirror).
   const done = new Set<number>();
   nodes.forEach((_, k) => {
@@ -129,7 +130,8 @@ export function localCantingMean(
     const total = mates.reduce((sum, q) => sum + nodes[q].weight, 0);
     for (const q of mates) {
       const scaled = { first: kernels[q].first, weights: kernels[q].weights.map((w) => (w * nodes[q].weight) / total) };
-      addSpread(shares[s], scaled, out);
+      addSpread(shares[s].perp, scaled, out.perp);
+      addSpread(shares[s].par, scaled, out.par);
     }
   });
   return true;

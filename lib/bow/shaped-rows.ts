@@ -566,9 +566,8 @@ export function shapedMeanRows(
       const perp = new Float64Array(count + 2 * pad);
       const par = new Float64Array(count + 2 * pad);
       const folds = nodes.map((_, k) => computed.foldsDeg[d][shareOf[k]]);
-      const mean = (pick: "perp" | "par", out: Float64Array) =>
-        planeNodes.length > 1 && cantingMean === "spread" && localCantingMean(shares.map((s) => s[pick]), shareOf, nodes, folds, spec.cantingSdDeg, stepDeg, out);
-      if (!(mean("perp", perp) && mean("par", par))) {
+      const spread = planeNodes.length > 1 && cantingMean === "spread" && localCantingMean(shares, shareOf, nodes, folds, spec.cantingSdDeg, stepDeg, { perp, par });
+      if (!spread) {
         perp.fill(0);
         par.fill(0);
         for (const share of shares) {

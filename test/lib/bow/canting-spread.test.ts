@@ -57,16 +57,20 @@ describe("the spread of the bow over the canting", () => {
     const count = 200;
     const bump = (centreBin: number) => Float64Array.from({ length: count }, (_, j) => Math.exp(-(((j - centreBin) / 3) ** 2)));
     const shareOf = [0, 1, 2, 3, 4];
+    // Both polarisations carry the same row here: the mean spreads each with the same kernels.
+    const asShare = (row: Float64Array) => ({ perp: row, par: row.map((v) => 2 * v) });
     const same = nodes.map((n) => bump(100).map((v) => v * n.weight));
-    const out = new Float64Array(count);
-    expect(localCantingMean(same, shareOf, nodes, [141, 141, 141, 141, 141], sd, step, out)).toBe(true);
+    const both = { perp: new Float64Array(count), par: new Float64Array(count) };
+    const out = both.perp;
+    expect(localCantingMean(same.map(asShare), shareOf, nodes, [141, 141, 141, 141, 141], sd, step, both)).toBe(true);
+    for (let j = 0; j < count; j++) expect(both.par[j]).toBeCloseTo(2 * both.perp[j], 12);
     const plain = same.reduce((s, r) => s.map((v, j) => v + r[j]), new Float64Array(count));
     for (let j = 0; j < count; j++) expect(out[j]).toBeCloseTo(plain[j], 12);
     // Folds 1° apart per a of tilt x: each node's bump sits at its fold and is spread over its cell; the light is kept
     // (the sum over bins) and the peak falls below the narrow bumps' 1/3 + 2·1/6 at the centre.
     const folds = nodes.map((n) => 141 + n.tiltXDeg / a);
     const moved = nodes.map((n, k) => bump(100 + (folds[k] - 141) / step).map((v) => v * n.weight));
-    expect(localCantingMean(moved, shareOf, nodes, folds, sd, step, out)).toBe(true);
+    expect(localCantingMean(moved.map(asShare), shareOf, nodes, folds, sd, step, both)).toBe(true);
     const light = (row: Float64Array) => row.reduce((s, v) => s + v, 0);
     expect(light(out)).toBeCloseTo(light(moved.reduce((s, r) => s.map((v, j) => v + r[j]), new Float64Array(count))), 6);
     const movedSum = moved.reduce((s, r) => s.map((v, j) => v + r[j]), new Float64Array(count));
@@ -74,10 +78,11 @@ describe("the spread of the bow over the canting", () => {
     // Mirror images sharing one share: the merged share carries both weights and the mean is the same.
     const merged = [moved[0], moved[1], moved[2], moved[3].map((v, j) => v + moved[4][j])];
     const symmetric = nodes.map((n, k) => (k === 4 ? folds[3] : folds[k]));
-    const twin = new Float64Array(count);
-    const single = new Float64Array(count);
-    expect(localCantingMean(merged, [0, 1, 2, 3, 3], nodes, symmetric, sd, step, twin)).toBe(true);
-    expect(localCantingMean(moved, shareOf, nodes, symmetric, sd, step, single)).toBe(true);
+    const twinBoth = { perp: new Float64Array(count), par: new Float64Array(count) };
+    const singleBoth = { perp: new Float64Array(count), par: new Float64Array(count) };
+    expect(localCantingMean(merged.map(asShare), [0, 1, 2, 3, 3], nodes, symmetric, sd, step, twinBoth)).toBe(true);
+    expect(localCantingMean(moved.map(asShare), shareOf, nodes, symmetric, sd, step, singleBoth)).toBe(true);
+    const [twin, single] = [twinBoth.perp, singleBoth.perp];
     for (let j = 0; j < count; j++) expect(twin[j]).toBeCloseTo(single[j], 12);
   });
 });
