@@ -549,7 +549,7 @@ export function shapedMeanRows(
   const planes: ShapedPlaneCount = { traced: 0, interpolated: 0 };
   const count = thetaDeg.length;
   const pad = Math.round(BOW_GROUP_PAD_DEG / stepDeg);
-  const padded = Float64Array.from({ length: count + 2 * pad }, (_, j) => thetaDeg[0] + (j - pad) * stepDeg);
+  const padded = paddedGrid(thetaDeg, stepDeg, pad);
   const nodes = cantingNodesFive(spec.cantingSdDeg);
   const planeNodes = planeCantingNodes(spec);
   const shareOf = planeCantingNodeOf(spec);
