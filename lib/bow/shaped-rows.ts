@@ -7,9 +7,9 @@ import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
 import { planeCantingNodeOf, planeCantingNodes } from "./plane-canting-nodes.js";
 import { localCantingMean } from "./canting-spread.js";
-import { cantingNodesFive } from "../drops/shape/canting.js";
+import { cantingNodesFive, type CantingNode } from "../drops/shape/canting.js";
 import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
-import type { PlaneSweep } from "../rays/plane-sweep.js";
+import type { PlaneSweep, ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
 import { addShiftedContext, leaveOneOutMiss, leaveOneOutRowMiss, padFor, paddedGrid, shiftScratch, type ShiftScratch } from "./aligned-blend.js";
 import { bowFold } from "./plane-bow-table.js";
 import { REQUEST_WAVELENGTHS_NM, WATER_INDEX_RANGE } from "../water/index-range.js";
@@ -314,6 +314,22 @@ function constantsSmooth(ctxs: readonly ShapedPlaneContext[], traced: readonly n
   return keys.every((key) => leaveOneOutMiss(traced, ctxs.map((ctx) => ctx.folds[0].constants[key])) <= CONSTANTS_MISS);
 }
 
+/** One canting node's and order group's planes through one outline, traced at `indices`: the drop's axis, the group's options and sweeps. */
+function tracedGroup(
+  spec: ShapedRowSpec,
+  node: CantingNode,
+  group: number,
+  outline: DropOutline,
+  indices: readonly number[],
+  plane: ScatteringPlane,
+  thetaDeg: Float64Array,
+  stepDeg: number,
+): { axis: Vec3; options: ShapedPlaneOptions; sweeps: (PlaneSweep | null)[][] } {
+  const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
+  const options = groupOptions(spec, group);
+  return { axis, options, sweeps: shapedPlaneSweeps(indices.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options) };
+}
+
 /**
  * shapedNodeRows's default path (ShapedRowSpec.indexBlend "rows"): each shape's planes are traced at tracedIndices and
  * made into contexts there; a drop's share is the contexts' rows at its own x, each shifted so that its bow's fold
@@ -358,10 +374,7 @@ function alignedNodeRows(
     const outline = outlineFor(spec, shapeRadiusUm);
     const indices = [...new Set(drops.filter((_, d) => uses[d].some((s) => s.radiusUm === shapeRadiusUm)).map((drop) => drop.mRe))];
     return asked.map(({ node: nodeIndex, group }) => {
-      const node = allNodes[nodeIndex];
-      const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
-      const options = groupOptions(spec, group);
-      const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
+      const { axis, options, sweeps } = tracedGroup(spec, allNodes[nodeIndex], group, outline, traced, plane, thetaDeg, stepDeg);
       // Each wavelength's plane counts as one "interpolated" plane, made by aligned rows or interpolated sweeps alike.
       if (group === 0) {
         planes.traced += traced.length;
@@ -473,10 +486,8 @@ export function shapedNodeRows(
     const traced = interpolate ? tracedIndices(spec) : indices;
     asked.forEach(({ node: nodeIndex, group }, k) => {
       const node = allNodes[nodeIndex];
-      const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
-      const options = groupOptions(spec, group);
       // One canting node's and group's sweeps at a time: memory stays at INDEX_NODES planes' sweeps (~14 MB), whatever the task.
-      const sweeps = shapedPlaneSweeps(traced.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options);
+      const { axis, options, sweeps } = tracedGroup(spec, node, group, outline, traced, plane, thetaDeg, stepDeg);
       if (group === 0) {
         planes.traced += traced.length;
         if (interpolate) planes.interpolated += indices.length;
