@@ -6,7 +6,7 @@
 // section of BENCHMARKS.md with --write.
 
 import { loadavg } from "node:os";
-import { shapedMeanRows, type CantingMean, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
+import { shapedRows, type CantingMean, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
 import { shapedPlaneContext, shapedPlaneRow } from "../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../lib/drops/shape/equilibrium-shape.js";
 import { bowScatteringPlane, cantedAxis } from "../lib/rays/bow-geometry.js";
@@ -39,18 +39,6 @@ const CASES = process.env.CASES ? JSON.parse(process.env.CASES) : [
 
 const disc = sunDiscKernel(SUN_MEAN_ANGULAR_DIAMETER_DEG, STEP_DEG);
 const seen = (perp: Float64Array, par: Float64Array) => convolveProfile(perp.map((v, j) => v + par[j]), disc);
-
-function sumShares(shares: readonly { perp: Float64Array; par: Float64Array }[]): { perp: Float64Array; par: Float64Array } {
-  const perp = new Float64Array(THETA_DEG.length);
-  const par = new Float64Array(THETA_DEG.length);
-  for (const s of shares) {
-    for (let j = 0; j < perp.length; j++) {
-      perp[j] += s.perp[j];
-      par[j] += s.par[j];
-    }
-  }
-  return { perp, par };
-}
 
 function bruteForce(radiusUm: number, arcPositionDeg: number, x: number): Float64Array {
   const outline = equilibriumOutline(radiusUm);
@@ -94,7 +82,10 @@ for (const { radiusUm, arcPositionDeg } of CASES) {
   const x = (2 * Math.PI * radiusUm) / WAVELENGTH_UM;
   const spec: ShapedRowSpec = { kind: "equilibrium", cantingSdDeg: SD_DEG, sunElevationDeg: 10, arcPositionDeg, rayOnly: false, traceEveryIndex: true };
   const drop = { radiusUm, mRe: N_RE, x };
-  const mean = (how: CantingMean) => seen(...(({ perp, par }) => [perp, par] as const)(sumShares(shapedMeanRows(spec, [drop], THETA_DEG, STEP_DEG, how).pieces[0])));
+  const mean = (how: CantingMean) => {
+    const [row] = shapedRows(spec, [drop], THETA_DEG, STEP_DEG, how);
+    return seen(row.perp, row.par);
+  };
   const reference = bruteForce(radiusUm, arcPositionDeg, x);
   const figures = (["spread", "nodes"] as const).map((how) => errors(mean(how), reference));
   const line = `| ${radiusUm / 1000} mm, arc ${arcPositionDeg}° | ${figures.map((f) => `${f.worst.toFixed(3)} / ${f.summed.toFixed(3)}`).join(" | ")} |`;

@@ -294,12 +294,12 @@ interface PreparedGroup {
  * align), "some" where only some have (the bow leaves the window, or its fold meets another caustic, between them).
  */
 function groupFoldsDeg(sweeps: (PlaneSweep | null)[][], traced: readonly number[], group: number): Float64Array | "none" | "some" {
-  const bowOrders = SHAPED_BOW_ORDERS.filter((p) => SHAPED_ORDER_GROUPS[group].includes(p));
-  if (bowOrders.length !== 1) return "none";
+  const bowOrder = groupBowOrder(group);
+  if (bowOrder === undefined) return "none";
   const foldsDeg = new Float64Array(traced.length);
   let found = 0;
   for (let i = 0; i < traced.length; i++) {
-    const sweep = sweeps[i][bowOrders[0]];
+    const sweep = sweeps[i][bowOrder];
     const fold = sweep ? bowFold(traced[i], sweep, 1) : null;
     if (fold !== null) found++;
     foldsDeg[i] = fold ? fold.thetaR / DEG : Number.NaN;
@@ -501,8 +501,8 @@ export function shapedNodeRows(
         // A group of one bow order: its fold, for the canting mean (shapedMeanRows), read off the sweep also where the
         // order is ray optics alone (method "geometric": its caustic moves with the tilt as the Airy bow does). Blended
         // shapes have no one fold.
-        const bowOrder = SHAPED_BOW_ORDERS.filter((p) => SHAPED_ORDER_GROUPS[group].includes(p));
-        const sweep = bowOrder.length === 1 ? at[bowOrder[0]] : null;
+        const bowOrder = groupBowOrder(group);
+        const sweep = bowOrder === undefined ? null : at[bowOrder];
         const fold = sweep ? bowFold(mRe, sweep, 1) : null;
         for (const { drop, d, weight } of users) {
           if (drop.mRe !== mRe) continue;
@@ -523,7 +523,12 @@ export function shapedNodeRows(
 
 /** Whether an order group holds a bow (SHAPED_BOW_ORDERS): its canting mean is taken with the bows aligned. */
 export function isBowGroup(group: number): boolean {
-  return SHAPED_ORDER_GROUPS[group].some((p) => (SHAPED_BOW_ORDERS as readonly number[]).includes(p));
+  return groupBowOrder(group) !== undefined;
+}
+
+/** The bow order (SHAPED_BOW_ORDERS) an order group holds, if any: each group holds at most one. */
+function groupBowOrder(group: number): number | undefined {
+  return SHAPED_ORDER_GROUPS[group].find((p) => (SHAPED_BOW_ORDERS as readonly number[]).includes(p));
 }
 
 /**
@@ -595,8 +600,14 @@ export function shapedMeanRows(
 }
 
 /** The canting mean of |S1|², |S2|² (shapedMeanRows' pieces added in their order). */
-export function shapedRows(spec: ShapedRowSpec, drops: readonly ShapedDrop[], thetaDeg: Float64Array, stepDeg: number): { perp: Float64Array; par: Float64Array }[] {
-  return shapedMeanRows(spec, drops, thetaDeg, stepDeg).pieces.map((shares) => {
+export function shapedRows(
+  spec: ShapedRowSpec,
+  drops: readonly ShapedDrop[],
+  thetaDeg: Float64Array,
+  stepDeg: number,
+  cantingMean: CantingMean = "spread",
+): { perp: Float64Array; par: Float64Array }[] {
+  return shapedMeanRows(spec, drops, thetaDeg, stepDeg, cantingMean).pieces.map((shares) => {
     const perp = new Float64Array(thetaDeg.length);
     const par = new Float64Array(thetaDeg.length);
     for (const share of shares) {
