@@ -94,15 +94,114 @@ function lerp(values: Float64Array, at: number): number {
   return t === 0 ? values[i] : (1 - t) * values[i] + t * values[i + 1];
 }
 
+/** One context of a blend: its weight and the shift (degrees) that lands its fold where the blend's belongs. */
+export interface ShiftedContext {
+  ctx: ShapedPlaneContext;
+  shiftDeg: number;
+  weight: number;
+}
+
 /**
- * Adds weight × the context's row at size parameter x, shifted by shiftDeg (as addShiftedRow), to perp/par: its ray
- * optics (x²·raysPerX2) by linear interpolation of the bin means; its bows, where both bins the shift reads are served
- * by the uniform formula, evaluated exactly on the shifted table: the table's ẑ at the bin edges and its u, v are
- * smooth through the fold (ẑ ∝ Θ − Θ_R there, lib/bow/plane-bow-table.ts) and are interpolated at the shifted angles,
- * and addUniformBowBins integrates Ai², Ai′² across each output bin (so a bow's peak narrower than a bin keeps its bin
- * means, which interpolating them would spread over two bins); elsewhere the bow's bin means are interpolated too.
- * The context is on a grid padded by `pad` bins a side (paddedGrid); perp/par hold the unpadded grid's bins.
+ * Adds the blend Σ weight × (each context's row at size parameter x, shifted by its shiftDeg) to perp/par. Ray optics
+ * (x²·raysPerX2) is blended as bin means, each shifted by linear interpolation (addShiftedRow). The bows are blended
+ * before they are squared: each context's uniform table (ẑ at the bin edges, u, v) is smooth through the fold (ẑ ∝
+ * Θ − Θ_R there, lib/bow/plane-bow-table.ts), so it is read at the shifted angles and the tables are blended with the
+ * contexts' weights into one table, whose Ai², Ai′² addUniformBowBins integrates across each output bin. Blending ẑ, the
+ * phase, moves the supernumeraries with the fold's own spacing at the blended parameter, where blending the squared
+ * rows would add each context's fringes where they lie; and a bow's peak narrower than a bin keeps its bin means, which
+ * interpolating them would spread over two bins. Bins that read a bin a context's table does not serve take the bows'
+ * bin means, shifted and blended. Contexts whose tables differ in number are blended as rows. Contexts are on a grid
+ * padded by `pad` bins a side (paddedGrid); perp/par hold the unpadded grid's bins.
  */
+export function addBlendedContexts(
+  sources: readonly ShiftedContext[],
+  x: number,
+  pad: number,
+  stepDeg: number,
+  perp: Float64Array,
+  par: Float64Array,
+  scratch: ShiftScratch,
+): void {
+  const { rays, bow, table } = scratch;
+  const x2 = x * x;
+  for (const { ctx, shiftDeg, weight } of sources) {
+    for (let j = 0; j < rays.perp.length; j++) {
+      rays.perp[j] = x2 * ctx.raysPerX2.perpendicular[j];
+      rays.par[j] = x2 * ctx.raysPerX2.parallel[j];
+    }
+    addShiftedRow(rays.perp, pad, shiftDeg, stepDeg, weight, perp);
+    addShiftedRow(rays.par, pad, shiftDeg, stepDeg, weight, par);
+  }
+  const tableCount = sources[0]?.ctx.bowTables.length ?? 0;
+  if (sources.some((source) => source.ctx.bowTables.length !== tableCount)) {
+    for (const source of sources) addBlendedContexts([source], x, pad, stepDeg, perp, par, scratch);
+    return;
+  }
+  const last = rays.perp.length - 1;
+  // ẑ is blended as a mean (weights normalised to sum 1); u and v, which scale the intensity, with the weights as they are.
+  const weightSum = sources.reduce((sum, source) => sum + source.weight, 0);
+  const readAt = (j: number, shiftDeg: number) => Math.min(Math.max(j + pad - shiftDeg / stepDeg, 0), last);
+  for (let t = 0; t < tableCount; t++) {
+    const mixed = new Uint8Array(perp.length);
+    let anyMixed = false;
+    for (let j = 0; j < perp.length; j++) {
+      let served = 0;
+      let touched = 0;
+      for (const { ctx, shiftDeg } of sources) {
+        const source = ctx.bowTables[t];
+        const at = readAt(j, shiftDeg);
+        const i = Math.floor(at);
+        if (source.uniform[i] === 1 && (at === i || source.uniform[i + 1] === 1)) served++;
+        else if (source.uniform[i] === 1 || (at !== i && source.uniform[i + 1] === 1)) touched++;
+      }
+      table.uniform[j] = served === sources.length ? 1 : 0;
+      if (served > 0 && served < sources.length) touched++;
+      if (touched > 0) {
+        mixed[j] = 1;
+        anyMixed = true;
+      }
+      if (!table.uniform[j]) continue;
+      let uPerp = 0;
+      let uPar = 0;
+      let vPerp = 0;
+      let vPar = 0;
+      let zLo = 0;
+      let zHi = 0;
+      for (const { ctx, shiftDeg, weight } of sources) {
+        const source = ctx.bowTables[t];
+        const at = readAt(j, shiftDeg);
+        uPerp += weight * lerp(source.uPerp, at);
+        uPar += weight * lerp(source.uPar, at);
+        vPerp += weight * lerp(source.vPerp, at);
+        vPar += weight * lerp(source.vPar, at);
+        zLo += weight * lerp(source.zHatEdges, at);
+        zHi += weight * lerp(source.zHatEdges, at + 1);
+      }
+      table.uPerp[j] = uPerp;
+      table.uPar[j] = uPar;
+      table.vPerp[j] = vPerp;
+      table.vPar[j] = vPar;
+      table.zHatEdges[j] = zLo / weightSum;
+      table.zHatEdges[j + 1] = zHi / weightSum;
+    }
+    addUniformBowBins(table, x, 1, perp, par);
+    if (!anyMixed) continue;
+    // Bins the blended table does not serve but some context's does: that context's bow, as bin means, shifted.
+    for (const { ctx, shiftDeg, weight } of sources) {
+      bow.perp.fill(0);
+      bow.par.fill(0);
+      addUniformBowBins(ctx.bowTables[t], x, 1, bow.perp, bow.par);
+      for (let j = 0; j < perp.length; j++) {
+        if (!mixed[j] || table.uniform[j]) continue;
+        const at = readAt(j, shiftDeg);
+        perp[j] += weight * lerp(bow.perp, at);
+        par[j] += weight * lerp(bow.par, at);
+      }
+    }
+  }
+}
+
+/** Adds weight × one context's row at size parameter x, shifted by shiftDeg (addBlendedContexts of that one context). */
 export function addShiftedContext(
   ctx: ShapedPlaneContext,
   x: number,
@@ -114,45 +213,7 @@ export function addShiftedContext(
   par: Float64Array,
   scratch: ShiftScratch,
 ): void {
-  const { rays, bow, table } = scratch;
-  const x2 = x * x;
-  for (let j = 0; j < rays.perp.length; j++) {
-    rays.perp[j] = x2 * ctx.raysPerX2.perpendicular[j];
-    rays.par[j] = x2 * ctx.raysPerX2.parallel[j];
-  }
-  addShiftedRow(rays.perp, pad, shiftDeg, stepDeg, weight, perp);
-  addShiftedRow(rays.par, pad, shiftDeg, stepDeg, weight, par);
-  const shiftBins = shiftDeg / stepDeg;
-  const last = rays.perp.length - 1;
-  for (const source of ctx.bowTables) {
-    let mixed = false;
-    for (let j = 0; j < perp.length; j++) {
-      const at = Math.min(Math.max(j + pad - shiftBins, 0), last);
-      const i = Math.floor(at);
-      const both = source.uniform[i] === 1 && (at === i || source.uniform[i + 1] === 1);
-      table.uniform[j] = both ? 1 : 0;
-      if (both) {
-        table.uPerp[j] = lerp(source.uPerp, at);
-        table.uPar[j] = lerp(source.uPar, at);
-        table.vPerp[j] = lerp(source.vPerp, at);
-        table.vPar[j] = lerp(source.vPar, at);
-        table.zHatEdges[j] = lerp(source.zHatEdges, at);
-        table.zHatEdges[j + 1] = lerp(source.zHatEdges, at + 1);
-      } else if (source.uniform[i] === 1 || (at !== i && source.uniform[i + 1] === 1)) mixed = true;
-    }
-    addUniformBowBins(table, x, weight, perp, par);
-    // Bins that read one uniform bin and one that is not take the bow's bin means, interpolated; elsewhere they are 0.
-    if (!mixed) continue;
-    bow.perp.fill(0);
-    bow.par.fill(0);
-    addUniformBowBins(source, x, 1, bow.perp, bow.par);
-    for (let j = 0; j < perp.length; j++) {
-      if (table.uniform[j]) continue;
-      const at = Math.min(Math.max(j + pad - shiftBins, 0), last);
-      perp[j] += weight * lerp(bow.perp, at);
-      par[j] += weight * lerp(bow.par, at);
-    }
-  }
+  addBlendedContexts([{ ctx, shiftDeg, weight }], x, pad, stepDeg, perp, par, scratch);
 }
 
 /**
@@ -184,7 +245,8 @@ export function leaveOneOutRowMiss(
     const own = rowOf((perp, par) => addShiftedContext(ctxs[q], x, pad, 0, stepDeg, 1, perp, par, scratch));
     const others = nodes.map((_, i) => i).filter((i) => i !== q);
     const weights = lagrangeWeights(others.map((i) => nodes[i]), nodes[q]);
-    const rebuilt = rowOf((perp, par) => others.forEach((i, k) => addShiftedContext(ctxs[i], x, pad, foldsDeg[q] - foldsDeg[i], stepDeg, weights[k], perp, par, scratch)));
+    const sources = others.map((i, k) => ({ ctx: ctxs[i], shiftDeg: foldsDeg[q] - foldsDeg[i], weight: weights[k] }));
+    const rebuilt = rowOf((perp, par) => addBlendedContexts(sources, x, pad, stepDeg, perp, par, scratch));
     const peak = Math.max(...own);
     if (peak > 0) worst = Math.max(worst, Math.max(...own.map((v, j) => Math.abs(v - rebuilt[j]))) / peak);
   }

@@ -43,9 +43,12 @@ export interface FoldRay {
   u: number;
   /** Far-field optical path, units of a. */
   path: number;
-  /** a/x = Ã/√|dΘ/du| for ⟂ and ∥ (single-ray |S|²/x² = |A|²/|∂(Θ,Y)/∂(u,v)| = Ã²/|dΘ/du| along the curve v*(u)). */
+  /** a/x = Ã/√|dΘ/du| for ⟂ and ∥ (single-ray |S|²/x² = |A|²/|∂(Θ,Y)/∂(u,v)| = Ã²/|dΘ/du| along the curve v*(u)), co-polar. */
   perp: number;
   par: number;
+  /** The same of the cross-polar amplitudes (PlaneSweep perpCross, parCross). */
+  perpCross: number;
+  parCross: number;
 }
 
 /** Θ in the half-plane (radians, positive), NaN where the sample is not in it. */
@@ -136,18 +139,16 @@ function foldConstants(sweep: PlaneSweep, fold: PlaneFold): FoldConstants {
   const at = (weights: Float64Array, values: Float64Array) => applyCubic(weights, w.first, values);
   const curvature = Math.abs(at(w.curvature, sweep.thetaSigned));
   const offsetSlope = Math.abs(at(w.slope, sweep.offset));
-  const aPerp = at(w.value, sweep.perpAmp);
-  const aPar = at(w.value, sweep.parAmp);
-  const slopePerp = at(w.slope, sweep.perpAmp);
-  const slopePar = at(w.slope, sweep.parAmp);
+  // The two incident polarisations add incoherently (PlaneTracer.planeRay): C and D sum over co- and cross-polar terms.
+  const squares = (weights: Float64Array, co: Float64Array, cross: Float64Array) => at(weights, co) ** 2 + at(weights, cross) ** 2;
   const cScale = (4 * Math.PI * 2 ** (-1 / 3) * offsetSlope ** (1 / 3)) / curvature ** (2 / 3);
   const dScale = (4 * Math.PI * 2 ** (1 / 3)) / (offsetSlope ** (1 / 3) * curvature ** (4 / 3));
   return {
     kappa: offsetSlope ** (2 / 3) * Math.cbrt(2 / curvature),
-    cPerp: cScale * aPerp * aPerp,
-    cPar: cScale * aPar * aPar,
-    dPerp: dScale * slopePerp * slopePerp,
-    dPar: dScale * slopePar * slopePar,
+    cPerp: cScale * squares(w.value, sweep.perpAmp, sweep.perpCross),
+    cPar: cScale * squares(w.value, sweep.parAmp, sweep.parCross),
+    dPerp: dScale * squares(w.slope, sweep.perpAmp, sweep.perpCross),
+    dPar: dScale * squares(w.slope, sweep.parAmp, sweep.parCross),
   };
 }
 
@@ -201,6 +202,8 @@ function rootInPiece(sweep: PlaneSweep, side: 1 | -1, fold: PlaneFold, piece: [n
     path: applyCubic(w.value, w.first, sweep.path),
     perp: applyCubic(w.value, w.first, sweep.perpAmp, root),
     par: applyCubic(w.value, w.first, sweep.parAmp, root),
+    perpCross: applyCubic(w.value, w.first, sweep.perpCross, root),
+    parCross: applyCubic(w.value, w.first, sweep.parCross, root),
   };
 }
 
@@ -276,14 +279,13 @@ export function planeBowTable(
     }
     const [r1, r2] = centre.pair;
     const z = centre.zHat;
-    const sumPerp = r1.perp + r2.perp;
-    const difPerp = r1.perp - r2.perp;
-    const sumPar = r1.par + r2.par;
-    const difPar = r1.par - r2.par;
-    table.uPerp[j] = Math.PI * sumPerp * sumPerp * Math.sqrt(z);
-    table.uPar[j] = Math.PI * sumPar * sumPar * Math.sqrt(z);
-    table.vPerp[j] = (Math.PI * difPerp * difPerp) / Math.sqrt(z);
-    table.vPar[j] = (Math.PI * difPar * difPar) / Math.sqrt(z);
+    // Co- and cross-polar terms each interfere between the two rays; their powers add (PlaneTracer.planeRay).
+    const sums = (a: number, b: number, c: number, d: number) => (a + b) ** 2 + (c + d) ** 2;
+    const differences = (a: number, b: number, c: number, d: number) => (a - b) ** 2 + (c - d) ** 2;
+    table.uPerp[j] = Math.PI * sums(r1.perp, r2.perp, r1.perpCross, r2.perpCross) * Math.sqrt(z);
+    table.uPar[j] = Math.PI * sums(r1.par, r2.par, r1.parCross, r2.parCross) * Math.sqrt(z);
+    table.vPerp[j] = (Math.PI * differences(r1.perp, r2.perp, r1.perpCross, r2.perpCross)) / Math.sqrt(z);
+    table.vPar[j] = (Math.PI * differences(r1.par, r2.par, r1.parCross, r2.parCross)) / Math.sqrt(z);
   }
   return { table, pairSegments, fold, constants };
 }

@@ -10,7 +10,7 @@ import { localCantingMean } from "./canting-spread.js";
 import { cantingNodesFive, type CantingNode } from "../drops/shape/canting.js";
 import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
 import type { PlaneSweep, ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
-import { addShiftedContext, leaveOneOutMiss, leaveOneOutRowMiss, padFor, paddedGrid, shiftScratch, type ShiftScratch } from "./aligned-blend.js";
+import { addBlendedContexts, leaveOneOutMiss, leaveOneOutRowMiss, padFor, paddedGrid, shiftScratch, type ShiftScratch } from "./aligned-blend.js";
 import { bowFold } from "./plane-bow-table.js";
 import { REQUEST_WAVELENGTHS_NM, WATER_INDEX_RANGE } from "../water/index-range.js";
 import {
@@ -110,7 +110,10 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (10: rows blended
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (11: co- and
+ * cross-polar amplitudes interfere each on its own (one signed amplitude of both jumped where the co-polar ∥ term
+ * changes sign near Brewster's angle: a bow's dark side 10× its peak, test/lib/bow/plane-bow-table.test.ts), and the
+ * aligned blend blends the bows' uniform tables, not their squared rows (lib/bow/aligned-blend.ts addBlendedContexts); 10: rows blended
  * across the index with their bows aligned, alignedNodeRows (each wavelength's row from the rows at the traced indices,
  * shifted so that their folds meet); 9: ∂Y/∂v from each
  * trace's ray differential, Newton's search with step halving, no ray at grazing entry: rows move at runs' ends (P4:
@@ -125,7 +128,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 10;
+export const SHAPED_ENGINE_VERSION = 11;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -419,12 +422,12 @@ function alignedNodeRows(
       const share = out[d][k];
       for (const part of parts) {
         const target = meet ?? part.foldDeg;
-        const scratch = scratchOf(part.pad);
-        for (const source of part.sources) {
-          const shiftDeg = target !== null && source.foldDeg !== null ? target - source.foldDeg : 0;
-          const w = allNodes[nodeIndex].weight * part.weight * source.weight;
-          addShiftedContext(source.ctx, drop.x, part.pad, shiftDeg, stepDeg, w, share.perp, share.par, scratch);
-        }
+        const shifted = part.sources.map((source) => ({
+          ctx: source.ctx,
+          shiftDeg: target !== null && source.foldDeg !== null ? target - source.foldDeg : 0,
+          weight: allNodes[nodeIndex].weight * part.weight * source.weight,
+        }));
+        addBlendedContexts(shifted, drop.x, part.pad, stepDeg, share.perp, share.par, scratchOf(part.pad));
       }
     });
   };

@@ -12,7 +12,7 @@
 // it spans at least MIN_SPLIT samples, then traced in full, as sweepPlane does: cells with an end without a ray
 // included (a search that finds no ray stops at its first trace), so no ray sweepPlane finds is left out.
 
-import { emptySweep, RayPredictor, storeRay, unwrap, type PlaneSweep, type PlaneTracer, type SweepWindow } from "./plane-sweep.js";
+import { emptySweep, RayPredictor, setPowers, storeRay, unwrap, type PlaneSweep, type PlaneTracer, type SweepWindow } from "./plane-sweep.js";
 import { AMPLITUDE_TOLERANCE, PATH_TOLERANCE, THETA_TOLERANCE_RAD } from "./sweep-interpolation.js";
 
 /** Rays traced and samples filled by coarse sweeps (benchmarks and tests count them). */
@@ -22,9 +22,9 @@ export interface CoarseSweepCount {
 }
 
 /** Quantities a sample carries that are filled; each is checked against its tolerance except v (a starting guess). */
-const FIELDS = ["thetaSigned", "path", "offset", "perpAmp", "parAmp", "v"] as const;
+const FIELDS = ["thetaSigned", "path", "offset", "perpAmp", "parAmp", "perpCross", "parCross", "v"] as const;
 /** FIELDS before CHECKED_COUNT are checked; their indices in FIELDS: */
-const CHECKED_COUNT = 5;
+const CHECKED_COUNT = 7;
 const THETA = FIELDS.indexOf("thetaSigned");
 const PATH = FIELDS.indexOf("path");
 const OFFSET = FIELDS.indexOf("offset");
@@ -192,7 +192,7 @@ export function sweepPlaneCoarse(
       for (let m = 0; m < 4 + fifthCount; m++) {
         const i = at(m < 4 ? nodes[m] : fifth[m - 4]);
         if (!sweep.ok[i]) return false;
-        amplitude = Math.max(amplitude, Math.abs(sweep.perpAmp[i]), Math.abs(sweep.parAmp[i]));
+        amplitude = Math.max(amplitude, Math.abs(sweep.perpAmp[i]), Math.abs(sweep.parAmp[i]), Math.abs(sweep.perpCross[i]), Math.abs(sweep.parCross[i]));
       }
       // Each field at the nodes then the fifth nodes (nodeValues[6f + m]), Θ unwrapped about the cell's first end so
       // that a cubic never spans the jump at ±π.
@@ -234,8 +234,7 @@ export function sweepPlaneCoarse(
           for (let m = 0; m < 4; m++) sum += weights[m] * nodeValues[6 * f + m];
           fields[f][i] = f === THETA ? unwrap(sum) : sum;
         }
-        sweep.perpPerU[i] = sweep.perpAmp[i] ** 2;
-        sweep.parPerU[i] = sweep.parAmp[i] ** 2;
+        setPowers(sweep, i);
       }
       return true;
     }

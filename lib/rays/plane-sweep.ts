@@ -26,9 +26,15 @@ export interface PlaneRay {
   /** ∂Y/∂v and the Jacobian ∂(Θ, Y)/∂(u, v) (det only when asked for). */
   yv: number;
   det: number;
-  /** Signed amplitudes of the field ⟂ and ∥ to the scattering plane (unpolarised light; see planeRay). */
+  /**
+   * Signed amplitudes of the field ⟂ and ∥ to the scattering plane from the incident field of the same polarisation
+   * (co-polar) and from the other one (cross-polar, where a tilted or flattened drop turns the field): each is coherent
+   * between the two rays of a bow, and unpolarised light adds the two incoherently (see planeRay).
+   */
   ampPerp: number;
   ampPar: number;
+  ampPerpCross: number;
+  ampParCross: number;
   /** Far-field optical path W in units of a (x·W is the phase). */
   path: number;
   /** Offset of the exit ray from the drop's centre, along N × d_out (in the plane, ⟂ d_out). */
@@ -200,10 +206,11 @@ export class PlaneTracer {
     const perpFromParIm = onN(AT.e2Im);
     const qqRe = onPar(AT.e2Re);
     const qqIm = onPar(AT.e2Im);
-    // For unpolarised light each outgoing component's power sums both incident ones; the sign of the main
-    // (diagonal) term is kept for the interference of the two rays of a bow.
-    const perpPower = ppRe ** 2 + ppIm ** 2 + perpFromParRe ** 2 + perpFromParIm ** 2;
-    const parPower = qqRe ** 2 + qqIm ** 2 + parFromPerpRe ** 2 + parFromPerpIm ** 2;
+    // Unpolarised light is two incoherent incident polarisations: each amplitude-matrix element interferes between a
+    // bow's two rays with its own sign (van de Hulst 1957 §5.1, the amplitude matrix; Bohren & Huffman 1983 §3.2), and the
+    // powers of the two add. One signed ±√(co² + cross²) with the co-polar term's sign would jump where that term changes
+    // sign near Brewster's angle (the internal reflection of the bows' rays lies close to it) while a canted drop's
+    // cross-polar term does not.
     let path = rec[base + AT.path];
     let offset = rec[base + AT.point] * qx + rec[base + AT.point + 1] * qy + rec[base + AT.point + 2] * qz;
     const thetaV = this.thetaVOut;
@@ -235,8 +242,10 @@ export class PlaneTracer {
       thetaSigned: theta,
       yv,
       det,
-      ampPerp: Math.sign(ppRe || 1) * Math.sqrt(perpPower),
-      ampPar: Math.sign(qqRe || 1) * Math.sqrt(parPower),
+      ampPerp: Math.sign(ppRe || 1) * Math.hypot(ppRe, ppIm),
+      ampPar: Math.sign(qqRe || 1) * Math.hypot(qqRe, qqIm),
+      ampPerpCross: Math.sign(perpFromParRe || 1) * Math.hypot(perpFromParRe, perpFromParIm),
+      ampParCross: Math.sign(parFromPerpRe || 1) * Math.hypot(parFromPerpRe, parFromPerpIm),
       path,
       offset,
     };
@@ -277,12 +286,15 @@ export interface PlaneSweep {
   u: Float64Array;
   ok: Uint8Array;
   thetaSigned: Float64Array;
-  /** |A_j|²/|∂Y/∂v|: power per unit u and unit Y, ⟂ and ∥. */
+  /** |A_j|²/|∂Y/∂v|: power per unit u and unit Y, ⟂ and ∥ (co-polar and cross-polar added). */
   perpPerU: Float64Array;
   parPerU: Float64Array;
-  /** The same as signed amplitudes Ã = A/√|∂Y/∂v| (the sign kept for the interference of a bow's two rays). */
+  /** Signed co-polar amplitudes Ã = A/√|∂Y/∂v| (the sign kept for the interference of a bow's two rays). */
   perpAmp: Float64Array;
   parAmp: Float64Array;
+  /** Signed cross-polar amplitudes, likewise (PlaneRay's ampPerpCross, ampParCross). */
+  perpCross: Float64Array;
+  parCross: Float64Array;
   /** Far-field optical path W and exit offset (PlaneRay's path and offset). */
   path: Float64Array;
   offset: Float64Array;
@@ -400,6 +412,8 @@ export function emptySweep(p: number, u: Float64Array): PlaneSweep {
     parPerU: new Float64Array(count),
     perpAmp: new Float64Array(count),
     parAmp: new Float64Array(count),
+    perpCross: new Float64Array(count),
+    parCross: new Float64Array(count),
     path: new Float64Array(count),
     offset: new Float64Array(count),
     v: new Float64Array(count),
@@ -414,8 +428,15 @@ export function storeRay(sweep: PlaneSweep, index: number, ray: PlaneRay): void 
   const root = Math.sqrt(Math.abs(ray.yv));
   sweep.perpAmp[index] = ray.ampPerp / root;
   sweep.parAmp[index] = ray.ampPar / root;
-  sweep.perpPerU[index] = sweep.perpAmp[index] ** 2;
-  sweep.parPerU[index] = sweep.parAmp[index] ** 2;
+  sweep.perpCross[index] = ray.ampPerpCross / root;
+  sweep.parCross[index] = ray.ampParCross / root;
   sweep.path[index] = ray.path;
   sweep.offset[index] = ray.offset;
+  setPowers(sweep, index);
+}
+
+/** A sample's powers per unit u (perpPerU, parPerU) from its co-polar and cross-polar amplitudes. */
+export function setPowers(sweep: PlaneSweep, index: number): void {
+  sweep.perpPerU[index] = sweep.perpAmp[index] ** 2 + sweep.perpCross[index] ** 2;
+  sweep.parPerU[index] = sweep.parAmp[index] ** 2 + sweep.parCross[index] ** 2;
 }

@@ -5,7 +5,7 @@
 // sample is interpolated across n by Lagrange's formula (Press et al. 2007, Numerical Recipes §3.2, Eq. 3.2.1) on
 // Chebyshev nodes (ibid. §5.8: they keep the interpolation error near its minimax value, ~ (Δn/2)^M·f^(M)/(2^(M−1)·M!)).
 
-import { emptySweep, storeRay, unwrap, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
+import { emptySweep, setPowers, storeRay, unwrap, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
 
 /** M Chebyshev nodes of the first kind over [lo, hi] (Press et al. 2007 Eq. 5.8.4), ascending. */
 export function chebyshevNodes(lo: number, hi: number, count: number): number[] {
@@ -43,10 +43,8 @@ export const AMPLITUDE_TOLERANCE = 1e-5;
  * The sweep at n from sweeps of the same order and pupil samples at nodes[k] (ascending, around n), with `tracer`
  * at n for the samples interpolation does not serve: where the nodes disagree on whether the ray leaves in the
  * plane (the ends of the order near the rim, where total reflection or a missed drop depends on n) or on the sign of
- * an amplitude (a signed amplitude is ±√(co-polar² + cross-polar²) with the co-polar term's sign, PlaneTracer.planeRay:
- * where that term changes sign and a tilted drop adds a cross-polar one, it jumps, and no polynomial follows a jump),
- * and where the
- * error estimate exceeds the tolerances (Θ and W turn fast with n near grazing). The estimate is the next term of
+ * a co-polar amplitude (PlaneTracer.planeRay signs |A| by its real part: where total internal reflection makes A
+ * complex, it jumps as the real part changes sign, and no polynomial follows a jump), and where the error estimate exceeds the tolerances (Θ and W turn fast with n near grazing). The estimate is the next term of
  * Newton's form, |f[n₀…n_{M−1}]·Π(n − n_k)| (Press et al. 2007 §3.2; it bounds the error of the interpolant one
  * degree lower, so it errs on the safe side). With `near`, samples whose |Θ| lies on one side of it at every node
  * are never traced: kept where interpolation serves, else left out. Signed angles are unwrapped against the first node's, so that a ray near Θ = ±180° is not averaged
@@ -97,13 +95,13 @@ export function interpolateSweep(
     }
   }
   // The interpolated values and Newton's top coefficients of Θ, W, Ã⊥, Ã∥ where every node has the ray.
-  const [theta, thetaTop, pathTop, perpTop, parTop, amplitude, perp, par, path, offset, v] = sums;
+  const [theta, thetaTop, pathTop, perpTop, parTop, amplitude, perp, par, path, offset, v, perpCrossTop, parCrossTop, perpCross, parCross] = sums;
   for (const sum of sums) sum.fill(0);
   const firstTheta = first.thetaSigned;
   let eligibleCount = 0;
   for (let s = 0; s < count; s++) if (okNodes[s] === M && !signsDiffer[s]) eligible[eligibleCount++] = s;
   for (let k = 0; k < M; k++) {
-    const { thetaSigned: thetaK, perpAmp: perpK, parAmp: parK, path: pathOfK, offset: offsetK, v: vK } = sweeps[k];
+    const { thetaSigned: thetaK, perpAmp: perpK, parAmp: parK, perpCross: perpCrossK, parCross: parCrossK, path: pathOfK, offset: offsetK, v: vK } = sweeps[k];
     const wk = w[k];
     const topK = top[k];
     for (let e = 0; e < eligibleCount; e++) {
@@ -112,15 +110,21 @@ export function interpolateSweep(
       const t = t0 + unwrap(thetaK[s] - t0);
       const a = perpK[s];
       const b = parK[s];
+      const c = perpCrossK[s];
+      const d = parCrossK[s];
       const pathK = pathOfK[s];
       theta[s] += wk * t;
       thetaTop[s] += topK * t;
       pathTop[s] += topK * pathK;
       perpTop[s] += topK * a;
       parTop[s] += topK * b;
-      amplitude[s] = Math.max(amplitude[s], Math.abs(a), Math.abs(b));
+      perpCrossTop[s] += topK * c;
+      parCrossTop[s] += topK * d;
+      amplitude[s] = Math.max(amplitude[s], Math.abs(a), Math.abs(b), Math.abs(c), Math.abs(d));
       perp[s] += wk * a;
       par[s] += wk * b;
+      perpCross[s] += wk * c;
+      parCross[s] += wk * d;
       path[s] += wk * pathK;
       offset[s] += wk * offsetK[s];
       v[s] += wk * vK[s];
@@ -138,7 +142,7 @@ export function interpolateSweep(
     const trusted =
       Math.abs(thetaTop[s]) * omega <= THETA_TOLERANCE_RAD &&
       Math.abs(pathTop[s]) * omega <= PATH_TOLERANCE &&
-      Math.max(Math.abs(perpTop[s]), Math.abs(parTop[s])) * omega <= AMPLITUDE_TOLERANCE * amplitude[s];
+      Math.max(Math.abs(perpTop[s]), Math.abs(parTop[s]), Math.abs(perpCrossTop[s]), Math.abs(parCrossTop[s])) * omega <= AMPLITUDE_TOLERANCE * amplitude[s];
     if (!trusted) {
       // Far from the grid an untrusted sample is left out (a gap there only ends a run where its light is far from
       // the grid; kept, its error could make a spurious turn of Θ). Near it, the interpolated v is close enough for
@@ -153,11 +157,12 @@ export function interpolateSweep(
     out.thetaSigned[s] = unwrap(theta[s]);
     out.perpAmp[s] = perp[s];
     out.parAmp[s] = par[s];
+    out.perpCross[s] = perpCross[s];
+    out.parCross[s] = parCross[s];
     out.path[s] = path[s];
     out.offset[s] = offset[s];
     out.v[s] = v[s];
-    out.perpPerU[s] = perp[s] * perp[s];
-    out.parPerU[s] = par[s] * par[s];
+    setPowers(out, s);
   }
   // Traced outwards from the pupil's centre, as sweepPlane traces: Newton's search starts from the interpolated v
   // where all nodes have the ray, else from the nearest ray at n further in (as sweepPlane continues from its last
@@ -214,7 +219,7 @@ function workArrays(count: number): Scratch {
       above: new Uint8Array(count),
       signsDiffer: new Uint8Array(count),
       eligible: new Int32Array(count),
-      sums: Array.from({ length: 11 }, () => new Float64Array(count)),
+      sums: Array.from({ length: 15 }, () => new Float64Array(count)),
     };
   }
   return work;

@@ -34,10 +34,11 @@ describe("a plane sweep traced every few samples and filled by cubics", () => {
         expect(Math.abs(fast.thetaSigned[s] - full.thetaSigned[s])).toBeLessThan(2 * THETA_TOLERANCE_RAD);
         expect(Math.abs(fast.path[s] - full.path[s])).toBeLessThan(2 * PATH_TOLERANCE);
         expect(Math.abs(fast.offset[s] - full.offset[s])).toBeLessThan(2 * PATH_TOLERANCE);
-        const amplitude = Math.max(Math.abs(full.perpAmp[s]), Math.abs(full.parAmp[s]));
-        expect(Math.abs(fast.perpAmp[s] - full.perpAmp[s])).toBeLessThan(2 * AMPLITUDE_TOLERANCE * amplitude + 1e-12);
-        expect(Math.abs(fast.parAmp[s] - full.parAmp[s])).toBeLessThan(2 * AMPLITUDE_TOLERANCE * amplitude + 1e-12);
-        expect(fast.perpPerU[s]).toBe(fast.perpAmp[s] ** 2);
+        const amplitude = Math.max(Math.abs(full.perpAmp[s]), Math.abs(full.parAmp[s]), Math.abs(full.perpCross[s]), Math.abs(full.parCross[s]));
+        for (const field of ["perpAmp", "parAmp", "perpCross", "parCross"] as const) {
+          expect(Math.abs(fast[field][s] - full[field][s])).toBeLessThan(2 * AMPLITUDE_TOLERANCE * amplitude + 1e-12);
+        }
+        expect(fast.perpPerU[s]).toBe(fast.perpAmp[s] ** 2 + fast.perpCross[s] ** 2);
       }
       expect(rays).toBeGreaterThan(1000);
     }
