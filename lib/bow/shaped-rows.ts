@@ -113,7 +113,8 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (11: co- and
  * cross-polar amplitudes interfere each on its own (one signed amplitude of both jumped where the co-polar ∥ term
  * changes sign near Brewster's angle: a bow's dark side 10× its peak, test/lib/bow/plane-bow-table.test.ts), and the
- * aligned blend blends the bows' uniform tables, not their squared rows (lib/bow/aligned-blend.ts addBlendedContexts); 10: rows blended
+ * aligned blend blends the bows' uniform tables, not their squared rows (lib/bow/aligned-blend.ts addBlendedContexts),
+ * and groups it does not serve are traced at each drop's index instead of interpolated across it; 10: rows blended
  * across the index with their bows aligned, alignedNodeRows (each wavelength's row from the rows at the traced indices,
  * shifted so that their folds meet); 9: ∂Y/∂v from each
  * trace's ray differential, Newton's search with step halving, no ray at grazing entry: rows move at runs' ends (P4:
@@ -249,7 +250,7 @@ function defaultIndexBlend(spec: ShapedRowSpec): "rows" | "sweeps" {
 
 /**
  * Largest leave-one-out miss (aligned-blend.ts leaveOneOutMiss) of a bow's constants κ, C, D across the traced
- * indices for which its rows are blended aligned; past it the group's sweeps are interpolated per index as before
+ * indices for which its rows are blended aligned; past it the group's planes are traced at each drop's own index
  * (indexBlend "sweeps"). Measured on P4's canting node tilted 13° across the plane at the top of the bow (order 3,
  * 1 mm): D climbs 3.9, 4.4, 5.7, 9.0, 19, 101 and falls to 0.05 over the 7 indices (the fold meets another caustic
  * between the last two), misses ~1; the other nodes' constants miss < 1e-3.
@@ -258,8 +259,8 @@ const CONSTANTS_MISS = 0.01;
 
 /**
  * Largest leave-one-out miss of a group's rows (aligned-blend.ts leaveOneOutRowMiss, at checkX,
- * averaged over the sun's half-width each side) for which they are blended aligned; past it the group's sweeps are
- * interpolated per index. Leaving a node out doubles the spacing the blend bridges, so the miss overstates the
+ * averaged over the sun's half-width each side) for which they are blended aligned; past it the group's planes are
+ * traced at each drop's own index. Leaving a node out doubles the spacing the blend bridges, so the miss overstates the
  * blend's own error. Measured (rows averaged over 0.5° against tracing each index): aligned rows within 1e-3 of the
  * peak on 1 mm drops at the top; 2.5 mm drops at the top carry a second caustic in the secondary's window, 3,000 times
  * the reflection, that one shift does not follow (0.74 of the peak off).
@@ -340,9 +341,12 @@ function tracedGroup(
  * 3.2.1; and, for drops blended from two shape nodes, at the nodes' folds weighted as their rows are, linearly in
  * deformation: shape-nodes.ts), then blended with the same Lagrange weights (lib/bow/aligned-blend.ts). Groups without
  * a bow (reflection, transmission) blend unshifted; a group whose bow's constants do not follow a polynomial in n
- * (CONSTANTS_MISS), or whose rows the aligned blend does not rebuild (ROWS_MISS), has each index's sweeps interpolated
- * and made into a context of its own, as indexBlend "sweeps" does. Bows are shifted exactly (aligned-blend.ts
- * addShiftedContext). Shapes are prepared in ascending order and dropped once no drop left needs them, so memory stays at two
+ * (CONSTANTS_MISS), or whose rows the aligned blend does not rebuild (ROWS_MISS), has its planes traced at each drop's
+ * own index, as traceEveryIndex does: measured on 1 mm drops at arc 45° and 2 mm drops at arc 90° (primary, canting
+ * 7.5°, 41 wavelengths, one process), that costs 0.27–0.30 of the traces and 0.37–0.48 of the CPU of interpolating
+ * their sweeps across n (lib/rays/sweep-interpolation.ts), which traces again most samples of a plane whose bow's
+ * constants jump between the nodes, each by a search of its own rather than filled (coarse-sweep.ts). Bows are blended
+ * as uniform tables (aligned-blend.ts addBlendedContexts). Shapes are prepared in ascending order and dropped once no drop left needs them, so memory stays at two
  * shapes' contexts.
  */
 function alignedNodeRows(
@@ -362,7 +366,6 @@ function alignedNodeRows(
   const lastUse = new Map<number, number>();
   uses.forEach((u, d) => u.forEach((s) => lastUse.set(s.radiusUm, Math.max(lastUse.get(s.radiusUm) ?? 0, lastShapeOf[d]))));
   const plane = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
-  const near = { loRad: (thetaDeg[0] - stepDeg / 2 - NEAR_MARGIN_DEG) * DEG, hiRad: (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + NEAR_MARGIN_DEG) * DEG };
   const traced = tracedIndices(spec);
   const shapeShiftDeg = spec.kind === "equilibrium" ? SHAPE_SHIFT_DEG_PER_STEP * (spec.deformationStep ?? 0) : 0;
   const prepared = new Map<number, PreparedGroup[]>();
@@ -394,9 +397,7 @@ function alignedNodeRows(
       }
       const own = new Map<number, RowSource>();
       for (const mRe of indices) {
-        const tracer = shapedPlaneTracer({ outline, axis, n: mRe }, plane, options);
-        const at = sweeps[0].map((_, p) => (sweeps[0][p] ? interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer, near).sweep : null));
-        const ctx = contextFromSweeps(mRe, at, 1, grid, stepDeg, options);
+        const ctx = contextFromSweeps(mRe, shapedPlaneSweeps([{ outline, axis, n: mRe }], plane, 1, thetaDeg, stepDeg, options)[0], 1, grid, stepDeg, options);
         own.set(mRe, { ctx, weight: 1, foldDeg: ctx.folds.length === 1 ? ctx.folds[0].fold.thetaR / DEG : null });
       }
       return { pad, sourcesAt: (mRe) => [own.get(mRe)!] };
