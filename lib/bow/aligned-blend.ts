@@ -61,19 +61,14 @@ export function leaveOneOutMiss(nodes: readonly number[], values: readonly numbe
   return worst;
 }
 
-/** Scratch arrays for addShiftedContext, reused across calls of one length. */
+/** Scratch of addBlendedContexts: the blended table on the output grid, reused across calls of one length. */
 export interface ShiftScratch {
-  rays: { perp: Float64Array; par: Float64Array };
-  bow: { perp: Float64Array; par: Float64Array };
   table: UniformBowTable;
 }
 
-export function shiftScratch(paddedCount: number, count: number): ShiftScratch {
-  const bins = () => new Float64Array(paddedCount);
+export function shiftScratch(count: number): ShiftScratch {
   const out = () => new Float64Array(count);
   return {
-    rays: { perp: bins(), par: bins() },
-    bow: { perp: bins(), par: bins() },
     table: {
       zHatEdges: new Float64Array(count + 1),
       uPerp: out(),
@@ -94,65 +89,69 @@ function lerp(values: Float64Array, at: number): number {
   return t === 0 ? values[i] : (1 - t) * values[i] + t * values[i + 1];
 }
 
-/** One context of a blend: its weight and the shift (degrees) that lands its fold where the blend's belongs. */
+/**
+ * One context of a blend: its weight, the shift (degrees) that lands its fold where the blend's belongs, and the bins
+ * its grid is padded by on each side (paddedGrid).
+ */
 export interface ShiftedContext {
   ctx: ShapedPlaneContext;
   shiftDeg: number;
   weight: number;
+  pad: number;
 }
 
 /**
- * Adds the blend Σ weight × (each context's row at size parameter x, shifted by its shiftDeg) to perp/par. Ray optics
- * (x²·raysPerX2) is blended as bin means, each shifted by linear interpolation (addShiftedRow). The bows are blended
- * before they are squared: each context's uniform table (ẑ at the bin edges, u, v) is smooth through the fold (ẑ ∝
- * Θ − Θ_R there, lib/bow/plane-bow-table.ts), so it is read at the shifted angles and the tables are blended with the
- * contexts' weights into one table, whose Ai², Ai′² addUniformBowBins integrates across each output bin. Blending ẑ, the
- * phase, moves the supernumeraries with the fold's own spacing at the blended parameter, where blending the squared
- * rows would add each context's fringes where they lie; and a bow's peak narrower than a bin keeps its bin means, which
- * interpolating them would spread over two bins. Bins that read a bin a context's table does not serve take the bows'
- * bin means, shifted and blended. Contexts whose tables differ in number are blended as rows. Contexts are on a grid
- * padded by `pad` bins a side (paddedGrid); perp/par hold the unpadded grid's bins.
+ * Adds the blend Σ weight × (each context's row at size parameter x, shifted by its shiftDeg) to perp/par, which hold
+ * the unpadded grid's bins. Ray optics (x²·raysPerX2) is blended as bin means, each shifted by linear interpolation
+ * (addShiftedRow). The bows are blended before they are squared: each context's uniform table (ẑ at the bin edges, u,
+ * v) is smooth through the fold (ẑ ∝ Θ − Θ_R there, lib/bow/plane-bow-table.ts), so it is read at the shifted angles
+ * and the tables are blended into one table (ẑ as the weighted mean, u and v with the weights), whose Ai², Ai′²
+ * addUniformBowBins integrates across each output bin. Blending ẑ, the phase, moves the supernumeraries with the fold's
+ * own spacing at the blended parameter, where blending the squared rows would add each context's fringes where they
+ * lie; and a bow's peak narrower than a bin keeps its bin means, which interpolating them would spread over two bins.
+ * Bins that read a bin a context's table does not serve take the bows' bin means, shifted and blended. Contexts whose
+ * tables differ in number are blended as rows.
  */
 export function addBlendedContexts(
   sources: readonly ShiftedContext[],
   x: number,
-  pad: number,
   stepDeg: number,
   perp: Float64Array,
   par: Float64Array,
   scratch: ShiftScratch,
 ): void {
-  const { rays, bow, table } = scratch;
+  const { table } = scratch;
   const x2 = x * x;
-  for (const { ctx, shiftDeg, weight } of sources) {
-    for (let j = 0; j < rays.perp.length; j++) {
-      rays.perp[j] = x2 * ctx.raysPerX2.perpendicular[j];
-      rays.par[j] = x2 * ctx.raysPerX2.parallel[j];
-    }
-    addShiftedRow(rays.perp, pad, shiftDeg, stepDeg, weight, perp);
-    addShiftedRow(rays.par, pad, shiftDeg, stepDeg, weight, par);
+  for (const { ctx, shiftDeg, weight, pad } of sources) {
+    addShiftedRow(ctx.raysPerX2.perpendicular, pad, shiftDeg, stepDeg, weight * x2, perp);
+    addShiftedRow(ctx.raysPerX2.parallel, pad, shiftDeg, stepDeg, weight * x2, par);
   }
   const tableCount = sources[0]?.ctx.bowTables.length ?? 0;
   if (sources.some((source) => source.ctx.bowTables.length !== tableCount)) {
-    for (const source of sources) addBlendedContexts([source], x, pad, stepDeg, perp, par, scratch);
+    for (const source of sources) addBowTables([source], x, stepDeg, perp, par, table);
     return;
   }
-  const last = rays.perp.length - 1;
+  addBowTables(sources, x, stepDeg, perp, par, table);
+}
+
+/** The bows of addBlendedContexts (its sources' tables, equal in number), blended in `table`. */
+function addBowTables(sources: readonly ShiftedContext[], x: number, stepDeg: number, perp: Float64Array, par: Float64Array, table: UniformBowTable): void {
   // ẑ is blended as a mean (weights normalised to sum 1); u and v, which scale the intensity, with the weights as they are.
   const weightSum = sources.reduce((sum, source) => sum + source.weight, 0);
-  const readAt = (j: number, shiftDeg: number) => Math.min(Math.max(j + pad - shiftDeg / stepDeg, 0), last);
+  const readAt = (j: number, source: ShiftedContext) => Math.min(Math.max(j + source.pad - source.shiftDeg / stepDeg, 0), source.ctx.raysPerX2.perpendicular.length - 1);
+  const tableCount = sources[0]?.ctx.bowTables.length ?? 0;
   for (let t = 0; t < tableCount; t++) {
     const mixed = new Uint8Array(perp.length);
     let anyMixed = false;
     for (let j = 0; j < perp.length; j++) {
       let served = 0;
       let touched = 0;
-      for (const { ctx, shiftDeg } of sources) {
-        const source = ctx.bowTables[t];
-        const at = readAt(j, shiftDeg);
+      for (const source of sources) {
+        const bow = source.ctx.bowTables[t];
+        const at = readAt(j, source);
         const i = Math.floor(at);
-        if (source.uniform[i] === 1 && (at === i || source.uniform[i + 1] === 1)) served++;
-        else if (source.uniform[i] === 1 || (at !== i && source.uniform[i + 1] === 1)) touched++;
+        if (bow.uniform[i] === 1 && (at === i || bow.uniform[i + 1] === 1)) served++;
+        else if (bow.uniform[i] === 1 || (at !== i && bow.uniform[i + 1] === 1)) touched++;
       }
       table.uniform[j] = served === sources.length ? 1 : 0;
       if (served > 0 && served < sources.length) touched++;
@@ -167,15 +166,16 @@ export function addBlendedContexts(
       let vPar = 0;
       let zLo = 0;
       let zHi = 0;
-      for (const { ctx, shiftDeg, weight } of sources) {
-        const source = ctx.bowTables[t];
-        const at = readAt(j, shiftDeg);
-        uPerp += weight * lerp(source.uPerp, at);
-        uPar += weight * lerp(source.uPar, at);
-        vPerp += weight * lerp(source.vPerp, at);
-        vPar += weight * lerp(source.vPar, at);
-        zLo += weight * lerp(source.zHatEdges, at);
-        zHi += weight * lerp(source.zHatEdges, at + 1);
+      for (const source of sources) {
+        const bow = source.ctx.bowTables[t];
+        const at = readAt(j, source);
+        const w = source.weight;
+        uPerp += w * lerp(bow.uPerp, at);
+        uPar += w * lerp(bow.uPar, at);
+        vPerp += w * lerp(bow.vPerp, at);
+        vPar += w * lerp(bow.vPar, at);
+        zLo += w * lerp(bow.zHatEdges, at);
+        zHi += w * lerp(bow.zHatEdges, at + 1);
       }
       table.uPerp[j] = uPerp;
       table.uPar[j] = uPar;
@@ -186,16 +186,16 @@ export function addBlendedContexts(
     }
     addUniformBowBins(table, x, 1, perp, par);
     if (!anyMixed) continue;
-    // Bins the blended table does not serve but some context's does: that context's bow, as bin means, shifted.
-    for (const { ctx, shiftDeg, weight } of sources) {
-      bow.perp.fill(0);
-      bow.par.fill(0);
-      addUniformBowBins(ctx.bowTables[t], x, 1, bow.perp, bow.par);
+    // Bins the blended table does not serve but some context's does: each context's bow, as bin means, shifted.
+    for (const source of sources) {
+      const count = source.ctx.raysPerX2.perpendicular.length;
+      const bow = { perp: new Float64Array(count), par: new Float64Array(count) };
+      addUniformBowBins(source.ctx.bowTables[t], x, 1, bow.perp, bow.par);
       for (let j = 0; j < perp.length; j++) {
         if (!mixed[j] || table.uniform[j]) continue;
-        const at = readAt(j, shiftDeg);
-        perp[j] += weight * lerp(bow.perp, at);
-        par[j] += weight * lerp(bow.par, at);
+        const at = readAt(j, source);
+        perp[j] += source.weight * lerp(bow.perp, at);
+        par[j] += source.weight * lerp(bow.par, at);
       }
     }
   }
@@ -213,7 +213,7 @@ export function addShiftedContext(
   par: Float64Array,
   scratch: ShiftScratch,
 ): void {
-  addBlendedContexts([{ ctx, shiftDeg, weight }], x, pad, stepDeg, perp, par, scratch);
+  addBlendedContexts([{ ctx, shiftDeg, weight, pad }], x, stepDeg, perp, par, scratch);
 }
 
 /**
@@ -233,7 +233,7 @@ export function leaveOneOutRowMiss(
   count: number,
   smoothBins: number,
 ): number {
-  const scratch = shiftScratch(count + 2 * pad, count);
+  const scratch = shiftScratch(count);
   const rowOf = (build: (perp: Float64Array, par: Float64Array) => void) => {
     const perp = new Float64Array(count);
     const par = new Float64Array(count);
@@ -245,8 +245,8 @@ export function leaveOneOutRowMiss(
     const own = rowOf((perp, par) => addShiftedContext(ctxs[q], x, pad, 0, stepDeg, 1, perp, par, scratch));
     const others = nodes.map((_, i) => i).filter((i) => i !== q);
     const weights = lagrangeWeights(others.map((i) => nodes[i]), nodes[q]);
-    const sources = others.map((i, k) => ({ ctx: ctxs[i], shiftDeg: foldsDeg[q] - foldsDeg[i], weight: weights[k] }));
-    const rebuilt = rowOf((perp, par) => addBlendedContexts(sources, x, pad, stepDeg, perp, par, scratch));
+    const sources = others.map((i, k) => ({ ctx: ctxs[i], shiftDeg: foldsDeg[q] - foldsDeg[i], weight: weights[k], pad }));
+    const rebuilt = rowOf((perp, par) => addBlendedContexts(sources, x, stepDeg, perp, par, scratch));
     const peak = Math.max(...own);
     if (peak > 0) worst = Math.max(worst, Math.max(...own.map((v, j) => Math.abs(v - rebuilt[j]))) / peak);
   }

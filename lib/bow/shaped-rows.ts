@@ -10,7 +10,7 @@ import { localCantingMean } from "./canting-spread.js";
 import { cantingNodesFive, type CantingNode } from "../drops/shape/canting.js";
 import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
 import type { PlaneSweep, ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
-import { addBlendedContexts, leaveOneOutMiss, leaveOneOutRowMiss, padFor, paddedGrid, shiftScratch, type ShiftScratch } from "./aligned-blend.js";
+import { addBlendedContexts, leaveOneOutMiss, leaveOneOutRowMiss, padFor, paddedGrid, shiftScratch } from "./aligned-blend.js";
 import { bowFold } from "./plane-bow-table.js";
 import { REQUEST_WAVELENGTHS_NM, WATER_INDEX_RANGE } from "../water/index-range.js";
 import {
@@ -369,12 +369,8 @@ function alignedNodeRows(
   const traced = tracedIndices(spec);
   const shapeShiftDeg = spec.kind === "equilibrium" ? SHAPE_SHIFT_DEG_PER_STEP * (spec.deformationStep ?? 0) : 0;
   const prepared = new Map<number, PreparedGroup[]>();
-  const scratches = new Map<number, ShiftScratch>();
-  const scratchOf = (pad: number) => {
-    let scratch = scratches.get(pad);
-    if (!scratch) scratches.set(pad, (scratch = shiftScratch(thetaDeg.length + 2 * pad, thetaDeg.length)));
-    return scratch;
-  };
+  const scratch = shiftScratch(thetaDeg.length);
+
 
   const prepare = (shapeRadiusUm: number): PreparedGroup[] => {
     const outline = outlineFor(spec, shapeRadiusUm);
@@ -421,15 +417,19 @@ function alignedNodeRows(
       // The share's fold, for the canting mean (shapedMeanRows): where its parts' folds met.
       foldsDeg[d][k] = meet ?? Number.NaN;
       const share = out[d][k];
-      for (const part of parts) {
+      // With a common fold, every part's tables are blended in one (aligned-blend.ts: the shape nodes' phases blend as
+      // the indices' do); else each part is blended at its own fold and the parts add as rows.
+      const shifted = (part: (typeof parts)[number]) => {
         const target = meet ?? part.foldDeg;
-        const shifted = part.sources.map((source) => ({
+        return part.sources.map((source) => ({
           ctx: source.ctx,
           shiftDeg: target !== null && source.foldDeg !== null ? target - source.foldDeg : 0,
           weight: allNodes[nodeIndex].weight * part.weight * source.weight,
+          pad: part.pad,
         }));
-        addBlendedContexts(shifted, drop.x, part.pad, stepDeg, share.perp, share.par, scratchOf(part.pad));
-      }
+      };
+      const blends = meet !== null ? [parts.flatMap(shifted)] : parts.map(shifted);
+      for (const blend of blends) addBlendedContexts(blend, drop.x, stepDeg, share.perp, share.par, scratch);
     });
   };
 

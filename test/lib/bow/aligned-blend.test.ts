@@ -132,7 +132,7 @@ describe("a context's bow shifted exactly (its uniform table's ẑ, u, v interpo
     const count = grid.length + 2 * pad;
     const ctx: ShapedPlaneContext = { raysPerX2: { perpendicular: new Float64Array(count), parallel: new Float64Array(count) }, bowTables: [table], folds: [] };
     const exact = { perp: new Float64Array(grid.length), par: new Float64Array(grid.length) };
-    addShiftedContext(ctx, x, pad, shiftDeg, STEP_DEG, 1, exact.perp, exact.par, shiftScratch(count, grid.length));
+    addShiftedContext(ctx, x, pad, shiftDeg, STEP_DEG, 1, exact.perp, exact.par, shiftScratch(grid.length));
     // Reference: the same formula's table on bins centred at Θ − shift (lib/bow/airy-bins.ts, Chester, Friedman & Ursell 1957).
     const expected = { perp: new Float64Array(grid.length), par: new Float64Array(grid.length) };
     addUniformBowBins(uniformBowTable(n, 2, grid.map((t) => t - shiftDeg), STEP_DEG), x, 1, expected.perp, expected.par);
@@ -170,10 +170,10 @@ describe("uniform bow tables at several refractive indices, blended before they 
       bowTables: [uniformBowTable(m, 2, padded, STEP_DEG)],
       folds: [],
     });
-    const sources = nodes.map((m, i) => ({ ctx: ctxOf(m), shiftDeg: target - folds[i], weight: ell[i] }));
-    const scratch = shiftScratch(count, grid.length);
+    const sources = nodes.map((m, i) => ({ ctx: ctxOf(m), shiftDeg: target - folds[i], weight: ell[i], pad }));
+    const scratch = shiftScratch(grid.length);
     const tables = { perp: new Float64Array(grid.length), par: new Float64Array(grid.length) };
-    addBlendedContexts(sources, x, pad, STEP_DEG, tables.perp, tables.par, scratch);
+    addBlendedContexts(sources, x, STEP_DEG, tables.perp, tables.par, scratch);
     const rows = { perp: new Float64Array(grid.length), par: new Float64Array(grid.length) };
     for (const source of sources) addShiftedContext(source.ctx, x, pad, source.shiftDeg, STEP_DEG, source.weight, rows.perp, rows.par, scratch);
     const expected = { perp: new Float64Array(grid.length), par: new Float64Array(grid.length) };
