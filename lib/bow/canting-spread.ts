@@ -54,7 +54,47 @@ const TILT_SPAN_SD = 5;
  */
 export function localSpreadKernels(model: FoldOverTilt, nodes: readonly CantingNode[], sdDeg: number, stepDeg: number): { first: number; weights: Float64Array }[] {
   const fold = (tx: number, ty: number) => model.gx * tx + model.gy * ty + 0.5 * (model.hx * tx * tx + model.hy * ty * ty);
-  const samples: { shift: number; mass: number }[][] = nodes.map(() => []);
+  const cells = tiltCells(nodes, sdDeg);
+  return nodes.map((n, q) => {
+    const { tx, ty, mass, total } = cells[q];
+    const base = fold(n.tiltXDeg, n.tiltYDeg);
+    const shifts = Float64Array.from(tx, (x, i) => (fold(x, ty[i]) - base) / stepDeg);
+    let low = Infinity;
+    let high = -Infinity;
+    for (const shift of shifts) {
+      low = Math.min(low, shift);
+      high = Math.max(high, shift);
+    }
+    const first = Math.floor(low);
+    const weights = new Float64Array(Math.floor(high) - first + 2);
+    shifts.forEach((shift, i) => {
+      const k = Math.floor(shift);
+      const f = shift - k;
+      weights[k - first] += ((1 - f) * mass[i]) / total;
+      weights[k - first + 1] += (f * mass[i]) / total;
+    });
+    return { first, weights };
+  });
+}
+
+/** Each node's cell of sampled tilts (tx, ty in degrees) with their Gaussian masses and the cell's total mass. */
+interface TiltCell {
+  tx: Float64Array;
+  ty: Float64Array;
+  mass: Float64Array;
+  total: number;
+}
+
+/**
+ * The tilts sampled on a grid of TILT_SAMPLES² over ±TILT_SPAN_SD σ, each with its Gaussian weight, given to their
+ * nearest node (its Voronoi cell). They depend on the nodes and σ alone, not on the folds: kept for the last nodes asked
+ * for, which every drop of a task shares.
+ */
+let lastCells: { nodes: readonly CantingNode[]; sdDeg: number; cells: TiltCell[] } | null = null;
+function tiltCells(nodes: readonly CantingNode[], sdDeg: number): TiltCell[] {
+  const same = lastCells !== null && lastCells.sdDeg === sdDeg && lastCells.nodes.length === nodes.length && lastCells.nodes.every((n, q) => n.tiltXDeg === nodes[q].tiltXDeg && n.tiltYDeg === nodes[q].tiltYDeg);
+  if (same) return lastCells!.cells;
+  const members: { tx: number[]; ty: number[]; mass: number[] }[] = nodes.map(() => ({ tx: [], ty: [], mass: [] }));
   // Tilts symmetric to the last bit about 0 (an integer over HALF), so that mirror-image cells get mirror-image kernels.
   const at = (i: number) => (sdDeg * TILT_SPAN_SD * (i - HALF)) / HALF;
   for (let i = 0; i < TILT_SAMPLES; i++) {
@@ -63,39 +103,42 @@ export function localSpreadKernels(model: FoldOverTilt, nodes: readonly CantingN
       const ty = at(k);
       let nearest = 0;
       let best = Infinity;
-      nodes.forEach((n, q) => {
-        const d = (tx - n.tiltXDeg) ** 2 + (ty - n.tiltYDeg) ** 2;
-        if (d < best) [best, nearest] = [d, q];
-      });
-      const n = nodes[nearest];
-      samples[nearest].push({ shift: (fold(tx, ty) - fold(n.tiltXDeg, n.tiltYDeg)) / stepDeg, mass: Math.exp(-(tx * tx + ty * ty) / (2 * sdDeg * sdDeg)) });
+      for (let q = 0; q < nodes.length; q++) {
+        const d = (tx - nodes[q].tiltXDeg) ** 2 + (ty - nodes[q].tiltYDeg) ** 2;
+        if (d < best) {
+          best = d;
+          nearest = q;
+        }
+      }
+      members[nearest].tx.push(tx);
+      members[nearest].ty.push(ty);
+      members[nearest].mass.push(Math.exp(-(tx * tx + ty * ty) / (2 * sdDeg * sdDeg)));
     }
   }
-  return samples.map((cell) => {
-    const total = cell.reduce((sum, c) => sum + c.mass, 0);
-    const first = Math.floor(Math.min(...cell.map((c) => c.shift)));
-    const weights = new Float64Array(Math.floor(Math.max(...cell.map((c) => c.shift))) - first + 2);
-    for (const { shift, mass } of cell) {
-      const k = Math.floor(shift);
-      const f = shift - k;
-      weights[k - first] += ((1 - f) * mass) / total;
-      weights[k - first + 1] += (f * mass) / total;
-    }
-    return { first, weights };
-  });
+  const cells = members.map((m) => ({ tx: Float64Array.from(m.tx), ty: Float64Array.from(m.ty), mass: Float64Array.from(m.mass), total: m.mass.reduce((sum, v) => sum + v, 0) }));
+  lastCells = { nodes: nodes.map((n) => ({ ...n })), sdDeg, cells };
+  return cells;
 }
 
-/** Adds row convolved with kernel (a shift of first + m bins weighted weights[m]) to out, held at the ends. */
+/**
+ * Adds row convolved with kernel (a shift of first + m bins weighted weights[m]) to out, held at the ends. Shift by
+ * shift: each weight's whole shifted row is added at once, the bins that read past the row's ends apart, so that the
+ * inner loop runs over contiguous bins without bounds (measured: the canting mean was 18 % of a 1 mm drop's CPU with
+ * the sum over shifts innermost).
+ */
 function addSpread(row: Float64Array, kernel: { first: number; weights: Float64Array }, out: Float64Array): void {
   const count = out.length;
-  for (let j = 0; j < count; j++) {
-    let sum = 0;
-    for (let m = 0; m < kernel.weights.length; m++) {
-      const w = kernel.weights[m];
-      if (w === 0) continue;
-      sum += w * row[Math.min(count - 1, Math.max(0, j - (kernel.first + m)))];
-    }
-    out[j] += sum;
+  const lastRow = row[count - 1];
+  for (let m = 0; m < kernel.weights.length; m++) {
+    const w = kernel.weights[m];
+    if (w === 0) continue;
+    const shift = kernel.first + m;
+    // out[j] reads row[j − shift]: below 0 for j < shift, past the end for j > count − 1 + shift.
+    const lo = Math.min(count, Math.max(0, shift));
+    const hi = Math.max(lo, Math.min(count, count + shift));
+    for (let j = 0; j < lo; j++) out[j] += w * row[0];
+    for (let j = lo; j < hi; j++) out[j] += w * row[j - shift];
+    for (let j = hi; j < count; j++) out[j] += w * lastRow;
   }
 }
 
