@@ -14,11 +14,17 @@ import { pathToFileURL } from "node:url";
 import { performance } from "node:perf_hooks";
 
 type Workload = { body: Record<string, unknown> };
-/** Workloads by name: P4 (bench/profiles.ts), P4 with upright drops (one canting node), and the full-Mie fog P2. */
+/** Workloads by name: P4 (bench/profiles.ts), P4 with upright drops (one canting node), the full-Mie fog P2, and S2-shapes. */
 const WORKLOADS: Record<string, (profiles: { P2: Workload; P4: Workload }) => Record<string, unknown>> = {
   P4: ({ P4 }) => P4.body,
   "P4-upright": ({ P4 }) => ({ ...P4.body, drops: { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium", cantingSdDeg: 0 } } }),
   P2: ({ P2 }) => P2.body,
+  // A shower of flattened drops: every radius its own shape, the default canting, every 20 nm (issue 13's shower rows).
+  "S2-shapes": () => ({
+    spectral: { fromNm: 380, toNm: 780, stepNm: 20 },
+    drops: { kind: "marshall-palmer", rainRateMmPerH: 2, shape: { kind: "equilibrium" } },
+    arcPositionDeg: 0,
+  }),
 };
 /** As bench/profiles.ts's warm-up: the default profile with the water 1 °C warmer. */
 const WARM_UP_BODY = { water: { temperatureC: 16 } };

@@ -24,6 +24,7 @@ function run(tree: string, workload: string, mode?: string): Record<string, numb
 const TITLES: Record<string, string> = {
   P4: "P4 (1 mm equilibrium drops, canting 7.5°, top of the bow)",
   "P4-upright": "P4 with upright drops (canting 0: one canting node)",
+  "S2-shapes": "Marshall–Palmer 2 mm/h, equilibrium shapes (canting 7.5°), top of the bow, every 20 nm",
   P2: "P2 (fog, lognormal 10 µm, σg 1.4, full Mie, ψ 20–60° step 0.2°, 512 Mie sizes per decade)",
 };
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)];
