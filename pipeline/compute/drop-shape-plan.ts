@@ -34,7 +34,7 @@ export interface ShapePlan {
 const ENGINE =
   "3D ray tracing through the drop (Fresnel coefficients for both polarisations, orders 0–3) with the primary and secondary bows in the uniform Airy form per scattering plane (Chester, Friedman & Ursell 1957; Berry & Mount 1972), phases and amplitudes from the traced rays";
 const ACCURACY =
-  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); each wavelength's rows blended from rows at 7 refractive indices fixed by the water, their bows aligned (interpolated sweeps where one shift does not follow them): worst ΔE2000 0.043 (1 mm drops, top of the bow) and 0.047 (2 mm, arc 45°) against tracing every wavelength (BENCHMARKS.md, aligned-rows); canting: five tilts traced, each one's bow spread over the fold angles of its share of the Gaussian of tilts (against a dense grid of traced tilts, BENCHMARKS.md canting-spread)";
+  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); each wavelength's bows blended from their uniform tables at 7 refractive indices fixed by the water, aligned on the interpolated fold (traced at the wavelength's own index where the bow's constants or rows do not follow one polynomial in n): worst ΔE2000 0.008 (1 mm drops, top of the bow), 0.017 (1 mm, arc 45°), 0.12 (2 mm, arc 45°) and 0.003 (Marshall–Palmer 2 mm/h, top) against tracing every wavelength (BENCHMARKS.md, shape-index and aligned-rows); canting: five tilts traced, each one's bow spread over the fold angles of its share of the Gaussian of tilts (against a dense grid of traced tilts, BENCHMARKS.md canting-spread)";
 const DEFAULT_NOTE =
   "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × (7 traced scattering planes + 41 made per wavelength from them), 2,100 traced at about 0.03 s of CPU each and 12,300 per wavelength at about 0.005 s, projected at about 62 times the default profile's cold time measured in the same run, against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
 
@@ -104,7 +104,7 @@ export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
 /**
  * Scattering planes a plan's flattened rows trace and interpolate, cold: per shape (each flattened radius node of
  * equilibrium drops; one for a spheroid, whose radii share their planes) and canting node, INDEX_NODES traced planes
- * (at the water's tracedIndices) and one made per wavelength from them (aligned rows, or interpolated sweeps). A shape's task split across threads is split by
+ * (at the water's tracedIndices) and one made per wavelength from them (aligned tables, or traced at its own index). A shape's task split across threads is split by
  * canting node and order group (pipeline/kernels/canting-parts.ts): each order of a plane is traced once, and a plane
  * counts once, with its first order group (lib/bow/shaped-rows.ts shapedNodeRows), so the parts report these counts.
  */
