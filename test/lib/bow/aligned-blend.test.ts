@@ -34,6 +34,22 @@ function airyCurvatureBound(n: number, x: number, loDeg: number, hiDeg: number):
   return worst;
 }
 
+/**
+ * The primary blended across water's index: 7 Chebyshev nodes over 1.328–1.348 (water over 360–830 nm at 15 °C,
+ * Daimon & Masumura 2007, from memory), the index n = 1.3411 between them, the nodes' bow angles (Descartes) and
+ * Lagrange weights, the blended fold, and 160 bins from `belowDeg` under it on a grid padded for the nodes' shifts.
+ */
+function blendAcrossWater(x: number, belowDeg: number) {
+  const nodes = chebyshevNodes(1.328, 1.348, 7);
+  const n = 1.3411;
+  const folds = nodes.map((m) => airyBowScale(m, x, 1).rainbowAngleDeg);
+  const ell = lagrangeWeights(nodes, n);
+  const target = folds.reduce((sum, f, i) => sum + ell[i] * f, 0);
+  const grid = Float64Array.from({ length: 160 }, (_, j) => target - belowDeg + STEP_DEG * (j + 0.5));
+  const pad = padFor(Math.max(...folds) - Math.min(...folds), STEP_DEG);
+  return { nodes, n, folds, ell, target, grid, pad, padded: paddedGrid(grid, STEP_DEG, pad) };
+}
+
 describe("a row shifted across the angle grid (bin means, linear interpolation)", () => {
   const n = 1.3337;
   const x = 3000;
@@ -77,17 +93,10 @@ describe("Airy bows at several refractive indices, shifted onto the interpolated
   it("reproduce Airy's bow at an index between them (7 Chebyshev nodes over water's span; 2e-2 of the peak)", () => {
     // Water's index over 360–830 nm at 15 °C spans about 1.328–1.348 (Daimon & Masumura 2007, from memory): over it
     // the primary's Θ_R moves by ~1.9°, a hundred fringes' worth of 0.02° for x = 3000: unaligned, the blend is 7 bows.
-    const nodes = chebyshevNodes(1.328, 1.348, 7);
     const x = 3000;
-    const n = 1.3411;
-    const folds = nodes.map((m) => airyBowScale(m, x, 1).rainbowAngleDeg);
-    const ell = lagrangeWeights(nodes, n);
-    const target = folds.reduce((sum, f, i) => sum + ell[i] * f, 0);
+    const { nodes, n, folds, ell, target, grid, pad, padded } = blendAcrossWater(x, 5);
     // Θ_R(n) is smooth (Descartes): its Lagrange value from 7 nodes is within 1e-6° of the formula's.
     expect(Math.abs(target - airyBowScale(n, x, 1).rainbowAngleDeg)).toBeLessThan(1e-6);
-    const grid = Float64Array.from({ length: 160 }, (_, j) => target - 5 + STEP_DEG * (j + 0.5));
-    const pad = padFor(Math.max(...folds) - Math.min(...folds), STEP_DEG);
-    const padded = paddedGrid(grid, STEP_DEG, pad);
     const blended = new Float64Array(grid.length);
     const plain = new Float64Array(grid.length);
     nodes.forEach((m, i) => {
@@ -155,15 +164,8 @@ describe("uniform bow tables at several refractive indices, blended before they 
     // The sphere's primary in the uniform form (Chester, Friedman & Ursell 1957; lib/bow/airy-bins.ts uniformBowTable)
     // at 7 Chebyshev nodes over water's span, x = 16,000 (a 1 mm drop in violet light): the fringes' spacing changes
     // with n, so rows shifted onto the blended fold keep each node's fringes where they lie.
-    const nodes = chebyshevNodes(1.328, 1.348, 7);
     const x = 16000;
-    const n = 1.3411;
-    const folds = nodes.map((m) => airyBowScale(m, x, 1).rainbowAngleDeg);
-    const ell = lagrangeWeights(nodes, n);
-    const target = folds.reduce((sum, f, i) => sum + ell[i] * f, 0);
-    const grid = Float64Array.from({ length: 160 }, (_, j) => target - 2 + STEP_DEG * (j + 0.5));
-    const pad = padFor(Math.max(...folds) - Math.min(...folds), STEP_DEG);
-    const padded = paddedGrid(grid, STEP_DEG, pad);
+    const { nodes, n, folds, ell, target, grid, pad, padded } = blendAcrossWater(x, 2);
     const count = padded.length;
     const ctxOf = (m: number): ShapedPlaneContext => ({
       raysPerX2: { perpendicular: new Float64Array(count), parallel: new Float64Array(count) },
