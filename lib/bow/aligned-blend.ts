@@ -64,6 +64,8 @@ export function leaveOneOutMiss(nodes: readonly number[], values: readonly numbe
 /** Scratch of addBlendedContexts: the blended table on the output grid, reused across calls of one length. */
 export interface ShiftScratch {
   table: UniformBowTable;
+  /** Per output bin: whether some source's table touches it without every source's serving it. */
+  mixed: Uint8Array;
 }
 
 export function shiftScratch(count: number): ShiftScratch {
@@ -79,6 +81,7 @@ export function shiftScratch(count: number): ShiftScratch {
       otherPar: out(),
       uniform: new Uint8Array(count),
     },
+    mixed: new Uint8Array(count),
   };
 }
 
@@ -120,7 +123,6 @@ export function addBlendedContexts(
   par: Float64Array,
   scratch: ShiftScratch,
 ): void {
-  const { table } = scratch;
   const x2 = x * x;
   for (const { ctx, shiftDeg, weight, pad } of sources) {
     addShiftedRow(ctx.raysPerX2.perpendicular, pad, shiftDeg, stepDeg, weight * x2, perp);
@@ -128,20 +130,21 @@ export function addBlendedContexts(
   }
   const tableCount = sources[0]?.ctx.bowTables.length ?? 0;
   if (sources.some((source) => source.ctx.bowTables.length !== tableCount)) {
-    for (const source of sources) addBowTables([source], x, stepDeg, perp, par, table);
+    for (const source of sources) addBowTables([source], x, stepDeg, perp, par, scratch);
     return;
   }
-  addBowTables(sources, x, stepDeg, perp, par, table);
+  addBowTables(sources, x, stepDeg, perp, par, scratch);
 }
 
-/** The bows of addBlendedContexts (its sources' tables, equal in number), blended in `table`. */
-function addBowTables(sources: readonly ShiftedContext[], x: number, stepDeg: number, perp: Float64Array, par: Float64Array, table: UniformBowTable): void {
+/** The bows of addBlendedContexts (its sources' tables, equal in number), blended in scratch.table. */
+function addBowTables(sources: readonly ShiftedContext[], x: number, stepDeg: number, perp: Float64Array, par: Float64Array, scratch: ShiftScratch): void {
+  const { table, mixed } = scratch;
   // ẑ is blended as a mean (weights normalised to sum 1); u and v, which scale the intensity, with the weights as they are.
   const weightSum = sources.reduce((sum, source) => sum + source.weight, 0);
   const readAt = (j: number, source: ShiftedContext) => Math.min(Math.max(j + source.pad - source.shiftDeg / stepDeg, 0), source.ctx.raysPerX2.perpendicular.length - 1);
   const tableCount = sources[0]?.ctx.bowTables.length ?? 0;
   for (let t = 0; t < tableCount; t++) {
-    const mixed = new Uint8Array(perp.length);
+    mixed.fill(0);
     let anyMixed = false;
     for (let j = 0; j < perp.length; j++) {
       let served = 0;

@@ -72,8 +72,8 @@ export interface ShapedRowSpec {
   /**
    * Benchmarks and tests only: how a drop's row is made from the planes traced at tracedIndices. "rows" (the default
    * for Airy-type bows; ray optics alone: "sweeps", defaultIndexBlend):
-   * rows of contexts at the traced indices, each shifted so that its bow lands at the fold interpolated to the drop's
-   * index, blended with Lagrange weights in n (alignedNodeRows); "sweeps": each drop's sweeps interpolated across n
+   * contexts at the traced indices, each bow's uniform table shifted so that its fold lands at the fold interpolated to
+   * the drop's index and the tables blended with Lagrange weights in n before they are squared (alignedNodeRows); "sweeps": each drop's sweeps interpolated across n
    * sample by sample and made into a context of its own (the path before issue 13's aligned rows).
    */
   indexBlend?: "rows" | "sweeps";
@@ -250,8 +250,8 @@ function defaultIndexBlend(spec: ShapedRowSpec): "rows" | "sweeps" {
 
 /**
  * Largest leave-one-out miss (aligned-blend.ts leaveOneOutMiss) of a bow's constants κ, C, D across the traced
- * indices for which its rows are blended aligned; past it the group's planes are traced at each drop's own index
- * (indexBlend "sweeps"). Measured on P4's canting node tilted 13° across the plane at the top of the bow (order 3,
+ * indices for which its rows are blended aligned; past it the group's planes are traced at each drop's own index.
+ * Measured on P4's canting node tilted 13° across the plane at the top of the bow (order 3,
  * 1 mm): D climbs 3.9, 4.4, 5.7, 9.0, 19, 101 and falls to 0.05 over the 7 indices (the fold meets another caustic
  * between the last two), misses ~1; the other nodes' constants miss < 1e-3.
  */
@@ -370,7 +370,6 @@ function alignedNodeRows(
   const shapeShiftDeg = spec.kind === "equilibrium" ? SHAPE_SHIFT_DEG_PER_STEP * (spec.deformationStep ?? 0) : 0;
   const prepared = new Map<number, PreparedGroup[]>();
   const scratch = shiftScratch(thetaDeg.length);
-
 
   const prepare = (shapeRadiusUm: number): PreparedGroup[] => {
     const outline = outlineFor(spec, shapeRadiusUm);
