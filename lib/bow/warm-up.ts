@@ -75,13 +75,15 @@ function flattenedWarmUpTask(): KernelRowsInput {
  * Runs `rounds` warm-up tasks (rain-like and fog-like in turn, at 450, 550 and 650 nm, then the flattened drop twice:
  * V8 optimised its tracer only after the second) and returns the ms each took. Measured 2026-12-03 (AMD EPYC, Node 20,
  * one thread): 12 rounds 1.6 s, of which the flattened drop's two 1.4 s; the first flattened profile of a started pool
- * (1 mm upright drops at the top of the bow, 41 wavelengths) then took 1.3–1.7 s instead of 5.3–5.9 s.
+ * (1 mm upright drops at the top of the bow, 41 wavelengths) then took 1.3–1.7 s instead of 5.3–5.9 s. Stops early
+ * when `stop()` turns true.
  */
-export function warmUpKernels(rounds: number): number[] {
+export function warmUpKernels(rounds: number, stop: () => boolean = () => false): number[] {
   const flattened = flattenedWarmUpTask();
   const tasks = [warmUpTask(450), fogWarmUpTask(550), warmUpTask(650), fogWarmUpTask(450), warmUpTask(550), fogWarmUpTask(650), flattened, flattened];
   const times: number[] = [];
-  for (let r = 0; r < rounds; r++) {
+  // `stop` is asked between rounds: a pool that closes while its threads warm up ends them after the round they are in.
+  for (let r = 0; r < rounds && !stop(); r++) {
     const t0 = performance.now();
     kernelRows(tasks[r % tasks.length]);
     times.push(performance.now() - t0);

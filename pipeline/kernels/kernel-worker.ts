@@ -4,9 +4,11 @@ import { move, transferableSymbol, valueSymbol, workerData } from "piscina";
 import { kernelRows } from "../../lib/bow/kernel-rows.js";
 import { warmUpKernels } from "../../lib/bow/warm-up.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
+import { warmUpCounted } from "./thread-lifecycle.js";
 
-const rounds = (workerData as { warmUpRounds?: number } | undefined)?.warmUpRounds ?? 0;
-if (rounds > 0) warmUpKernels(rounds);
+const data = workerData as { warmUpRounds?: number; lifecycle?: SharedArrayBuffer } | undefined;
+const rounds = data?.warmUpRounds ?? 0;
+if (rounds > 0) warmUpCounted(data?.lifecycle, (stop) => warmUpKernels(rounds, stop));
 
 /**
  * The rows are views of a few buffers (one per cache pack): those move to the main thread instead of being

@@ -4,6 +4,22 @@ import { Piscina } from "piscina";
 import { kernelRows } from "../../lib/bow/kernel-rows.js";
 import type { KernelCompute } from "./kernel-service.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
+import { newLifecycleCells, stopWarmUps } from "./thread-lifecycle.js";
+
+/**
+ * V8 may still be compiling a thread's code on a background thread after the code ran; a thread stopped then can abort
+ * the process (thread-lifecycle.ts). The longest such job measured (node --trace-opt over the 12 warm-up rounds,
+ * 2026-12-04, this project's 2-core machine) took 106 ms, and two ended after the warm-up itself had: the pool
+ * stops threads only after this long without a task ending or a warm-up running, about five times that.
+ */
+const QUIET_BEFORE_STOP_MS = 500;
+/**
+ * An aborted task's caller is answered at once, but its thread is stopped only if the task has not ended after this
+ * long (our choice: a sphere task ends within it, and by then V8 has compiled what the task runs).
+ */
+const ABORT_GRACE_MS = 2_000;
+/** The longest close() waits for threads to end their warm-up round (two flattened-drop rounds took 1.4 s). */
+const WARM_UP_STOP_CAP_MS = 10_000;
 
 /**
  * The compiled worker script. From dist/ it sits beside this file; from the sources (tests) it is the built copy,
@@ -31,6 +47,8 @@ export function createWorkerPool(
   threads: number,
   options: { memoryMb?: number; filename?: string; onPoolError?: (error: unknown) => void; warmUpRounds?: number } = {},
 ): KernelPool {
+  const lifecycle = newLifecycleCells();
+  let lastEndMs = 0;
   const piscina = new Piscina({
     filename: options.filename ?? workerScript(),
     // All threads start with the service, so the first cold request does not wait for thread start-up.
@@ -39,16 +57,44 @@ export function createWorkerPool(
     idleTimeout: 60_000,
     resourceLimits: { maxOldGenerationSizeMb: options.memoryMb ?? 2048 },
     // Each thread runs these rounds of lib/bow/warm-up.ts before it takes a task (also a replacement thread).
-    workerData: { warmUpRounds: options.warmUpRounds ?? 0 },
+    workerData: { warmUpRounds: options.warmUpRounds ?? 0, lifecycle },
   });
   // A task aborted while it ran may still send its answer, which piscina reports as an 'error' event ("unexpected
   // message"). Its request has already failed; an unheard 'error' event would end the process.
   piscina.on("error", (error: unknown) => options.onPoolError?.(error));
   return {
     threads,
-    compute: firstInFirstOut(threads, (task, signal) => piscina.run(task, { signal }) as Promise<KernelTaskResult>),
-    close: () => piscina.destroy(),
+    compute: firstInFirstOut(threads, (task, signal) =>
+      withAbortGrace(signal, ABORT_GRACE_MS, (late) => piscina.run(task, { signal: late }) as Promise<KernelTaskResult>).finally(() => {
+        lastEndMs = Date.now();
+      }),
+    ),
+    close: async () => {
+      await stopWarmUps(lifecycle, WARM_UP_STOP_CAP_MS);
+      // Quiet since the last task ended and since the warm-ups (which may have ended just now).
+      await new Promise((resolve) => setTimeout(resolve, Math.max(QUIET_BEFORE_STOP_MS, lastEndMs + QUIET_BEFORE_STOP_MS - Date.now())));
+      await piscina.destroy();
+    },
   };
+}
+
+/**
+ * `run` with a signal that aborts `graceMs` after `signal` does, unless the task has ended by then: piscina stops the
+ * thread of a task whose signal aborts, and a thread stopped while V8 compiles can abort the process (thread-lifecycle.ts).
+ */
+export function withAbortGrace<R>(signal: AbortSignal | undefined, graceMs: number, run: (late?: AbortSignal) => Promise<R>): Promise<R> {
+  if (!signal) return run(undefined);
+  const late = new AbortController();
+  let timer: NodeJS.Timeout | undefined;
+  const onAbort = () => {
+    timer = setTimeout(() => late.abort(signal.reason), graceMs);
+  };
+  if (signal.aborted) onAbort();
+  else signal.addEventListener("abort", onAbort, { once: true });
+  return run(late.signal).finally(() => {
+    clearTimeout(timer);
+    signal.removeEventListener("abort", onAbort);
+  });
 }
 
 /**
@@ -78,10 +124,14 @@ export function firstInFirstOut<T>(limit: number, run: (task: T, signal?: AbortS
       };
       const start = () => {
         signal?.removeEventListener("abort", onAbort);
+        // A running task's caller is answered when its signal aborts; its slot stays taken until the task has ended.
+        const onRunningAbort = () => reject(signal!.reason);
+        signal?.addEventListener("abort", onRunningAbort, { once: true });
         running++;
         run(task, signal)
           .then(resolve, reject)
           .finally(() => {
+            signal?.removeEventListener("abort", onRunningAbort);
             running--;
             next();
           });

@@ -3,7 +3,7 @@
 // after another) depends on it.
 import { describe, expect, it } from "vitest";
 import { fileURLToPath } from "node:url";
-import { createWorkerPool, firstInFirstOut } from "../../../pipeline/kernels/worker-pool.js";
+import { createWorkerPool, firstInFirstOut, withAbortGrace } from "../../../pipeline/kernels/worker-pool.js";
 import type { KernelTask, KernelTaskResult } from "../../../pipeline/kernels/kernel-types.js";
 
 const orderWorker = fileURLToPath(new URL("../../fixtures/order-worker.mjs", import.meta.url));
@@ -59,7 +59,7 @@ describe("first in, first out", () => {
     expect((await Promise.all(results)).map((r) => r.mieTermAngles)).toEqual([0, 1, 2, 3, 4]);
   });
 
-  it("never sends a waiting task whose signal aborts, and rejects it with the signal's reason", async () => {
+  it("never sends a waiting task whose signal aborts; a running one's caller is answered at once, its slot freed when it ends", async () => {
     const { started, end, run } = controlled();
     const compute = firstInFirstOut(1, run);
     const stop = new AbortController();
@@ -68,13 +68,56 @@ describe("first in, first out", () => {
     const third = compute(2);
     stop.abort(new Error("client gone"));
     await expect(second).rejects.toThrow("client gone");
+    // The running task's caller does not wait for its thread.
+    await expect(first).rejects.toThrow("client gone");
     // Already aborted: rejected at once, never queued.
     await expect(compute(3, stop.signal)).rejects.toThrow("client gone");
+    await settle();
+    // The thread is still busy with task 0: task 2 waits for it.
+    expect(started).toEqual([0]);
     end(0);
-    await first;
     await settle();
     expect(started).toEqual([0, 2]);
     end(2);
     await third;
+  });
+});
+
+describe("abort grace", () => {
+  const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+
+  it("aborts the thread's signal only when the task outlives the grace after its caller's abort", async () => {
+    const caller = new AbortController();
+    let late: AbortSignal | undefined;
+    let finish!: () => void;
+    const task = withAbortGrace(caller.signal, 100, (signal) => {
+      late = signal;
+      return new Promise<void>((resolve, reject) => {
+        finish = resolve;
+        signal?.addEventListener("abort", () => reject(signal.reason), { once: true });
+      });
+    });
+    const outcome = task.then(() => "resolved", (error: Error) => error.message);
+    caller.abort(new Error("client gone"));
+    await sleep(30);
+    expect(late!.aborted).toBe(false);
+    await sleep(150);
+    expect(late!.aborted).toBe(true);
+    expect(await outcome).toBe("client gone");
+    finish();
+  });
+
+  it("never aborts the thread's signal of a task that ends within the grace", async () => {
+    const caller = new AbortController();
+    let late: AbortSignal | undefined;
+    const task = withAbortGrace(caller.signal, 100, async (signal) => {
+      late = signal;
+      await sleep(20);
+      return 7;
+    });
+    caller.abort(new Error("client gone"));
+    expect(await task).toBe(7);
+    await sleep(150);
+    expect(late!.aborted).toBe(false);
   });
 });
