@@ -32,12 +32,27 @@ const OFFSET = FIELDS.indexOf("offset");
 /** A failing cell narrower than this is traced in full rather than halved again. */
 const MIN_SPLIT = 4;
 
-/** Newton's divided difference f[x₀…x_{m−1}] (Press et al. 2007 §3.2), overwriting f. */
-function dividedDifference(x: Float64Array, f: Float64Array): number {
-  for (let level = 1; level < x.length; level++) {
-    for (let k = x.length - 1; k >= level; k--) f[k] = (f[k] - f[k - 1]) / (x[k] - x[k - level]);
+/**
+ * The weights c_m of Newton's divided difference f[x₀…x₄] = Σ c_m f(x_m), c_m = 1 / Π_{k≠m}(x_m − x_k) (the
+ * symmetric form, e.g. Abramowitz & Stegun 1964 Eq. 25.1.4), into c: one set serves every field of a cell.
+ */
+function dividedDifferenceWeights(x: Float64Array, c: Float64Array): void {
+  for (let m = 0; m < 5; m++) {
+    let product = 1;
+    for (let k = 0; k < 5; k++) if (k !== m) product *= x[m] - x[k];
+    c[m] = 1 / product;
   }
-  return f[x.length - 1];
+}
+
+/** The pupil's sample positions sin(π s / 2S), s = 0…S, by S: the same for every plane, order and side. */
+const sineTables = new Map<number, Float64Array>();
+function pupilSines(S: number): Float64Array {
+  let table = sineTables.get(S);
+  if (!table) {
+    table = Float64Array.from({ length: S + 1 }, (_, s) => Math.sin((Math.PI * s) / (2 * S)));
+    sineTables.set(S, table);
+  }
+  return table;
 }
 
 /**
@@ -64,7 +79,10 @@ export function sweepPlaneCoarse(
   const left = new Float64Array(3);
   const right = new Float64Array(3);
   const x5 = new Float64Array(5);
-  const scratch = new Float64Array(5);
+  // Divided-difference weights for each choice of fifth node (dividedDifferenceWeights), and the cubic's Lagrange
+  // denominators' inverses 1 / Π_{k≠m}(s_m − s_k).
+  const ddWeights = [new Float64Array(5), new Float64Array(5)];
+  const inverseDenominators = new Float64Array(4);
   const weights = new Float64Array(4);
   const nodeValues = new Float64Array(6 * FIELDS.length);
   // The starts of searches inside a cell (predictorFrom): from rays on both sides, or before it only.
@@ -72,11 +90,12 @@ export function sweepPlaneCoarse(
   const extrapolating = new RayPredictor(Infinity);
   const before = new Float64Array(3);
   const after = new Float64Array(2);
+  const sines = pupilSines(S);
   for (const sign of [1, -1] as const) {
     const half = tracer.pupilHalfWidth(sign);
     const at = (s: number) => S + sign * s;
     for (let s = 0; s <= S; s++) {
-      const u = sign * half * Math.sin((Math.PI * s) / (2 * S));
+      const u = sign * half * sines[s];
       if (s > 0 || sign === 1) sweep.u[at(s)] = u;
       wanted[s] = !window || window.wants(u) ? 1 : 0;
     }
@@ -207,26 +226,37 @@ export function sweepPlaneCoarse(
       // The error bound's largest Π|s − s_k| over the cell's samples (a check that fails at one sample fails at this one).
       let omega = 0;
       for (let s = c0 + 1; s < c1; s++) omega = Math.max(omega, Math.abs((s - nodes[0]) * (s - nodes[1]) * (s - nodes[2]) * (s - nodes[3])));
+      for (let e = 0; e < fifthCount; e++) {
+        for (let m = 0; m < 4; m++) x5[m] = nodes[m];
+        x5[4] = fifth[e];
+        dividedDifferenceWeights(x5, ddWeights[e]);
+      }
       for (let f = 0; f < CHECKED_COUNT; f++) {
         let top = 0;
         for (let e = 0; e < fifthCount; e++) {
-          for (let m = 0; m < 4; m++) {
-            x5[m] = nodes[m];
-            scratch[m] = nodeValues[6 * f + m];
-          }
-          x5[4] = fifth[e];
-          scratch[4] = nodeValues[6 * f + 4 + e];
-          top = Math.max(top, Math.abs(dividedDifference(x5, scratch)));
+          const c = ddWeights[e];
+          const base = 6 * f;
+          const difference =
+            c[0] * nodeValues[base] + c[1] * nodeValues[base + 1] + c[2] * nodeValues[base + 2] + c[3] * nodeValues[base + 3] + c[4] * nodeValues[base + 4 + e];
+          top = Math.max(top, Math.abs(difference));
         }
         const tolerance = f === THETA ? THETA_TOLERANCE_RAD : f === PATH || f === OFFSET ? PATH_TOLERANCE : AMPLITUDE_TOLERANCE * amplitude;
         if (top * omega > tolerance) return false;
       }
+      for (let m = 0; m < 4; m++) {
+        let product = 1;
+        for (let k = 0; k < 4; k++) if (k !== m) product *= nodes[m] - nodes[k];
+        inverseDenominators[m] = 1 / product;
+      }
       for (let s = c0 + 1; s < c1; s++) {
-        for (let m = 0; m < 4; m++) {
-          let w = 1;
-          for (let k = 0; k < 4; k++) if (k !== m) w *= (s - nodes[k]) / (nodes[m] - nodes[k]);
-          weights[m] = w;
-        }
+        const d0 = s - nodes[0];
+        const d1 = s - nodes[1];
+        const d2 = s - nodes[2];
+        const d3 = s - nodes[3];
+        weights[0] = d1 * d2 * d3 * inverseDenominators[0];
+        weights[1] = d0 * d2 * d3 * inverseDenominators[1];
+        weights[2] = d0 * d1 * d3 * inverseDenominators[2];
+        weights[3] = d0 * d1 * d2 * inverseDenominators[3];
         const i = at(s);
         sweep.ok[i] = 1;
         for (let f = 0; f < FIELDS.length; f++) {
