@@ -6,7 +6,7 @@
 // same 2 worker threads; CPU time of the process and its threads (process.cpuUsage) per variant, so the ratios are
 // same-run figures. Colour: CIEDE2000 per angle (Luo, Cui & Rigg 2001, via colorjs.io) on CIE 1931 XYZ scaled by the
 // reference's peak Y over ψ 30–60°, after the sun's disc as the service computes profiles (bench/auto-presets.ts windowDeltaE).
-// node dist/bench/aligned-rows.js [--showers] [--only=TEXT] [--steps=0.01,0.02] [--write[=SECTION]]
+// node dist/bench/aligned-rows.js [--showers] [--only=TEXT] [--steps=0.01,0.02] [--skip-sweeps] [--write[=SECTION]]
 // (--only: the workloads whose name holds TEXT; --write: the aligned-rows section of BENCHMARKS.md, or the named one, so
 // that runs of different workloads keep their own sections)
 
@@ -18,6 +18,8 @@ import { profileRequestSchema } from "../schemas/profile.js";
 import { computeProfile, type ProfileResult } from "../pipeline/compute/profile.js";
 import { KernelService, type KernelCompute } from "../pipeline/kernels/kernel-service.js";
 import { createWorkerPool } from "../pipeline/kernels/worker-pool.js";
+import { DEFAULT_DEFORMATION_STEP } from "../pipeline/compute/drop-shape-plan.js";
+import { SHAPE_NODES_MAX_RADIUS_UM } from "../lib/bow/shaped-rows.js";
 
 const EQUILIBRIUM_1MM = { kind: "monodisperse", radiusUm: 1000, numberPerM3: 1000, shape: { kind: "equilibrium" } };
 const EQUILIBRIUM_2MM = { kind: "monodisperse", radiusUm: 2000, numberPerM3: 1000, shape: { kind: "equilibrium" } };
@@ -50,6 +52,9 @@ async function cpuProfile(body: Record<string, unknown>, compute: KernelCompute,
 const args = process.argv.slice(2);
 const steps = (args.find((a) => a.startsWith("--steps="))?.slice(8).split(",").map(Number) ?? []).filter((s) => s > 0);
 const only = args.find((a) => a.startsWith("--only="))?.slice(7);
+// --skip-sweeps: without the interpolated sweeps (the path before aligned rows); CPU ratios are then to the first path.
+const skipSweeps = args.includes("--skip-sweeps");
+const ratioTo = skipSweeps ? 0 : 1;
 const load = loadavg()[0];
 const pool = createWorkerPool(2);
 const lines: string[] = [];
@@ -59,13 +64,18 @@ try {
   for (const w of WORKLOADS.filter((w) => (args.includes("--showers") ? true : !w.shower) && (!only || w.name.includes(only)))) {
     const reference = await cpuProfile(w.body, perWavelength(pool.compute));
     const variants: { what: string; run: { result: ProfileResult; cpuMs: number } }[] = [
-      { what: "aligned rows", run: await cpuProfile(w.body, pool.compute) },
-      { what: "interpolated sweeps", run: await cpuProfile(w.body, sweepsPath(pool.compute)) },
+      { what: w.shower ? "aligned rows, every radius its own shape" : "aligned rows", run: await cpuProfile(w.body, pool.compute) },
     ];
-    if (w.shower) for (const step of steps) variants.push({ what: `aligned rows, shape nodes ${step}`, run: await cpuProfile(w.body, pool.compute, step) });
+    if (!skipSweeps) variants.push({ what: "interpolated sweeps", run: await cpuProfile(w.body, sweepsPath(pool.compute)) });
+    if (w.shower) {
+      for (const step of steps) {
+        const what = `aligned rows, shape nodes ${step} up to ${SHAPE_NODES_MAX_RADIUS_UM} µm${step === DEFAULT_DEFORMATION_STEP ? " (the service's default)" : ""}`;
+        variants.push({ what, run: await cpuProfile(w.body, pool.compute, step) });
+      }
+    }
     for (const v of variants) {
       const d = windowDeltaE(reference.result, v.run.result);
-      const line = `| ${w.name} | ${v.what} | ${d.worst.toFixed(3)} at ψ ${d.at?.toFixed(1) ?? "–"}° | ${d.mean.toFixed(4)} | ${v.run.cpuMs.toFixed(0)} / ${reference.cpuMs.toFixed(0)} | ${(v.run.cpuMs / variants[1].run.cpuMs).toFixed(2)} |`;
+      const line = `| ${w.name} | ${v.what} | ${d.worst.toFixed(3)} at ψ ${d.at?.toFixed(1) ?? "–"}° | ${d.mean.toFixed(4)} | ${v.run.cpuMs.toFixed(0)} / ${reference.cpuMs.toFixed(0)} | ${(v.run.cpuMs / variants[ratioTo].run.cpuMs).toFixed(2)} |`;
       console.log(line, `load ${loadavg()[0].toFixed(1)}`);
       lines.push(line);
     }
@@ -86,9 +96,10 @@ if (write) {
     "follow one polynomial in n traced at the drop's own index. \"Interpolated sweeps\": the path before aligned rows (every",
     "wavelength's sweeps interpolated across n; method \"geometric\" still takes it). ΔE2000 per angle over",
     "ψ 30–60° after the sun's disc, XYZ scaled by the reference's peak Y. CPU: the process and its threads in this run; ratio to the",
-    "interpolated sweeps of the same workload in the same run.",
+    `${skipSweeps ? "first path (every radius its own shape)" : "interpolated sweeps"} of the same workload in the same run. Shape nodes: equilibrium drops up to ${SHAPE_NODES_MAX_RADIUS_UM} µm blended`,
+    "from the two shape nodes that bracket their deformation, their bows aligned (lib/bow/shaped-rows.ts), larger ones their own shape.",
     "",
-    "| workload | path | worst ΔE2000 | mean ΔE2000 | CPU ms (path / reference) | CPU / interpolated sweeps |",
+    `| workload | path | worst ΔE2000 | mean ΔE2000 | CPU ms (path / reference) | CPU / ${skipSweeps ? "first path" : "interpolated sweeps"} |`,
     "|---|---|---|---|---|---|",
     ...lines,
   ]);

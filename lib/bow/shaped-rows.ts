@@ -52,11 +52,9 @@ export interface ShapedRowSpec {
   /**
    * Equilibrium only: each radius's row is blended from the rows, at its own size, of the two shape nodes this far
    * apart in deformation 1 − q that bracket its shape (lib/drops/shape/shape-nodes.ts), each shifted so that its bow
-   * lands at the nodes' folds weighted as their rows, so that radii share traced planes; 0 or absent (what the service
-   * asks for): every radius its own shape. Measured against every radius traced (bench/aligned-rows.ts --steps,
-   * 2026-12-03 20:10–21:00 UTC, rows then shifted by interpolating bin means; Marshall–Palmer showers, 20 nm, top of the
-   * bow): worst ΔE2000 0.25 at step 0.005 without canting at 2 mm/h, but 5.7 with canting 7.5° and 72 at 25 mm/h,
-   * where large drops' bows change form between nodes.
+   * lands at the nodes' folds weighted as their rows, so that radii share traced planes; drops above
+   * SHAPE_NODES_MAX_RADIUS_UM keep their own shape. 0 or absent: every radius its own shape. The service asks for
+   * pipeline/compute/drop-shape-plan.ts DEFAULT_DEFORMATION_STEP (its measurements there).
    */
   deformationStep?: number;
   cantingSdDeg: number;
@@ -110,7 +108,8 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (11: co- and
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (12: equilibrium
+ * drops on shape nodes only up to SHAPE_NODES_MAX_RADIUS_UM, larger ones with their own shape; 11: co- and
  * cross-polar amplitudes interfere each on its own (one signed amplitude of both jumped where the co-polar ∥ term
  * changes sign near Brewster's angle: a bow's dark side 10× its peak, test/lib/bow/plane-bow-table.test.ts), and the
  * aligned blend blends the bows' uniform tables, not their squared rows (lib/bow/aligned-blend.ts addBlendedContexts),
@@ -129,7 +128,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 11;
+export const SHAPED_ENGINE_VERSION = 12;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -156,12 +155,33 @@ export function outlineFor(spec: Pick<ShapedRowSpec, "kind" | "axisRatio">, radi
  */
 export function shapeGroupKey(spec: ShapedRowSpec, radiusUm: number): string {
   if (spec.kind === "spheroid") return shapedRowKey(spec);
-  return spec.deformationStep ? `${shapedRowKey(spec)}|nodes` : `${shapedRowKey(spec)}|${radiusUm}`;
+  return onShapeNodes(spec, radiusUm) ? `${shapedRowKey(spec)}|nodes` : `${shapedRowKey(spec)}|${radiusUm}`;
+}
+
+/**
+ * Equilibrium drops up to this radius are blended from shape nodes (ShapedRowSpec.deformationStep); larger ones keep
+ * their own shape, since a large drop's bow changes form between nodes (a second caustic enters the secondary's window,
+ * the fold's curvature changes) in a way that a shift of the nodes' tables does not follow. Measured with the nodes
+ * 0.005 apart, rows blended aligned against every radius with its own shape (one wavelength, canting 7.5°, sun 10°):
+ * off by up to 0.0065 of the peak at 1 mm (top of the bow, arc 45°) and 0.017 at arc 90°, 0.043 at 1.3 mm, 0.3–0.7 at
+ * 1.7–2.8 mm; on whole showers, BENCHMARKS.md aligned-rows.
+ */
+export const SHAPE_NODES_MAX_RADIUS_UM = 1000;
+
+/** Whether an equilibrium drop of this radius is blended from shape nodes rather than traced with its own shape. */
+function onShapeNodes(spec: ShapedRowSpec, radiusUm: number): boolean {
+  return spec.kind === "equilibrium" && (spec.deformationStep ?? 0) > 0 && radiusUm <= SHAPE_NODES_MAX_RADIUS_UM;
 }
 
 /** The shapes (by the radius whose outline they are; a spheroid's: 0) a drop's row is made of, and their weights. */
 function shapesOf(spec: ShapedRowSpec, radiusUm: number): { radiusUm: number; weight: number }[] {
-  return spec.kind === "spheroid" ? [{ radiusUm: 0, weight: 1 }] : shapeNodeWeights(radiusUm, spec.deformationStep ?? 0);
+  if (spec.kind === "spheroid") return [{ radiusUm: 0, weight: 1 }];
+  return onShapeNodes(spec, radiusUm) ? shapeNodeWeights(radiusUm, spec.deformationStep!) : [{ radiusUm, weight: 1 }];
+}
+
+/** How many shapes the drops of these radii are traced with: one per radius, fewer where they share shape nodes. */
+export function tracedShapeCount(spec: ShapedRowSpec, radiiUm: readonly number[]): number {
+  return new Set(radiiUm.flatMap((radiusUm) => shapesOf(spec, radiusUm).map((s) => s.radiusUm))).size;
 }
 
 /**
@@ -367,7 +387,9 @@ function alignedNodeRows(
   uses.forEach((u, d) => u.forEach((s) => lastUse.set(s.radiusUm, Math.max(lastUse.get(s.radiusUm) ?? 0, lastShapeOf[d]))));
   const plane = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
   const traced = tracedIndices(spec);
-  const shapeShiftDeg = spec.kind === "equilibrium" ? SHAPE_SHIFT_DEG_PER_STEP * (spec.deformationStep ?? 0) : 0;
+  // The shape nodes' bows are shifted to the drops' folds: their grids are padded for it; a drop's own shape's is not.
+  const nodeShapes = new Set(drops.flatMap((drop, d) => (onShapeNodes(spec, drop.radiusUm) ? uses[d].map((s) => s.radiusUm) : [])));
+  const shapeShiftDeg = (shapeRadiusUm: number) => (nodeShapes.has(shapeRadiusUm) ? SHAPE_SHIFT_DEG_PER_STEP * spec.deformationStep! : 0);
   const prepared = new Map<number, PreparedGroup[]>();
   const scratch = shiftScratch(thetaDeg.length);
 
@@ -383,7 +405,8 @@ function alignedNodeRows(
       }
       const foldsDeg = groupFoldsDeg(sweeps, traced, group);
       const aligned = typeof foldsDeg !== "string";
-      const pad = aligned ? padFor(Math.max(...foldsDeg) - Math.min(...foldsDeg) + shapeShiftDeg, stepDeg) : padFor(shapeShiftDeg, stepDeg);
+      const shift = shapeShiftDeg(shapeRadiusUm);
+      const pad = aligned ? padFor(Math.max(...foldsDeg) - Math.min(...foldsDeg) + shift, stepDeg) : padFor(shift, stepDeg);
       const grid = paddedGrid(thetaDeg, stepDeg, pad);
       const ctxs = foldsDeg === "some" ? [] : traced.map((n, i) => contextFromSweeps(n, sweeps[i], 1, grid, stepDeg, options));
       const followed = () => leaveOneOutRowMiss(traced, ctxs, foldsDeg as Float64Array, checkX(shapeRadiusUm), pad, stepDeg, thetaDeg.length, Math.round(SUN_HALF_WIDTH_DEG / stepDeg)) <= ROWS_MISS;

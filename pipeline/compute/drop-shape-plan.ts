@@ -15,6 +15,8 @@ import {
   outlineFor,
   quantiseSpec,
   SUN_ELEVATION_STEP_DEG,
+  SHAPE_NODES_MAX_RADIUS_UM,
+  tracedShapeCount,
   type ShapedPlaneCount,
   type ShapedRowSpec,
 } from "../../lib/bow/shaped-rows.js";
@@ -27,6 +29,8 @@ export interface ShapePlan {
   /** Per radius node: the flattened drop's spec, or undefined for a sphere. */
   shapes: (ShapedRowSpec | undefined)[];
   flattened: boolean;
+  /** Shapes the flattened drops are traced with: one per radius node, fewer where they share shape nodes. */
+  tracedShapes: number;
   meta: ShapeMeta;
   warnings: string[];
 }
@@ -34,33 +38,46 @@ export interface ShapePlan {
 const ENGINE =
   "3D ray tracing through the drop (Fresnel coefficients for both polarisations, orders 0–3) with the primary and secondary bows in the uniform Airy form per scattering plane (Chester, Friedman & Ursell 1957; Berry & Mount 1972), phases and amplitudes from the traced rays";
 const ACCURACY =
-  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); each wavelength's bows blended from their uniform tables at 7 refractive indices fixed by the water, aligned on the interpolated fold (traced at the wavelength's own index where the bow's constants or rows do not follow one polynomial in n): worst ΔE2000 0.008 (1 mm drops, top of the bow), 0.017 (1 mm, arc 45°), 0.12 (2 mm, arc 45°) and 0.003 (Marshall–Palmer 2 mm/h, top) against tracing every wavelength (BENCHMARKS.md, shape-index and aligned-rows); canting: five tilts traced, each one's bow spread over the fold angles of its share of the Gaussian of tilts (against a dense grid of traced tilts, BENCHMARKS.md canting-spread)";
+  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); each wavelength's bows blended from their uniform tables at 7 refractive indices fixed by the water, aligned on the interpolated fold (traced at the wavelength's own index where the bow's constants or rows do not follow one polynomial in n): worst ΔE2000 0.008 (1 mm drops, top of the bow), 0.017 (1 mm, arc 45°), 0.12 (2 mm, arc 45°) and 0.003 (Marshall–Palmer 2 mm/h, top) against tracing every wavelength (BENCHMARKS.md, shape-index and aligned-rows); canting: five tilts traced, each one's bow spread over the fold angles of its share of the Gaussian of tilts (against a dense grid of traced tilts, BENCHMARKS.md canting-spread); equilibrium drops up to 1 mm in a size distribution blended from shape nodes 0.0075 apart in deformation: worst ΔE2000 0.27 at the top of the bow and 0.008 at its side (Marshall–Palmer 2 mm/h, canting 7.5°) against every radius with its own shape (BENCHMARKS.md aligned-rows-nodes-steps)";
 const DEFAULT_NOTE =
   "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes computes 60 radius nodes × 5 canting nodes × 7 traced scattering planes (and, where a bow changes form between those indices, one traced per wavelength), measured at 65 times the default profile's cold time in the same run, against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
 
-/** deformationStep: equilibrium drops blended from shape nodes (ShapedRowSpec.deformationStep; studies only). */
-export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, deformationStep?: number): ShapePlan {
+/**
+ * Equilibrium drops up to SHAPE_NODES_MAX_RADIUS_UM share the planes of shape nodes this far apart in deformation
+ * 1 − q (ShapedRowSpec.deformationStep). Measured on Marshall–Palmer showers (canting 7.5°, sun 10°, 20 nm) against
+ * every radius traced with its own shape and every wavelength at its own index, CPU against every radius its own shape
+ * in the same run (BENCHMARKS.md aligned-rows-nodes-top and aligned-rows-nodes-steps, 2026-12-04): at the top of the
+ * bow, where flattening moves the bow fastest, worst ΔE2000 0.084 / 0.27 / 0.48 / 0.79 at 2 mm/h with steps 0.005 /
+ * 0.0075 / 0.01 / 0.02, at 0.87 / 0.72 / 0.61 / 0.54 of the CPU; at the side (arc 90°) 0.008 at 0.66 with 0.0075.
+ * 0.0075 keeps the worst below the ΔE2000 0.5 that issue 13 allows the rows' quantisation, with room for the others.
+ */
+export const DEFAULT_DEFORMATION_STEP = 0.0075;
+
+/** deformationStep: equilibrium drops blended from shape nodes (ShapedRowSpec.deformationStep); 0: each radius its own shape. */
+export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, deformationStep = DEFAULT_DEFORMATION_STEP): ShapePlan {
   const shape = request.drops.shape ?? { kind: "sphere" as const };
   if (shape.kind === "sphere") {
     const meta: ShapeMeta = { model: "sphere", default: DEFAULT_NOTE };
     if (request.arcPositionDeg !== undefined) {
       meta.note = `arcPositionDeg ${request.arcPositionDeg} changes nothing for spherical drops: their bow is the same all along the arc`;
     }
-    return { shapes: Array.from(radiiUm, () => undefined), flattened: false, meta, warnings: [] };
+    return { shapes: Array.from(radiiUm, () => undefined), flattened: false, tracedShapes: 0, meta, warnings: [] };
   }
   const arcPositionDeg = request.arcPositionDeg ?? DEFAULT_ARC_POSITION_DEG;
-  const spec = quantiseSpec({
+  const ownShapes = quantiseSpec({
     kind: shape.kind,
     axisRatio: shape.kind === "spheroid" ? shape.axisRatio : undefined,
-    ...(shape.kind === "equilibrium" && deformationStep ? { deformationStep } : {}),
     cantingSdDeg: shape.cantingSdDeg,
     sunElevationDeg: request.sun.elevationDeg,
     arcPositionDeg,
     rayOnly: request.method === "geometric",
     indexSpan: waterIndexSpan(request.water),
   });
+  const flattenedRadii = Array.from(radiiUm).filter((r) => shape.kind === "spheroid" || r >= FLATTENED_FROM_RADIUS_UM);
+  // Shape nodes only where they save shapes: a single size (or a few far apart) is traced with its own shape.
+  const onNodes = shape.kind === "equilibrium" && deformationStep > 0 ? { ...ownShapes, deformationStep } : undefined;
+  const spec = onNodes && tracedShapeCount(onNodes, flattenedRadii) < flattenedRadii.length ? onNodes : ownShapes;
   const shapes = Array.from(radiiUm, (r) => (shape.kind === "spheroid" || r >= FLATTENED_FROM_RADIUS_UM ? spec : undefined));
-  const flattenedRadii = Array.from(radiiUm).filter((_, i) => shapes[i] !== undefined);
   const ratios = flattenedRadii.length
     ? [flattenedRadii[0], flattenedRadii[flattenedRadii.length - 1]].map((r) => Math.round(outlineAxisRatio(outlineFor(spec, r)) * 1e4) / 1e4)
     : [];
@@ -71,6 +88,11 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
     flattenedRadii: flattenedRadii.length
       ? { fromUm: flattenedRadii[0], toUm: flattenedRadii[flattenedRadii.length - 1], nodes: flattenedRadii.length, axisRatioFrom: ratios[0], axisRatioTo: ratios[1] }
       : null,
+    shapesTraced: {
+      shapes: flattenedRadii.length ? tracedShapeCount(spec, flattenedRadii) : 0,
+      deformationStep: spec.deformationStep ?? null,
+      upToRadiusUm: spec.deformationStep ? SHAPE_NODES_MAX_RADIUS_UM : null,
+    },
     cantingSdDeg: shape.cantingSdDeg,
     cantingSource: `default ${CANTING_SD_DEG}°: Huang, Bringi & Thurai 2008 measured 7–8°; five tilts traced (a 5-point rule exact to degree 3), their bows spread over the angles the whole Gaussian of tilts sends them to (BENCHMARKS.md, canting-spread)`,
     arcPositionDeg: spec.arcPositionDeg,
@@ -85,7 +107,8 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
   if (flattenedRadii.length && flattenedRadii[0] < AUTO_AIRY_FROM_RADIUS_UM) {
     warnings.push(`flattened drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm radius are served by Airy-type theory outside its measured validity`);
   }
-  return { shapes, flattened: flattenedRadii.length > 0, meta, warnings };
+  const tracedShapes = meta.shapesTraced!.shapes;
+  return { shapes, flattened: flattenedRadii.length > 0, tracedShapes, meta, warnings };
 }
 
 /**
@@ -103,7 +126,7 @@ export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
 
 /**
  * Scattering planes a plan's flattened rows trace and interpolate, cold: per shape (each flattened radius node of
- * equilibrium drops; one for a spheroid, whose radii share their planes) and canting node, INDEX_NODES traced planes
+ * equilibrium drops, or the shape nodes they share; one for a spheroid, whose radii share their planes) and canting node, INDEX_NODES traced planes
  * (at the water's tracedIndices) and one made per wavelength from them (aligned tables, or traced at its own index). A shape's task split across threads is split by
  * canting node and order group (pipeline/kernels/canting-parts.ts): each order of a plane is traced once, and a plane
  * counts once, with its first order group (lib/bow/shaped-rows.ts shapedNodeRows), so the parts report these counts.
@@ -111,8 +134,7 @@ export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
 export function shapedPlaneCounts(plan: ShapePlan, wavelengths: number): ShapedPlaneCount {
   const spec = plan.shapes.find((s) => s !== undefined);
   if (!spec) return { traced: 0, interpolated: 0 };
-  const shapes = spec.kind === "spheroid" ? 1 : plan.shapes.filter((s) => s !== undefined).length;
-  const planes = shapes * planeCantingNodes(spec).length;
+  const planes = plan.tracedShapes * planeCantingNodes(spec).length;
   return { traced: planes * INDEX_NODES, interpolated: planes * wavelengths };
 }
 

@@ -138,8 +138,9 @@ export interface ProfileResolution {
   /** auto's AUTO_MAX_AIRY_SHARE; answers whose rows share the budget set 1, or the share rule multiplies their cost. */
   autoMaxAiryShare?: number;
   /**
-   * Equilibrium drops blended from shape nodes this far apart in deformation (ShapedRowSpec.deformationStep); the
-   * service leaves it out (each radius its own shape): bench/shape-nodes.ts measures what the nodes cost in colour.
+   * Equilibrium drops blended from shape nodes this far apart in deformation (ShapedRowSpec.deformationStep); absent:
+   * DEFAULT_DEFORMATION_STEP (drop-shape-plan.ts), 0: each radius its own shape (the reference benchmarks measure the
+   * nodes against: bench/aligned-rows.ts, bench/shape-nodes.ts).
    */
   deformationStep?: number;
 }

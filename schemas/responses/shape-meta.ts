@@ -13,6 +13,10 @@ export const shapeMetaSchema = z
       .nullable()
       .optional()
       .describe("the radius nodes served as flattened drops and their axis ratios (vertical over horizontal)"),
+    shapesTraced: z
+      .strictObject({ shapes: z.number().int(), deformationStep: z.number().nullable(), upToRadiusUm: z.number().nullable() })
+      .optional()
+      .describe("how many drop shapes were traced: one per radius node, or fewer where radii up to upToRadiusUm share shape nodes deformationStep apart in 1 − axis ratio"),
     cantingSdDeg: z.number().optional(),
     cantingSource: z.string().optional(),
     arcPositionDeg: z.number().optional().describe("the arc position used (rounded as the kernel rows are)"),

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { INDEX_NODES, SHAPED_ORDER_GROUPS, shapedDropRow, shapedNodeRows, shapedRows, type ShapedRowSpec } from "../../../lib/bow/shaped-rows.js";
+import { INDEX_NODES, SHAPED_ORDER_GROUPS, SHAPE_NODES_MAX_RADIUS_UM, shapedDropRow, shapedNodeRows, shapedRows, tracedShapeCount, type ShapedRowSpec } from "../../../lib/bow/shaped-rows.js";
 import { shapedPlaneContext, shapedPlaneRow } from "../../../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
 import { spheroidOutline } from "../../../lib/drops/shape/outline.js";
@@ -172,8 +172,8 @@ describe("every wavelength's plane is interpolated from planes traced at fixed r
 describe("equilibrium drops blended from shape nodes share the nodes' traced planes", () => {
   const spec: ShapedRowSpec = { kind: "equilibrium", deformationStep: 0.005, cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 0, rayOnly: false };
 
-  it("drops computed together equal each alone, bit for bit", () => {
-    const radii = [1000, 1030];
+  it("drops computed together equal each alone, bit for bit (also one above SHAPE_NODES_MAX_RADIUS_UM, its own shape)", () => {
+    const radii = [970, 1000, 1300];
     const together = shapedRows(spec, radii.map((radiusUm) => ({ radiusUm, mRe: N_WATER, x: 12000 })), thetaDeg, 0.1);
     radii.forEach((radiusUm, k) => expect(Array.from(together[k].perp, (v, j) => v + together[k].par[j])).toEqual(row(spec, 12000, radiusUm)));
   }, 600_000);
@@ -191,4 +191,21 @@ describe("equilibrium drops blended from shape nodes share the nodes' traced pla
     expect(sunDiscMiss(mine, own)).toBeLessThanOrEqual(1e-2);
     expect(sunDiscMiss(plain, own)).toBeGreaterThan(5e-2);
   }, 600_000);
+
+  it("drops above SHAPE_NODES_MAX_RADIUS_UM keep their own shape: the same row as without nodes, bit for bit", () => {
+    const above = SHAPE_NODES_MAX_RADIUS_UM * 1.3;
+    expect(row(spec, 15000, above)).toEqual(row({ ...spec, deformationStep: undefined }, 15000, above));
+    // Below it the row is blended from two nodes, not its own shape's.
+    expect(row(spec, 12000, 1000)).not.toEqual(row({ ...spec, deformationStep: undefined }, 12000, 1000));
+  }, 600_000);
+
+  it("a shower's flattened radii are traced with fewer shapes: the nodes below SHAPE_NODES_MAX_RADIUS_UM, each radius above it", () => {
+    const radii = Array.from({ length: 40 }, (_, k) => 150 * Math.pow(20, k / 39));
+    const above = radii.filter((r) => r > SHAPE_NODES_MAX_RADIUS_UM).length;
+    const shared = tracedShapeCount(spec, radii);
+    const nodesBelow = new Set(radii.filter((r) => r <= SHAPE_NODES_MAX_RADIUS_UM).flatMap((r) => shapeNodeWeights(r, 0.005).map((n) => n.radiusUm))).size;
+    expect(shared).toBe(nodesBelow + above);
+    expect(shared).toBeLessThan(radii.length);
+    expect(tracedShapeCount({ ...spec, deformationStep: undefined }, radii)).toBe(radii.length);
+  });
 });

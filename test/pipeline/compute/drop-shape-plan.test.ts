@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { planDropShapes, shapedCostTermAngles } from "../../../pipeline/compute/drop-shape-plan.js";
+import { DEFAULT_DEFORMATION_STEP, planDropShapes, shapedCostTermAngles } from "../../../pipeline/compute/drop-shape-plan.js";
+import { SHAPE_NODES_MAX_RADIUS_UM } from "../../../lib/bow/shaped-rows.js";
 import { profileRequestSchema } from "../../../schemas/profile.js";
 import { loadConfig } from "../../../pipeline/config/config.js";
 
@@ -19,6 +20,23 @@ describe("which drops are flattened, where on the bow, and at what cost", () => 
     // Axis ratios of the model at 0.3 mm and 5 mm diameter (Beard & Chuang 1987 Table 1: 0.708 at 5 mm).
     expect(plan.meta.flattenedRadii!.axisRatioFrom).toBeGreaterThan(0.999);
     expect(Math.abs(plan.meta.flattenedRadii!.axisRatioTo - 0.708)).toBeLessThan(0.01);
+  });
+
+  it("equilibrium showers share shape nodes up to SHAPE_NODES_MAX_RADIUS_UM; a single size keeps its own shape", () => {
+    const shower = Float64Array.from({ length: 60 }, (_, k) => 150 * Math.pow(20, k / 59));
+    const rain = profileRequestSchema.parse({ drops: { kind: "marshall-palmer", rainRateMmPerH: 5, shape: { kind: "equilibrium" } } });
+    const plan = planDropShapes(rain, shower);
+    const above = Array.from(shower).filter((r) => r > SHAPE_NODES_MAX_RADIUS_UM).length;
+    expect(plan.shapes[0]?.deformationStep).toBe(DEFAULT_DEFORMATION_STEP);
+    expect(plan.meta.shapesTraced).toMatchObject({ deformationStep: DEFAULT_DEFORMATION_STEP, upToRadiusUm: SHAPE_NODES_MAX_RADIUS_UM });
+    expect(plan.tracedShapes).toBe(plan.meta.shapesTraced!.shapes);
+    expect(plan.tracedShapes).toBeGreaterThan(above);
+    expect(plan.tracedShapes).toBeLessThan(shower.length);
+    // Priced by the shapes it traces: below the same shower with every radius its own shape.
+    expect(shapedCostTermAngles(plan, 41, 600)).toBeLessThan(shapedCostTermAngles(planDropShapes(rain, shower, 0), 41, 600));
+    const single = planDropShapes(profileRequestSchema.parse({ drops: { kind: "monodisperse", radiusUm: 700, shape: { kind: "equilibrium" } } }), Float64Array.from([700]));
+    expect(single.shapes[0]?.deformationStep).toBeUndefined();
+    expect(single.meta.shapesTraced).toEqual({ shapes: 1, deformationStep: null, upToRadiusUm: null });
   });
 
   it("spheroid: every size; geometric method: ray optics only; no arc position: the side, with a note", () => {
