@@ -161,10 +161,10 @@ export function shapeGroupKey(spec: ShapedRowSpec, radiusUm: number): string {
 /**
  * Equilibrium drops up to this radius are blended from shape nodes (ShapedRowSpec.deformationStep); larger ones keep
  * their own shape, since a large drop's bow changes form between nodes (a second caustic enters the secondary's window,
- * the fold's curvature changes) in a way that a shift of the nodes' tables does not follow. Measured with the nodes
- * 0.005 apart, rows blended aligned against every radius with its own shape (one wavelength, canting 7.5°, sun 10°):
- * off by up to 0.0065 of the peak at 1 mm (top of the bow, arc 45°) and 0.017 at arc 90°, 0.043 at 1.3 mm, 0.3–0.7 at
- * 1.7–2.8 mm; on whole showers, BENCHMARKS.md aligned-rows.
+ * the fold's curvature changes) in a way that a shift of the nodes' tables does not follow. Measured on 2026-12-03 by a
+ * one-off script (not kept; issue 13's notes), nodes 0.005 apart, rows blended aligned against every radius with its
+ * own shape (one wavelength, canting 7.5°, sun 10°): off by up to 0.0065 of the peak at 1 mm (top of the bow, arc 45°)
+ * and 0.017 at arc 90°, 0.043 at 1.3 mm, 0.3–0.7 at 1.7–2.8 mm. On whole showers: BENCHMARKS.md aligned-rows-nodes-steps.
  */
 export const SHAPE_NODES_MAX_RADIUS_UM = 1000;
 

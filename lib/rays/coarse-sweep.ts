@@ -34,7 +34,7 @@ const MIN_SPLIT = 4;
 
 /**
  * The weights c_m of Newton's divided difference f[x₀…x₄] = Σ c_m f(x_m), c_m = 1 / Π_{k≠m}(x_m − x_k) (the
- * symmetric form, e.g. Abramowitz & Stegun 1964 Eq. 25.1.4), into c: one set serves every field of a cell.
+ * symmetric form of Newton's divided difference, common practice), into c: one set serves every field of a cell.
  */
 function dividedDifferenceWeights(x: Float64Array, c: Float64Array): void {
   for (let m = 0; m < 5; m++) {
