@@ -9,8 +9,8 @@ import { newLifecycleCells, stopWarmUps } from "./thread-lifecycle.js";
 /**
  * V8 may still be compiling a thread's code on a background thread after the code ran; a thread stopped then can abort
  * the process (thread-lifecycle.ts). The longest such job measured (node --trace-opt over the 12 warm-up rounds,
- * 2026-12-04, this project's 2-core machine) took 106 ms, and two ended after the warm-up itself had: the pool
- * stops threads only after this long without a task ending or a warm-up running, about five times that.
+ * 2026-12-04, this project's 2-core machine) took 106 ms, and two ended after the warm-up itself had: close() waits
+ * this long, about five times that, after the warm-ups (which may have ended just now, unseen) before it stops the threads.
  */
 const QUIET_BEFORE_STOP_MS = 500;
 /**
@@ -48,7 +48,6 @@ export function createWorkerPool(
   options: { memoryMb?: number; filename?: string; onPoolError?: (error: unknown) => void; warmUpRounds?: number } = {},
 ): KernelPool {
   const lifecycle = newLifecycleCells();
-  let lastEndMs = 0;
   const piscina = new Piscina({
     filename: options.filename ?? workerScript(),
     // All threads start with the service, so the first cold request does not wait for thread start-up.
@@ -64,15 +63,11 @@ export function createWorkerPool(
   piscina.on("error", (error: unknown) => options.onPoolError?.(error));
   return {
     threads,
-    compute: firstInFirstOut(threads, (task, signal) =>
-      withAbortGrace(signal, ABORT_GRACE_MS, (late) => piscina.run(task, { signal: late }) as Promise<KernelTaskResult>).finally(() => {
-        lastEndMs = Date.now();
-      }),
-    ),
+    compute: firstInFirstOut(threads, (task, signal) => withAbortGrace(signal, ABORT_GRACE_MS, (late) => piscina.run(task, { signal: late }) as Promise<KernelTaskResult>)),
     close: async () => {
       await stopWarmUps(lifecycle, WARM_UP_STOP_CAP_MS);
-      // Quiet since the last task ended and since the warm-ups (which may have ended just now).
-      await new Promise((resolve) => setTimeout(resolve, Math.max(QUIET_BEFORE_STOP_MS, lastEndMs + QUIET_BEFORE_STOP_MS - Date.now())));
+      // Also quiet since the last task, which may have ended just now.
+      await new Promise((resolve) => setTimeout(resolve, QUIET_BEFORE_STOP_MS));
       await piscina.destroy();
     },
   };
