@@ -73,11 +73,14 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
     rayOnly: request.method === "geometric",
     indexSpan: waterIndexSpan(request.water),
   });
-  const flattenedRadii = Array.from(radiiUm).filter((r) => shape.kind === "spheroid" || r >= FLATTENED_FROM_RADIUS_UM);
+  const flattens = (r: number) => shape.kind === "spheroid" || r >= FLATTENED_FROM_RADIUS_UM;
+  const flattenedRadii = Array.from(radiiUm).filter(flattens);
   // Shape nodes only where they save shapes: a single size (or a few far apart) is traced with its own shape.
   const onNodes = shape.kind === "equilibrium" && deformationStep > 0 ? { ...ownShapes, deformationStep } : undefined;
-  const spec = onNodes && tracedShapeCount(onNodes, flattenedRadii) < flattenedRadii.length ? onNodes : ownShapes;
-  const shapes = Array.from(radiiUm, (r) => (shape.kind === "spheroid" || r >= FLATTENED_FROM_RADIUS_UM ? spec : undefined));
+  const nodeShapes = onNodes ? tracedShapeCount(onNodes, flattenedRadii) : Infinity;
+  const spec = onNodes && nodeShapes < flattenedRadii.length ? onNodes : ownShapes;
+  const tracedShapes = spec === onNodes ? nodeShapes : tracedShapeCount(spec, flattenedRadii);
+  const shapes = Array.from(radiiUm, (r) => (flattens(r) ? spec : undefined));
   const ratios = flattenedRadii.length
     ? [flattenedRadii[0], flattenedRadii[flattenedRadii.length - 1]].map((r) => Math.round(outlineAxisRatio(outlineFor(spec, r)) * 1e4) / 1e4)
     : [];
@@ -89,7 +92,7 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
       ? { fromUm: flattenedRadii[0], toUm: flattenedRadii[flattenedRadii.length - 1], nodes: flattenedRadii.length, axisRatioFrom: ratios[0], axisRatioTo: ratios[1] }
       : null,
     shapesTraced: {
-      shapes: flattenedRadii.length ? tracedShapeCount(spec, flattenedRadii) : 0,
+      shapes: tracedShapes,
       deformationStep: spec.deformationStep ?? null,
       upToRadiusUm: spec.deformationStep ? SHAPE_NODES_MAX_RADIUS_UM : null,
     },
@@ -107,7 +110,6 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
   if (flattenedRadii.length && flattenedRadii[0] < AUTO_AIRY_FROM_RADIUS_UM) {
     warnings.push(`flattened drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm radius are served by Airy-type theory outside its measured validity`);
   }
-  const tracedShapes = meta.shapesTraced!.shapes;
   return { shapes, flattened: flattenedRadii.length > 0, tracedShapes, meta, warnings };
 }
 
