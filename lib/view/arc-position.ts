@@ -7,11 +7,17 @@
 
 import { RADIANS_PER_DEGREE } from "./vectors.js";
 
+/** The bow's upward and sideways unit directions t̂ and ŝ square to an antisolar direction: one per image. */
+export interface ArcFrame {
+  up: [number, number, number];
+  side: [number, number, number];
+}
+
 /**
- * Arc position of unit ray d about the unit antisolar direction a, degrees in [0, 180]. With the sun at the
- * zenith every direction square to a is as high as any other: the angle is then measured from north (+y).
+ * The frame of arc positions about the unit antisolar direction a. With the sun at the zenith every direction square
+ * to a is as high as any other: the angle is then measured from north (+y).
  */
-export function arcPositionDeg(d: ArrayLike<number>, a: ArrayLike<number>): number {
+export function arcFrame(a: ArrayLike<number>): ArcFrame {
   // t̂ = the world's up (0, 0, 1) less its part along a, normalised.
   let tx = -a[2] * a[0];
   let ty = -a[2] * a[1];
@@ -26,11 +32,19 @@ export function arcPositionDeg(d: ArrayLike<number>, a: ArrayLike<number>): numb
   tx /= tn;
   ty /= tn;
   tz /= tn;
-  // The side direction ŝ = a × t̂ (horizontal); only its magnitude along d matters.
-  const sx = a[1] * tz - a[2] * ty;
-  const sy = a[2] * tx - a[0] * tz;
-  const sz = a[0] * ty - a[1] * tx;
-  const up = d[0] * tx + d[1] * ty + d[2] * tz;
-  const side = d[0] * sx + d[1] * sy + d[2] * sz;
+  // The side direction ŝ = a × t̂ (horizontal).
+  return { up: [tx, ty, tz], side: [a[1] * tz - a[2] * ty, a[2] * tx - a[0] * tz, a[0] * ty - a[1] * tx] };
+}
+
+/** Arc position of unit ray d in a frame from arcFrame, degrees in [0, 180]. */
+export function arcPositionInFrame(d: ArrayLike<number>, frame: ArcFrame): number {
+  const { up: t, side: s } = frame;
+  const up = d[0] * t[0] + d[1] * t[1] + d[2] * t[2];
+  const side = d[0] * s[0] + d[1] * s[1] + d[2] * s[2];
   return Math.atan2(Math.abs(side), up) / RADIANS_PER_DEGREE;
+}
+
+/** Arc position of unit ray d about the unit antisolar direction a, degrees in [0, 180] (arcFrame, arcPositionInFrame). */
+export function arcPositionDeg(d: ArrayLike<number>, a: ArrayLike<number>): number {
+  return arcPositionInFrame(d, arcFrame(a));
 }

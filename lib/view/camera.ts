@@ -89,7 +89,8 @@ export function rayThrough(camera: Camera, basis: CameraBasis, xPx: number, yPx:
   const x = a * f[0] + b * r[0] + c * w[0];
   const y = a * f[1] + b * r[1] + c * w[1];
   const z = a * f[2] + b * r[2] + c * w[2];
-  const n = Math.hypot(x, y, z);
+  // Not Math.hypot, several times slower in V8: the sum of squares of a ray this size cannot overflow.
+  const n = Math.sqrt(x * x + y * y + z * z);
   out[0] = x / n;
   out[1] = y / n;
   out[2] = z / n;

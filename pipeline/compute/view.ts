@@ -4,7 +4,7 @@
 import sharp from "sharp";
 import { profileDefaults, type ProfileRequest } from "../../schemas/profile.js";
 import type { ImageQuery, SkyRequest, ViewRequest, ViewScenario } from "../../schemas/view.js";
-import { computeProfile, type ProfileLayers, type ProfileLimits, type ProfileResult } from "./profile.js";
+import { computeProfile, planProfile, type ProfileLayers, type ProfileLimits, type ProfileResult } from "./profile.js";
 import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
 import { MAX_LAYERED_PIXELS, orderLayersManifest, withOrderLayers } from "./order-layers.js";
 import type { KernelService } from "../kernels/kernel-service.js";
@@ -20,7 +20,7 @@ import { skyRayField } from "../../lib/view/sky-map.js";
 import type { RayField } from "../../lib/view/ray-field.js";
 import { type Vec3, azimuthElevationOf, directionFromAzimuthElevation } from "../../lib/view/vectors.js";
 import { angleFromAntisolarDeg, angleRangeDeg, renderLayer, type Layer, type ProfileColours } from "../../lib/view/layer.js";
-import { arcPositionDeg } from "../../lib/view/arc-position.js";
+import { arcFrame, arcPositionInFrame } from "../../lib/view/arc-position.js";
 import { isFlattened } from "../../schemas/drop-shape.js";
 import type { ArcSlices } from "../../lib/view/arc-slices.js";
 import { arcNodesDeg, ARC_NODE_STEP_DEG, ARC_INTERPOLATION, ARC_TOLERANCE } from "./arc-nodes.js";
@@ -41,6 +41,16 @@ import { CURTAIN_WAVELENGTH_NM } from "../../lib/bow/extinction.js";
 const BOW_WINDOW_DEG = { fromDeg: 30, toDeg: 60 } as const;
 /** Coarsest profile step: the sun's disc (0.533°) smears anything finer; finer still where a pixel is smaller. */
 const MAX_PROFILE_STEP_DEG = 0.1;
+/**
+ * Finest profile step for flattened drops, however small the pixels: it keeps their rows on the kernel lattice's
+ * coarsest step (0.05°, lib/bow/kernel-grid.ts) instead of 0.01° or 0.002°, whose rows cost 5× or 25× as much.
+ * Measured (BENCHMARKS.md view-step, bench/view-step.ts): against the profile at a 40° lens's pixel step (0.033°,
+ * lattice 0.01°), interpolated linearly to its samples as pixels are drawn, worst CIEDE2000 0.40 for upright 1 mm
+ * equilibrium drops at the top of the bow (no canting: the sharpest flattened bows) and 0.17 for a Marshall–Palmer
+ * 25 mm/h shower of spheroids, at 0.17 and 0.14 of the cold time. Spheres keep the pixel's step: the Lorenz–Mie ripple
+ * of one drop size (period 180°/N, 0.06° for 0.25 mm drops) survives the disc's smoothing enough to cost 1.3 there.
+ */
+export const FLATTENED_MIN_PROFILE_STEP_DEG = 0.05;
 /** The profile endpoint's limit on samples per request (schemas/profile.ts). */
 const MAX_PROFILE_SAMPLES = 4001;
 /** Above this optical depth single scattering overstates the bow by more than e^(−1/2) ≈ 40 % (Beer–Lambert). */
@@ -242,9 +252,10 @@ interface SeenRange {
 function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg: number; seen: SeenRange | null; arcSeen: SeenRange | null } {
   // Arc positions matter only for flattened drops (no water with them: schemas/view.ts).
   const arc = { minDeg: Infinity, maxDeg: -Infinity };
+  const frame = arcFrame(scene.antisolar);
   const onSeen = scene.flattened
     ? (d: Float64Array) => {
-        const a = arcPositionDeg(d, scene.antisolar);
+        const a = arcPositionInFrame(d, frame);
         arc.minDeg = Math.min(arc.minDeg, a);
         arc.maxDeg = Math.max(arc.maxDeg, a);
       }
@@ -270,6 +281,7 @@ function profileAngles(scene: Scene): { fromDeg: number; toDeg: number; stepDeg:
     hi = Math.max(hi, seen.maxDeg);
   }
   let step = Math.min(MAX_PROFILE_STEP_DEG, scene.pixelDeg);
+  if (scene.flattened) step = Math.max(step, FLATTENED_MIN_PROFILE_STEP_DEG);
   const pad = step;
   lo = Math.max(0, lo - pad);
   hi = Math.min(180, hi + pad);
@@ -525,8 +537,10 @@ async function prepare(scene: Scene, format: OverlayFormat, deps: ViewDeps, laye
 }
 
 /**
- * The profiles of a bow of flattened drops at each arc node, on one ψ grid. They share the synchronous limit: each
- * may spend its share, so the view as a whole is refused (422, to /v1/jobs) when their sum is over it.
+ * The profiles of a bow of flattened drops at each arc node, on one ψ grid, computed together: their kernel tasks
+ * share the pool's queue, so no thread waits for one profile's last task while another's could run. They share the
+ * synchronous limit: each may spend its share, so the view as a whole is refused (422, to /v1/jobs) when their sum
+ * is over it, before any of them starts.
  */
 async function arcProfiles(scene: Scene, grid: { fromDeg: number; toDeg: number; stepDeg: number }, nodes: number[], deps: ViewDeps): Promise<ProfileResult[]> {
   const share: ViewDeps = { ...deps, limits: { maxTermAngles: deps.limits.maxTermAngles / nodes.length } };
@@ -534,26 +548,24 @@ async function arcProfiles(scene: Scene, grid: { fromDeg: number; toDeg: number;
   // The profiles along the arc fill the view's kernel stage together, each by its own cost (rows-progress.ts).
   const names = nodes.map((node, k) => `arc node ${k + 1} of ${nodes.length} (${node}°)`);
   const progress = deps.progress ? rowsProgress(names, (k) => [bodies[k], {}], deps.kernels.parallelism, { meter: deps.progress, stage: "kernels" }) : undefined;
-  const out: ProfileResult[] = [];
-  for (const [k, body] of bodies.entries()) {
-    try {
-      const part = progress?.part(k);
-      out.push(await computeProfile(body, { ...share, progress: part }, {}, "combined", progress?.plans[k]));
-      part?.done();
-    } catch (e) {
-      if (e instanceof ClientError && e.code === "too-costly") {
-        const cost = Number(e.details.cost) * nodes.length;
-        throw new ClientError(
-          "too-costly",
-          `this ${scene.endpoint === "view" ? "view" : "sky map"} of flattened drops needs ${nodes.length} profiles along the arc (every ${ARC_NODE_STEP_DEG}°), about ${cost.toExponential(2)} Mie term-angles' worth; ` +
-            `the synchronous limit is ${deps.limits.maxTermAngles.toExponential(2)}. Submit it as a background job (POST /v1/jobs), or use fewer wavelengths, a smaller image or drops.shape "sphere"`,
-          { cost, limit: deps.limits.maxTermAngles, jobs: "/v1/jobs" },
-        );
-      }
-      throw e;
-    }
+  const plans = progress?.plans ?? bodies.map((body) => planProfile(body));
+  const cost = plans.reduce((sum, plan) => sum + plan.cost, 0);
+  if (plans.some((plan) => plan.cost > share.limits.maxTermAngles)) {
+    throw new ClientError(
+      "too-costly",
+      `this ${scene.endpoint === "view" ? "view" : "sky map"} of flattened drops needs ${nodes.length} profiles along the arc (every ${ARC_NODE_STEP_DEG}°), about ${cost.toExponential(2)} Mie term-angles' worth; ` +
+        `the synchronous limit is ${deps.limits.maxTermAngles.toExponential(2)}. Submit it as a background job (POST /v1/jobs), or use fewer wavelengths, a smaller image or drops.shape "sphere"`,
+      { cost, limit: deps.limits.maxTermAngles, jobs: "/v1/jobs" },
+    );
   }
-  return out;
+  return Promise.all(
+    bodies.map(async (body, k) => {
+      const part = progress?.part(k);
+      const result = await computeProfile(body, { ...share, progress: part }, {}, "combined", plans[k]);
+      part?.done();
+      return result;
+    }),
+  );
 }
 
 function nearestIndex(values: number[], target: number): number {

@@ -6,7 +6,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { skyRequestSchema, viewRequestSchema } from "../../../schemas/view.js";
 import { profileRequestSchema } from "../../../schemas/profile.js";
-import { cameraOf, prepareSky, prepareView, renderPrepared, type PreparedOverlay, type ViewDeps } from "../../../pipeline/compute/view.js";
+import { cameraOf, FLATTENED_MIN_PROFILE_STEP_DEG, prepareSky, prepareView, renderPrepared, type PreparedOverlay, type ViewDeps } from "../../../pipeline/compute/view.js";
 import { computeProfile, type ProfileResult } from "../../../pipeline/compute/profile.js";
 import { KernelService } from "../../../pipeline/kernels/kernel-service.js";
 import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
@@ -123,6 +123,18 @@ describe("a camera view of 2 mm flattened drops (equilibrium shapes, canting 7.5
     const { psi, alpha } = side.at(15, 15);
     expect(alpha).toBeCloseTo(90, 6);
     expect(Math.abs(pixelY(side, 15, 15) - luminanceAt(atSide, psi))).toBeLessThan(1e-5 * Math.max(...atSide.colour.luminanceCdPerM2));
+  }, 600_000);
+
+  it("a long lens's pixels smaller than the kernel lattice's coarsest step: flattened drops' profile keeps that step, spheres' follows the pixels", async () => {
+    // 31 px over 1°: pixels of 0.032°, which would put the rows on the 0.01° lattice (5× the rows' cost).
+    const narrow = { ...cameraAt(42, 0), horizontalFovDeg: 1 };
+    const flattened = await shoot(narrow);
+    expect(flattened.prepared.manifest.profile.anglesDeg.stepDeg).toBe(FLATTENED_MIN_PROFILE_STEP_DEG);
+    const body = viewRequestSchema.parse({ scenario: { ...scenario, drops: { ...scenario.drops, shape: { kind: "sphere" } } }, sun: SUN, camera: narrow, ground: false, layer: "additive", output });
+    const spheres = await prepareView(body, "exr", deps);
+    expect(spheres.manifest.profile.anglesDeg.stepDeg).toBeCloseTo(1 / 31, 3);
+    // Its pixels are still the profiles' (linear in ψ, blended along the arc): the image is not empty and the bow is in it.
+    expect(Math.max(...flattened.layer.data)).toBeGreaterThan(0);
   }, 600_000);
 
   it("Fraser (1983, J. Opt. Soc. Am. 73, 1626): the top of the primary is weaker than its side, in the image", () => {
