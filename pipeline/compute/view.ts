@@ -47,7 +47,7 @@ const MAX_PROFILE_STEP_DEG = 0.1;
  * Measured (BENCHMARKS.md view-step, bench/view-step.ts): against the profile at a 40° lens's pixel step (0.033°,
  * lattice 0.01°), interpolated linearly to its samples as pixels are drawn, worst CIEDE2000 0.40 for upright 1 mm
  * equilibrium drops at the top of the bow (no canting: the sharpest flattened bows) and 0.17 for a Marshall–Palmer
- * 25 mm/h shower of spheroids, at 0.17 and 0.14 of the cold time. Spheres keep the pixel's step: the Lorenz–Mie ripple
+ * 25 mm/h shower of spheroids, at 0.17 and 0.15 of the cold time. Spheres keep the pixel's step: the Lorenz–Mie ripple
  * of one drop size (period 180°/N, 0.06° for 0.25 mm drops) survives the disc's smoothing enough to cost 1.3 there.
  */
 export const FLATTENED_MIN_PROFILE_STEP_DEG = 0.05;
