@@ -33,7 +33,11 @@ export function profileSpan(angles: OutputAngles, discDiameterDeg: number, h: nu
  */
 export type PopulationBeta = (wavelengthIndex: number, out: Float64Array) => void;
 
-/** Σ_i w_i · row_i over lattice blocks into out (β⊥ then β∥ over the span). */
+/**
+ * Σ_i w_i · row_i over lattice blocks into out (β⊥ then β∥ over the span). Four rows at a time, added left to right
+ * in radius order: the same sums, to the last bit, as one row at a time, with a quarter of the loads and stores of
+ * `out` (the sum over drops is most of a warm profile's time).
+ */
 export function accumulateBlocks(
   span: LatticeSpan,
   blocks: readonly number[],
@@ -43,17 +47,39 @@ export function accumulateBlocks(
 ): void {
   const n = span.last - span.first + 1;
   out.fill(0);
+  const rows: Float64Array[] = [];
+  const weights: number[] = [];
   for (const b of blocks) {
     const blockFirst = b * BLOCK_SAMPLES;
+    rows.length = 0;
+    weights.length = 0;
     for (let i = 0; i < weightsPerM3.length; i++) {
-      const w = weightsPerM3[i];
-      if (w === 0) continue;
-      const r = row(i, b);
-      const count = r.length / 2;
-      const k0 = Math.max(0, span.first - blockFirst);
-      const k1 = Math.min(count, span.last - blockFirst + 1);
+      if (weightsPerM3[i] === 0) continue;
+      rows.push(row(i, b));
+      weights.push(weightsPerM3[i]);
+    }
+    if (rows.length === 0) continue;
+    // Every row of a block has the block's length.
+    const count = rows[0].length / 2;
+    const k0 = Math.max(0, span.first - blockFirst);
+    const k1 = Math.min(count, span.last - blockFirst + 1);
+    const shift = blockFirst - span.first;
+    let j = 0;
+    for (; j + 4 <= rows.length; j += 4) {
+      const [r0, r1, r2, r3] = [rows[j], rows[j + 1], rows[j + 2], rows[j + 3]];
+      const [w0, w1, w2, w3] = [weights[j], weights[j + 1], weights[j + 2], weights[j + 3]];
       for (let k = k0; k < k1; k++) {
-        const local = blockFirst + k - span.first;
+        const local = shift + k;
+        out[local] = out[local] + w0 * r0[k] + w1 * r1[k] + w2 * r2[k] + w3 * r3[k];
+        const c = count + k;
+        out[n + local] = out[n + local] + w0 * r0[c] + w1 * r1[c] + w2 * r2[c] + w3 * r3[c];
+      }
+    }
+    for (; j < rows.length; j++) {
+      const r = rows[j];
+      const w = weights[j];
+      for (let k = k0; k < k1; k++) {
+        const local = shift + k;
         out[local] += w * r[k];
         out[n + local] += w * r[count + k];
       }

@@ -201,9 +201,13 @@ export class KernelService {
     });
     const stats: KernelStats = { memoryHits: 0, diskHits: 0, computed: 0, mieTermAngles: 0 };
     const variantSet = [...new Set(variants)];
-    // found[l][blockIndex]: radius → row, whatever engine served it (each radius has one engine).
-    const found = media.map(() => blocks.map(() => new Map<number, Float64Array>()));
-    const keys = media.map((m) => blocks.map((b) => new Map(variantSet.map((v) => [v, packKey(m, v, h, b, this.mieSampling)]))));
+    const variantOf = Int32Array.from(variants, (v) => variantSet.indexOf(v));
+    // found[l][blockIndex][i]: radius i's row, whatever engine served it (each radius has one engine). Arrays by
+    // index, not maps by radius: a warm request reads tens of thousands of rows through here.
+    const found = media.map(() => blocks.map(() => new Array<Float64Array | undefined>(radiiUm.length)));
+    // keys[l][blockIndex][variant index]: the pack's key.
+    const keys = media.map((m) => blocks.map((b) => variantSet.map((v) => packKey(m, v, h, b, this.mieSampling))));
+    const keyOf = (l: number, i: number, bi: number) => keys[l][bi][variantOf[i]];
 
     // The rows of wavelengths from..to − 1 not in memory yet (in wavelength order, then block, then radius).
     const lookMemory = (from = 0, to = media.length) => {
@@ -211,11 +215,11 @@ export class KernelService {
       for (let l = from; l < to; l++) {
         for (let bi = 0; bi < blocks.length; bi++) {
           const have = found[l][bi];
-          const packs = new Map(variantSet.map((v) => [v, this.memory.get(keys[l][bi].get(v)!)]));
+          const packs = keys[l][bi].map((key) => this.memory.get(key));
           for (let i = 0; i < radiiUm.length; i++) {
-            if (have.has(radiiUm[i])) continue;
-            const row = packs.get(variants[i])?.rows.get(radiiUm[i]);
-            if (row && covers(row, need[bi].k0, need[bi].k1)) have.set(radiiUm[i], row);
+            if (have[i]) continue;
+            const row = packs[variantOf[i]]?.rows.get(radiiUm[i]);
+            if (row && covers(row, need[bi].k0, need[bi].k1)) have[i] = row;
             else missing.push([l, i, bi]);
           }
         }
@@ -256,7 +260,7 @@ export class KernelService {
     let missing = pipelined ? [] : lookMemory();
     if (!pipelined) stats.memoryHits = media.length * radiiUm.length * blocks.length - missing.length;
     if (missing.length && this.options.disk) {
-      const packs = new Set(missing.map(([l, i, bi]) => keys[l][bi].get(variants[i])!));
+      const packs = new Set(missing.map(([l, i, bi]) => keyOf(l, i, bi)));
       await Promise.all([...packs].map((p) => this.loadPack(p)));
       const before = missing.length;
       missing = lookMemory();
@@ -271,9 +275,12 @@ export class KernelService {
     // Rows still to come per wavelength: a wavelength is told (watch.onWavelength) when its count reaches zero.
     const toCome = new Int32Array(media.length);
     for (const [l] of missing) toCome[l]++;
-    const blockIndexOf = new Map(blocks.map((b, bi) => [b, bi]));
-    const bi0 = (b: number) => blockIndexOf.get(b)!;
-    const readerOf = (l: number) => (i: number, b: number) => found[l][bi0(b)].get(radiiUm[i])!;
+    // Block number → its index in `blocks` (−1: not asked for), by offset from the lowest.
+    const lowestBlock = blocks.length ? Math.min(...blocks) : 0;
+    const blockIndexOf = new Int32Array(blocks.length ? Math.max(...blocks) - lowestBlock + 1 : 0).fill(-1);
+    blocks.forEach((b, bi) => (blockIndexOf[b - lowestBlock] = bi));
+    const bi0 = (b: number) => blockIndexOf[b - lowestBlock] ?? -1;
+    const readerOf = (l: number) => (i: number, b: number) => found[l][bi0(b)][i]!;
     const arrived = (l: number) => {
       if (--toCome[l] === 0) watch.onWavelength?.(l, readerOf(l));
     };
@@ -322,13 +329,13 @@ export class KernelService {
         : this.options.compute(spec, stop.signal);
       computing.catch(() => undefined);
       // The task's rows grouped by the pack they belong to (one wavelength and one block per pack).
-      const byPack = new Map<string, { l: number; bi: number; rows: [radiusUm: number, item: number, block: number][] }>();
+      const byPack = new Map<string, { l: number; bi: number; rows: [radiusUm: number, item: number, block: number, i: number][] }>();
       entries.forEach(({ l, i, bis }, item) => {
         bis.forEach((bi, block) => {
-          const pack = keys[l][bi].get(variants[i])!;
+          const pack = keyOf(l, i, bi);
           let entry = byPack.get(pack);
           if (!entry) byPack.set(pack, (entry = { l, bi, rows: [] }));
-          entry.rows.push([radiiUm[i], item, block]);
+          entry.rows.push([radiiUm[i], item, block, i]);
           let rows = this.inflight.get(pack);
           if (!rows) this.inflight.set(pack, (rows = new Map()));
           rows.set(radiiUm[i], { task: computing, item, block, within });
@@ -343,7 +350,7 @@ export class KernelService {
           for (const [pack, { l, bi, rows: list }] of byPack) {
             const rows = list.map(([radiusUm, item, block]): [number, Float64Array] => [radiusUm, result.rows[item][block]]);
             this.remember(pack, rows);
-            for (const [radiusUm, row] of rows) found[l][bi].set(radiusUm, row);
+            list.forEach(([, , , i], k) => (found[l][bi][i] = rows[k][1]));
             stats.computed += rows.length;
             if (this.options.disk) saved.push([pack, new Map(rows)]);
           }
@@ -368,11 +375,11 @@ export class KernelService {
     };
     // A row to compute joins its task; a row another request computes is awaited.
     const group = (l: number, i: number, bi: number) => {
-      const pending = this.inflight.get(keys[l][bi].get(variants[i])!)?.get(radiiUm[i]);
+      const pending = this.inflight.get(keyOf(l, i, bi))?.get(radiiUm[i]);
       if (pending && pending.within.first <= need[bi].first && pending.within.last >= need[bi].last) {
         waits.push(
           pending.task.then((result) => {
-            found[l][bi].set(radiiUm[i], result.rows[pending.item][pending.block]);
+            found[l][bi][i] = result.rows[pending.item][pending.block];
             if (watch.onRows) done(cost(l, i, bi), false);
             arrived(l);
           }),
@@ -437,7 +444,7 @@ export class KernelService {
     }
     return {
       get: (l, i, b) => {
-        const row = found[l][bi0(b)].get(radiiUm[i]);
+        const row = found[l][bi0(b)]?.[i];
         if (!row) throw new Error(`kernel row missing for wavelength ${l}, radius ${i}, block ${b}`);
         return row;
       },
