@@ -102,7 +102,21 @@ export interface LatticeProfileInput {
 export function discKernels(grid: WavelengthGrid, discDiameterDeg: number, h: number, limbDarkening: LimbDarkening): (wavelengthIndex: number) => DiscKernel {
   const wl = wavelengthsNm(grid);
   const made: DiscKernel[] = [];
-  return (l) => (made[l] ??= sunDiscKernel(discDiameterDeg, h, wl[l], limbDarkening));
+  return (l) => (made[l] ??= sharedDiscKernel(discDiameterDeg, h, wl[l], limbDarkening));
+}
+
+/** Disc kernels already made, the latest DISC_KERNELS_KEPT (a warm profile would otherwise make its 41 again). */
+const DISC_KERNELS_KEPT = 1024;
+const discKernelsMade = new Map<string, DiscKernel>();
+function sharedDiscKernel(discDiameterDeg: number, h: number, wavelengthNm: number, limbDarkening: LimbDarkening): DiscKernel {
+  const key = `${discDiameterDeg}|${h}|${wavelengthNm}|${limbDarkening}`;
+  let kernel = discKernelsMade.get(key);
+  if (!kernel) {
+    kernel = sunDiscKernel(discDiameterDeg, h, wavelengthNm, limbDarkening);
+    if (discKernelsMade.size >= DISC_KERNELS_KEPT) discKernelsMade.delete(discKernelsMade.keys().next().value!);
+    discKernelsMade.set(key, kernel);
+  }
+  return kernel;
 }
 
 /** The spectral radiance per unit sunlight and path, all at once (latticeUnitProfileSteps). */

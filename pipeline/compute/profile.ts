@@ -13,7 +13,7 @@ import { directSunlight } from "../../lib/bow/sunlight.js";
 import type { SpectralProfile } from "../../lib/bow/lattice-profile.js";
 import { latticeUnitProfilePass, sunlitProfile, polarisedUnitRadiance, discKernels, profileSpan, accumulateBlocks } from "../../lib/bow/lattice-profile.js";
 import { blocksOf, kernelStepFor, type LatticeSpan } from "../../lib/bow/kernel-grid.js";
-import type { KernelRequest, KernelRows, KernelService, KernelStats } from "../kernels/kernel-service.js";
+import type { KernelRequest, KernelRows, KernelService, KernelStats, PopulationSums } from "../kernels/kernel-service.js";
 import { ORDER_LAYERS, type OrderLayerName } from "../../lib/bow/scattering-orders.js";
 import type { DiscKernel } from "../../lib/sun/disc.js";
 import { colourProfile, linearRgbOfXyz, polariserWeights, sunlitXyzWeights, weightedXyz, type ColourOptions, type ColourProfile } from "../../lib/bow/colour-profile.js";
@@ -27,7 +27,7 @@ import { ClientError } from "../requests/client-error.js";
 import { planDropShapes, shapedCostTermAngles } from "./drop-shape-plan.js";
 import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
-import { laterWorkNs } from "../progress/profile-work.js";
+import { kernelWorkNs, laterWorkNs } from "../progress/profile-work.js";
 
 /** The stages of a profile's progress, in order (a render adds its encoding after them: PROFILE_RENDER_STAGES). */
 export const PROFILE_STAGES = ["kernels", "spectral", "colour"] as const;
@@ -177,6 +177,23 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
   return chooseAutoFor(quadrature, wl, span, resolution);
 }
 
+/** Plans' pure results by key, the latest PLAN_MEMO_ENTRIES: a warm profile would otherwise integrate its size distribution again. */
+const PLAN_MEMO_ENTRIES = 256;
+const planMemo = new Map<string, unknown>();
+function remembered<T>(key: string, make: () => T): T {
+  if (planMemo.has(key)) return planMemo.get(key) as T;
+  const value = make();
+  if (planMemo.size >= PLAN_MEMO_ENTRIES) planMemo.delete(planMemo.keys().next().value!);
+  planMemo.set(key, value);
+  return value;
+}
+
+/** The drops' radius nodes and weights (read only: shared by every plan of the same drops). */
+function quadratureFor(drops: ProfileRequest["drops"], distribution: ReturnType<typeof toDistribution>, resolution: ProfileResolution): RadiusQuadrature {
+  const key = `quadrature|${JSON.stringify(drops)}|${resolution.nodesPerDecade}|${resolution.thinning}`;
+  return remembered(key, () => latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning }));
+}
+
 /**
  * Everything about a profile that is known before any work: wavelengths, drops on their radius nodes, engines,
  * Lorenz–Mie averaging, shapes, the lattice span, the kernel request and the estimated cost. computeProfile runs it
@@ -196,7 +213,7 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
   const angles = { fromDeg: request.angles.fromDeg, stepDeg: request.angles.stepDeg, count };
   const h = kernelStepFor(request.angles.stepDeg, resolution.maxInternalStepDeg);
   const span = profileSpan(angles, request.sun.discDeg, h);
-  const quadrature = latticeRadiusQuadrature(distribution, { nodesPerDecade: resolution.nodesPerDecade, thinning: resolution.thinning });
+  const quadrature = quadratureFor(request.drops, distribution, resolution);
   // By order the whole rows and each named order's rows cost alike: auto's budgets are shared among them, so that a
   // layered answer costs about what the combined one does (auto may then leave more drops to the Airy engine).
   const budgetShare = byOrder ? 1 / (1 + ORDER_LAYERS.length) : 1;
@@ -247,7 +264,7 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
   if (shapePlan.flattened) {
     warnings.push(...shapePlan.warnings);
   } else if (request.drops.kind !== "monodisperse") {
-    const flattened = fractionOfCrossSectionAbove(distribution, FLATTENED_FROM_RADIUS_UM);
+    const flattened = remembered(`above|${JSON.stringify(request.drops)}`, () => fractionOfCrossSectionAbove(distribution, FLATTENED_FROM_RADIUS_UM));
     if (flattened > 0.5) {
       warnings.push(
         `${(100 * flattened).toFixed(0)} % of the drops' cross-section is in drops above 1 mm radius, which flatten as they fall (Beard & Chuang 1987); the sphere model overstates their bow`,
@@ -289,6 +306,8 @@ export interface SpectralPassOptions {
   samples?: Int32Array;
   /** Told of each wavelength done, with the cost of the pass so far in ns. */
   onWavelength?: (doneNs: number) => void;
+  /** Sums over drops kept by the kernel service (KernelService.populationSums): each one made is kept there. */
+  sums?: PopulationSums;
 }
 
 /**
@@ -314,14 +333,31 @@ export function spectralPassAsRowsArrive(plan: ProfilePlan, options: SpectralPas
     disc: options.disc ?? discKernels(grid, request.sun.discDeg, span.h, request.sun.limbDarkening),
     samples: options.samples,
   });
-  const sum = (row: (i: number, block: number) => Float64Array) => (out: Float64Array) => accumulateBlocks(span, kernelRequest.blocks, quadrature.weights, row, out);
+  const sums = options.sums;
+  const sum = (l: number, row: (i: number, block: number) => Float64Array) => (out: Float64Array) => {
+    accumulateBlocks(span, kernelRequest.blocks, quadrature.weights, row, out);
+    sums?.set(l, out.slice());
+  };
   return {
-    onWavelength: (l: number, row: (i: number, block: number) => Float64Array) => pass.add(l, sum(row)),
+    onWavelength: (l: number, row: (i: number, block: number) => Float64Array) => pass.add(l, sum(l, row)),
+    /** Whether every wavelength's sum over drops is kept. */
+    sumsKept: () => sums !== undefined && Array.from({ length: grid.count }, (_, l) => sums.has(l)).every(Boolean),
+    /** The profile from kept sums over drops when every wavelength has one (no rows read), else undefined (nothing done). */
+    fromSums(): SpectralProfile | undefined {
+      const kept = sums ? Array.from({ length: grid.count }, (_, l) => sums.get(l)) : [];
+      if (!sums || kept.some((k) => k === undefined)) return undefined;
+      const perWavelengthNs = options.onWavelength ? laterWorkNs(request, plan).spectralNsPerWavelength : 0;
+      kept.forEach((k, l) => {
+        pass.add(l, (out) => out.set(k!));
+        options.onWavelength?.((l + 1) * perWavelengthNs);
+      });
+      return { ...pass.result(), mieTermAngles: 0 };
+    },
     async finish(rows: KernelRows): Promise<SpectralProfile> {
       const perWavelengthNs = options.onWavelength ? laterWorkNs(request, plan).spectralNsPerWavelength : 0;
       for (let l = 0; l < grid.count; l++) {
         const fed = pass.has(l);
-        if (!fed) pass.add(l, sum((i, b) => rows.get(l, i, b)));
+        if (!fed) pass.add(l, sum(l, (i, b) => rows.get(l, i, b)));
         options.onWavelength?.((l + 1) * perWavelengthNs);
         if (!fed) await new Promise<void>((resolve) => setImmediate(resolve));
       }
@@ -403,6 +439,14 @@ export function profileWarnings(plan: ProfilePlan, sun: SunLight): string[] {
   return warnings;
 }
 
+/** The rows of a profile made from kept sums over drops: none read (KernelService.populationSums). */
+const NO_ROWS: KernelRows = {
+  get: () => {
+    throw new Error("no kernel rows: the profile was made from kept sums over drops");
+  },
+  stats: { memoryHits: 0, diskHits: 0, computed: 0, mieTermAngles: 0 },
+};
+
 /** plan: planProfile(request, resolution, layers) when the caller has it already (rows weighed for their progress). */
 export async function computeProfile(
   request: ProfileRequest,
@@ -427,10 +471,19 @@ export async function computeProfile(
   const tallies = requestedOrders.map(() => ({ doneNs: 0, totalNs: 0 }));
   // Each requested order's spectral pass, fed as its rows arrive; its progress counts once the rows are all in (a
   // later stage advancing would mark the kernels done). By order the named orders follow the whole in the progress.
+  // The whole drops' sums over drops are kept by content (KernelService.populationSums): where every wavelength's is
+  // kept, no row is read. The named orders' are not kept (layered answers are rare and their own cache entry).
+  const sums = byOrder ? undefined : deps.kernels.populationSums(plan.kernelRequest, quadrature.weights);
   const passes = requestedOrders.map((_, t) =>
-    spectralPassAsRowsArrive(plan, { onWavelength: progress ? (ns) => progress.advance("spectral", t * (later?.spectralNs ?? 0) + ns) : undefined }),
+    spectralPassAsRowsArrive(plan, { onWavelength: progress ? (ns) => progress.advance("spectral", t * (later?.spectralNs ?? 0) + ns) : undefined, sums: t === 0 ? sums : undefined }),
   );
-  const [rows, ...orderRows] = await Promise.all(
+  // Kept sums stand for the rows they were made from: the kernels count as found, at the rows' estimated cost.
+  if (progress && passes[0].sumsKept()) {
+    progress.plan("kernels", kernelWorkNs(plan, deps.kernels.parallelism));
+    progress.complete("kernels", { found: true });
+  }
+  const reused = passes[0].fromSums();
+  const [rows, ...orderRows] = reused ? [NO_ROWS] : await Promise.all(
     requestedOrders.map((order, t) =>
       deps.kernels.rows(order === undefined ? plan.kernelRequest : { ...plan.kernelRequest, order }, deps.signal, {
         saveEachTask: deps.saveEachTask,
@@ -446,7 +499,7 @@ export async function computeProfile(
     ),
   );
   const kernelMs = performance.now() - kernelStarted;
-  const unit = await passes[0].finish(rows);
+  const unit = reused ?? (await passes[0].finish(rows));
   const light = sunLightFor(plan);
   const { spectral, colour } = sunlitColour(plan, unit, light);
   // Each named order through the same sum, sunlight and colour (its unit profile after the whole one's in the progress).
@@ -500,6 +553,7 @@ export async function computeProfile(
       memoryHits: stats.memoryHits,
       diskHits: stats.diskHits,
       computed: stats.computed,
+      sumsKept: reused ? grid.count : 0,
       ms: Math.round(kernelMs * 10) / 10,
     },
     cache: stats.computed === 0 ? "hit" : "miss",

@@ -67,6 +67,10 @@ export const profileMetaSchema = z
       memoryHits: z.number().int(),
       diskHits: z.number().int(),
       computed: z.number().int(),
+      sumsKept: z
+        .number()
+        .int()
+        .describe("wavelengths whose sum over the drops was kept in memory from an earlier profile of the same drops, water and angle lattice (then no row is read: rows 0)"),
       ms: z.number(),
     }),
     cache: z.enum(["hit", "miss"]),
