@@ -250,6 +250,8 @@ describe.skipIf(skipWithout(redisAvailable))("jobs through Redis with two API pr
     expect(done.state).toBe("done");
     expect(done.attempts).toBe(2);
     expect(logged(victim, "job done", submitted.id)).toBe(false);
+    // The worker logs "job done" after it marks the job done in Redis: its line may reach this process after the state.
+    await waitFor("the survivor's log of the job", () => (logged(survivor, "job done", submitted.id) ? true : undefined));
     expect(survivor.lines.filter((l) => l.includes('"msg":"job done"') && l.includes(submitted.id))).toHaveLength(1);
     const result = await fetch(`${apiB}/v1/jobs/${submitted.id}/result`);
     expect(result.status).toBe(200);
