@@ -39,8 +39,9 @@ export function foldOverTilt(nodes: readonly CantingNode[], foldsDeg: readonly n
 }
 
 /**
- * Tilts sampled per axis for the spread, over ±TILT_SPAN_SD σ (0.25σ apart, finer than the 0.05° bins the kernels
- * land on wherever Θ_R moves by less than 0.2° per degree of tilt, and smoothed by the sun's disc where it moves more);
+ * Tilts sampled per axis for the spread, over ±TILT_SPAN_SD σ (0.25σ apart: for σ 7.5°, 1.9°, finer than the 0.05°
+ * bins the kernels land on only where Θ_R moves by less than 0.03° per degree of tilt; elsewhere each sample is spread
+ * over the gap to its neighbours, localSpreadKernels);
  * ±5σ leaves out 6e-7 of the weight (normal tail: common practice).
  */
 const TILT_SAMPLES = 41;
@@ -55,23 +56,44 @@ const TILT_SPAN_SD = 5;
 export function localSpreadKernels(model: FoldOverTilt, nodes: readonly CantingNode[], sdDeg: number, stepDeg: number): { first: number; weights: Float64Array }[] {
   const fold = (tx: number, ty: number) => model.gx * tx + model.gy * ty + 0.5 * (model.hx * tx * tx + model.hy * ty * ty);
   const cells = tiltCells(nodes, sdDeg);
+  // Where Θ_R moves fast with the tilt, neighbouring tilt samples land bins apart: each sample's mass is then spread
+  // as a tent as wide as the larger of its gaps to its neighbours in Θ_R (in bins), so that the samples' tents tile
+  // the bins between them instead of leaving a comb (cloud-in-cell with the grid's own spacing: common practice).
+  // Where a gap is under a bin the tent is one bin wide: linear interpolation between the two bins about the sample.
+  const tiltStepDeg = (sdDeg * TILT_SPAN_SD) / HALF;
   return nodes.map((n, q) => {
     const { tx, ty, mass, total } = cells[q];
     const base = fold(n.tiltXDeg, n.tiltYDeg);
     const shifts = Float64Array.from(tx, (x, i) => (fold(x, ty[i]) - base) / stepDeg);
+    const widths = Float64Array.from(tx, (x, i) =>
+      Math.max(1, (Math.abs(model.gx + model.hx * x) * tiltStepDeg) / stepDeg, (Math.abs(model.gy + model.hy * ty[i]) * tiltStepDeg) / stepDeg),
+    );
     let low = Infinity;
     let high = -Infinity;
-    for (const shift of shifts) {
-      low = Math.min(low, shift);
-      high = Math.max(high, shift);
-    }
+    shifts.forEach((shift, i) => {
+      // A one-bin tent touches floor(shift) and the bin above it only.
+      const reach = widths[i] === 1 ? 0 : widths[i];
+      low = Math.min(low, shift - reach);
+      high = Math.max(high, shift + reach);
+    });
     const first = Math.floor(low);
     const weights = new Float64Array(Math.floor(high) - first + 2);
     shifts.forEach((shift, i) => {
-      const k = Math.floor(shift);
-      const f = shift - k;
-      weights[k - first] += ((1 - f) * mass[i]) / total;
-      weights[k - first + 1] += (f * mass[i]) / total;
+      const share = mass[i] / total;
+      const w = widths[i];
+      if (w === 1) {
+        const k = Math.floor(shift);
+        const f = shift - k;
+        weights[k - first] += (1 - f) * share;
+        weights[k - first + 1] += f * share;
+        return;
+      }
+      // The tent 1 − |k − shift|/w at the bins under it, normalised to the sample's mass.
+      const k0 = Math.ceil(shift - w);
+      const k1 = Math.floor(shift + w);
+      let norm = 0;
+      for (let k = k0; k <= k1; k++) norm += 1 - Math.abs(k - shift) / w;
+      for (let k = k0; k <= k1; k++) weights[k - first] += ((1 - Math.abs(k - shift) / w) / norm) * share;
     });
     return { first, weights };
   });

@@ -53,6 +53,24 @@ describe("the spread of the bow over the canting", () => {
     for (const k of kernels) expect(Math.abs((k.first + k.weights.length) * step)).toBeLessThan(g * (5 * sd + a) + 2 * step);
   });
 
+  it("has no comb where the fold moves bins apart between tilt samples: a continuous tilt through a linear map has a density without holes", () => {
+    // Θ_R = 40 + 0.5·tx: tilt samples 0.25σ = 1.875° apart land 0.94°, about 19 bins, apart. Each node's kernel is the
+    // distribution of 0.5·(tx − t_k) over its cell, a continuous density: every bin between its ends carries weight, and
+    // neighbouring bins differ by a small fraction of the peak (no teeth one sample apart).
+    const kernels = localSpreadKernels({ c: 40, gx: 0.5, gy: 0, hx: 0, hy: 0 }, nodes, sd, step);
+    for (const { weights } of kernels) {
+      const nonZero = [...weights.keys()].filter((m) => weights[m] > 0);
+      const [lo, hi] = [nonZero[0], nonZero.at(-1)!];
+      expect(hi - lo).toBeGreaterThan(40);
+      const peak = Math.max(...weights);
+      for (let m = lo + 1; m < hi; m++) {
+        expect(weights[m]).toBeGreaterThan(0);
+        expect(Math.abs(weights[m] - weights[m - 1])).toBeLessThan(0.15 * peak);
+      }
+      expect(moments({ first: 0, weights }).sum).toBeCloseTo(1, 12);
+    }
+  });
+
   it("leaves the nodes' sum as it is when every fold is the same, and widens and lowers a bow whose fold moves with the tilt", () => {
     const count = 200;
     const bump = (centreBin: number) => Float64Array.from({ length: count }, (_, j) => Math.exp(-(((j - centreBin) / 3) ** 2)));
