@@ -340,12 +340,14 @@ export function spectralPassAsRowsArrive(plan: ProfilePlan, options: SpectralPas
   };
   return {
     onWavelength: (l: number, row: (i: number, block: number) => Float64Array) => pass.add(l, sum(l, row)),
-    /** Whether every wavelength's sum over drops is kept. */
-    sumsKept: () => sums !== undefined && Array.from({ length: grid.count }, (_, l) => sums.has(l)).every(Boolean),
-    /** The profile from kept sums over drops when every wavelength has one (no rows read), else undefined (nothing done). */
-    fromSums(): SpectralProfile | undefined {
+    /**
+     * The profile from kept sums over drops when every wavelength has one (no rows read; found() is told first), else
+     * undefined (nothing done).
+     */
+    fromSums(found?: () => void): SpectralProfile | undefined {
       const kept = sums ? Array.from({ length: grid.count }, (_, l) => sums.get(l)) : [];
       if (!sums || kept.some((k) => k === undefined)) return undefined;
+      found?.();
       const perWavelengthNs = options.onWavelength ? laterWorkNs(request, plan).spectralNsPerWavelength : 0;
       kept.forEach((k, l) => {
         pass.add(l, (out) => out.set(k!));
@@ -478,11 +480,10 @@ export async function computeProfile(
     spectralPassAsRowsArrive(plan, { onWavelength: progress ? (ns) => progress.advance("spectral", t * (later?.spectralNs ?? 0) + ns) : undefined, sums: t === 0 ? sums : undefined }),
   );
   // Kept sums stand for the rows they were made from: the kernels count as found, at the rows' estimated cost.
-  if (progress && passes[0].sumsKept()) {
-    progress.plan("kernels", kernelWorkNs(plan, deps.kernels.parallelism));
-    progress.complete("kernels", { found: true });
-  }
-  const reused = passes[0].fromSums();
+  const reused = passes[0].fromSums(() => {
+    progress?.plan("kernels", kernelWorkNs(plan, deps.kernels.parallelism));
+    progress?.complete("kernels", { found: true });
+  });
   const [rows, ...orderRows] = reused ? [NO_ROWS] : await Promise.all(
     requestedOrders.map((order, t) =>
       deps.kernels.rows(order === undefined ? plan.kernelRequest : { ...plan.kernelRequest, order }, deps.signal, {

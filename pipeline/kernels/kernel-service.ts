@@ -37,7 +37,6 @@ const SUMS_BUDGET_SHARE = 1 / 16;
 
 /** A request's sums over drops, one wavelength at a time: read-only arrays (β⊥ then β∥ over the span). */
 export interface PopulationSums {
-  has(wavelengthIndex: number): boolean;
   get(wavelengthIndex: number): Float64Array | undefined;
   set(wavelengthIndex: number, sum: Float64Array): void;
 }
@@ -234,7 +233,7 @@ export class KernelService {
       const m = request.media[l];
       return `${base}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}`;
     };
-    return { has: (l) => this.sums.has(keyOf(l)), get: (l) => this.sums.get(keyOf(l)), set: (l, sum) => void this.sums.set(keyOf(l), sum) };
+    return { get: (l) => this.sums.get(keyOf(l)), set: (l, sum) => void this.sums.set(keyOf(l), sum) };
   }
 
   async rows(request: KernelRequest, signal?: AbortSignal, watch: KernelWatch = {}): Promise<KernelRows> {
