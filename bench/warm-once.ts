@@ -7,6 +7,7 @@
 import { join } from "node:path";
 import { pathToFileURL } from "node:url";
 import { performance } from "node:perf_hooks";
+import { median } from "./stats.js";
 
 const WARM_RUNS = 31;
 const THREADS = 2;
@@ -37,5 +38,4 @@ for (let k = 0; k < WARM_RUNS; k++) {
   rowsPath.push(performance.now() - t0);
 }
 await pool.close();
-const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
 console.log(JSON.stringify({ warmMs: median(times), warmMinMs: Math.min(...times), rowsPathMs: median(rowsPath), rows: [...last!.spectral.perpendicular, ...last!.spectral.parallel] }));

@@ -2,6 +2,7 @@
 // L_j(ψ, λ) = E_sun(λ) · s · [D ∗ Σ_i w_i β_j,i(·, λ)](ψ), with β_j,i the light one drop of radius r_i scatters
 // per unit solid angle, D the sun disc's strip profile, s the path length (single scattering, van de Hulst 1957 §1.2).
 
+import { LRUCache } from "lru-cache";
 import type { WavelengthGrid } from "../spectra/grid.js";
 import { wavelengthsNm } from "../spectra/grid.js";
 import { sunDiscKernel, type DiscKernel, type LimbDarkening } from "../sun/disc.js";
@@ -105,17 +106,13 @@ export function discKernels(grid: WavelengthGrid, discDiameterDeg: number, h: nu
   return (l) => (made[l] ??= sharedDiscKernel(discDiameterDeg, h, wl[l], limbDarkening));
 }
 
-/** Disc kernels already made, the latest DISC_KERNELS_KEPT (a warm profile would otherwise make its 41 again). */
+/** Disc kernels already made, the DISC_KERNELS_KEPT used last (a warm profile would otherwise make its 41 again). */
 const DISC_KERNELS_KEPT = 1024;
-const discKernelsMade = new Map<string, DiscKernel>();
+const discKernelsMade = new LRUCache<string, DiscKernel>({ max: DISC_KERNELS_KEPT });
 function sharedDiscKernel(discDiameterDeg: number, h: number, wavelengthNm: number, limbDarkening: LimbDarkening): DiscKernel {
   const key = `${discDiameterDeg}|${h}|${wavelengthNm}|${limbDarkening}`;
   let kernel = discKernelsMade.get(key);
-  if (!kernel) {
-    kernel = sunDiscKernel(discDiameterDeg, h, wavelengthNm, limbDarkening);
-    if (discKernelsMade.size >= DISC_KERNELS_KEPT) discKernelsMade.delete(discKernelsMade.keys().next().value!);
-    discKernelsMade.set(key, kernel);
-  }
+  if (!kernel) discKernelsMade.set(key, (kernel = sunDiscKernel(discDiameterDeg, h, wavelengthNm, limbDarkening)));
   return kernel;
 }
 

@@ -1,5 +1,6 @@
 // Turns a validated profile request into the core's inputs, runs it, and shapes the JSON answer.
 
+import { LRUCache } from "lru-cache";
 import { contentHash } from "../requests/content-hash.js";
 import type { ProfileRequest } from "../../schemas/profile.js";
 import { angleCount } from "../../schemas/angles.js";
@@ -177,15 +178,13 @@ export function autoChoiceFor(request: ProfileRequest, resolution: ProfileResolu
   return chooseAutoFor(quadrature, wl, span, resolution);
 }
 
-/** Plans' pure results by key, the latest PLAN_MEMO_ENTRIES: a warm profile would otherwise integrate its size distribution again. */
+/** Plans' pure results by key, the PLAN_MEMO_ENTRIES used last: a warm profile would otherwise integrate its size distribution again. */
 const PLAN_MEMO_ENTRIES = 256;
-const planMemo = new Map<string, unknown>();
+const planMemo = new LRUCache<string, { value: unknown }>({ max: PLAN_MEMO_ENTRIES });
 function remembered<T>(key: string, make: () => T): T {
-  if (planMemo.has(key)) return planMemo.get(key) as T;
-  const value = make();
-  if (planMemo.size >= PLAN_MEMO_ENTRIES) planMemo.delete(planMemo.keys().next().value!);
-  planMemo.set(key, value);
-  return value;
+  let kept = planMemo.get(key);
+  if (!kept) planMemo.set(key, (kept = { value: make() }));
+  return kept.value as T;
 }
 
 /** The drops' radius nodes and weights (read only: shared by every plan of the same drops). */

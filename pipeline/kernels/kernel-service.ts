@@ -151,9 +151,18 @@ function mergeRows(older: Float64Array, newer: Float64Array): Float64Array {
 
 /** variant: the engine, and the cell average for averaged Lorenz–Mie rows (rowVariant). */
 function packKey(m: DropMedium, variant: string, h: number, block: number, sampling: MieSampling): string {
+  return `${rowsKeyPrefix(sampling)}|${mediumKey(m)}|${variant}|${h}|${block}`;
+}
+
+/** What every row's key starts with: the kernels' version and how their numbers were made. */
+function rowsKeyPrefix(sampling: MieSampling): string {
   // Rows of the fused-arithmetic kernels (relaxed SIMD) differ from exact ones in the last bits: kept apart; so are
   // Lorenz–Mie rows computed at every lattice point (the sub-lattice's interpolated ones differ by ~1e-8 of their peak).
-  return `v${KERNEL_VERSION}${simdArithmetic === "fused" ? "f" : ""}${sampling === "lattice" ? "L" : ""}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}|${variant}|${h}|${block}`;
+  return `v${KERNEL_VERSION}${simdArithmetic === "fused" ? "f" : ""}${sampling === "lattice" ? "L" : ""}`;
+}
+
+function mediumKey(m: DropMedium): string {
+  return `${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}`;
 }
 
 /** Rows of one engine with different cell averages, shapes or orders are different rows: packs are per variant. */
@@ -210,17 +219,14 @@ export class KernelService {
   }
 
   /**
-   * Σ_i w_i β_i of a request's rows over its span, per wavelength, kept in memory by what they are made of (the
-   * rows' keys: kernel version, arithmetic, sampling, media, variants, radii, lattice step, blocks and span; and the
-   * weights): a profile of the same drops in the same water over the same angles finds them whatever else it asks
+   * Σ_i w_i β_i of a request's rows over its span, per wavelength, kept in memory by what they are made of (what
+   * the rows' pack keys hold: rowsKeyPrefix, media, variants, lattice step, blocks; and the radii, span and weights): a profile of the same drops in the same water over the same angles finds them whatever else it asks
    * (sun, spectrum of the light, output, observer), and skips the rows and their sum, most of a warm profile's time.
    * A sum depends on its rows alone, and rows on their keys alone, so a kept sum is never stale.
    */
   populationSums(request: KernelRequest, weightsPerM3: Float64Array): PopulationSums {
     const identity = JSON.stringify({
-      version: KERNEL_VERSION,
-      arithmetic: simdArithmetic,
-      sampling: this.mieSampling,
+      rows: rowsKeyPrefix(this.mieSampling),
       h: request.h,
       blocks: request.blocks,
       within: request.within,
@@ -229,10 +235,7 @@ export class KernelService {
       weights: Array.from(weightsPerM3),
     });
     const base = createHash("sha256").update(identity).digest("base64url");
-    const keyOf = (l: number) => {
-      const m = request.media[l];
-      return `${base}|${m.wavelengthNm}|${m.mRe}|${m.mIm}|${m.nAir}`;
-    };
+    const keyOf = (l: number) => `${base}|${mediumKey(request.media[l])}`;
     return { get: (l) => this.sums.get(keyOf(l)), set: (l, sum) => void this.sums.set(keyOf(l), sum) };
   }
 
