@@ -14,7 +14,10 @@ import { pathToFileURL } from "node:url";
 import { performance } from "node:perf_hooks";
 
 type Workload = { body: Record<string, unknown> };
-/** Workloads by name: P4 (bench/profiles.ts), P4 with upright drops (one canting node), the full-Mie fog P2, and S2-shapes. */
+/**
+ * Workloads by name: P4 (bench/profiles.ts), P4 with upright drops (one canting node), the full-Mie fog P2, S2-shapes,
+ * and bench/shaped-profiles.ts's default profile with equilibrium shapes and P5.
+ */
 const WORKLOADS: Record<string, (profiles: { P2: Workload; P4: Workload }) => Record<string, unknown>> = {
   P4: ({ P4 }) => P4.body,
   "P4-upright": ({ P4 }) => ({ ...P4.body, drops: { kind: "monodisperse", radiusUm: 1000, shape: { kind: "equilibrium", cantingSdDeg: 0 } } }),
@@ -25,6 +28,9 @@ const WORKLOADS: Record<string, (profiles: { P2: Workload; P4: Workload }) => Re
     drops: { kind: "marshall-palmer", rainRateMmPerH: 2, shape: { kind: "equilibrium" } },
     arcPositionDeg: 0,
   }),
+  // The default profile (Marshall–Palmer 2 mm/h, side of the bow) with equilibrium shapes, and 25 mm/h (issue 13's goals).
+  "default-shapes": () => ({ drops: { kind: "marshall-palmer", rainRateMmPerH: 2, shape: { kind: "equilibrium" } } }),
+  P5: () => ({ drops: { kind: "marshall-palmer", rainRateMmPerH: 25, shape: { kind: "equilibrium" } } }),
 };
 /** As bench/profiles.ts's warm-up: the default profile with the water 1 °C warmer. */
 const WARM_UP_BODY = { water: { temperatureC: 16 } };

@@ -1,5 +1,5 @@
 // node dist/bench/side-by-side.js <old tree> <new tree> <rounds> <workload>…: cold profiles of flattened-drop workloads
-// (bench/profile-once.ts: P4, P4-upright), or of the fog P2, with two builds on this machine, alternating which goes
+// (bench/profile-once.ts: P4, P4-upright, S2-shapes, default-shapes, P5), or of the fog P2, with two builds on this machine, alternating which goes
 // first each round, one process each; writes the "shaped-split" section of BENCHMARKS.md (P2 alone: "fog-cold"): each
 // round's wall time and cores busy
 // (process CPU over wall), the medians, and the largest difference between the two builds' spectral rows relative to
@@ -26,6 +26,8 @@ const TITLES: Record<string, string> = {
   "P4-upright": "P4 with upright drops (canting 0: one canting node)",
   "S2-shapes": "Marshall–Palmer 2 mm/h, equilibrium shapes (canting 7.5°), top of the bow, every 20 nm",
   P2: "P2 (fog, lognormal 10 µm, σg 1.4, full Mie, ψ 20–60° step 0.2°, 512 Mie sizes per decade)",
+  "default-shapes": "the default profile with equilibrium shapes (Marshall–Palmer 2 mm/h, canting 7.5°, side of the bow)",
+  P5: "P5 (Marshall–Palmer 25 mm/h, equilibrium shapes, canting 7.5°, side of the bow)",
 };
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[Math.floor(values.length / 2)];
 const fog = workloads.every((w) => w === "P2");
