@@ -251,6 +251,11 @@ export class PlaneTracer {
     };
   }
 
+  /** The last trace's record (traceAt): what brute-force checks of the sweep read (bench/in-plane-rays.ts). */
+  get lastTrace(): Readonly<TraceOutput> {
+    return this.trace;
+  }
+
   private readonly halfWidths = new Map<number, number>();
   /**
    * Largest u (along e, at v = 0) whose ray meets the drop: the pupil's half-width, by bisection. It does not depend
