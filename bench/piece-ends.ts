@@ -5,8 +5,8 @@
 // ends at grazing entry, where the Fresnel transmission and so the power fall to 0 (Born & Wolf 1999 §1.5.3, from
 // memory) and Θ is the grazing ray's; a piece whose power climbs to its last sample ends where the in-plane ray's
 // offset v*(u) folds (∂Y/∂v → 0, the power per unit u growing as its inverse), or where the search loses the ray as
-// ∂Y/∂v falls: either way light of the order that leaves in the plane beyond that sample (the other branch of v*(u) at
-// a fold) is not traced, and the row steps down there. Output of a run is in issue 13's notes (stop 29).
+// ∂Y/∂v falls; at a fold the other root of v*(u) leaves in the plane too, which lib/rays/fold-back.ts traces as a
+// branch of the sweep (PlaneSweep.branches). Output of a run is in issue 13's notes (stop 29).
 
 import { shapedPlaneSweeps } from "../lib/bow/shaped-plane-rows.js";
 import { bowScatteringPlane, cantedAxis } from "../lib/rays/bow-geometry.js";

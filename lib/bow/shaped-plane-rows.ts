@@ -8,6 +8,7 @@ import type { DropTraceSetup } from "../rays/shape-tracer.js";
 import { addUniformBowBins, type UniformBowTable } from "./airy-bins.js";
 import { planeBowTable, type FoldConstants, type PlaneFold } from "./plane-bow-table.js";
 import { planeRayBins } from "./plane-ray-bins.js";
+import { foldBackBranches } from "../rays/fold-back.js";
 import type { RayBins } from "./ray-bins.js";
 // The cell [u[s], u[s + 1]] of ascending pupil samples that holds u.
 import { bracket } from "../spectra/spectrum.js";
@@ -168,7 +169,9 @@ export function shapedPlaneSweeps(
       }
       const union = unionWindow(any, windows[k] ?? any[0]);
       const window = windowed ? union : undefined;
-      sweeps[k][p] = coarseStep > 1 ? sweepPlaneCoarse(tracer, p, halfSegments, coarseStep, window) : sweepPlane(tracer, p, halfSegments, window);
+      const sweep = coarseStep > 1 ? sweepPlaneCoarse(tracer, p, halfSegments, coarseStep, window) : sweepPlane(tracer, p, halfSegments, window);
+      sweep.branches = foldBackBranches(tracer, sweep, window);
+      sweeps[k][p] = sweep;
     });
   }
   return sweeps;
@@ -201,6 +204,10 @@ export function contextFromSweeps(
   for (const p of rayOrders) {
     const sweep = sweeps[p];
     if (sweep) planeRayBins(sweep, side, thetaDeg, stepDeg, undefined, raysPerX2);
+  }
+  // Other roots of v*(u) beyond folds of it (lib/rays/fold-back.ts): ray optics wherever they land, every order.
+  for (const p of [...rayOrders, ...bowOrders]) {
+    for (const branch of sweeps[p]?.branches ?? []) planeRayBins(branch, side, thetaDeg, stepDeg, undefined, raysPerX2);
   }
   const bowTables: UniformBowTable[] = [];
   const folds: ShapedPlaneContext["folds"] = [];

@@ -9,7 +9,8 @@ import { planeCantingNodeOf, planeCantingNodes } from "./plane-canting-nodes.js"
 import { localCantingMean } from "./canting-spread.js";
 import { cantingNodesFive, type CantingNode } from "../drops/shape/canting.js";
 import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
-import type { PlaneSweep, ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
+import type { PlaneSweep, PlaneTracer, ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
+import { foldBackBranches } from "../rays/fold-back.js";
 import { addBlendedContexts, leaveOneOutMiss, leaveOneOutRowMiss, padFor, paddedGrid, shiftScratch } from "./aligned-blend.js";
 import { bowFold } from "./plane-bow-table.js";
 import { REQUEST_WAVELENGTHS_NM, WATER_INDEX_RANGE } from "../water/index-range.js";
@@ -108,7 +109,9 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (12: equilibrium
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (14: the other root
+ * of v*(u) beyond a fold of it is traced (lib/rays/fold-back.ts): 1.5 mm drops at the side of the bow gain the light
+ * brute force finds at Θ 145.6–150.1°, ΔE2000 up to 9.5 on their profile; 13: the canting spread without a comb; 12: equilibrium
  * drops on shape nodes only up to SHAPE_NODES_MAX_RADIUS_UM, larger ones with their own shape; 11: co- and
  * cross-polar amplitudes interfere each on its own (one signed amplitude of both jumped where the co-polar ∥ term
  * changes sign near Brewster's angle: a bow's dark side 10× its peak, test/lib/bow/plane-bow-table.test.ts), and the
@@ -128,7 +131,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 13;
+export const SHAPED_ENGINE_VERSION = 14;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -338,6 +341,12 @@ function constantsSmooth(ctxs: readonly ShapedPlaneContext[], traced: readonly n
   return keys.every((key) => leaveOneOutMiss(traced, ctxs.map((ctx) => ctx.folds[0].constants[key])) <= CONSTANTS_MISS);
 }
 
+/** An interpolated sweep with the other roots beyond its folds traced at its own index (lib/rays/fold-back.ts). */
+function withBranches(tracer: PlaneTracer, sweep: PlaneSweep): PlaneSweep {
+  sweep.branches = foldBackBranches(tracer, sweep);
+  return sweep;
+}
+
 /** One canting node's and order group's planes through one outline, traced at `indices`: the drop's axis, the group's options and sweeps. */
 function tracedGroup(
   spec: ShapedRowSpec,
@@ -521,7 +530,7 @@ export function shapedNodeRows(
       for (const mRe of indices) {
         const tracer = interpolate ? shapedPlaneTracer({ outline, axis, n: mRe }, plane, options) : null;
         const at = interpolate
-          ? sweeps[0].map((_, p) => (sweeps[0][p] ? interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer!, near).sweep : null))
+          ? sweeps[0].map((_, p) => (sweeps[0][p] ? withBranches(tracer!, interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer!, near).sweep) : null))
           : sweeps[traced.indexOf(mRe)];
         const ctx = contextFromSweeps(mRe, at, 1, thetaDeg, stepDeg, options);
         // A group of one bow order: its fold, for the canting mean (shapedMeanRows), read off the sweep also where the

@@ -304,6 +304,11 @@ export interface PlaneSweep {
   path: Float64Array;
   offset: Float64Array;
   v: Float64Array;
+  /**
+   * Rays of the same order on other roots v*(u), where a run of this sweep ends at a fold of v*(u), with the bridges
+   * across those folds (lib/rays/fold-back.ts): ray optics, added to the rows wherever they land.
+   */
+  branches?: PlaneSweep[];
 }
 
 /** The part of the pupil a sweep traces, and where Newton's search restarts after a gap. */

@@ -1,0 +1,57 @@
+// Brute force over the pupil: the light of one order that a drop sends into a scattering plane, from every ray of a
+// grid over a strip of the pupil, those leaving within |Y| < δ of the plane binned by Θ, each carrying its power ×
+// du·dv, over 2δ × the bin: power per unit Θ and unit Y, the units of a sweep's ray bins (|A|²/|∂(Θ,Y)/∂(u,v)| summed
+// over rays, van de Hulst 1957 §12.22). It sees every root of v*(u), where a sweep follows one (lib/rays/plane-sweep.ts).
+// Used by bench/in-plane-rays.ts and test/lib/rays/fold-back.test.ts.
+
+import { shapedPlaneTracer } from "../lib/bow/shaped-plane-rows.js";
+import type { ScatteringPlane } from "../lib/rays/plane-sweep.js";
+import type { DropTraceSetup } from "../lib/rays/shape-tracer.js";
+import { AT, ORDER_STRIDE } from "../lib/rays/shape-tracer.js";
+
+const DEG = Math.PI / 180;
+
+export interface BruteForceGrid {
+  uFrom: number;
+  uTo: number;
+  /** |v| up to this (units of a): past the widest drop the service traces. */
+  vReach: number;
+  du: number;
+  dv: number;
+  /** Half-width of the slab about the plane, in Y = d_out·N. */
+  delta: number;
+}
+
+/** Power per unit Θ (radians) and Y of order p in bins of binDeg from fromDeg (count bins), half-plane Θ > 0. */
+export function bruteForceInPlane(
+  setup: Omit<DropTraceSetup, "maxOrder" | "absorptionPerRadius">,
+  plane: ScatteringPlane,
+  p: number,
+  grid: BruteForceGrid,
+  fromDeg: number,
+  binDeg: number,
+  count: number,
+): Float64Array {
+  const tracer = shapedPlaneTracer(setup, plane, { rayOrders: [], bowOrders: [p] });
+  const { dIn, e } = plane;
+  const normal = tracer.normal;
+  const bins = new Float64Array(count);
+  const base = p * ORDER_STRIDE;
+  for (let u = grid.uFrom + grid.du / 2; u < grid.uTo; u += grid.du) {
+    for (let v = -grid.vReach; v < grid.vReach; v += grid.dv) {
+      if (!tracer.traceAt(u, v, p)) continue;
+      const rec = tracer.lastTrace.orders;
+      const d = [rec[base + AT.dir], rec[base + AT.dir + 1], rec[base + AT.dir + 2]];
+      const y = d[0] * normal[0] + d[1] * normal[1] + d[2] * normal[2];
+      if (Math.abs(y) >= grid.delta) continue;
+      const thetaDeg = Math.atan2(d[0] * e[0] + d[1] * e[1] + d[2] * e[2], d[0] * dIn[0] + d[1] * dIn[1] + d[2] * dIn[2]) / DEG;
+      const j = Math.floor((thetaDeg - fromDeg) / binDeg);
+      if (j < 0 || j >= count) continue;
+      // Both incident polarisations' outgoing fields (a sweep's ⟂ + ∥, co- and cross-polar).
+      let power = 0;
+      for (const at of [AT.e1Re, AT.e1Im, AT.e2Re, AT.e2Im]) for (let c = 0; c < 3; c++) power += rec[base + at + c] ** 2;
+      bins[j] += (power * grid.du * grid.dv) / (2 * grid.delta * binDeg * DEG);
+    }
+  }
+  return bins;
+}

@@ -1,0 +1,148 @@
+// The second branch of the in-plane offset v*(u) where a sweep's run of rays ends at a fold of it. A sweep
+// (lib/rays/plane-sweep.ts) follows one root v*(u) of Y(u, v) = 0 from sample to sample. Where ∂Y/∂v → 0 the root
+// meets a second one and both end: near such a point Y ≈ Y_u(u − u_f) + ½Y_vv(v − v_f)², so the two roots are
+// v_f ± √(−2Y_u(u − u_f)/Y_vv), on the same side of u_f (a fold of the curve Y = 0: common practice of continuation
+// methods), and each ray's power per unit u, |A|²/|∂Y/∂v|, climbs towards it. The sweep keeps the first root only; the
+// second leaves in the same plane too and carries light of its own (bench/in-plane-rays.ts: 1.5 mm equilibrium drops
+// at the side of the bow, Θ 145.6–150.1°, as bright as the primary's inner side). Here each run end whose power climbs
+// over its last samples has the other root found at that sample (a scan of Y along v, then Newton's search) and
+// followed back into the run's samples until the search loses it or it meets the first root again.
+
+import { RayPredictor, storeRay, emptySweep, type PlaneSweep, type PlaneTracer, type SweepWindow } from "./plane-sweep.js";
+import { AT, ORDER_STRIDE } from "./shape-tracer.js";
+
+/** A run end counts as a fold when its power per unit u grew over each of its last CLIMB_SAMPLES steps. */
+const CLIMB_SAMPLES = 3;
+/** The scan for the second root: this many traces over ±SCAN_REACH (units of a) of v about the first root. */
+const SCAN_TRACES = 48;
+const SCAN_REACH = 0.25;
+/** Roots nearer than this (units of a) are one root. */
+const SAME_ROOT = 1e-7;
+
+/** Y = d_out·N of the last trace's order p. */
+function yOfLast(tracer: PlaneTracer, p: number): number {
+  const rec = tracer.lastTrace.orders;
+  const at = p * ORDER_STRIDE + AT.dir;
+  const n = tracer.normal;
+  return rec[at] * n[0] + rec[at + 1] * n[1] + rec[at + 2] * n[2];
+}
+
+/** The root of Y(v) at u nearest vFirst other than vFirst itself (a sign change of Y in a scan, then planeRay), or null. */
+function secondRoot(tracer: PlaneTracer, u: number, vFirst: number, p: number): number | null {
+  let best: number | null = null;
+  let previousV = Number.NaN;
+  let previousY = Number.NaN;
+  for (let k = 0; k <= SCAN_TRACES; k++) {
+    const v = vFirst - SCAN_REACH + (2 * SCAN_REACH * k) / SCAN_TRACES;
+    if (!tracer.traceAt(u, v, p)) {
+      previousV = Number.NaN;
+      continue;
+    }
+    const y = yOfLast(tracer, p);
+    if (!Number.isNaN(previousV) && Math.sign(y) !== Math.sign(previousY)) {
+      const ray = tracer.planeRay(u, 0.5 * (v + previousV), p);
+      if (ray !== null && Math.abs(ray.v - vFirst) > SAME_ROOT && (best === null || Math.abs(ray.v - vFirst) < Math.abs(best - vFirst))) best = ray.v;
+    }
+    previousV = v;
+    previousY = y;
+  }
+  return best;
+}
+
+/** How many folds deep branches are followed (a branch may end at a fold of its own). */
+const MAX_DEPTH = 3;
+
+/**
+ * The second branches of sweep's runs that end at a fold of v*(u), and theirs in turn (MAX_DEPTH): each a sweep over the
+ * same samples (ok only where the branch was found), and a bridge across each fold. The last traced rays of the two
+ * roots lie a little short of the fold u_f, on either side of its angle Θ_f; with P ∝ 1/√(u_f − u) and Θ − Θ_f ∝
+ * ±√(u_f − u) on each (the fold's normal form above), P·du is even in Θ between them: the bridge is a two-sample sweep
+ * from one root's last ray to the other's carrying that power (bridge), u_f from the 1/P² law through the run's last
+ * two rays. window: the samples the sweep traced (the branch is followed only where it wants).
+ */
+export function foldBackBranches(tracer: PlaneTracer, sweep: PlaneSweep, window?: SweepWindow, depth = 1, known: PlaneSweep[] = [sweep]): PlaneSweep[] {
+  const p = sweep.order;
+  const count = sweep.u.length;
+  const found: PlaneSweep[] = [];
+  const power = (sw: PlaneSweep, s: number) => sw.perpPerU[s] + sw.parPerU[s];
+  for (let end = 0; end < count; end++) {
+    if (!sweep.ok[end]) continue;
+    for (const out of [1, -1] as const) {
+      const beyond = end + out;
+      if (beyond < 0 || beyond >= count || sweep.ok[beyond]) continue;
+      // The run behind the end: climbing power over its last samples.
+      let climbing = true;
+      for (let k = 0; k < CLIMB_SAMPLES && climbing; k++) {
+        const a = end - out * k;
+        const b = a - out;
+        climbing = b >= 0 && b < count && sweep.ok[a] === 1 && sweep.ok[b] === 1 && power(sweep, a) > power(sweep, b);
+      }
+      if (!climbing) continue;
+      const start = secondRoot(tracer, sweep.u[end], sweep.v[end], p);
+      // A root some sweep already follows (a branch's fold back onto the run it came from) is not a new branch.
+      if (start === null || onKnown(known, end, start)) continue;
+      const branch = followBranch(tracer, known, p, end, -out as 1 | -1, start, window);
+      if (!branch.ok[end]) continue;
+      known.push(branch);
+      found.push(branch, bridge(sweep, branch, end, end - out));
+      if (depth < MAX_DEPTH) found.push(...foldBackBranches(tracer, branch, window, depth + 1, known));
+    }
+  }
+  return found;
+}
+
+/**
+ * The two-sample sweep across the fold between sweep's and branch's rays at sample end (previous: the sample before it
+ * on both). With P = A/√(u_f − u) on each root, the power from the previous sample to the fold is 2A√d₁ (d = u_f − u),
+ * of which the rows already hold each root's last segment as a trapezoid, ½(P_prev + P_end)(d₁ − d₀): the bridge carries
+ * the rest, 2A√d₁ − ½(P_prev + P_end)(d₁ − d₀) a root (the trapezoid alone overstates a 1/√ end by ~12 % at d₀ = d₁/4).
+ */
+function bridge(sweep: PlaneSweep, branch: PlaneSweep, end: number, previous: number): PlaneSweep {
+  const power = (sw: PlaneSweep, s: number) => sw.perpPerU[s] + sw.parPerU[s];
+  const pEnd = power(sweep, end);
+  const pPrevious = power(sweep, previous);
+  const step = Math.abs(sweep.u[end] - sweep.u[previous]);
+  // P²·d is the same at both samples: d₀ = P_prev²·step / (P_end² − P_prev²).
+  const d0 = (pPrevious * pPrevious * step) / (pEnd * pEnd - pPrevious * pPrevious);
+  const d1 = d0 + step;
+  let carried = 0;
+  for (const root of [sweep, branch]) {
+    const a = power(root, end) * Math.sqrt(d0);
+    const last = root.ok[previous] ? 0.5 * (power(root, previous) + power(root, end)) * step : 0;
+    carried += 2 * a * Math.sqrt(d1) - last;
+  }
+  const ends = power(sweep, end) + power(branch, end);
+  const across = emptySweep(sweep.order, Float64Array.of(0, Math.max(0, (2 * carried) / ends)));
+  for (const [k, from] of [[0, sweep], [1, branch]] as const) {
+    across.ok[k] = 1;
+    across.thetaSigned[k] = from.thetaSigned[end];
+    across.perpPerU[k] = from.perpPerU[end];
+    across.parPerU[k] = from.parPerU[end];
+  }
+  return across;
+}
+
+/** Whether some known sweep has its ray at sample s at offset v. */
+function onKnown(known: readonly PlaneSweep[], s: number, v: number): boolean {
+  return known.some((sweep) => sweep.ok[s] === 1 && Math.abs(sweep.v[s] - v) <= SAME_ROOT);
+}
+
+/** The branch through (u[from], vStart), followed sample by sample in direction `step` while it is found and apart from every known sweep's root. */
+function followBranch(tracer: PlaneTracer, known: readonly PlaneSweep[], p: number, from: number, step: 1 | -1, vStart: number, window?: SweepWindow): PlaneSweep {
+  const sweep = known[0];
+  const branch = emptySweep(p, sweep.u);
+  const predictor = new RayPredictor();
+  let guess = vStart;
+  for (let s = from, k = 0; s >= 0 && s < sweep.u.length; s += step, k++) {
+    const u = sweep.u[s];
+    if (window && !window.wants(u)) break;
+    const ray = tracer.planeRay(u, predictor.guess(k, guess), p);
+    if (ray === null) break;
+    // On a known root: the branch has closed (or the search slid onto another root).
+    if (onKnown(known, s, ray.v)) break;
+    predictor.add(k, ray.v);
+    guess = ray.v;
+    storeRay(branch, s, ray);
+  }
+  return branch;
+}
