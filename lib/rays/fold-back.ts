@@ -102,8 +102,9 @@ function bridge(sweep: PlaneSweep, branch: PlaneSweep, end: number, previous: nu
   const pEnd = power(sweep, end);
   const pPrevious = power(sweep, previous);
   const step = Math.abs(sweep.u[end] - sweep.u[previous]);
-  // P²·d is the same at both samples: d₀ = P_prev²·step / (P_end² − P_prev²).
-  const d0 = (pPrevious * pPrevious * step) / (pEnd * pEnd - pPrevious * pPrevious);
+  // P²·d is the same at both samples: d₀ = P_prev²·step / (P_end² − P_prev²); the fold lies before the next sample,
+  // which has no ray, so d₀ is at most a step (a run whose power barely climbs would otherwise put it far away).
+  const d0 = Math.min((pPrevious * pPrevious * step) / (pEnd * pEnd - pPrevious * pPrevious), step);
   const d1 = d0 + step;
   let carried = 0;
   for (const root of [sweep, branch]) {
