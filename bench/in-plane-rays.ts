@@ -34,7 +34,7 @@ const sweep = shapedPlaneSweeps([setup], plane, 1, serviceGrid, 0.05, options)[0
 const outside = Uint8Array.from(sweep.u, (u, s) => (u >= uFrom && s + 1 < sweep.u.length && sweep.u[s + 1] <= uTo ? 0 : 1));
 const swept = planeRayBins(sweep, 1, bins, BIN_DEG, outside);
 // The roots beyond folds of v*(u) (lib/rays/fold-back.ts) on the strip's samples, and the bridges across those folds.
-const branched = planeRayBins(sweep, 1, bins, BIN_DEG, outside);
+const branched = { perpendicular: Float64Array.from(swept.perpendicular), parallel: Float64Array.from(swept.parallel) };
 for (const branch of sweep.branches ?? []) {
   const strip = branch.u === sweep.u ? Uint8Array.from(branch.u, (_, s) => outside[s]) : undefined;
   planeRayBins(branch, 1, bins, BIN_DEG, strip, branched);

@@ -19,6 +19,11 @@ const SCAN_REACH = 0.25;
 /** Roots nearer than this (units of a) are one root. */
 const SAME_ROOT = 1e-7;
 
+/** A sample's power per unit u, both polarisations (PlaneSweep.perpPerU + parPerU). */
+function powerAt(sweep: PlaneSweep, s: number): number {
+  return sweep.perpPerU[s] + sweep.parPerU[s];
+}
+
 /** Y = d_out·N of the last trace's order p. */
 function yOfLast(tracer: PlaneTracer, p: number): number {
   const rec = tracer.lastTrace.orders;
@@ -64,7 +69,6 @@ export function foldBackBranches(tracer: PlaneTracer, sweep: PlaneSweep, window?
   const p = sweep.order;
   const count = sweep.u.length;
   const found: PlaneSweep[] = [];
-  const power = (sw: PlaneSweep, s: number) => sw.perpPerU[s] + sw.parPerU[s];
   for (let end = 0; end < count; end++) {
     if (!sweep.ok[end]) continue;
     for (const out of [1, -1] as const) {
@@ -75,7 +79,7 @@ export function foldBackBranches(tracer: PlaneTracer, sweep: PlaneSweep, window?
       for (let k = 0; k < CLIMB_SAMPLES && climbing; k++) {
         const a = end - out * k;
         const b = a - out;
-        climbing = b >= 0 && b < count && sweep.ok[a] === 1 && sweep.ok[b] === 1 && power(sweep, a) > power(sweep, b);
+        climbing = b >= 0 && b < count && sweep.ok[a] === 1 && sweep.ok[b] === 1 && powerAt(sweep, a) > powerAt(sweep, b);
       }
       if (!climbing) continue;
       const start = secondRoot(tracer, sweep.u[end], sweep.v[end], p);
@@ -98,9 +102,8 @@ export function foldBackBranches(tracer: PlaneTracer, sweep: PlaneSweep, window?
  * the rest, 2A√d₁ − ½(P_prev + P_end)(d₁ − d₀) a root (the trapezoid alone overstates a 1/√ end by ~12 % at d₀ = d₁/4).
  */
 function bridge(sweep: PlaneSweep, branch: PlaneSweep, end: number, previous: number): PlaneSweep {
-  const power = (sw: PlaneSweep, s: number) => sw.perpPerU[s] + sw.parPerU[s];
-  const pEnd = power(sweep, end);
-  const pPrevious = power(sweep, previous);
+  const pEnd = powerAt(sweep, end);
+  const pPrevious = powerAt(sweep, previous);
   const step = Math.abs(sweep.u[end] - sweep.u[previous]);
   // P²·d is the same at both samples: d₀ = P_prev²·step / (P_end² − P_prev²); the fold lies before the next sample,
   // which has no ray, so d₀ is at most a step (a run whose power barely climbs would otherwise put it far away).
@@ -108,11 +111,11 @@ function bridge(sweep: PlaneSweep, branch: PlaneSweep, end: number, previous: nu
   const d1 = d0 + step;
   let carried = 0;
   for (const root of [sweep, branch]) {
-    const a = power(root, end) * Math.sqrt(d0);
-    const last = root.ok[previous] ? 0.5 * (power(root, previous) + power(root, end)) * step : 0;
+    const a = powerAt(root, end) * Math.sqrt(d0);
+    const last = root.ok[previous] ? 0.5 * (powerAt(root, previous) + powerAt(root, end)) * step : 0;
     carried += 2 * a * Math.sqrt(d1) - last;
   }
-  const ends = power(sweep, end) + power(branch, end);
+  const ends = powerAt(sweep, end) + powerAt(branch, end);
   const across = emptySweep(sweep.order, Float64Array.of(0, Math.max(0, (2 * carried) / ends)));
   for (const [k, from] of [[0, sweep], [1, branch]] as const) {
     across.ok[k] = 1;
