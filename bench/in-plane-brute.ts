@@ -5,7 +5,8 @@
 // Used by bench/in-plane-rays.ts and test/lib/rays/fold-back.test.ts.
 
 import { shapedPlaneTracer } from "../lib/bow/shaped-plane-rows.js";
-import type { ScatteringPlane } from "../lib/rays/plane-sweep.js";
+import type { PlaneSweep, ScatteringPlane } from "../lib/rays/plane-sweep.js";
+import { planeRayBins } from "../lib/bow/plane-ray-bins.js";
 import type { DropTraceSetup } from "../lib/rays/shape-tracer.js";
 import { AT, ORDER_STRIDE } from "../lib/rays/shape-tracer.js";
 
@@ -33,25 +34,37 @@ export function bruteForceInPlane(
   count: number,
 ): Float64Array {
   const tracer = shapedPlaneTracer(setup, plane, { rayOrders: [], bowOrders: [p] });
-  const { dIn, e } = plane;
-  const normal = tracer.normal;
   const bins = new Float64Array(count);
   const base = p * ORDER_STRIDE;
   for (let u = grid.uFrom + grid.du / 2; u < grid.uTo; u += grid.du) {
     for (let v = -grid.vReach; v < grid.vReach; v += grid.dv) {
       if (!tracer.traceAt(u, v, p)) continue;
-      const rec = tracer.lastTrace.orders;
-      const d = [rec[base + AT.dir], rec[base + AT.dir + 1], rec[base + AT.dir + 2]];
-      const y = d[0] * normal[0] + d[1] * normal[1] + d[2] * normal[2];
+      const { y, thetaSigned } = tracer.lastExit(p);
       if (Math.abs(y) >= grid.delta) continue;
-      const thetaDeg = Math.atan2(d[0] * e[0] + d[1] * e[1] + d[2] * e[2], d[0] * dIn[0] + d[1] * dIn[1] + d[2] * dIn[2]) / DEG;
+      const thetaDeg = thetaSigned / DEG;
       const j = Math.floor((thetaDeg - fromDeg) / binDeg);
       if (j < 0 || j >= count) continue;
       // Both incident polarisations' outgoing fields (a sweep's ⟂ + ∥, co- and cross-polar).
+      const rec = tracer.lastTrace.orders;
       let power = 0;
       for (const at of [AT.e1Re, AT.e1Im, AT.e2Re, AT.e2Im]) for (let c = 0; c < 3; c++) power += rec[base + at + c] ** 2;
       bins[j] += (power * grid.du * grid.dv) / (2 * grid.delta * binDeg * DEG);
     }
   }
   return bins;
+}
+
+/**
+ * A sweep's light on the same bins from its samples within the strip [uFrom, uTo] (the brute force's), |S|² per unit Θ
+ * and Y summed over ⟂ and ∥; withBranches: and its branches' (PlaneSweep.branches: the bridges across folds, which have
+ * pupil steps of their own, whole).
+ */
+export function sweptInPlane(sweep: PlaneSweep, uFrom: number, uTo: number, fromDeg: number, binDeg: number, count: number, withBranches: boolean): Float64Array {
+  const bins = Float64Array.from({ length: count }, (_, j) => fromDeg + binDeg * (j + 0.5));
+  const outside = Uint8Array.from(sweep.u, (u, s) => (u >= uFrom && s + 1 < sweep.u.length && sweep.u[s + 1] <= uTo ? 0 : 1));
+  const out = planeRayBins(sweep, 1, bins, binDeg, outside);
+  if (withBranches) {
+    for (const branch of sweep.branches ?? []) planeRayBins(branch, 1, bins, binDeg, branch.u === sweep.u ? outside : undefined, out);
+  }
+  return Float64Array.from(out.perpendicular, (v, j) => v + out.parallel[j]);
 }

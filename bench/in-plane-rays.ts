@@ -8,8 +8,7 @@
 import { shapedPlaneSweeps } from "../lib/bow/shaped-plane-rows.js";
 import { bowScatteringPlane, cantedAxis } from "../lib/rays/bow-geometry.js";
 import { equilibriumOutline } from "../lib/drops/shape/equilibrium-shape.js";
-import { planeRayBins } from "../lib/bow/plane-ray-bins.js";
-import { bruteForceInPlane } from "./in-plane-brute.js";
+import { bruteForceInPlane, sweptInPlane } from "./in-plane-brute.js";
 
 const ORDER = 2;
 const N = 1.3338;
@@ -31,14 +30,9 @@ const options = { rayOrders: [], bowOrders: [ORDER] };
 // The sweep as the service traces it (on a grid of ψ 20–70° at 0.05°), its samples within the strip.
 const serviceGrid = Float64Array.from({ length: 1015 }, (_, j) => 109.7 + 0.05 * j);
 const sweep = shapedPlaneSweeps([setup], plane, 1, serviceGrid, 0.05, options)[0][ORDER]!;
-const outside = Uint8Array.from(sweep.u, (u, s) => (u >= uFrom && s + 1 < sweep.u.length && sweep.u[s + 1] <= uTo ? 0 : 1));
-const swept = planeRayBins(sweep, 1, bins, BIN_DEG, outside);
-// The roots beyond folds of v*(u) (lib/rays/fold-back.ts) on the strip's samples, and the bridges across those folds.
-const branched = { perpendicular: Float64Array.from(swept.perpendicular), parallel: Float64Array.from(swept.parallel) };
-for (const branch of sweep.branches ?? []) {
-  const strip = branch.u === sweep.u ? Uint8Array.from(branch.u, (_, s) => outside[s]) : undefined;
-  planeRayBins(branch, 1, bins, BIN_DEG, strip, branched);
-}
+const swept = sweptInPlane(sweep, uFrom, uTo, FROM_DEG, BIN_DEG, BINS, false);
+// With the roots beyond folds of v*(u) (lib/rays/fold-back.ts) and the bridges across those folds.
+const branched = sweptInPlane(sweep, uFrom, uTo, FROM_DEG, BIN_DEG, BINS, true);
 
 const brute = bruteForceInPlane(setup, plane, ORDER, { uFrom, uTo, vReach: V_REACH, du: DU, dv: DV, delta: DELTA }, FROM_DEG, BIN_DEG, BINS);
 
@@ -46,7 +40,5 @@ console.log(`${radiusUm} µm equilibrium drop, side of the bow, sun 10°, order 
 console.log("| Θ (°) | sweep's own root | with the roots beyond its folds | brute force |");
 console.log("|---|---|---|---|");
 for (let j = 0; j < BINS; j += 2) {
-  const s = swept.perpendicular[j] + swept.parallel[j];
-  const b = branched.perpendicular[j] + branched.parallel[j];
-  if (s > 0 || b > 0 || brute[j] > 0) console.log(`| ${bins[j].toFixed(2)} | ${s.toExponential(2)} | ${b.toExponential(2)} | ${brute[j].toExponential(2)} |`);
+  if (swept[j] > 0 || branched[j] > 0 || brute[j] > 0) console.log(`| ${bins[j].toFixed(2)} | ${swept[j].toExponential(2)} | ${branched[j].toExponential(2)} | ${brute[j].toExponential(2)} |`);
 }

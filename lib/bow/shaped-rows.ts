@@ -9,8 +9,7 @@ import { planeCantingNodeOf, planeCantingNodes } from "./plane-canting-nodes.js"
 import { localCantingMean } from "./canting-spread.js";
 import { cantingNodesFive, type CantingNode } from "../drops/shape/canting.js";
 import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
-import type { PlaneSweep, PlaneTracer, ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
-import { foldBackBranches } from "../rays/fold-back.js";
+import type { PlaneSweep, ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
 import { addBlendedContexts, leaveOneOutMiss, leaveOneOutRowMiss, padFor, paddedGrid, shiftScratch } from "./aligned-blend.js";
 import { bowFold } from "./plane-bow-table.js";
 import { REQUEST_WAVELENGTHS_NM, WATER_INDEX_RANGE } from "../water/index-range.js";
@@ -341,12 +340,6 @@ function constantsSmooth(ctxs: readonly ShapedPlaneContext[], traced: readonly n
   return keys.every((key) => leaveOneOutMiss(traced, ctxs.map((ctx) => ctx.folds[0].constants[key])) <= CONSTANTS_MISS);
 }
 
-/** An interpolated sweep with the other roots beyond its folds traced at its own index (lib/rays/fold-back.ts). */
-function withBranches(tracer: PlaneTracer, sweep: PlaneSweep): PlaneSweep {
-  sweep.branches = foldBackBranches(tracer, sweep);
-  return sweep;
-}
-
 /** One canting node's and order group's planes through one outline, traced at `indices`: the drop's axis, the group's options and sweeps. */
 function tracedGroup(
   spec: ShapedRowSpec,
@@ -530,7 +523,7 @@ export function shapedNodeRows(
       for (const mRe of indices) {
         const tracer = interpolate ? shapedPlaneTracer({ outline, axis, n: mRe }, plane, options) : null;
         const at = interpolate
-          ? sweeps[0].map((_, p) => (sweeps[0][p] ? withBranches(tracer!, interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer!, near).sweep) : null))
+          ? sweeps[0].map((_, p) => (sweeps[0][p] ? interpolateSweep(sweeps.map((byOrder) => byOrder[p]!), traced, mRe, tracer!, near).sweep : null))
           : sweeps[traced.indexOf(mRe)];
         const ctx = contextFromSweeps(mRe, at, 1, thetaDeg, stepDeg, options);
         // A group of one bow order: its fold, for the canting mean (shapedMeanRows), read off the sweep also where the

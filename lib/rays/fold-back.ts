@@ -9,7 +9,6 @@
 // followed back into the run's samples until the search loses it or it meets the first root again.
 
 import { RayPredictor, storeRay, emptySweep, type PlaneSweep, type PlaneTracer, type SweepWindow } from "./plane-sweep.js";
-import { AT, ORDER_STRIDE } from "./shape-tracer.js";
 
 /** A run end counts as a fold when its power per unit u grew over each of its last CLIMB_SAMPLES steps. */
 const CLIMB_SAMPLES = 3;
@@ -24,14 +23,6 @@ function powerAt(sweep: PlaneSweep, s: number): number {
   return sweep.perpPerU[s] + sweep.parPerU[s];
 }
 
-/** Y = d_out·N of the last trace's order p. */
-function yOfLast(tracer: PlaneTracer, p: number): number {
-  const rec = tracer.lastTrace.orders;
-  const at = p * ORDER_STRIDE + AT.dir;
-  const n = tracer.normal;
-  return rec[at] * n[0] + rec[at + 1] * n[1] + rec[at + 2] * n[2];
-}
-
 /** The root of Y(v) at u nearest vFirst other than vFirst itself (a sign change of Y in a scan, then planeRay), or null. */
 function secondRoot(tracer: PlaneTracer, u: number, vFirst: number, p: number): number | null {
   let best: number | null = null;
@@ -43,7 +34,7 @@ function secondRoot(tracer: PlaneTracer, u: number, vFirst: number, p: number): 
       previousV = Number.NaN;
       continue;
     }
-    const y = yOfLast(tracer, p);
+    const { y } = tracer.lastExit(p);
     if (!Number.isNaN(previousV) && Math.sign(y) !== Math.sign(previousY)) {
       const ray = tracer.planeRay(u, 0.5 * (v + previousV), p);
       if (ray !== null && Math.abs(ray.v - vFirst) > SAME_ROOT && (best === null || Math.abs(ray.v - vFirst) < Math.abs(best - vFirst))) best = ray.v;

@@ -251,9 +251,15 @@ export class PlaneTracer {
     };
   }
 
-  /** The last trace's record (traceAt): what brute-force checks of the sweep read (bench/in-plane-rays.ts). */
+  /** The last trace's record (traceAt): what brute-force checks of the sweep read (bench/in-plane-brute.ts). */
   get lastTrace(): Readonly<TraceOutput> {
     return this.trace;
+  }
+
+  /** Y = d_out·N and the signed Θ of the last trace's order p, as planeRay's search reads them (for scans along v). */
+  lastExit(p: number): { y: number; thetaSigned: number } {
+    this.exitAngles(p);
+    return { y: this.yOut, thetaSigned: this.thetaOut };
   }
 
   private readonly halfWidths = new Map<number, number>();

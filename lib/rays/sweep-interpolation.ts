@@ -6,6 +6,7 @@
 // Chebyshev nodes (ibid. §5.8: they keep the interpolation error near its minimax value, ~ (Δn/2)^M·f^(M)/(2^(M−1)·M!)).
 
 import { emptySweep, setPowers, storeRay, unwrap, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
+import { foldBackBranches } from "./fold-back.js";
 
 /** M Chebyshev nodes of the first kind over [lo, hi] (Press et al. 2007 Eq. 5.8.4), ascending. */
 export function chebyshevNodes(lo: number, hi: number, count: number): number[] {
@@ -48,7 +49,7 @@ export const AMPLITUDE_TOLERANCE = 1e-5;
  * Newton's form, |f[n₀…n_{M−1}]·Π(n − n_k)| (Press et al. 2007 §3.2; it bounds the error of the interpolant one
  * degree lower, so it errs on the safe side). With `near`, samples whose |Θ| lies on one side of it at every node
  * are never traced: kept where interpolation serves, else left out. Signed angles are unwrapped against the first node's, so that a ray near Θ = ±180° is not averaged
- * across the cut.
+ * across the cut. The other roots beyond the sweep's folds (PlaneSweep.branches, lib/rays/fold-back.ts) are traced at n.
  */
 export function interpolateSweep(
   sweeps: readonly PlaneSweep[],
@@ -197,6 +198,8 @@ export function interpolateSweep(
       break;
     }
   }
+  // The other roots beyond the interpolated sweep's folds, traced at n (they are not interpolated across the nodes).
+  out.branches = foldBackBranches(tracer, out);
   return { sweep: out, traced };
 }
 

@@ -220,7 +220,8 @@ export class KernelService {
 
   /**
    * Σ_i w_i β_i of a request's rows over its span, per wavelength, kept in memory by what they are made of (what
-   * the rows' pack keys hold: rowsKeyPrefix, media, variants, lattice step, blocks; and the radii, span and weights): a profile of the same drops in the same water over the same angles finds them whatever else it asks
+   * the rows' pack keys hold: rowsKeyPrefix, media, variants, lattice step, blocks; and the radii, span and weights):
+   * a profile of the same drops in the same water over the same angles finds them whatever else it asks
    * (sun, spectrum of the light, output, observer), and skips the rows and their sum, most of a warm profile's time.
    * A sum depends on its rows alone, and rows on their keys alone, so a kept sum is never stale.
    */

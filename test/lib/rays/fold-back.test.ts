@@ -1,9 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { shapedPlaneSweeps } from "../../../lib/bow/shaped-plane-rows.js";
-import { planeRayBins } from "../../../lib/bow/plane-ray-bins.js";
 import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
 import { bowScatteringPlane, cantedAxis } from "../../../lib/rays/bow-geometry.js";
-import { bruteForceInPlane } from "../../../bench/in-plane-brute.js";
+import { bruteForceInPlane, sweptInPlane } from "../../../bench/in-plane-brute.js";
 
 // The primary's order of a 1.5 mm equilibrium drop, upright, in the plane at the side of the bow with the sun at 10°:
 // the sweep's inner piece ends at Θ ≈ 145.5°, 0.005 of a short of the rim, its power per unit u climbing (a fold of
@@ -22,12 +21,7 @@ const U_TO = -0.9;
 
 function sweptBins(radiusUm: number, withBranches: boolean): Float64Array {
   const sweep = shapedPlaneSweeps([{ outline: equilibriumOutline(radiusUm), axis: cantedAxis(0, 0), n: N }], plane, 1, serviceGrid, 0.05, { rayOrders: [], bowOrders: [ORDER] })[0][ORDER]!;
-  const outside = Uint8Array.from(sweep.u, (u, s) => (u >= U_FROM && s + 1 < sweep.u.length && sweep.u[s + 1] <= U_TO ? 0 : 1));
-  const out = planeRayBins(sweep, 1, bins, BIN_DEG, outside);
-  if (withBranches) {
-    for (const branch of sweep.branches ?? []) planeRayBins(branch, 1, bins, BIN_DEG, branch.u === sweep.u ? outside : undefined, out);
-  }
-  return Float64Array.from(out.perpendicular, (v, j) => v + out.parallel[j]);
+  return sweptInPlane(sweep, U_FROM, U_TO, FROM_DEG, BIN_DEG, BINS, withBranches);
 }
 
 describe("the other root of the in-plane offset beyond a fold of it", () => {
