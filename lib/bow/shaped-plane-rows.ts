@@ -8,7 +8,7 @@ import type { DropTraceSetup } from "../rays/shape-tracer.js";
 import { addUniformBowBins, type UniformBowTable } from "./airy-bins.js";
 import { planeBowTable, type FoldConstants, type PlaneFold } from "./plane-bow-table.js";
 import { planeRayBins } from "./plane-ray-bins.js";
-import { foldBackBranches } from "../rays/fold-back.js";
+import { sweepBranches } from "../rays/lost-roots.js";
 import type { RayBins } from "./ray-bins.js";
 // The cell [u[s], u[s + 1]] of ascending pupil samples that holds u.
 import { bracket } from "../spectra/spectrum.js";
@@ -170,7 +170,7 @@ export function shapedPlaneSweeps(
       const union = unionWindow(any, windows[k] ?? any[0]);
       const window = windowed ? union : undefined;
       const sweep = coarseStep > 1 ? sweepPlaneCoarse(tracer, p, halfSegments, coarseStep, window) : sweepPlane(tracer, p, halfSegments, window);
-      sweep.branches = foldBackBranches(tracer, sweep, window);
+      sweep.branches = sweepBranches(tracer, sweep, window);
       sweeps[k][p] = sweep;
     });
   }

@@ -259,6 +259,8 @@ export function sweepPlaneCoarse(
         weights[3] = d0 * d1 * d2 * inverseDenominators[3];
         const i = at(s);
         sweep.ok[i] = 1;
+        // A trusted cell lies within one run of one root: its ends' sign of ∂Y/∂v (0 where they differ).
+        sweep.yvSign[i] = sweep.yvSign[at(c0)] === sweep.yvSign[at(c1)] ? sweep.yvSign[at(c0)] : 0;
         for (let f = 0; f < FIELDS.length; f++) {
           let sum = 0;
           for (let m = 0; m < 4; m++) sum += weights[m] * nodeValues[6 * f + m];

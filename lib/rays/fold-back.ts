@@ -23,8 +23,32 @@ function powerAt(sweep: PlaneSweep, s: number): number {
   return sweep.perpPerU[s] + sweep.parPerU[s];
 }
 
-/** The root of Y(v) at u nearest vFirst other than vFirst itself (a sign change of Y in a scan, then planeRay), or null. */
+/** The step in v (units of a) over which ∂Y/∂v is differenced for ∂²Y/∂v² at a run's end (foldPartner). */
+const CURVATURE_STEP = 1e-4;
+
+/**
+ * The fold's other root at u from the first root's ∂Y/∂v and ∂²Y/∂v² (the normal form above: the two roots lie
+ * symmetrically about v_f = v₁ − Y_v/Y_vv, so v₂ ≈ v₁ − 2Y_v/Y_vv), then planeRay's search from there; null where that
+ * finds no root apart from vFirst. Near the fold the roots are closer than any fixed scan's step (1.5 mm drops at arc
+ * 97.5°, sun 10°: 0.009 of a apart at the run's last sample, against the scan's 0.0104): this finds them at any spacing.
+ */
+function foldPartner(tracer: PlaneTracer, u: number, vFirst: number, p: number): number | null {
+  if (!tracer.traceAt(u, vFirst, p)) return null;
+  const yvFirst = tracer.lastExit(p).yv;
+  if (!tracer.traceAt(u, vFirst + CURVATURE_STEP, p)) return null;
+  const yvv = (tracer.lastExit(p).yv - yvFirst) / CURVATURE_STEP;
+  if (!(Math.abs(yvv) > 0)) return null;
+  const ray = tracer.planeRay(u, vFirst - (2 * yvFirst) / yvv, p);
+  return ray !== null && Math.abs(ray.v - vFirst) > SAME_ROOT ? ray.v : null;
+}
+
+/**
+ * The root of Y(v) at u nearest vFirst other than vFirst itself: the fold's partner (foldPartner), else a sign change of
+ * Y in a scan then planeRay; null if neither finds one.
+ */
 function secondRoot(tracer: PlaneTracer, u: number, vFirst: number, p: number): number | null {
+  const partner = foldPartner(tracer, u, vFirst, p);
+  if (partner !== null) return partner;
   let best: number | null = null;
   let previousV = Number.NaN;
   let previousY = Number.NaN;
@@ -118,23 +142,28 @@ function bridge(sweep: PlaneSweep, branch: PlaneSweep, end: number, previous: nu
 }
 
 /** Whether some known sweep has its ray at sample s at offset v. */
-function onKnown(known: readonly PlaneSweep[], s: number, v: number): boolean {
+export function onKnown(known: readonly PlaneSweep[], s: number, v: number): boolean {
   return known.some((sweep) => sweep.ok[s] === 1 && Math.abs(sweep.v[s] - v) <= SAME_ROOT);
 }
 
-/** The branch through (u[from], vStart), followed sample by sample in direction `step` while it is found and apart from every known sweep's root. */
+/**
+ * The branch through (u[from], vStart), followed sample by sample in direction `step` while it is found, keeps its first
+ * ray's sign of ∂Y/∂v (a root keeps it along u: PlaneSweep.yvSign) and lies apart from every known sweep's root.
+ */
 function followBranch(tracer: PlaneTracer, known: readonly PlaneSweep[], p: number, from: number, step: 1 | -1, vStart: number, window?: SweepWindow): PlaneSweep {
-  const sweep = known[0];
-  const branch = emptySweep(p, sweep.u);
+  const branch = emptySweep(p, known[0].u);
   const predictor = new RayPredictor();
   let guess = vStart;
-  for (let s = from, k = 0; s >= 0 && s < sweep.u.length; s += step, k++) {
-    const u = sweep.u[s];
+  let sign = 0;
+  for (let s = from, k = 0; s >= 0 && s < branch.u.length; s += step, k++) {
+    const u = branch.u[s];
     if (window && !window.wants(u)) break;
     const ray = tracer.planeRay(u, predictor.guess(k, guess), p);
     if (ray === null) break;
     // On a known root: the branch has closed (or the search slid onto another root).
     if (onKnown(known, s, ray.v)) break;
+    if (sign === 0) sign = Math.sign(ray.yv);
+    else if (Math.sign(ray.yv) !== sign) break;
     predictor.add(k, ray.v);
     guess = ray.v;
     storeRay(branch, s, ray);

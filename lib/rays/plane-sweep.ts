@@ -256,10 +256,10 @@ export class PlaneTracer {
     return this.trace;
   }
 
-  /** Y = d_out·N and the signed Θ of the last trace's order p, as planeRay's search reads them (for scans along v). */
-  lastExit(p: number): { y: number; thetaSigned: number } {
+  /** Y = d_out·N, the signed Θ and ∂Y/∂v of the last trace's order p, as planeRay's search reads them (for scans along v). */
+  lastExit(p: number): { y: number; thetaSigned: number; yv: number } {
     this.exitAngles(p);
-    return { y: this.yOut, thetaSigned: this.thetaOut };
+    return { y: this.yOut, thetaSigned: this.thetaOut, yv: this.yvOut };
   }
 
   private readonly halfWidths = new Map<number, number>();
@@ -310,6 +310,11 @@ export interface PlaneSweep {
   path: Float64Array;
   offset: Float64Array;
   v: Float64Array;
+  /**
+   * The sign of ∂Y/∂v at each ray (0: not known). A root v*(u) keeps it along u (it could change only where ∂Y/∂v = 0,
+   * a fold, where the root turns back), so neighbouring rays of opposite signs lie on two roots (lib/rays/lost-roots.ts).
+   */
+  yvSign: Int8Array;
   /**
    * Rays of the same order on other roots v*(u), where a run of this sweep ends at a fold of v*(u), with the bridges
    * across those folds (lib/rays/fold-back.ts): ray optics, added to the rows wherever they land.
@@ -433,6 +438,7 @@ export function emptySweep(p: number, u: Float64Array): PlaneSweep {
     path: new Float64Array(count),
     offset: new Float64Array(count),
     v: new Float64Array(count),
+    yvSign: new Int8Array(count),
   };
 }
 
@@ -441,6 +447,7 @@ export function storeRay(sweep: PlaneSweep, index: number, ray: PlaneRay): void 
   sweep.ok[index] = 1;
   sweep.thetaSigned[index] = ray.thetaSigned;
   sweep.v[index] = ray.v;
+  sweep.yvSign[index] = Math.sign(ray.yv);
   const root = Math.sqrt(Math.abs(ray.yv));
   sweep.perpAmp[index] = ray.ampPerp / root;
   sweep.parAmp[index] = ray.ampPar / root;

@@ -6,7 +6,7 @@
 // Chebyshev nodes (ibid. §5.8: they keep the interpolation error near its minimax value, ~ (Δn/2)^M·f^(M)/(2^(M−1)·M!)).
 
 import { emptySweep, setPowers, storeRay, unwrap, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
-import { foldBackBranches } from "./fold-back.js";
+import { sweepBranches } from "./lost-roots.js";
 
 /** M Chebyshev nodes of the first kind over [lo, hi] (Press et al. 2007 Eq. 5.8.4), ascending. */
 export function chebyshevNodes(lo: number, hi: number, count: number): number[] {
@@ -163,6 +163,9 @@ export function interpolateSweep(
     out.path[s] = path[s];
     out.offset[s] = offset[s];
     out.v[s] = v[s];
+    let yvSign = first.yvSign[s];
+    for (let k = 1; k < M; k++) if (sweeps[k].yvSign[s] !== yvSign) yvSign = 0;
+    out.yvSign[s] = yvSign;
     setPowers(out, s);
   }
   // Traced outwards from the pupil's centre, as sweepPlane traces: Newton's search starts from the interpolated v
@@ -199,7 +202,7 @@ export function interpolateSweep(
     }
   }
   // The other roots beyond the interpolated sweep's folds, traced at n (they are not interpolated across the nodes).
-  out.branches = foldBackBranches(tracer, out);
+  out.branches = sweepBranches(tracer, out);
   return { sweep: out, traced };
 }
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { shapedPlaneContext, shapedPlaneRow } from "../../../lib/bow/shaped-plane-rows.js";
+import { contextFromSweeps, shapedPlaneContext, shapedPlaneRow, shapedPlaneSweeps } from "../../../lib/bow/shaped-plane-rows.js";
 import { rayOpticsBins } from "../../../lib/bow/ray-bins.js";
 import { addUniformBowBins, uniformBowTable } from "../../../lib/bow/airy-bins.js";
 import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
@@ -90,10 +90,17 @@ describe("flattened drops: geometry that can be derived independently", () => {
     // (the outline's tangent is vertical there), so those rays stay in the plane and see a circle of radius
     // r_max: Descartes' angles hold exactly (scale-free); the peaks move only by the Airy scale x^(−2/3) of
     // r_max instead of a (≈ 0.005° for x ≈ 10⁴). D = 4 mm (axis ratio 0.77), x for λ = 550 nm.
+    // The section's bows are the sweeps' own runs; their branches (other roots v*(u): lib/rays/fold-back.ts,
+    // lib/rays/lost-roots.ts) are rays that leave the section and come back into the plane, focused by the drop's
+    // vertical curvature: for this drop they make a caustic of their own at Θ ≈ 139.4°, brighter than the primary's
+    // Airy peak in 0.02° bins, which brute force over the pupil confirms in ray optics (bench/in-plane-brute.ts, n 1.3338, 0.5° bins
+    // at 139.25° and 139.75°: 9.1 and 11.0 against the primary's 6.3 at 138.25°). The check is on the section's bows.
     const outline = equilibriumOutline(2000);
     const plane = bowScatteringPlane(0, 90);
     const thetaDeg = grid(125, 141, 0.02);
-    const ctx = shapedPlaneContext({ outline, axis: [0, 0, 1], n: N_WATER }, plane, 1, thetaDeg, 0.02);
+    const setup = { outline, axis: [0, 0, 1] as const, n: N_WATER };
+    const sweeps = shapedPlaneSweeps([setup], plane, 1, thetaDeg, 0.02)[0].map((sweep) => sweep && { ...sweep, branches: [] });
+    const ctx = contextFromSweeps(N_WATER, sweeps, 1, thetaDeg, 0.02);
     const folds = new Map(ctx.folds.map((f) => [f.order, f.fold.thetaR / DEG]));
     expect(Math.abs(folds.get(2)! - descartesRay(N_WATER, 1).scatteringAngleDeg)).toBeLessThanOrEqual(1e-6);
     expect(Math.abs(folds.get(3)! - descartesRay(N_WATER, 2).scatteringAngleDeg)).toBeLessThanOrEqual(1e-6);
