@@ -1,7 +1,7 @@
 // node dist/bench/sky-check.js [--write]: the service's flattened-drop sweeps against brute force over the whole pupil
 // (bench/sky-brute.ts), on the sky around the antisolar point: upright equilibrium drops of several sizes and suns,
 // n 1.3338, ray optics of the reflection (order 0) and the primary's and secondary's orders (2, 3), ψ 10–60° in 1° bins,
-// arc position 0–180° in 5° bins (3 planes a bin). Per case: the largest difference in any bin and order, as a
+// arc position 0–180° in 5° bins (8 planes a bin). Per case: the largest difference in any bin and order, as a
 // fraction of the brute force's brightest bin (all orders), and where. An accuracy check for issue 13, not a timing.
 
 import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
@@ -14,7 +14,7 @@ const ORDERS = [0, 2, 3];
 const SKY: SkyGrid = { psiFromDeg: 10, psiStepDeg: 1, psiBins: 50, alphaFromDeg: 0, alphaStepDeg: 5, alphaBins: 36 };
 /** Pupil step of the brute force (units of a): ~10⁶ rays a case. */
 const DU = 0.002;
-const PLANES_PER_BIN = 3;
+const PLANES_PER_BIN = 8;
 const CASES = [
   { radiusUm: 1000, sunDeg: 10 },
   { radiusUm: 1500, sunDeg: 10 },

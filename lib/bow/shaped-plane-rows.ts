@@ -34,6 +34,12 @@ export const SHAPED_COARSE_STEP = 8;
 const LOOK_HALF_SEGMENTS = 64;
 const LOOK_MARGIN_DEG = 10;
 /**
+ * Branches (other roots of v*(u): lib/rays/lost-roots.ts) are followed while their rays land within this of the grid:
+ * a segment reaches into the grid from a ray at most one pupil sample's turn of Θ outside it, hundredths of a degree
+ * away from grazing (the same margin as lib/bow/shaped-rows.ts NEAR_MARGIN_DEG, with its measurement).
+ */
+const BRANCH_MARGIN_DEG = 2;
+/**
  * The look's searches end at a Newton step below this (PlaneTracer.planeRay's accept), the ray carried to first order:
  * Θ is then off by ~½Θ_vv·1e-8 rad, nothing beside LOOK_MARGIN_DEG, and v serves only as a search's start.
  */
@@ -157,6 +163,7 @@ export function shapedPlaneSweeps(
   const coarseStep = options.coarseStep ?? SHAPED_COARSE_STEP;
   const maxOrder = Math.max(...rayOrders, ...bowOrders);
   const tracers = setups.map((setup) => shapedPlaneTracer(setup, plane, options));
+  const branchesNear = { loRad: (thetaDeg[0] - stepDeg / 2 - BRANCH_MARGIN_DEG) * DEG, hiRad: (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + BRANCH_MARGIN_DEG) * DEG, side };
   const sweeps: (PlaneSweep | null)[][] = tracers.map(() => []);
   for (let p = 0; p <= maxOrder; p++) {
     if (!rayOrders.includes(p) && !bowOrders.includes(p)) continue;
@@ -170,7 +177,7 @@ export function shapedPlaneSweeps(
       const union = unionWindow(any, windows[k] ?? any[0]);
       const window = windowed ? union : undefined;
       const sweep = coarseStep > 1 ? sweepPlaneCoarse(tracer, p, halfSegments, coarseStep, window) : sweepPlane(tracer, p, halfSegments, window);
-      sweep.branches = sweepBranches(tracer, sweep, window);
+      sweep.branches = sweepBranches(tracer, sweep, windowed ? branchesNear : undefined);
       sweeps[k][p] = sweep;
     });
   }

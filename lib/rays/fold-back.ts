@@ -8,7 +8,7 @@
 // over its last samples has the other root found at that sample (a scan of Y along v, then Newton's search) and
 // followed back into the run's samples until the search loses it or it meets the first root again.
 
-import { RayPredictor, storeRay, emptySweep, type PlaneSweep, type PlaneTracer, type SweepWindow } from "./plane-sweep.js";
+import { RayPredictor, storeRay, emptySweep, isNear, type NearAngles, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
 
 /** A run end counts as a fold when its power per unit u grew over each of its last CLIMB_SAMPLES steps. */
 const CLIMB_SAMPLES = 3;
@@ -78,9 +78,9 @@ const MAX_DEPTH = 3;
  * roots lie a little short of the fold u_f, on either side of its angle Θ_f; with P ∝ 1/√(u_f − u) and Θ − Θ_f ∝
  * ±√(u_f − u) on each (the fold's normal form above), P·du is even in Θ between them: the bridge is a two-sample sweep
  * from one root's last ray to the other's carrying that power (bridge), u_f from the 1/P² law through the run's last
- * two rays. window: the samples the sweep traced (the branch is followed only where it wants).
+ * two rays. near: where branches are followed (their rays' Θ).
  */
-export function foldBackBranches(tracer: PlaneTracer, sweep: PlaneSweep, window?: SweepWindow, depth = 1, known: PlaneSweep[] = [sweep]): PlaneSweep[] {
+export function foldBackBranches(tracer: PlaneTracer, sweep: PlaneSweep, near?: NearAngles, depth = 1, known: PlaneSweep[] = [sweep]): PlaneSweep[] {
   const p = sweep.order;
   const count = sweep.u.length;
   const found: PlaneSweep[] = [];
@@ -100,11 +100,11 @@ export function foldBackBranches(tracer: PlaneTracer, sweep: PlaneSweep, window?
       const start = secondRoot(tracer, sweep.u[end], sweep.v[end], p);
       // A root some sweep already follows (a branch's fold back onto the run it came from) is not a new branch.
       if (start === null || onKnown(known, end, start)) continue;
-      const branch = followBranch(tracer, known, p, end, -out as 1 | -1, start, window);
+      const branch = followBranch(tracer, known, p, end, -out as 1 | -1, start, near);
       if (!branch.ok[end]) continue;
       known.push(branch);
       found.push(branch, bridge(sweep, branch, end, end - out));
-      if (depth < MAX_DEPTH) found.push(...foldBackBranches(tracer, branch, window, depth + 1, known));
+      if (depth < MAX_DEPTH) found.push(...foldBackBranches(tracer, branch, near, depth + 1, known));
     }
   }
   return found;
@@ -150,16 +150,15 @@ export function onKnown(known: readonly PlaneSweep[], s: number, v: number): boo
  * The branch through (u[from], vStart), followed sample by sample in direction `step` while it is found, keeps its first
  * ray's sign of ∂Y/∂v (a root keeps it along u: PlaneSweep.yvSign) and lies apart from every known sweep's root.
  */
-function followBranch(tracer: PlaneTracer, known: readonly PlaneSweep[], p: number, from: number, step: 1 | -1, vStart: number, window?: SweepWindow): PlaneSweep {
+function followBranch(tracer: PlaneTracer, known: readonly PlaneSweep[], p: number, from: number, step: 1 | -1, vStart: number, near?: NearAngles): PlaneSweep {
   const branch = emptySweep(p, known[0].u);
   const predictor = new RayPredictor();
   let guess = vStart;
   let sign = 0;
   for (let s = from, k = 0; s >= 0 && s < branch.u.length; s += step, k++) {
     const u = branch.u[s];
-    if (window && !window.wants(u)) break;
     const ray = tracer.planeRay(u, predictor.guess(k, guess), p);
-    if (ray === null) break;
+    if (ray === null || !isNear(near, ray.thetaSigned)) break;
     // On a known root: the branch has closed (or the search slid onto another root).
     if (onKnown(known, s, ray.v)) break;
     if (sign === 0) sign = Math.sign(ray.yv);

@@ -322,6 +322,25 @@ export interface PlaneSweep {
   branches?: PlaneSweep[];
 }
 
+/**
+ * Where a sweep's branches are followed (lib/rays/fold-back.ts, lost-roots.ts, root-census.ts): rays whose |Θ| lies in
+ * [loRad, hiRad], the grid and a margin. Branches leave the sweep's window (the part of the pupil where the coarse look
+ * of its own run sends light near the grid), so they are bounded by where their own light lands.
+ */
+export interface NearAngles {
+  loRad: number;
+  hiRad: number;
+  /** The half-plane binned (+1: Θ > 0), if one: rays in the other are not near. */
+  side?: 1 | -1;
+}
+
+/** Whether a ray's signed Θ lies within near (no bound without one). */
+export function isNear(near: NearAngles | undefined, thetaSigned: number): boolean {
+  if (near === undefined) return true;
+  const theta = near.side === undefined ? Math.abs(thetaSigned) : near.side * thetaSigned;
+  return theta >= near.loRad && theta <= near.hiRad;
+}
+
 /** The part of the pupil a sweep traces, and where Newton's search restarts after a gap. */
 export interface SweepWindow {
   wants(u: number): boolean;

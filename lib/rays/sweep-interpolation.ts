@@ -202,7 +202,7 @@ export function interpolateSweep(
     }
   }
   // The other roots beyond the interpolated sweep's folds, traced at n (they are not interpolated across the nodes).
-  out.branches = sweepBranches(tracer, out);
+  out.branches = sweepBranches(tracer, out, near);
   return { sweep: out, traced };
 }
 
