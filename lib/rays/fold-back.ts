@@ -101,7 +101,7 @@ export function foldBackBranches(tracer: PlaneTracer, sweep: PlaneSweep, near?: 
       // A root some sweep already follows (a branch's fold back onto the run it came from) is not a new branch.
       if (start === null || onKnown(known, end, start)) continue;
       const branch = followBranch(tracer, known, p, end, -out as 1 | -1, start, near);
-      if (!branch.ok[end]) continue;
+      if (branch === null || !branch.ok[end]) continue;
       known.push(branch);
       found.push(branch, bridge(sweep, branch, end, end - out));
       if (depth < MAX_DEPTH) found.push(...foldBackBranches(tracer, branch, near, depth + 1, known));
@@ -148,16 +148,17 @@ export function onKnown(known: readonly PlaneSweep[], s: number, v: number): boo
 
 /**
  * The branch through (u[from], vStart), followed sample by sample in direction `step` while it is found, keeps its first
- * ray's sign of ∂Y/∂v (a root keeps it along u: PlaneSweep.yvSign) and lies apart from every known sweep's root.
+ * ray's sign of ∂Y/∂v (a root keeps it along u: PlaneSweep.yvSign) and lies apart from every known sweep's root; null
+ * if no ray is found at all.
  */
-function followBranch(tracer: PlaneTracer, known: readonly PlaneSweep[], p: number, from: number, step: 1 | -1, vStart: number, near?: NearAngles): PlaneSweep {
-  const branch = emptySweep(p, known[0].u);
+function followBranch(tracer: PlaneTracer, known: readonly PlaneSweep[], p: number, from: number, step: 1 | -1, vStart: number, near?: NearAngles): PlaneSweep | null {
+  const u = known[0].u;
+  let branch: PlaneSweep | null = null;
   const predictor = new RayPredictor();
   let guess = vStart;
   let sign = 0;
-  for (let s = from, k = 0; s >= 0 && s < branch.u.length; s += step, k++) {
-    const u = branch.u[s];
-    const ray = tracer.planeRay(u, predictor.guess(k, guess), p);
+  for (let s = from, k = 0; s >= 0 && s < u.length; s += step, k++) {
+    const ray = tracer.planeRay(u[s], predictor.guess(k, guess), p);
     if (ray === null || !isNear(near, ray.thetaSigned)) break;
     // On a known root: the branch has closed (or the search slid onto another root).
     if (onKnown(known, s, ray.v)) break;
@@ -165,6 +166,7 @@ function followBranch(tracer: PlaneTracer, known: readonly PlaneSweep[], p: numb
     else if (Math.sign(ray.yv) !== sign) break;
     predictor.add(k, ray.v);
     guess = ray.v;
+    branch ??= emptySweep(p, u);
     storeRay(branch, s, ray);
   }
   return branch;

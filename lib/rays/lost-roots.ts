@@ -74,13 +74,13 @@ function copySample(from: PlaneSweep, to: PlaneSweep, s: number): void {
 /**
  * A piece's root followed on beyond its end sample `end` in direction step, each search started from the last rays
  * (the piece's, then its own), while it finds a ray near the grid (near), of the root's sign of ∂Y/∂v, within reach of
- * the prediction and on no known sweep's root. Rays go into `into`, a sweep of their own: the segment from `end` to
- * the first of them is not binned, as it may straddle the point where the search lost the root, which can be a
- * singular one (two roots crossing at a saddle of Y, where each carries power ∝ 1/|u − u_c|: 2 mm equilibrium drops,
- * sun on the horizon, arc 90°, where the widest section's root v ≡ v_c meets the roots the drop's vertical curvature
- * focuses back into the plane). Returns how many rays it found.
+ * the prediction and on no known sweep's root. Rays go into a sweep of their own, made at the first (null: none). The
+ * segment from `end` to the first of them is not binned, as it may straddle the point where the search lost the root,
+ * which can be a singular one (two roots crossing at a saddle of Y, where each carries power ∝ 1/|u − u_c|: 2 mm
+ * equilibrium drops, sun on the horizon, arc 90°, where the widest section's root v ≡ v_c meets the roots the drop's
+ * vertical curvature focuses back into the plane).
  */
-function continueRoot(tracer: PlaneTracer, known: readonly PlaneSweep[], from: PlaneSweep, into: PlaneSweep, end: number, step: 1 | -1, near?: NearAngles): number {
+function continueRoot(tracer: PlaneTracer, known: readonly PlaneSweep[], from: PlaneSweep, end: number, step: 1 | -1, near?: NearAngles): PlaneSweep | null {
   const predictor = new RayPredictor();
   const seeds: number[] = [];
   for (let s = end; seeds.length < SEED_RAYS && s >= 0 && s < from.u.length && from.ok[s]; s -= step) seeds.push(s);
@@ -89,7 +89,7 @@ function continueRoot(tracer: PlaneTracer, known: readonly PlaneSweep[], from: P
   const sign = from.yvSign[end];
   let lastStep = seeds.length > 1 ? Math.abs(from.v[seeds[0]] - from.v[seeds[1]]) : 0;
   let previous = from.v[end];
-  let found = 0;
+  let into: PlaneSweep | null = null;
   for (let s = end + step, k = 0; s >= 0 && s < from.u.length; s += step, k++) {
     const guess = predictor.guess(k, previous);
     const ray = tracer.planeRay(from.u[s], guess, from.order);
@@ -98,10 +98,10 @@ function continueRoot(tracer: PlaneTracer, known: readonly PlaneSweep[], from: P
     predictor.add(k, ray.v);
     lastStep = Math.abs(ray.v - previous);
     previous = ray.v;
+    into ??= emptySweep(from.order, from.u);
     storeRay(into, s, ray);
-    found++;
   }
-  return found;
+  return into;
 }
 
 /**
@@ -150,8 +150,8 @@ export function sweepBranches(tracer: PlaneTracer, sweep: PlaneSweep, near?: Nea
       const hop = hops.has(Math.min(end, next));
       // A gap: the next sample has no ray in the sweep (a hop's next sample now lies in another piece's sweep).
       if (!hop && sweep.ok[next]) continue;
-      const into = emptySweep(sweep.order, sweep.u);
-      if (continueRoot(tracer, known, holder, into, end, step, near) > 0) {
+      const into = continueRoot(tracer, known, holder, end, step, near);
+      if (into !== null) {
         known.push(into);
         followed.push(into);
       }
