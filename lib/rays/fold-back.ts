@@ -5,8 +5,9 @@
 // methods), and each ray's power per unit u, |A|²/|∂Y/∂v|, climbs towards it. The sweep keeps the first root only; the
 // second leaves in the same plane too and carries light of its own (bench/in-plane-rays.ts: 1.5 mm equilibrium drops
 // at the side of the bow, Θ 145.6–150.1°, as bright as the primary's inner side). Here each run end whose power climbs
-// over its last samples has the other root found at that sample (a scan of Y along v, then Newton's search) and
-// followed back into the run's samples until the search loses it or it meets the first root again.
+// over its last samples has the other root found at that sample (predicted from the first's ∂Y/∂v and ∂²Y/∂v², else a
+// scan of Y along v, then Newton's search) and followed back into the run's samples until the search loses it or it
+// meets the first root again.
 
 import { RayPredictor, storeRay, emptySweep, isNear, type NearAngles, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
 

@@ -6,10 +6,9 @@
 //   side at Θ 153–155°, and was missing);
 // - a hop: the search converges on a root of a pair born close by and the run goes on along it with no gap. A root
 //   keeps the sign of ∂Y/∂v along u (PlaneSweep.yvSign), so a hop shows as neighbouring rays of opposite signs.
-// Here each hop splits its run (the shorter side moves to a sweep of its own), and every root at a hop or at a gap the
-// pupil's sample has no ray is followed on from its last rays as far as it goes (while its light lands near the grid),
-// as a sweep of its own. Folds, where a root does
-// end and its partner turns back, are lib/rays/fold-back.ts's.
+// Here each hop splits its run (the shorter side moves to a sweep of its own), and every root at a hop or a gap is
+// followed on from its last rays as far as it goes (while its light lands near the grid), as a sweep of its own.
+// Folds, where a root does end and its partner turns back, are lib/rays/fold-back.ts's.
 
 import { foldBackBranches, onKnown } from "./fold-back.js";
 import { censusRoots } from "./root-census.js";
@@ -136,8 +135,8 @@ function splitHops(sweep: PlaneSweep, known: PlaneSweep[]): { moved: PlaneSweep[
 /**
  * Every other root a sweep's runs lead to: the pieces split off at its hops, the roots followed on across its hops and
  * gaps (each a sweep of its own), the branches beyond every run's folds (lib/rays/fold-back.ts), and for the bows'
- * orders the roots a census finds apart from all of those, with their own folds' branches. The sweep keeps its longest pieces; the rest are ray optics in the rows
- * (lib/bow/shaped-plane-rows.ts contextFromSweeps).
+ * orders the roots a census finds apart from all of those, with their own folds' branches. The sweep keeps its longest
+ * pieces; the rest are ray optics in the rows (lib/bow/shaped-plane-rows.ts contextFromSweeps).
  */
 export function sweepBranches(tracer: PlaneTracer, sweep: PlaneSweep, near?: NearAngles): PlaneSweep[] {
   const known = [sweep];
@@ -166,9 +165,9 @@ export function sweepBranches(tracer: PlaneTracer, sweep: PlaneSweep, near?: Nea
 }
 
 /**
- * The lowest order whose zero curves are searched for by census: the primary's (two chords). The reflection and the
- * straight-through order meet a convex outline's plane in one run each (measured against brute force on the sky,
- * bench/sky-check.ts: order 0 within 0.002 of the brightest bin in every case).
+ * The lowest order whose zero curves are searched for by census: the primary's (two chords). Without one the
+ * reflection was within 0.002 of the brightest bin in every case against brute force on the sky (bench/sky-check.ts);
+ * the straight-through order, which lights no bow, was not checked.
  */
 const CENSUS_FROM_ORDER = 2;
 /**

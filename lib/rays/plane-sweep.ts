@@ -311,21 +311,24 @@ export interface PlaneSweep {
   offset: Float64Array;
   v: Float64Array;
   /**
-   * The sign of ∂Y/∂v at each ray (0: not known). A root v*(u) keeps it along u (it could change only where ∂Y/∂v = 0,
-   * a fold, where the root turns back), so neighbouring rays of opposite signs lie on two roots (lib/rays/lost-roots.ts).
+   * The sign of ∂Y/∂v at each ray (0: not known). A root v*(u) keeps it along u: it could change only where ∂Y/∂v = 0,
+   * at a fold, where the root turns back, or where two roots cross at a saddle of Y (symmetric geometry: the sun on the
+   * horizon, an upright drop, arc 90°). Neighbouring rays of opposite signs lie on two roots (lib/rays/lost-roots.ts).
    */
   yvSign: Int8Array;
   /**
-   * Rays of the same order on other roots v*(u), where a run of this sweep ends at a fold of v*(u), with the bridges
-   * across those folds (lib/rays/fold-back.ts): ray optics, added to the rows wherever they land.
+   * Rays of the same order on other roots v*(u): beyond the folds where this sweep's runs end, with the bridges across
+   * them (lib/rays/fold-back.ts), the roots its runs lost at gaps and hops (lib/rays/lost-roots.ts) and those no run
+   * reaches (lib/rays/root-census.ts): ray optics, added to the rows wherever they land.
    */
   branches?: PlaneSweep[];
 }
 
 /**
- * Where a sweep's branches are followed (lib/rays/fold-back.ts, lost-roots.ts, root-census.ts): rays whose |Θ| lies in
- * [loRad, hiRad], the grid and a margin. Branches leave the sweep's window (the part of the pupil where the coarse look
- * of its own run sends light near the grid), so they are bounded by where their own light lands.
+ * Where a sweep's branches are followed (lib/rays/fold-back.ts, lost-roots.ts, root-census.ts): rays whose Θ lies in
+ * [loRad, hiRad] (the grid and a margin) on the binned side, or either side without one. Branches leave the sweep's
+ * window (the part of the pupil where the coarse look of its own run sends light near the grid), so they are bounded
+ * by where their own light lands.
  */
 export interface NearAngles {
   loRad: number;

@@ -201,7 +201,8 @@ export function interpolateSweep(
       break;
     }
   }
-  // The other roots beyond the interpolated sweep's folds, traced at n (they are not interpolated across the nodes).
+  // The other roots (beyond the interpolated sweep's folds, lost at its gaps and hops, found by census), traced at n:
+  // they are not interpolated across the nodes.
   out.branches = sweepBranches(tracer, out, near);
   return { sweep: out, traced };
 }
