@@ -9,15 +9,14 @@
 // scan of Y along v, then Newton's search) and followed back into the run's samples until the search loses it or it
 // meets the first root again.
 
-import { RayPredictor, storeRay, emptySweep, isNear, type NearAngles, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
+import { RayPredictor, emptySweep, type NearAngles, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
+import { followRoot, onKnown, SAME_ROOT } from "./follow-root.js";
 
 /** A run end counts as a fold when its power per unit u grew over each of its last CLIMB_SAMPLES steps. */
 const CLIMB_SAMPLES = 3;
 /** The scan for the second root: this many traces over ±SCAN_REACH (units of a) of v about the first root. */
 const SCAN_TRACES = 48;
 const SCAN_REACH = 0.25;
-/** Roots nearer than this (units of a) are one root. */
-const SAME_ROOT = 1e-7;
 
 /** A sample's power per unit u, both polarisations (PlaneSweep.perpPerU + parPerU). */
 function powerAt(sweep: PlaneSweep, s: number): number {
@@ -142,33 +141,7 @@ function bridge(sweep: PlaneSweep, branch: PlaneSweep, end: number, previous: nu
   return across;
 }
 
-/** Whether some known sweep has its ray at sample s at offset v. */
-export function onKnown(known: readonly PlaneSweep[], s: number, v: number): boolean {
-  return known.some((sweep) => sweep.ok[s] === 1 && Math.abs(sweep.v[s] - v) <= SAME_ROOT);
-}
-
-/**
- * The branch through (u[from], vStart), followed sample by sample in direction `step` while it is found, keeps its first
- * ray's sign of ∂Y/∂v (a root keeps it along u: PlaneSweep.yvSign) and lies apart from every known sweep's root; null
- * if no ray is found at all.
- */
+/** The branch through (u[from], vStart), followed in direction `step` (lib/rays/follow-root.ts); null if no ray is found at all. */
 function followBranch(tracer: PlaneTracer, known: readonly PlaneSweep[], p: number, from: number, step: 1 | -1, vStart: number, near?: NearAngles): PlaneSweep | null {
-  const u = known[0].u;
-  let branch: PlaneSweep | null = null;
-  const predictor = new RayPredictor();
-  let guess = vStart;
-  let sign = 0;
-  for (let s = from, k = 0; s >= 0 && s < u.length; s += step, k++) {
-    const ray = tracer.planeRay(u[s], predictor.guess(k, guess), p);
-    if (ray === null || !isNear(near, ray.thetaSigned)) break;
-    // On a known root: the branch has closed (or the search slid onto another root).
-    if (onKnown(known, s, ray.v)) break;
-    if (sign === 0) sign = Math.sign(ray.yv);
-    else if (Math.sign(ray.yv) !== sign) break;
-    predictor.add(k, ray.v);
-    guess = ray.v;
-    branch ??= emptySweep(p, u);
-    storeRay(branch, s, ray);
-  }
-  return branch;
+  return followRoot(tracer, known, p, known[0].u, from, step, near, { into: null, sign: 0, predictor: new RayPredictor(), guess: vStart });
 }

@@ -10,10 +10,11 @@
 // followed on from its last rays as far as it goes (while its light lands near the grid), as a sweep of its own.
 // Folds, where a root does end and its partner turns back, are lib/rays/fold-back.ts's.
 
-import { foldBackBranches, onKnown } from "./fold-back.js";
+import { foldBackBranches } from "./fold-back.js";
+import { followRoot } from "./follow-root.js";
 import { censusRoots } from "./root-census.js";
 import { outlineAxisRatio, type DropOutline } from "../drops/shape/outline.js";
-import { emptySweep, isNear, RayPredictor, storeRay, type NearAngles, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
+import { emptySweep, RayPredictor, type NearAngles, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
 
 /** Rays of a piece a continuation's first guess is extrapolated from (plane-sweep.ts PREDICTOR_RAYS). */
 const SEED_RAYS = 3;
@@ -85,22 +86,14 @@ function continueRoot(tracer: PlaneTracer, known: readonly PlaneSweep[], from: P
   for (let s = end; seeds.length < SEED_RAYS && s >= 0 && s < from.u.length && from.ok[s]; s -= step) seeds.push(s);
   // Indexed by sample distance from the first sample followed (end + step): the seeds lie at −1, −2, …
   for (let k = seeds.length - 1; k >= 0; k--) predictor.add(-(k + 1), from.v[seeds[k]]);
-  const sign = from.yvSign[end];
-  let lastStep = seeds.length > 1 ? Math.abs(from.v[seeds[0]] - from.v[seeds[1]]) : 0;
-  let previous = from.v[end];
-  let into: PlaneSweep | null = null;
-  for (let s = end + step, k = 0; s >= 0 && s < from.u.length; s += step, k++) {
-    const guess = predictor.guess(k, previous);
-    const ray = tracer.planeRay(from.u[s], guess, from.order);
-    if (ray === null || !isNear(near, ray.thetaSigned) || Math.sign(ray.yv) !== sign || Math.abs(ray.v - guess) > Math.max(REACH_STEPS * lastStep, MIN_REACH)) break;
-    if (onKnown(known, s, ray.v)) break;
-    predictor.add(k, ray.v);
-    lastStep = Math.abs(ray.v - previous);
-    previous = ray.v;
-    into ??= emptySweep(from.order, from.u);
-    storeRay(into, s, ray);
-  }
-  return into;
+  const lastStep = seeds.length > 1 ? Math.abs(from.v[seeds[0]] - from.v[seeds[1]]) : 0;
+  return followRoot(tracer, known, from.order, from.u, end + step, step, near, {
+    into: null,
+    sign: from.yvSign[end],
+    predictor,
+    guess: from.v[end],
+    reach: { steps: REACH_STEPS, min: MIN_REACH, lastStep },
+  });
 }
 
 /**

@@ -8,7 +8,7 @@
 // census scans Y along v at a few pupil abscissae for sign changes no known sweep accounts for, and follows each root
 // found both ways as a sweep of its own.
 
-import { onKnown } from "./fold-back.js";
+import { followRoot, onKnown } from "./follow-root.js";
 import { emptySweep, isNear, RayPredictor, storeRay, type NearAngles, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
 
 /**
@@ -21,19 +21,11 @@ import { emptySweep, isNear, RayPredictor, storeRay, type NearAngles, type Plane
 const CENSUS_ABSCISSAE = 16;
 const CENSUS_ORDINATES = 32;
 
-/** Follows a root from the sweep `root`'s ray at sample `from` in direction `step` into the same sweep, keeping its sign of ∂Y/∂v, while found near the grid and not known. */
+/** Follows a root from the sweep `root`'s ray at sample `from` in direction `step` into the same sweep (lib/rays/follow-root.ts). */
 function follow(tracer: PlaneTracer, known: readonly PlaneSweep[], root: PlaneSweep, from: number, step: 1 | -1, near?: NearAngles): void {
   const predictor = new RayPredictor();
   predictor.add(-1, root.v[from]);
-  const sign = root.yvSign[from];
-  let previous = root.v[from];
-  for (let s = from + step, k = 0; s >= 0 && s < root.u.length; s += step, k++) {
-    const ray = tracer.planeRay(root.u[s], predictor.guess(k, previous), root.order);
-    if (ray === null || !isNear(near, ray.thetaSigned) || Math.sign(ray.yv) !== sign || onKnown(known, s, ray.v)) break;
-    predictor.add(k, ray.v);
-    previous = ray.v;
-    storeRay(root, s, ray);
-  }
+  followRoot(tracer, known, root.order, root.u, from + step, step, near, { into: root, sign: root.yvSign[from], predictor, guess: root.v[from] });
 }
 
 /** Whether a known sweep has a root at sample s with v between a and b. */
