@@ -23,6 +23,16 @@ export interface BruteForceGrid {
   delta: number;
 }
 
+/**
+ * The power a traced ray carries out in the order at `base` (p·ORDER_STRIDE of a trace's record): both incident
+ * polarisations' outgoing fields, a sweep's ⟂ + ∥ with co- and cross-polar parts.
+ */
+export function tracedPower(rec: ArrayLike<number>, base: number): number {
+  let power = 0;
+  for (const at of [AT.e1Re, AT.e1Im, AT.e2Re, AT.e2Im]) for (let c = 0; c < 3; c++) power += rec[base + at + c] ** 2;
+  return power;
+}
+
 /** Power per unit Θ (radians) and Y of order p in bins of binDeg from fromDeg (count bins), half-plane Θ > 0. */
 export function bruteForceInPlane(
   setup: Omit<DropTraceSetup, "maxOrder" | "absorptionPerRadius">,
@@ -44,11 +54,7 @@ export function bruteForceInPlane(
       const thetaDeg = thetaSigned / DEG;
       const j = Math.floor((thetaDeg - fromDeg) / binDeg);
       if (j < 0 || j >= count) continue;
-      // Both incident polarisations' outgoing fields (a sweep's ⟂ + ∥, co- and cross-polar).
-      const rec = tracer.lastTrace.orders;
-      let power = 0;
-      for (const at of [AT.e1Re, AT.e1Im, AT.e2Re, AT.e2Im]) for (let c = 0; c < 3; c++) power += rec[base + at + c] ** 2;
-      bins[j] += (power * grid.du * grid.dv) / (2 * grid.delta * binDeg * DEG);
+      bins[j] += (tracedPower(tracer.lastTrace.orders, base) * grid.du * grid.dv) / (2 * grid.delta * binDeg * DEG);
     }
   }
   return bins;

@@ -12,6 +12,9 @@ import { planeRayBins } from "../lib/bow/plane-ray-bins.js";
 import { bowScatteringPlane } from "../lib/rays/bow-geometry.js";
 import type { DropTraceSetup } from "../lib/rays/shape-tracer.js";
 import { AT, ORDER_STRIDE } from "../lib/rays/shape-tracer.js";
+import { arcFrame, arcPositionInFrame } from "../lib/view/arc-position.js";
+import { angleFromAntisolarDeg } from "../lib/view/layer.js";
+import { tracedPower } from "./in-plane-brute.js";
 
 const DEG = Math.PI / 180;
 
@@ -29,9 +32,10 @@ export type DropSetup = Omit<DropTraceSetup, "maxOrder" | "absorptionPerRadius">
 /** Power per unit solid angle of order p on the sky grid, [ψ bin][α bin] flattened ψ-major, brute force over a pupil grid of step du (units of a). */
 export function bruteForceSky(setup: DropSetup, sunElevationDeg: number, p: number, sky: SkyGrid, du: number): Float64Array {
   const tracer = shapedPlaneTracer(setup, bowScatteringPlane(sunElevationDeg, 90), { rayOrders: [], bowOrders: [p] });
+  // The antisolar direction is the sunlight's own (bow-geometry.ts's frame: x̂ towards the antisolar azimuth, ẑ up).
   const h = sunElevationDeg * DEG;
-  const dIn = [Math.cos(h), 0, -Math.sin(h)];
-  const up = [Math.sin(h), 0, Math.cos(h)];
+  const antisolar = [Math.cos(h), 0, -Math.sin(h)];
+  const frame = arcFrame(antisolar);
   const out = new Float64Array(sky.psiBins * sky.alphaBins);
   const reach = setup.outline.maxRadius * 1.001;
   const base = p * ORDER_STRIDE;
@@ -39,18 +43,12 @@ export function bruteForceSky(setup: DropSetup, sunElevationDeg: number, p: numb
     for (let v = -reach + du / 2; v < reach; v += du) {
       if (u * u + v * v > reach * reach || !tracer.traceAt(u, v, p)) continue;
       const rec = tracer.lastTrace.orders;
-      // The observer looks along s = −d_out; cos ψ = s·d_in; s's part ⟂ d_in gives α from the upward direction.
+      // The observer sees the ray looking back along it: s = −d_out.
       const s = [-rec[base + AT.dir], -rec[base + AT.dir + 1], -rec[base + AT.dir + 2]];
-      const cosPsi = s[0] * dIn[0] + s[1] * dIn[1] + s[2] * dIn[2];
-      const psiDeg = Math.acos(Math.max(-1, Math.min(1, cosPsi))) / DEG;
-      const w = s.map((c, k) => c - cosPsi * dIn[k]);
-      const alphaDeg = Math.abs(Math.atan2(w[1], w[0] * up[0] + w[2] * up[2])) / DEG;
-      const i = Math.floor((psiDeg - sky.psiFromDeg) / sky.psiStepDeg);
-      const j = Math.floor((alphaDeg - sky.alphaFromDeg) / sky.alphaStepDeg);
+      const i = Math.floor((angleFromAntisolarDeg(s, antisolar) - sky.psiFromDeg) / sky.psiStepDeg);
+      const j = Math.floor((arcPositionInFrame(s, frame) - sky.alphaFromDeg) / sky.alphaStepDeg);
       if (i < 0 || i >= sky.psiBins || j < 0 || j >= sky.alphaBins) continue;
-      let power = 0;
-      for (const at of [AT.e1Re, AT.e1Im, AT.e2Re, AT.e2Im]) for (let c = 0; c < 3; c++) power += rec[base + at + c] ** 2;
-      out[i * sky.alphaBins + j] += power * du * du;
+      out[i * sky.alphaBins + j] += tracedPower(rec, base) * du * du;
     }
   }
   for (let i = 0; i < sky.psiBins; i++) {

@@ -14,7 +14,7 @@ import { foldBackBranches } from "./fold-back.js";
 import { followRoot } from "./follow-root.js";
 import { censusRoots } from "./root-census.js";
 import { outlineAxisRatio, type DropOutline } from "../drops/shape/outline.js";
-import { emptySweep, RayPredictor, type NearAngles, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
+import { copyRay, emptySweep, RayPredictor, type NearAngles, type PlaneSweep, type PlaneTracer } from "./plane-sweep.js";
 
 /** Rays of a piece a continuation's first guess is extrapolated from (plane-sweep.ts PREDICTOR_RAYS). */
 const SEED_RAYS = 3;
@@ -62,15 +62,6 @@ function runPieces(sweep: PlaneSweep): { runs: Piece[][]; hops: Set<number> } {
   return { runs, hops };
 }
 
-const FIELDS = ["thetaSigned", "perpPerU", "parPerU", "perpAmp", "parAmp", "perpCross", "parCross", "path", "offset", "v"] as const;
-
-/** Copies sample s of `from` into `to` (the same pupil samples). */
-function copySample(from: PlaneSweep, to: PlaneSweep, s: number): void {
-  for (const field of FIELDS) to[field][s] = from[field][s];
-  to.yvSign[s] = from.yvSign[s];
-  to.ok[s] = 1;
-}
-
 /**
  * A piece's root followed on beyond its end sample `end` in direction step, each search started from the last rays
  * (the piece's, then its own), while it finds a ray near the grid (near), of the root's sign of ∂Y/∂v, within reach of
@@ -114,7 +105,7 @@ function splitHops(sweep: PlaneSweep, known: PlaneSweep[]): { moved: PlaneSweep[
       }
       const holder = emptySweep(sweep.order, sweep.u);
       for (let s = piece.first; s <= piece.last; s++) {
-        copySample(sweep, holder, s);
+        copyRay(sweep, holder, s);
         sweep.ok[s] = 0;
       }
       known.push(holder);

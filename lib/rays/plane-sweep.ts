@@ -464,6 +464,16 @@ export function emptySweep(p: number, u: Float64Array): PlaneSweep {
   };
 }
 
+/** The per-sample arrays of a sweep besides ok and yvSign (emptySweep's). */
+const RAY_FIELDS = ["thetaSigned", "perpPerU", "parPerU", "perpAmp", "parAmp", "perpCross", "parCross", "path", "offset", "v"] as const;
+
+/** Copies sample s's ray of `from` into `to`, a sweep over the same pupil samples. */
+export function copyRay(from: PlaneSweep, to: PlaneSweep, s: number): void {
+  for (const field of RAY_FIELDS) to[field][s] = from[field][s];
+  to.yvSign[s] = from.yvSign[s];
+  to.ok[s] = 1;
+}
+
 /** Writes a traced ray into sample `index` of a sweep (the sample's u is the ray's). */
 export function storeRay(sweep: PlaneSweep, index: number, ray: PlaneRay): void {
   sweep.ok[index] = 1;
