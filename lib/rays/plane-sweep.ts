@@ -443,29 +443,38 @@ export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number,
   return sweep;
 }
 
-/** A sweep of order p over the pupil samples u with no ray yet (ok = 0 everywhere). */
+/**
+ * A sweep of order p over the pupil samples u with no ray yet (ok = 0 everywhere). Its arrays are views of one buffer:
+ * a plane makes thousands of sweeps (branches, continuations), and one backing store each instead of twelve halved
+ * the time a 2 mm drop spends in allocation and collection (CPU profile, 2026-12-04).
+ */
 export function emptySweep(p: number, u: Float64Array): PlaneSweep {
   const count = u.length;
+  const doubles = RAY_FIELD_COUNT * count;
+  // The 10 Float64 fields, then ok and yvSign (one byte each per sample).
+  const buffer = new ArrayBuffer(8 * doubles + 2 * count);
+  const field = (k: number) => new Float64Array(buffer, 8 * k * count, count);
   return {
     order: p,
     u,
-    ok: new Uint8Array(count),
-    thetaSigned: new Float64Array(count),
-    perpPerU: new Float64Array(count),
-    parPerU: new Float64Array(count),
-    perpAmp: new Float64Array(count),
-    parAmp: new Float64Array(count),
-    perpCross: new Float64Array(count),
-    parCross: new Float64Array(count),
-    path: new Float64Array(count),
-    offset: new Float64Array(count),
-    v: new Float64Array(count),
-    yvSign: new Int8Array(count),
+    ok: new Uint8Array(buffer, 8 * doubles, count),
+    thetaSigned: field(0),
+    perpPerU: field(1),
+    parPerU: field(2),
+    perpAmp: field(3),
+    parAmp: field(4),
+    perpCross: field(5),
+    parCross: field(6),
+    path: field(7),
+    offset: field(8),
+    v: field(9),
+    yvSign: new Int8Array(buffer, 8 * doubles + count, count),
   };
 }
 
 /** The per-sample arrays of a sweep besides ok and yvSign (emptySweep's). */
 const RAY_FIELDS = ["thetaSigned", "perpPerU", "parPerU", "perpAmp", "parAmp", "perpCross", "parCross", "path", "offset", "v"] as const;
+const RAY_FIELD_COUNT = RAY_FIELDS.length;
 
 /** Copies sample s's ray of `from` into `to`, a sweep over the same pupil samples. */
 export function copyRay(from: PlaneSweep, to: PlaneSweep, s: number): void {

@@ -54,8 +54,16 @@ function surface(setup: DropTraceSetup, x: number, y: number, z: number): number
   const mu = -(x * ax + y * ay + z * az) / len;
   return len - setup.outline.radius(mu);
 }
-/** ∇F at p, unnormalised, into grad. */
-function rawGradient(setup: DropTraceSetup, x: number, y: number, z: number): void {
+// At the point of the last surfaceGradient: |p|, p̂, μ, |∇F| (wallPoint) and r(μ), r′(μ), r″(μ) (terms), which
+// normalDifferential reads at the same wall point.
+const terms = new Float64Array(3);
+const WALL = { len: 0, px: 1, py: 2, pz: 3, mu: 4, gradNorm: 5 } as const;
+const wallPoint = new Float64Array(6);
+/**
+ * F at p, with ∇F (unnormalised) into grad and |p|, p̂, μ into wallPoint: one evaluation of the outline for both;
+ * with curvature, r″(μ) into terms too.
+ */
+function wallAt(setup: DropTraceSetup, x: number, y: number, z: number, curvature: boolean): number {
   const len = Math.sqrt(x * x + y * y + z * z);
   const axis = setup.axis;
   const ax = axis[0];
@@ -65,23 +73,27 @@ function rawGradient(setup: DropTraceSetup, x: number, y: number, z: number): vo
   const py = y / len;
   const pz = z / len;
   const mu = -(px * ax + py * ay + pz * az);
-  const k = setup.outline.radiusSlope(mu) / len;
+  if (curvature) setup.outline.radiusTerms(mu, terms);
+  else setup.outline.radiusAndSlope(mu, terms);
+  const k = terms[1] / len;
   grad[0] = px + k * (ax + mu * px);
   grad[1] = py + k * (ay + mu * py);
   grad[2] = pz + k * (az + mu * pz);
+  wallPoint[WALL.len] = len;
+  wallPoint[WALL.px] = px;
+  wallPoint[WALL.py] = py;
+  wallPoint[WALL.pz] = pz;
+  wallPoint[WALL.mu] = mu;
+  return len - terms[0];
 }
-/** The unit outward normal at p, into grad. */
+/** The unit outward normal at p, into grad; the wall's terms there into wallPoint and terms (for normalDifferential). */
 function surfaceGradient(setup: DropTraceSetup, x: number, y: number, z: number): void {
-  rawGradient(setup, x, y, z);
+  wallAt(setup, x, y, z, true);
   const g = Math.sqrt(grad[0] * grad[0] + grad[1] * grad[1] + grad[2] * grad[2]);
   grad[0] /= g;
   grad[1] /= g;
   grad[2] /= g;
-}
-/** dF/dt along unit d at p: ∇F·d with the unnormalised ∇F (grad is overwritten). */
-function slopeAlong(setup: DropTraceSetup, x: number, y: number, z: number, d: Float64Array): number {
-  rawGradient(setup, x, y, z);
-  return grad[0] * d[0] + grad[1] * d[1] + grad[2] * d[2];
+  wallPoint[WALL.gradNorm] = g;
 }
 
 /**
@@ -107,6 +119,15 @@ const BRACKET_STEPS = 24;
 const START_INSIDE = 1e-9;
 /** Roots are polished to this fraction of a: below it a path difference is under 1e-9 of a wave for x < 1e5. */
 const ROOT_TOLERANCE = 1e-14;
+/**
+ * Newton's last step: after a step δ the error is about (F″/2F′)·δ² (quadratic convergence, Press et al. 2007
+ * Numerical Recipes §9.4 Eq. 9.4.13). F″ along the ray is the wall's normal curvature, a few 1/a at most for the
+ * tabulated outlines (common practice: bound it by 2), so δ² < ROOT_TOLERANCE·|F′| leaves the root within
+ * ROOT_TOLERANCE, one step sooner than |δ| < ROOT_TOLERANCE; near grazing (F′ → 0) the rule asks for the smaller steps.
+ */
+function lastStep(step: number, slope: number): boolean {
+  return step * step < ROOT_TOLERANCE * Math.abs(slope);
+}
 
 /** t of the bounding sphere |o + t d| = R (larger root), or NaN if the line misses it. */
 function boundingExit(ox: number, oy: number, oz: number, dx: number, dy: number, dz: number, radius: number, entry: boolean): number {
@@ -144,16 +165,17 @@ function polish(setup: DropTraceSetup, o: Float64Array, d: Float64Array, lo: num
     const x = o[0] + t * d[0];
     const y = o[1] + t * d[1];
     const z = o[2] + t * d[2];
-    const f = surface(setup, x, y, z);
+    const f = wallAt(setup, x, y, z, false);
     if (f === 0) return t;
     if ((f > 0) === (fLo > 0)) lo = t;
     else hi = t;
     // Newton's step with the exact dF/dt = ∇F·d (quadratic convergence: measured 6.3 steps a root with the unit
     // normal's n̂·d = dF/dt/|∇F| instead, linear where |∇F| > 1 off the sphere).
-    const slope = slopeAlong(setup, x, y, z, d);
+    const slope = grad[0] * d[0] + grad[1] * d[1] + grad[2] * d[2];
     let next = slope !== 0 ? t - f / slope : Number.NaN;
-    if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (Math.abs(next - t) < ROOT_TOLERANCE || hi - lo < ROOT_TOLERANCE) return next;
+    const newton = next > lo && next < hi;
+    if (!newton) next = 0.5 * (lo + hi);
+    if ((newton && lastStep(next - t, slope)) || hi - lo < ROOT_TOLERANCE) return next;
     t = next;
   }
   return t;
@@ -251,12 +273,6 @@ const dirV = new Float64Array(3);
 const normalV = new Float64Array(3);
 const kRefV = new Float64Array(3);
 const kTrV = new Float64Array(3);
-const ahead = new Float64Array(3);
-/**
- * Step of the central difference of the unit normal along the surface, in units of a: ε^(1/3) of the unit scale, where
- * truncation (∝ step²) and rounding (∝ ε/step) errors balance (Press et al. 2007 §5.7, Eq. 5.7.8).
- */
-const NORMAL_STEP = 6e-6;
 
 /**
  * Transfer of the differential to the wall point reached at t along dir from the previous point (Igehy 1999 Eq. 10 and
@@ -270,20 +286,39 @@ function transferDifferential(t: number): void {
 }
 
 /**
- * dν/dv of the unit normal facing the incident side (ν = sign·∇F/|∇F|) as the point moves by P_v along the wall: the
- * central difference of the normal field along P_v, into normalV (grad is overwritten).
+ * dν/dv of the unit normal facing the incident side (ν = sign·∇F/|∇F|) as the point moves by w = P_v along the wall,
+ * at the point of the last surfaceGradient, into normalV: dν = (I − νν)·(∇∇F·w)/|∇F|, with ∇∇F·w the change of
+ * ∇F = p̂ + k(â + μp̂), k = r′(μ)/|p|, μ = −â·p̂ (the gradient above, differentiated by the chain rule):
+ * dp̂ = (w − p̂(p̂·w))/|p|, dμ = −â·dp̂, dk = r″dμ/|p| − r′(p̂·w)/|p|².
  */
 function normalDifferential(setup: DropTraceSetup, sign: number): void {
-  const length = Math.sqrt(pointV[0] * pointV[0] + pointV[1] * pointV[1] + pointV[2] * pointV[2]);
-  if (length === 0) {
-    normalV.fill(0);
-    return;
-  }
-  const h = NORMAL_STEP / length;
-  surfaceGradient(setup, point[0] + h * pointV[0], point[1] + h * pointV[1], point[2] + h * pointV[2]);
-  ahead.set(grad);
-  surfaceGradient(setup, point[0] - h * pointV[0], point[1] - h * pointV[1], point[2] - h * pointV[2]);
-  for (let c = 0; c < 3; c++) normalV[c] = (sign * (ahead[c] - grad[c])) / (2 * h);
+  const axis = setup.axis;
+  const ax = axis[0];
+  const ay = axis[1];
+  const az = axis[2];
+  const len = wallPoint[WALL.len];
+  const mu = wallPoint[WALL.mu];
+  const atPx = wallPoint[WALL.px];
+  const atPy = wallPoint[WALL.py];
+  const atPz = wallPoint[WALL.pz];
+  const wx = pointV[0];
+  const wy = pointV[1];
+  const wz = pointV[2];
+  const pw = atPx * wx + atPy * wy + atPz * wz;
+  const dpx = (wx - atPx * pw) / len;
+  const dpy = (wy - atPy * pw) / len;
+  const dpz = (wz - atPz * pw) / len;
+  const dmu = -(ax * dpx + ay * dpy + az * dpz);
+  const k = terms[1] / len;
+  const dk = (terms[2] * dmu) / len - (terms[1] * pw) / (len * len);
+  const gx = dpx + dk * (ax + mu * atPx) + k * (dmu * atPx + mu * dpx);
+  const gy = dpy + dk * (ay + mu * atPy) + k * (dmu * atPy + mu * dpy);
+  const gz = dpz + dk * (az + mu * atPz) + k * (dmu * atPz + mu * dpz);
+  const along = grad[0] * gx + grad[1] * gy + grad[2] * gz;
+  const scale = sign / wallPoint[WALL.gradNorm];
+  normalV[0] = scale * (gx - grad[0] * along);
+  normalV[1] = scale * (gy - grad[1] * along);
+  normalV[2] = scale * (gz - grad[2] * along);
 }
 
 /**

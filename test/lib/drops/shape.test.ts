@@ -90,6 +90,24 @@ describe("Beard & Chuang (1987) equilibrium raindrop shapes", () => {
     }
   });
 
+  it("the tracer's one-pass terms r, dr/dμ, d²r/dμ² equal radius, radiusSlope and a central difference of it (Press et al. 2007 Eq. 5.7.7), within 1e-7", () => {
+    // h = 1e-5: the central difference's truncation error, ~h²·r⁗ with r⁗ ≲ 10³ for 11 cosine terms, stays below 1e-7.
+    const h = 1e-5;
+    for (const outline of [equilibriumOutline(1250), equilibriumOutline(2500), spheroidOutline(0.7)]) {
+      const three = new Float64Array(3);
+      const two = new Float64Array(2);
+      for (const mu of [-0.97, -0.5, 0, 0.3, 0.8, 0.99]) {
+        outline.radiusTerms(mu, three);
+        outline.radiusAndSlope(mu, two);
+        expect(Math.abs(three[0] - outline.radius(mu))).toBeLessThan(1e-14);
+        expect(Math.abs(three[1] - outline.radiusSlope(mu))).toBeLessThan(1e-13);
+        expect(Math.abs(two[0] - three[0]) + Math.abs(two[1] - three[1])).toBeLessThan(1e-14);
+        const curvature = (outline.radiusSlope(mu + h) - outline.radiusSlope(mu - h)) / (2 * h);
+        expect(Math.abs(three[2] - curvature)).toBeLessThan(1e-7);
+      }
+    }
+  });
+
   it("canting nodes: weights sum to 1 and reproduce the variance σ² in each plane (Gauss–Hermite)", () => {
     const nodes = cantingNodes(7.5);
     expect(nodes.reduce((s, n) => s + n.weight, 0)).toBeCloseTo(1, 14);
