@@ -31,22 +31,34 @@ export const NATIVE_FLAGS = ["-O3", "-march=native"];
  */
 export const SAME_WIDTH_FLAGS = [...NATIVE_FLAGS, "-mno-avx512f", "-mno-avx2", "-mno-fma", "-mprefer-vector-width=128"];
 
-/** The built reference, or a note why there is none (no C compiler, or the build failed). */
-export function buildCompiledReference(flags: readonly string[] = NATIVE_FLAGS): CompiledReference | { missing: string } {
+/**
+ * A C program of bench/reference/ built with the system's compiler into a temporary folder: its path and the compiler's
+ * name and flags, or a note why there is none (no C compiler, or the build failed).
+ */
+export function compileReference(source: string, flags: readonly string[]): { binary: string; compiler: string } | { missing: string } {
   let compiler: string;
   try {
     compiler = execFileSync("cc", ["--version"], { encoding: "utf8" }).split("\n")[0];
   } catch {
     return { missing: "no C compiler (`cc`) on this machine: the compiled reference was not run" };
   }
-  const binary = join(mkdtempSync(join(tmpdir(), "antisolar-mie-ref-")), "mie-reference");
+  const name = source.replace(/\.c$/, "");
+  const binary = join(mkdtempSync(join(tmpdir(), `antisolar-${name}-`)), name);
   try {
-    execFileSync("cc", [...flags, "-o", binary, repoPath("bench/reference/mie-reference.c"), "-lm"], { stdio: "pipe" });
+    execFileSync("cc", [...flags, "-o", binary, repoPath(`bench/reference/${source}`), "-lm"], { stdio: "pipe" });
   } catch (error) {
     return { missing: `\`cc ${flags.join(" ")}\` failed (${(error as Error).message.split("\n")[0]}): the compiled reference was not run` };
   }
+  return { binary, compiler: `${compiler}, ${flags.join(" ")}` };
+}
+
+/** The built reference, or a note why there is none (no C compiler, or the build failed). */
+export function buildCompiledReference(flags: readonly string[] = NATIVE_FLAGS): CompiledReference | { missing: string } {
+  const built = compileReference("mie-reference.c", flags);
+  if ("missing" in built) return built;
+  const { binary, compiler } = built;
   return {
-    compiler: `${compiler}, ${flags.join(" ")}`,
+    compiler,
     run({ mRe, mIm, fromDeg, toDeg, stepDeg, sizeParameters, reps }) {
       const args = [mRe, mIm, fromDeg, toDeg, stepDeg, reps, ...sizeParameters].map(String);
       const [totalMs, coefficientsMs, amplitudesMs, checksum] = execFileSync(binary, args, { encoding: "utf8" }).trim().split(/\s+/).map(Number);
