@@ -445,8 +445,8 @@ export function sweepPlane(tracer: PlaneTracer, p: number, halfSegments: number,
 
 /**
  * A sweep of order p over the pupil samples u with no ray yet (ok = 0 everywhere). Its arrays are views of one buffer:
- * a plane makes thousands of sweeps (branches, continuations), and one backing store each instead of twelve halved
- * the time a 2 mm drop spends in allocation and collection (CPU profile, 2026-12-04).
+ * a plane makes thousands of sweeps (branches, continuations), and one backing store each instead of twelve cut
+ * emptySweep's own time in a 2 mm drop's CPU profile by a third (656 → 442 ms, 2026-12-04).
  */
 export function emptySweep(p: number, u: Float64Array): PlaneSweep {
   const count = u.length;

@@ -121,7 +121,7 @@ const START_INSIDE = 1e-9;
 const ROOT_TOLERANCE = 1e-14;
 /**
  * Newton's last step: after a step δ the error is about (F″/2F′)·δ² (quadratic convergence, Press et al. 2007
- * Numerical Recipes §9.4 Eq. 9.4.13). F″ along the ray is the wall's normal curvature, a few 1/a at most for the
+ * Numerical Recipes §9.4, from memory). F″ along the ray is the wall's normal curvature, a few 1/a at most for the
  * tabulated outlines (common practice: bound it by 2), so δ² < ROOT_TOLERANCE·|F′| leaves the root within
  * ROOT_TOLERANCE, one step sooner than |δ| < ROOT_TOLERANCE; near grazing (F′ → 0) the rule asks for the smaller steps.
  */
