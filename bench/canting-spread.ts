@@ -5,6 +5,8 @@
 // bows, after the sun's disc (Neckel & Labs 1994 limb darkening, as profiles), ψ 30–58°. Writes the canting-spread
 // section of BENCHMARKS.md with --write.
 
+import { writeFileSync } from "node:fs";
+import { join } from "node:path";
 import { loadavg } from "node:os";
 import { shapedRows, type CantingMean, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
 import { shapedPlaneContext, shapedPlaneRow } from "../lib/bow/shaped-plane-rows.js";
@@ -35,6 +37,9 @@ const CASES = process.env.CASES ? JSON.parse(process.env.CASES) : [
   { radiusUm: 1000, arcPositionDeg: 45 },
   { radiusUm: 1000, arcPositionDeg: 90 },
   { radiusUm: 1500, arcPositionDeg: 45 },
+  { radiusUm: 1500, arcPositionDeg: 90 },
+  { radiusUm: 2000, arcPositionDeg: 0 },
+  { radiusUm: 2000, arcPositionDeg: 90 },
 ];
 
 const disc = sunDiscKernel(SUN_MEAN_ANGULAR_DIAMETER_DEG, STEP_DEG);
@@ -87,7 +92,13 @@ for (const { radiusUm, arcPositionDeg } of CASES) {
     return seen(row.perp, row.par);
   };
   const reference = bruteForce(radiusUm, arcPositionDeg, x);
-  const figures = (["spread", "nodes"] as const).map((how) => errors(mean(how), reference));
+  const means = { spread: mean("spread"), nodes: mean("nodes") };
+  const figures = (["spread", "nodes"] as const).map((how) => errors(means[how], reference));
+  // DUMP=<folder>: the rows themselves, for a look at where they part (Θ, reference, spread, nodes).
+  if (process.env.DUMP) {
+    const rowsOf = { thetaDeg: Array.from(THETA_DEG), reference: Array.from(reference), spread: Array.from(means.spread), nodes: Array.from(means.nodes) };
+    writeFileSync(join(process.env.DUMP, `canting-${radiusUm}-${arcPositionDeg}.json`), JSON.stringify(rowsOf));
+  }
   const line = `| ${radiusUm / 1000} mm, arc ${arcPositionDeg}° | ${figures.map((f) => `${f.worst.toFixed(3)} / ${f.summed.toFixed(3)}`).join(" | ")} |`;
   console.log(line);
   rows.push(line);

@@ -108,7 +108,9 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (15: roots a sweep
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (16: a wavelength
+ * whose canting nodes lack a fold takes the canting mean's fold model from the nearest index of the same drop that has
+ * one (cantingFolds) instead of adding its nodes' rows as they are; 15: roots a sweep
  * loses at gaps and hops are followed on (lib/rays/lost-roots.ts), a fold's partner is found at any spacing, and for
  * outlines flatter than axis ratio 0.92 a census finds the roots no run reaches (lib/rays/root-census.ts): against brute
  * force over the whole pupil on the sky (bench/sky-check.ts), the worst bin of the primary's order at 2 mm went from 0.50
@@ -134,7 +136,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 15;
+export const SHAPED_ENGINE_VERSION = 16;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -573,6 +575,25 @@ function groupBowOrder(group: number): number | undefined {
 const BOW_GROUP_PAD_DEG = 10;
 
 /**
+ * The canting nodes' folds for drop d's canting mean (lib/bow/canting-spread.ts foldOverTilt). Where a node has no fold
+ * at d's wavelength (its bow searched but not found as one fold), the folds of the same radius at the nearest index that
+ * has them all: the mean reads only how the fold moves with the tilt, which the index barely changes, and a wavelength
+ * left with its nodes' rows added as they are draws each node's bow sharp in that colour alone (a coloured line; 2 mm
+ * drops at the side of the bow: 4 of 82 primary-bow means, the blue end, before this).
+ */
+export function cantingFolds(foldsDeg: readonly (readonly number[])[], drops: readonly ShapedDrop[], d: number, nodeCount: number, shareOf: readonly number[]): number[] {
+  const at = (e: number) => Array.from({ length: nodeCount }, (_, k) => foldsDeg[e][shareOf[k]]);
+  const own = at(d);
+  if (own.every(Number.isFinite)) return own;
+  let best = -1;
+  drops.forEach((drop, e) => {
+    if (drop.radiusUm !== drops[d].radiusUm || !at(e).every(Number.isFinite)) return;
+    if (best < 0 || Math.abs(drop.mRe - drops[d].mRe) < Math.abs(drops[best].mRe - drops[d].mRe)) best = e;
+  });
+  return best < 0 ? own : at(best);
+}
+
+/**
  * How a bow group's canting nodes are averaged: "spread", each node's bow spread over the folds of its own cell of tilts
  * (lib/bow/canting-spread.ts, the service's); "nodes", the nodes' rows added as they are (the rule alone: what
  * bench/canting-spread.ts compares it with).
@@ -613,7 +634,7 @@ export function shapedMeanRows(
       }
       const perp = new Float64Array(count + 2 * pad);
       const par = new Float64Array(count + 2 * pad);
-      const folds = nodes.map((_, k) => computed.foldsDeg[d][shareOf[k]]);
+      const folds = cantingFolds(computed.foldsDeg, drops, d, nodes.length, shareOf);
       const spread = planeNodes.length > 1 && cantingMean === "spread" && localCantingMean(shares, shareOf, nodes, folds, spec.cantingSdDeg, stepDeg, { perp, par });
       if (!spread) {
         perp.fill(0);

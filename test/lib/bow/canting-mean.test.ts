@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { shapedMeanRows, type CantingMean, type ShapedRowSpec } from "../../../lib/bow/shaped-rows.js";
+import { cantingFolds, shapedMeanRows, type CantingMean, type ShapedRowSpec } from "../../../lib/bow/shaped-rows.js";
 import { shapedPlaneContext, shapedPlaneRow } from "../../../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
 import { bowScatteringPlane, cantedAxis } from "../../../lib/rays/bow-geometry.js";
@@ -70,4 +70,35 @@ describe("the canting mean of a flattened drop's bow", () => {
     expect(a.summed).toBeLessThan(0.05);
     expect(b.summed).toBeGreaterThan(3 * a.summed);
   }, 120_000);
+});
+
+// Which folds a wavelength's canting mean reads (shapedMeanRows): its own, else those of the nearest index of the same
+// drop that has all five (the fold's change with the tilt, all the mean uses, barely depends on the index), else none.
+describe("the folds a canting mean reads", () => {
+  const drops = [
+    { radiusUm: 2000, mRe: 1.343, x: 33000 },
+    { radiusUm: 2000, mRe: 1.337, x: 27000 },
+    { radiusUm: 2000, mRe: 1.331, x: 21000 },
+    { radiusUm: 1500, mRe: 1.342, x: 24000 },
+  ];
+  const shareOf = [0, 1, 2, 3, 4];
+  const folds = [
+    [Number.NaN, 139.7, 134.7, 157.5, 141.6],
+    [140.2, 138.8, 133.8, 155.9, 140.2],
+    [139.8, 138.2, 133.2, 154.8, 138.7],
+    [141.0, 139.0, 134.0, 150.0, 140.0],
+  ];
+  it("keeps a drop's own folds when every node has one", () => {
+    expect(cantingFolds(folds, drops, 1, 5, shareOf)).toEqual(folds[1]);
+  });
+  it("takes the nearest index of the same radius where a node has none, never another radius", () => {
+    expect(cantingFolds(folds, drops, 0, 5, shareOf)).toEqual(folds[1]);
+  });
+  it("keeps the gap where no wavelength of that drop has every fold (its nodes' rows are then added as they are)", () => {
+    const none = folds.map((row, d) => (d < 3 ? row.map(() => Number.NaN) : row));
+    expect(cantingFolds(none, drops, 0, 5, shareOf).every(Number.isNaN)).toBe(true);
+  });
+  it("reads a mirror-image pair of nodes from their one share", () => {
+    expect(cantingFolds(folds, drops, 2, 5, [0, 1, 1, 2, 2])).toEqual([139.8, 138.2, 138.2, 133.2, 133.2]);
+  });
 });
