@@ -38,9 +38,16 @@ export interface ShapePlan {
 const ENGINE =
   "3D ray tracing through the drop (Fresnel coefficients for both polarisations, orders 0–3) with the primary and secondary bows in the uniform Airy form per scattering plane (Chester, Friedman & Ursell 1957; Berry & Mount 1972), phases and amplitudes from the traced rays";
 const ACCURACY =
-  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); each plane's light against brute force over the pupil (every ray of a grid, those leaving near the plane binned): within 12 % per 0.25° bin, 5 % over a fold of the in-plane offset, where a second root of it is traced back (1.5 mm drops at the side of the bow, test/lib/rays/fold-back.test.ts); the sky around the antisolar point against brute force over the whole pupil (every ray of a grid binned where it is seen), ray optics of orders 0, 2, 3 in 1° × 5° bins, upright drops: worst bin 0.018 of the brightest at 1 mm, 0.11 at 1.5 mm, 0.05 at 2 mm, 0.17 at 2.5 mm (BENCHMARKS.md sky-check; test/lib/rays/sky-brute.test.ts); each wavelength's bows blended from their uniform tables at 7 refractive indices fixed by the water, aligned on the interpolated fold (traced at the wavelength's own index where the bow's constants or rows do not follow one polynomial in n): worst ΔE2000 0.008 (1 mm drops, top of the bow), 0.017 (1 mm, arc 45°), 0.12 (2 mm, arc 45°) and 0.003 (Marshall–Palmer 2 mm/h, top) against tracing every wavelength (BENCHMARKS.md, shape-index and aligned-rows); canting: five tilts traced, each one's bow spread over the fold angles of its share of the Gaussian of tilts (against a dense grid of traced tilts, BENCHMARKS.md canting-spread); equilibrium drops up to 1 mm in a size distribution blended from shape nodes 0.0075 apart in deformation: worst ΔE2000 0.27 at the top of the bow and 0.008 at its side (Marshall–Palmer 2 mm/h, canting 7.5°) against every radius with its own shape (BENCHMARKS.md aligned-rows-nodes-steps)";
+  "sphere limit: within 3.3e-4 of the sphere engine's profile and 0.01° of its peaks; horizontal plane with the sun on the horizon: Descartes' angles within 1e-6°; vertical plane: a 2D trace within 1e-5° (test/lib/rays/shaped-drops.test.ts); each plane's light against brute force over the pupil (every ray of a grid, those leaving near the plane binned): within 12 % per 0.25° bin, 5 % over a fold of the in-plane offset, where a second root of it is traced back (1.5 mm drops at the side of the bow, test/lib/rays/fold-back.test.ts); the sky around the antisolar point against brute force over the whole pupil (every ray of a grid binned where it is seen), ray optics of orders 0, 2, 3 in 1° × 5° bins, upright drops: worst bin 0.018 of the brightest at 1 mm, 0.11 at 1.5 mm, 0.05 at 2 mm, 0.17 at 2.5 mm (BENCHMARKS.md sky-check; test/lib/rays/sky-brute.test.ts); each wavelength's bows blended from their uniform tables at 7 refractive indices fixed by the water, aligned on the interpolated fold (traced at the wavelength's own index where the bow's constants or rows do not follow one polynomial in n): worst ΔE2000 0.008 (1 mm drops, top of the bow), 0.017 (1 mm, arc 45°), 0.12 (2 mm, arc 45°) and 0.003 (Marshall–Palmer 2 mm/h, top) against tracing every wavelength (BENCHMARKS.md, shape-index and aligned-rows); canting: five tilts traced, each one's bow spread over the fold angles of its share of the Gaussian of tilts, against a dense grid of traced tilts worst 0.03–0.21 of the peak up to 1 mm radius, 0.13–0.26 at 1.5 mm and 0.51 at 2 mm at the side of the bow, not converged at the top for 2 mm (BENCHMARKS.md canting-spread); equilibrium drops up to 1 mm in a size distribution blended from shape nodes 0.0075 apart in deformation: worst ΔE2000 0.27 at the top of the bow and 0.008 at its side (Marshall–Palmer 2 mm/h, canting 7.5°) against every radius with its own shape (BENCHMARKS.md aligned-rows-nodes-steps)";
 const DEFAULT_NOTE =
   "spheres unless drops.shape says otherwise: a cold default profile with equilibrium shapes traces 18 drop shapes (its 60 flattened radius nodes, those up to 1 mm on shape nodes) × 5 canting nodes × 7 scattering planes (and, where a bow changes form between those indices, one per wavelength), measured at 47 times the default profile's cold time in the same run, against the 1.5 s goal (BENCHMARKS.md, flattened drops); ask drops.shape {\"kind\":\"equilibrium\"} for raindrops' real shapes";
+
+/**
+ * Up to this radius the canting mean was measured within 0.21 of the peak of a dense grid of traced tilts; above it,
+ * 0.26 at 1.5 mm and 0.51 at 2 mm at the side of the bow, and at the top of the bow for 2 mm drops neither the mean
+ * nor grids 1° and 0.5° apart converge (BENCHMARKS.md canting-spread, 2026-12-04): such drops get a warning.
+ */
+export const CANTING_MEAN_MEASURED_TO_RADIUS_UM = 1000;
 
 /**
  * Equilibrium drops up to SHAPE_NODES_MAX_RADIUS_UM share the planes of shape nodes this far apart in deformation
@@ -109,6 +116,12 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
   // Airy-type bows need large drops: the sphere engine's own limit (lib/bow/engine-choice.ts) holds here too.
   if (flattenedRadii.length && flattenedRadii[0] < AUTO_AIRY_FROM_RADIUS_UM) {
     warnings.push(`flattened drops below ${AUTO_AIRY_FROM_RADIUS_UM} µm radius are served by Airy-type theory outside its measured validity`);
+  }
+  const largest = flattenedRadii[flattenedRadii.length - 1];
+  if (shape.cantingSdDeg > 0 && largest > CANTING_MEAN_MEASURED_TO_RADIUS_UM) {
+    warnings.push(
+      `the canting mean of drops above ${CANTING_MEAN_MEASURED_TO_RADIUS_UM} µm radius is approximate: against a dense grid of traced tilts it is off by 0.26 (1.5 mm) to 0.51 (2 mm) of the peak at the side of the bow, and at the top of the bow it has not been made to converge for 2 mm drops (BENCHMARKS.md canting-spread)`,
+    );
   }
   return { shapes, flattened: flattenedRadii.length > 0, tracedShapes, meta, warnings };
 }

@@ -67,3 +67,23 @@ describe("which drops are flattened, where on the bow, and at what cost", () => 
     expect(shapedCostTermAngles(plan, 41, 612)).toBeGreaterThan(budget);
   });
 });
+
+// The canting mean's measured reach (BENCHMARKS.md canting-spread: within 0.21 of a dense tilt grid's peak up to 1 mm
+// radius, 0.26–0.51 at 1.5–2 mm at the side of the bow): larger canted drops are flagged, upright or smaller ones not.
+describe("the warning on the canting mean of large drops", () => {
+  const plan = (radiusUm: number, cantingSdDeg?: number) =>
+    planDropShapes(
+      profileRequestSchema.parse({ drops: { kind: "monodisperse", radiusUm, shape: { kind: "equilibrium", ...(cantingSdDeg === undefined ? {} : { cantingSdDeg }) } } }),
+      Float64Array.from([radiusUm]),
+    );
+  const flagged = (p: ReturnType<typeof plan>) => p.warnings.some((w) => /canting mean/.test(w));
+  it("is given for canted drops above 1 mm radius and names where it was measured", () => {
+    const warned = plan(2000);
+    expect(flagged(warned)).toBe(true);
+    expect(warned.warnings.find((w) => /canting mean/.test(w))).toMatch(/BENCHMARKS\.md canting-spread/);
+  });
+  it("is not given at 1 mm, nor for upright drops of any size", () => {
+    expect(flagged(plan(1000))).toBe(false);
+    expect(flagged(plan(2000, 0))).toBe(false);
+  });
+});
