@@ -60,8 +60,8 @@ const terms = new Float64Array(3);
 const WALL = { len: 0, px: 1, py: 2, pz: 3, mu: 4, gradNorm: 5 } as const;
 const wallPoint = new Float64Array(6);
 /**
- * F at p, with ∇F (unnormalised) into grad and |p|, p̂, μ into wallPoint: one evaluation of the outline for both;
- * with curvature, r″(μ) into terms too.
+ * F at p, with ∇F (unnormalised) into grad: one evaluation of the outline for both. With curvature (a wall point's
+ * normal, surfaceGradient), r″(μ) into terms and |p|, p̂, μ into wallPoint too; the root search's steps skip them.
  */
 function wallAt(setup: DropTraceSetup, x: number, y: number, z: number, curvature: boolean): number {
   const len = Math.sqrt(x * x + y * y + z * z);
@@ -79,11 +79,13 @@ function wallAt(setup: DropTraceSetup, x: number, y: number, z: number, curvatur
   grad[0] = px + k * (ax + mu * px);
   grad[1] = py + k * (ay + mu * py);
   grad[2] = pz + k * (az + mu * pz);
-  wallPoint[WALL.len] = len;
-  wallPoint[WALL.px] = px;
-  wallPoint[WALL.py] = py;
-  wallPoint[WALL.pz] = pz;
-  wallPoint[WALL.mu] = mu;
+  if (curvature) {
+    wallPoint[WALL.len] = len;
+    wallPoint[WALL.px] = px;
+    wallPoint[WALL.py] = py;
+    wallPoint[WALL.pz] = pz;
+    wallPoint[WALL.mu] = mu;
+  }
   return len - terms[0];
 }
 /** The unit outward normal at p, into grad; the wall's terms there into wallPoint and terms (for normalDifferential). */
