@@ -10,6 +10,7 @@ import { planeBowTable, type FoldConstants, type PlaneFold } from "./plane-bow-t
 import { planeRayBins } from "./plane-ray-bins.js";
 import { sweepBranches } from "../rays/lost-roots.js";
 import type { RayBins } from "./ray-bins.js";
+import { offMirrorAxis } from "./off-mirror-axis.js";
 // The cell [u[s], u[s + 1]] of ascending pupil samples that holds u.
 import { bracket } from "../spectra/spectrum.js";
 
@@ -162,7 +163,8 @@ export function shapedPlaneSweeps(
   const windowed = options.windowed ?? true;
   const coarseStep = options.coarseStep ?? SHAPED_COARSE_STEP;
   const maxOrder = Math.max(...rayOrders, ...bowOrders);
-  const tracers = setups.map((setup) => shapedPlaneTracer(setup, plane, options));
+  // An axis in the plane makes it a mirror plane, whose sweeps miss roots: off-mirror-axis.ts.
+  const tracers = setups.map((setup) => shapedPlaneTracer({ ...setup, axis: offMirrorAxis(setup.axis, plane) }, plane, options));
   const branchesNear = { loRad: (thetaDeg[0] - stepDeg / 2 - BRANCH_MARGIN_DEG) * DEG, hiRad: (thetaDeg[thetaDeg.length - 1] + stepDeg / 2 + BRANCH_MARGIN_DEG) * DEG, side };
   const sweeps: (PlaneSweep | null)[][] = tracers.map(() => []);
   for (let p = 0; p <= maxOrder; p++) {

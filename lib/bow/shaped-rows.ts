@@ -7,6 +7,7 @@ import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
 import { planeCantingNodeOf, planeCantingNodes } from "./plane-canting-nodes.js";
 import { localCantingMean } from "./canting-spread.js";
+import { offMirrorAxis } from "./off-mirror-axis.js";
 import { cantingNodesFive, type CantingNode } from "../drops/shape/canting.js";
 import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
 import type { PlaneSweep, ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
@@ -108,7 +109,10 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (16: a wavelength
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (17: a drop whose
+ * axis lies in the scattering plane, as at the top and foot of the bow, is traced with it turned 0.125° out of the
+ * plane (lib/bow/off-mirror-axis.ts): in the mirror plane the sweeps lost a pair of roots and made a spike, against
+ * brute force 1.6–3.1× the light of the secondary's order of 2 mm drops at the top; 16: a wavelength
  * whose canting nodes lack a fold takes the canting mean's fold model from the nearest index of the same drop that has
  * one (cantingFolds) instead of adding its nodes' rows as they are; 15: roots a sweep
  * loses at gaps and hops are followed on (lib/rays/lost-roots.ts), a fold's partner is found at any spacing, and for
@@ -136,7 +140,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 16;
+export const SHAPED_ENGINE_VERSION = 17;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -357,7 +361,8 @@ function tracedGroup(
   thetaDeg: Float64Array,
   stepDeg: number,
 ): { axis: Vec3; options: ShapedPlaneOptions; sweeps: (PlaneSweep | null)[][] } {
-  const axis = cantedAxis(node.tiltXDeg, node.tiltYDeg);
+  // Turned off the plane where it lies in it, for every trace of the node's planes (lib/bow/off-mirror-axis.ts).
+  const axis = offMirrorAxis(cantedAxis(node.tiltXDeg, node.tiltYDeg), plane);
   const options = groupOptions(spec, group);
   return { axis, options, sweeps: shapedPlaneSweeps(indices.map((n) => ({ outline, axis, n })), plane, 1, thetaDeg, stepDeg, options) };
 }
