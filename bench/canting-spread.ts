@@ -46,9 +46,11 @@ const CASES = process.env.CASES ? JSON.parse(process.env.CASES) : [
   { radiusUm: 1000, arcPositionDeg: 0 },
   { radiusUm: 1000, arcPositionDeg: 45 },
   { radiusUm: 1000, arcPositionDeg: 90 },
+  { radiusUm: 1500, arcPositionDeg: 0 },
   { radiusUm: 1500, arcPositionDeg: 45 },
   { radiusUm: 1500, arcPositionDeg: 90 },
   { radiusUm: 2000, arcPositionDeg: 0 },
+  { radiusUm: 2000, arcPositionDeg: 10 },
   { radiusUm: 2000, arcPositionDeg: 90 },
 ];
 

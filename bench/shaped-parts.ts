@@ -2,7 +2,7 @@
 // across threads (pipeline/kernels/canting-parts.ts: one part per canting node and order group), measured on P4
 // (bench/profiles.ts) with every part run on this thread one after another, and the CPU of the whole task unsplit in
 // the same process; and checks that the split rows equal the unsplit ones bit for bit. Used to
-// set canting-parts.ts's ORDER_GROUP_COST and OUT_OF_PLANE_NODE_COST (the order the parts are queued in); writes the
+// set canting-parts.ts's ORDER_GROUP_COST (the order the parts are queued in); writes the
 // "shaped-parts" section of BENCHMARKS.md.
 
 import { profileRequestSchema } from "../schemas/profile.js";
@@ -66,9 +66,9 @@ const lines = [
   `Written by bench/shaped-parts.ts, ${date}, ${machineLine()}, one-minute load average ${loadavg()[0].toFixed(1)}. P4 (1 mm`,
   "equilibrium drops, canting 7.5°, top of the bow, 41 wavelengths) cold, its one shape's task split in parts (one per",
   "canting node and order group, pipeline/kernels/canting-parts.ts) and each part run on this thread one after another",
-  "(CPU ms, two runs); the whole task, unsplit, in the same process, alternating with the split one. Nodes: 0 upright,",
-  "1–2 tilted in the scattering plane (x–z at the top of the bow), 3–4 tilted across it. These set ORDER_GROUP_COST and",
-  "OUT_OF_PLANE_NODE_COST, the order the parts are queued in.",
+  "(CPU ms, two runs); the whole task, unsplit, in the same process, alternating with the split one. Nodes: the place's",
+  "canting rule's, mirror images merged (lib/bow/plane-canting-nodes.ts). These set ORDER_GROUP_COST, the order the",
+  "parts are queued in.",
   "",
   `| canting node | ${SHAPED_ORDER_GROUPS.map((g) => `orders ${g.join(", ")}`).join(" | ")} | node total |`,
   `|---|${SHAPED_ORDER_GROUPS.map(() => "---").join("|")}|---|`,

@@ -68,35 +68,45 @@ export function localSpreadKernels(model: FoldOverTilt, nodes: readonly CantingN
     const widths = Float64Array.from(tx, (x, i) =>
       Math.max(1, (Math.abs(model.gx + model.hx * x) * tiltStepDeg) / stepDeg, (Math.abs(model.gy + model.hy * ty[i]) * tiltStepDeg) / stepDeg),
     );
-    let low = Infinity;
-    let high = -Infinity;
-    shifts.forEach((shift, i) => {
-      // A one-bin tent touches floor(shift) and the bin above it only.
-      const reach = widths[i] === 1 ? 0 : widths[i];
-      low = Math.min(low, shift - reach);
-      high = Math.max(high, shift + reach);
-    });
-    const first = Math.floor(low);
-    const weights = new Float64Array(Math.floor(high) - first + 2);
-    shifts.forEach((shift, i) => {
-      const share = mass[i] / total;
-      const w = widths[i];
-      if (w === 1) {
-        const k = Math.floor(shift);
-        const f = shift - k;
-        weights[k - first] += (1 - f) * share;
-        weights[k - first + 1] += f * share;
-        return;
-      }
-      // The tent 1 − |k − shift|/w at the bins under it, normalised to the sample's mass.
-      const k0 = Math.ceil(shift - w);
-      const k1 = Math.floor(shift + w);
-      let norm = 0;
-      for (let k = k0; k <= k1; k++) norm += 1 - Math.abs(k - shift) / w;
-      for (let k = k0; k <= k1; k++) weights[k - first] += ((1 - Math.abs(k - shift) / w) / norm) * share;
-    });
-    return { first, weights };
+    return tentKernel(shifts, widths, mass.map((m) => m / total));
   });
+}
+
+/**
+ * The kernel of samples of the fold's shift (in bins) with their shares of a node's mass: each sample's share spread as
+ * a tent widths[i] bins wide about its shift (1: linear interpolation between the two bins about it), so that samples
+ * that land bins apart tile the bins between them instead of leaving a comb (cloud-in-cell: common practice).
+ * weights[m]: the share of a shift of (first + m) bins.
+ */
+export function tentKernel(shifts: Float64Array, widths: Float64Array, shares: Float64Array): { first: number; weights: Float64Array } {
+  let low = Infinity;
+  let high = -Infinity;
+  shifts.forEach((shift, i) => {
+    // A one-bin tent touches floor(shift) and the bin above it only.
+    const reach = widths[i] === 1 ? 0 : widths[i];
+    low = Math.min(low, shift - reach);
+    high = Math.max(high, shift + reach);
+  });
+  const first = Math.floor(low);
+  const weights = new Float64Array(Math.floor(high) - first + 2);
+  shifts.forEach((shift, i) => {
+    const share = shares[i];
+    const w = widths[i];
+    if (w === 1) {
+      const k = Math.floor(shift);
+      const f = shift - k;
+      weights[k - first] += (1 - f) * share;
+      weights[k - first + 1] += f * share;
+      return;
+    }
+    // The tent 1 − |k − shift|/w at the bins under it, normalised to the sample's share.
+    const k0 = Math.ceil(shift - w);
+    const k1 = Math.floor(shift + w);
+    let norm = 0;
+    for (let k = k0; k <= k1; k++) norm += 1 - Math.abs(k - shift) / w;
+    for (let k = k0; k <= k1; k++) weights[k - first] += ((1 - Math.abs(k - shift) / w) / norm) * share;
+  });
+  return { first, weights };
 }
 
 /** Each node's cell of sampled tilts (tx, ty in degrees) with their Gaussian masses and the cell's total mass. */
@@ -182,10 +192,24 @@ export function localCantingMean(
 ): boolean {
   const model = foldOverTilt(nodes, foldsDeg);
   if (!model) return false;
-  const kernels = localSpreadKernels(model, nodes, sdDeg, stepDeg);
+  addSpreadShares(shares, shareOf, nodes, localSpreadKernels(model, nodes, sdDeg, stepDeg), out);
+  return true;
+}
+
+/**
+ * out = Σ over nodes of their shares spread by their kernels (each share already weighted by its node's weight). A share
+ * standing for two mirror-image nodes carries both weights and both cells' kernels (equal by the mirror): each kernel
+ * is added with its node's part of the share's weight.
+ */
+export function addSpreadShares(
+  shares: readonly { perp: Float64Array; par: Float64Array }[],
+  shareOf: readonly number[],
+  nodes: readonly CantingNode[],
+  kernels: readonly { first: number; weights: Float64Array }[],
+  out: { perp: Float64Array; par: Float64Array },
+): void {
   out.perp.fill(0);
   out.par.fill(0);
-  // A share standing for two mirror-image nodes carries both weights and both cells' kernels (equal by the mirror).
   const done = new Set<number>();
   nodes.forEach((_, k) => {
     const s = shareOf[k];
@@ -199,5 +223,4 @@ export function localCantingMean(
       addSpread(shares[s].par, scaled, out.par);
     }
   });
-  return true;
 }

@@ -6,11 +6,8 @@
 // them for the whole task (lib/bow/shaped-rows.ts shapedMeanRows). Split by wavelength instead, every part would trace
 // every plane.
 
-import type { CantingNode } from "../../lib/drops/shape/canting.js";
 import { planeCantingNodes } from "../../lib/bow/plane-canting-nodes.js";
 import { isBowGroup, SHAPED_ORDER_GROUPS, shapedRowKey, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
-import { bowScatteringPlane, cantedAxis } from "../../lib/rays/bow-geometry.js";
-import { cross, dot } from "../../lib/view/vectors.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
 
 export interface ShapedPart {
@@ -31,34 +28,17 @@ export interface ShapedPart {
  */
 export const ORDER_GROUP_COST: readonly number[] = [0.34, 1, 1];
 /**
- * Relative CPU of a canting node whose axis leaves the scattering plane against one whose axis lies in it. In the
- * plane, the plane is a mirror plane of the drop and a ray that enters in it stays in it; out of it, each ray's exit
- * in the plane is searched for. Measured on P4 (as ORDER_GROUP_COST): the nodes tilted out of the plane took 1.9–2.2 s,
- * the upright node and the nodes tilted in the plane 1.4–1.9 s, 1.25–1.3 times less (before the chord steps: 1.6–2.2
- * against 0.8–1.0 s). Only the order matters: the parts are queued largest first.
- */
-export const OUT_OF_PLANE_NODE_COST = 1.3;
-
-/** Whether a canting node's axis lies in the scattering plane of the spec's place on the bow (to rounding). */
-function axisInPlane(spec: Pick<ShapedRowSpec, "sunElevationDeg" | "arcPositionDeg">, node: CantingNode): boolean {
-  const { dIn, e } = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
-  return Math.abs(dot(cantedAxis(node.tiltXDeg, node.tiltYDeg), cross(dIn, e))) < 1e-9;
-}
-
-/**
  * Every part of a shape's task (the group without a bow per canting node, each bow group whole), largest first by estimated cost, so that the pool, which
  * runs tasks in the order they come (firstInFirstOut in worker-pool.ts), runs them longest-processing-time first: the threads then end within
  * about one of the smallest parts of each other (Graham 1969, SIAM J. Appl. Math. 17, 416–429: at most 4/3 − 1/(3m) of
  * the best schedule on m threads; from memory).
  */
 export function shapedParts(spec: Pick<ShapedRowSpec, "cantingSdDeg" | "sunElevationDeg" | "arcPositionDeg">): ShapedPart[] {
+  // Every node costs alike: none is traced with its axis in the scattering plane (lib/bow/off-mirror-axis.ts), where
+  // the plane was a mirror plane of the drop and its nodes took 1.25–1.3 times less (P4, before engine 17).
   const nodes = planeCantingNodes(spec);
-  const nodeCost = nodes.map((node) => (axisInPlane(spec, node) ? 1 : OUT_OF_PLANE_NODE_COST));
-  const allNodes = nodeCost.reduce((s, c) => s + c, 0);
   const parts: ShapedPart[] = SHAPED_ORDER_GROUPS.flatMap((_, group) =>
-    isBowGroup(group)
-      ? [{ group, share: allNodes * ORDER_GROUP_COST[group] }]
-      : nodes.map((_, node) => ({ node, group, share: nodeCost[node] * ORDER_GROUP_COST[group] })),
+    isBowGroup(group) ? [{ group, share: nodes.length * ORDER_GROUP_COST[group] }] : nodes.map((_, node) => ({ node, group, share: ORDER_GROUP_COST[group] })),
   );
   const total = parts.reduce((s, p) => s + p.share, 0);
   return parts.map((p) => ({ ...p, share: p.share / total })).sort((a, b) => b.share - a.share || a.group - b.group || (a.node ?? -1) - (b.node ?? -1));

@@ -3,6 +3,7 @@
 // plane count the count the tasks report and the estimate's, and progress moving part by part.
 import { describe, expect, it } from "vitest";
 import { shapedParts } from "../../../pipeline/kernels/canting-parts.js";
+import { placeCantingRule, planeCantingNodes } from "../../../lib/bow/plane-canting-nodes.js";
 import { KernelService } from "../../../pipeline/kernels/kernel-service.js";
 import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
 import type { KernelTask } from "../../../pipeline/kernels/kernel-types.js";
@@ -26,23 +27,25 @@ describe("shaped parts", () => {
     for (const p of parts) expect(p.node === undefined).toBe(isBowGroup(p.group));
     expect(parts.reduce((s, p) => s + p.share, 0)).toBeCloseTo(1, 12);
     for (let k = 1; k < parts.length; k++) expect(parts[k].share).toBeLessThanOrEqual(parts[k - 1].share);
-    // At the top the two nodes tilted out of the scattering plane are mirror images: one node (lib/bow/plane-canting-nodes.ts).
-    expect(shapedParts(top).length).toBe(4 + bowGroups);
+    // At the top the banded rule's nodes across the scattering plane are mirror images in pairs: half of them traced
+    // (lib/bow/plane-canting-nodes.ts).
+    expect(shapedParts(top).length).toBe(planeCantingNodes(top).length + bowGroups);
+    expect(planeCantingNodes(top).length).toBe(placeCantingRule(top).nodes.length / 2);
     // Upright drops: one node, its three groups.
     expect(shapedParts({ ...top, cantingSdDeg: 0 }).map((p) => p.node)).toEqual([undefined, undefined, 0]);
   });
 
-  it("put first the bow groups (the costly ones), then the reflection of the nodes tilted out of the scattering plane", () => {
-    // At the top of the bow the scattering plane is vertical and holds the sun's direction (x–z, lib/rays/bow-geometry.ts):
-    // nodes 1 and 2 tilt in it, 3 (tiltY, with its mirror image) out of it.
-    const parts = shapedParts(top);
-    expect(new Set(parts.slice(0, 2).map((p) => p.group))).toEqual(new Set([1, 2]));
-    expect(parts[2]).toMatchObject({ node: 3, group: 0 });
-    expect(new Set(parts.slice(-3).map((p) => `${p.node}:${p.group}`))).toEqual(new Set(["0:0", "1:0", "2:0"]));
-    // At the side of the bow with the sun on the horizon the plane is horizontal: every tilt leaves it, and the
-    // upright axis is across it, so every node's reflection costs the same.
-    const side = shapedParts({ ...top, sunElevationDeg: 0, arcPositionDeg: 90 });
-    expect(new Set(side.filter((p) => p.group === 0).map((p) => p.share.toFixed(12))).size).toBe(1);
+  it("put first the bow groups (the costly ones), then each node's reflection, every node alike", () => {
+    // No node is traced with its axis in the scattering plane (lib/bow/off-mirror-axis.ts): every node's reflection
+    // costs the same, at the top of the bow as at its side with the sun on the horizon.
+    for (const place of [top, { ...top, sunElevationDeg: 0, arcPositionDeg: 90 }]) {
+      const parts = shapedParts(place);
+      expect(new Set(parts.slice(0, 2).map((p) => p.group))).toEqual(new Set([1, 2]));
+      const reflection = parts.slice(2);
+      expect(reflection.every((p) => p.group === 0)).toBe(true);
+      expect(new Set(reflection.map((p) => p.share.toFixed(12))).size).toBe(1);
+      expect(reflection.map((p) => p.node)).toEqual(reflection.map((_, k) => k));
+    }
   });
 });
 
@@ -125,8 +128,10 @@ describe("which tasks are split", () => {
     return seen;
   }
 
-  it("with fewer than 8 shapes a thread each shape is split in its parts (6 at the top of the bow); with 8 or more, or one thread, a task a shape", async () => {
-    expect((await tasksFor(15, 2)).length).toBe(15 * 6);
+  it("with fewer than 8 shapes a thread each shape is split in its parts (17 at the top of the bow); with 8 or more, or one thread, a task a shape", async () => {
+    // At the top: 15 traced nodes of the banded rule (reflection one part each) and the two bow groups.
+    expect(shapedParts({ cantingSdDeg: 7.5, sunElevationDeg: 10, arcPositionDeg: 0 }).length).toBe(17);
+    expect((await tasksFor(15, 2)).length).toBe(15 * 17);
     expect((await tasksFor(16, 2)).length).toBe(16);
     expect((await tasksFor(3, 1)).length).toBe(3);
   });
