@@ -10,7 +10,7 @@
 import { writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { loadavg } from "node:os";
-import { shapedRows, type CantingMean, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
+import { BANDED_FROM_RADIUS_UM, shapedRows, type CantingMean, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
 import { shapedPlaneContext, shapedPlaneRow } from "../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../lib/drops/shape/equilibrium-shape.js";
 import { bowScatteringPlane, cantedAxis } from "../lib/rays/bow-geometry.js";
@@ -97,7 +97,8 @@ function errors(row: Float64Array, reference: Float64Array): { worst: number; su
 const rows: string[] = [];
 for (const { radiusUm, arcPositionDeg } of CASES) {
   const x = (2 * Math.PI * radiusUm) / WAVELENGTH_UM;
-  const spec: ShapedRowSpec = { kind: "equilibrium", cantingSdDeg: SD_DEG, sunElevationDeg: 10, arcPositionDeg, rayOnly: false, traceEveryIndex: true };
+  // The service's rule for the size: the banded one near a mirror plane above BANDED_FROM_RADIUS_UM.
+  const spec: ShapedRowSpec = { kind: "equilibrium", cantingSdDeg: SD_DEG, sunElevationDeg: 10, arcPositionDeg, rayOnly: false, traceEveryIndex: true, cantingBand: radiusUm > BANDED_FROM_RADIUS_UM };
   const drop = { radiusUm, mRe: N_RE, x };
   const mean = (how: CantingMean) => {
     const [row] = shapedRows(spec, [drop], THETA_DEG, STEP_DEG, how);
@@ -128,8 +129,8 @@ const lines = [
   `by the density of the tilts that send it to the place on the bow (rotation invariance; bench/canting-pupil.ts; pupil step ${PUPIL_GRID.du},`,
   `relative sun elevations ${PUPIL_GRID.elevationStepDeg}° apart over ±${PUPIL_GRID.spanSd}σ; ray optics). Tilt grid (the second): every tilt of a grid ${TILT_SPACING_DEG}° apart over`,
   `±${TILT_SPAN_SD}σ in both planes swept on its own, Gaussian weights (Airy-type bows). Spread (the service's): each canting node's bow spread`,
-  "over the folds of its own cell of tilts, the fold quadratic through the nodes' folds (lib/bow/canting-spread.ts); nodes: the",
-  "five rows added with the rule's weights.",
+  "over the folds of its own cell of tilts (lib/bow/canting-spread.ts, the fold quadratic through the five nodes' folds; above",
+  `${BANDED_FROM_RADIUS_UM / 1000} mm radius within 2.5σ of tilt of the top or foot the banded rule, lib/bow/canting-band-spread.ts); nodes: the rule's rows added with its weights.`,
   "",
   "| drops, place on the bow | spread vs pupil | nodes vs pupil | tilt grid vs pupil | spread vs tilt grid | nodes vs tilt grid |",
   "|---|---|---|---|---|---|",

@@ -4,7 +4,8 @@
 // and its mirror image tilted the other way scatter the same |S1|² and |S2|² into the plane: the mirror leaves the
 // incident and scattered directions and the parallel field in place and turns the perpendicular field's sign
 // (the mirror symmetry of the laws of reflection and refraction: common practice). Such pairs of nodes of the
-// place's rule are traced once, with their weights added: there 15 nodes of the banded rule's 30 (placeCantingRule).
+// place's rule are traced once, with their weights added: there 4 nodes of the five-node rule's 5, 15 of the banded
+// rule's 30 (placeCantingRule).
 
 import { cantingNodesBanded, cantingNodesFive, type BandedCantingRule, type CantingNode } from "../drops/shape/canting.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
@@ -17,6 +18,8 @@ export interface PlaceOnBow {
   cantingSdDeg: number;
   sunElevationDeg: number;
   arcPositionDeg: number;
+  /** ShapedRowSpec.cantingBand: whether the banded rule is taken near a mirror plane. */
+  cantingBand?: boolean;
 }
 
 /**
@@ -44,13 +47,13 @@ export function mirrorTiltDeg(spec: Omit<PlaceOnBow, "cantingSdDeg">): number {
 }
 
 /**
- * The canting rule of one place on the bow: the five-node rule (cantingNodesFive), or near a mirror plane the banded
- * rule (cantingNodesBanded) centred on mirrorTiltDeg, whose 1°-wide cells of tilt across the plane weigh a band of
+ * The canting rule of one place on the bow: the five-node rule (cantingNodesFive), or, where spec.cantingBand asks for
+ * it (large drops: shaped-rows.ts BANDED_FROM_RADIUS_UM), near a mirror plane the banded rule (cantingNodesBanded) centred on mirrorTiltDeg, whose 1°-wide cells of tilt across the plane weigh a band of
  * drops with their axis near the plane by the band's own mass (2 mm drops at the top of the bow: rows 5–7× their
  * neighbours' over tilts within 1.9° of the plane, which the five-node rule weighed 2/3 through its three nodes there).
  */
 export function placeCantingRule(spec: PlaceOnBow): { nodes: CantingNode[]; banded: BandedCantingRule | null } {
-  if (spec.cantingSdDeg > 0) {
+  if (spec.cantingSdDeg > 0 && spec.cantingBand === true) {
     const centre = mirrorTiltDeg(spec);
     if (Math.abs(centre) <= BANDED_REACH_SD * spec.cantingSdDeg) {
       const banded = cantingNodesBanded(spec.cantingSdDeg, centre);

@@ -88,7 +88,21 @@ export interface ShapedRowSpec {
    * SHAPED_ORDER_GROUPS[orderGroup] alone; absent: every order, group by group.
    */
   orderGroup?: number;
+  /**
+   * True: near a mirror plane the canting mean takes the banded rule (lib/bow/plane-canting-nodes.ts placeCantingRule);
+   * absent: the five-node rule everywhere. The service sets it for drops above BANDED_FROM_RADIUS_UM.
+   */
+  cantingBand?: boolean;
 }
+
+/**
+ * Drops above this radius take the banded canting rule near a mirror plane (ShapedRowSpec.cantingBand). Measured against
+ * brute force over the pupil (bench/canting-spread.ts, issue 13's notes), worst of the peak / summed: 2 mm drops at the
+ * top of the bow 1.144 / 1.060 with the five-node rule, 0.596 / 0.251 banded; at arc 10° 0.734 / 0.466 and 0.550 /
+ * 0.228; 1 mm drops at the top 0.215 / 0.105 and 0.154 / 0.091, for 15 planes instead of 4 there (33–39 instead of 5
+ * within 19° of it): at 1 mm and below the gain does not pay for 3.75–8 times the planes.
+ */
+export const BANDED_FROM_RADIUS_UM = 1000;
 
 /**
  * The scattering orders of a flattened drop's row in the groups it is computed in, each group's share on its own (its
@@ -110,7 +124,8 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (18: near a mirror
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (19: the banded rule
+ * for drops above BANDED_FROM_RADIUS_UM only (ShapedRowSpec.cantingBand); 18: near a mirror
  * plane (within 2.5σ of tilt across it of the top or foot of the bow) the canting mean takes the banded rule, 1°-wide
  * cells of tilt across the plane (lib/bow/plane-canting-nodes.ts placeCantingRule, lib/bow/canting-band-spread.ts):
  * against brute force over the pupil, 2 mm drops at the top 1.06 → 0.25 summed, at arc 10° 0.47 → 0.23; 17: a drop whose
@@ -144,7 +159,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 18;
+export const SHAPED_ENGINE_VERSION = 19;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -153,7 +168,8 @@ export function shapedRowKey(spec: ShapedRowSpec): string {
   const span = spec.indexSpan ? `:n${spec.indexSpan.min}-${spec.indexSpan.max}` : "";
   // A group's share is not a row: it never shares a key with one.
   const group = spec.orderGroup === undefined ? "" : `:g${spec.orderGroup}`;
-  return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}${span}${direct}${group}`;
+  const band = spec.cantingBand ? ":band" : "";
+  return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}${band}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}${span}${direct}${group}`;
 }
 
 /** A kernel row variant (rowVariant) with the shape of a drop that is not a sphere appended: its rows are other rows. */

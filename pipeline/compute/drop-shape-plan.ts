@@ -7,8 +7,10 @@ import { CANTING_SD_DEG } from "../../lib/drops/shape/canting.js";
 import { planeCantingNodes } from "../../lib/bow/plane-canting-nodes.js";
 import { AUTO_AIRY_FROM_RADIUS_UM } from "../../lib/bow/engine-choice.js";
 import { outlineAxisRatio } from "../../lib/drops/shape/outline.js";
+import { equilibriumOutline } from "../../lib/drops/shape/equilibrium-shape.js";
 import {
   ARC_POSITION_STEP_DEG,
+  BANDED_FROM_RADIUS_UM,
   EQUILIBRIUM_NOTE,
   FLATTENED_FROM_RADIUS_UM,
   INDEX_NODES,
@@ -31,6 +33,8 @@ export interface ShapePlan {
   flattened: boolean;
   /** Shapes the flattened drops are traced with: one per radius node, fewer where they share shape nodes. */
   tracedShapes: number;
+  /** Scattering planes per refractive index traced for them: each shape's canting nodes (planeCantingNodes) summed. */
+  tracedPlanes: number;
   meta: ShapeMeta;
   warnings: string[];
 }
@@ -68,7 +72,7 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
     if (request.arcPositionDeg !== undefined) {
       meta.note = `arcPositionDeg ${request.arcPositionDeg} changes nothing for spherical drops: their bow is the same all along the arc`;
     }
-    return { shapes: Array.from(radiiUm, () => undefined), flattened: false, tracedShapes: 0, meta, warnings: [] };
+    return { shapes: Array.from(radiiUm, () => undefined), flattened: false, tracedShapes: 0, tracedPlanes: 0, meta, warnings: [] };
   }
   const arcPositionDeg = request.arcPositionDeg ?? DEFAULT_ARC_POSITION_DEG;
   const ownShapes = quantiseSpec({
@@ -86,8 +90,15 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
   const onNodes = shape.kind === "equilibrium" && deformationStep > 0 ? { ...ownShapes, deformationStep } : undefined;
   const nodeShapes = onNodes ? tracedShapeCount(onNodes, flattenedRadii) : Infinity;
   const spec = onNodes && nodeShapes < flattenedRadii.length ? onNodes : ownShapes;
-  const tracedShapes = spec === onNodes ? nodeShapes : tracedShapeCount(spec, flattenedRadii);
-  const shapes = Array.from(radiiUm, (r) => (flattens(r) ? spec : undefined));
+  // Large drops take the banded canting rule near a mirror plane (lib/bow/shaped-rows.ts BANDED_FROM_RADIUS_UM): a spec
+  // of their own, whose rows are keyed apart; they never share shape nodes (SHAPE_NODES_MAX_RADIUS_UM ≤ the threshold).
+  const bandSpec: ShapedRowSpec = { ...spec, cantingBand: true };
+  const banded = (r: number) =>
+    shape.kind === "equilibrium" ? r > BANDED_FROM_RADIUS_UM : outlineAxisRatio(outlineFor(spec, r)) < outlineAxisRatio(equilibriumOutline(BANDED_FROM_RADIUS_UM));
+  const shapes = Array.from(radiiUm, (r) => (flattens(r) ? (banded(r) ? bandSpec : spec) : undefined));
+  const groups = [spec, bandSpec].map((s) => ({ spec: s, radii: flattenedRadii.filter((r) => (s === bandSpec) === banded(r)) })).filter((g) => g.radii.length > 0);
+  const tracedShapes = groups.reduce((n, g) => n + tracedShapeCount(g.spec, g.radii), 0);
+  const tracedPlanes = groups.reduce((n, g) => n + tracedShapeCount(g.spec, g.radii) * planeCantingNodes(g.spec).length, 0);
   const ratios = flattenedRadii.length
     ? [flattenedRadii[0], flattenedRadii[flattenedRadii.length - 1]].map((r) => Math.round(outlineAxisRatio(outlineFor(spec, r)) * 1e4) / 1e4)
     : [];
@@ -104,7 +115,7 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
       upToRadiusUm: spec.deformationStep ? SHAPE_NODES_MAX_RADIUS_UM : null,
     },
     cantingSdDeg: shape.cantingSdDeg,
-    cantingSource: `default ${CANTING_SD_DEG}°: Huang, Bringi & Thurai 2008 measured 7–8°; five tilts traced (a 5-point rule exact to degree 3), their bows spread over the angles the whole Gaussian of tilts sends them to (BENCHMARKS.md, canting-spread)`,
+    cantingSource: `default ${CANTING_SD_DEG}°: Huang, Bringi & Thurai 2008 measured 7–8°; five tilts traced (a 5-point rule exact to degree 3), or for drops above ${BANDED_FROM_RADIUS_UM} µm radius within 2.5σ of tilt of the top or foot of the bow 3 tilts in the sun's plane × cells 1° wide across it, their bows spread over the angles the whole Gaussian of tilts sends them to (BENCHMARKS.md, canting-spread)`,
     arcPositionDeg: spec.arcPositionDeg,
     sunElevationDeg: spec.sunElevationDeg,
     quantisation: `kernel rows are keyed on the sun's elevation to ${SUN_ELEVATION_STEP_DEG}° and the arc position to ${ARC_POSITION_STEP_DEG}°`,
@@ -123,7 +134,7 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
       `the canting mean of drops above ${CANTING_MEAN_MEASURED_TO_RADIUS_UM} µm radius is approximate: against a dense grid of traced tilts it is off by 0.26 (1.5 mm) to 0.51 (2 mm) of the peak at the side of the bow, and at the top of the bow it has not been made to converge for 2 mm drops (BENCHMARKS.md canting-spread)`,
     );
   }
-  return { shapes, flattened: flattenedRadii.length > 0, tracedShapes, meta, warnings };
+  return { shapes, flattened: flattenedRadii.length > 0, tracedShapes, tracedPlanes, meta, warnings };
 }
 
 /**
@@ -147,9 +158,7 @@ export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
  * counts once, with its first order group (lib/bow/shaped-rows.ts shapedNodeRows), so the parts report these counts.
  */
 export function shapedPlaneCounts(plan: ShapePlan, wavelengths: number): ShapedPlaneCount {
-  const spec = plan.shapes.find((s) => s !== undefined);
-  if (!spec) return { traced: 0, interpolated: 0 };
-  const planes = plan.tracedShapes * planeCantingNodes(spec).length;
+  const planes = plan.tracedPlanes;
   return { traced: planes * INDEX_NODES, interpolated: planes * wavelengths };
 }
 

@@ -33,7 +33,7 @@ export const ORDER_GROUP_COST: readonly number[] = [0.34, 1, 1];
  * about one of the smallest parts of each other (Graham 1969, SIAM J. Appl. Math. 17, 416–429: at most 4/3 − 1/(3m) of
  * the best schedule on m threads; from memory).
  */
-export function shapedParts(spec: Pick<ShapedRowSpec, "cantingSdDeg" | "sunElevationDeg" | "arcPositionDeg">): ShapedPart[] {
+export function shapedParts(spec: Pick<ShapedRowSpec, "cantingSdDeg" | "sunElevationDeg" | "arcPositionDeg" | "cantingBand">): ShapedPart[] {
   // Every node costs alike: none is traced with its axis in the scattering plane (lib/bow/off-mirror-axis.ts), where
   // the plane was a mirror plane of the drop and its nodes took 1.25–1.3 times less (P4, before engine 17).
   const nodes = planeCantingNodes(spec);

@@ -53,10 +53,12 @@ describe("the banded canting rule near a mirror plane", () => {
       const a = turnedUp([-dIn[0], -dIn[1], -dIn[2]], delta);
       expect(mirrorTiltDeg({ sunElevationDeg, arcPositionDeg })).toBeCloseTo(Math.atan2(a[1], a[2]) / DEG, 10);
     }
-    // Far from a mirror plane the five-node rule stays.
-    expect(placeCantingRule({ cantingSdDeg: SD, sunElevationDeg: 10, arcPositionDeg: 45 }).banded).toBeNull();
-    expect(placeCantingRule({ cantingSdDeg: SD, sunElevationDeg: 10, arcPositionDeg: 10 }).banded).not.toBeNull();
-    expect(placeCantingRule({ cantingSdDeg: 0, sunElevationDeg: 10, arcPositionDeg: 0 }).banded).toBeNull();
+    // Far from a mirror plane the five-node rule stays, and where the spec does not ask for the band (smaller drops).
+    const band = { cantingSdDeg: SD, sunElevationDeg: 10, cantingBand: true };
+    expect(placeCantingRule({ ...band, arcPositionDeg: 45 }).banded).toBeNull();
+    expect(placeCantingRule({ ...band, arcPositionDeg: 10 }).banded).not.toBeNull();
+    expect(placeCantingRule({ ...band, arcPositionDeg: 0, cantingSdDeg: 0 }).banded).toBeNull();
+    expect(placeCantingRule({ ...band, arcPositionDeg: 0, cantingBand: undefined }).banded).toBeNull();
   });
 
   it("rests on rotation invariance: a drop turned about the sunlight by δ scatters into the plane at A what the upright drop sends to A − δ", () => {
@@ -106,7 +108,7 @@ describe("the banded canting rule near a mirror plane", () => {
     const x = (2 * Math.PI * radiusUm) / 0.55;
     const thetaDeg = Float64Array.from({ length: 700 }, (_, j) => 118.025 + step * j);
     const disc = sunDiscKernel(SUN_MEAN_ANGULAR_DIAMETER_DEG, step);
-    const [row] = shapedRows({ kind: "equilibrium", cantingSdDeg: SD, sunElevationDeg: 10, arcPositionDeg: 0, rayOnly: false, traceEveryIndex: true }, [{ radiusUm, mRe: n, x }], thetaDeg, step);
+    const [row] = shapedRows({ kind: "equilibrium", cantingSdDeg: SD, sunElevationDeg: 10, arcPositionDeg: 0, rayOnly: false, traceEveryIndex: true, cantingBand: true }, [{ radiusUm, mRe: n, x }], thetaDeg, step);
     const mine = convolveProfile(row.perp.map((v, j) => (v + row.par[j]) / (x * x)), disc);
     const pupil = convolveProfile(pupilCantingRow(equilibriumOutline(radiusUm), n, 10, 0, SD, 118, step, 700, { du: 0.01, elevationStepDeg: 1, spanSd: 3.5 }), disc);
     let summed = 0;

@@ -10,15 +10,27 @@ describe("canting nodes of one place on the bow", () => {
 
   it("merge the two nodes tilted across a vertical scattering plane (top and foot of the bow), keeping the spread's moments", () => {
     for (const arcPositionDeg of [0, 180]) {
-      const rule = placeCantingRule({ cantingSdDeg: sd, sunElevationDeg: 20, arcPositionDeg });
       const nodes = planeCantingNodes({ cantingSdDeg: sd, sunElevationDeg: 20, arcPositionDeg });
-      // There the banded rule (a mirror plane), whose nodes across the plane come in mirror pairs: half of them traced.
+      expect(nodes.length).toBe(4);
+      // The merged node carries both weights, so the rule keeps the Gaussian's moments: Σw = 1, Σw·tilt² = σ² in each
+      // plane of tilt (normal density, Abramowitz & Stegun 1964 Eq. 26.1.26 moments), and ⟨tiltY⟩ = 0 by the mirror.
+      expect(nodes.reduce((s, n) => s + n.weight, 0)).toBeCloseTo(1, 14);
+      expect(nodes.reduce((s, n) => s + n.weight * n.tiltXDeg ** 2, 0)).toBeCloseTo(sd * sd, 10);
+      expect(nodes.reduce((s, n) => s + n.weight * n.tiltYDeg ** 2, 0)).toBeCloseTo(sd * sd, 10);
+      expect(nodes.reduce((s, n) => s + n.weight * n.tiltXDeg, 0)).toBeCloseTo(0, 12);
+    }
+  });
+
+  it("merge the banded rule's nodes across the plane in mirror pairs (large drops at the top and foot of the bow)", () => {
+    for (const arcPositionDeg of [0, 180]) {
+      const place = { cantingSdDeg: sd, sunElevationDeg: 20, arcPositionDeg, cantingBand: true };
+      const rule = placeCantingRule(place);
+      const nodes = planeCantingNodes(place);
       expect(rule.banded).not.toBeNull();
       expect(nodes.length).toBe(rule.nodes.length / 2);
-      // The merged node carries both weights, so the rule keeps the Gaussian's moments in the sun's plane: Σw = 1,
-      // Σw·tilt² = σ² (the 3-point Gauss–Hermite rule's, exact; normal density, Abramowitz & Stegun 1964 Eq. 26.1.26
-      // moments), ⟨tiltX⟩ = 0. Across, the cells' centroids give 52.4 of σ² = 56.25 (the outer cells' spread is in
-      // their kernels, lib/bow/canting-band-spread.ts).
+      // Σw = 1, Σw·tilt² = σ² in the sun's plane (the 3-point Gauss–Hermite rule's, exact; normal density, Abramowitz
+      // & Stegun 1964 Eq. 26.1.26 moments), ⟨tiltX⟩ = 0. Across, the cells' centroids give 52.4 of σ² = 56.25 (the outer
+      // cells' spread is in their kernels, lib/bow/canting-band-spread.ts).
       expect(nodes.reduce((s, n) => s + n.weight, 0)).toBeCloseTo(1, 10);
       expect(nodes.reduce((s, n) => s + n.weight * n.tiltXDeg ** 2, 0)).toBeCloseTo(sd * sd, 8);
       expect(nodes.reduce((s, n) => s + n.weight * n.tiltXDeg, 0)).toBeCloseTo(0, 12);

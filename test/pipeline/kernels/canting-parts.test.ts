@@ -27,10 +27,12 @@ describe("shaped parts", () => {
     for (const p of parts) expect(p.node === undefined).toBe(isBowGroup(p.group));
     expect(parts.reduce((s, p) => s + p.share, 0)).toBeCloseTo(1, 12);
     for (let k = 1; k < parts.length; k++) expect(parts[k].share).toBeLessThanOrEqual(parts[k - 1].share);
-    // At the top the banded rule's nodes across the scattering plane are mirror images in pairs: half of them traced
-    // (lib/bow/plane-canting-nodes.ts).
-    expect(shapedParts(top).length).toBe(planeCantingNodes(top).length + bowGroups);
-    expect(planeCantingNodes(top).length).toBe(placeCantingRule(top).nodes.length / 2);
+    // At the top the two nodes tilted out of the scattering plane are mirror images: one node; of the banded rule
+    // (large drops), the nodes across the plane in pairs: half of them traced (lib/bow/plane-canting-nodes.ts).
+    expect(shapedParts(top).length).toBe(4 + bowGroups);
+    const banded = { ...top, cantingBand: true };
+    expect(shapedParts(banded).length).toBe(planeCantingNodes(banded).length + bowGroups);
+    expect(planeCantingNodes(banded).length).toBe(placeCantingRule(banded).nodes.length / 2);
     // Upright drops: one node, its three groups.
     expect(shapedParts({ ...top, cantingSdDeg: 0 }).map((p) => p.node)).toEqual([undefined, undefined, 0]);
   });
@@ -38,7 +40,7 @@ describe("shaped parts", () => {
   it("put first the bow groups (the costly ones), then each node's reflection, every node alike", () => {
     // No node is traced with its axis in the scattering plane (lib/bow/off-mirror-axis.ts): every node's reflection
     // costs the same, at the top of the bow as at its side with the sun on the horizon.
-    for (const place of [top, { ...top, sunElevationDeg: 0, arcPositionDeg: 90 }]) {
+    for (const place of [top, { ...top, cantingBand: true }, { ...top, sunElevationDeg: 0, arcPositionDeg: 90 }]) {
       const parts = shapedParts(place);
       expect(new Set(parts.slice(0, 2).map((p) => p.group))).toEqual(new Set([1, 2]));
       const reflection = parts.slice(2);
@@ -128,10 +130,8 @@ describe("which tasks are split", () => {
     return seen;
   }
 
-  it("with fewer than 8 shapes a thread each shape is split in its parts (17 at the top of the bow); with 8 or more, or one thread, a task a shape", async () => {
-    // At the top: 15 traced nodes of the banded rule (reflection one part each) and the two bow groups.
-    expect(shapedParts({ cantingSdDeg: 7.5, sunElevationDeg: 10, arcPositionDeg: 0 }).length).toBe(17);
-    expect((await tasksFor(15, 2)).length).toBe(15 * 17);
+  it("with fewer than 8 shapes a thread each shape is split in its parts (6 at the top of the bow); with 8 or more, or one thread, a task a shape", async () => {
+    expect((await tasksFor(15, 2)).length).toBe(15 * 6);
     expect((await tasksFor(16, 2)).length).toBe(16);
     expect((await tasksFor(3, 1)).length).toBe(3);
   });
