@@ -86,8 +86,8 @@ describe("the banded canting rule of large drops", () => {
   });
 });
 
-// The canting mean's measured reach (BENCHMARKS.md canting-spread: within 0.21 of a dense tilt grid's peak up to 1 mm
-// radius, 0.26–0.51 at 1.5–2 mm at the side of the bow): larger canted drops are flagged, upright or smaller ones not.
+// The canting mean's measured reach (BENCHMARKS.md canting-spread: within 0.22 of the peak of brute force over the pupil
+// up to 1 mm radius, 0.26 at 1.5 mm and 0.60 at 2 mm): larger canted drops are flagged, upright or smaller ones not.
 describe("the warning on the canting mean of large drops", () => {
   const plan = (radiusUm: number, cantingSdDeg?: number) =>
     planDropShapes(
