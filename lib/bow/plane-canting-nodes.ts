@@ -65,16 +65,16 @@ export function placeCantingRule(spec: PlaceOnBow): { nodes: CantingNode[]; band
 
 /** placeCantingRule(spec)'s nodes with nodes that are mirror images through the spec's scattering plane merged. */
 export function planeCantingNodes(spec: PlaceOnBow): CantingNode[] {
-  return mergeMirrorImages(spec).nodes;
+  return planeCantingRule(spec).nodes;
 }
 
-/** For each node of placeCantingRule(spec), the index of the planeCantingNodes(spec) node that carries it. */
-export function planeCantingNodeOf(spec: PlaceOnBow): number[] {
-  return mergeMirrorImages(spec).of;
+/** The place's rule (placeCantingRule), its nodes with mirror images merged (nodes) and, for each rule node, the merged node that carries it (of). */
+export function planeCantingRule(spec: PlaceOnBow): { rule: ReturnType<typeof placeCantingRule>; nodes: CantingNode[]; of: number[] } {
+  const rule = placeCantingRule(spec);
+  return { rule, ...mergeMirrorImages(spec, rule.nodes) };
 }
 
-function mergeMirrorImages(spec: PlaceOnBow): { nodes: CantingNode[]; of: number[] } {
-  const nodes = placeCantingRule(spec).nodes;
+function mergeMirrorImages(spec: PlaceOnBow, nodes: readonly CantingNode[]): { nodes: CantingNode[]; of: number[] } {
   const { dIn, e } = bowScatteringPlane(spec.sunElevationDeg, spec.arcPositionDeg);
   const normal = cross(dIn, e);
   const axes = nodes.map((node) => cantedAxis(node.tiltXDeg, node.tiltYDeg));

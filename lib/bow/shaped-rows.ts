@@ -5,7 +5,7 @@ import { equilibriumOutline, SHAPE_TABLE_MAX_DIAMETER_MM } from "../drops/shape/
 import { spheroidOutline, type DropOutline } from "../drops/shape/outline.js";
 import { shapeNodeWeights } from "../drops/shape/shape-nodes.js";
 import { bowScatteringPlane, cantedAxis } from "../rays/bow-geometry.js";
-import { placeCantingRule, planeCantingNodeOf, planeCantingNodes } from "./plane-canting-nodes.js";
+import { planeCantingNodes, planeCantingRule } from "./plane-canting-nodes.js";
 import { bandedCantingMean } from "./canting-band-spread.js";
 import { localCantingMean } from "./canting-spread.js";
 import { offMirrorAxis } from "./off-mirror-axis.js";
@@ -644,10 +644,8 @@ export function shapedMeanRows(
   const count = thetaDeg.length;
   const pad = Math.round(BOW_GROUP_PAD_DEG / stepDeg);
   const padded = paddedGrid(thetaDeg, stepDeg, pad);
-  const rule = placeCantingRule(spec);
+  const { rule, nodes: planeNodes, of: shareOf } = planeCantingRule(spec);
   const nodes = rule.nodes;
-  const planeNodes = planeCantingNodes(spec);
-  const shareOf = planeCantingNodeOf(spec);
   for (const group of orderGroupsOf(spec)) {
     const bow = isBowGroup(group);
     const computed = shapedNodeRows({ ...spec, orderGroup: group }, drops, bow ? padded : thetaDeg, stepDeg);

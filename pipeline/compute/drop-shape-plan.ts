@@ -92,8 +92,8 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
   // Large drops take the banded canting rule near a mirror plane (lib/bow/shaped-rows.ts BANDED_FROM_RADIUS_UM): a spec
   // of their own, whose rows are keyed apart; they never share shape nodes (SHAPE_NODES_MAX_RADIUS_UM ≤ the threshold).
   const bandSpec: ShapedRowSpec = { ...spec, cantingBand: true };
-  const banded = (r: number) =>
-    shape.kind === "equilibrium" ? r > BANDED_FROM_RADIUS_UM : outlineAxisRatio(outlineFor(spec, r)) < outlineAxisRatio(equilibriumOutline(BANDED_FROM_RADIUS_UM));
+  const spheroidBanded = shape.kind === "spheroid" && shape.axisRatio < outlineAxisRatio(equilibriumOutline(BANDED_FROM_RADIUS_UM));
+  const banded = (r: number) => (shape.kind === "equilibrium" ? r > BANDED_FROM_RADIUS_UM : spheroidBanded);
   const shapes = Array.from(radiiUm, (r) => (flattens(r) ? (banded(r) ? bandSpec : spec) : undefined));
   const groups = [spec, bandSpec].map((s) => ({ spec: s, radii: flattenedRadii.filter((r) => (s === bandSpec) === banded(r)) })).filter((g) => g.radii.length > 0);
   const tracedShapes = groups.reduce((n, g) => n + tracedShapeCount(g.spec, g.radii), 0);
