@@ -76,7 +76,8 @@ export function bandSpreadKernels(rule: BandedCantingRule, foldsDeg: readonly nu
 /**
  * The canting mean of one order's shares over the banded rule (each share already weighted by its node's weight),
  * written into out: each share spread by its node's bandSpreadKernels kernel. shareOf[k]: the index into shares of
- * node k's share (mirror images share one: lib/bow/plane-canting-nodes.ts).
+ * node k's share (mirror images share one: lib/bow/plane-canting-nodes.ts). Always true: a node without folds is left
+ * unspread, where localCantingMean gives up (the same signature, so that the caller picks either).
  */
 export function bandedCantingMean(
   shares: readonly { perp: Float64Array; par: Float64Array }[],
@@ -86,6 +87,7 @@ export function bandedCantingMean(
   sdDeg: number,
   stepDeg: number,
   out: { perp: Float64Array; par: Float64Array },
-): void {
+): boolean {
   addSpreadShares(shares, shareOf, rule.nodes, bandSpreadKernels(rule, foldsDeg, sdDeg, stepDeg), out);
+  return true;
 }

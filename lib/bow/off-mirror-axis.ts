@@ -17,6 +17,7 @@
 // from its neighbourhood.
 
 import type { ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
+import { cross, dot } from "../view/vectors.js";
 
 const DEG = Math.PI / 180;
 
@@ -29,11 +30,11 @@ export const MIRROR_OFFSET_DEG = 0.125;
  */
 export function offMirrorAxis(axis: Readonly<Vec3>, plane: ScatteringPlane): Vec3 {
   const { dIn, e } = plane;
-  const normal: Vec3 = [dIn[1] * e[2] - dIn[2] * e[1], dIn[2] * e[0] - dIn[0] * e[2], dIn[0] * e[1] - dIn[1] * e[0]];
-  const along = axis[0] * dIn[0] + axis[1] * dIn[1] + axis[2] * dIn[2];
+  const normal = cross(dIn, e);
+  const along = dot(axis, dIn);
   // The axis's part across d_in, in the frame (e, N) of the plane ⟂ d_in.
-  const ae = axis[0] * e[0] + axis[1] * e[1] + axis[2] * e[2];
-  const an = axis[0] * normal[0] + axis[1] * normal[1] + axis[2] * normal[2];
+  const ae = dot(axis, e);
+  const an = dot(axis, normal);
   const across = Math.hypot(ae, an);
   const azimuth = Math.atan2(an, ae);
   // Distance of the azimuth from the plane's two directions, 0 and π.

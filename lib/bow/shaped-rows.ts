@@ -663,7 +663,9 @@ export function shapedMeanRows(
       const spread =
         planeNodes.length > 1 &&
         cantingMean === "spread" &&
-        (rule.banded ? (bandedCantingMean(shares, shareOf, rule.banded, folds, spec.cantingSdDeg, stepDeg, out), true) : localCantingMean(shares, shareOf, nodes, folds, spec.cantingSdDeg, stepDeg, out));
+        (rule.banded
+          ? bandedCantingMean(shares, shareOf, rule.banded, folds, spec.cantingSdDeg, stepDeg, out)
+          : localCantingMean(shares, shareOf, nodes, folds, spec.cantingSdDeg, stepDeg, out));
       if (!spread) {
         perp.fill(0);
         par.fill(0);
