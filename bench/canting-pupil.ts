@@ -14,6 +14,7 @@ import type { DropOutline } from "../lib/drops/shape/outline.js";
 import { bowScatteringPlane } from "../lib/rays/bow-geometry.js";
 import { AT, ORDER_STRIDE } from "../lib/rays/shape-tracer.js";
 import { tracedPower } from "./in-plane-brute.js";
+import { tiltDensity } from "../lib/drops/shape/tilt-density.js";
 
 const DEG = Math.PI / 180;
 
@@ -24,33 +25,6 @@ export interface PupilCantingGrid {
   elevationStepDeg: number;
   /** Elevations over ±spanSd·σ about the sun's own. */
   spanSd: number;
-}
-
-/** The tilts (tx, ty: cantedAxis's, degrees) of the axis at elevation h′ of the sun above the drop's equator and azimuth δ about d_in. */
-function tiltsOf(sunElevationDeg: number, relativeElevationDeg: number, azimuthDeg: number): [number, number, number] {
-  const h = sunElevationDeg * DEG;
-  const e = relativeElevationDeg * DEG;
-  const d = azimuthDeg * DEG;
-  // a = sin h′·(−d_in) + cos h′·(cos δ·t̂ + sin δ·ŷ), t̂ = (sin h, 0, cos h) the upward unit vector ⟂ d_in (bow-geometry.ts).
-  const ax = -Math.sin(e) * Math.cos(h) + Math.cos(e) * Math.cos(d) * Math.sin(h);
-  const ay = Math.cos(e) * Math.sin(d);
-  const az = Math.sin(e) * Math.sin(h) + Math.cos(e) * Math.cos(d) * Math.cos(h);
-  return [Math.atan2(ax, az) / DEG, Math.atan2(ay, az) / DEG, az];
-}
-
-/** Density of (h′, δ) per degree², from the tilts' Gaussian and the Jacobian ∂(tx, ty)/∂(h′, δ) (central differences). */
-export function tiltDensity(sunElevationDeg: number, sdDeg: number, relativeElevationDeg: number, azimuthDeg: number): number {
-  const [tx, ty, az] = tiltsOf(sunElevationDeg, relativeElevationDeg, azimuthDeg);
-  // Axes below the horizontal are not tilts of a falling drop.
-  if (az <= 0) return 0;
-  const k = 1e-4;
-  const [x1, y1] = tiltsOf(sunElevationDeg, relativeElevationDeg + k, azimuthDeg);
-  const [x0, y0] = tiltsOf(sunElevationDeg, relativeElevationDeg - k, azimuthDeg);
-  const [x3, y3] = tiltsOf(sunElevationDeg, relativeElevationDeg, azimuthDeg + k);
-  const [x2, y2] = tiltsOf(sunElevationDeg, relativeElevationDeg, azimuthDeg - k);
-  const jacobian = Math.abs((x1 - x0) * (y3 - y2) - (x3 - x2) * (y1 - y0)) / (4 * k * k);
-  const gauss = (t: number) => Math.exp(-(t * t) / (2 * sdDeg * sdDeg)) / (sdDeg * Math.sqrt(2 * Math.PI));
-  return gauss(tx) * gauss(ty) * jacobian;
 }
 
 /**

@@ -17,6 +17,7 @@ import { bowScatteringPlane, cantedAxis } from "../lib/rays/bow-geometry.js";
 import { convolveProfile, sunDiscKernel, SUN_MEAN_ANGULAR_DIAMETER_DEG } from "../lib/sun/disc.js";
 import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
 import { pupilCantingRow, type PupilCantingGrid } from "./canting-pupil.js";
+import { rowErrors } from "./row-errors.js";
 
 const SD_DEG = 7.5;
 /**
@@ -80,19 +81,7 @@ function bruteForce(radiusUm: number, arcPositionDeg: number, x: number): Float6
   return seen(sum.perp.map((v) => v / total), sum.par.map((v) => v / total));
 }
 
-function errors(row: Float64Array, reference: Float64Array): { worst: number; summed: number } {
-  let peak = 0;
-  for (let j = FROM; j < TO; j++) peak = Math.max(peak, reference[j]);
-  let worst = 0;
-  let summed = 0;
-  let total = 0;
-  for (let j = FROM; j < TO; j++) {
-    worst = Math.max(worst, Math.abs(row[j] - reference[j]) / peak);
-    summed += Math.abs(row[j] - reference[j]);
-    total += reference[j];
-  }
-  return { worst, summed: summed / total };
-}
+const errors = (row: Float64Array, reference: Float64Array) => rowErrors(row, reference, FROM, TO);
 
 const rows: string[] = [];
 for (const { radiusUm, arcPositionDeg } of CASES) {

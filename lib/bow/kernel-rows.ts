@@ -8,7 +8,7 @@ import { dropRow, dropRowContext, waveNumberPerM, type CellAverage } from "./dro
 import { mieLatticeRows } from "./mie-lattice-rows.js";
 import type { MieSampling } from "./mie-sub-lattice.js";
 import type { DropMedium } from "../water/drop-medium.js";
-import { shapeGroupKey, shapedMeanRows, shapedNodeRows, shapedVariant, type ShapedPlaneCount, type ShapedRowSpec } from "./shaped-rows.js";
+import { rotationMeanRows, shapeGroupKey, shapedMeanRows, shapedNodeRows, shapedVariant, type ShapedPlaneCount, type ShapedRowSpec } from "./shaped-rows.js";
 import { orderVariant } from "./scattering-orders.js";
 import { RowArena } from "./row-arena.js";
 
@@ -20,7 +20,8 @@ export interface KernelRowsInput {
   h: number;
   /**
    * medium: a flattened drop's own wavelength when the task holds several (shaped items only; else `medium`).
-   * cantingNode: a flattened drop's share from that canting node alone (an index into planeCantingNodes(shape)), for a
+   * cantingNode: a flattened drop's share from that canting node alone (an index into planeCantingNodes(shape); with
+   * shape.cantingRotation, that slice of ROTATION_SLICES), for a
    * part of a task split in parts (pipeline/kernels/canting-parts.ts: the order group without a bow, node by node);
    * else the canting mean of its order groups.
    */
@@ -161,9 +162,11 @@ function shapedItemRows(
       const own = item.medium ?? medium;
       return { radiusUm: item.radiusUm, mRe: own.mRe, x: waveNumberPerM(own) * item.radiusUm * 1e-6 };
     });
-    // One canting node's share (a part of a split task: the group without a bow), else the canting mean's pieces.
-    const computed =
-      first.cantingNode === undefined
+    // The canting mean by rotation (its slice of elevations, in a split task), one canting node's share (a part of a
+    // split task: the group without a bow), else the canting mean's pieces.
+    const computed = first.shape!.cantingRotation
+      ? rotationMeanRows(first.shape!, drops, thetaDeg, h, first.cantingNode)
+      : first.cantingNode === undefined
         ? shapedMeanRows(first.shape!, drops, thetaDeg, h)
         : (({ rows, planes }) => ({ pieces: rows, planes }))(shapedNodeRows(first.shape!, drops, thetaDeg, h, [first.cantingNode]));
     planes.traced += computed.planes.traced;

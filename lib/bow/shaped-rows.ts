@@ -9,6 +9,7 @@ import { planeCantingNodes, planeCantingRule } from "./plane-canting-nodes.js";
 import { bandedCantingMean } from "./canting-band-spread.js";
 import { localCantingMean } from "./canting-spread.js";
 import { offMirrorAxis } from "./off-mirror-axis.js";
+import { ROTATION_SLICES, rotationCantingRows } from "./canting-rotation.js";
 import type { CantingNode } from "../drops/shape/canting.js";
 import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
 import type { PlaneSweep, ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
@@ -93,6 +94,12 @@ export interface ShapedRowSpec {
    * absent: the five-node rule everywhere. The service sets it for drops above BANDED_FROM_RADIUS_UM.
    */
   cantingBand?: boolean;
+  /**
+   * True: the canting mean is taken by rotation over the upright drop's pupil (lib/bow/canting-rotation.ts), every
+   * order at once, with no canting nodes. The service sets it for drops above ROTATION_FROM_RADIUS_UM canted by at
+   * least ROTATION_MIN_CANTING_SD_DEG.
+   */
+  cantingRotation?: boolean;
 }
 
 /**
@@ -103,6 +110,17 @@ export interface ShapedRowSpec {
  * within 19° of it): at 1 mm and below the gain does not pay for 3.75–8 times the planes.
  */
 export const BANDED_FROM_RADIUS_UM = 1000;
+
+/**
+ * Drops above this radius take the canting mean by rotation (ShapedRowSpec.cantingRotation) where the drops are canted
+ * by at least ROTATION_MIN_CANTING_SD_DEG: against brute force over the pupil (550 nm, canting 7.5°, after the sun's
+ * disc, BENCHMARKS.md canting-splat), worst share of the peak / summed, 2 mm drops at the top of the bow 0.596 / 0.251
+ * with the banded rule and 0.056 / 0.023 by rotation, at the side 0.502 / 0.377 with the five-node rule and 0.043 /
+ * 0.019; 1.5 mm at the side 0.257 / 0.104 and 0.093 / 0.035. It is ray optics, whose error grows as drops shrink (the
+ * bows' wave structure) while the rules' shrinks: at 1 mm at the side the five-node rule's 0.110 / 0.053 beat the same
+ * pupil step's 0.207 / 0.091, so the rules keep drops up to 1 mm.
+ */
+export const ROTATION_FROM_RADIUS_UM = 1000;
 
 /**
  * The scattering orders of a flattened drop's row in the groups it is computed in, each group's share on its own (its
@@ -124,7 +142,9 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (19: the banded rule
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (20: drops above
+ * ROTATION_FROM_RADIUS_UM canted by at least ROTATION_MIN_CANTING_SD_DEG take the canting mean by rotation over the
+ * upright drop's pupil (lib/bow/canting-rotation.ts); 19: the banded rule
  * for drops above BANDED_FROM_RADIUS_UM only (ShapedRowSpec.cantingBand); 18: near a mirror
  * plane (within 2.5σ of tilt across it of the top or foot of the bow) the canting mean takes the banded rule, 1°-wide
  * cells of tilt across the plane (lib/bow/plane-canting-nodes.ts placeCantingRule, lib/bow/canting-band-spread.ts):
@@ -159,7 +179,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 19;
+export const SHAPED_ENGINE_VERSION = 20;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -168,7 +188,7 @@ export function shapedRowKey(spec: ShapedRowSpec): string {
   const span = spec.indexSpan ? `:n${spec.indexSpan.min}-${spec.indexSpan.max}` : "";
   // A group's share is not a row: it never shares a key with one.
   const group = spec.orderGroup === undefined ? "" : `:g${spec.orderGroup}`;
-  const band = spec.cantingBand ? ":band" : "";
+  const band = spec.cantingRotation ? ":rot" : spec.cantingBand ? ":band" : "";
   return `shape${SHAPED_ENGINE_VERSION}:${shape}:c${spec.cantingSdDeg}${band}:s${spec.sunElevationDeg}:a${spec.arcPositionDeg}:${spec.rayOnly ? "rays" : "airy"}${span}${direct}${group}`;
 }
 
@@ -682,6 +702,32 @@ export function shapedMeanRows(
   return { pieces, planes };
 }
 
+/**
+ * The canting mean by rotation (ShapedRowSpec.cantingRotation) of drops of one shape at their wavelengths: one piece per
+ * drop with every order, over the relative sun elevations of `slice` of ROTATION_SLICES (all when undefined; a kernel
+ * task split in parts, pipeline/kernels/canting-parts.ts, adds the slices' pieces in order, as this does).
+ */
+export function rotationMeanRows(
+  spec: ShapedRowSpec,
+  drops: readonly ShapedDrop[],
+  thetaDeg: Float64Array,
+  stepDeg: number,
+  slice?: number,
+): { pieces: { perp: Float64Array; par: Float64Array }[][]; planes: ShapedPlaneCount } {
+  const setup = {
+    outline: outlineFor(spec, drops[0].radiusUm),
+    sunElevationDeg: spec.sunElevationDeg,
+    cantingSdDeg: spec.cantingSdDeg,
+    arcPositionDeg: spec.arcPositionDeg,
+    indexSpan: spec.indexSpan ?? WATER_INDEX_RANGE,
+  };
+  if (drops.some((d) => d.radiusUm !== drops[0].radiusUm) && spec.kind !== "spheroid") throw new RangeError("the canting mean by rotation takes drops of one shape");
+  const slices = slice === undefined ? Array.from({ length: ROTATION_SLICES }, (_, k) => k) : [slice];
+  const pieces = drops.map((): { perp: Float64Array; par: Float64Array }[] => []);
+  for (const k of slices) rotationCantingRows(setup, drops, thetaDeg, stepDeg, k).forEach((row, d) => pieces[d].push(row));
+  return { pieces, planes: { traced: 0, interpolated: 0 } };
+}
+
 /** The canting mean of |S1|², |S2|² (shapedMeanRows' pieces added in their order). */
 export function shapedRows(
   spec: ShapedRowSpec,
@@ -690,7 +736,8 @@ export function shapedRows(
   stepDeg: number,
   cantingMean: CantingMean = "spread",
 ): { perp: Float64Array; par: Float64Array }[] {
-  return shapedMeanRows(spec, drops, thetaDeg, stepDeg, cantingMean).pieces.map((shares) => {
+  const mean = spec.cantingRotation ? rotationMeanRows(spec, drops, thetaDeg, stepDeg) : shapedMeanRows(spec, drops, thetaDeg, stepDeg, cantingMean);
+  return mean.pieces.map((shares) => {
     const perp = new Float64Array(thetaDeg.length);
     const par = new Float64Array(thetaDeg.length);
     for (const share of shares) {

@@ -9,9 +9,10 @@
 import { planeCantingNodes } from "../../lib/bow/plane-canting-nodes.js";
 import { isBowGroup, SHAPED_ORDER_GROUPS, shapedRowKey, type ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 import type { KernelTask, KernelTaskResult } from "./kernel-types.js";
+import { ROTATION_SLICES, rotationElevationsDeg } from "../../lib/bow/canting-rotation.js";
 
 export interface ShapedPart {
-  /** Index into planeCantingNodes(spec); undefined: every node (a bow group's part). */
+  /** Index into planeCantingNodes(spec), or the slice of the canting mean by rotation; undefined: every node (a bow group's part). */
   node?: number;
   /** Index into SHAPED_ORDER_GROUPS. */
   group: number;
@@ -33,7 +34,14 @@ export const ORDER_GROUP_COST: readonly number[] = [0.34, 1, 1];
  * about one of the smallest parts of each other (Graham 1969, SIAM J. Appl. Math. 17, 416–429: at most 4/3 − 1/(3m) of
  * the best schedule on m threads; from memory).
  */
-export function shapedParts(spec: Pick<ShapedRowSpec, "cantingSdDeg" | "sunElevationDeg" | "arcPositionDeg" | "cantingBand">): ShapedPart[] {
+export function shapedParts(spec: Pick<ShapedRowSpec, "cantingSdDeg" | "sunElevationDeg" | "arcPositionDeg" | "cantingBand" | "cantingRotation">): ShapedPart[] {
+  // The canting mean by rotation: every order at once, in slices of the sun's relative elevations of about equal cost
+  // (each slice traces the whole pupil at each of its elevations); `node` is the slice.
+  if (spec.cantingRotation) {
+    const sizes = Array.from({ length: ROTATION_SLICES }, (_, k) => rotationElevationsDeg(spec.cantingSdDeg, k).length);
+    const total = sizes.reduce((a, b) => a + b, 0);
+    return sizes.map((size, node) => ({ node, group: 0, share: size / total })).filter((p) => p.share > 0);
+  }
   // Every node costs alike: none is traced with its axis in the scattering plane (lib/bow/off-mirror-axis.ts), where
   // the plane was a mirror plane of the drop and its nodes took 1.25–1.3 times less (P4, before engine 17).
   const nodes = planeCantingNodes(spec);

@@ -68,26 +68,60 @@ describe("which drops are flattened, where on the bow, and at what cost", () => 
   });
 });
 
-// Drops above 1 mm radius take the banded canting rule near a mirror plane (lib/bow/shaped-rows.ts BANDED_FROM_RADIUS_UM,
-// measured in bench/canting-spread.ts): their spec asks for it and their planes are counted with its nodes.
+// Drops above 1 mm radius canted less than ROTATION_MIN_CANTING_SD_DEG take the banded canting rule near a mirror
+// plane (lib/bow/shaped-rows.ts BANDED_FROM_RADIUS_UM, measured in bench/canting-spread.ts): their spec asks for it and
+// their planes are counted with its nodes.
 describe("the banded canting rule of large drops", () => {
   const at = (radiiUm: number[], arcPositionDeg: number) =>
-    planDropShapes(profileRequestSchema.parse({ drops: { kind: "monodisperse", radiusUm: radiiUm[0], shape: { kind: "equilibrium" } }, arcPositionDeg }), Float64Array.from(radiiUm));
-  it("is asked for above 1 mm radius only, and priced with its nodes: 15 planes at the top against the five-node rule's 4", () => {
+    planDropShapes(
+      profileRequestSchema.parse({ drops: { kind: "monodisperse", radiusUm: radiiUm[0], shape: { kind: "equilibrium", cantingSdDeg: 1.5 } }, arcPositionDeg }),
+      Float64Array.from(radiiUm),
+    );
+  it("is asked for above 1 mm radius only, and priced with its nodes: at canting 1.5° 12 planes at the top against the five-node rule's 4", () => {
     const top = at([1000, 2000], 0);
     expect(top.shapes.map((s) => s?.cantingBand === true)).toEqual([false, true]);
     expect(top.tracedShapes).toBe(2);
-    expect(top.tracedPlanes).toBe(4 + 15);
-    expect(shapedPlaneCounts(top, 6)).toEqual({ traced: 19 * INDEX_NODES, interpolated: 19 * 6 });
+    expect(top.tracedPlanes).toBe(4 + 12);
+    expect(shapedPlaneCounts(top, 6)).toEqual({ traced: 16 * INDEX_NODES, interpolated: 16 * 6 });
     // At the side of the bow both take the five-node rule.
     expect(at([1000, 2000], 90).tracedPlanes).toBe(10);
     // Its rows are keyed apart.
     expect(shapedRowKey(top.shapes[1]!)).not.toBe(shapedRowKey({ ...top.shapes[1]!, cantingBand: undefined }));
+    expect(top.rotationShapes).toBe(0);
   });
 });
 
-// The canting mean's measured reach (BENCHMARKS.md canting-spread: within 0.22 of the peak of brute force over the pupil
-// up to 1 mm radius, 0.26 at 1.5 mm and 0.60 at 2 mm): larger canted drops are flagged, upright or smaller ones not.
+// Drops above 1 mm radius canted by at least ROTATION_MIN_CANTING_SD_DEG take the canting mean by rotation over the
+// pupil (lib/bow/canting-rotation.ts, measured in bench/canting-splat.ts): no planes, their own key and price.
+describe("the canting mean by rotation of large drops", () => {
+  const at = (radiiUm: number[], cantingSdDeg?: number) =>
+    planDropShapes(
+      profileRequestSchema.parse({
+        drops: { kind: "monodisperse", radiusUm: radiiUm[0], shape: { kind: "equilibrium", ...(cantingSdDeg === undefined ? {} : { cantingSdDeg }) } },
+        arcPositionDeg: 0,
+      }),
+      Float64Array.from(radiiUm),
+    );
+  it("is asked for above 1 mm radius at the default canting, with no planes traced, keyed and priced apart", () => {
+    const plan = at([1000, 2000]);
+    expect(plan.shapes.map((s) => s?.cantingRotation === true)).toEqual([false, true]);
+    expect(plan.shapes[1]!.cantingBand).toBeUndefined();
+    expect(plan.rotationShapes).toBe(1);
+    expect(plan.tracedPlanes).toBe(4);
+    expect(shapedRowKey(plan.shapes[1]!)).not.toBe(shapedRowKey({ ...plan.shapes[1]!, cantingRotation: undefined }));
+    expect(shapedCostTermAngles(plan, 41, 600)).toBeGreaterThan(shapedCostTermAngles(at([1000]), 41, 600) + 7e9);
+    expect(plan.meta.cantingSource).toMatch(/rotation over the upright drop's pupil/);
+  });
+  it("is not asked for below 2° of canting (the banded rule then), nor for upright drops", () => {
+    expect(at([2000], 1.5).shapes[0]).toMatchObject({ cantingBand: true });
+    expect(at([2000], 1.5).shapes[0]!.cantingRotation).toBeUndefined();
+    expect(at([2000], 0).shapes[0]!.cantingRotation).toBeUndefined();
+  });
+});
+
+// The canting rules' measured reach (BENCHMARKS.md canting-spread: within 0.22 of the peak of brute force over the pupil
+// up to 1 mm radius, 0.26 at 1.5 mm and 0.60 at 2 mm): larger drops the rules serve are flagged; upright, smaller ones, or
+// those the mean by rotation serves (canted 2° or more) are not.
 describe("the warning on the canting mean of large drops", () => {
   const plan = (radiusUm: number, cantingSdDeg?: number) =>
     planDropShapes(
@@ -95,13 +129,14 @@ describe("the warning on the canting mean of large drops", () => {
       Float64Array.from([radiusUm]),
     );
   const flagged = (p: ReturnType<typeof plan>) => p.warnings.some((w) => /canting mean/.test(w));
-  it("is given for canted drops above 1 mm radius and names where it was measured", () => {
-    const warned = plan(2000);
+  it("is given for drops above 1 mm radius canted too little for the mean by rotation, and names where it was measured", () => {
+    const warned = plan(2000, 1.5);
     expect(flagged(warned)).toBe(true);
     expect(warned.warnings.find((w) => /canting mean/.test(w))).toMatch(/BENCHMARKS\.md canting-spread/);
   });
-  it("is not given at 1 mm, nor for upright drops of any size", () => {
+  it("is not given at 1 mm, nor for upright drops of any size, nor where the mean by rotation serves", () => {
     expect(flagged(plan(1000))).toBe(false);
     expect(flagged(plan(2000, 0))).toBe(false);
+    expect(flagged(plan(2000))).toBe(false);
   });
 });

@@ -14,6 +14,7 @@ import { INDEX_NODES, isBowGroup, SHAPED_ORDER_GROUPS } from "../../../lib/bow/s
 import { profileRequestSchema } from "../../../schemas/profile.js";
 import { blockRange } from "../../../lib/bow/kernel-grid.js";
 import { dropMedia } from "../../../lib/water/drop-medium.js";
+import { ROTATION_SLICES, rotationElevationsDeg } from "../../../lib/bow/canting-rotation.js";
 
 describe("shaped parts", () => {
   const top = { cantingSdDeg: 7.5, sunElevationDeg: 10, arcPositionDeg: 0 };
@@ -35,6 +36,14 @@ describe("shaped parts", () => {
     expect(planeCantingNodes(banded).length).toBe(placeCantingRule(banded).nodes.length / 2);
     // Upright drops: one node, its three groups.
     expect(shapedParts({ ...top, cantingSdDeg: 0 }).map((p) => p.node)).toEqual([undefined, undefined, 0]);
+  });
+
+  it("of the canting mean by rotation are its slices of sun elevations, shares by their elevations, adding up to 1", () => {
+    const parts = shapedParts({ ...top, cantingRotation: true });
+    expect(parts.map((p) => p.node)).toEqual(Array.from({ length: ROTATION_SLICES }, (_, k) => k));
+    const sizes = parts.map((p) => rotationElevationsDeg(top.cantingSdDeg, p.node).length);
+    expect(sizes.reduce((a, b) => a + b, 0)).toBe(rotationElevationsDeg(top.cantingSdDeg).length);
+    parts.forEach((p, k) => expect(p.share).toBeCloseTo(sizes[k] / rotationElevationsDeg(top.cantingSdDeg).length, 12));
   });
 
   it("put first the bow groups (the costly ones), then each node's reflection, every node alike", () => {
@@ -108,6 +117,33 @@ describe("one shape on two threads", () => {
     expect(one.planes).toEqual(estimate);
     expect(Array.from(two.result.spectral.perpendicular)).toEqual(Array.from(one.result.spectral.perpendicular));
     expect(Array.from(two.result.spectral.parallel)).toEqual(Array.from(one.result.spectral.parallel));
+  }, 600_000);
+});
+
+describe("one shape by rotation on two threads", () => {
+  // One canted 1.5 mm drop (the canting mean by rotation), two wavelengths, a narrow window: its slices on two threads
+  // give one task's rows to the last bit.
+  const request = profileRequestSchema.parse({
+    drops: { kind: "monodisperse", radiusUm: 1500, shape: { kind: "equilibrium" } },
+    arcPositionDeg: 20,
+    angles: { fromDeg: 40, toDeg: 42, stepDeg: 0.05 },
+    spectral: { fromNm: 540, toNm: 560, stepNm: 20 },
+  });
+  async function run(parallelism: number) {
+    const seen: KernelTask[] = [];
+    const inline = createInlinePool().compute;
+    const kernels = new KernelService({ memoryBudgetBytes: 2 ** 28, parallelism, compute: async (task, signal) => (seen.push(task), inline(task, signal)) });
+    return { result: await computeProfile(request, { kernels, limits: { maxTermAngles: Infinity } }), seen };
+  }
+  it("is split in its slices and adds them up as one task does", async () => {
+    expect(planDropShapes(request, new Float64Array([1500])).shapes[0]!.cantingRotation).toBe(true);
+    const two = await run(2);
+    expect(two.seen.map((task) => task.items[0].cantingNode)).toEqual(Array.from({ length: ROTATION_SLICES }, (_, k) => k));
+    const one = await run(1);
+    expect(one.seen.length).toBe(1);
+    expect(Array.from(two.result.spectral.perpendicular)).toEqual(Array.from(one.result.spectral.perpendicular));
+    expect(Array.from(two.result.spectral.parallel)).toEqual(Array.from(one.result.spectral.parallel));
+    expect(Math.max(...one.result.spectral.perpendicular)).toBeGreaterThan(0);
   }, 600_000);
 });
 

@@ -1,0 +1,347 @@
+// The canting mean of a flattened drop's rows by rotation over the upright drop's pupil, with no rule of tilt nodes.
+// A drop whose axis has elevation h′ below the sunlight and azimuth δ about it sends into the plane at arc position A
+// what the upright drop, with the sun at h′, sends to A − δ (lib/drops/shape/tilt-density.ts). So the mean over the
+// tilts is ∫∫ p(h′, δ)·I(Θ, A − δ; h′) dh′ dδ: for each h′ on a grid, every ray of a square grid over the upright
+// drop's pupil is traced once and its power, weighed by p(h′, A − α) at the arc position α where it leaves, spread
+// over Θ along the segments to its neighbours in u (half a cell each way, uniform in Θ between the two rays, as
+// lib/bow/plane-ray-bins.ts spreads a sweep's segments; van de Hulst 1957 §12.22: the power of a bundle of rays is kept
+// along it). Ray optics, orders 0–3; the bows' wave structure is left out, which for drops above 1 mm canted by a few
+// degrees and seen through the sun's disc moves rows by ≤ 0.03 of their peak (Airy-type planes on a dense tilt grid
+// against brute force over the pupil: BENCHMARKS.md canting-spread). Rows at each wavelength come from rays traced at
+// a few refractive indices: each ray's Θ, α and powers are smooth in n (Snell's law at each face), so they are
+// interpolated ray by ray (Lagrange's form, Press et al. 2007 Eq. 3.2.1).
+
+import type { DropOutline } from "../drops/shape/outline.js";
+import { tiltDensity } from "../drops/shape/tilt-density.js";
+import { bowScatteringPlane } from "../rays/bow-geometry.js";
+import { AT, ORDER_STRIDE } from "../rays/shape-tracer.js";
+import { chebyshevNodes, lagrangeWeights } from "../rays/sweep-interpolation.js";
+import { shapedPlaneTracer } from "./shaped-plane-rows.js";
+import type { PlaneTracer } from "../rays/plane-sweep.js";
+
+const DEG = Math.PI / 180;
+/** Orders traced: reflection, transmission, the primary's and the secondary's. */
+const ORDERS = 4;
+
+/**
+ * The grid of the mean. Measured at 550 nm against brute force over the pupil (pupil step 0.005, elevations 0.5° apart,
+ * point bins: bench/canting-pupil.ts) after the sun's disc, worst share of the peak / summed (BENCHMARKS.md
+ * canting-splat): pupil step 0.014 gives 0.056 / 0.023 for 2 mm drops at the top of the bow, 0.10 / 0.04 for 1.5 mm at
+ * the side; 0.02 gives 0.07–0.21 / 0.03–0.07, 0.01 0.02–0.05 / 0.01–0.02 at twice the rays. Elevations σ/7.5 apart (1°
+ * at σ 7.5°) over ±3.5σ, which leaves out 5e-4 of the tilts' mass: 2° apart added 0.03 of the peak at 2 mm.
+ */
+export const ROTATION_PUPIL_STEP = 0.014;
+export const ROTATION_ELEVATIONS_PER_SD = 7.5;
+export const ROTATION_SPAN_SD = 3.5;
+/**
+ * Refractive indices each ray is traced at: Chebyshev nodes over the water's span. Measured on 1,600 random rays of a
+ * 2 mm drop (sun 10°, n 1.3284–1.3479, orders 0–3): Θ interpolated from 5 nodes within 0.009° of the ray traced at
+ * its own index, from 4 within 0.05° (one ray of the primary's order near the rim; the rest far closer), from 3 within
+ * 0.6°; the rows at 550 nm from 4 nodes and from 5 differ from brute force alike (within 0.002 of the peak).
+ */
+export const ROTATION_INDEX_NODES = 4;
+/**
+ * Drops canted less than this keep the canting rules (lib/bow/plane-canting-nodes.ts). Measured at 550 nm against brute
+ * force over the pupil as for ROTATION_PUPIL_STEP, before the grids' turns and shifts: canting σ 4°, 2 mm drops, worst
+ * of the peak / summed 0.065 / 0.022 at the side and 0.016 / 0.005 at the top (the rules 0.735 / 0.435 and 0.385 /
+ * 0.190); σ 2°, at the side, 2 mm 0.195 / 0.043 (rules 1.928 / 0.307), 1.5 mm 0.150 / 0.079 (rules 0.145 / 0.058).
+ * Narrower spreads leave fewer rays at each place on the bow (the tilt density's width in α is about σ).
+ */
+export const ROTATION_MIN_CANTING_SD_DEG = 2;
+/** The elevations are computed in this many slices (parts of a kernel task on the pool's threads). */
+export const ROTATION_SLICES = 4;
+/** The golden angle 180°(3 − √5) and the R2 sequence's steps 1/g, 1/g² (g the plastic number, the real root of g³ = g + 1): low-discrepancy turns and shifts (common practice). */
+const GOLDEN_ANGLE_DEG = 180 * (3 - Math.sqrt(5));
+const R2_STEPS = [0.7548776662466927, 0.5698402909980532] as const;
+/** Step of the table of the tilt density over azimuth, degrees (linear interpolation between). */
+const AZIMUTH_STEP_DEG = 0.05;
+/**
+ * Neighbouring rays further apart than this in Θ (degrees) or α are not joined by a segment: a rim or a jump of the
+ * ray between them (each then stands as a point). A joined pair's Θ differs by ≤ 0.3° at pupil step 0.014 except at
+ * the rim, where Θ turns as the square root of the distance to it.
+ */
+const JOIN_THETA_DEG = 3;
+const JOIN_ALPHA_DEG = 20;
+
+export interface RotationDrop {
+  mRe: number;
+  x: number;
+}
+
+export interface RotationSetup {
+  outline: DropOutline;
+  sunElevationDeg: number;
+  cantingSdDeg: number;
+  arcPositionDeg: number;
+  /** The span of the drops' real index the traced indices cover. */
+  indexSpan: { min: number; max: number };
+  /** Benchmarks only: another pupil step and density of elevations than ROTATION_PUPIL_STEP and ROTATION_ELEVATIONS_PER_SD. */
+  grid?: { pupilStep: number; elevationsPerSd: number };
+}
+
+/**
+ * The elevations of slice `slice` of ROTATION_SLICES (all of them when undefined), relative to the sun's, in degrees,
+ * each with its place k in the whole grid (which sets its pupil grid's turn and offset).
+ */
+export function rotationElevationsDeg(sdDeg: number, slice?: number, elevationsPerSd = ROTATION_ELEVATIONS_PER_SD): { offsetDeg: number; k: number }[] {
+  const step = sdDeg / elevationsPerSd;
+  const m = Math.round(ROTATION_SPAN_SD * elevationsPerSd);
+  const all = Array.from({ length: 2 * m + 1 }, (_, k) => ({ offsetDeg: (k - m) * step, k }));
+  if (slice === undefined) return all;
+  const per = Math.ceil(all.length / ROTATION_SLICES);
+  return all.slice(slice * per, (slice + 1) * per);
+}
+
+/**
+ * |S1|², |S2|² (the field ⟂ and ∥ to the scattering plane, summed over both incident polarisations: an unpolarised
+ * sun's two halves, as the plane engine's rows) of each drop, canting mean over the elevations of `slice` (all when
+ * undefined: the slices' rows add up to it), on bins of width stepDeg centred on thetaDeg. The same units as
+ * lib/bow/shaped-plane-rows.ts shapedPlaneRow: power per unit solid angle times x².
+ */
+export function rotationCantingRows(
+  setup: RotationSetup,
+  drops: readonly RotationDrop[],
+  thetaDeg: Float64Array,
+  stepDeg: number,
+  slice?: number,
+): { perp: Float64Array; par: Float64Array }[] {
+  const { outline, sunElevationDeg, cantingSdDeg, arcPositionDeg } = setup;
+  const count = thetaDeg.length;
+  const fromDeg = thetaDeg[0] - stepDeg / 2;
+  const rows = drops.map(() => ({ perp: new Float64Array(count), par: new Float64Array(count) }));
+  const nodes = chebyshevNodes(setup.indexSpan.min, setup.indexSpan.max, ROTATION_INDEX_NODES);
+  const K = nodes.length;
+  const D = drops.length;
+  const weights = drops.map((drop) => lagrangeWeights(nodes, drop.mRe));
+  const nearest = drops.map((drop) => nodes.reduce((best, n, k) => (Math.abs(n - drop.mRe) < Math.abs(nodes[best] - drop.mRe) ? k : best), 0));
+  const reach = outline.maxRadius * 1.001;
+  const du = setup.grid?.pupilStep ?? ROTATION_PUPIL_STEP;
+  const elevationsPerSd = setup.grid?.elevationsPerSd ?? ROTATION_ELEVATIONS_PER_SD;
+  const cells = Math.ceil((2 * reach) / du);
+  // Per node and order, the last traced ray; per drop, order and pupil sample along u, the row of rays.
+  const at = { theta: new Float64Array(K * ORDERS), alpha: new Float64Array(K * ORDERS), perp: new Float64Array(K * ORDERS), par: new Float64Array(K * ORDERS), ok: new Uint8Array(K * ORDERS), unwrapped: new Float64Array(K), density: new Float64Array(K) };
+  const size = D * ORDERS * cells;
+  const ray = { theta: new Float64Array(size), weight: new Float64Array(size), perp: new Float64Array(size), par: new Float64Array(size), alpha: new Float64Array(size), ok: new Uint8Array(size) };
+  const density = new Float64Array(Math.round(360 / AZIMUTH_STEP_DEG) + 2);
+  const lo = fromDeg - JOIN_THETA_DEG;
+  const hi = fromDeg + count * stepDeg + JOIN_THETA_DEG;
+  const elevationStepDeg = cantingSdDeg / elevationsPerSd;
+  for (const { offsetDeg, k: place } of rotationElevationsDeg(cantingSdDeg, slice, elevationsPerSd)) {
+    const elevationDeg = sunElevationDeg + offsetDeg;
+    // Each elevation's pupil grid turned by the golden angle and shifted by the R2 sequence from the one before, so that
+    // the combs a square grid leaves where the rays of one grid line fold over in Θ fall elsewhere at each elevation
+    // and average out (for a sphere every elevation sees the same drop, and an unturned grid left a comb 1.7° apart
+    // at 0.5 of the ∥ row's peak, test/lib/bow/canting-rotation.test.ts).
+    const turnDeg = 90 + place * GOLDEN_ANGLE_DEG;
+    const shiftU = (((place * R2_STEPS[0]) % 1) - 0.5) * du;
+    const shiftV = (((place * R2_STEPS[1]) % 1) - 0.5) * du;
+    for (let i = 0; i < density.length; i++) density[i] = tiltDensity(sunElevationDeg, cantingSdDeg, elevationDeg, -180 + i * AZIMUTH_STEP_DEG);
+    const densityAt = (alphaDeg: number): number => {
+      const azimuth = ((((arcPositionDeg - alphaDeg + 180) % 360) + 360) % 360) - 180;
+      const f = (azimuth + 180) / AZIMUTH_STEP_DEG;
+      const i = Math.min(density.length - 2, Math.floor(f));
+      return density[i] + (f - i) * (density[i + 1] - density[i]);
+    };
+    // The plane only sets the pupil's frame: rays at u·e + v·N, launched along d_in.
+    const plane = bowScatteringPlane(elevationDeg, turnDeg);
+    const tracers = nodes.map((n) => shapedPlaneTracer({ outline, axis: [0, 0, 1], n }, plane, { rayOrders: [0, 1], bowOrders: [2, 3] }));
+    const h = elevationDeg * DEG;
+    const dIn = [Math.cos(h), 0, -Math.sin(h)] as const;
+    const up = [Math.sin(h), 0, Math.cos(h)] as const;
+    // Power·du² · Δh′ over the bin's Θ width (radians), times the density per degree² at each ray (canting-pupil's scale).
+    const scale = (du * du * elevationStepDeg) / (DEG * stepDeg * DEG);
+    for (let iv = 0; iv < cells; iv++) {
+      const v = -reach + (iv + 0.5) * du + shiftV;
+      const uMax = Math.sqrt(Math.max(0, reach * reach - v * v));
+      ray.ok.fill(0);
+      for (let iu = 0; iu < cells; iu++) {
+        const u = -reach + (iu + 0.5) * du + shiftU;
+        if (Math.abs(u) > uMax) continue;
+        let any = false;
+        for (let k = 0; k < K; k++) any = traceNode(tracers[k], u, v, k, dIn, up, lo, hi, at) || any;
+        if (any) interpolateRays(at, K, D, weights, nearest, iu, cells, ray, densityAt, scale, lo, hi);
+      }
+      depositRow(ray, D, cells, rows, fromDeg, stepDeg);
+    }
+  }
+  rows.forEach((row, d) => {
+    const x2 = drops[d].x * drops[d].x;
+    for (let j = 0; j < count; j++) {
+      const solid = x2 / Math.sin((fromDeg + (j + 0.5) * stepDeg) * DEG);
+      row.perp[j] *= solid;
+      row.par[j] *= solid;
+    }
+  });
+  return rows;
+}
+
+type NodeRays = { theta: Float64Array; alpha: Float64Array; perp: Float64Array; par: Float64Array; ok: Uint8Array; unwrapped: Float64Array; density: Float64Array };
+type RowRays = { theta: Float64Array; alpha: Float64Array; perp: Float64Array; par: Float64Array; ok: Uint8Array; weight: Float64Array };
+
+/**
+ * Traces pupil point (u, v) at node k and keeps each order's exit: Θ, α (the observer looks back along the ray, s = −d_out,
+ * α = atan2(s·ŷ, s·t̂): lib/rays/bow-geometry.ts's w(α)) and the power of the field ⟂ and ∥ to the plane of d_in and
+ * d_out, summed over the two incident fields. Whether any order lands within [lo, hi] of Θ.
+ */
+function traceNode(tracer: PlaneTracer, u: number, v: number, k: number, dIn: readonly number[], up: readonly number[], lo: number, hi: number, at: NodeRays): boolean {
+  tracer.traceAt(u, v, ORDERS - 1);
+  const rec = tracer.lastTrace.orders;
+  let any = false;
+  for (let p = 0; p < ORDERS; p++) {
+    const s = k * ORDERS + p;
+    at.ok[s] = 0;
+    const base = p * ORDER_STRIDE;
+    if (rec[base + AT.valid] !== 1) continue;
+    const dx = rec[base + AT.dir];
+    const dy = rec[base + AT.dir + 1];
+    const dz = rec[base + AT.dir + 2];
+    const cosTheta = Math.max(-1, Math.min(1, dx * dIn[0] + dy * dIn[1] + dz * dIn[2]));
+    const theta = Math.acos(cosTheta) / DEG;
+    at.ok[s] = 1;
+    at.theta[s] = theta;
+    at.alpha[s] = Math.atan2(-dy, -(dx * up[0] + dz * up[2])) / DEG;
+    // N̂ = d_in × d_out / sin Θ: the scattering plane's normal (the ⟂ direction of its field).
+    const nx = dIn[1] * dz - dIn[2] * dy;
+    const ny = dIn[2] * dx - dIn[0] * dz;
+    const nz = dIn[0] * dy - dIn[1] * dx;
+    const norm = Math.hypot(nx, ny, nz);
+    let total = 0;
+    let perp = 0;
+    for (const field of [AT.e1Re, AT.e1Im, AT.e2Re, AT.e2Im]) {
+      const [fx, fy, fz] = [rec[base + field], rec[base + field + 1], rec[base + field + 2]];
+      total += fx * fx + fy * fy + fz * fz;
+      if (norm > 0) perp += ((fx * nx + fy * ny + fz * nz) / norm) ** 2;
+    }
+    at.perp[s] = perp;
+    at.par[s] = total - perp;
+    if (theta >= lo && theta <= hi) any = true;
+  }
+  return any;
+}
+
+/**
+ * Each drop's rays at pupil sample iu from the nodes' rays: Lagrange-interpolated in n where the order leaves at every
+ * node, else the nearest node's ray (an order that starts or ends between nodes, at the rim or by total reflection:
+ * Θ then off by at most one node's shift, about 0.4°, on a sliver of the pupil), weighed by the tilt density at its α
+ * (interpolated in n as the ray is: it is smooth in α on the scale of σ). An order whose rays land outside [lo, hi]
+ * at every node is left out.
+ */
+function interpolateRays(
+  at: NodeRays,
+  K: number,
+  D: number,
+  weights: readonly Float64Array[],
+  nearest: readonly number[],
+  iu: number,
+  cells: number,
+  ray: RowRays,
+  densityAt: (alphaDeg: number) => number,
+  scale: number,
+  lo: number,
+  hi: number,
+): void {
+  for (let p = 0; p < ORDERS; p++) {
+    let all = true;
+    let inside = false;
+    for (let k = 0; k < K; k++) {
+      const q = k * ORDERS + p;
+      all = all && at.ok[q] === 1;
+      inside = inside || (at.ok[q] === 1 && at.theta[q] >= lo && at.theta[q] <= hi);
+    }
+    if (!inside) continue;
+    if (all) {
+      // α unwrapped about node 0's (the foot of the bow is at ±180°), and the density at each node's ray.
+      const alpha0 = at.alpha[p];
+      for (let k = 0; k < K; k++) {
+        const q = k * ORDERS + p;
+        const turn = at.alpha[q] - alpha0;
+        at.unwrapped[k] = alpha0 + (turn > 180 ? turn - 360 : turn < -180 ? turn + 360 : turn);
+        at.density[k] = densityAt(at.alpha[q]);
+      }
+    }
+    for (let d = 0; d < D; d++) {
+      const s = (d * ORDERS + p) * cells + iu;
+      const near = nearest[d] * ORDERS + p;
+      if (all) {
+        const w = weights[d];
+        let theta = 0;
+        let alpha = 0;
+        let perp = 0;
+        let par = 0;
+        let density = 0;
+        for (let k = 0; k < K; k++) {
+          const q = k * ORDERS + p;
+          theta += w[k] * at.theta[q];
+          alpha += w[k] * at.unwrapped[k];
+          perp += w[k] * at.perp[q];
+          par += w[k] * at.par[q];
+          density += w[k] * at.density[k];
+        }
+        ray.theta[s] = theta;
+        ray.alpha[s] = alpha;
+        ray.perp[s] = Math.max(0, perp);
+        ray.par[s] = Math.max(0, par);
+        ray.weight[s] = scale * Math.max(0, density);
+      } else if (at.ok[near]) {
+        ray.theta[s] = at.theta[near];
+        ray.alpha[s] = at.alpha[near];
+        ray.perp[s] = at.perp[near];
+        ray.par[s] = at.par[near];
+        ray.weight[s] = scale * densityAt(at.alpha[near]);
+      } else continue;
+      ray.ok[s] = 1;
+    }
+  }
+}
+
+/** Spreads one pupil row's rays into the drops' rows: half of each ray's power on the segment to each neighbour in u. */
+function depositRow(ray: RowRays, D: number, cells: number, rows: { perp: Float64Array; par: Float64Array }[], fromDeg: number, stepDeg: number): void {
+  const toDeg = fromDeg + rows[0].perp.length * stepDeg;
+  for (let d = 0; d < D; d++) {
+    const { perp, par } = rows[d];
+    for (let p = 0; p < ORDERS; p++) {
+      const first = (d * ORDERS + p) * cells;
+      for (let iu = 0; iu < cells; iu++) {
+        const s = first + iu;
+        if (!ray.ok[s] || ray.weight[s] === 0) continue;
+        const theta = ray.theta[s];
+        // A segment reaches at most JOIN_THETA_DEG / 2 from its ray.
+        if (theta < fromDeg - JOIN_THETA_DEG || theta > toDeg + JOIN_THETA_DEG) continue;
+        const ePerp = 0.5 * ray.weight[s] * ray.perp[s];
+        const ePar = 0.5 * ray.weight[s] * ray.par[s];
+        for (let side = -1; side <= 1; side += 2) {
+          const q = s + side;
+          const t = iu + side;
+          const joined = t >= 0 && t < cells && ray.ok[q] === 1 && Math.abs(ray.theta[q] - theta) < JOIN_THETA_DEG && Math.abs(ray.alpha[q] - ray.alpha[s]) < JOIN_ALPHA_DEG;
+          depositPair(perp, par, ePerp, ePar, theta, joined ? 0.5 * (theta + ray.theta[q]) : theta, fromDeg, stepDeg);
+        }
+      }
+    }
+  }
+}
+
+/** ray-bins.ts depositOverInterval for the ⟂ and ∥ powers at once: each spread evenly over [a, b] (a point when a = b). */
+function depositPair(perp: Float64Array, par: Float64Array, ePerp: number, ePar: number, a: number, b: number, fromDeg: number, stepDeg: number): void {
+  const lo = Math.min(a, b);
+  const hi = Math.max(a, b);
+  const count = perp.length;
+  const width = hi - lo;
+  if (width < 1e-12) {
+    const j = Math.floor((lo - fromDeg) / stepDeg);
+    if (j >= 0 && j < count) {
+      perp[j] += ePerp;
+      par[j] += ePar;
+    }
+    return;
+  }
+  const jFirst = Math.max(0, Math.floor((lo - fromDeg) / stepDeg));
+  const jLast = Math.min(count - 1, Math.floor((hi - fromDeg) / stepDeg));
+  for (let j = jFirst; j <= jLast; j++) {
+    const binLo = fromDeg + j * stepDeg;
+    const overlap = Math.min(hi, binLo + stepDeg) - Math.max(lo, binLo);
+    if (overlap > 0) {
+      perp[j] += (ePerp * overlap) / width;
+      par[j] += (ePar * overlap) / width;
+    }
+  }
+}
