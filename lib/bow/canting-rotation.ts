@@ -105,10 +105,26 @@ export function rotationCantingRows(
   stepDeg: number,
   slice?: number,
 ): { perp: Float64Array; par: Float64Array }[] {
-  const { outline, sunElevationDeg, cantingSdDeg, arcPositionDeg } = setup;
+  return rotationCantingRowsAlong(setup, [setup.arcPositionDeg], drops, thetaDeg, stepDeg, slice)[0];
+}
+
+/**
+ * rotationCantingRows at each of arcsDeg (setup.arcPositionDeg aside) from one pass: the rays and their traces do not
+ * depend on the place on the bow, only their weights do (a camera view's places along the arc share them).
+ */
+export function rotationCantingRowsAlong(
+  setup: RotationSetup,
+  arcsDeg: readonly number[],
+  drops: readonly RotationDrop[],
+  thetaDeg: Float64Array,
+  stepDeg: number,
+  slice?: number,
+): { perp: Float64Array; par: Float64Array }[][] {
+  const { outline, sunElevationDeg, cantingSdDeg } = setup;
   const count = thetaDeg.length;
   const fromDeg = thetaDeg[0] - stepDeg / 2;
-  const rows = drops.map(() => ({ perp: new Float64Array(count), par: new Float64Array(count) }));
+  const arcs = arcsDeg.length;
+  const rows = arcsDeg.map(() => drops.map(() => ({ perp: new Float64Array(count), par: new Float64Array(count) })));
   const nodes = chebyshevNodes(setup.indexSpan.min, setup.indexSpan.max, ROTATION_INDEX_NODES);
   const K = nodes.length;
   const D = drops.length;
@@ -119,9 +135,9 @@ export function rotationCantingRows(
   const elevationsPerSd = setup.grid?.elevationsPerSd ?? ROTATION_ELEVATIONS_PER_SD;
   const cells = Math.ceil((2 * reach) / du);
   // Per node and order, the last traced ray; per drop, order and pupil sample along u, the row of rays.
-  const at = { theta: new Float64Array(K * ORDERS), alpha: new Float64Array(K * ORDERS), perp: new Float64Array(K * ORDERS), par: new Float64Array(K * ORDERS), ok: new Uint8Array(K * ORDERS), unwrapped: new Float64Array(K), density: new Float64Array(K) };
+  const at = { theta: new Float64Array(K * ORDERS), alpha: new Float64Array(K * ORDERS), perp: new Float64Array(K * ORDERS), par: new Float64Array(K * ORDERS), ok: new Uint8Array(K * ORDERS), unwrapped: new Float64Array(K), density: new Float64Array(arcs * K) };
   const size = D * ORDERS * cells;
-  const ray = { theta: new Float64Array(size), weight: new Float64Array(size), perp: new Float64Array(size), par: new Float64Array(size), alpha: new Float64Array(size), ok: new Uint8Array(size) };
+  const ray = { theta: new Float64Array(size), weight: new Float64Array(arcs * size), perp: new Float64Array(size), par: new Float64Array(size), alpha: new Float64Array(size), ok: new Uint8Array(size) };
   const density = new Float64Array(Math.round(360 / AZIMUTH_STEP_DEG) + 2);
   const lo = fromDeg - JOIN_THETA_DEG;
   const hi = fromDeg + count * stepDeg + JOIN_THETA_DEG;
@@ -136,8 +152,8 @@ export function rotationCantingRows(
     const shiftU = (((place * R2_STEPS[0]) % 1) - 0.5) * du;
     const shiftV = (((place * R2_STEPS[1]) % 1) - 0.5) * du;
     for (let i = 0; i < density.length; i++) density[i] = tiltDensity(sunElevationDeg, cantingSdDeg, elevationDeg, -180 + i * AZIMUTH_STEP_DEG);
-    const densityAt = (alphaDeg: number): number => {
-      const azimuth = ((((arcPositionDeg - alphaDeg + 180) % 360) + 360) % 360) - 180;
+    const densityAt = (arc: number, alphaDeg: number): number => {
+      const azimuth = ((((arcsDeg[arc] - alphaDeg + 180) % 360) + 360) % 360) - 180;
       const f = (azimuth + 180) / AZIMUTH_STEP_DEG;
       const i = Math.min(density.length - 2, Math.floor(f));
       return density[i] + (f - i) * (density[i + 1] - density[i]);
@@ -159,19 +175,21 @@ export function rotationCantingRows(
         if (Math.abs(u) > uMax) continue;
         let any = false;
         for (let k = 0; k < K; k++) any = traceNode(tracers[k], u, v, k, dIn, up, lo, hi, at) || any;
-        if (any) interpolateRays(at, K, D, weights, nearest, iu, cells, ray, densityAt, scale, lo, hi);
+        if (any) interpolateRays(at, K, D, arcs, weights, nearest, iu, cells, ray, densityAt, scale, lo, hi);
       }
-      depositRow(ray, D, cells, rows, fromDeg, stepDeg);
+      for (let a = 0; a < arcs; a++) depositRow(ray, a * size, D, cells, rows[a], fromDeg, stepDeg);
     }
   }
-  rows.forEach((row, d) => {
-    const x2 = drops[d].x * drops[d].x;
-    for (let j = 0; j < count; j++) {
-      const solid = x2 / Math.sin((fromDeg + (j + 0.5) * stepDeg) * DEG);
-      row.perp[j] *= solid;
-      row.par[j] *= solid;
-    }
-  });
+  for (const arcRows of rows) {
+    arcRows.forEach((row, d) => {
+      const x2 = drops[d].x * drops[d].x;
+      for (let j = 0; j < count; j++) {
+        const solid = x2 / Math.sin((fromDeg + (j + 0.5) * stepDeg) * DEG);
+        row.perp[j] *= solid;
+        row.par[j] *= solid;
+      }
+    });
+  }
   return rows;
 }
 
@@ -230,16 +248,18 @@ function interpolateRays(
   at: NodeRays,
   K: number,
   D: number,
+  arcs: number,
   weights: readonly Float64Array[],
   nearest: readonly number[],
   iu: number,
   cells: number,
   ray: RowRays,
-  densityAt: (alphaDeg: number) => number,
+  densityAt: (arc: number, alphaDeg: number) => number,
   scale: number,
   lo: number,
   hi: number,
 ): void {
+  const size = D * ORDERS * cells;
   for (let p = 0; p < ORDERS; p++) {
     let all = true;
     let inside = false;
@@ -256,7 +276,7 @@ function interpolateRays(
         const q = k * ORDERS + p;
         const turn = at.alpha[q] - alpha0;
         at.unwrapped[k] = alpha0 + (turn > 180 ? turn - 360 : turn < -180 ? turn + 360 : turn);
-        at.density[k] = densityAt(at.alpha[q]);
+        for (let a = 0; a < arcs; a++) at.density[a * K + k] = densityAt(a, at.alpha[q]);
       }
     }
     for (let d = 0; d < D; d++) {
@@ -268,34 +288,39 @@ function interpolateRays(
         let alpha = 0;
         let perp = 0;
         let par = 0;
-        let density = 0;
         for (let k = 0; k < K; k++) {
           const q = k * ORDERS + p;
           theta += w[k] * at.theta[q];
           alpha += w[k] * at.unwrapped[k];
           perp += w[k] * at.perp[q];
           par += w[k] * at.par[q];
-          density += w[k] * at.density[k];
         }
         ray.theta[s] = theta;
         ray.alpha[s] = alpha;
         ray.perp[s] = Math.max(0, perp);
         ray.par[s] = Math.max(0, par);
-        ray.weight[s] = scale * Math.max(0, density);
+        for (let a = 0; a < arcs; a++) {
+          let density = 0;
+          for (let k = 0; k < K; k++) density += w[k] * at.density[a * K + k];
+          ray.weight[a * size + s] = scale * Math.max(0, density);
+        }
       } else if (at.ok[near]) {
         ray.theta[s] = at.theta[near];
         ray.alpha[s] = at.alpha[near];
         ray.perp[s] = at.perp[near];
         ray.par[s] = at.par[near];
-        ray.weight[s] = scale * densityAt(at.alpha[near]);
+        for (let a = 0; a < arcs; a++) ray.weight[a * size + s] = scale * densityAt(a, at.alpha[near]);
       } else continue;
       ray.ok[s] = 1;
     }
   }
 }
 
-/** Spreads one pupil row's rays into the drops' rows: half of each ray's power on the segment to each neighbour in u. */
-function depositRow(ray: RowRays, D: number, cells: number, rows: { perp: Float64Array; par: Float64Array }[], fromDeg: number, stepDeg: number): void {
+/**
+ * Spreads one pupil row's rays into the drops' rows at one place on the bow (the rays' weights there from `weightAt`
+ * on): half of each ray's power on the segment to each neighbour in u.
+ */
+function depositRow(ray: RowRays, weightAt: number, D: number, cells: number, rows: { perp: Float64Array; par: Float64Array }[], fromDeg: number, stepDeg: number): void {
   const toDeg = fromDeg + rows[0].perp.length * stepDeg;
   for (let d = 0; d < D; d++) {
     const { perp, par } = rows[d];
@@ -303,12 +328,13 @@ function depositRow(ray: RowRays, D: number, cells: number, rows: { perp: Float6
       const first = (d * ORDERS + p) * cells;
       for (let iu = 0; iu < cells; iu++) {
         const s = first + iu;
-        if (!ray.ok[s] || ray.weight[s] === 0) continue;
+        const weight = ray.weight[weightAt + s];
+        if (!ray.ok[s] || weight === 0) continue;
         const theta = ray.theta[s];
         // A segment reaches at most JOIN_THETA_DEG / 2 from its ray.
         if (theta < fromDeg - JOIN_THETA_DEG || theta > toDeg + JOIN_THETA_DEG) continue;
-        const ePerp = 0.5 * ray.weight[s] * ray.perp[s];
-        const ePar = 0.5 * ray.weight[s] * ray.par[s];
+        const ePerp = 0.5 * weight * ray.perp[s];
+        const ePar = 0.5 * weight * ray.par[s];
         for (let side = -1; side <= 1; side += 2) {
           const q = s + side;
           const t = iu + side;

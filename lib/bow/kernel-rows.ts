@@ -37,7 +37,7 @@ export interface KernelRowsInput {
 /** A row's samples outside the computed range: never a kernel value, so "covered" is a NaN test. */
 export const NOT_COMPUTED = Number.NaN;
 
-export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mieTermAngles: number; shapedPlanes: ShapedPlaneCount } {
+export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mieTermAngles: number; shapedPlanes: ShapedPlaneCount; siblings?: { arcPositionDeg: number; rows: Float64Array[][] }[] } {
   const { medium, h, items } = input;
   // The engines' bins need one evenly spaced Θ grid: the task covers every lattice point from the first to the
   // last block asked for, also where the drops ask for blocks with gaps between them (a partly filled cache),
@@ -95,7 +95,7 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
   const mie = mieLatticeRows(ctx, mieIndices.map((i) => items[i]), { h, lo, hi }, input.mieSampling, threadArena);
   const mieRowOf = new Map(mieIndices.map((item, k) => [item, mie.rows[k]]));
   let mieTermAngles = mie.termAngles;
-  const { rows: shaped, planes: shapedPlanes } = shapedItemRows(items, medium, thetaDeg, h);
+  const { rows: shaped, planes: shapedPlanes, siblings: siblingRows } = shapedItemRows(items, medium, thetaDeg, h);
   // Arrays built by push from empty literals (always packed elements), not by map(): the worker walks them to list the
   // buffers it moves, and arrays from map() have the elements kind of whichever tier ran it (a fog task after a rain
   // one found the other kind and threw that compiled code away).
@@ -119,7 +119,21 @@ export function kernelRows(input: KernelRowsInput): { rows: Float64Array[][]; mi
     }
     rows.push(itemRows);
   }
-  return { rows, mieTermAngles, shapedPlanes };
+  // Rows at other places on the bow (ShapedRowSpec.siblingArcsDeg), each block in a buffer of its own.
+  const siblings = [...siblingRows].map(([arcPositionDeg, byItem]) => ({
+    arcPositionDeg,
+    rows: items.map((item, index) => {
+      const source = byItem.get(index);
+      if (!source) return [];
+      return item.blocks.map((b) => {
+        const at = positions.get(b)!;
+        const row = new Float64Array(2 * at.length);
+        copyScaled(source.perp, source.par, at, 1, row);
+        return row;
+      });
+    }),
+  }));
+  return { rows, mieTermAngles, shapedPlanes, ...(siblings.length ? { siblings } : {}) };
 }
 
 /** A block's β⊥ then β∥ into row: scale × the Θ-grid rows at the block's positions (NOT_COMPUTED where −1). */
@@ -144,7 +158,7 @@ function shapedItemRows(
   medium: DropMedium,
   thetaDeg: Float64Array,
   h: number,
-): { rows: Map<number, { perp: Float64Array; par: Float64Array }>; planes: ShapedPlaneCount } {
+): { rows: Map<number, { perp: Float64Array; par: Float64Array }>; planes: ShapedPlaneCount; siblings: Map<number, Map<number, { perp: Float64Array; par: Float64Array }>> } {
   const groups = new Map<string, number[]>();
   items.forEach((item, index) => {
     if (!item.shape) return;
@@ -154,6 +168,7 @@ function shapedItemRows(
     groups.set(key, group);
   });
   const out = new Map<number, { perp: Float64Array; par: Float64Array }>();
+  const siblings = new Map<number, Map<number, { perp: Float64Array; par: Float64Array }>>();
   const planes: ShapedPlaneCount = { traced: 0, interpolated: 0 };
   for (const group of groups.values()) {
     const first = items[group[0]];
@@ -164,26 +179,34 @@ function shapedItemRows(
     });
     // The canting mean by rotation (its slice of elevations, in a split task), one canting node's share (a part of a
     // split task: the group without a bow), else the canting mean's pieces.
-    const computed = first.shape!.cantingRotation
-      ? rotationMeanRows(first.shape!, drops, thetaDeg, h, first.cantingNode)
-      : first.cantingNode === undefined
-        ? shapedMeanRows(first.shape!, drops, thetaDeg, h)
-        : (({ rows, planes }) => ({ pieces: rows, planes }))(shapedNodeRows(first.shape!, drops, thetaDeg, h, [first.cantingNode]));
+    const computed: { pieces: { perp: Float64Array; par: Float64Array }[][]; planes: ShapedPlaneCount; siblings?: { arcPositionDeg: number; pieces: { perp: Float64Array; par: Float64Array }[][] }[] } =
+      first.shape!.cantingRotation
+        ? rotationMeanRows(first.shape!, drops, thetaDeg, h, first.cantingNode)
+        : first.cantingNode === undefined
+          ? shapedMeanRows(first.shape!, drops, thetaDeg, h)
+          : (({ rows, planes }) => ({ pieces: rows, planes }))(shapedNodeRows(first.shape!, drops, thetaDeg, h, [first.cantingNode]));
     planes.traced += computed.planes.traced;
     planes.interpolated += computed.planes.interpolated;
-    computed.pieces.forEach((shares, k) => {
-      const item = items[group[k]];
-      const scale = 1 / (2 * waveNumberPerM(item.medium ?? medium) ** 2);
-      const perp = new Float64Array(thetaDeg.length);
-      const par = new Float64Array(thetaDeg.length);
-      for (const share of shares) {
-        for (let j = 0; j < perp.length; j++) {
-          perp[j] += scale * share.perp[j];
-          par[j] += scale * share.par[j];
-        }
-      }
-      out.set(group[k], { perp, par });
-    });
+    const scaleOf = (k: number) => 1 / (2 * waveNumberPerM(items[group[k]].medium ?? medium) ** 2);
+    computed.pieces.forEach((shares, k) => out.set(group[k], addedPieces(shares, scaleOf(k), thetaDeg.length)));
+    for (const { arcPositionDeg, pieces } of computed.siblings ?? []) {
+      let rows = siblings.get(arcPositionDeg);
+      if (!rows) siblings.set(arcPositionDeg, (rows = new Map()));
+      for (const [k, shares] of pieces.entries()) rows.set(group[k], addedPieces(shares, scaleOf(k), thetaDeg.length));
+    }
   }
-  return { rows: out, planes };
+  return { rows: out, planes, siblings };
+}
+
+/** A drop's pieces (shapedMeanRows, rotationMeanRows), each scaled, added in order from zero. */
+function addedPieces(shares: readonly { perp: Float64Array; par: Float64Array }[], scale: number, count: number): { perp: Float64Array; par: Float64Array } {
+  const perp = new Float64Array(count);
+  const par = new Float64Array(count);
+  for (const share of shares) {
+    for (let j = 0; j < count; j++) {
+      perp[j] += scale * share.perp[j];
+      par[j] += scale * share.par[j];
+    }
+  }
+  return { perp, par };
 }

@@ -9,7 +9,7 @@ import { planeCantingNodes, planeCantingRule } from "./plane-canting-nodes.js";
 import { bandedCantingMean } from "./canting-band-spread.js";
 import { localCantingMean } from "./canting-spread.js";
 import { offMirrorAxis } from "./off-mirror-axis.js";
-import { ROTATION_SLICES, rotationCantingRows } from "./canting-rotation.js";
+import { ROTATION_SLICES, rotationCantingRowsAlong } from "./canting-rotation.js";
 import type { CantingNode } from "../drops/shape/canting.js";
 import { chebyshevNodes, interpolateSweep, lagrangeWeights } from "../rays/sweep-interpolation.js";
 import type { PlaneSweep, ScatteringPlane, Vec3 } from "../rays/plane-sweep.js";
@@ -100,6 +100,12 @@ export interface ShapedRowSpec {
    * least ROTATION_MIN_CANTING_SD_DEG.
    */
   cantingRotation?: boolean;
+  /**
+   * With cantingRotation, camera views only: other places on the bow (arc positions) whose rows the same pass over the
+   * pupil gives, returned beside the spec's own (rotationMeanRows' siblings; the kernel cache keeps them as the rows
+   * of the spec at those places). Not in the key: it changes no row.
+   */
+  siblingArcsDeg?: readonly number[];
 }
 
 /**
@@ -713,7 +719,7 @@ export function rotationMeanRows(
   thetaDeg: Float64Array,
   stepDeg: number,
   slice?: number,
-): { pieces: { perp: Float64Array; par: Float64Array }[][]; planes: ShapedPlaneCount } {
+): { pieces: { perp: Float64Array; par: Float64Array }[][]; planes: ShapedPlaneCount; siblings: { arcPositionDeg: number; pieces: { perp: Float64Array; par: Float64Array }[][] }[] } {
   const setup = {
     outline: outlineFor(spec, drops[0].radiusUm),
     sunElevationDeg: spec.sunElevationDeg,
@@ -722,10 +728,16 @@ export function rotationMeanRows(
     indexSpan: spec.indexSpan ?? WATER_INDEX_RANGE,
   };
   if (drops.some((d) => d.radiusUm !== drops[0].radiusUm) && spec.kind !== "spheroid") throw new RangeError("the canting mean by rotation takes drops of one shape");
+  const siblingArcs = (spec.siblingArcsDeg ?? []).filter((a) => a !== spec.arcPositionDeg);
+  const arcs = [spec.arcPositionDeg, ...siblingArcs];
   const slices = slice === undefined ? Array.from({ length: ROTATION_SLICES }, (_, k) => k) : [slice];
-  const pieces = drops.map((): { perp: Float64Array; par: Float64Array }[] => []);
-  for (const k of slices) rotationCantingRows(setup, drops, thetaDeg, stepDeg, k).forEach((row, d) => pieces[d].push(row));
-  return { pieces, planes: { traced: 0, interpolated: 0 } };
+  const pieces = arcs.map(() => drops.map((): { perp: Float64Array; par: Float64Array }[] => []));
+  for (const k of slices) rotationCantingRowsAlong(setup, arcs, drops, thetaDeg, stepDeg, k).forEach((arcRows, a) => arcRows.forEach((row, d) => pieces[a][d].push(row)));
+  return {
+    pieces: pieces[0],
+    planes: { traced: 0, interpolated: 0 },
+    siblings: siblingArcs.map((arcPositionDeg, k) => ({ arcPositionDeg, pieces: pieces[k + 1] })),
+  };
 }
 
 /** The canting mean of |S1|², |S2|² (shapedMeanRows' pieces added in their order). */

@@ -91,7 +91,21 @@ export async function computeInParts(
       return sum;
     }),
   );
+  // Rows at other places on the bow (the canting mean by rotation's siblings), added part by part alike.
+  const siblings = (results[0].siblings ?? []).map(({ arcPositionDeg }, k) => ({
+    arcPositionDeg,
+    rows: task.items.map((_, i) =>
+      results[0].siblings![k].rows[i].map((_, b) => {
+        const sum = new Float64Array(results[0].siblings![k].rows[i][b].length);
+        for (const part of order) {
+          const share = results[part].siblings![k].rows[i][b];
+          for (let t = 0; t < share.length; t++) sum[t] += share[t];
+        }
+        return sum;
+      }),
+    ),
+  }));
   const traced = results.reduce((s, r) => s + (r.shapedPlanes?.traced ?? 0), 0);
   const interpolated = results.reduce((s, r) => s + (r.shapedPlanes?.interpolated ?? 0), 0);
-  return { rows, mieTermAngles: results.reduce((s, r) => s + r.mieTermAngles, 0), shapedPlanes: { traced, interpolated } };
+  return { rows, mieTermAngles: results.reduce((s, r) => s + r.mieTermAngles, 0), shapedPlanes: { traced, interpolated }, ...(siblings.length ? { siblings } : {}) };
 }

@@ -407,6 +407,18 @@ export class KernelService {
             stats.computed += rows.length;
             if (this.options.disk) saved.push([pack, new Map(rows)]);
           }
+          // Rows the same pass gave at other places on the bow (ShapedRowSpec.siblingArcsDeg): kept as that place's rows.
+          for (const sibling of result.siblings ?? []) {
+            for (const { l, bi, rows: list } of byPack.values()) {
+              const rows = list.flatMap(([radiusUm, item, block]): [number, Float64Array][] => (sibling.rows[item]?.[block] ? [[radiusUm, sibling.rows[item][block]]] : []));
+              if (rows.length === 0) continue;
+              const i = list[0][3];
+              const spec = { ...shapes[i]!, arcPositionDeg: sibling.arcPositionDeg };
+              const pack = packKey(media[l], orderVariant(shapedVariant(rowVariant(engines[i], averages[i]), spec), request.order), h, blocks[bi], this.mieSampling);
+              this.remember(pack, rows);
+              if (this.options.disk) saved.push([pack, new Map(rows)]);
+            }
+          }
           if (watch.saveEachTask) this.queueWrites(saved);
           else toSave.push(...saved);
           if (watch.onRows && !inParts) done(taskNs, false);

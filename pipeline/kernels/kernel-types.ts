@@ -41,4 +41,9 @@ export interface KernelTaskResult {
   mieTermAngles: number;
   /** Flattened drops' scattering planes traced and interpolated across the index (lib/bow/shaped-rows.ts). */
   shapedPlanes?: ShapedPlaneCount;
+  /**
+   * Rows of the items at other places on the bow, from the same pass (ShapedRowSpec.siblingArcsDeg): rows[item][block]
+   * as `rows` (an item without that sibling: no blocks).
+   */
+  siblings?: { arcPositionDeg: number; rows: Float64Array[][] }[];
 }

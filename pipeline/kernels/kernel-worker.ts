@@ -18,5 +18,6 @@ export default function computeKernelTask(task: KernelTask): KernelTaskResult {
   const result = kernelRows(task);
   const buffers = new Set<ArrayBuffer>();
   for (const rows of result.rows) for (const row of rows) buffers.add(row.buffer as ArrayBuffer);
+  for (const sibling of result.siblings ?? []) for (const rows of sibling.rows) for (const row of rows) buffers.add(row.buffer as ArrayBuffer);
   return move({ [transferableSymbol]: [...buffers], [valueSymbol]: result }) as unknown as KernelTaskResult;
 }
