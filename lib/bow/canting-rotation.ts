@@ -26,11 +26,13 @@ const ORDERS = 4;
 /**
  * The grid of the mean. Measured at 550 nm against brute force over the pupil (pupil step 0.005, elevations 0.5° apart,
  * point bins: bench/canting-pupil.ts) after the sun's disc, worst share of the peak / summed (BENCHMARKS.md
- * canting-splat): pupil step 0.014 gives 0.056 / 0.023 for 2 mm drops at the top of the bow, 0.10 / 0.04 for 1.5 mm at
- * the side; 0.02 gives 0.07–0.21 / 0.03–0.07, 0.01 0.02–0.05 / 0.01–0.02 at twice the rays. Elevations σ/7.5 apart (1°
- * at σ 7.5°) over ±3.5σ, which leaves out 5e-4 of the tilts' mass: 2° apart added 0.03 of the peak at 2 mm.
+ * canting-splat, 1–2.5 mm drops at the top, side and between): pupil step 0.02 gives 0.057–0.097 / 0.018–0.051 up to
+ * 2 mm and 0.166 / 0.081 at 2.5 mm, at about the CPU the canting rules took for a shape at 41 wavelengths (whose errors
+ * there were 0.19–1.18 / 0.10–0.38); 0.014 gives 0.019–0.058 / 0.014–0.040 and 0.146 / 0.056 at twice the rays, 0.01
+ * 0.018–0.057 / 0.011–0.039 at four times. Elevations σ/7.5 apart (1° at σ 7.5°) over ±3.5σ, which leaves out 5e-4
+ * of the tilts' mass: σ/3.75 apart left up to 0.173 / 0.043 at the top.
  */
-export const ROTATION_PUPIL_STEP = 0.014;
+export const ROTATION_PUPIL_STEP = 0.02;
 export const ROTATION_ELEVATIONS_PER_SD = 7.5;
 export const ROTATION_SPAN_SD = 3.5;
 /**
@@ -57,7 +59,7 @@ const R2_STEPS = [0.7548776662466927, 0.5698402909980532] as const;
 const AZIMUTH_STEP_DEG = 0.05;
 /**
  * Neighbouring rays further apart than this in Θ (degrees) or α are not joined by a segment: a rim or a jump of the
- * ray between them (each then stands as a point). A joined pair's Θ differs by ≤ 0.3° at pupil step 0.014 except at
+ * ray between them (each then stands as a point). A joined pair's Θ differs by ≤ 0.5° at pupil step 0.02 except at
  * the rim, where Θ turns as the square root of the distance to it.
  */
 const JOIN_THETA_DEG = 3;

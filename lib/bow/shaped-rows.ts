@@ -120,11 +120,12 @@ export const BANDED_FROM_RADIUS_UM = 1000;
 /**
  * Drops above this radius take the canting mean by rotation (ShapedRowSpec.cantingRotation) where the drops are canted
  * by at least ROTATION_MIN_CANTING_SD_DEG: against brute force over the pupil (550 nm, canting 7.5°, after the sun's
- * disc, BENCHMARKS.md canting-splat), worst share of the peak / summed, 2 mm drops at the top of the bow 0.596 / 0.251
- * with the banded rule and 0.056 / 0.023 by rotation, at the side 0.502 / 0.377 with the five-node rule and 0.043 /
- * 0.019; 1.5 mm at the side 0.257 / 0.104 and 0.093 / 0.035. It is ray optics, whose error grows as drops shrink (the
- * bows' wave structure) while the rules' shrinks: at 1 mm at the side the five-node rule's 0.110 / 0.053 beat the same
- * pupil step's 0.207 / 0.091, so the rules keep drops up to 1 mm.
+ * disc, BENCHMARKS.md canting-splat), worst share of the peak / summed, the rules against the rotation: 2 mm drops at
+ * the top of the bow 0.596 / 0.251 and 0.097 / 0.021, at the side 0.502 / 0.377 and 0.057 / 0.026; 1.5 mm at the side
+ * 0.257 / 0.104 and 0.060 / 0.031; 2.5 mm at arc 45° 1.179 / 0.355 and 0.166 / 0.081. At 1 mm the rotation is better
+ * too (0.215 / 0.105 and 0.059 / 0.033 at the top) but costs about 5 s of CPU a shape against the rules' 0.2–0.4 s at
+ * one index, and drops up to 1 mm share the planes of shape nodes (SHAPE_NODES_MAX_RADIUS_UM); below about 0.5 mm the
+ * ray optics it rests on leaves out the bows' wave structure that the rules' Airy-type bows keep.
  */
 export const ROTATION_FROM_RADIUS_UM = 1000;
 
