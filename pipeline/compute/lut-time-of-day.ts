@@ -43,9 +43,16 @@ async function arcSlices(request: LutRequest, values: number[], deps: ProfileDep
   const share = { ...deps, limits: { maxTermAngles: deps.limits.maxTermAngles / values.length } };
   const slices: Lut[] = [];
   for (let k = 0; k < values.length; k++) {
-    const slice = await computeLut({ ...request, scenario: { ...request.scenario, arcPositionDeg: values[k] }, arcPositions: undefined }, share, ({ fraction }) => {
-      if (fraction < 1) progress.advance(stageNames[k], fraction);
-    });
+    // The first slice asks for every slice's rows where a pass gives them all (sibling-arcs.ts); the others find them.
+    const slice = await computeLut(
+      { ...request, scenario: { ...request.scenario, arcPositionDeg: values[k] }, arcPositions: undefined },
+      share,
+      ({ fraction }) => {
+        if (fraction < 1) progress.advance(stageNames[k], fraction);
+      },
+      "combined",
+      k === 0 ? values : undefined,
+    );
     progress.complete(stageNames[k]);
     slices.push(slice);
   }

@@ -9,6 +9,7 @@ import { planProfile, refuseTooCostly, profileSources, profileWarnings, requestH
 import { ORDER_LAYERS } from "../../lib/bow/scattering-orders.js";
 import { orderLayersManifest } from "./order-layers.js";
 import { sharedKernelRows } from "../kernels/shared-rows.js";
+import { withSiblingArcs } from "./sibling-arcs.js";
 import { discKernels } from "../../lib/bow/lattice-profile.js";
 import { COST_NS } from "../progress/work-costs.js";
 import { laterWorkNs } from "../progress/profile-work.js";
@@ -102,7 +103,14 @@ export function lutStages(sunStages: readonly string[]): string[] {
  * re-weights them by its own spectrum and takes the colour sums. A single texture is the case of one sun, so a
  * time-of-day slice and the single-elevation texture at its elevation come from the same operations, to the bit.
  */
-export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps: ProfileDeps, progress: ProgressMeter, sunStages: readonly string[], layers: ProfileLayers = "combined"): Promise<Lut[]> {
+export async function computeLutsAcrossSun(
+  requests: readonly LutRequest[],
+  deps: ProfileDeps,
+  progress: ProgressMeter,
+  sunStages: readonly string[],
+  layers: ProfileLayers = "combined",
+  siblingArcsDeg?: readonly number[],
+): Promise<Lut[]> {
   const started = performance.now();
   const request = requests[0];
   const texelPsi = texelAngles(request.angles);
@@ -135,7 +143,7 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
 
   const kernelRows = await sharedKernelRows(
     deps.kernels,
-    plans.map((p) => p.kernelRequest),
+    plans.map((p) => (siblingArcsDeg ? withSiblingArcs(p.kernelRequest, siblingArcsDeg) : p.kernelRequest)),
     deps.signal,
     {
       saveEachTask: deps.saveEachTask,
@@ -207,10 +215,11 @@ export async function computeLutsAcrossSun(requests: readonly LutRequest[], deps
   return luts;
 }
 
-export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener, layers: ProfileLayers = "combined"): Promise<Lut> {
+/** siblingArcsDeg: the arc positions of the slices of a texture along the arc, whose rows this one's pass also gives (sibling-arcs.ts). */
+export async function computeLut(request: LutRequest, deps: ProfileDeps, onProgress?: ProgressListener, layers: ProfileLayers = "combined", siblingArcsDeg?: readonly number[]): Promise<Lut> {
   const stages = lutStages(["colour"]);
   const progress = new ProgressMeter(stages, onProgress);
-  const [lut] = await computeLutsAcrossSun([request], deps, progress, ["colour"], layers);
+  const [lut] = await computeLutsAcrossSun([request], deps, progress, ["colour"], layers, siblingArcsDeg);
   progress.done();
   return lut;
 }

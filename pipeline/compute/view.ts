@@ -24,7 +24,7 @@ import { arcFrame, arcPositionInFrame } from "../../lib/view/arc-position.js";
 import { isFlattened } from "../../schemas/drop-shape.js";
 import type { ArcSlices } from "../../lib/view/arc-slices.js";
 import { arcNodesDeg, ARC_NODE_STEP_DEG, ARC_INTERPOLATION, ARC_TOLERANCE } from "./arc-nodes.js";
-import { quantiseSpec } from "../../lib/bow/shaped-rows.js";
+import { asksRotation, withSiblingArcs } from "./sibling-arcs.js";
 import { curtainTransmittance } from "../../lib/bow/extinction.js";
 import { spacePrimaries } from "../../lib/colour/primaries.js";
 import { contentHash } from "../requests/content-hash.js";
@@ -568,17 +568,8 @@ async function arcProfiles(scene: Scene, grid: { fromDeg: number; toDeg: number;
   // Drops whose canting mean is taken by rotation over the pupil (lib/bow/canting-rotation.ts) give every node's rows
   // from one pass: the first node asks for them all (ShapedRowSpec.siblingArcsDeg) and the kernel cache keeps them,
   // so the other nodes, computed after it, find their rows there.
-  const first = plans[0].kernelRequest;
-  if (!first.shapes?.some((spec) => spec?.cantingRotation)) return Promise.all(bodies.map((_, k) => profileAt(k)));
-  plans[0] = {
-    ...plans[0],
-    kernelRequest: {
-      ...first,
-      shapes: first.shapes.map((spec) =>
-        spec?.cantingRotation ? { ...spec, siblingArcsDeg: nodes.map((node) => quantiseSpec({ ...spec, arcPositionDeg: node }).arcPositionDeg) } : spec,
-      ),
-    },
-  };
+  if (!asksRotation(plans[0].kernelRequest)) return Promise.all(bodies.map((_, k) => profileAt(k)));
+  plans[0] = { ...plans[0], kernelRequest: withSiblingArcs(plans[0].kernelRequest, nodes) };
   const head = await profileAt(0);
   return [head, ...(await Promise.all(bodies.slice(1).map((_, k) => profileAt(k + 1))))];
 }

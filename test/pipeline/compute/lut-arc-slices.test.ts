@@ -11,6 +11,7 @@ import { KernelService } from "../../../pipeline/kernels/kernel-service.js";
 import { createInlinePool } from "../../../pipeline/kernels/worker-pool.js";
 import { texelAngles } from "../../../lib/lut/texel-mapping.js";
 import { lutManifestSchema } from "../../../schemas/responses/lut-response.js";
+import type { KernelTask } from "../../../pipeline/kernels/kernel-types.js";
 
 const kernels = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: createInlinePool().compute });
 const deps = { kernels, limits: { maxTermAngles: Infinity } };
@@ -74,4 +75,25 @@ describe("a lookup texture of flattened drops gains an arc-position axis", () =>
     expect(() => lutRequestSchema.parse({ ...texture, scenario: { ...scenario, drops: { ...scenario.drops, shape: { kind: "sphere" } } } })).toThrow(/arcPositions|arc-position/);
     expect(() => lutRequestSchema.parse({ ...texture, arcPositions: undefined, sunElevations: { fromDeg: 0, toDeg: 10, slices: 2 } })).toThrow(/one slice axis/);
   });
+});
+
+describe("a lookup texture of large canted drops along the arc", () => {
+  it("computes the canting mean by rotation once, at the first slice, for every slice (sibling-arcs.ts)", async () => {
+    const seen: KernelTask[] = [];
+    const inline = createInlinePool().compute;
+    const counting = new KernelService({ memoryBudgetBytes: 2 ** 30, compute: async (task, signal) => (seen.push(task), inline(task, signal)) });
+    const lut = await computeSlicedLut(
+      lutRequestSchema.parse({
+        ...texture,
+        scenario: { ...scenario, drops: { kind: "monodisperse", radiusUm: 1500, numberPerM3: 1000, shape: { kind: "equilibrium" } } },
+        arcPositions: { fromDeg: 0, toDeg: 10, slices: 3 },
+      }),
+      { kernels: counting, limits: { maxTermAngles: Infinity } },
+    );
+    expect(lut.slices).toBe(3);
+    const rotated = seen.filter((task) => task.items.some((item) => item.shape?.cantingRotation));
+    expect(rotated.length).toBeGreaterThan(0);
+    expect(new Set(rotated.map((task) => task.items[0].shape!.arcPositionDeg))).toEqual(new Set([0]));
+    expect(rotated[0].items[0].shape!.siblingArcsDeg).toEqual([0, 5, 10]);
+  }, 300_000);
 });
