@@ -33,6 +33,8 @@ interface PlaneCount {
   /** Planes traced at the water's fixed indices, and rows made per wavelength from them, as the service computes the request. */
   traced: number;
   interpolated: number;
+  /** Shapes whose canting mean is taken by rotation over the pupil (no planes: lib/bow/canting-rotation.ts). */
+  rotation: number;
 }
 
 /** Scattering planes a request computes cold (one task per shape, split by canting node: pipeline/kernels/kernel-service.ts). */
@@ -40,9 +42,9 @@ function planeCount(body: Record<string, unknown>): PlaneCount {
   const request = profileRequestSchema.parse(body);
   const quadrature = latticeRadiusQuadrature(toDistribution(request.drops));
   const plan = planDropShapes(request, quadrature.radiiUm);
-  if (!plan.shapes.some((s) => s !== undefined)) return { traced: 0, interpolated: 0 };
+  if (!plan.shapes.some((s) => s !== undefined)) return { traced: 0, interpolated: 0, rotation: 0 };
   const wavelengths = makeWavelengthGrid(request.spectral.fromNm, request.spectral.toNm, request.spectral.stepNm).count;
-  return shapedPlaneCounts(plan, wavelengths);
+  return { ...shapedPlaneCounts(plan, wavelengths), rotation: plan.rotationShapes };
 }
 
 const machine = machineLine();
@@ -54,7 +56,7 @@ for (const w of workloads) measured.push(...(await benchProfile(w)));
 const loadAfter = loadavg()[0];
 const rows = measured.map((r) => {
   const c = planeCount(workloads.find((w) => w.name === r.name)!.body);
-  return `| ${r.name} | ${c.traced} + ${c.interpolated} | ${r.coldMs.toFixed(0)} | ${r.coldCores.toFixed(2)} | ${r.warmMs === null ? "–" : r.warmMs.toFixed(1)} | ${(r.kernelBytes / 2 ** 20).toFixed(1)} |`;
+  return `| ${r.name} | ${c.traced} + ${c.interpolated} | ${c.rotation} | ${r.coldMs.toFixed(0)} | ${r.coldCores.toFixed(2)} | ${r.warmMs === null ? "–" : r.warmMs.toFixed(1)} | ${(r.kernelBytes / 2 ** 20).toFixed(1)} |`;
 });
 for (const r of rows) console.log(r);
 writeMarkedSection("shapes", [
@@ -68,9 +70,10 @@ writeMarkedSection("shapes", [
   `computes them (per shape and canting node, each plane traced at ${INDEX_NODES} refractive indices fixed by the water; each`,
   "wavelength's row blended from their bows' uniform tables aligned on the interpolated fold, lib/bow/aligned-blend.ts, or,",
   "where the bow's constants or rows do not follow one polynomial in n, traced at the wavelength's own index). Goals",
-  "(issue 13): default cold ≤ 1.5 s, warm ≤ 20 ms; Marshall–Palmer 25 mm/h with equilibrium shapes cold ≤ 3 s.",
+  "(issue 13): default cold ≤ 1.5 s, warm ≤ 20 ms; Marshall–Palmer 25 mm/h with equilibrium shapes cold ≤ 3 s. Shapes by rotation:",
+  "drops above 1 mm radius whose canting mean is taken over the upright drop's pupil instead of planes (lib/bow/canting-rotation.ts).",
   "",
-  "| workload | planes (traced + per wavelength) | cold (ms) | cores busy | warm (ms) | kernel cache (MiB) |",
-  "|---|---|---|---|---|---|",
+  "| workload | planes (traced + per wavelength) | shapes by rotation | cold (ms) | cores busy | warm (ms) | kernel cache (MiB) |",
+  "|---|---|---|---|---|---|---|",
   ...rows,
 ]);
