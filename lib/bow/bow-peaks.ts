@@ -53,8 +53,16 @@ const DISPERSION_HALF_WIDTH_DEG = 1.5;
  * condition, Born & Wolf 1999 §3.2.2 for the refraction, common practice for the colour order). primaryDeg is the
  * brightest interior luminance maximum whose long-wavelength centroid (the longest third of the request's wavelengths)
  * lies outside its short-wavelength centroid (the shortest third), secondaryDeg the brightest outside it with the
- * opposite order; null when there is none. With one wavelength there is no colour order and the windows decide.
+ * opposite order; null when there is none. Only maxima that are the brightest within ±DISPERSION_HALF_WIDTH_DEG count. With
+ * one wavelength there is no colour order and the windows decide.
  */
+/** Whether luminance[i] is the largest within ±halfWidthDeg of anglesDeg[i]. */
+function brightestAround(anglesDeg: Float64Array, luminance: Float64Array, i: number, halfWidthDeg: number): boolean {
+  for (let j = i - 1; j >= 0 && anglesDeg[i] - anglesDeg[j] <= halfWidthDeg; j--) if (luminance[j] > luminance[i]) return false;
+  for (let j = i + 1; j < anglesDeg.length && anglesDeg[j] - anglesDeg[i] <= halfWidthDeg; j++) if (luminance[j] > luminance[i]) return false;
+  return true;
+}
+
 export function findBowsByDispersion(profile: SpectralRadiance, luminance: Float64Array): BowPeaks {
   const { anglesDeg, wavelengthsNm } = profile;
   const shortestNm = wavelengthsNm[0];
@@ -68,6 +76,9 @@ export function findBowsByDispersion(profile: SpectralRadiance, luminance: Float
   const maxima: { at: number; shift: number }[] = [];
   for (let i = 1; i + 1 < anglesDeg.length; i++) {
     if (!(luminance[i] > luminance[i - 1] && luminance[i] >= luminance[i + 1])) continue;
+    // A bow is the brightest within its neighbourhood: a ripple on a slope (the canting mean's sampling, a few % of
+    // the peak) is not one.
+    if (!brightestAround(anglesDeg, luminance, i, DISPERSION_HALF_WIDTH_DEG)) continue;
     const shift = bandCentroid(profile, i, redBandNm) - bandCentroid(profile, i, blueBandNm);
     if (Math.abs(shift) > 0) maxima.push({ at: i, shift });
   }

@@ -54,3 +54,25 @@ describe("which luminance maximum is which bow, for flattened drops", () => {
     expect(byDispersion).toEqual(byWindow);
   }, 600_000);
 });
+
+describe("a ripple on a slope is no bow", () => {
+  it("a ripple of a few % on the slope of a bow is not taken for the other bow (common practice: a bow is a maximum of its neighbourhood)", () => {
+    // Two wavelengths: a hump at 40° with red (640 nm) 0.3° inside blue (440 nm), the secondary's colour order (as the
+    // top of the bow shows for canted drops above 1 mm, whose light there is of the secondary's order), a slope beyond
+    // it, and on the slope at 48.8° a ripple of 2 % of the peak with red outside blue (the sampling of the canting
+    // mean). It was labelled the primary, and the hump then no bow at all (the secondary lies outside the primary).
+    const anglesDeg = Float64Array.from({ length: 301 }, (_, i) => 30 + 0.1 * i);
+    const wavelengthsNm = Float64Array.from([440, 640]);
+    const bump = (psi: number, at: number, width: number) => Math.exp(-(((psi - at) / width) ** 2));
+    const radiance = new Float64Array(2 * anglesDeg.length);
+    anglesDeg.forEach((psi, i) => {
+      const slope = psi > 40 ? 0.4 * Math.exp(-(psi - 40) / 6) : 0;
+      radiance[2 * i] = bump(psi, 40.15, 1.5) + slope + 0.02 * bump(psi, 48.7, 0.15);
+      radiance[2 * i + 1] = bump(psi, 39.85, 1.5) + slope + 0.02 * bump(psi, 48.9, 0.15);
+    });
+    const luminance = Float64Array.from(anglesDeg, (_, i) => radiance[2 * i] + radiance[2 * i + 1]);
+    const bows = findBowsByDispersion({ anglesDeg, wavelengthsNm, radiance }, luminance);
+    expect(bows.primaryDeg).toBeNull();
+    expect(bows.secondaryDeg).toBeCloseTo(40, 0);
+  });
+});
