@@ -17,6 +17,7 @@ import { bowScatteringPlane } from "../rays/bow-geometry.js";
 import { AT, ORDER_STRIDE } from "../rays/shape-tracer.js";
 import { chebyshevNodes, lagrangeWeights } from "../rays/sweep-interpolation.js";
 import { shapedPlaneTracer } from "./shaped-plane-rows.js";
+import { depositOverInterval } from "./ray-bins.js";
 import type { PlaneTracer } from "../rays/plane-sweep.js";
 
 const DEG = Math.PI / 180;
@@ -341,35 +342,11 @@ function depositRow(ray: RowRays, weightAt: number, D: number, cells: number, ro
           const q = s + side;
           const t = iu + side;
           const joined = t >= 0 && t < cells && ray.ok[q] === 1 && Math.abs(ray.theta[q] - theta) < JOIN_THETA_DEG && Math.abs(ray.alpha[q] - ray.alpha[s]) < JOIN_ALPHA_DEG;
-          depositPair(perp, par, ePerp, ePar, theta, joined ? 0.5 * (theta + ray.theta[q]) : theta, fromDeg, stepDeg);
+          const end = joined ? 0.5 * (theta + ray.theta[q]) : theta;
+          depositOverInterval(perp, ePerp, theta, end, fromDeg, stepDeg);
+          depositOverInterval(par, ePar, theta, end, fromDeg, stepDeg);
         }
       }
-    }
-  }
-}
-
-/** ray-bins.ts depositOverInterval for the ⟂ and ∥ powers at once: each spread evenly over [a, b] (a point when a = b). */
-function depositPair(perp: Float64Array, par: Float64Array, ePerp: number, ePar: number, a: number, b: number, fromDeg: number, stepDeg: number): void {
-  const lo = Math.min(a, b);
-  const hi = Math.max(a, b);
-  const count = perp.length;
-  const width = hi - lo;
-  if (width < 1e-12) {
-    const j = Math.floor((lo - fromDeg) / stepDeg);
-    if (j >= 0 && j < count) {
-      perp[j] += ePerp;
-      par[j] += ePar;
-    }
-    return;
-  }
-  const jFirst = Math.max(0, Math.floor((lo - fromDeg) / stepDeg));
-  const jLast = Math.min(count - 1, Math.floor((hi - fromDeg) / stepDeg));
-  for (let j = jFirst; j <= jLast; j++) {
-    const binLo = fromDeg + j * stepDeg;
-    const overlap = Math.min(hi, binLo + stepDeg) - Math.max(lo, binLo);
-    if (overlap > 0) {
-      perp[j] += (ePerp * overlap) / width;
-      par[j] += (ePar * overlap) / width;
     }
   }
 }
