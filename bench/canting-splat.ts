@@ -1,8 +1,8 @@
 // npm run bench:canting-splat [-- --write]: the canting mean by rotation over the upright drop's pupil
-// (lib/bow/canting-rotation.ts, the service's for canted drops above 1 mm) at its own grid and at coarser and finer
-// ones, against brute force over the pupil (bench/canting-pupil.ts: pupil step 0.005, elevations 0.5° apart, point bins)
-// and beside the canting rules (lib/bow/shaped-rows.ts: the five-node rule, or the banded one near the top or foot of
-// the bow), all in one process: errors as bench/canting-spread.ts gives them (one wavelength, 550 nm, n 1.3345 — the
+// (lib/bow/canting-rotation.ts, the service's for canted drops above 1 mm) at its own grid, at finer pupil grids and at
+// elevations twice as far apart, against brute force over the pupil (bench/canting-pupil.ts: pupil step 0.005, elevations
+// 0.5° apart, point bins; bench/canting-setup.ts) and beside the canting rules (lib/bow/shaped-rows.ts: the five-node
+// rule, or the banded one near the top or foot of the bow), all in one process: errors as bench/canting-spread.ts gives them (one wavelength, 550 nm, n 1.3345 — the
 // rotation's rays interpolated to it from its index nodes —, after the sun's disc, ψ 30–58°: worst share of the
 // reference's peak / summed |Δ| over the summed reference) and the CPU time of each at that one wavelength. Writes the
 // canting-splat section of BENCHMARKS.md with --write.
@@ -11,21 +11,11 @@ import { loadavg } from "node:os";
 import { shapedRows, type ShapedRowSpec } from "../lib/bow/shaped-rows.js";
 import { rotationCantingRows, ROTATION_ELEVATIONS_PER_SD, ROTATION_PUPIL_STEP } from "../lib/bow/canting-rotation.js";
 import { equilibriumOutline } from "../lib/drops/shape/equilibrium-shape.js";
-import { convolveProfile, sunDiscKernel, SUN_MEAN_ANGULAR_DIAMETER_DEG } from "../lib/sun/disc.js";
 import { WATER_INDEX_RANGE } from "../lib/water/index-range.js";
 import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
-import { pupilCantingRow } from "./canting-pupil.js";
-import { rowErrors } from "./row-errors.js";
+import { errors, N_RE, PUPIL_GRID, pupilReference, SD_DEG, seen, sizeParameter, STEP_DEG, SUN_DEG, THETA_DEG, WAVELENGTH_UM } from "./canting-setup.js";
+import { cpuTimed } from "./timing.js";
 
-const SD_DEG = 7.5;
-const SUN_DEG = 10;
-const STEP_DEG = 0.05;
-const N_RE = 1.3345;
-const WAVELENGTH_UM = 0.55;
-const COUNT = 700;
-const FROM = 80;
-const TO = 640;
-const REFERENCE = { du: 0.005, elevationStepDeg: 0.5, spanSd: 3.5 };
 /** The service's grid first, then finer pupils, and elevations twice as far apart. */
 const GRIDS = [
   { pupilStep: ROTATION_PUPIL_STEP, elevationsPerSd: ROTATION_ELEVATIONS_PER_SD },
@@ -46,34 +36,21 @@ const CASES: { radiusUm: number; arcPositionDeg: number }[] = process.env.CASES
       { radiusUm: 2500, arcPositionDeg: 45 },
     ];
 
-const disc = sunDiscKernel(SUN_MEAN_ANGULAR_DIAMETER_DEG, STEP_DEG);
-const thetaDeg = Float64Array.from({ length: COUNT }, (_, j) => 118.025 + STEP_DEG * j);
-const fromDeg = thetaDeg[0] - STEP_DEG / 2;
-
-function cpuMs<T>(fn: () => T): { value: T; ms: number } {
-  const t0 = process.cpuUsage();
-  const value = fn();
-  const t = process.cpuUsage(t0);
-  return { value, ms: (t.user + t.system) / 1000 };
-}
-
 const figure = (row: Float64Array, reference: Float64Array, ms: number) => {
-  const { worst, summed } = rowErrors(row, reference, FROM, TO);
+  const { worst, summed } = errors(row, reference);
   return `${worst.toFixed(3)} / ${summed.toFixed(3)} (${(ms / 1000).toFixed(1)} s)`;
 };
 
 const lines: string[] = [];
 for (const { radiusUm, arcPositionDeg } of CASES) {
-  const x = (2 * Math.PI * radiusUm) / WAVELENGTH_UM;
+  const x = sizeParameter(radiusUm);
   const outline = equilibriumOutline(radiusUm);
-  const seen = (perp: Float64Array, par: Float64Array) => convolveProfile(perp.map((v, j) => v + par[j]), disc);
-  // Per unit solid angle → the engine's rows (× x²), then the sun's disc.
-  const reference = convolveProfile(pupilCantingRow(outline, N_RE, SUN_DEG, arcPositionDeg, SD_DEG, fromDeg, STEP_DEG, COUNT, REFERENCE).map((v) => v * x * x), disc);
+  const reference = pupilReference(radiusUm, arcPositionDeg);
   const place = { sunElevationDeg: SUN_DEG, cantingSdDeg: SD_DEG, arcPositionDeg };
   const rule: ShapedRowSpec = { kind: "equilibrium", ...place, rayOnly: false, traceEveryIndex: true, cantingBand: radiusUm > 1000 };
-  const rules = cpuMs(() => shapedRows(rule, [{ radiusUm, mRe: N_RE, x }], thetaDeg, STEP_DEG, "spread")[0]);
+  const rules = cpuTimed(() => shapedRows(rule, [{ radiusUm, mRe: N_RE, x }], THETA_DEG, STEP_DEG, "spread")[0]);
   const rotations = GRIDS.map((grid) =>
-    cpuMs(() => rotationCantingRows({ outline, ...place, indexSpan: WATER_INDEX_RANGE, grid }, [{ mRe: N_RE, x }], thetaDeg, STEP_DEG)[0]),
+    cpuTimed(() => rotationCantingRows({ outline, ...place, indexSpan: WATER_INDEX_RANGE, grid }, [{ mRe: N_RE, x }], THETA_DEG, STEP_DEG)[0]),
   );
   const line =
     `| ${radiusUm / 1000} mm, arc ${arcPositionDeg}° | ${figure(seen(rules.value.perp, rules.value.par), reference, rules.ms)} | ` +
@@ -88,7 +65,7 @@ const section = [
   "",
   `Written by \`npm run bench:canting-splat -- --write\` (bench/canting-splat.ts), ${benchDate()}; ${machineLine()}; one thread; load average ${loadavg()[0].toFixed(1)} at the end.`,
   `Equilibrium drops, canting σ ${SD_DEG}°, sun ${SUN_DEG}°, ${WAVELENGTH_UM * 1000} nm (n ${N_RE}), after the sun's disc, ψ 30–58°. Each cell: against brute force over the`,
-  `pupil (bench/canting-pupil.ts: pupil step ${REFERENCE.du}, elevations ${REFERENCE.elevationStepDeg}° apart over ±${REFERENCE.spanSd}σ, each ray binned as a point), the worst share of its peak /`,
+  `pupil (bench/canting-pupil.ts: pupil step ${PUPIL_GRID.du}, elevations ${PUPIL_GRID.elevationStepDeg}° apart over ±${PUPIL_GRID.spanSd}σ, each ray binned as a point), the worst share of its peak /`,
   "the summed |Δ| over its sum, and (CPU time at this one wavelength, one process, one after another). Rules: the canting rules",
   "(lib/bow/plane-canting-nodes.ts: five tilts, above 1 mm at the top or foot the banded rule; each node's bow spread over",
   "its cell), traced at this index. Rotation (lib/bow/canting-rotation.ts): for each relative sun elevation every ray of a",

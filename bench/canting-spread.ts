@@ -14,12 +14,9 @@ import { BANDED_FROM_RADIUS_UM, shapedRows, type CantingMean, type ShapedRowSpec
 import { shapedPlaneContext, shapedPlaneRow } from "../lib/bow/shaped-plane-rows.js";
 import { equilibriumOutline } from "../lib/drops/shape/equilibrium-shape.js";
 import { bowScatteringPlane, cantedAxis } from "../lib/rays/bow-geometry.js";
-import { convolveProfile, sunDiscKernel, SUN_MEAN_ANGULAR_DIAMETER_DEG } from "../lib/sun/disc.js";
 import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
-import { pupilCantingRow, type PupilCantingGrid } from "./canting-pupil.js";
-import { rowErrors } from "./row-errors.js";
+import { errors, N_RE, PUPIL_GRID, pupilReference, SD_DEG, seen, sizeParameter, STEP_DEG, SUN_DEG, THETA_DEG } from "./canting-setup.js";
 
-const SD_DEG = 7.5;
 /**
  * Tilts 1° apart: a node's fold then moves by ≤ 0.5° (1 mm drops half-way up the bow, ≤ 0.5° per degree of tilt), inside
  * the sun's disc (a grid 1.5° apart left a comb in the reference: worst errors 0.4 of the peak where the summed error
@@ -27,20 +24,6 @@ const SD_DEG = 7.5;
  */
 const TILT_SPACING_DEG = 1;
 const TILT_SPAN_SD = 3.5;
-const STEP_DEG = 0.05;
-const N_RE = 1.3345;
-const WAVELENGTH_UM = 0.55;
-/** Θ 118–153° (ψ 27–62°); figures over ψ 30–58°, clear of the grid's ends. */
-const THETA_DEG = Float64Array.from({ length: 700 }, (_, j) => 118.025 + STEP_DEG * j);
-const FROM = 80;
-const TO = 640;
-
-/**
- * The pupil brute force's grid: measured on 2 mm drops at the top, this grid against one of pupil step 0.004 and
- * elevations 1° apart differs by 0.048 of the peak at worst (the secondary's sharp edge at ψ 39.9°, which moves 0.24° per
- * degree of elevation), 0.011 summed.
- */
-const PUPIL_GRID: PupilCantingGrid = { du: 0.005, elevationStepDeg: 0.5, spanSd: 3.5 };
 
 const CASES = process.env.CASES ? JSON.parse(process.env.CASES) : [
   { radiusUm: 500, arcPositionDeg: 45 },
@@ -55,12 +38,9 @@ const CASES = process.env.CASES ? JSON.parse(process.env.CASES) : [
   { radiusUm: 2000, arcPositionDeg: 90 },
 ];
 
-const disc = sunDiscKernel(SUN_MEAN_ANGULAR_DIAMETER_DEG, STEP_DEG);
-const seen = (perp: Float64Array, par: Float64Array) => convolveProfile(perp.map((v, j) => v + par[j]), disc);
-
 function bruteForce(radiusUm: number, arcPositionDeg: number, x: number): Float64Array {
   const outline = equilibriumOutline(radiusUm);
-  const plane = bowScatteringPlane(10, arcPositionDeg);
+  const plane = bowScatteringPlane(SUN_DEG, arcPositionDeg);
   const sum = { perp: new Float64Array(THETA_DEG.length), par: new Float64Array(THETA_DEG.length) };
   const perp = new Float64Array(THETA_DEG.length);
   const par = new Float64Array(THETA_DEG.length);
@@ -81,22 +61,18 @@ function bruteForce(radiusUm: number, arcPositionDeg: number, x: number): Float6
   return seen(sum.perp.map((v) => v / total), sum.par.map((v) => v / total));
 }
 
-const errors = (row: Float64Array, reference: Float64Array) => rowErrors(row, reference, FROM, TO);
-
 const rows: string[] = [];
 for (const { radiusUm, arcPositionDeg } of CASES) {
-  const x = (2 * Math.PI * radiusUm) / WAVELENGTH_UM;
+  const x = sizeParameter(radiusUm);
   // The service's rule for the size: the banded one near a mirror plane above BANDED_FROM_RADIUS_UM.
-  const spec: ShapedRowSpec = { kind: "equilibrium", cantingSdDeg: SD_DEG, sunElevationDeg: 10, arcPositionDeg, rayOnly: false, traceEveryIndex: true, cantingBand: radiusUm > BANDED_FROM_RADIUS_UM };
+  const spec: ShapedRowSpec = { kind: "equilibrium", cantingSdDeg: SD_DEG, sunElevationDeg: SUN_DEG, arcPositionDeg, rayOnly: false, traceEveryIndex: true, cantingBand: radiusUm > BANDED_FROM_RADIUS_UM };
   const drop = { radiusUm, mRe: N_RE, x };
   const mean = (how: CantingMean) => {
     const [row] = shapedRows(spec, [drop], THETA_DEG, STEP_DEG, how);
     return seen(row.perp, row.par);
   };
   const reference = bruteForce(radiusUm, arcPositionDeg, x);
-  // The pupil's rows are per unit solid angle; the engine's scale with x² (shaped-plane-rows.ts shapedPlaneRow).
-  const pupilRow = pupilCantingRow(equilibriumOutline(radiusUm), N_RE, 10, arcPositionDeg, SD_DEG, THETA_DEG[0] - STEP_DEG / 2, STEP_DEG, THETA_DEG.length, PUPIL_GRID);
-  const pupil = convolveProfile(pupilRow.map((v) => v * x * x), disc);
+  const pupil = pupilReference(radiusUm, arcPositionDeg);
   const means = { spread: mean("spread"), nodes: mean("nodes") };
   const figures = [...(["spread", "nodes"] as const).map((how) => errors(means[how], pupil)), errors(reference, pupil), ...(["spread", "nodes"] as const).map((how) => errors(means[how], reference))];
   // DUMP=<folder>: the rows themselves, for a look at where they part (Θ, both references, spread, nodes).

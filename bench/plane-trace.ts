@@ -28,6 +28,7 @@ import { planDropShapes } from "../pipeline/compute/drop-shape-plan.js";
 import { makeWavelengthGrid, wavelengthsNm } from "../lib/spectra/grid.js";
 import { dropMedia } from "../lib/water/drop-medium.js";
 import type { ShapedRowSpec, ShapedDrop } from "../lib/bow/shaped-rows.js";
+import { cpuTimed } from "./timing.js";
 
 type Rows = { perp: Float64Array; par: Float64Array }[];
 interface Build {
@@ -63,12 +64,7 @@ function argument(flag: string): string | undefined {
   return k >= 0 ? process.argv[k + 1] : undefined;
 }
 
-const cpuMs = (fn: () => void): number => {
-  const t0 = process.cpuUsage();
-  fn();
-  const t = process.cpuUsage(t0);
-  return (t.user + t.system) / 1000;
-};
+const cpuMs = (fn: () => void): number => cpuTimed(fn).ms;
 
 function countTraces(build: Build, fn: () => void): number {
   const original = build.tracerPrototype.traceAt;

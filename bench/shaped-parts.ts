@@ -14,6 +14,7 @@ import { SHAPED_ORDER_GROUPS } from "../lib/bow/shaped-rows.js";
 import { P4 } from "./profiles.js";
 import { loadavg } from "node:os";
 import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
+import { cpuTimed } from "./timing.js";
 
 interface PartCpu {
   node: number;
@@ -21,12 +22,7 @@ interface PartCpu {
   cpuMs: number;
 }
 
-function cpuMs(fn: () => void): number {
-  const t0 = process.cpuUsage();
-  fn();
-  const t = process.cpuUsage(t0);
-  return (t.user + t.system) / 1000;
-}
+const cpuMs = (fn: () => void): number => cpuTimed(fn).ms;
 
 /** P4 cold on this thread; parallelism 2 splits its one shape in parts, 1 keeps it whole. */
 async function run(parallelism: number, body: unknown): Promise<{ parts: PartCpu[]; totalMs: number; perp: Float64Array }> {

@@ -24,3 +24,11 @@ export function timeIt(fn: () => number, opts: { warmup?: number; runs?: number;
   times.sort((a, b) => a - b);
   return { medianMs: times[Math.floor(times.length / 2)], minMs: times[0], runs: times.length, checksum };
 }
+
+/** CPU time of this process (all its threads) while fn runs, in ms, and fn's result. */
+export function cpuTimed<T>(fn: () => T): { value: T; ms: number } {
+  const t0 = process.cpuUsage();
+  const value = fn();
+  const t = process.cpuUsage(t0);
+  return { value, ms: (t.user + t.system) / 1000 };
+}

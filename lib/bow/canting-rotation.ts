@@ -23,6 +23,8 @@ import type { PlaneTracer } from "../rays/plane-sweep.js";
 const DEG = Math.PI / 180;
 /** Orders traced: reflection, transmission, the primary's and the secondary's. */
 const ORDERS = 4;
+/** The exit fields a trace keeps per order (real and imaginary parts for each incident polarisation: shape-tracer.ts AT). */
+const EXIT_FIELDS = [AT.e1Re, AT.e1Im, AT.e2Re, AT.e2Im] as const;
 
 /**
  * The grid of the mean. Measured at 550 nm against brute force over the pupil (pupil step 0.005, elevations 0.5° apart,
@@ -165,7 +167,8 @@ export function rotationCantingRowsAlong(
     const plane = bowScatteringPlane(elevationDeg, turnDeg);
     const tracers = nodes.map((n) => shapedPlaneTracer({ outline, axis: [0, 0, 1], n }, plane, { rayOrders: [0, 1], bowOrders: [2, 3] }));
     const h = elevationDeg * DEG;
-    const dIn = [Math.cos(h), 0, -Math.sin(h)] as const;
+    const dIn = plane.dIn;
+    // t̂, the upward unit vector ⟂ d_in (bow-geometry.ts), from which α is measured.
     const up = [Math.sin(h), 0, Math.cos(h)] as const;
     // Power·du² · Δh′ over the bin's Θ width (radians), times the density per degree² at each ray (canting-pupil's scale).
     const scale = (du * du * elevationStepDeg) / (DEG * stepDeg * DEG);
@@ -228,8 +231,11 @@ function traceNode(tracer: PlaneTracer, u: number, v: number, k: number, dIn: re
     const norm = Math.hypot(nx, ny, nz);
     let total = 0;
     let perp = 0;
-    for (const field of [AT.e1Re, AT.e1Im, AT.e2Re, AT.e2Im]) {
-      const [fx, fy, fz] = [rec[base + field], rec[base + field + 1], rec[base + field + 2]];
+    for (const field of EXIT_FIELDS) {
+      const at3 = base + field;
+      const fx = rec[at3];
+      const fy = rec[at3 + 1];
+      const fz = rec[at3 + 2];
       total += fx * fx + fy * fy + fz * fz;
       if (norm > 0) perp += ((fx * nx + fy * ny + fz * nz) / norm) ** 2;
     }

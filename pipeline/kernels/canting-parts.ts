@@ -81,30 +81,21 @@ export async function computeInParts(
   );
   // Added in (group, node) order, whatever order the parts were queued and ended in.
   const order = parts.map((_, k) => k).sort((a, b) => parts[a].group - parts[b].group || (parts[a].node ?? -1) - (parts[b].node ?? -1));
-  const rows = task.items.map((item, i) =>
-    item.blocks.map((_, b) => {
-      const sum = new Float64Array(results[0].rows[i][b].length);
-      for (const k of order) {
-        const share = results[k].rows[i][b];
-        for (let t = 0; t < share.length; t++) sum[t] += share[t];
-      }
-      return sum;
-    }),
-  );
-  // Rows at other places on the bow (the canting mean by rotation's siblings), added part by part alike.
-  const siblings = (results[0].siblings ?? []).map(({ arcPositionDeg }, k) => ({
-    arcPositionDeg,
-    rows: task.items.map((_, i) =>
-      results[0].siblings![k].rows[i].map((_, b) => {
-        const sum = new Float64Array(results[0].siblings![k].rows[i][b].length);
-        for (const part of order) {
-          const share = results[part].siblings![k].rows[i][b];
+  // Each item's block rows added from zero in that order: the task's own rows, and the rows at other places on the bow
+  // (the canting mean by rotation's siblings) alike.
+  const added = (rowsOf: (result: KernelTaskResult) => Float64Array[][]) =>
+    rowsOf(results[0]).map((blocks, i) =>
+      blocks.map((first, b) => {
+        const sum = new Float64Array(first.length);
+        for (const k of order) {
+          const share = rowsOf(results[k])[i][b];
           for (let t = 0; t < share.length; t++) sum[t] += share[t];
         }
         return sum;
       }),
-    ),
-  }));
+    );
+  const rows = added((result) => result.rows);
+  const siblings = (results[0].siblings ?? []).map(({ arcPositionDeg }, s) => ({ arcPositionDeg, rows: added((result) => result.siblings![s].rows) }));
   const traced = results.reduce((s, r) => s + (r.shapedPlanes?.traced ?? 0), 0);
   const interpolated = results.reduce((s, r) => s + (r.shapedPlanes?.interpolated ?? 0), 0);
   return { rows, mieTermAngles: results.reduce((s, r) => s + r.mieTermAngles, 0), shapedPlanes: { traced, interpolated }, ...(siblings.length ? { siblings } : {}) };
