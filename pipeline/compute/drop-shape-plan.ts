@@ -165,12 +165,13 @@ export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
 /**
  * Work of one shape's canting mean by rotation (lib/bow/canting-rotation.ts), which hardly depends on the bins: its
  * pupil traced at every elevation and index node, and each wavelength's rays interpolated and spread. Measured
- * (2026-12-05, one thread, CPU time, 700 bins, canting 7.5°, pupil step 0.02) on 2 mm equilibrium drops: 4.8 s at one
- * wavelength, 6.2 s at 41 (5.8 s for 1.2 mm); at ~0.75e9 term-angles/s (SHAPED_TRACED_TERM_ANGLES_PER_BIN's rate),
- * 3.6e9 a shape and 2.6e7 a wavelength.
+ * (2026-12-05 02:05 UTC, one thread, CPU time, 700 bins, canting 7.5°, sun 10°, arc 90°, pupil step 0.02, rays that
+ * give the place no light traced at one index only) on 2 mm equilibrium drops: 3.37 s at one wavelength, 4.08 s at 41
+ * (2.88 and 3.67 s for 1.2 mm); at ~0.75e9 term-angles/s (SHAPED_TRACED_TERM_ANGLES_PER_BIN's rate), 2.5e9 a shape and
+ * 1.3e7 a wavelength.
  */
-export const ROTATION_SHAPE_TERM_ANGLES = 3.6e9;
-export const ROTATION_WAVELENGTH_TERM_ANGLES = 2.6e7;
+export const ROTATION_SHAPE_TERM_ANGLES = 2.5e9;
+export const ROTATION_WAVELENGTH_TERM_ANGLES = 1.3e7;
 
 /**
  * Scattering planes a plan's flattened rows trace and interpolate, cold: per shape (each flattened radius node of
