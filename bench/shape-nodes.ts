@@ -8,13 +8,13 @@
 // node dist/bench/shape-nodes.js [--write]   (--write: the shape-nodes section of BENCHMARKS.md)
 
 import { loadavg } from "node:os";
-import { performance } from "node:perf_hooks";
 import { benchDate, machineLine, writeMarkedSection } from "./sections.js";
 import { windowDeltaE } from "./auto-presets.js";
 import { profileRequestSchema } from "../schemas/profile.js";
-import { computeProfile, toDistribution, type ProfileResult } from "../pipeline/compute/profile.js";
+import { toDistribution } from "../pipeline/compute/profile.js";
 import { planDropShapes } from "../pipeline/compute/drop-shape-plan.js";
-import { KernelService, type KernelCompute } from "../pipeline/kernels/kernel-service.js";
+import type { KernelCompute } from "../pipeline/kernels/kernel-service.js";
+import { coldProfile } from "./cold-profile.js";
 import { createWorkerPool } from "../pipeline/kernels/worker-pool.js";
 import { latticeRadiusQuadrature } from "../lib/drops/lattice-quadrature.js";
 import { shapeNodeWeights } from "../lib/drops/shape/shape-nodes.js";
@@ -37,13 +37,8 @@ export function shapeCount(body: Record<string, unknown>, step: number): { shape
   return { shapes: new Set(flattened.flatMap((r) => shapeNodeWeights(r, step).map((n) => n.radiusUm))).size, radii: flattened.length };
 }
 
-/** A cold profile on fresh caches, equilibrium drops blended from shape nodes `step` apart (0: each radius its own shape). */
-async function run(body: Record<string, unknown>, compute: KernelCompute, step: number): Promise<{ result: ProfileResult; ms: number }> {
-  const kernels = new KernelService({ memoryBudgetBytes: 2 ** 31, compute, parallelism: 2 });
-  const t0 = performance.now();
-  const result = await computeProfile(profileRequestSchema.parse(body), { kernels, limits: { maxTermAngles: Infinity } }, { deformationStep: step });
-  return { result, ms: performance.now() - t0 };
-}
+/** A cold profile, equilibrium drops blended from shape nodes `step` apart (0: each radius its own shape). */
+const run = (body: Record<string, unknown>, compute: KernelCompute, step: number) => coldProfile(body, compute, { deformationStep: step });
 
 const load = loadavg()[0];
 const pool = createWorkerPool(2);

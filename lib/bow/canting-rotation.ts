@@ -9,7 +9,9 @@
 // degrees and seen through the sun's disc moves rows by ≤ 0.03 of their peak (Airy-type planes on a dense tilt grid
 // against brute force over the pupil: BENCHMARKS.md canting-spread). Rows at each wavelength come from rays traced at
 // a few refractive indices: each ray's Θ, α and powers are smooth in n (Snell's law at each face), so they are
-// interpolated ray by ray (Lagrange's form, Press et al. 2007 Eq. 3.2.1).
+// interpolated ray by ray (Lagrange's form, Press et al. 2007 Eq. 3.2.1). Only the half of the pupil on one side of
+// the drop's mirror plane through the sunlight is traced, each ray standing for its mirror image too, and a ray whose
+// exits at the first index give the places asked for no light is not traced at the others.
 
 import type { DropOutline } from "../drops/shape/outline.js";
 import { tiltDensity } from "../drops/shape/tilt-density.js";
@@ -18,6 +20,7 @@ import { AT, ORDER_STRIDE } from "../rays/shape-tracer.js";
 import { chebyshevNodes, lagrangeWeights } from "../rays/sweep-interpolation.js";
 import { shapedPlaneTracer } from "./shaped-plane-rows.js";
 import { depositOverInterval } from "./ray-bins.js";
+import { depositOverTriangle } from "./triangle-bins.js";
 import type { PlaneTracer } from "../rays/plane-sweep.js";
 
 const DEG = Math.PI / 180;
@@ -58,15 +61,21 @@ export const ROTATION_SLICES = 4;
 /** The golden angle 180°(3 − √5) and the R2 sequence's steps 1/g, 1/g² (g the plastic number, the real root of g³ = g + 1): low-discrepancy turns and shifts (common practice). */
 const GOLDEN_ANGLE_DEG = 180 * (3 - Math.sqrt(5));
 const R2_STEPS = [0.7548776662466927, 0.5698402909980532] as const;
+/** Draws of the grids' turns (RotationSetup.grid.draw) start this far apart in the sequences: past any elevation's place. */
+const DRAW_STRIDE = 1000;
 /** Step of the table of the tilt density over azimuth, degrees (linear interpolation between). */
 const AZIMUTH_STEP_DEG = 0.05;
 /**
- * Neighbouring rays further apart than this in Θ (degrees) or α are not joined by a segment: a rim or a jump of the
- * ray between them (each then stands as a point). A joined pair's Θ differs by ≤ 0.5° at pupil step 0.02 except at
- * the rim, where Θ turns as the square root of the distance to it.
+ * A pupil cell whose corners leave further apart than this in Θ (degrees) is not spread as triangles: each corner's share
+ * stays at its own angle. The rays of one order leave a convex drop at angles continuous over the pupil but near its
+ * rim, where Θ turns as the square root of the distance to it: at pupil step 0.02 the primary's cells there span up to
+ * about 15° (2 mm drops, sun 30°). Measured (issue 13's notes; two draws of the grids' turns, 550 nm, after the sun's
+ * disc, rms of their difference over ψ 30–58° as a share of the peak, 2 mm drops at arc 90° under a sun at 30°): 0.05
+ * with segments along u joined within 3°, 0.027 with triangles within 3°, 0.015 within 12° or 20°. Within 20° the
+ * linear spread of rim cells moved 5 % of a sphere's ⟂ light over Θ 150–180° (its power over 0–180° is kept within
+ * 0.1 %); within 12°, 2 %.
  */
-const JOIN_THETA_DEG = 3;
-const JOIN_ALPHA_DEG = 20;
+const JOIN_THETA_DEG = 12;
 /**
  * Rays whose every order leaves where no tilt sends light to the places asked for are traced at one index only. A place
  * on the bow takes light from exits at α only where the tilt density p(h′, A − α) is above this share of its peak over
@@ -96,8 +105,12 @@ export interface RotationSetup {
   arcPositionDeg: number;
   /** The span of the drops' real index the traced indices cover. */
   indexSpan: { min: number; max: number };
-  /** Benchmarks only: another pupil step and density of elevations than ROTATION_PUPIL_STEP and ROTATION_ELEVATIONS_PER_SD. */
-  grid?: { pupilStep: number; elevationsPerSd: number };
+  /**
+   * Benchmarks only: another pupil step and density of elevations than ROTATION_PUPIL_STEP and ROTATION_ELEVATIONS_PER_SD,
+   * and `draw`, another of the equally good turns and shifts of the pupil grids (what the rows' sampling noise is
+   * measured by: two draws differ by it alone).
+   */
+  grid?: { pupilStep: number; elevationsPerSd: number; draw?: number };
 }
 
 /**
@@ -154,11 +167,15 @@ export function rotationCantingRowsAlong(
   const reach = outline.maxRadius * 1.001;
   const du = setup.grid?.pupilStep ?? ROTATION_PUPIL_STEP;
   const elevationsPerSd = setup.grid?.elevationsPerSd ?? ROTATION_ELEVATIONS_PER_SD;
+  const draw = setup.grid?.draw ?? 0;
   const cells = Math.ceil((2 * reach) / du);
   // Per node and order, the last traced ray; per drop, order and pupil sample along u, the row of rays.
   const at = { theta: new Float64Array(K * ORDERS), alpha: new Float64Array(K * ORDERS), perp: new Float64Array(K * ORDERS), par: new Float64Array(K * ORDERS), ok: new Uint8Array(K * ORDERS), unwrapped: new Float64Array(K), density: new Float64Array(arcs * K) };
   const size = D * ORDERS * cells;
-  const ray = { theta: new Float64Array(size), weight: new Float64Array(arcs * size), perp: new Float64Array(size), par: new Float64Array(size), alpha: new Float64Array(size), ok: new Uint8Array(size) };
+  // The rays of this row of the pupil and of the row before (cells between them are spread as two triangles each).
+  const rowRays = (): RowRays => ({ theta: new Float64Array(size), weight: new Float64Array(arcs * size), perp: new Float64Array(size), par: new Float64Array(size), alpha: new Float64Array(size), ok: new Uint8Array(size) });
+  let ray = rowRays();
+  let before = rowRays();
   const density = new Float64Array(Math.round(360 / AZIMUTH_STEP_DEG) + 2);
   const lo = fromDeg - JOIN_THETA_DEG;
   const hi = fromDeg + count * stepDeg + JOIN_THETA_DEG;
@@ -169,9 +186,10 @@ export function rotationCantingRowsAlong(
     // the combs a square grid leaves where the rays of one grid line fold over in Θ fall elsewhere at each elevation
     // and average out (for a sphere every elevation sees the same drop, and an unturned grid left a comb 1.7° apart
     // at 0.5 of the ∥ row's peak, test/lib/bow/canting-rotation.test.ts).
-    const turnDeg = 90 + place * GOLDEN_ANGLE_DEG;
-    const shiftU = (((place * R2_STEPS[0]) % 1) - 0.5) * du;
-    const shiftV = (((place * R2_STEPS[1]) % 1) - 0.5) * du;
+    const turn = place + draw * DRAW_STRIDE;
+    const turnDeg = 90 + turn * GOLDEN_ANGLE_DEG;
+    const shiftU = (((turn * R2_STEPS[0]) % 1) - 0.5) * du;
+    const shiftV = (((turn * R2_STEPS[1]) % 1) - 0.5) * du;
     let peak = 0;
     for (let i = 0; i < density.length; i++) {
       density[i] = tiltDensity(sunElevationDeg, cantingSdDeg, elevationDeg, -180 + i * AZIMUTH_STEP_DEG);
@@ -186,6 +204,11 @@ export function rotationCantingRowsAlong(
       const value = density[i] + (f - i) * (density[i + 1] - density[i]);
       return value < floor ? 0 : value;
     };
+    // The upright drop and the sunlight are mirror images of themselves across the vertical plane of d_in (y = 0): a ray
+    // entering at y < 0 is the mirror of one entering at −y, with the same Θ and powers and its α negated (a mirror keeps
+    // the field's parts ⟂ and ∥ to the mirrored scattering plane). So only rays entering at y ≥ 0 are traced, each
+    // weighed for itself and its mirror (common practice: a symmetry of the scatterer halves the integral).
+    const pairDensityAt = (arc: number, alphaDeg: number): number => densityAt(arc, alphaDeg) + densityAt(arc, -alphaDeg);
     // The plane only sets the pupil's frame: rays at u·e + v·N, launched along d_in.
     const plane = bowScatteringPlane(elevationDeg, turnDeg);
     const tracers = nodes.map((n) => shapedPlaneTracer({ outline, axis: [0, 0, 1], n }, plane, { rayOrders: [0, 1], bowOrders: [2, 3] }));
@@ -193,23 +216,33 @@ export function rotationCantingRowsAlong(
     const dIn = plane.dIn;
     // t̂, the upward unit vector ⟂ d_in (bow-geometry.ts), from which α is measured.
     const up = [Math.sin(h), 0, Math.cos(h)] as const;
+    // y of the pupil's axes e and N = d_in × e (d_in has no y part: bow-geometry.ts).
+    const eY = plane.e[1];
+    const nY = dIn[2] * plane.e[0] - dIn[0] * plane.e[2];
     // Power·du² · Δh′ over the bin's Θ width (radians), times the density per degree² at each ray (canting-pupil's scale).
     const scale = (du * du * elevationStepDeg) / (DEG * stepDeg * DEG);
-    for (let iv = 0; iv < cells; iv++) {
+    before.ok.fill(0);
+    for (let iv = 0; iv <= cells; iv++) {
       const v = -reach + (iv + 0.5) * du + shiftV;
       const uMax = Math.sqrt(Math.max(0, reach * reach - v * v));
       ray.ok.fill(0);
       for (let iu = 0; iu < cells; iu++) {
         const u = -reach + (iu + 0.5) * du + shiftU;
-        if (Math.abs(u) > uMax) continue;
+        if (iv === cells || Math.abs(u) > uMax) continue;
+        // A ray beside the mirror plane on its far side is traced too, weighed 0: the cells between it and its near
+        // neighbours are then spread as in the whole pupil, not left as single angles.
+        const far = u * eY + v * nY < 0;
+        if (far && (u - du) * eY + v * nY < 0 && (u + du) * eY + v * nY < 0) continue;
         let any = traceNode(tracers[0], u, v, 0, dIn, up, lo, hi, at);
         // A ray that misses the drop misses it at every index.
         if (!tracers[0].lastTrace.hit) continue;
         if (!anyLive(at, live, lo, hi)) continue;
         for (let k = 1; k < K; k++) any = traceNode(tracers[k], u, v, k, dIn, up, lo, hi, at) || any;
-        if (any) interpolateRays(at, K, D, arcs, weights, nearest, iu, cells, ray, densityAt, scale, lo, hi);
+        if (any) interpolateRays(at, K, D, arcs, weights, nearest, iu, cells, ray, pairDensityAt, far ? 0 : scale, lo, hi);
       }
-      for (let a = 0; a < arcs; a++) depositRow(ray, a * size, D, cells, rows[a], fromDeg, stepDeg);
+      // The cells between the row before and this one (past the last row, an empty one).
+      for (let a = 0; a < arcs; a++) depositCells(before, ray, a * size, D, cells, rows[a], fromDeg, stepDeg);
+      [before, ray] = [ray, before];
     }
   }
   for (const arcRows of rows) {
@@ -266,7 +299,9 @@ function anyLive(at: NodeRays, live: Int32Array, lo: number, hi: number): boolea
     if (theta < lo - LIVE_MARGIN_DEG || theta > hi + LIVE_MARGIN_DEG) continue;
     const psi = 180 - theta;
     if (psi <= LIVE_NEAR_ANTISOLAR_DEG) return true;
-    if (liveNear(live, at.alpha[p], LIVE_MARGIN_DEG / Math.sin(psi * DEG))) return true;
+    const margin = LIVE_MARGIN_DEG / Math.sin(psi * DEG);
+    // The ray stands for its mirror too (α negated).
+    if (liveNear(live, at.alpha[p], margin) || liveNear(live, -at.alpha[p], margin)) return true;
   }
   return false;
 }
@@ -321,8 +356,8 @@ function traceNode(tracer: PlaneTracer, u: number, v: number, k: number, dIn: re
 /**
  * Each drop's rays at pupil sample iu from the nodes' rays: Lagrange-interpolated in n where the order leaves at every
  * node, else the nearest node's ray (an order that starts or ends between nodes, at the rim or by total reflection:
- * Θ then off by at most one node's shift, about 0.4°, on a sliver of the pupil), weighed by the tilt density at its α
- * (interpolated in n as the ray is: it is smooth in α on the scale of σ). An order whose rays land outside [lo, hi]
+ * Θ then off by at most one node's shift, about 0.4°, on a sliver of the pupil), weighed by `densityAt` its α (the
+ * tilt density there and at its mirror's −α; interpolated in n as the ray is: it is smooth in α on the scale of σ). An order whose rays land outside [lo, hi]
  * at every node is left out.
  */
 function interpolateRays(
@@ -398,31 +433,79 @@ function interpolateRays(
 }
 
 /**
- * Spreads one pupil row's rays into the drops' rows at one place on the bow (the rays' weights there from `weightAt`
- * on): half of each ray's power on the segment to each neighbour in u.
+ * Spreads the power of the pupil cells between two rows of rays (above, below) into the drops' rows at one place on the
+ * bow (the rays' weights there from `weightAt` on). Each ray's power stands for the du² of pupil around it, a quarter
+ * in each of the four cells it is a corner of. A cell whose four corners left and lie within JOIN_THETA_DEG of each
+ * other is spread as its two triangles (lib/bow/triangle-bins.ts), half its corners' quarters
+ * each; in any other cell (the rim, a jump of the rays) each corner's quarter stays at its own Θ.
  */
-function depositRow(ray: RowRays, weightAt: number, D: number, cells: number, rows: { perp: Float64Array; par: Float64Array }[], fromDeg: number, stepDeg: number): void {
+function depositCells(above: RowRays, below: RowRays, weightAt: number, D: number, cells: number, rows: { perp: Float64Array; par: Float64Array }[], fromDeg: number, stepDeg: number): void {
   const toDeg = fromDeg + rows[0].perp.length * stepDeg;
+  const theta = new Float64Array(4);
+  const quarterPerp = new Float64Array(4);
+  const quarterPar = new Float64Array(4);
+  const has = new Uint8Array(4);
   for (let d = 0; d < D; d++) {
     const { perp, par } = rows[d];
     for (let p = 0; p < ORDERS; p++) {
       const first = (d * ORDERS + p) * cells;
-      for (let iu = 0; iu < cells; iu++) {
-        const s = first + iu;
-        const weight = ray.weight[weightAt + s];
-        if (!ray.ok[s] || weight === 0) continue;
-        const theta = ray.theta[s];
-        // A segment reaches at most JOIN_THETA_DEG / 2 from its ray.
-        if (theta < fromDeg - JOIN_THETA_DEG || theta > toDeg + JOIN_THETA_DEG) continue;
-        const ePerp = 0.5 * weight * ray.perp[s];
-        const ePar = 0.5 * weight * ray.par[s];
-        for (let side = -1; side <= 1; side += 2) {
-          const q = s + side;
-          const t = iu + side;
-          const joined = t >= 0 && t < cells && ray.ok[q] === 1 && Math.abs(ray.theta[q] - theta) < JOIN_THETA_DEG && Math.abs(ray.alpha[q] - ray.alpha[s]) < JOIN_ALPHA_DEG;
-          const end = joined ? 0.5 * (theta + ray.theta[q]) : theta;
-          depositOverInterval(perp, ePerp, theta, end, fromDeg, stepDeg);
-          depositOverInterval(par, ePar, theta, end, fromDeg, stepDeg);
+      for (let iu = -1; iu < cells; iu++) {
+        // Corners round the cell: above iu, above iu + 1, below iu + 1, below iu.
+        const left = first + iu;
+        const right = left + 1;
+        has[0] = iu >= 0 && above.ok[left] && above.weight[weightAt + left] > 0 ? 1 : 0;
+        has[1] = iu + 1 < cells && above.ok[right] && above.weight[weightAt + right] > 0 ? 1 : 0;
+        has[2] = iu + 1 < cells && below.ok[right] && below.weight[weightAt + right] > 0 ? 1 : 0;
+        has[3] = iu >= 0 && below.ok[left] && below.weight[weightAt + left] > 0 ? 1 : 0;
+        if (!(has[0] | has[1] | has[2] | has[3])) continue;
+        // A corner of weight 0 (a ray weighed for its neighbours' cells only, or no tilt sends it here) still shapes the cell.
+        let present = 0;
+        let ePerp = 0;
+        let ePar = 0;
+        let lo = Infinity;
+        let hi = -Infinity;
+        for (let c = 0; c < 4; c++) {
+          const rays = c < 2 ? above : below;
+          const s = c === 0 || c === 3 ? left : right;
+          const inside = c === 0 || c === 3 ? iu >= 0 : iu + 1 < cells;
+          if (!inside || !rays.ok[s]) {
+            has[c] = 0;
+            continue;
+          }
+          has[c] = 1;
+          present++;
+          const w = 0.25 * rays.weight[weightAt + s];
+          quarterPerp[c] = w * rays.perp[s];
+          quarterPar[c] = w * rays.par[s];
+          ePerp += quarterPerp[c];
+          ePar += quarterPar[c];
+          theta[c] = rays.theta[s];
+          lo = Math.min(lo, theta[c]);
+          hi = Math.max(hi, theta[c]);
+        }
+        if (hi < fromDeg - JOIN_THETA_DEG || lo > toDeg + JOIN_THETA_DEG) continue;
+        if (present === 4 && hi - lo < JOIN_THETA_DEG) {
+          depositOverTriangle(perp, 0.5 * ePerp, par, 0.5 * ePar, theta[0], theta[1], theta[2], fromDeg, stepDeg);
+          depositOverTriangle(perp, 0.5 * ePerp, par, 0.5 * ePar, theta[0], theta[2], theta[3], fromDeg, stepDeg);
+          continue;
+        }
+        // At the rim (or the window's edge) a cell with three corners is spread as their triangle, with two on a side
+        // along that side, the shares of the corners it has; two opposite corners, or corners too far apart, each stay
+        // at their own angle.
+        if (present === 3 && hi - lo < JOIN_THETA_DEG) {
+          const [t0, t1, t2] = [0, 1, 2, 3].filter((c) => has[c]).map((c) => theta[c]);
+          depositOverTriangle(perp, ePerp, par, ePar, t0, t1, t2, fromDeg, stepDeg);
+          continue;
+        }
+        if (present === 2 && hi - lo < JOIN_THETA_DEG && has[0] !== has[2]) {
+          depositOverInterval(perp, ePerp, lo, hi, fromDeg, stepDeg);
+          depositOverInterval(par, ePar, lo, hi, fromDeg, stepDeg);
+          continue;
+        }
+        for (let c = 0; c < 4; c++) {
+          if (!has[c]) continue;
+          depositOverInterval(perp, quarterPerp[c], theta[c], theta[c], fromDeg, stepDeg);
+          depositOverInterval(par, quarterPar[c], theta[c], theta[c], fromDeg, stepDeg);
         }
       }
     }

@@ -106,6 +106,8 @@ export interface ShapedRowSpec {
    * of the spec at those places). Not in the key: it changes no row.
    */
   siblingArcsDeg?: readonly number[];
+  /** Benchmarks only: the rotation's pupil step, density of elevations and draw of grid turns (RotationSetup.grid). */
+  rotationGrid?: { pupilStep: number; elevationsPerSd: number; draw?: number };
 }
 
 /**
@@ -191,7 +193,7 @@ export const SHAPED_ENGINE_VERSION = 20;
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
   const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : spec.deformationStep ? `eq${spec.deformationStep}` : "eq";
-  const direct = spec.traceEveryIndex ? ":direct" : "";
+  const direct = (spec.traceEveryIndex ? ":direct" : "") + (spec.rotationGrid ? `:grid${spec.rotationGrid.pupilStep}/${spec.rotationGrid.elevationsPerSd}/${spec.rotationGrid.draw ?? 0}` : "");
   const span = spec.indexSpan ? `:n${spec.indexSpan.min}-${spec.indexSpan.max}` : "";
   // A group's share is not a row: it never shares a key with one.
   const group = spec.orderGroup === undefined ? "" : `:g${spec.orderGroup}`;
@@ -727,6 +729,7 @@ export function rotationMeanRows(
     cantingSdDeg: spec.cantingSdDeg,
     arcPositionDeg: spec.arcPositionDeg,
     indexSpan: spec.indexSpan ?? WATER_INDEX_RANGE,
+    grid: spec.rotationGrid,
   };
   if (drops.some((d) => d.radiusUm !== drops[0].radiusUm) && spec.kind !== "spheroid") throw new RangeError("the canting mean by rotation takes drops of one shape");
   const siblingArcs = (spec.siblingArcsDeg ?? []).filter((a) => a !== spec.arcPositionDeg);

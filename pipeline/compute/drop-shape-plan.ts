@@ -68,8 +68,16 @@ export const CANTING_MEAN_MEASURED_TO_RADIUS_UM = 1000;
  */
 export const DEFAULT_DEFORMATION_STEP = 0.0075;
 
-/** deformationStep: equilibrium drops blended from shape nodes (ShapedRowSpec.deformationStep); 0: each radius its own shape. */
-export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, deformationStep = DEFAULT_DEFORMATION_STEP): ShapePlan {
+/**
+ * deformationStep: equilibrium drops blended from shape nodes (ShapedRowSpec.deformationStep); 0: each radius its own
+ * shape. rotationGrid: benchmarks only, the canting mean by rotation's grid (ShapedRowSpec.rotationGrid).
+ */
+export function planDropShapes(
+  request: ProfileRequest,
+  radiiUm: Float64Array,
+  deformationStep = DEFAULT_DEFORMATION_STEP,
+  rotationGrid?: ShapedRowSpec["rotationGrid"],
+): ShapePlan {
   const shape = request.drops.shape ?? { kind: "sphere" as const };
   if (shape.kind === "sphere") {
     const meta: ShapeMeta = { model: "sphere", default: DEFAULT_NOTE };
@@ -98,7 +106,7 @@ export function planDropShapes(request: ProfileRequest, radiiUm: Float64Array, d
   // ROTATION_MIN_CANTING_SD_DEG, the banded canting rule near a mirror plane (BANDED_FROM_RADIUS_UM): a spec of their
   // own, whose rows are keyed apart; they never share shape nodes (SHAPE_NODES_MAX_RADIUS_UM ≤ the threshold).
   const byRotation = shape.cantingSdDeg >= ROTATION_MIN_CANTING_SD_DEG;
-  const largeSpec: ShapedRowSpec = byRotation ? { ...spec, cantingRotation: true } : { ...spec, cantingBand: true };
+  const largeSpec: ShapedRowSpec = byRotation ? { ...spec, cantingRotation: true, ...(rotationGrid ? { rotationGrid } : {}) } : { ...spec, cantingBand: true };
   const largeFrom = byRotation ? ROTATION_FROM_RADIUS_UM : BANDED_FROM_RADIUS_UM;
   const spheroidLarge = shape.kind === "spheroid" && shape.axisRatio < outlineAxisRatio(equilibriumOutline(largeFrom));
   const large = (r: number) => (shape.kind === "equilibrium" ? r > largeFrom : spheroidLarge);
@@ -165,13 +173,13 @@ export const SHAPED_INTERPOLATED_TERM_ANGLES_PER_BIN = 5e4;
 /**
  * Work of one shape's canting mean by rotation (lib/bow/canting-rotation.ts), which hardly depends on the bins: its
  * pupil traced at every elevation and index node, and each wavelength's rays interpolated and spread. Measured
- * (2026-12-05 02:05 UTC, one thread, CPU time, 700 bins, canting 7.5°, sun 10°, arc 90°, pupil step 0.02, rays that
- * give the place no light traced at one index only) on 2 mm equilibrium drops: 3.37 s at one wavelength, 4.08 s at 41
- * (2.88 and 3.67 s for 1.2 mm); at ~0.75e9 term-angles/s (SHAPED_TRACED_TERM_ANGLES_PER_BIN's rate), 2.5e9 a shape and
- * 1.3e7 a wavelength.
+ * (2026-12-05 03:25 UTC, one thread, CPU time, 700 bins, canting 7.5°, sun 10°, arc 90°, pupil step 0.02, half the
+ * pupil by the drop's mirror plane, cells spread as triangles) on 2 mm equilibrium drops: 2.24 s at one wavelength, 3.87
+ * s at 41 (1.86 and 3.56 s for 1.2 mm); at ~0.75e9 term-angles/s (SHAPED_TRACED_TERM_ANGLES_PER_BIN's rate), 1.7e9 a
+ * shape and 3.1e7 a wavelength.
  */
-export const ROTATION_SHAPE_TERM_ANGLES = 2.5e9;
-export const ROTATION_WAVELENGTH_TERM_ANGLES = 1.3e7;
+export const ROTATION_SHAPE_TERM_ANGLES = 1.7e9;
+export const ROTATION_WAVELENGTH_TERM_ANGLES = 3.1e7;
 
 /**
  * Scattering planes a plan's flattened rows trace and interpolate, cold: per shape (each flattened radius node of

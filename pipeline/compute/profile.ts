@@ -34,6 +34,7 @@ import { kernelWorkNs, laterWorkNs } from "../progress/profile-work.js";
 export const PROFILE_STAGES = ["kernels", "spectral", "colour"] as const;
 import { sceneEyeAdaptation } from "../../lib/colour/low-light-vision.js";
 import { visionMeta } from "./vision-meta.js";
+import type { ShapedRowSpec } from "../../lib/bow/shaped-rows.js";
 
 /** Drops above 1 mm radius flatten as they fall (Beard & Chuang 1987, J. Atmos. Sci. 44, 1509). */
 const FLATTENED_FROM_RADIUS_UM = 1000;
@@ -144,6 +145,8 @@ export interface ProfileResolution {
    * nodes against: bench/aligned-rows.ts, bench/shape-nodes.ts).
    */
   deformationStep?: number;
+  /** Benchmarks only: the canting mean by rotation's grid (ShapedRowSpec.rotationGrid), to measure its sampling noise (bench/rotation-noise.ts). */
+  rotationGrid?: ShapedRowSpec["rotationGrid"];
 }
 
 /**
@@ -258,7 +261,7 @@ export function planProfile(request: ProfileRequest, resolution: ProfileResoluti
       `drops above ${quadrature.maxRadiusUm} µm radius (${(100 * quadrature.crossSectionFractionAboveCap).toFixed(1)} % of the cross-section) are left out: such drops break up in nature`,
     );
   }
-  const shapePlan = planDropShapes(request, quadrature.radiiUm, resolution.deformationStep);
+  const shapePlan = planDropShapes(request, quadrature.radiiUm, resolution.deformationStep, resolution.rotationGrid);
   // The warnings about the sphere model are moot where flattened drops are modelled.
   if (shapePlan.flattened) {
     warnings.push(...shapePlan.warnings);

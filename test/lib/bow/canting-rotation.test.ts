@@ -44,8 +44,11 @@ describe("the canting mean by rotation", () => {
   const disc = sunDiscKernel(SUN_MEAN_ANGULAR_DIAMETER_DEG, 0.1);
 
   it("of spheres is the sphere's ray optics whatever the tilts: |S1|², |S2|² of orders 0–3 (van de Hulst 1957 §12.2) after the sun's disc", () => {
-    // Measured: ⟂ within 0.028 of its peak (0.031 summed), ∥ within 0.143 of its own peak, 20 times below the ⟂ one
-    // near the bow (0.053 summed), sums within 0.09 % and 0.4 %: the pupil grid's sampling (ROTATION_PUPIL_STEP 0.02).
+    // Measured: ⟂ within 0.055 of its peak (0.031 summed), ∥ within 0.101 of its own peak, 20 times below the ⟂ one
+    // near the bow (0.051 summed), sums over the window within 0.7 % and 0.6 %; the worst is at Descartes' angle,
+    // where the spread over pupil cells, linear across each, cannot reach the fold's minimum Θ between its corners
+    // (a bias of order Θ''·du²; ROTATION_PUPIL_STEP 0.02). Cells near the rim spread linearly move light across the
+    // window's edges (JOIN_THETA_DEG): the whole power over 0–180° is kept within 0.2 % (below).
     const thetaDeg = Float64Array.from({ length: 400 }, (_, j) => 110.05 + 0.1 * j);
     const n = 1.3345;
     const x = 1000;
@@ -53,12 +56,19 @@ describe("the canting mean by rotation", () => {
     const reference = rayOpticsBins(n, [0, 1, 2, 3], thetaDeg, 0.1);
     const perp = rowErrors(convolveProfile(row.perp.map((v) => v / (x * x)), disc), convolveProfile(reference.perpendicular, disc), 20, 380);
     const par = rowErrors(convolveProfile(row.par.map((v) => v / (x * x)), disc), convolveProfile(reference.parallel, disc), 20, 380);
-    expect(perp.worst).toBeLessThan(0.04);
+    expect(perp.worst).toBeLessThan(0.07);
     expect(perp.summed).toBeLessThan(0.045);
     expect(par.worst).toBeLessThan(0.2);
     expect(par.summed).toBeLessThan(0.08);
-    expect(Math.abs(perp.ratio - 1)).toBeLessThan(0.006);
-    expect(Math.abs(par.ratio - 1)).toBeLessThan(0.006);
+    expect(Math.abs(perp.ratio - 1)).toBeLessThan(0.01);
+    expect(Math.abs(par.ratio - 1)).toBeLessThan(0.01);
+    // Every scattering angle: the power the rows carry (row × the bins' solid angle) against ray optics'.
+    const everyDeg = Float64Array.from({ length: 1780 }, (_, j) => 1.05 + 0.1 * j);
+    const [whole] = rotationCantingRows({ outline: spheroidOutline(1), sunElevationDeg: 10, cantingSdDeg: 7.5, arcPositionDeg: 45, indexSpan: SPAN }, [{ mRe: n, x }], everyDeg, 0.1);
+    const everyRef = rayOpticsBins(n, [0, 1, 2, 3], everyDeg, 0.1);
+    const power = (row: Float64Array, scale: number) => row.reduce((sum, v, j) => sum + (v / scale) * Math.sin(everyDeg[j] * DEG), 0);
+    expect(Math.abs(power(whole.perp, x * x) / power(everyRef.perpendicular, 1) - 1)).toBeLessThan(0.002);
+    expect(Math.abs(power(whole.par, x * x) / power(everyRef.parallel, 1) - 1)).toBeLessThan(0.002);
   }, 120_000);
 
   it("of 2 mm equilibrium drops at the top of the bow meets brute force over the pupil, which no grid of this engine enters", () => {
