@@ -32,11 +32,11 @@ const EXIT_FIELDS = [AT.e1Re, AT.e1Im, AT.e2Re, AT.e2Im] as const;
 /**
  * The grid of the mean. Measured at 550 nm against brute force over the pupil (pupil step 0.005, elevations 0.5° apart,
  * point bins: bench/canting-pupil.ts) after the sun's disc, worst share of the peak / summed (BENCHMARKS.md
- * canting-splat, 1–2.5 mm drops at the top, side and between): pupil step 0.02 gives 0.057–0.097 / 0.018–0.051 up to
- * 2 mm and 0.166 / 0.081 at 2.5 mm, at about the CPU the canting rules took for a shape at 41 wavelengths (whose errors
- * there were 0.19–1.18 / 0.10–0.38); 0.014 gives 0.019–0.058 / 0.014–0.040 and 0.146 / 0.056 at twice the rays, 0.01
- * 0.018–0.057 / 0.011–0.039 at four times. Elevations σ/7.5 apart (1° at σ 7.5°) over ±3.5σ, which leaves out 5e-4
- * of the tilts' mass: σ/3.75 apart left up to 0.173 / 0.043 at the top.
+ * canting-splat, 1–2.5 mm drops at the top, side and between, 2026-12-05 02:54 UTC): pupil step 0.02 gives 0.019–0.087
+ * / 0.011–0.049 at 1.6–2.2 s of CPU at one wavelength; 0.014 gives 0.023–0.116 / 0.010–0.040 at twice the rays, 0.01
+ * 0.027–0.102 / 0.009–0.041 at four times: no better, the brute force itself being good to about 0.05. Elevations σ/7.5
+ * apart (1° at σ 7.5°) over ±3.5σ, which leaves out 5e-4 of the tilts' mass: σ/3.75 apart left up to 0.205 / 0.057 at
+ * the top.
  */
 export const ROTATION_PUPIL_STEP = 0.02;
 export const ROTATION_ELEVATIONS_PER_SD = 7.5;

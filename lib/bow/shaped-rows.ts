@@ -123,10 +123,10 @@ export const BANDED_FROM_RADIUS_UM = 1000;
  * Drops above this radius take the canting mean by rotation (ShapedRowSpec.cantingRotation) where the drops are canted
  * by at least ROTATION_MIN_CANTING_SD_DEG: against brute force over the pupil (550 nm, canting 7.5°, after the sun's
  * disc, BENCHMARKS.md canting-splat), worst share of the peak / summed, the rules against the rotation: 2 mm drops at
- * the top of the bow 0.596 / 0.251 and 0.097 / 0.021, at the side 0.502 / 0.377 and 0.057 / 0.026; 1.5 mm at the side
- * 0.257 / 0.104 and 0.060 / 0.031; 2.5 mm at arc 45° 1.179 / 0.355 and 0.166 / 0.081. At 1 mm the rotation is better
- * too (0.215 / 0.105 and 0.059 / 0.033 at the top) but costs about 5 s of CPU a shape against the rules' 0.2–0.4 s at
- * one index, and drops up to 1 mm share the planes of shape nodes (SHAPE_NODES_MAX_RADIUS_UM); below about 0.5 mm the
+ * the top of the bow 0.596 / 0.251 and 0.074 / 0.017, at the side 0.502 / 0.377 and 0.019 / 0.011; 1.5 mm at the side
+ * 0.257 / 0.104 and 0.051 / 0.020; 2.5 mm at arc 45° 1.179 / 0.355 and 0.079 / 0.034 (2026-12-05, engine 21). At 1 mm
+ * the rotation is better too (0.215 / 0.105 and 0.087 / 0.027 at the top) but costs about 2 s of CPU a shape at one
+ * wavelength, 4 s at 41, against the rules' 0.2–0.4 s at one index, and drops up to 1 mm share the planes of shape nodes (SHAPE_NODES_MAX_RADIUS_UM); below about 0.5 mm the
  * ray optics it rests on leaves out the bows' wave structure that the rules' Airy-type bows keep.
  */
 export const ROTATION_FROM_RADIUS_UM = 1000;
@@ -151,7 +151,9 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (20: drops above
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (21: the canting mean
+ * by rotation traces half the pupil by the drop's mirror plane and spreads each pupil cell as two triangles
+ * (lib/bow/triangle-bins.ts), its sampling noise a third of the segments' at 2 mm, sun 30°, side; 20: drops above
  * ROTATION_FROM_RADIUS_UM canted by at least ROTATION_MIN_CANTING_SD_DEG take the canting mean by rotation over the
  * upright drop's pupil (lib/bow/canting-rotation.ts); 19: the banded rule
  * for drops above BANDED_FROM_RADIUS_UM only (ShapedRowSpec.cantingBand); 18: near a mirror
@@ -188,7 +190,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 20;
+export const SHAPED_ENGINE_VERSION = 21;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
