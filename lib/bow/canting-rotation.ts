@@ -3,9 +3,8 @@
 // what the upright drop, with the sun at h′, sends to A − δ (lib/drops/shape/tilt-density.ts). So the mean over the
 // tilts is ∫∫ p(h′, δ)·I(Θ, A − δ; h′) dh′ dδ: for each h′ on a grid, every ray of a square grid over the upright
 // drop's pupil is traced once and its power, weighed by p(h′, A − α) at the arc position α where it leaves, spread
-// over Θ along the segments to its neighbours in u (half a cell each way, uniform in Θ between the two rays, as
-// lib/bow/plane-ray-bins.ts spreads a sweep's segments; van de Hulst 1957 §12.22: the power of a bundle of rays is kept
-// along it). Ray optics, orders 0–3; the bows' wave structure is left out, which for drops above 1 mm canted by a few
+// over Θ with the pupil cells it is a corner of, each cell as two triangles whose rays' angles vary linearly across them
+// (lib/bow/triangle-bins.ts; van de Hulst 1957 §12.22: the power of a bundle of rays is kept along it). Ray optics, orders 0–3; the bows' wave structure is left out, which for drops above 1 mm canted by a few
 // degrees and seen through the sun's disc moves rows by ≤ 0.03 of their peak (Airy-type planes on a dense tilt grid
 // against brute force over the pupil: BENCHMARKS.md canting-spread). Rows at each wavelength come from rays traced at
 // a few refractive indices: each ray's Θ, α and powers are smooth in n (Snell's law at each face), so they are
@@ -512,7 +511,8 @@ function depositCells(above: RowRays, below: RowRays, size: number, D: number, c
             continue;
           }
           if (arcs === 1) {
-            // One place: straight into its rows.
+            // One place: straight into its rows (finding the shares first and adding them cost 4.7 s against 4.0 s of CPU
+            // for 2 mm drops at 41 wavelengths).
             if (mode === "cell") {
               depositOverTriangle(perp, 0.5 * ePerp, par, 0.5 * ePar, theta[0], theta[1], theta[2], fromDeg, stepDeg);
               depositOverTriangle(perp, 0.5 * ePerp, par, 0.5 * ePar, theta[0], theta[2], theta[3], fromDeg, stepDeg);
