@@ -444,8 +444,9 @@ function depositCells(above: RowRays, below: RowRays, size: number, D: number, c
   const count = rows[0][0].perp.length;
   const toDeg = fromDeg + count * stepDeg;
   const arcs = rows.length;
-  const theta = new Float64Array(4);
   const slot = new Int32Array(4);
+  // The angles of the corners the cell has, in their order round it.
+  const t = new Float64Array(4);
   const quarterPerp = new Float64Array(4);
   const quarterPar = new Float64Array(4);
   const shareA = new TriangleShares(count);
@@ -469,19 +470,19 @@ function depositCells(above: RowRays, below: RowRays, size: number, D: number, c
           if (!weighed) continue;
         }
         let present = 0;
+        for (let c = 0; c < 4; c++) if (slot[c] >= 0) t[present++] = (c < 2 ? above : below).theta[slot[c]];
         let lo = Infinity;
         let hi = -Infinity;
-        for (let c = 0; c < 4; c++) {
-          if (slot[c] < 0) continue;
-          present++;
-          theta[c] = (c < 2 ? above : below).theta[slot[c]];
-          lo = Math.min(lo, theta[c]);
-          hi = Math.max(hi, theta[c]);
+        for (let k = 0; k < present; k++) {
+          lo = Math.min(lo, t[k]);
+          hi = Math.max(hi, t[k]);
         }
         if (hi < fromDeg - JOIN_THETA_DEG || lo > toDeg + JOIN_THETA_DEG) continue;
-        const joined = hi - lo < JOIN_THETA_DEG;
-        // Two corners spread only along a side (one of corners 0 and 2 with one of 1 and 3).
-        const mode = !joined || present === 1 || (present === 2 && (slot[0] < 0) === (slot[2] < 0)) ? "points" : present === 4 ? "cell" : "part";
+        // Two corners are spread only along a side (one of corners 0 and 2 with one of 1 and 3); a whole cell as the
+        // triangles (t0, t1, t2) and (t0, t2, t3), three corners as theirs.
+        const opposite = present === 2 && (slot[0] < 0) === (slot[2] < 0);
+        const shape = hi - lo >= JOIN_THETA_DEG || present === 1 || opposite ? "points" : present === 2 ? "side" : present === 3 ? "triangle" : "cell";
+        const half = shape === "cell" ? 0.5 : 1;
         if (arcs > 1) {
           shareA.reset();
           shareB.reset();
@@ -502,49 +503,30 @@ function depositCells(above: RowRays, below: RowRays, size: number, D: number, c
           }
           if (ePerp === 0 && ePar === 0) continue;
           const { perp, par } = rows[a][d];
-          if (mode === "points") {
+          if (shape === "points") {
             for (let c = 0; c < 4; c++) {
               if (slot[c] < 0) continue;
-              depositOverInterval(perp, quarterPerp[c], theta[c], theta[c], fromDeg, stepDeg);
-              depositOverInterval(par, quarterPar[c], theta[c], theta[c], fromDeg, stepDeg);
+              const theta = (c < 2 ? above : below).theta[slot[c]];
+              depositOverInterval(perp, quarterPerp[c], theta, theta, fromDeg, stepDeg);
+              depositOverInterval(par, quarterPar[c], theta, theta, fromDeg, stepDeg);
             }
-            continue;
-          }
-          if (arcs === 1) {
-            // One place: straight into its rows (finding the shares first and adding them cost 4.7 s against 4.0 s of CPU
-            // for 2 mm drops at 41 wavelengths).
-            if (mode === "cell") {
-              depositOverTriangle(perp, 0.5 * ePerp, par, 0.5 * ePar, theta[0], theta[1], theta[2], fromDeg, stepDeg);
-              depositOverTriangle(perp, 0.5 * ePerp, par, 0.5 * ePar, theta[0], theta[2], theta[3], fromDeg, stepDeg);
-            } else {
-              const t = [0, 1, 2, 3].filter((c) => slot[c] >= 0).map((c) => theta[c]);
-              if (present === 3) depositOverTriangle(perp, ePerp, par, ePar, t[0], t[1], t[2], fromDeg, stepDeg);
-              else {
-                depositOverInterval(perp, ePerp, t[0], t[1], fromDeg, stepDeg);
-                depositOverInterval(par, ePar, t[0], t[1], fromDeg, stepDeg);
-              }
-            }
-            continue;
-          }
-          if (mode === "part" && present === 2) {
-            const t = [0, 1, 2, 3].filter((c) => slot[c] >= 0).map((c) => theta[c]);
+          } else if (shape === "side") {
             depositOverInterval(perp, ePerp, t[0], t[1], fromDeg, stepDeg);
             depositOverInterval(par, ePar, t[0], t[1], fromDeg, stepDeg);
-            continue;
-          }
-          // The triangles' shares found once for every place, added as depositOverTriangle adds them (the same bits).
-          if (!shareA.ready) {
-            if (mode === "cell") {
-              shareA.find(theta[0], theta[1], theta[2], fromDeg, stepDeg);
-              shareB.find(theta[0], theta[2], theta[3], fromDeg, stepDeg);
-            } else {
-              const t = [0, 1, 2, 3].filter((c) => slot[c] >= 0).map((c) => theta[c]);
+          } else if (arcs === 1) {
+            // One place: straight into its rows (finding the shares first and adding them cost 4.7 s against 4.0 s of CPU
+            // for 2 mm drops at 41 wavelengths).
+            depositOverTriangle(perp, half * ePerp, par, half * ePar, t[0], t[1], t[2], fromDeg, stepDeg);
+            if (shape === "cell") depositOverTriangle(perp, half * ePerp, par, half * ePar, t[0], t[2], t[3], fromDeg, stepDeg);
+          } else {
+            // The triangles' shares found once for every place, added as depositOverTriangle adds them (the same bits).
+            if (!shareA.ready) {
               shareA.find(t[0], t[1], t[2], fromDeg, stepDeg);
+              if (shape === "cell") shareB.find(t[0], t[2], t[3], fromDeg, stepDeg);
             }
+            shareA.addTo(perp, half * ePerp, par, half * ePar);
+            if (shape === "cell") shareB.addTo(perp, half * ePerp, par, half * ePar);
           }
-          const half = mode === "cell" ? 0.5 : 1;
-          shareA.addTo(perp, half * ePerp, par, half * ePar);
-          if (mode === "cell") shareB.addTo(perp, half * ePerp, par, half * ePar);
         }
       }
     }
