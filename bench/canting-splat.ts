@@ -50,7 +50,7 @@ for (const { radiusUm, arcPositionDeg } of CASES) {
   const rule: ShapedRowSpec = { kind: "equilibrium", ...place, rayOnly: false, traceEveryIndex: true, cantingBand: radiusUm > 1000 };
   const rules = cpuTimed(() => shapedRows(rule, [{ radiusUm, mRe: N_RE, x }], THETA_DEG, STEP_DEG, "spread")[0]);
   const rotations = GRIDS.map((grid) =>
-    cpuTimed(() => rotationCantingRows({ outline, ...place, indexSpan: WATER_INDEX_RANGE, grid }, [{ mRe: N_RE, x }], THETA_DEG, STEP_DEG)[0]),
+    cpuTimed(() => rotationCantingRows({ outline, ...place, indexSpan: WATER_INDEX_RANGE, grid, rayOnly: true }, [{ mRe: N_RE, x }], THETA_DEG, STEP_DEG)[0]),
   );
   const line =
     `| ${radiusUm / 1000} mm, arc ${arcPositionDeg}° | ${figure(seen(rules.value.perp, rules.value.par), reference, rules.ms)} | ` +

@@ -4,9 +4,12 @@
 // tilts is ∫∫ p(h′, δ)·I(Θ, A − δ; h′) dh′ dδ: for each h′ on a grid, every ray of a square grid over the upright
 // drop's pupil is traced once and its power, weighed by p(h′, A − α) at the arc position α where it leaves, spread
 // over Θ with the pupil cells it is a corner of, each cell as two triangles whose rays' angles vary linearly across them
-// (lib/bow/triangle-bins.ts; van de Hulst 1957 §12.22: the power of a bundle of rays is kept along it). Ray optics, orders 0–3; the bows' wave structure is left out, which for drops above 1 mm canted by a few
-// degrees and seen through the sun's disc moves rows by ≤ 0.03 of their peak (Airy-type planes on a dense tilt grid
-// against brute force over the pupil: BENCHMARKS.md canting-spread). Rows at each wavelength come from rays traced at
+// (lib/bow/triangle-bins.ts; van de Hulst 1957 §12.22: the power of a bundle of rays is kept along it). Ray optics, orders
+// 0–3, with the bows' wave structure restored: the light of the primary's and the secondary's orders is spread over Θ by
+// their folds' Airy kernels (lib/bow/airy-spread.ts), each fold's width from the upright drop's own scattering plane at
+// the place (Airy-type theory per plane), which commute with the mean over tilts. Seen through the sun's disc that
+// moves canted (7.5°) equilibrium drops' rows by 0.004–0.017 of their peak (1.5–2.5 mm, top, side and arc 45°; issue
+// 13's notes), a sphere's by 0.06–0.35 of its bows' peaks. Rows at each wavelength come from rays traced at
 // a few refractive indices: each ray's Θ, α and powers are smooth in n (Snell's law at each face), so they are
 // interpolated ray by ray (Lagrange's form, Press et al. 2007 Eq. 3.2.1). Only the half of the pupil on one side of
 // the drop's mirror plane through the sunlight is traced, each ray standing for its mirror image too, and a ray whose
@@ -21,12 +24,72 @@ import { shapedPlaneTracer } from "./shaped-plane-rows.js";
 import { depositOverInterval } from "./ray-bins.js";
 import { depositOverTriangle } from "./triangle-bins.js";
 import type { PlaneTracer } from "../rays/plane-sweep.js";
+import { airySpreadKernel, airySpreadKernelShape, foldWidth, kernelReach, sphereFoldKappa, spreadWithAiry, type AirySpreadKernel } from "./airy-spread.js";
+import { planeFoldKappas, type PlaneFoldKappa } from "./plane-fold-width.js";
 
 const DEG = Math.PI / 180;
 /** Orders traced: reflection, transmission, the primary's and the secondary's. */
 const ORDERS = 4;
 /** The exit fields a trace keeps per order (real and imaginary parts for each incident polarisation: shape-tracer.ts AT). */
 const EXIT_FIELDS = [AT.e1Re, AT.e1Im, AT.e2Re, AT.e2Im] as const;
+/** The orders whose folds make the bows (the primary's, the secondary's): their light is spread by Airy kernels. */
+const BOW_ORDERS = [2, 3] as const;
+/** Light collected apart: orders 0 and 1 together, then each bow order. */
+const CLASSES = [0, 1, 2] as const;
+const orderClass = (p: number): number => (p < 2 ? 0 : p - 1);
+
+/**
+ * The folds of the upright drop's plane at each place, by the outline's radii at the poles, the equator and between
+ * (its fingerprint: the slices of one task, traced as parts on the threads, each build their own outline object).
+ */
+const planeFolds = new Map<string, (PlaneFoldKappa | null)[]>();
+const PLANE_FOLDS_MEMO_SIZE = 1024;
+/** Kernels by width and lit side: the slices, places and tasks of a thread meet the same ones again. */
+const kernelMemo = new Map<string, AirySpreadKernel>();
+const KERNEL_MEMO_SIZE = 4096;
+/**
+ * A plane's κ is taken no lower than this share of the sphere's (its fold at most twice as wide), which bounds the
+ * kernels' reach: measured 0.66–2.5 on equilibrium drops of 1.5–2.5 mm (lib/bow/plane-fold-width.ts).
+ */
+const MIN_KAPPA_SHARE = 0.5;
+
+/** Bins the widest kernel a drop's fold of order p may take reaches (κ at MIN_KAPPA_SHARE of the sphere's). */
+function widestReach(drop: RotationDrop, p: number, stepDeg: number): number {
+  const sphere = sphereFoldKappa(drop.mRe, p - 1);
+  return kernelReach(airySpreadKernelShape(foldWidth(MIN_KAPPA_SHARE * sphere.kappa, drop.x, sphere.litSide).sigmaDeg / stepDeg));
+}
+
+/**
+ * Each drop's Airy kernels for its primary's and secondary's folds at the place arcDeg, on bins stepDeg wide: κ from
+ * the upright drop's own plane there under the sun (the tilts' mode; lib/bow/plane-fold-width.ts) at the middle of
+ * the index span, carried to each drop's index as the sphere's κ changes with it (1.5 % over the span of water), or
+ * the sphere's own where that plane has no such fold.
+ */
+function foldKernels(setup: RotationSetup, arcDeg: number, drops: readonly RotationDrop[], stepDeg: number): AirySpreadKernel[][] {
+  const nMid = 0.5 * (setup.indexSpan.min + setup.indexSpan.max);
+  const { outline } = setup;
+  const key = `${[1, 0.5, 0, -0.5, -1].map((mu) => outline.radius(mu)).join(",")}:${setup.sunElevationDeg}:${arcDeg}:${nMid}`;
+  let folds = planeFolds.get(key);
+  if (!folds) {
+    if (planeFolds.size >= PLANE_FOLDS_MEMO_SIZE) planeFolds.clear();
+    planeFolds.set(key, (folds = planeFoldKappas(outline, setup.sunElevationDeg, arcDeg, nMid)));
+  }
+  return drops.map((drop) =>
+    BOW_ORDERS.map((p, b) => {
+      const sphere = sphereFoldKappa(drop.mRe, p - 1);
+      const plane = folds![b];
+      const kappa = plane ? Math.max(MIN_KAPPA_SHARE, plane.kappa / sphereFoldKappa(nMid, p - 1).kappa) * sphere.kappa : sphere.kappa;
+      const { sigmaDeg, litSide } = foldWidth(kappa, drop.x, plane?.litSide ?? sphere.litSide);
+      const memoKey = `${(sigmaDeg / stepDeg).toPrecision(6)}:${litSide}`;
+      let kernel = kernelMemo.get(memoKey);
+      if (!kernel) {
+        if (kernelMemo.size >= KERNEL_MEMO_SIZE) kernelMemo.clear();
+        kernelMemo.set(memoKey, (kernel = airySpreadKernel(sigmaDeg / stepDeg, litSide)));
+      }
+      return kernel;
+    }),
+  );
+}
 
 /**
  * The grid of the mean. Measured at 550 nm against brute force over the pupil (pupil step 0.005, elevations 0.5° apart,
@@ -105,6 +168,11 @@ export interface RotationSetup {
   /** The span of the drops' real index the traced indices cover. */
   indexSpan: { min: number; max: number };
   /**
+   * True: ray optics alone (method "geometric", and the checks against brute force over the pupil); else the primary's
+   * and the secondary's rows are spread by their folds' Airy kernels (lib/bow/airy-spread.ts).
+   */
+  rayOnly?: boolean;
+  /**
    * Benchmarks only: another pupil step and density of elevations than ROTATION_PUPIL_STEP and ROTATION_ELEVATIONS_PER_SD,
    * and `draw`, another of the equally good turns and shifts of the pupil grids (what the rows' sampling noise is
    * measured by: two draws differ by it alone).
@@ -158,6 +226,14 @@ export function rotationCantingRowsAlong(
   const fromDeg = thetaDeg[0] - stepDeg / 2;
   const arcs = arcsDeg.length;
   const rows = arcsDeg.map(() => drops.map(() => ({ perp: new Float64Array(count), par: new Float64Array(count) })));
+  // Each drop's bows spread by its folds' Airy kernels: the light of order p ≥ 2 collected apart, on rows wider by the
+  // kernels' reach on either side, so that light just outside the window spreads into it as it would.
+  const kernels = setup.rayOnly ? null : arcsDeg.map((arc) => foldKernels(setup, arc, drops, stepDeg));
+  // The margin from the drops alone, not the places, so that a place's rows are the same bits in any pass.
+  const margin = kernels ? Math.max(...drops.flatMap((drop) => BOW_ORDERS.map((p) => widestReach(drop, p, stepDeg)))) : 0;
+  const wide = count + 2 * margin;
+  const wideFromDeg = fromDeg - margin * stepDeg;
+  const collected = arcsDeg.map(() => drops.flatMap(() => CLASSES.map(() => ({ perp: new Float64Array(wide), par: new Float64Array(wide) }))));
   const nodes = chebyshevNodes(setup.indexSpan.min, setup.indexSpan.max, ROTATION_INDEX_NODES);
   const K = nodes.length;
   const D = drops.length;
@@ -240,10 +316,34 @@ export function rotationCantingRowsAlong(
         if (any) interpolateRays(at, K, D, arcs, weights, nearest, iu, cells, ray, pairDensityAt, far ? 0 : scale, lo, hi);
       }
       // The cells between the row before and this one (past the last row, an empty one).
-      depositCells(before, ray, size, D, cells, rows, fromDeg, stepDeg);
+      depositCells(before, ray, size, D, cells, collected, wideFromDeg, stepDeg);
       [before, ray] = [ray, before];
     }
   }
+  rows.forEach((arcRows, a) =>
+    arcRows.forEach((row, d) => {
+      const [rest, ...bows] = CLASSES.map((c) => collected[a][d * CLASSES.length + c]);
+      for (let j = 0; j < count; j++) {
+        row.perp[j] = rest.perp[margin + j];
+        row.par[j] = rest.par[margin + j];
+      }
+      bows.forEach((bow, b) => {
+        if (!kernels) {
+          for (let j = 0; j < count; j++) {
+            row.perp[j] += bow.perp[margin + j];
+            row.par[j] += bow.par[margin + j];
+          }
+          return;
+        }
+        const spread = new Float64Array(wide);
+        for (const pol of ["perp", "par"] as const) {
+          spread.fill(0);
+          spreadWithAiry(bow[pol], kernels[a][d][b], spread);
+          for (let j = 0; j < count; j++) row[pol][j] += spread[margin + j];
+        }
+      });
+    }),
+  );
   for (const arcRows of rows) {
     arcRows.forEach((row, d) => {
       const x2 = drops[d].x * drops[d].x;
@@ -502,7 +602,7 @@ function depositCells(above: RowRays, below: RowRays, size: number, D: number, c
             ePar += quarterPar[c];
           }
           if (ePerp === 0 && ePar === 0) continue;
-          const { perp, par } = rows[a][d];
+          const { perp, par } = rows[a][d * CLASSES.length + orderClass(p)];
           if (shape === "points") {
             for (let c = 0; c < 4; c++) {
               if (slot[c] < 0) continue;

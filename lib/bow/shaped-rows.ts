@@ -126,8 +126,9 @@ export const BANDED_FROM_RADIUS_UM = 1000;
  * the top of the bow 0.596 / 0.251 and 0.074 / 0.017, at the side 0.502 / 0.377 and 0.019 / 0.011; 1.5 mm at the side
  * 0.257 / 0.104 and 0.051 / 0.020; 2.5 mm at arc 45° 1.179 / 0.355 and 0.079 / 0.034 (2026-12-05, engine 21). At 1 mm
  * the rotation is better too (0.215 / 0.105 and 0.087 / 0.027 at the top) but costs about 2 s of CPU a shape at one
- * wavelength, 4 s at 41, against the rules' 0.2–0.4 s at one index, and drops up to 1 mm share the planes of shape nodes (SHAPE_NODES_MAX_RADIUS_UM); below about 0.5 mm the
- * ray optics it rests on leaves out the bows' wave structure that the rules' Airy-type bows keep.
+ * wavelength, 4 s at 41, against the rules' 0.2–0.4 s at one index, and drops up to 1 mm share the planes of shape nodes (SHAPE_NODES_MAX_RADIUS_UM); its bows' wave
+ * structure comes from a sphere's fold width (lib/bow/airy-spread.ts), where the rules' Airy-type planes each take
+ * their own.
  */
 export const ROTATION_FROM_RADIUS_UM = 1000;
 
@@ -151,7 +152,10 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (21: the canting mean
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (22: the canting mean by
+ * rotation spreads its primary's and secondary's light by the folds' Airy kernels (lib/bow/airy-spread.ts), the bows'
+ * wave structure restored, each fold's width from its place's plane: monodisperse 1.5 mm drops move by ΔE2000 up to 0.44 at
+ * the top of the bow and 0.85 at its side, 2 mm drops canted 2° by 0.77 at arc 45°, Marshall–Palmer 25 mm/h by 0.03–0.07; 21: the canting mean
  * by rotation traces half the pupil by the drop's mirror plane and spreads each pupil cell as two triangles
  * (lib/bow/triangle-bins.ts), its sampling noise a third of the segments' at 2 mm, sun 30°, side; 20: drops above
  * ROTATION_FROM_RADIUS_UM canted by at least ROTATION_MIN_CANTING_SD_DEG take the canting mean by rotation over the
@@ -190,7 +194,7 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 21;
+export const SHAPED_ENGINE_VERSION = 22;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
@@ -732,6 +736,7 @@ export function rotationMeanRows(
     arcPositionDeg: spec.arcPositionDeg,
     indexSpan: spec.indexSpan ?? WATER_INDEX_RANGE,
     grid: spec.rotationGrid,
+    rayOnly: spec.rayOnly,
   };
   if (drops.some((d) => d.radiusUm !== drops[0].radiusUm) && spec.kind !== "spheroid") throw new RangeError("the canting mean by rotation takes drops of one shape");
   const siblingArcs = (spec.siblingArcsDeg ?? []).filter((a) => a !== spec.arcPositionDeg);
