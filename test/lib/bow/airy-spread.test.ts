@@ -2,7 +2,9 @@
 // on, and a sphere's ray-optical bows spread by it against Airy's theory of the rainbow.
 import { describe, expect, it } from "vitest";
 import { airyAi, AIRY_AI_PRIME_ZEROS } from "../../../lib/special/airy.js";
-import { airySpreadKernel, sphereFoldWidth, spreadWithAiry } from "../../../lib/bow/airy-spread.js";
+import { airySpreadKernel, sphereFoldKappa, sphereFoldWidth, spreadWithAiry } from "../../../lib/bow/airy-spread.js";
+import { planeFoldKappas } from "../../../lib/bow/plane-fold-width.js";
+import { spheroidOutline } from "../../../lib/drops/shape/outline.js";
 import { rayOpticsBins } from "../../../lib/bow/ray-bins.js";
 import { dropRow, dropRowContext } from "../../../lib/bow/drop-rows.js";
 import { airyBowScale } from "../../../lib/rays/airy-bow.js";
@@ -82,6 +84,20 @@ describe("the Airy spread of a fold", () => {
       let brightest = 0;
       for (let j = 0; j < bow.spread.length; j++) if (bow.spread[j] > bow.spread[brightest]) brightest = j;
       expect(Math.abs(bow.thetaDeg[brightest] - expected)).toBeLessThanOrEqual(stepDeg);
+    }
+  });
+
+  it("takes a plane's fold width from its traced rays, the sphere's in every plane of a sphere (Airy 1838's κ)", () => {
+    // κ = |s′|^{2/3}(2/|Θ″|)^{1/3} read off the plane's sweep (lib/bow/plane-bow-table.ts) against the sphere's
+    // (2/D″)^{1/3} from Descartes' ray (lib/rays/descartes.ts): the sweep's cubic interpolation, within 1e-3.
+    for (const [sun, arc] of [[10, 0], [10, 90], [30, 45]]) {
+      const folds = planeFoldKappas(spheroidOutline(1), sun, arc, N_WATER);
+      [1, 2].forEach((k, b) => {
+        const sphere = sphereFoldKappa(N_WATER, k);
+        expect(folds[b]).not.toBeNull();
+        expect(Math.abs(folds[b]!.kappa / sphere.kappa - 1)).toBeLessThan(1e-3);
+        expect(folds[b]!.litSide).toBe(sphere.litSide);
+      });
     }
   });
 });
