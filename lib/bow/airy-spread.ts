@@ -91,15 +91,19 @@ export function kernelReach(shape: { reachLit: number; reachDark: number }): num
   return Math.max(shape.reachLit, shape.reachDark);
 }
 
-/** Adds source spread by the kernel to target (source[i] lands on target[i + first + m] with weights[m]). */
-export function spreadWithAiry(source: Float64Array, kernel: AirySpreadKernel, target: Float64Array): void {
+/**
+ * Adds source spread by the kernel to target, whose bin 0 is source's bin `offset` (source[i] lands on
+ * target[i − offset + first + m] with weights[m]; what falls outside target is dropped).
+ */
+export function spreadWithAiry(source: Float64Array, kernel: AirySpreadKernel, target: Float64Array, offset = 0): void {
   const { first, weights } = kernel;
   const n = target.length;
   for (let i = 0; i < source.length; i++) {
     const value = source[i];
     if (value === 0) continue;
-    const from = Math.max(0, -(i + first));
-    const to = Math.min(weights.length, n - (i + first));
-    for (let m = from; m < to; m++) target[i + first + m] += value * weights[m];
+    const at = i - offset + first;
+    const from = Math.max(0, -at);
+    const to = Math.min(weights.length, n - at);
+    for (let m = from; m < to; m++) target[at + m] += value * weights[m];
   }
 }

@@ -335,12 +335,8 @@ export function rotationCantingRowsAlong(
           }
           return;
         }
-        const spread = new Float64Array(wide);
-        for (const pol of ["perp", "par"] as const) {
-          spread.fill(0);
-          spreadWithAiry(bow[pol], kernels[a][d][b], spread);
-          for (let j = 0; j < count; j++) row[pol][j] += spread[margin + j];
-        }
+        spreadWithAiry(bow.perp, kernels[a][d][b], row.perp, margin);
+        spreadWithAiry(bow.par, kernels[a][d][b], row.par, margin);
       });
     }),
   );
