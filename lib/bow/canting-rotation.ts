@@ -233,7 +233,9 @@ export function rotationCantingRowsAlong(
   const margin = kernels ? Math.max(...drops.flatMap((drop) => BOW_ORDERS.map((p) => widestReach(drop, p, stepDeg)))) : 0;
   const wide = count + 2 * margin;
   const wideFromDeg = fromDeg - margin * stepDeg;
-  const collected = arcsDeg.map(() => drops.flatMap(() => CLASSES.map(() => ({ perp: new Float64Array(wide), par: new Float64Array(wide) }))));
+  // Ray optics alone collects every order together, straight into the rows.
+  const classes = kernels ? CLASSES.length : 1;
+  const collected = kernels ? arcsDeg.map(() => drops.flatMap(() => CLASSES.map(() => ({ perp: new Float64Array(wide), par: new Float64Array(wide) })))) : rows;
   const nodes = chebyshevNodes(setup.indexSpan.min, setup.indexSpan.max, ROTATION_INDEX_NODES);
   const K = nodes.length;
   const D = drops.length;
@@ -316,30 +318,25 @@ export function rotationCantingRowsAlong(
         if (any) interpolateRays(at, K, D, arcs, weights, nearest, iu, cells, ray, pairDensityAt, far ? 0 : scale, lo, hi);
       }
       // The cells between the row before and this one (past the last row, an empty one).
-      depositCells(before, ray, size, D, cells, collected, wideFromDeg, stepDeg);
+      depositCells(before, ray, size, D, cells, collected, classes, wideFromDeg, stepDeg);
       [before, ray] = [ray, before];
     }
   }
-  rows.forEach((arcRows, a) =>
-    arcRows.forEach((row, d) => {
-      const [rest, ...bows] = CLASSES.map((c) => collected[a][d * CLASSES.length + c]);
-      for (let j = 0; j < count; j++) {
-        row.perp[j] = rest.perp[margin + j];
-        row.par[j] = rest.par[margin + j];
-      }
-      bows.forEach((bow, b) => {
-        if (!kernels) {
-          for (let j = 0; j < count; j++) {
-            row.perp[j] += bow.perp[margin + j];
-            row.par[j] += bow.par[margin + j];
-          }
-          return;
+  if (kernels) {
+    rows.forEach((arcRows, a) =>
+      arcRows.forEach((row, d) => {
+        const [rest, ...bows] = CLASSES.map((c) => collected[a][d * CLASSES.length + c]);
+        for (let j = 0; j < count; j++) {
+          row.perp[j] = rest.perp[margin + j];
+          row.par[j] = rest.par[margin + j];
         }
-        spreadWithAiry(bow.perp, kernels[a][d][b], row.perp, margin);
-        spreadWithAiry(bow.par, kernels[a][d][b], row.par, margin);
-      });
-    }),
-  );
+        bows.forEach((bow, b) => {
+          spreadWithAiry(bow.perp, kernels[a][d][b], row.perp, margin);
+          spreadWithAiry(bow.par, kernels[a][d][b], row.par, margin);
+        });
+      }),
+    );
+  }
   for (const arcRows of rows) {
     arcRows.forEach((row, d) => {
       const x2 = drops[d].x * drops[d].x;
@@ -529,14 +526,25 @@ function interpolateRays(
 
 /**
  * Spreads the power of the pupil cells between two rows of rays (above, below) into the drops' rows at each place on the
- * bow (rows[a], the rays' weights there from a·size on). Each ray's power stands for the du² of pupil around it, a
+ * bow (rows[a], the rays' weights there from a·size on; `classes` rows per drop: 1, every order in one, or 3, orders 0–1,
+ * 2 and 3 apart). Each ray's power stands for the du² of pupil around it, a
  * quarter in each of the four cells it is a corner of. A cell whose four corners left and lie within JOIN_THETA_DEG of
  * each other is spread as its two triangles (lib/bow/triangle-bins.ts), half its corners' quarters each; at the rim (or
  * the window's edge) a cell with three corners as their triangle, with two on a side along that side, the shares of the
  * corners it has; in any other cell each corner's quarter stays at its own Θ. A cell's shares of the bins are found
  * once for every place.
  */
-function depositCells(above: RowRays, below: RowRays, size: number, D: number, cells: number, rows: { perp: Float64Array; par: Float64Array }[][], fromDeg: number, stepDeg: number): void {
+function depositCells(
+  above: RowRays,
+  below: RowRays,
+  size: number,
+  D: number,
+  cells: number,
+  rows: { perp: Float64Array; par: Float64Array }[][],
+  classes: number,
+  fromDeg: number,
+  stepDeg: number,
+): void {
   const count = rows[0][0].perp.length;
   const toDeg = fromDeg + count * stepDeg;
   const arcs = rows.length;
@@ -598,7 +606,7 @@ function depositCells(above: RowRays, below: RowRays, size: number, D: number, c
             ePar += quarterPar[c];
           }
           if (ePerp === 0 && ePar === 0) continue;
-          const { perp, par } = rows[a][d * CLASSES.length + orderClass(p)];
+          const { perp, par } = rows[a][d * classes + (classes === 1 ? 0 : orderClass(p))];
           if (shape === "points") {
             for (let c = 0; c < 4; c++) {
               if (slot[c] < 0) continue;
