@@ -12,6 +12,7 @@ import { convolveProfile, sunDiscKernel, SUN_MEAN_ANGULAR_DIAMETER_DEG } from ".
 import { pupilCantingRow } from "../../../bench/canting-pupil.js";
 import { rowErrors } from "../../../bench/row-errors.js";
 import { dropRow, dropRowContext } from "../../../lib/bow/drop-rows.js";
+import { rotationMeanRows, type ShapedRowSpec } from "../../../lib/bow/shaped-rows.js";
 
 const DEG = Math.PI / 180;
 const SPAN = { min: 1.3284, max: 1.3479 };
@@ -149,4 +150,31 @@ describe("the canting mean by rotation", () => {
       });
     }
   }, 120_000);
+
+  it("spreads the bows of a kernel row by Airy kernels unless its spec asks for ray optics alone (method \"geometric\")", () => {
+    // The spec's rayOnly reaches the rotation: its slices add up to the rays-only or the spread rows of the whole pass.
+    const step = 0.1;
+    const thetaDeg = Float64Array.from({ length: 300 }, (_, j) => 120.05 + step * j);
+    const drops = [{ radiusUm: 1800, mRe: 1.3345, x: 2.06e4 }];
+    const grid = { pupilStep: 0.06, elevationsPerSd: 2 };
+    const spec: ShapedRowSpec = { kind: "equilibrium", cantingSdDeg: 7.5, sunElevationDeg: 10, arcPositionDeg: 45, rayOnly: true, cantingRotation: true, rotationGrid: grid, indexSpan: SPAN };
+    const summed = (rayOnly: boolean) => {
+      const { pieces } = rotationMeanRows({ ...spec, rayOnly }, drops, thetaDeg, step);
+      return pieces[0].reduce((sum, piece) => sum.map((v, j) => v + piece.perp[j] + piece.par[j]), new Float64Array(thetaDeg.length));
+    };
+    const direct = (rayOnly: boolean) => {
+      const [row] = rotationCantingRows({ outline: equilibriumOutline(1800), sunElevationDeg: 10, cantingSdDeg: 7.5, arcPositionDeg: 45, indexSpan: SPAN, rayOnly, grid }, drops, thetaDeg, step);
+      return row.perp.map((v, j) => v + row.par[j]);
+    };
+    for (const rayOnly of [true, false]) {
+      const a = summed(rayOnly);
+      const b = direct(rayOnly);
+      const peak = Math.max(...b);
+      for (let j = 0; j < thetaDeg.length; j++) expect(Math.abs(a[j] - b[j])).toBeLessThan(1e-9 * peak);
+    }
+    // And the two differ: the spread moves light near the folds.
+    const rays = summed(true);
+    const waves = summed(false);
+    expect(Math.max(...rays.map((v, j) => Math.abs(v - waves[j])))).toBeGreaterThan(1e-3 * Math.max(...rays));
+  }, 60_000);
 });
