@@ -36,16 +36,16 @@ export function foldWidth(kappa: number, x: number, litSide: 1 | -1): FoldWidth 
   return { sigmaDeg: 1 / (2 ** (2 / 3) * kappa * x ** (2 / 3)) / DEG, litSide };
 }
 
-/** κ of the bow after `internalReflections` reflections (1: primary, 2: secondary) of a sphere at real index n. */
-export function sphereFoldKappa(n: number, internalReflections: number): { kappa: number; litSide: 1 | -1 } {
-  const scale = airyBowScale(n, 1, internalReflections);
-  return { kappa: Math.abs(scale.xiPerRad), litSide: scale.xiPerRad > 0 ? 1 : -1 };
+/** A fold's κ (ξ per radian over x^{2/3}) and its lit side. */
+export interface FoldKappa {
+  kappa: number;
+  litSide: 1 | -1;
 }
 
-/** The fold width of that bow of a sphere of size parameter x at real index n. */
-export function sphereFoldWidth(n: number, x: number, internalReflections: number): FoldWidth {
-  const { kappa, litSide } = sphereFoldKappa(n, internalReflections);
-  return foldWidth(kappa, x, litSide);
+/** κ of the bow after `internalReflections` reflections (1: primary, 2: secondary) of a sphere at real index n. */
+export function sphereFoldKappa(n: number, internalReflections: number): FoldKappa {
+  const scale = airyBowScale(n, 1, internalReflections);
+  return { kappa: Math.abs(scale.xiPerRad), litSide: scale.xiPerRad > 0 ? 1 : -1 };
 }
 
 /** Weights of the bins from `first` on (offsets from a ray's bin) that a unit of light in one bin spreads to. */

@@ -24,8 +24,8 @@ import { shapedPlaneTracer } from "./shaped-plane-rows.js";
 import { depositOverInterval } from "./ray-bins.js";
 import { depositOverTriangle } from "./triangle-bins.js";
 import type { PlaneTracer } from "../rays/plane-sweep.js";
-import { airySpreadKernel, airySpreadKernelShape, foldWidth, kernelReach, sphereFoldKappa, spreadWithAiry, type AirySpreadKernel } from "./airy-spread.js";
-import { planeFoldKappas, type PlaneFoldKappa } from "./plane-fold-width.js";
+import { airySpreadKernel, airySpreadKernelShape, foldWidth, kernelReach, sphereFoldKappa, spreadWithAiry, type AirySpreadKernel, type FoldKappa } from "./airy-spread.js";
+import { planeFoldKappas } from "./plane-fold-width.js";
 
 const DEG = Math.PI / 180;
 /** Orders traced: reflection, transmission, the primary's and the secondary's. */
@@ -42,7 +42,7 @@ const orderClass = (p: number): number => (p < 2 ? 0 : p - 1);
  * The folds of the upright drop's plane at each place, by the outline's radii at the poles, the equator and between
  * (its fingerprint: the slices of one task, traced as parts on the threads, each build their own outline object).
  */
-const planeFolds = new Map<string, (PlaneFoldKappa | null)[]>();
+const planeFolds = new Map<string, (FoldKappa | null)[]>();
 const PLANE_FOLDS_MEMO_SIZE = 1024;
 /** Kernels by width and lit side: the slices, places and tasks of a thread meet the same ones again. */
 const kernelMemo = new Map<string, AirySpreadKernel>();
@@ -74,11 +74,13 @@ function foldKernels(setup: RotationSetup, arcDeg: number, drops: readonly Rotat
     if (planeFolds.size >= PLANE_FOLDS_MEMO_SIZE) planeFolds.clear();
     planeFolds.set(key, (folds = planeFoldKappas(outline, setup.sunElevationDeg, arcDeg, nMid)));
   }
+  // Each plane's κ as a share of the sphere's at the same index, taken to each drop's index.
+  const shares = BOW_ORDERS.map((p, b) => (folds![b] ? Math.max(MIN_KAPPA_SHARE, folds![b]!.kappa / sphereFoldKappa(nMid, p - 1).kappa) : 1));
   return drops.map((drop) =>
     BOW_ORDERS.map((p, b) => {
       const sphere = sphereFoldKappa(drop.mRe, p - 1);
       const plane = folds![b];
-      const kappa = plane ? Math.max(MIN_KAPPA_SHARE, plane.kappa / sphereFoldKappa(nMid, p - 1).kappa) * sphere.kappa : sphere.kappa;
+      const kappa = shares[b] * sphere.kappa;
       const { sigmaDeg, litSide } = foldWidth(kappa, drop.x, plane?.litSide ?? sphere.litSide);
       const memoKey = `${(sigmaDeg / stepDeg).toPrecision(6)}:${litSide}`;
       let kernel = kernelMemo.get(memoKey);

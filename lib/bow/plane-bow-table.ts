@@ -134,7 +134,8 @@ export interface FoldConstants {
   dPar: number;
 }
 
-function foldConstants(sweep: PlaneSweep, fold: PlaneFold): FoldConstants {
+/** The fold's uniform-form constants, read off the sweep at its rainbow ray (what planeBowTable's header holds). */
+export function foldConstants(sweep: PlaneSweep, fold: PlaneFold): FoldConstants {
   const w = weightsAt(sweep, fold, fold.uR);
   const at = (weights: Float64Array, values: Float64Array) => applyCubic(weights, w.first, values);
   const curvature = Math.abs(at(w.curvature, sweep.thetaSigned));

@@ -2,7 +2,7 @@
 // on, and a sphere's ray-optical bows spread by it against Airy's theory of the rainbow.
 import { describe, expect, it } from "vitest";
 import { airyAi, AIRY_AI_PRIME_ZEROS } from "../../../lib/special/airy.js";
-import { airySpreadKernel, sphereFoldKappa, sphereFoldWidth, spreadWithAiry } from "../../../lib/bow/airy-spread.js";
+import { airySpreadKernel, foldWidth, sphereFoldKappa, spreadWithAiry } from "../../../lib/bow/airy-spread.js";
 import { planeFoldKappas } from "../../../lib/bow/plane-fold-width.js";
 import { spheroidOutline } from "../../../lib/drops/shape/outline.js";
 import { rayOpticsBins } from "../../../lib/bow/ray-bins.js";
@@ -24,7 +24,8 @@ function sphereBow(p: number, radiusUm: number, stepDeg: number) {
   const airy = new Float64Array(count);
   const ctx = dropRowContext({ wavelengthNm: WAVELENGTH_NM, mRe: N_WATER, mIm: 0, nAir: 1 }, thetaDeg, stepDeg, new Set(["airy"]), p);
   dropRow(ctx, "airy", radiusUm, airy, new Float64Array(count));
-  const { sigmaDeg, litSide } = sphereFoldWidth(N_WATER, x, p - 1);
+  const sphere = sphereFoldKappa(N_WATER, p - 1);
+  const { sigmaDeg, litSide } = foldWidth(sphere.kappa, x, sphere.litSide);
   const spread = new Float64Array(count);
   spreadWithAiry(rays, airySpreadKernel(sigmaDeg / stepDeg, litSide), spread);
   return { thetaDeg, x, rays, airy, spread };
