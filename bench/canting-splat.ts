@@ -17,12 +17,15 @@ import { errors, N_RE, PUPIL_GRID, pupilReference, SD_DEG, seen, sizeParameter, 
 import { cpuTimed } from "./timing.js";
 
 /** The service's grid first, then finer pupils, and elevations twice as far apart. */
-const GRIDS = [
+const GRIDS: { pupilStep: number; elevationsPerSd: number; growthCap?: number }[] = [
   { pupilStep: ROTATION_PUPIL_STEP, elevationsPerSd: ROTATION_ELEVATIONS_PER_SD },
-  { pupilStep: 0.014, elevationsPerSd: ROTATION_ELEVATIONS_PER_SD },
-  { pupilStep: 0.01, elevationsPerSd: ROTATION_ELEVATIONS_PER_SD },
+  { pupilStep: 0.02, elevationsPerSd: ROTATION_ELEVATIONS_PER_SD, growthCap: 1 },
+  { pupilStep: 0.014, elevationsPerSd: ROTATION_ELEVATIONS_PER_SD, growthCap: 1 },
+  { pupilStep: 0.01, elevationsPerSd: ROTATION_ELEVATIONS_PER_SD, growthCap: 1 },
   { pupilStep: ROTATION_PUPIL_STEP, elevationsPerSd: ROTATION_ELEVATIONS_PER_SD / 2 },
 ];
+/** A grid's column head: its step at the tilts' mode, and whether it grows away from it (rotationPupilStep). */
+const gridName = (g: (typeof GRIDS)[number]) => `pupil step ${g.pupilStep}${g.growthCap === 1 ? " everywhere" : " at the mode, growing"}, ${g.elevationsPerSd} elevations per σ`;
 const CASES: { radiusUm: number; arcPositionDeg: number }[] = process.env.CASES
   ? JSON.parse(process.env.CASES)
   : [
@@ -72,11 +75,13 @@ const section = [
   "square grid over one half of the upright drop's pupil (by its mirror plane through the sunlight; each ray stands for",
   "its mirror) traced at 4 refractive indices (interpolated to this one), weighed by the tilts' density at the arc",
   "position it leaves at, each pupil cell spread over Θ as two triangles; each elevation's grid turned by the golden angle",
-  "and shifted. At 41 wavelengths (380–780 nm) the times grow unlike: on 2 mm drops at the side (2026-12-05 03:25 UTC, one",
-  "thread, issue 13's notes) the rotation at pupil step 0.02 took 2.24 s at one wavelength and 3.87 s at 41 (each",
-  "wavelength's rays interpolated and spread), the rules 0.13 s and 8.6 s (each wavelength's rows from planes at 7 indices).",
+  "and shifted; \"growing\": the pupil step at an elevation z·σ from the tilts' mode is the mode's times e^{z²/8}, at most",
+  "twice it (rotationPupilStep). At 41 wavelengths (380–780 nm) the times grow unlike: on 2 mm drops at the side",
+  "(2026-12-05 07:25 UTC, one thread, issue 13's notes) the service's grid took 1.50 s at one wavelength and 3.17 s at 41",
+  "(each wavelength's rays interpolated and spread; pupil step 0.02 everywhere 2.03–2.44 s and 4.05–4.26 s in the same",
+  "process), the rules 0.13 s and 8.6 s (each wavelength's rows from planes at 7 indices; 2026-12-05 03:25 UTC).",
   "",
-  `| drops, place on the bow | rules | ${GRIDS.map((g, k) => `rotation, pupil step ${g.pupilStep}, ${g.elevationsPerSd} elevations per σ${k === 0 ? " (the service's)" : ""}`).join(" | ")} |`,
+  `| drops, place on the bow | rules | ${GRIDS.map((g, k) => `rotation, ${gridName(g)}${k === 0 ? " (the service's)" : k === 1 ? " (engine 22's)" : ""}`).join(" | ")} |`,
   `|---|---|${GRIDS.map(() => "---|").join("")}`,
   ...lines,
 ];

@@ -58,7 +58,7 @@ if (process.argv.includes("--write")) {
     "difference is the sampling noise alone. 380–780 nm every 20 nm. ΔE2000 per angle over ψ 30–60° on XYZ scaled by the",
     "first draw's peak Y. Cold times of the whole profile (drops up to 1 mm as the service takes them).",
     "",
-    "| workload | pupil step | worst ΔE2000 between draws | mean ΔE2000 | cold ms (draw 0 / draw 1) |",
+    "| workload | pupil step at the tilts' mode (growing away from it: rotationPupilStep) | worst ΔE2000 between draws | mean ΔE2000 | cold ms (draw 0 / draw 1) |",
     "|---|---|---|---|---|",
     ...lines,
   ]);

@@ -94,15 +94,16 @@ function foldKernels(setup: RotationSetup, arcDeg: number, drops: readonly Rotat
 }
 
 /**
- * The grid of the mean. Measured at 550 nm against brute force over the pupil (pupil step 0.005, elevations 0.5° apart,
- * point bins: bench/canting-pupil.ts) after the sun's disc, worst share of the peak / summed (BENCHMARKS.md
- * canting-splat, 1–2.5 mm drops at the top, side and between, 2026-12-05 02:54 UTC): pupil step 0.02 gives 0.019–0.087
- * / 0.011–0.049 at 1.6–2.2 s of CPU at one wavelength; 0.014 gives 0.023–0.116 / 0.010–0.040 at twice the rays, 0.01
- * 0.027–0.102 / 0.009–0.041 at four times: no better, the brute force itself being good to about 0.05. Elevations σ/7.5
- * apart (1° at σ 7.5°) over ±3.5σ, which leaves out 5e-4 of the tilts' mass: σ/3.75 apart left up to 0.205 / 0.057 at
- * the top.
+ * The grid of the mean. Before engine 23 one pupil step for every elevation; measured at 550 nm against brute force over
+ * the pupil (pupil step 0.005, elevations 0.5° apart, point bins: bench/canting-pupil.ts) after the sun's disc, worst
+ * share of the peak / summed (BENCHMARKS.md canting-splat, 1–2.5 mm drops at the top, side and between, 2026-12-05 02:54
+ * UTC): pupil step 0.02 gave 0.019–0.087 / 0.011–0.049 at 1.6–2.2 s of CPU at one wavelength; 0.014 gave 0.023–0.116 /
+ * 0.010–0.040 at twice the rays, 0.01 0.027–0.102 / 0.009–0.041 at four times: no better, the brute force itself being
+ * good to about 0.05. Elevations σ/7.5 apart (1° at σ 7.5°) over ±3.5σ, which leaves out 5e-4 of the tilts' mass: σ/3.75
+ * apart left up to 0.205 / 0.057 at the top. Since engine 23 the step is ROTATION_PUPIL_STEP at the tilts' mode and grows
+ * away from it (rotationPupilStep).
  */
-export const ROTATION_PUPIL_STEP = 0.02;
+export const ROTATION_PUPIL_STEP = 0.017;
 export const ROTATION_ELEVATIONS_PER_SD = 7.5;
 export const ROTATION_SPAN_SD = 3.5;
 /**
@@ -120,6 +121,29 @@ export const ROTATION_INDEX_NODES = 4;
  * Narrower spreads leave fewer rays at each place on the bow (the tilt density's width in α is about σ).
  */
 export const ROTATION_MIN_CANTING_SD_DEG = 2;
+/**
+ * How far the pupil step may grow at elevations away from the tilts' mode (rotationPupilStep): twice ROTATION_PUPIL_STEP.
+ * At one wavelength against brute force (as above, issue 13's notes) caps of 2 and 3 gave the same errors within the
+ * grids' own scatter, 3 saving 4–10 % more CPU; 2 keeps the outermost elevations' cells as fine as the uniform grid's
+ * 0.034 of engine 20.
+ */
+export const ROTATION_STEP_GROWTH_CAP = 2;
+
+/**
+ * The pupil step at an elevation z·σ from the tilts' mode: du·min(cap, e^{z²/8}). Each elevation's rays enter the mean
+ * weighed by the tilts' Gaussian mass there, w ∝ e^{−z²/2}; a grid's error at one elevation grows as du² (the cells' fold
+ * bias, of order Θ''·du²) and its rays as 1/du², so the fewest rays for a given Σ w·du² take du ∝ w^{−1/4} = e^{z²/8}
+ * (a Lagrange multiplier; derived here, common practice in stratified sampling). Measured on Marshall–Palmer 25 mm/h
+ * with equilibrium shapes (canting 7.5°, 380–780 nm every 20 nm, ψ 30–60°; issue 13's notes, 2026-12-05): with
+ * ROTATION_PUPIL_STEP 0.017 growing to 0.034 against the uniform 0.02 of engine 22, the whole cold profile 0.82× (sun
+ * 10°, top of the bow) and 0.80× (sun 30°, side) of the time, two draws of the grids' turns ΔE2000 0.138 / 0.235 apart
+ * at worst (uniform 0.02: 0.291 / 0.311), and a finer reference (uniform 0.014, σ/15) 0.157–0.170 / 0.415–0.441 away
+ * (uniform 0.02: 0.181–0.278 / 0.443–0.565).
+ */
+export function rotationPupilStep(du: number, zSd: number, cap = ROTATION_STEP_GROWTH_CAP): number {
+  return du * Math.min(cap, Math.max(1, Math.exp((zSd * zSd) / 8)));
+}
+
 /** The elevations are computed in this many slices (parts of a kernel task on the pool's threads). */
 export const ROTATION_SLICES = 4;
 /** The golden angle 180°(3 − √5) and the R2 sequence's steps 1/g, 1/g² (g the plastic number, the real root of g³ = g + 1): low-discrepancy turns and shifts (common practice). */
@@ -176,10 +200,10 @@ export interface RotationSetup {
   rayOnly?: boolean;
   /**
    * Benchmarks only: another pupil step and density of elevations than ROTATION_PUPIL_STEP and ROTATION_ELEVATIONS_PER_SD,
-   * and `draw`, another of the equally good turns and shifts of the pupil grids (what the rows' sampling noise is
-   * measured by: two draws differ by it alone).
+   * `draw`, another of the equally good turns and shifts of the pupil grids (what the rows' sampling noise is measured
+   * by: two draws differ by it alone), and `growthCap`, another than ROTATION_STEP_GROWTH_CAP (1: one step everywhere).
    */
-  grid?: { pupilStep: number; elevationsPerSd: number; draw?: number };
+  grid?: { pupilStep: number; elevationsPerSd: number; draw?: number; growthCap?: number };
 }
 
 /**
@@ -244,23 +268,25 @@ export function rotationCantingRowsAlong(
   const weights = drops.map((drop) => lagrangeWeights(nodes, drop.mRe));
   const nearest = drops.map((drop) => nodes.reduce((best, n, k) => (Math.abs(n - drop.mRe) < Math.abs(nodes[best] - drop.mRe) ? k : best), 0));
   const reach = outline.maxRadius * 1.001;
-  const du = setup.grid?.pupilStep ?? ROTATION_PUPIL_STEP;
+  const duAtMode = setup.grid?.pupilStep ?? ROTATION_PUPIL_STEP;
+  const growthCap = setup.grid?.growthCap ?? ROTATION_STEP_GROWTH_CAP;
   const elevationsPerSd = setup.grid?.elevationsPerSd ?? ROTATION_ELEVATIONS_PER_SD;
   const draw = setup.grid?.draw ?? 0;
-  const cells = Math.ceil((2 * reach) / du);
   // Per node and order, the last traced ray; per drop, order and pupil sample along u, the row of rays.
   const at = { theta: new Float64Array(K * ORDERS), alpha: new Float64Array(K * ORDERS), perp: new Float64Array(K * ORDERS), par: new Float64Array(K * ORDERS), ok: new Uint8Array(K * ORDERS), unwrapped: new Float64Array(K), density: new Float64Array(arcs * K) };
-  const size = D * ORDERS * cells;
   // The rays of this row of the pupil and of the row before (cells between them are spread as two triangles each).
-  const rowRays = (): RowRays => ({ theta: new Float64Array(size), weight: new Float64Array(arcs * size), perp: new Float64Array(size), par: new Float64Array(size), alpha: new Float64Array(size), ok: new Uint8Array(size) });
-  let ray = rowRays();
-  let before = rowRays();
+  const rowRays = (size: number): RowRays => ({ theta: new Float64Array(size), weight: new Float64Array(arcs * size), live: new Uint8Array(arcs * size), perp: new Float64Array(size), par: new Float64Array(size), alpha: new Float64Array(size), ok: new Uint8Array(size) });
   const density = new Float64Array(Math.round(360 / AZIMUTH_STEP_DEG) + 2);
   const lo = fromDeg - JOIN_THETA_DEG;
   const hi = fromDeg + count * stepDeg + JOIN_THETA_DEG;
   const elevationStepDeg = cantingSdDeg / elevationsPerSd;
   for (const { offsetDeg, k: place } of rotationElevationsDeg(cantingSdDeg, slice, elevationsPerSd)) {
     const elevationDeg = sunElevationDeg + offsetDeg;
+    const du = rotationPupilStep(duAtMode, offsetDeg / cantingSdDeg, growthCap);
+    const cells = Math.ceil((2 * reach) / du);
+    const size = D * ORDERS * cells;
+    let ray = rowRays(size);
+    let before = rowRays(size);
     // Each elevation's pupil grid turned by the golden angle and shifted by the R2 sequence from the one before, so that
     // the combs a square grid leaves where the rays of one grid line fold over in Θ fall elsewhere at each elevation
     // and average out (for a sphere every elevation sees the same drop, and an unturned grid left a comb 1.7° apart
@@ -401,7 +427,8 @@ function anyLive(at: NodeRays, live: Int32Array, lo: number, hi: number): boolea
 }
 
 type NodeRays = { theta: Float64Array; alpha: Float64Array; perp: Float64Array; par: Float64Array; ok: Uint8Array; unwrapped: Float64Array; density: Float64Array };
-type RowRays = { theta: Float64Array; alpha: Float64Array; perp: Float64Array; par: Float64Array; ok: Uint8Array; weight: Float64Array };
+/** weight: a ray's power weight at each place (the tilts' density times the pupil's scale); live: whether that place takes light from its exit at all (the density above the cut). */
+type RowRays = { theta: Float64Array; alpha: Float64Array; perp: Float64Array; par: Float64Array; ok: Uint8Array; weight: Float64Array; live: Uint8Array };
 
 /**
  * Traces pupil point (u, v) at node k and keeps each order's exit: Θ, α (the observer looks back along the ray, s = −d_out,
@@ -513,13 +540,18 @@ function interpolateRays(
           let density = 0;
           for (let k = 0; k < K; k++) density += w[k] * at.density[a * K + k];
           ray.weight[a * size + s] = scale * Math.max(0, density);
+          ray.live[a * size + s] = density > 0 ? 1 : 0;
         }
       } else if (at.ok[near]) {
         ray.theta[s] = at.theta[near];
         ray.alpha[s] = at.alpha[near];
         ray.perp[s] = at.perp[near];
         ray.par[s] = at.par[near];
-        for (let a = 0; a < arcs; a++) ray.weight[a * size + s] = scale * densityAt(a, at.alpha[near]);
+        for (let a = 0; a < arcs; a++) {
+          const density = densityAt(a, at.alpha[near]);
+          ray.weight[a * size + s] = scale * density;
+          ray.live[a * size + s] = density > 0 ? 1 : 0;
+        }
       } else continue;
       ray.ok[s] = 1;
     }
@@ -533,8 +565,11 @@ function interpolateRays(
  * quarter in each of the four cells it is a corner of. A cell whose four corners left and lie within JOIN_THETA_DEG of
  * each other is spread as its two triangles (lib/bow/triangle-bins.ts), half its corners' quarters each; at the rim (or
  * the window's edge) a cell with three corners as their triangle, with two on a side along that side, the shares of the
- * corners it has; in any other cell each corner's quarter stays at its own Θ. A cell's shares of the bins are found
- * once for every place.
+ * corners it has; in any other cell each corner's quarter stays at its own Θ. For each place a cell has only the corners
+ * that place takes light from (RowRays.live: the tilts' density at their exit is above the cut; a ray's own weight may
+ * still be 0, as on the mirror plane's far side), so that a place's rows do not depend on which other places share the
+ * pass: a ray whose exits give one place no light is traced at every index in a pass with other places, and not in a
+ * pass for that place alone. A cell's shares of the bins are found once for the places with the same corners.
  */
 function depositCells(
   above: RowRays,
@@ -551,12 +586,13 @@ function depositCells(
   const toDeg = fromDeg + count * stepDeg;
   const arcs = rows.length;
   const slot = new Int32Array(4);
-  // The angles of the corners the cell has, in their order round it.
+  // The angles of a place's corners, in their order round the cell.
   const t = new Float64Array(4);
   const quarterPerp = new Float64Array(4);
   const quarterPar = new Float64Array(4);
   const shareA = new TriangleShares(count);
   const shareB = new TriangleShares(count);
+  const raysOf = (c: number): RowRays => (c < 2 ? above : below);
   for (let d = 0; d < D; d++) {
     for (let p = 0; p < ORDERS; p++) {
       const first = (d * ORDERS + p) * cells;
@@ -568,51 +604,60 @@ function depositCells(
         slot[1] = iu + 1 < cells && above.ok[right] ? right : -1;
         slot[2] = iu + 1 < cells && below.ok[right] ? right : -1;
         slot[3] = iu >= 0 && below.ok[left] ? left : -1;
+        if (slot[0] < 0 && slot[1] < 0 && slot[2] < 0 && slot[3] < 0) continue;
         // For one place, cells it takes no light from (corners all weighed 0) are passed over first; for several, the
         // test cost more than it saved (9 places, 2 mm drops, 41 wavelengths: 11.5–12.2 s against 9.6–9.8 s of CPU).
         if (arcs === 1) {
           let weighed = false;
-          for (let c = 0; c < 4; c++) if (slot[c] >= 0 && (c < 2 ? above : below).weight[slot[c]] > 0) weighed = true;
+          for (let c = 0; c < 4; c++) if (slot[c] >= 0 && raysOf(c).weight[slot[c]] > 0) weighed = true;
           if (!weighed) continue;
         }
-        let present = 0;
-        for (let c = 0; c < 4; c++) if (slot[c] >= 0) t[present++] = (c < 2 ? above : below).theta[slot[c]];
         let lo = Infinity;
         let hi = -Infinity;
-        for (let k = 0; k < present; k++) {
-          lo = Math.min(lo, t[k]);
-          hi = Math.max(hi, t[k]);
+        for (let c = 0; c < 4; c++) {
+          if (slot[c] < 0) continue;
+          const theta = raysOf(c).theta[slot[c]];
+          lo = Math.min(lo, theta);
+          hi = Math.max(hi, theta);
         }
         if (hi < fromDeg - JOIN_THETA_DEG || lo > toDeg + JOIN_THETA_DEG) continue;
-        // Two corners are spread only along a side (one of corners 0 and 2 with one of 1 and 3); a whole cell as the
-        // triangles (t0, t1, t2) and (t0, t2, t3), three corners as theirs.
-        const opposite = present === 2 && (slot[0] < 0) === (slot[2] < 0);
-        const shape = hi - lo >= JOIN_THETA_DEG || present === 1 || opposite ? "points" : present === 2 ? "side" : present === 3 ? "triangle" : "cell";
-        const half = shape === "cell" ? 0.5 : 1;
-        if (arcs > 1) {
-          shareA.reset();
-          shareB.reset();
-        }
+        // The corners (bits 0–3) whose shares were last found.
+        let sharesMask = -1;
         for (let a = 0; a < arcs; a++) {
+          let mask = 0;
+          for (let c = 0; c < 4; c++) if (slot[c] >= 0 && raysOf(c).live[a * size + slot[c]]) mask |= 1 << c;
+          if (mask === 0) continue;
           let ePerp = 0;
           let ePar = 0;
+          let present = 0;
+          let tLo = Infinity;
+          let tHi = -Infinity;
           for (let c = 0; c < 4; c++) {
             quarterPerp[c] = 0;
             quarterPar[c] = 0;
-            if (slot[c] < 0) continue;
-            const rays = c < 2 ? above : below;
+            if (!(mask & (1 << c))) continue;
+            const rays = raysOf(c);
             const w = 0.25 * rays.weight[a * size + slot[c]];
             quarterPerp[c] = w * rays.perp[slot[c]];
             quarterPar[c] = w * rays.par[slot[c]];
             ePerp += quarterPerp[c];
             ePar += quarterPar[c];
+            const theta = rays.theta[slot[c]];
+            t[present++] = theta;
+            tLo = Math.min(tLo, theta);
+            tHi = Math.max(tHi, theta);
           }
           if (ePerp === 0 && ePar === 0) continue;
+          // Two corners are spread only along a side (one of corners 0 and 2 with one of 1 and 3); a whole cell as the
+          // triangles (t0, t1, t2) and (t0, t2, t3), three corners as theirs.
+          const opposite = present === 2 && !(mask & 1) === !(mask & 4);
+          const shape = tHi - tLo >= JOIN_THETA_DEG || present === 1 || opposite ? "points" : present === 2 ? "side" : present === 3 ? "triangle" : "cell";
+          const half = shape === "cell" ? 0.5 : 1;
           const { perp, par } = rows[a][d * classes + (classes === 1 ? 0 : orderClass(p))];
           if (shape === "points") {
             for (let c = 0; c < 4; c++) {
-              if (slot[c] < 0) continue;
-              const theta = (c < 2 ? above : below).theta[slot[c]];
+              if (!(mask & (1 << c))) continue;
+              const theta = raysOf(c).theta[slot[c]];
               depositOverInterval(perp, quarterPerp[c], theta, theta, fromDeg, stepDeg);
               depositOverInterval(par, quarterPar[c], theta, theta, fromDeg, stepDeg);
             }
@@ -625,10 +670,14 @@ function depositCells(
             depositOverTriangle(perp, half * ePerp, par, half * ePar, t[0], t[1], t[2], fromDeg, stepDeg);
             if (shape === "cell") depositOverTriangle(perp, half * ePerp, par, half * ePar, t[0], t[2], t[3], fromDeg, stepDeg);
           } else {
-            // The triangles' shares found once for every place, added as depositOverTriangle adds them (the same bits).
-            if (!shareA.ready) {
+            // The triangles' shares found once for the places with these corners, added as depositOverTriangle adds
+            // them (the same bits).
+            if (mask !== sharesMask) {
+              shareA.reset();
+              shareB.reset();
               shareA.find(t[0], t[1], t[2], fromDeg, stepDeg);
               if (shape === "cell") shareB.find(t[0], t[2], t[3], fromDeg, stepDeg);
+              sharesMask = mask;
             }
             shareA.addTo(perp, half * ePerp, par, half * ePar);
             if (shape === "cell") shareB.addTo(perp, half * ePerp, par, half * ePar);

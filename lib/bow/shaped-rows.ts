@@ -107,7 +107,7 @@ export interface ShapedRowSpec {
    */
   siblingArcsDeg?: readonly number[];
   /** Benchmarks only: the rotation's pupil step, density of elevations and draw of grid turns (RotationSetup.grid). */
-  rotationGrid?: { pupilStep: number; elevationsPerSd: number; draw?: number };
+  rotationGrid?: { pupilStep: number; elevationsPerSd: number; draw?: number; growthCap?: number };
 }
 
 /**
@@ -152,7 +152,12 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
 }
 
 /**
- * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (22: the canting mean by
+ * Version of the flattened-drop engine's numbers, in its rows' cache keys: raised when they change (23: the canting mean by
+ * rotation's pupil step is 0.017 at the tilts' mode and grows as e^{z²/8} to twice that at elevations z·σ away from it
+ * (canting-rotation.ts rotationPupilStep), where engine 22 took 0.02 everywhere: Marshall–Palmer 25 mm/h cold in 0.80–0.82
+ * of the time, its sampling noise 0.14–0.24 ΔE2000 between draws instead of 0.29–0.31; and each place's pupil cells keep
+ * only the corners it takes light from, so that its rows are the same bits in a pass with other places (the coarser
+ * outer grids broke that), which moves rows by at most 2.6e-4 of their peak; 22: the canting mean by
  * rotation spreads its primary's and secondary's light by the folds' Airy kernels (lib/bow/airy-spread.ts), the bows'
  * wave structure restored, each fold's width from its place's plane: monodisperse 1.5 mm drops move by ΔE2000 up to 0.44 at
  * the top of the bow and 0.85 at its side, 2 mm drops canted 2° by 0.77 at arc 45°, Marshall–Palmer 25 mm/h by 0.03–0.07; 21: the canting mean
@@ -194,12 +199,12 @@ export function quantiseSpec(spec: ShapedRowSpec): ShapedRowSpec {
  * relative), so that only these rows are recomputed, not every kernel row. Rows on shape nodes (deformationStep) carry
  * the step in their key.
  */
-export const SHAPED_ENGINE_VERSION = 22;
+export const SHAPED_ENGINE_VERSION = 23;
 
 /** The part of a kernel row's cache key that tells what shape and geometry it was computed for. */
 export function shapedRowKey(spec: ShapedRowSpec): string {
   const shape = spec.kind === "spheroid" ? `q${spec.axisRatio}` : spec.deformationStep ? `eq${spec.deformationStep}` : "eq";
-  const direct = (spec.traceEveryIndex ? ":direct" : "") + (spec.rotationGrid ? `:grid${spec.rotationGrid.pupilStep}/${spec.rotationGrid.elevationsPerSd}/${spec.rotationGrid.draw ?? 0}` : "");
+  const direct = (spec.traceEveryIndex ? ":direct" : "") + (spec.rotationGrid ? `:grid${spec.rotationGrid.pupilStep}/${spec.rotationGrid.elevationsPerSd}/${spec.rotationGrid.draw ?? 0}${spec.rotationGrid.growthCap === undefined ? "" : `/${spec.rotationGrid.growthCap}`}` : "");
   const span = spec.indexSpan ? `:n${spec.indexSpan.min}-${spec.indexSpan.max}` : "";
   // A group's share is not a row: it never shares a key with one.
   const group = spec.orderGroup === undefined ? "" : `:g${spec.orderGroup}`;

@@ -4,7 +4,8 @@
 import { describe, expect, it } from "vitest";
 import { tiltDensity, tiltsOf } from "../../../lib/drops/shape/tilt-density.js";
 import { cantedAxis } from "../../../lib/rays/bow-geometry.js";
-import { rotationCantingRows, rotationCantingRowsAlong } from "../../../lib/bow/canting-rotation.js";
+import { rotationCantingRows, rotationCantingRowsAlong, rotationElevationsDeg, rotationPupilStep } from "../../../lib/bow/canting-rotation.js";
+import { planeTraceCount } from "../../../lib/rays/plane-sweep.js";
 import { spheroidOutline } from "../../../lib/drops/shape/outline.js";
 import { equilibriumOutline } from "../../../lib/drops/shape/equilibrium-shape.js";
 import { rayOpticsBins } from "../../../lib/bow/ray-bins.js";
@@ -50,7 +51,7 @@ describe("the canting mean by rotation", () => {
     // Measured: ⟂ within 0.055 of its peak (0.031 summed), ∥ within 0.101 of its own peak, 20 times below the ⟂ one
     // near the bow (0.051 summed), sums over the window within 0.7 % and 0.6 %; the worst is at Descartes' angle,
     // where the spread over pupil cells, linear across each, cannot reach the fold's minimum Θ between its corners
-    // (a bias of order Θ''·du²; ROTATION_PUPIL_STEP 0.02). Cells near the rim spread linearly move light across the
+    // (a bias of order Θ''·du²; ROTATION_PUPIL_STEP 0.017 at the tilts' mode, rotationPupilStep). Cells near the rim spread linearly move light across the
     // window's edges (JOIN_THETA_DEG): the whole power over 0–180° is kept within 0.2 % (below).
     const thetaDeg = Float64Array.from({ length: 400 }, (_, j) => 110.05 + 0.1 * j);
     const n = 1.3345;
@@ -76,7 +77,8 @@ describe("the canting mean by rotation", () => {
 
   it("of spheres, with the bows' wave structure, is Airy's theory of the rainbow (Airy 1838; Wang & van de Hulst 1991) after the sun's disc", () => {
     // Against the sphere's airy engine (lib/bow/airy-bins.ts), 1 mm drops at 550 nm, on a pupil grid fine enough that
-    // the rotation's own fold bias (of order Θ''·du², largest at the secondary's fold near the rim) is small: measured
+    // the rotation's own fold bias (of order Θ''·du², largest at the secondary's fold near the rim) is small (0.01 at
+    // every elevation: with the service's growth away from the tilts' mode, 0.023 / 0.081 and rays 0.095 / 0.279): measured
     // worst 0.017 / 0.058 of each bow's own peak (primary / secondary), where ray optics alone gives 0.099 / 0.299.
     const step = 0.05;
     const count = 700;
@@ -91,7 +93,7 @@ describe("the canting mean by rotation", () => {
     const reference = convolveProfile(perp.map((v, j) => v + par[j]), sun);
     const bin = (deg: number) => Math.round((deg - 118) / step);
     const figures = (rayOnly: boolean) => {
-      const setup = { outline: spheroidOutline(1), sunElevationDeg: 10, cantingSdDeg: 7.5, arcPositionDeg: 45, indexSpan: SPAN, rayOnly, grid: { pupilStep: 0.01, elevationsPerSd: 1 } };
+      const setup = { outline: spheroidOutline(1), sunElevationDeg: 10, cantingSdDeg: 7.5, arcPositionDeg: 45, indexSpan: SPAN, rayOnly, grid: { pupilStep: 0.01, elevationsPerSd: 1, growthCap: 1 } };
       const [row] = rotationCantingRows(setup, [{ mRe: n, x }], thetaDeg, step);
       const total = convolveProfile(row.perp.map((v, j) => v + row.par[j]), sun);
       return { primary: rowErrors(total, reference, bin(134), bin(145)), secondary: rowErrors(total, reference, bin(124), bin(131)) };
@@ -107,7 +109,7 @@ describe("the canting mean by rotation", () => {
   it("of 2 mm equilibrium drops at the top of the bow meets brute force over the pupil, which no grid of this engine enters", () => {
     // Ray optics alone on both sides. Brute force: every ray of a square grid over the upright drop's pupil binned as a point, each weighed by the
     // tilts' density at the arc position it leaves at (bench/canting-pupil.ts), on a grid of its own (pupil step
-    // 0.008, elevations 1° apart). Measured: worst 0.047 of the peak, 0.016 summed, sums within 1e-3 (against the finer
+    // 0.008, elevations 1° apart). Measured: worst 0.044 of the peak, 0.014 summed, sums within 3e-3 (engine 22's uniform pupil step 0.02: 0.047 / 0.016, within 1e-3) (against the finer
     // reference of BENCHMARKS.md canting-splat, pupil step 0.005: 0.097 / 0.021); the banded canting rule, which served
     // these drops before, gave 0.596 / 0.251 there.
     const step = 0.05;
@@ -127,6 +129,26 @@ describe("the canting mean by rotation", () => {
     expect(figures.summed).toBeLessThan(0.03);
     expect(Math.abs(figures.ratio - 1)).toBeLessThan(0.01);
   }, 300_000);
+
+  it("traces the elevations away from the tilts' mode on pupils coarser by e^{z²/8}, at most twice the mode's step", () => {
+    // rotationPupilStep: du ∝ w^(−1/4) for the Gaussian weight w ∝ e^{−z²/2} of each elevation (derived in
+    // canting-rotation.ts). The rays a pass traces follow the pupil's area over du² at each elevation: counted against
+    // the same pass with one step everywhere (growthCap 1), the ratio is the mean of (du/du_z)² over the elevations.
+    expect(rotationPupilStep(0.02, 0)).toBe(0.02);
+    expect(rotationPupilStep(0.02, -2)).toBeCloseTo(0.02 * Math.exp(0.5), 12);
+    expect(rotationPupilStep(0.02, 3)).toBe(0.04);
+    const thetaDeg = Float64Array.from({ length: 200 }, (_, j) => 120.05 + 0.1 * j);
+    const traces = (growthCap?: number) => {
+      const before = planeTraceCount.traces;
+      const grid = { pupilStep: 0.03, elevationsPerSd: 2, ...(growthCap === undefined ? {} : { growthCap }) };
+      rotationCantingRows({ outline: equilibriumOutline(1500), sunElevationDeg: 10, cantingSdDeg: 7.5, arcPositionDeg: 45, indexSpan: SPAN, rayOnly: true, grid }, [{ mRe: 1.3345, x: 1.7e4 }], thetaDeg, 0.1);
+      return planeTraceCount.traces - before;
+    };
+    const expected = rotationElevationsDeg(7.5, undefined, 2).reduce((sum, { offsetDeg }) => sum + (0.03 / rotationPupilStep(0.03, offsetDeg / 7.5)) ** 2, 0) / rotationElevationsDeg(7.5, undefined, 2).length;
+    const ratio = traces() / traces(1);
+    expect(expected).toBeLessThan(0.65);
+    expect(Math.abs(ratio / expected - 1)).toBeLessThan(0.1);
+  }, 120_000);
 
   it("traces at one index only the rays that give the place asked for no light, and loses nothing by it", () => {
     // Against the same pass with places all round the bow asked for, where every exit α is live and every ray is traced
