@@ -123,9 +123,9 @@ export const ROTATION_INDEX_NODES = 4;
 export const ROTATION_MIN_CANTING_SD_DEG = 2;
 /**
  * How far the pupil step may grow at elevations away from the tilts' mode (rotationPupilStep): twice ROTATION_PUPIL_STEP.
- * At one wavelength against brute force (as above, issue 13's notes) caps of 2 and 3 gave the same errors within the
- * grids' own scatter, 3 saving 4–10 % more CPU; 2 keeps the outermost elevations' cells as fine as the uniform grid's
- * 0.034 of engine 20.
+ * At one wavelength against brute force (as above, pupil step 0.02 at the mode; issue 13's notes) caps of 2 and 3 gave
+ * the same errors within the grids' own scatter, 3 saving 4–10 % more CPU; the smaller cap keeps fewer rim cells past
+ * JOIN_THETA_DEG, where they are left as points.
  */
 export const ROTATION_STEP_GROWTH_CAP = 2;
 
@@ -133,7 +133,7 @@ export const ROTATION_STEP_GROWTH_CAP = 2;
  * The pupil step at an elevation z·σ from the tilts' mode: du·min(cap, e^{z²/8}). Each elevation's rays enter the mean
  * weighed by the tilts' Gaussian mass there, w ∝ e^{−z²/2}; a grid's error at one elevation grows as du² (the cells' fold
  * bias, of order Θ''·du²) and its rays as 1/du², so the fewest rays for a given Σ w·du² take du ∝ w^{−1/4} = e^{z²/8}
- * (a Lagrange multiplier; derived here, common practice in stratified sampling). Measured on Marshall–Palmer 25 mm/h
+ * (a Lagrange multiplier; derived here). Measured on Marshall–Palmer 25 mm/h
  * with equilibrium shapes (canting 7.5°, 380–780 nm every 20 nm, ψ 30–60°; issue 13's notes, 2026-12-05): with
  * ROTATION_PUPIL_STEP 0.017 growing to 0.034 against the uniform 0.02 of engine 22, the whole cold profile 0.82× (sun
  * 10°, top of the bow) and 0.80× (sun 30°, side) of the time, two draws of the grids' turns ΔE2000 0.138 / 0.235 apart
@@ -693,7 +693,6 @@ class TriangleShares {
   readonly values: Float64Array;
   from = 0;
   to = -1;
-  ready = false;
   constructor(count: number) {
     this.values = new Float64Array(count);
   }
@@ -701,13 +700,11 @@ class TriangleShares {
     for (let j = this.from; j <= this.to; j++) this.values[j] = 0;
     this.from = 0;
     this.to = -1;
-    this.ready = false;
   }
   find(a: number, b: number, c: number, firstEdgeDeg: number, stepDeg: number): void {
     this.from = Math.max(0, Math.floor((Math.min(a, b, c) - firstEdgeDeg) / stepDeg));
     this.to = Math.min(this.values.length - 1, Math.floor((Math.max(a, b, c) - firstEdgeDeg) / stepDeg));
     depositOverTriangle(this.values, 1, this.values, 0, a, b, c, firstEdgeDeg, stepDeg);
-    this.ready = true;
   }
   /** As depositOverTriangle(perp, ePerp, par, ePar, …) of this triangle adds. */
   addTo(perp: Float64Array, ePerp: number, par: Float64Array, ePar: number): void {

@@ -48,11 +48,12 @@ describe("the canting mean by rotation", () => {
   const disc = sunDiscKernel(SUN_MEAN_ANGULAR_DIAMETER_DEG, 0.1);
 
   it("of spheres, as ray optics alone, is the sphere's ray optics whatever the tilts: |S1|², |S2|² of orders 0–3 (van de Hulst 1957 §12.2) after the sun's disc", () => {
-    // Measured: ⟂ within 0.055 of its peak (0.031 summed), ∥ within 0.101 of its own peak, 20 times below the ⟂ one
+    // Measured: ⟂ within 0.054 of its peak (0.026 summed; engine 22's uniform pupil step 0.02: 0.055 / 0.031), ∥ within 0.101 of its own peak, 20 times below the ⟂ one
     // near the bow (0.051 summed), sums over the window within 0.7 % and 0.6 %; the worst is at Descartes' angle,
     // where the spread over pupil cells, linear across each, cannot reach the fold's minimum Θ between its corners
-    // (a bias of order Θ''·du²; ROTATION_PUPIL_STEP 0.017 at the tilts' mode, rotationPupilStep). Cells near the rim spread linearly move light across the
-    // window's edges (JOIN_THETA_DEG): the whole power over 0–180° is kept within 0.2 % (below).
+    // (a bias of order Θ''·du²; ROTATION_PUPIL_STEP 0.017 at the tilts' mode, growing away from it: rotationPupilStep).
+    // Cells near the rim spread linearly move light across the window's edges (JOIN_THETA_DEG): the whole power over
+    // 0–180° is kept within 0.2 % (below).
     const thetaDeg = Float64Array.from({ length: 400 }, (_, j) => 110.05 + 0.1 * j);
     const n = 1.3345;
     const x = 1000;
@@ -109,8 +110,9 @@ describe("the canting mean by rotation", () => {
   it("of 2 mm equilibrium drops at the top of the bow meets brute force over the pupil, which no grid of this engine enters", () => {
     // Ray optics alone on both sides. Brute force: every ray of a square grid over the upright drop's pupil binned as a point, each weighed by the
     // tilts' density at the arc position it leaves at (bench/canting-pupil.ts), on a grid of its own (pupil step
-    // 0.008, elevations 1° apart). Measured: worst 0.044 of the peak, 0.014 summed, sums within 3e-3 (engine 22's uniform pupil step 0.02: 0.047 / 0.016, within 1e-3) (against the finer
-    // reference of BENCHMARKS.md canting-splat, pupil step 0.005: 0.097 / 0.021); the banded canting rule, which served
+    // 0.008, elevations 1° apart). Measured: worst 0.044 of the peak, 0.014 summed, sums within 3e-3
+    // (engine 22's uniform pupil step 0.02: 0.047 / 0.016, within 1e-3; against the finer reference of BENCHMARKS.md
+    // canting-splat, pupil step 0.005: 0.062 / 0.017, engine 22 0.074 / 0.017); the banded canting rule, which served
     // these drops before, gave 0.596 / 0.251 there.
     const step = 0.05;
     const thetaDeg = Float64Array.from({ length: 700 }, (_, j) => 118.025 + step * j);
