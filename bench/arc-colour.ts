@@ -8,7 +8,8 @@
 //   spectra (XYZ is linear in the spectrum: the mean of their XYZ), and the error is that mean against either.
 // - Blend: the peak-aligned blend of the profiles at two arc nodes, at the arc position half-way between them, against
 //   the profile computed there (and the plain blend beside it, no peak alignment).
-// To stay within minutes on a shared 2-core machine: no canting (sharper bows than the default 7.5°: the harder case),
+// To stay within minutes on a shared 2-core machine: no canting (sharper bows than the default 7.5°: the harder case;
+// ARC_COLOUR_CANTING=7.5 for the service's default, the arc-colour-canted section),
 // 20 radius nodes per decade (ProfileResolution.nodesPerDecade), 380–780 nm every 20 nm, ψ 30–56° at 0.05°.
 // node dist/bench/arc-colour.js [--write]   (--write: the arc-colour section of BENCHMARKS.md)
 
@@ -36,6 +37,8 @@ const SCENE = {
   output: { normalise: "physical" },
 };
 const RATES_MM_PER_H = (process.env.ARC_COLOUR_RATES ?? "2,25").split(",").map(Number);
+/** ARC_COLOUR_CANTING=7.5: the drops canted as the service's default (the arc-colour-canted section); 0, the default: none. */
+const CANTING_SD_DEG = Number(process.env.ARC_COLOUR_CANTING ?? 0);
 
 export interface ArcColourRow {
   shower: string;
@@ -80,7 +83,7 @@ export async function benchArcColour(): Promise<{ rows: ArcColourRow[]; seconds:
         computeProfile(
           profileRequestSchema.parse({
             ...SCENE,
-            drops: { kind: "marshall-palmer", rainRateMmPerH: rate, shape: { kind: "equilibrium", cantingSdDeg: 0 } },
+            drops: { kind: "marshall-palmer", rainRateMmPerH: rate, shape: { kind: "equilibrium", cantingSdDeg: CANTING_SD_DEG } },
             arcPositionDeg,
             // Sunlight as measured at the ground: its colour does not follow the elevation, so that only the rows do.
             sun: { elevationDeg, spectrum: { kind: "cie-d65" } },
@@ -124,12 +127,13 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? "").href) {
   const load = loadavg()[0];
   const { rows, seconds } = await benchArcColour();
   if (process.argv.includes("--write")) {
-    writeMarkedSection("arc-colour", [
-      "## Flattened drops: the arc blend and the cache's rounding on whole showers, in colour",
+    const canted = CANTING_SD_DEG > 0;
+    writeMarkedSection(canted ? "arc-colour-canted" : "arc-colour", [
+      `## Flattened drops: the arc blend and the cache's rounding on whole showers, in colour${canted ? ` (canting ${CANTING_SD_DEG}°)` : ""}`,
       "",
-      `Written by \`npm run bench:arc-colour\` (bench/arc-colour.ts), ${benchDate()}; ${machineLine()}; 2 worker threads; one-minute`,
-      `load average ${load.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end; ${seconds.toFixed(0)} s in all. Equilibrium shapes without canting (sharper`,
-      `bows than the default 7.5°), ${NODES_PER_DECADE} radius nodes per decade, 380–780 nm every 20 nm, ψ ${SCENE.angles.fromDeg}–${SCENE.angles.toDeg}° at ${SCENE.angles.stepDeg}°, sun ${SUN_DEG}° with CIE D65 light (a spectrum at the ground, whose colour does not follow the elevation: only the rows do). CIEDE2000 per`,
+      `Written by \`${canted ? `ARC_COLOUR_CANTING=${CANTING_SD_DEG} ` : ""}npm run bench:arc-colour\` (bench/arc-colour.ts), ${benchDate()}; ${machineLine()}; 2 worker threads; one-minute`,
+      `load average ${load.toFixed(1)} at the start, ${loadavg()[0].toFixed(1)} at the end; ${seconds.toFixed(0)} s in all. Equilibrium shapes ${canted ? `canted by ${CANTING_SD_DEG}° (the service's default)` : "without canting (sharper bows than the default 7.5°)"},`,
+      `${NODES_PER_DECADE} radius nodes per decade, 380–780 nm every 20 nm, ψ ${SCENE.angles.fromDeg}–${SCENE.angles.toDeg}° at ${SCENE.angles.stepDeg}°, sun ${SUN_DEG}° with CIE D65 light (a spectrum at the ground, whose colour does not follow the elevation: only the rows do). CIEDE2000 per`,
       "angle on XYZ scaled by the reference's peak Y. Rounding rows: a request half a step away is served the lattice point's",
       "rows; the truth there is taken as the mean of the two neighbouring lattice points' spectra. Blend rows: the views' blend",
       `of two arc nodes ${ARC_NODE_STEP_DEG}° apart (the views' spacing) and half that, half-way between them, against the profile computed there.`,
