@@ -41,7 +41,9 @@ export const EQUILIBRIUM_NOTE =
  * equilibrium shapes, no canting, D65 light, ψ 36–56°: bench/arc-colour.ts, BENCHMARKS.md arc-colour) half an arc
  * step of 0.5° cost 1.33 worst, 0.18 mean: the arc step is 0.125°. Over ψ 30–56° half a step still costs 0.97 (arc)
  * and 1.34 (sun) at worst on 2 mm/h, 4.0 and 4.0 on 25 mm/h, near ψ 35° where those showers' luminance moves by 7 %
- * per 0.25° of elevation; 0.07–0.23 on average: not below 0.5 at worst. The finer arc step costs no work: a request's rows are
+ * per 0.25° of elevation; 0.07–0.23 on average: not below 0.5 at worst without canting. With the drops canted by the
+ * default 7.5° (BENCHMARKS.md arc-colour-canted, engine 23) half a step costs 0.09–0.13 (sun) and 0.06–0.07 (arc) at
+ * worst on both showers, below 0.5. The finer arc step costs no work: a request's rows are
  * one arc position's either way, and views take theirs at nodes 5° apart (pipeline/compute/arc-nodes.ts), on the
  * lattice; profile requests share rows only within 0.0625° of arc position instead of 0.25°.
  */
