@@ -26,6 +26,7 @@ import type { CellAverage } from "../../lib/bow/cell-average.js";
 import type { WavelengthGrid } from "../../lib/spectra/grid.js";
 import { ClientError } from "../requests/client-error.js";
 import { planDropShapes, shapedCostTermAngles } from "./drop-shape-plan.js";
+import { flattenedBowNotes } from "./flattened-bow-notes.js";
 import type { Bows, EngineRange, ProfileMeta } from "../../schemas/responses/profile-response.js";
 import type { ProgressMeter } from "../progress/progress-meter.js";
 import { kernelWorkNs, laterWorkNs } from "../progress/profile-work.js";
@@ -521,6 +522,7 @@ export async function computeProfile(
   progress?.complete("colour");
 
   const warnings = profileWarnings(plan, light);
+  if (shapePlan.flattened) warnings.push(...flattenedBowNotes(bows, request.angles.fromDeg, request.angles.toDeg));
   const engineRanges = summariseEngines(quadrature.radiiUm, engine);
 
   const meta: ProfileMeta = {
