@@ -274,8 +274,12 @@ export function rotationCantingRowsAlong(
   const draw = setup.grid?.draw ?? 0;
   // Per node and order, the last traced ray; per drop, order and pupil sample along u, the row of rays.
   const at = { theta: new Float64Array(K * ORDERS), alpha: new Float64Array(K * ORDERS), perp: new Float64Array(K * ORDERS), par: new Float64Array(K * ORDERS), ok: new Uint8Array(K * ORDERS), unwrapped: new Float64Array(K), density: new Float64Array(arcs * K) };
-  // The rays of this row of the pupil and of the row before (cells between them are spread as two triangles each).
-  const rowRays = (size: number): RowRays => ({ theta: new Float64Array(size), weight: new Float64Array(arcs * size), live: new Uint8Array(arcs * size), perp: new Float64Array(size), par: new Float64Array(size), alpha: new Float64Array(size), ok: new Uint8Array(size) });
+  // The rays of this row of the pupil and of the row before (cells between them are spread as two triangles each), made
+  // once for the finest elevation's grid (the mode's step: rotationPupilStep never makes it finer) and reused by the rest.
+  const widest = D * ORDERS * Math.ceil((2 * reach) / duAtMode);
+  const rowRays = (): RowRays => ({ theta: new Float64Array(widest), weight: new Float64Array(arcs * widest), live: new Uint8Array(arcs * widest), perp: new Float64Array(widest), par: new Float64Array(widest), alpha: new Float64Array(widest), ok: new Uint8Array(widest) });
+  let ray = rowRays();
+  let before = rowRays();
   const density = new Float64Array(Math.round(360 / AZIMUTH_STEP_DEG) + 2);
   const lo = fromDeg - JOIN_THETA_DEG;
   const hi = fromDeg + count * stepDeg + JOIN_THETA_DEG;
@@ -285,8 +289,6 @@ export function rotationCantingRowsAlong(
     const du = rotationPupilStep(duAtMode, offsetDeg / cantingSdDeg, growthCap);
     const cells = Math.ceil((2 * reach) / du);
     const size = D * ORDERS * cells;
-    let ray = rowRays(size);
-    let before = rowRays(size);
     // Each elevation's pupil grid turned by the golden angle and shifted by the R2 sequence from the one before, so that
     // the combs a square grid leaves where the rays of one grid line fold over in Θ fall elsewhere at each elevation
     // and average out (for a sphere every elevation sees the same drop, and an unturned grid left a comb 1.7° apart
